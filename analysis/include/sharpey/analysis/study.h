@@ -1,0 +1,126 @@
+// Clinical analyses shared by the batch command and the desktop app (no Qt, no VTK).
+//
+// A Study holds one solved model per bone-level scenario of a case: its mesh, one CHOLMOD
+// factorisation and six unit load cases at the bracket. Evaluating a force system is then a
+// linear combination (milliseconds), so the app can update while a slider moves.
+#pragma once
+
+#include <atomic>
+#include <functional>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "sharpey/analysis/case_spec.h"
+#include "sharpey/fem/elasticity.h"
+#include "sharpey/mesh/tooth_model.h"
+
+namespace sharpey::analysis {
+
+// Centre of resistance for forces along one direction (labiolingual x or mesiodistal y).
+struct CentreOfResistance {
+  Eigen::Vector3d point = Eigen::Vector3d::Zero();  // on the long axis, tooth coordinates, mm
+  double from_crest_mm = 0;        // apical distance from the alveolar crest
+  double from_cej_mm = 0;          // apical distance from the CEJ
+  double fraction_embedded = 0;    // from_crest_mm / embedded root length
+};
+
+// Everything that depends on one scenario's geometry but not on the load.
+class ScenarioSolution {
+ public:
+  ScenarioSolution(const CaseSpec& spec, int scenario_index,
+                   const std::function<void(const std::string& stage, double fraction)>& progress,
+                   const std::atomic<bool>* cancel);
+  const Scenario& scenario() const { return scenario_; }
+  const mesh::ToothModel& model() const { return model_; }
+  const fem::MaterialTable& materials() const { return materials_; }
+  const fem::LinearElasticSolver& solver() const { return *solver_; }
+  const fem::UnitLoadBasis& basis() const { return *basis_; }
+  const CentreOfResistance& cres_labiolingual() const { return cres_x_; }
+  const CentreOfResistance& cres_mesiodistal() const { return cres_y_; }
+  const std::vector<int>& pdl_nodes() const;  // global node ids of the PDL region
+
+ private:
+  Scenario scenario_;
+  mesh::ToothModel model_;
+  fem::MaterialTable materials_;
+  std::unique_ptr<fem::LinearElasticSolver> solver_;
+  std::unique_ptr<fem::UnitLoadBasis> basis_;
+  CentreOfResistance cres_x_, cres_y_;
+};
+
+// A force system resolved to a force and a couple at the bracket centre.
+struct ResolvedLoad {
+  Eigen::Vector3d force_n = Eigen::Vector3d::Zero();
+  Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // about the bracket centre
+  Eigen::Vector3d application_point = Eigen::Vector3d::Zero();
+  double moment_to_force_mm = 0;  // |couple component opposing tipping| / |F|
+};
+// Applies the load spec (units, direction, bracket height, couple or ratio, movement preset).
+ResolvedLoad resolve_load(const LoadSpec& load, const ScenarioSolution& solution);
+
+// PDL pressure over the unwrapped root surface: angle around the long axis (degrees, 0 = labial,
+// 90 = mesial) by depth below the CEJ (mm). Cells with no PDL (above the crest) are NaN.
+struct RootMap {
+  int n_angle = 0, n_depth = 0;
+  double depth_min_mm = 0, depth_max_mm = 0;
+  std::vector<double> pressure_kpa;  // n_depth rows * n_angle columns, row-major
+};
+
+struct ScenarioResult {
+  std::string name;
+  double bone_loss_mm = 0;
+  double attachment_area_mm2 = 0;
+  CentreOfResistance cres_labiolingual, cres_mesiodistal;
+  double mf_translation_mm = 0;  // moment-to-force ratio at the bracket for translation
+  ResolvedLoad load;
+  Eigen::Vector3d centre_of_rotation = Eigen::Vector3d::Zero();  // on the long axis, mm
+  double pressure_max_compression_kpa = 0;
+  double pressure_max_tension_kpa = 0;  // positive number: magnitude of the most tensile value
+  double pressure_p95_compression_kpa = 0;
+  double area_above_capillary_mm2 = 0, area_above_limit_mm2 = 0;
+  double max_principal_strain = 0, max_equivalent_strain = 0;
+  double max_von_mises_kpa = 0;
+  Eigen::Vector3d crown_tip_displacement_um = Eigen::Vector3d::Zero();
+  Eigen::Vector3d apex_displacement_um = Eigen::Vector3d::Zero();
+  Eigen::Vector3d rotation_deg = Eigen::Vector3d::Zero();  // rigid-body rotation of the tooth
+  // Same direction and moment-to-force ratio; -1 when no healthy reference scenario exists.
+  double equivalent_force_peak_g = -1;
+  double equivalent_force_p95_g = -1;
+  double equivalent_force_area_rule_g = -1;  // force x attachment area / healthy attachment area
+
+  // Per PDL node (same order as ScenarioSolution::pdl_nodes()).
+  std::vector<double> pressure_kpa, max_principal_strain_field, equivalent_strain_field,
+      von_mises_kpa;
+  Eigen::Matrix3Xd displacement_mm;  // 3 x all mesh nodes
+  RootMap root_map;
+};
+
+// Evaluates one scenario under `load`. `healthy` (may be null) is the reference for the
+// equivalent force. No new solve: superposition of the unit cases.
+ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
+                        const Thresholds& thresholds, const ScenarioSolution* healthy);
+
+// All scenarios of a case.
+class Study {
+ public:
+  // Meshes and solves every scenario. progress(stage, fraction in [0, 1]); cancel may be null.
+  // Throws InputError, MeshError, SolverError, Cancelled.
+  Study(CaseSpec spec,
+        const std::function<void(const std::string& stage, double fraction)>& progress = {},
+        const std::atomic<bool>* cancel = nullptr);
+  const CaseSpec& spec() const { return spec_; }
+  const std::vector<std::unique_ptr<ScenarioSolution>>& solutions() const { return solutions_; }
+  // Index of the healthy reference (least bone loss), used for the equivalent force.
+  int healthy_index() const;
+  std::vector<ScenarioResult> evaluate(const LoadSpec& load) const;
+
+ private:
+  CaseSpec spec_;
+  std::vector<std::unique_ptr<ScenarioSolution>> solutions_;
+};
+
+// The caution every output carries.
+const std::string& caution_text();
+
+}  // namespace sharpey::analysis
