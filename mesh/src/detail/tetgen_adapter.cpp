@@ -1,0 +1,326 @@
+// The only translation unit that includes tetgen.h: Plc -> tetgenio -> VolumeMesh.
+//
+// TetGen 1.5 built with TETLIBRARY reports failures by throwing an int from terminatetetgen()
+// (1 out of memory, 2 internal error, 3 self-intersection, 4 tiny feature, 5 close facets,
+// 10 input error); they are mapped to MeshError here. TetGen's own assertions cannot be caught,
+// so the PLC is checked for the mistakes that would reach them (indices, degenerate triangles,
+// non-finite coordinates) before TetGen sees it.
+#include <tetgen.h>
+
+#include <Eigen/Geometry>
+
+#include <algorithm>
+#include <array>
+#include <cmath>
+#include <cstdint>
+#include <iomanip>
+#include <limits>
+#include <new>
+#include <sstream>
+#include <string>
+#include <unordered_map>
+#include <vector>
+
+#include "sharpey/error.h"
+#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/mesh/second_order.h"
+#include "sharpey/mesh/tetrahedralize.h"
+#include "tetgen_terminate.h"
+
+namespace sharpey::mesh {
+namespace {
+
+constexpr const char* kStage = "tetrahedralising the PLC";
+
+std::string size_text(const Plc& plc) {
+  std::ostringstream s;
+  s << plc.points.size() << " points, " << plc.triangles.size() << " triangles, "
+    << plc.regions.size() << " region seeds, " << plc.holes.size() << " holes";
+  return s.str();
+}
+
+std::string tetgen_reason(int code) {
+  switch (code) {
+    case 1:
+      return "out of memory (the size bounds ask for too many elements; use coarser sizing)";
+    case 2:
+      return "TetGen internal error (often caused by nearly coincident or nearly intersecting "
+             "surfaces; change the geometry slightly or the sizing)";
+    case 3:
+      return "the input surfaces intersect each other (self-intersecting facets); the geometry "
+             "parameters produce overlapping surfaces";
+    case 4:
+      return "an input feature is too small relative to the model size (points or edges almost "
+             "coincide)";
+    case 5:
+      return "two input facets are too close to each other (nearly touching surfaces)";
+    case 10:
+      return "TetGen rejected the input (invalid switches or data)";
+    default:
+      return "TetGen stopped with unknown code " + std::to_string(code);
+  }
+}
+
+[[noreturn]] void fail(const Plc& plc, const std::string& what) {
+  throw MeshError(std::string(kStage) + ": " + what + " (input: " + size_text(plc) + ")");
+}
+
+void check_options(const TetgenOptions& o) {
+  if (!std::isfinite(o.radius_edge_ratio) ||
+      (o.radius_edge_ratio > 0 && o.radius_edge_ratio < 1.0)) {
+    throw InputError("radius_edge_ratio",
+                     "radius-edge ratio bound " + std::to_string(o.radius_edge_ratio) +
+                         " is below 1.0, which TetGen cannot reach; use 1.2 to 2.0 (or <= 0 to "
+                         "switch quality refinement off)");
+  }
+  if (!std::isfinite(o.min_dihedral_deg) || o.min_dihedral_deg < 0 || o.min_dihedral_deg > 18) {
+    throw InputError("min_dihedral_deg",
+                     "minimum dihedral angle bound " + std::to_string(o.min_dihedral_deg) +
+                         " deg is outside 0 to 18 deg, where TetGen terminates; use 5 to 15");
+  }
+  if (!std::isfinite(o.max_volume_mm3)) {
+    throw InputError("max_volume_mm3", "global volume bound is not a finite number");
+  }
+}
+
+void check_plc(const Plc& plc) {
+  const int n_points = static_cast<int>(plc.points.size());
+  if (n_points < 4 || plc.triangles.size() < 4) fail(plc, "fewer than 4 points or 4 triangles");
+  if (plc.triangle_marker.size() != plc.triangles.size()) {
+    fail(plc, "triangle_marker has " + std::to_string(plc.triangle_marker.size()) +
+                  " entries, one per triangle is required");
+  }
+  for (int i = 0; i < n_points; ++i) {
+    if (!plc.points[i].allFinite()) fail(plc, "point " + std::to_string(i) + " is not finite");
+  }
+  for (size_t t = 0; t < plc.triangles.size(); ++t) {
+    const auto& tri = plc.triangles[t];
+    for (int v : tri) {
+      if (v < 0 || v >= n_points) {
+        fail(plc, "triangle " + std::to_string(t) + " refers to point " + std::to_string(v) +
+                      ", valid indices are 0 to " + std::to_string(n_points - 1));
+      }
+    }
+    const Eigen::Vector3d& a = plc.points[tri[0]];
+    const Eigen::Vector3d n = (plc.points[tri[1]] - a).cross(plc.points[tri[2]] - a);
+    if (tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] || n.norm() == 0.0) {
+      fail(plc, "triangle " + std::to_string(t) + " is degenerate (zero area)");
+    }
+  }
+  if (plc.regions.empty()) fail(plc, "no region seed given; every region needs one");
+  for (size_t r = 0; r < plc.regions.size(); ++r) {
+    const auto& seed = plc.regions[r];
+    if (seed.region < 1) {
+      fail(plc, "region seed " + std::to_string(r) + " has region id " +
+                    std::to_string(seed.region) + "; ids must be >= 1");
+    }
+    if (!seed.point.allFinite() || !std::isfinite(seed.max_volume_mm3)) {
+      fail(plc, "region seed " + std::to_string(r) + " has a non-finite point or volume bound");
+    }
+  }
+  for (size_t h = 0; h < plc.holes.size(); ++h) {
+    if (!plc.holes[h].allFinite()) fail(plc, "hole point " + std::to_string(h) + " is not finite");
+  }
+}
+
+std::string switches(const Plc& plc, const TetgenOptions& o) {
+  std::ostringstream s;
+  s << std::setprecision(12);
+  s << "pzQA";  // PLC, zero-based indices, quiet, region attributes
+  if (o.radius_edge_ratio > 0) s << "q" << o.radius_edge_ratio << "/" << o.min_dihedral_deg;
+  const bool region_bounds = std::any_of(plc.regions.begin(), plc.regions.end(),
+                                         [](const Plc::RegionSeed& r) { return r.max_volume_mm3 > 0; });
+  if (region_bounds) s << "a";
+  if (o.max_volume_mm3 > 0) s << "a" << o.max_volume_mm3;
+  if (o.preserve_surface) s << "Y";
+  return s.str();
+}
+
+void fill_input(const Plc& plc, tetgenio& in) {
+  in.firstnumber = 0;
+  in.numberofpoints = static_cast<int>(plc.points.size());
+  in.pointlist = new REAL[plc.points.size() * 3];
+  for (size_t i = 0; i < plc.points.size(); ++i) {
+    for (int k = 0; k < 3; ++k) in.pointlist[3 * i + k] = plc.points[i][k];
+  }
+  in.numberoffacets = static_cast<int>(plc.triangles.size());
+  in.facetlist = new tetgenio::facet[plc.triangles.size()];
+  in.facetmarkerlist = new int[plc.triangles.size()];
+  for (size_t t = 0; t < plc.triangles.size(); ++t) {
+    tetgenio::facet& f = in.facetlist[t];
+    tetgenio::init(&f);
+    f.polygonlist = new tetgenio::polygon[1];
+    f.numberofpolygons = 1;
+    tetgenio::polygon& p = f.polygonlist[0];
+    tetgenio::init(&p);
+    p.vertexlist = new int[3];
+    p.numberofvertices = 3;
+    for (int k = 0; k < 3; ++k) p.vertexlist[k] = plc.triangles[t][k];
+    in.facetmarkerlist[t] = plc.triangle_marker[t];
+  }
+  in.numberofregions = static_cast<int>(plc.regions.size());
+  in.regionlist = new REAL[plc.regions.size() * 5];
+  for (size_t r = 0; r < plc.regions.size(); ++r) {
+    const auto& seed = plc.regions[r];
+    REAL* row = in.regionlist + 5 * r;
+    for (int k = 0; k < 3; ++k) row[k] = seed.point[k];
+    row[3] = seed.region;
+    row[4] = seed.max_volume_mm3 > 0 ? seed.max_volume_mm3 : -1.0;  // negative: no bound
+  }
+  if (!plc.holes.empty()) {
+    in.numberofholes = static_cast<int>(plc.holes.size());
+    in.holelist = new REAL[plc.holes.size() * 3];
+    for (size_t h = 0; h < plc.holes.size(); ++h) {
+      for (int k = 0; k < 3; ++k) in.holelist[3 * h + k] = plc.holes[h][k];
+    }
+  }
+}
+
+// Sorted vertex triple of a triangle, the key that finds a face from any element containing it.
+struct FaceKey {
+  std::array<int, 3> v;
+  FaceKey(int a, int b, int c) : v{a, b, c} { std::sort(v.begin(), v.end()); }
+  bool operator==(const FaceKey& o) const { return v == o.v; }
+};
+struct FaceKeyHash {
+  size_t operator()(const FaceKey& k) const {
+    std::uint64_t h = 1469598103934665603ull;  // FNV-1a over the three indices
+    for (int x : k.v) h = (h ^ static_cast<std::uint32_t>(x)) * 1099511628211ull;
+    return static_cast<size_t>(h);
+  }
+};
+
+double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
+  return (x[t[1]] - x[t[0]]).dot((x[t[2]] - x[t[0]]).cross(x[t[3]] - x[t[0]])) / 6.0;
+}
+
+// Converts TetGen's output to a linear VolumeMesh: compact nodes, positive volumes, region ids,
+// face markers and face orientation.
+VolumeMesh convert_output(const Plc& plc, const tetgenio& out) {
+  if (out.numberoftetrahedra <= 0) fail(plc, "TetGen produced no elements (is the surface closed?)");
+  if (out.numberofcorners != 4) fail(plc, "TetGen returned elements that are not 4-node");
+  if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
+    fail(plc, "TetGen returned no region attributes");
+  }
+  const int n_tets = out.numberoftetrahedra;
+  const int n_in_nodes = out.numberofpoints;
+
+  // Keep only nodes used by elements, in TetGen's order.
+  std::vector<int> new_index(static_cast<size_t>(n_in_nodes), -1);
+  for (int i = 0; i < 4 * n_tets; ++i) {
+    const int v = out.tetrahedronlist[i];
+    if (v < 0 || v >= n_in_nodes) fail(plc, "TetGen returned an element node out of range");
+    new_index[static_cast<size_t>(v)] = 0;
+  }
+  VolumeMesh mesh;
+  mesh.nodes_per_element = 4;
+  mesh.nodes_per_face = 3;
+  for (int v = 0; v < n_in_nodes; ++v) {
+    if (new_index[static_cast<size_t>(v)] < 0) continue;
+    new_index[static_cast<size_t>(v)] = mesh.n_nodes();
+    const REAL* p = out.pointlist + 3 * static_cast<size_t>(v);
+    mesh.nodes.emplace_back(p[0], p[1], p[2]);
+  }
+
+  std::vector<int> seeded;
+  for (const auto& seed : plc.regions) seeded.push_back(seed.region);
+  std::sort(seeded.begin(), seeded.end());
+
+  mesh.elements.resize(static_cast<size_t>(n_tets) * 4);
+  mesh.element_region.resize(static_cast<size_t>(n_tets));
+  int n_unseeded = 0;
+  for (int e = 0; e < n_tets; ++e) {
+    int* t = mesh.elements.data() + 4 * static_cast<size_t>(e);
+    for (int k = 0; k < 4; ++k) t[k] = new_index[static_cast<size_t>(out.tetrahedronlist[4 * e + k])];
+    if (signed_volume(mesh.nodes, t) < 0) std::swap(t[1], t[2]);
+    const double attr = out.tetrahedronattributelist[static_cast<size_t>(e) *
+                                                     out.numberoftetrahedronattributes];
+    const int region = static_cast<int>(std::lround(attr));
+    if (!std::binary_search(seeded.begin(), seeded.end(), region)) ++n_unseeded;
+    mesh.element_region[static_cast<size_t>(e)] = region;
+  }
+  if (n_unseeded > 0) {
+    fail(plc, std::to_string(n_unseeded) + " of " + std::to_string(n_tets) +
+                  " elements lie in no seeded region (a closed sub-volume has no region seed or "
+                  "hole point, or a seed lies outside its region)");
+  }
+
+  // Faces: TetGen's subfaces (pieces of the input triangles) with their facet markers.
+  const int n_faces = out.numberoftrifaces;
+  if (n_faces <= 0 || out.trifacelist == nullptr || out.trifacemarkerlist == nullptr) {
+    fail(plc, "TetGen returned no boundary faces");
+  }
+  std::unordered_map<FaceKey, int, FaceKeyHash> face_of_key;
+  face_of_key.reserve(static_cast<size_t>(n_faces) * 2);
+  mesh.faces.resize(static_cast<size_t>(n_faces) * 3);
+  mesh.face_marker.resize(static_cast<size_t>(n_faces));
+  for (int f = 0; f < n_faces; ++f) {
+    int* tri = mesh.faces.data() + 3 * static_cast<size_t>(f);
+    for (int k = 0; k < 3; ++k) {
+      const int v = out.trifacelist[3 * f + k];
+      if (v < 0 || v >= n_in_nodes || new_index[static_cast<size_t>(v)] < 0) {
+        fail(plc, "TetGen returned a face whose node belongs to no element");
+      }
+      tri[k] = new_index[static_cast<size_t>(v)];
+    }
+    mesh.face_marker[static_cast<size_t>(f)] = out.trifacemarkerlist[f];
+    face_of_key.emplace(FaceKey(tri[0], tri[1], tri[2]), f);
+  }
+
+  // Orient each face outward from the adjacent element with the smallest region id.
+  std::vector<int> owner_region(static_cast<size_t>(n_faces), std::numeric_limits<int>::max());
+  std::vector<int> n_adjacent(static_cast<size_t>(n_faces), 0);
+  for (int e = 0; e < n_tets; ++e) {
+    const int* t = mesh.element(e);
+    const int region = mesh.element_region[static_cast<size_t>(e)];
+    for (const auto& lf : kTetFaces) {  // outward for positive volume
+      const auto it = face_of_key.find(FaceKey(t[lf[0]], t[lf[1]], t[lf[2]]));
+      if (it == face_of_key.end()) continue;
+      const auto f = static_cast<size_t>(it->second);
+      ++n_adjacent[f];
+      if (region >= owner_region[f]) continue;
+      owner_region[f] = region;
+      int* tri = mesh.faces.data() + 3 * f;
+      tri[0] = t[lf[0]];
+      tri[1] = t[lf[1]];
+      tri[2] = t[lf[2]];
+    }
+  }
+  for (int f = 0; f < n_faces; ++f) {
+    if (n_adjacent[static_cast<size_t>(f)] == 0) {
+      fail(plc, "TetGen returned a face that belongs to no element");
+    }
+  }
+  return mesh;
+}
+
+}  // namespace
+
+VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options) {
+  check_options(options);
+  check_plc(plc);
+  tetgenio in;
+  tetgenio out;
+  try {
+    fill_input(plc, in);
+  } catch (const std::bad_alloc&) {
+    fail(plc, "out of memory while copying the input");
+  }
+  const std::string sw = switches(plc, options);
+  std::vector<char> sw_buffer(sw.begin(), sw.end());
+  sw_buffer.push_back('\0');
+  if (!detail::tetgen_termination_fix_linked()) fail(plc, "TetGen error handler missing");
+  try {
+    ::tetrahedralize(sw_buffer.data(), &in, &out);
+  } catch (int code) {
+    fail(plc, tetgen_reason(code) + " [TetGen code " + std::to_string(code) + ", switches \"" + sw +
+                  "\"]");
+  } catch (const std::bad_alloc&) {
+    fail(plc, tetgen_reason(1));
+  }
+  VolumeMesh linear = convert_output(plc, out);
+  if (!options.second_order) return linear;
+  return make_second_order(linear);
+}
+
+}  // namespace sharpey::mesh
