@@ -3,6 +3,7 @@
 // A Study holds one solved model per bone-level scenario of a case: its mesh, one CHOLMOD
 // factorisation and six unit load cases at the bracket. Evaluating a force system is then a
 // linear combination (milliseconds), so the app can update while a slider moves.
+// How every quantity is computed: docs/analyses.md.
 #pragma once
 
 #include <atomic>
@@ -17,7 +18,20 @@
 
 namespace sharpey::analysis {
 
-// Centre of resistance for forces along one direction (labiolingual x or mesiodistal y).
+namespace detail {
+struct LoadContext;
+struct RigidResponse;
+class RootSurfaceSampler;
+class RootMapSampler;
+}  // namespace detail
+
+// progress(stage, fraction in [0, 1]): a short stage name and the share of the work done.
+using ProgressCallback = std::function<void(const std::string& stage, double fraction)>;
+
+// Centre of resistance for forces along one direction (labiolingual x or mesiodistal y): the point
+// on the long axis where a force along that direction translates the tooth without rotating it
+// about the perpendicular horizontal axis. From the least-squares rigid motion of the tooth's nodes
+// under the unit load cases.
 struct CentreOfResistance {
   Eigen::Vector3d point = Eigen::Vector3d::Zero();  // on the long axis, tooth coordinates, mm
   double from_crest_mm = 0;        // apical distance from the alveolar crest
@@ -25,12 +39,28 @@ struct CentreOfResistance {
   double fraction_embedded = 0;    // from_crest_mm / embedded root length
 };
 
+// Grid size of the root maps a ScenarioSolution prepares.
+struct RootMapGrid {
+  int n_angle = 72;  // 5 degree columns
+  int n_depth = 60;  // rows from the CEJ to the apex
+};
+
 // Everything that depends on one scenario's geometry but not on the load.
 class ScenarioSolution {
  public:
-  ScenarioSolution(const CaseSpec& spec, int scenario_index,
-                   const std::function<void(const std::string& stage, double fraction)>& progress,
-                   const std::atomic<bool>* cancel);
+  // Meshes the scenario's model (spec.model with the scenario's bone loss) and solves it.
+  // Stages reported: "mesh", "factorise", "unit loads", "post-processing". Throws InputError,
+  // MeshError, SolverError, or Cancelled when *cancel becomes true (checked between stages).
+  ScenarioSolution(const CaseSpec& spec, int scenario_index, const ProgressCallback& progress,
+                   const std::atomic<bool>* cancel, RootMapGrid grid = {});
+  // Same with the model already built (Study meshes in parallel, then solves one at a time).
+  ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                   const ProgressCallback& progress, const std::atomic<bool>* cancel,
+                   RootMapGrid grid = {});
+  ~ScenarioSolution();
+  ScenarioSolution(const ScenarioSolution&) = delete;
+  ScenarioSolution& operator=(const ScenarioSolution&) = delete;
+
   const Scenario& scenario() const { return scenario_; }
   const mesh::ToothModel& model() const { return model_; }
   const fem::MaterialTable& materials() const { return materials_; }
@@ -38,29 +68,55 @@ class ScenarioSolution {
   const fem::UnitLoadBasis& basis() const { return *basis_; }
   const CentreOfResistance& cres_labiolingual() const { return cres_x_; }
   const CentreOfResistance& cres_mesiodistal() const { return cres_y_; }
-  const std::vector<int>& pdl_nodes() const;  // global node ids of the PDL region
+  const std::vector<int>& pdl_nodes() const;   // global node ids of the PDL region
+  const std::vector<int>& tooth_nodes() const { return tooth_nodes_; }  // used by the rigid fit
+  // Root surface (tooth/PDL interface) area integrated on the mesh, mm^2.
+  double attachment_area_mm2() const;
+
+  // Building blocks used by evaluate() (internal types, see analysis/detail/).
+  const detail::LoadContext& load_context() const { return *load_context_; }
+  const detail::RigidResponse& rigid_response() const;
+  const detail::RootSurfaceSampler& root_surface() const { return *root_surface_; }
+  const detail::RootMapSampler& root_map_sampler() const { return *root_map_; }
 
  private:
+  void solve(const CaseSpec& spec, const ProgressCallback& progress,
+             const std::atomic<bool>* cancel, RootMapGrid grid);
+
   Scenario scenario_;
   mesh::ToothModel model_;
   fem::MaterialTable materials_;
   std::unique_ptr<fem::LinearElasticSolver> solver_;
   std::unique_ptr<fem::UnitLoadBasis> basis_;
   CentreOfResistance cres_x_, cres_y_;
+  std::vector<int> tooth_nodes_;
+  std::unique_ptr<detail::LoadContext> load_context_;
+  std::unique_ptr<detail::RootSurfaceSampler> root_surface_;
+  std::unique_ptr<detail::RootMapSampler> root_map_;
 };
 
 // A force system resolved to a force and a couple at the bracket centre.
 struct ResolvedLoad {
   Eigen::Vector3d force_n = Eigen::Vector3d::Zero();
-  Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // about the bracket centre
+  Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // about the bracket centre (force + couple)
   Eigen::Vector3d application_point = Eigen::Vector3d::Zero();
-  double moment_to_force_mm = 0;  // |couple component opposing tipping| / |F|
+  // |couple component opposing tipping| / |F|, mm; signed: positive when the couple opposes the
+  // force's tipping about the centre of resistance. Rotation preset: the lever arm (half the
+  // mesiodistal crown width).
+  double moment_to_force_mm = 0;
+  Eigen::Vector3d couple_nmm = Eigen::Vector3d::Zero();  // the couple alone (no force moment)
+  MovementPreset preset = MovementPreset::kNone;
 };
-// Applies the load spec (units, direction, bracket height, couple or ratio, movement preset).
+// Applies the load spec (units, direction, bracket height, couple or ratio, movement preset);
+// the presets are solved on this scenario's rigid response (docs/analyses.md). Throws InputError
+// for an unusable magnitude, direction or height.
 ResolvedLoad resolve_load(const LoadSpec& load, const ScenarioSolution& solution);
 
 // PDL pressure over the unwrapped root surface: angle around the long axis (degrees, 0 = labial,
 // 90 = mesial) by depth below the CEJ (mm). Cells with no PDL (above the crest) are NaN.
+// Cell (row i, column j) is centred at angle (j + 0.5) * 360 / n_angle and depth
+// depth_min_mm + (i + 0.5) * (depth_max_mm - depth_min_mm) / n_depth; depth runs from the CEJ (0)
+// to the apex for every scenario, so maps of one case line up.
 struct RootMap {
   int n_angle = 0, n_depth = 0;
   double depth_min_mm = 0, depth_max_mm = 0;
@@ -70,20 +126,31 @@ struct RootMap {
 struct ScenarioResult {
   std::string name;
   double bone_loss_mm = 0;
-  double attachment_area_mm2 = 0;
+  double attachment_area_mm2 = 0;  // root surface in the PDL, integrated on the mesh
   CentreOfResistance cres_labiolingual, cres_mesiodistal;
   double mf_translation_mm = 0;  // moment-to-force ratio at the bracket for translation
   ResolvedLoad load;
-  Eigen::Vector3d centre_of_rotation = Eigen::Vector3d::Zero();  // on the long axis, mm
+  // On the long axis, mm; only meaningful when centre_of_rotation_defined (false for a translation,
+  // centre further than 1000 mm, and for a turn about the long axis alone); NaN otherwise.
+  Eigen::Vector3d centre_of_rotation = Eigen::Vector3d::Zero();
+  bool centre_of_rotation_defined = false;
+  // Hydrostatic pressure p = -trace(sigma)/3, compression positive, kPa. Peaks over the PDL nodes;
+  // the 95th percentile is area-weighted over the root surface (the level exceeded on 5 % of the
+  // attachment area; 0 when less than 5 % of it is compressed).
   double pressure_max_compression_kpa = 0;
   double pressure_max_tension_kpa = 0;  // positive number: magnitude of the most tensile value
   double pressure_p95_compression_kpa = 0;
+  // Root-surface area where the pressure exceeds the thresholds (compression), mm^2 and % of the
+  // attachment area.
   double area_above_capillary_mm2 = 0, area_above_limit_mm2 = 0;
-  double max_principal_strain = 0, max_equivalent_strain = 0;
+  double area_above_capillary_percent = 0, area_above_limit_percent = 0;
+  double max_principal_strain = 0, max_equivalent_strain = 0;  // over the PDL nodes
   double max_von_mises_kpa = 0;
+  // Of the tooth's fitted rigid motion at the crown tip and the apex, micrometres.
   Eigen::Vector3d crown_tip_displacement_um = Eigen::Vector3d::Zero();
   Eigen::Vector3d apex_displacement_um = Eigen::Vector3d::Zero();
   Eigen::Vector3d rotation_deg = Eigen::Vector3d::Zero();  // rigid-body rotation of the tooth
+  double rigid_fit_rms_um = 0;  // misfit of the rigid motion over the tooth nodes (tooth bending)
   // Same direction and moment-to-force ratio; -1 when no healthy reference scenario exists.
   double equivalent_force_peak_g = -1;
   double equivalent_force_p95_g = -1;
@@ -106,8 +173,7 @@ class Study {
  public:
   // Meshes and solves every scenario. progress(stage, fraction in [0, 1]); cancel may be null.
   // Throws InputError, MeshError, SolverError, Cancelled.
-  Study(CaseSpec spec,
-        const std::function<void(const std::string& stage, double fraction)>& progress = {},
+  Study(CaseSpec spec, const ProgressCallback& progress = {},
         const std::atomic<bool>* cancel = nullptr);
   const CaseSpec& spec() const { return spec_; }
   const std::vector<std::unique_ptr<ScenarioSolution>>& solutions() const { return solutions_; }

@@ -1,0 +1,76 @@
+#include <future>
+#include <sstream>
+
+#include "sharpey/analysis/study.h"
+#include "sharpey/error.h"
+
+namespace sharpey::analysis {
+
+Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<bool>* cancel)
+    : spec_(std::move(spec)) {
+  const int n = static_cast<int>(spec_.scenarios.size());
+  if (n == 0) {
+    throw InputError("scenarios",
+                     "the case has no bone-level scenario; add at least one (e.g. a healthy "
+                     "scenario without bone loss)");
+  }
+  const auto cancelled = [cancel] { return cancel != nullptr && cancel->load(); };
+  // The mesher is single-threaded while assembly and factorisation use both cores: mesh scenario
+  // k + 1 on a second thread while scenario k is solved (at most one mesher runs at a time, so
+  // memory stays at one model being meshed plus the solved ones). Progress is reported from the
+  // calling thread only.
+  const auto build = [this](int k) {
+    mesh::ModelSpec m = spec_.model;
+    m.loss = spec_.scenarios[static_cast<size_t>(k)].loss;
+    return mesh::build_tooth_model(m);
+  };
+  const auto overall = [&progress, n](int k, const std::string& stage, double fraction) {
+    if (progress) progress(stage, (k + fraction) / n);
+  };
+  std::future<mesh::ToothModel> next = std::async(std::launch::async, build, 0);
+  for (int k = 0; k < n; ++k) {
+    const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
+                               spec_.scenarios[static_cast<size_t>(k)].name + "): ";
+    overall(k, prefix + "mesh", 0.0);
+    // get() rethrows the mesher's exception. On any exception below, the pending future's
+    // destructor waits for the mesher of the next scenario to finish (a few seconds at most).
+    mesh::ToothModel model = next.get();
+    if (cancelled()) throw Cancelled();
+    if (k + 1 < n) next = std::async(std::launch::async, build, k + 1);
+    const ProgressCallback local = [&](const std::string& stage, double fraction) {
+      overall(k, prefix + stage, fraction);
+    };
+    solutions_.push_back(
+        std::make_unique<ScenarioSolution>(spec_, k, std::move(model), local, cancel));
+  }
+  if (progress) progress("done", 1.0);
+}
+
+int Study::healthy_index() const {
+  int best = -1;
+  for (int k = 0; k < static_cast<int>(solutions_.size()); ++k) {
+    const mesh::BoneLoss& a = solutions_[static_cast<size_t>(k)]->scenario().loss;
+    if (best < 0) {
+      best = k;
+      continue;
+    }
+    const mesh::BoneLoss& b = solutions_[static_cast<size_t>(best)]->scenario().loss;
+    if (a.horizontal_mm < b.horizontal_mm ||
+        (a.horizontal_mm == b.horizontal_mm && a.defect_depth_mm < b.defect_depth_mm)) {
+      best = k;
+    }
+  }
+  return best;
+}
+
+std::vector<ScenarioResult> Study::evaluate(const LoadSpec& load) const {
+  std::vector<ScenarioResult> results;
+  const int h = healthy_index();
+  const ScenarioSolution* healthy = h >= 0 ? solutions_[static_cast<size_t>(h)].get() : nullptr;
+  for (const auto& s : solutions_) {
+    results.push_back(analysis::evaluate(*s, load, spec_.thresholds, healthy));
+  }
+  return results;
+}
+
+}  // namespace sharpey::analysis

@@ -1,0 +1,129 @@
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "sharpey/analysis/detail/equivalent_force.h"
+#include "sharpey/analysis/detail/load_resolution.h"
+#include "sharpey/analysis/detail/rigid_motion.h"
+#include "sharpey/analysis/detail/root_map.h"
+#include "sharpey/analysis/detail/root_surface.h"
+#include "sharpey/analysis/study.h"
+
+namespace sharpey::analysis {
+namespace {
+
+constexpr double kRadToDeg = 180.0 / 3.14159265358979323846;
+constexpr double kP95AreaShare = 0.05;  // the 95th percentile: level exceeded on 5 % of the area
+
+// Hydrostatic pressure (kPa, compression positive) per PDL node under a resolved load.
+Eigen::VectorXd pdl_pressure_kpa(const fem::RegionField& field) {
+  Eigen::VectorXd p(field.stress_mpa.cols());
+  for (Eigen::Index i = 0; i < p.size(); ++i) {
+    p(i) = fem::hydrostatic_pressure_kpa(field.stress_mpa.col(i));
+  }
+  return p;
+}
+
+struct PressureMeasures {
+  double peak_kpa = 0, p95_kpa = 0;
+};
+
+PressureMeasures pressure_measures(const ScenarioSolution& solution, const Eigen::VectorXd& p) {
+  PressureMeasures m;
+  m.peak_kpa = p.size() > 0 ? std::max(0.0, p.maxCoeff()) : 0.0;
+  const Eigen::VectorXd sampled = solution.root_surface().sample(p);
+  m.p95_kpa = std::max(0.0, solution.root_surface().level_exceeded_on(sampled, kP95AreaShare));
+  return m;
+}
+
+PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadSpec& load) {
+  const ResolvedLoad r = resolve_load(load, solution);
+  return pressure_measures(solution,
+                           pdl_pressure_kpa(solution.basis().region_field(r.force_n, r.moment_nmm)));
+}
+
+}  // namespace
+
+ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
+                        const Thresholds& thresholds, const ScenarioSolution* healthy) {
+  const mesh::ModelGeometry& g = solution.model().geometry;
+  const detail::LoadContext& context = solution.load_context();
+  ScenarioResult r;
+  r.name = solution.scenario().name;
+  r.bone_loss_mm = solution.scenario().loss.horizontal_mm;
+  r.attachment_area_mm2 = solution.attachment_area_mm2();
+  r.cres_labiolingual = solution.cres_labiolingual();
+  r.cres_mesiodistal = solution.cres_mesiodistal();
+  r.load = detail::resolve_load(load, context);
+  r.mf_translation_mm = detail::translation_moment_to_force(load, context);
+
+  // Rigid motion of the tooth: exact superposition of the unit cases' fitted motions.
+  const detail::RigidMotion motion = context.response.motion(r.load.force_n, r.load.moment_nmm);
+  r.centre_of_rotation_defined = detail::centre_of_rotation(motion, &r.centre_of_rotation);
+  if (!r.centre_of_rotation_defined) {
+    r.centre_of_rotation.setConstant(std::numeric_limits<double>::quiet_NaN());
+  }
+  r.crown_tip_displacement_um = 1000.0 * motion.displacement_at(g.crown_tip);
+  r.apex_displacement_um = 1000.0 * motion.displacement_at(g.apex);
+  r.rotation_deg = kRadToDeg * motion.rotation_rad;
+
+  const Eigen::VectorXd u = solution.basis().displacement(r.load.force_n, r.load.moment_nmm);
+  r.displacement_mm = Eigen::Map<const Eigen::Matrix3Xd>(u.data(), 3, u.size() / 3);
+  r.rigid_fit_rms_um =
+      1000.0 * detail::fit_rigid_motion(solution.model().mesh.nodes, u, solution.tooth_nodes())
+                   .rms_residual_mm;
+
+  // PDL fields per node.
+  const fem::RegionField field = solution.basis().region_field(r.load.force_n, r.load.moment_nmm);
+  const Eigen::VectorXd p = pdl_pressure_kpa(field);
+  const Eigen::Index n = p.size();
+  r.pressure_kpa.assign(p.data(), p.data() + n);
+  r.max_principal_strain_field.resize(static_cast<size_t>(n));
+  r.equivalent_strain_field.resize(static_cast<size_t>(n));
+  r.von_mises_kpa.resize(static_cast<size_t>(n));
+  for (Eigen::Index i = 0; i < n; ++i) {
+    const auto k = static_cast<size_t>(i);
+    r.max_principal_strain_field[k] = fem::principal_strains(field.strain.col(i))(0);
+    r.equivalent_strain_field[k] = fem::equivalent_strain(field.strain.col(i));
+    r.von_mises_kpa[k] = 1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
+  }
+  if (n > 0) {
+    r.pressure_max_tension_kpa = std::max(0.0, -p.minCoeff());
+    r.max_principal_strain = *std::max_element(r.max_principal_strain_field.begin(),
+                                               r.max_principal_strain_field.end());
+    r.max_equivalent_strain = *std::max_element(r.equivalent_strain_field.begin(),
+                                                r.equivalent_strain_field.end());
+    r.max_von_mises_kpa = *std::max_element(r.von_mises_kpa.begin(), r.von_mises_kpa.end());
+  }
+  const PressureMeasures measures = pressure_measures(solution, p);
+  r.pressure_max_compression_kpa = measures.peak_kpa;
+  r.pressure_p95_compression_kpa = measures.p95_kpa;
+
+  // Areas over thresholds, from the same root-surface sampling.
+  const detail::RootSurfaceSampler& surface = solution.root_surface();
+  const Eigen::VectorXd sampled = surface.sample(p);
+  r.area_above_capillary_mm2 = surface.area_above(sampled, thresholds.capillary.value_kpa);
+  r.area_above_limit_mm2 = surface.area_above(sampled, thresholds.limit.value_kpa);
+  if (r.attachment_area_mm2 > 0) {
+    r.area_above_capillary_percent = 100.0 * r.area_above_capillary_mm2 / r.attachment_area_mm2;
+    r.area_above_limit_percent = 100.0 * r.area_above_limit_mm2 / r.attachment_area_mm2;
+  }
+
+  // Equivalent force: linear scaling against the healthy scenario under the same load spec
+  // (resolved there on its own centre of resistance).
+  if (healthy != nullptr) {
+    const double force_g = load.magnitude * to_newton(1.0, load.unit) / to_newton(1.0, ForceUnit::kGram);
+    const PressureMeasures reference =
+        healthy == &solution ? measures : pressure_measures(*healthy, load);
+    r.equivalent_force_peak_g =
+        detail::equivalent_force_by_pressure(force_g, reference.peak_kpa, measures.peak_kpa);
+    r.equivalent_force_p95_g =
+        detail::equivalent_force_by_pressure(force_g, reference.p95_kpa, measures.p95_kpa);
+    r.equivalent_force_area_rule_g = detail::equivalent_force_by_area(
+        force_g, r.attachment_area_mm2, healthy->attachment_area_mm2());
+  }
+  r.root_map = solution.root_map_sampler().sample(p);
+  return r;
+}
+
+}  // namespace sharpey::analysis
