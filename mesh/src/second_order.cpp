@@ -9,12 +9,10 @@
 
 #include "sharpey/error.h"
 #include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::mesh {
 namespace {
-
-// Edges of a 3-node face in 6-node order: midside nodes 3, 4, 5 on (0,1) (1,2) (0,2).
-constexpr std::array<std::array<int, 2>, 3> kTriEdges = {{{0, 1}, {1, 2}, {0, 2}}};
 
 void check_linear(const VolumeMesh& m) {
   if (m.nodes_per_element != 4 || m.nodes_per_face != 3) {
