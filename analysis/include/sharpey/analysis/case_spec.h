@@ -28,6 +28,8 @@ enum class ForceUnit { kGram, kCentinewton, kNewton };
 double to_newton(double value, ForceUnit unit);
 double from_newton(double value_n, ForceUnit unit);
 std::string to_string(ForceUnit unit);  // "g", "cN", "N"
+// Accepts "g", "gf", "cN", "N"; throws InputError (key "load.unit") naming the accepted units.
+ForceUnit force_unit_from_string(const std::string& name);
 
 enum class MovementPreset {
   kNone,  // use the couple as given
@@ -41,8 +43,15 @@ enum class MovementPreset {
 };
 std::string to_string(MovementPreset p);  // snake_case identifiers used in case files
 MovementPreset movement_preset_from_string(const std::string& name);
+std::vector<MovementPreset> all_movement_presets();  // without kNone
 
 enum class CoupleKind { kNone, kMoment, kRatio };
+
+// Named force directions of the case file, as unit vectors in tooth coordinates:
+// labial +x, lingual -x, mesial +y, distal -y, extrusive +z, intrusive -z.
+std::vector<std::string> named_directions();
+// Throws InputError (key "load.direction") naming the accepted names.
+Eigen::Vector3d named_direction(const std::string& name);
 
 struct LoadSpec {
   double magnitude = 100;                // in `unit`
@@ -53,17 +62,25 @@ struct LoadSpec {
   Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // couple when kMoment
   double moment_to_force_mm = 0;         // when kRatio: couple opposing the force's tipping
   MovementPreset preset = MovementPreset::kNone;  // when set, the couple comes from the CRes
+  // Name the direction was given by in the case file ("lingual", ...), empty for a vector or
+  // angles. Only used to echo the case; `direction` is what counts (case_to_json writes the name
+  // only while `direction` still equals named_direction(direction_name)).
+  std::string direction_name = "lingual";
   double force_n() const { return to_newton(magnitude, unit); }
 };
 
 struct Scenario {
   std::string name;       // e.g. "healthy", "4 mm loss"
   mesh::BoneLoss loss;    // horizontal loss already converted to mm
+  // >= 0 when the case file gave the horizontal loss in % of the root length (then
+  // loss.horizontal_mm = percent / 100 * root length); -1 when it was given in mm.
+  double horizontal_loss_percent = -1;
 };
 
 struct CaseSpec {
   int schema_version = kCaseSchemaVersion;
   std::string label;                 // free text; samples are invented cases
+  std::string notes;                 // free text, optional
   mesh::ModelSpec model;             // tooth, PDL, bone, bracket, mesh sizing (loss per scenario)
   fem::Material tooth_material{18600, 0.31};
   fem::Material pdl_material{0.47, 0.45};
@@ -74,15 +91,43 @@ struct CaseSpec {
   Thresholds thresholds = default_thresholds();
 };
 
+bool operator==(const Threshold& a, const Threshold& b);
+bool operator==(const Thresholds& a, const Thresholds& b);
+bool operator==(const LoadSpec& a, const LoadSpec& b);
+bool operator==(const Scenario& a, const Scenario& b);
+bool operator==(const CaseSpec& a, const CaseSpec& b);  // every field, exact
+inline bool operator!=(const CaseSpec& a, const CaseSpec& b) { return !(a == b); }
+
 // Throws InputError naming the key (JSON path), the value and the fix, for a syntax error, a wrong
 // type, an unknown key or an out-of-range value. `origin` names the file in messages.
+// Geometry is checked with mesh::validate for every scenario (key prefixed "scenarios[i].").
 CaseSpec parse_case(const std::string& json_text, const std::string& origin = "case");
-CaseSpec load_case(const std::string& path);
+CaseSpec load_case(const std::string& path);  // InputError (key "file") if unreadable
 std::string case_to_json(const CaseSpec& spec);  // round-trips through parse_case
-// Writes atomically (temporary file, then rename).
+// Writes atomically (temporary file, then rename). Throws Error naming the path on failure.
 void save_case(const CaseSpec& spec, const std::string& path);
+
+// Range checks of a CaseSpec built in code (parse_case runs them too): every value against its
+// allowed range, keys named by their case-file path. Throws InputError.
+void validate_case(const CaseSpec& spec);
+
+// Root length used for "% of root length" bone loss: the tooth's root length (CEJ to apex), or
+// the idealised root's length.
+double root_length_mm(const mesh::ToothSpec& tooth);
+
+// The model of scenario `scenario_index`: spec.model with that scenario's bone loss.
+mesh::ModelSpec scenario_model(const CaseSpec& spec, int scenario_index);
 
 // Region id -> material for the solver.
 fem::MaterialTable material_table(const CaseSpec& spec);
+
+// A default or user-set value with where it comes from, for reports ("sources" in results.json).
+struct SourcedValue {
+  std::string quantity;  // e.g. "pdl.material.young_modulus_mpa"
+  double value = 0;
+  std::string unit;      // e.g. "MPa"
+  std::string source;    // citation and status, or "set in the case file"
+};
+std::vector<SourcedValue> value_sources(const CaseSpec& spec);
 
 }  // namespace sharpey::analysis

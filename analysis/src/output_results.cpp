@@ -1,0 +1,218 @@
+// results.json: the machine-readable report of a solved case. The key names documented as fixed
+// in docs/case-format.md are read by outside tools: keep them.
+#include <nlohmann/json.hpp>
+
+#include <cmath>
+
+#include "sharpey/analysis/report_output.h"
+
+namespace sharpey::analysis {
+
+namespace {
+
+using Json = nlohmann::ordered_json;
+
+// JSON has no NaN or infinity: write null instead.
+Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }
+Json vec(const Eigen::Vector3d& v) { return Json::array({number(v.x()), number(v.y()), number(v.z())}); }
+// -1 marks "not available" in ScenarioResult's equivalent forces.
+Json optional_force(double g) { return g >= 0 ? number(g) : Json(nullptr); }
+
+Json cres_json(const CentreOfResistance& c) {
+  Json j;
+  j["point_mm"] = vec(c.point);
+  j["from_crest_mm"] = number(c.from_crest_mm);
+  j["from_cej_mm"] = number(c.from_cej_mm);
+  j["fraction_embedded"] = number(c.fraction_embedded);
+  return j;
+}
+
+Json geometry_json(const mesh::ModelGeometry& g) {
+  Json j;
+  j["crest_z_mm"] = number(g.crest_z_mm);
+  j["apex_z_mm"] = number(g.apex_z_mm);
+  j["root_length_mm"] = number(g.root_length_mm);
+  j["embedded_length_mm"] = number(g.embedded_length_mm);
+  j["crown_tip_mm"] = vec(g.crown_tip);
+  j["apex_mm"] = vec(g.apex);
+  j["bracket_center_mm"] = vec(g.bracket_center);
+  j["root_area_mm2"] = number(g.root_area_mm2);
+  j["attachment_area_mm2"] = number(g.attachment_area_mm2);
+  j["exposed_root_area_mm2"] = number(g.exposed_root_area_mm2);
+  j["tooth_volume_mm3"] = number(g.tooth_volume_mm3);
+  j["pdl_volume_mm3"] = number(g.pdl_volume_mm3);
+  j["bone_volume_mm3"] = number(g.bone_volume_mm3);
+  return j;
+}
+
+Json mesh_json(const mesh::MeshStatistics& s) {
+  Json j;
+  j["n_nodes"] = s.n_nodes;
+  j["n_elements"] = s.n_elements;
+  j["n_faces"] = s.n_faces;
+  Json per_region = Json::object();
+  for (const auto& [region, n] : s.elements_per_region) per_region[std::to_string(region)] = n;
+  j["elements_per_region"] = per_region;
+  Json volumes = Json::object();
+  for (const auto& [region, v] : s.volume_per_region_mm3) volumes[std::to_string(region)] = number(v);
+  j["volume_per_region_mm3"] = volumes;
+  Json areas = Json::object();
+  for (const auto& [marker, a] : s.area_per_marker_mm2) areas[std::to_string(marker)] = number(a);
+  j["area_per_marker_mm2"] = areas;
+  j["min_dihedral_deg"] = number(s.min_dihedral_deg);
+  j["max_dihedral_deg"] = number(s.max_dihedral_deg);
+  j["max_radius_edge_ratio"] = number(s.max_radius_edge_ratio);
+  j["min_jacobian_ratio"] = number(s.min_jacobian_ratio);
+  j["pdl_width_mm"] = {{"mean", number(s.pdl_width_mean_mm)},
+                       {"min", number(s.pdl_width_min_mm)},
+                       {"max", number(s.pdl_width_max_mm)},
+                       {"samples", s.pdl_width_samples}};
+  return j;
+}
+
+Json solver_json(const fem::SolverStatistics& s) {
+  Json j;
+  j["n_dofs"] = s.n_dofs;
+  j["n_nonzeros"] = s.n_nonzeros;
+  j["assembly_s"] = number(s.assembly_s);
+  j["analyse_s"] = number(s.analyse_s);
+  j["factorise_s"] = number(s.factorise_s);
+  j["factorisation_gflop"] = number(s.factorisation_gflop);
+  j["last_relative_residual"] = number(s.last_relative_residual);
+  j["ordering"] = s.ordering;
+  return j;
+}
+
+Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const ScenarioFacts* facts,
+                   const Scenario* scenario) {
+  Json j;
+  j["name"] = r.name;
+  // Fixed keys first.
+  j["bone_loss_mm"] = number(r.bone_loss_mm);
+  j["attachment_area_mm2"] = number(r.attachment_area_mm2);
+  const CentreOfResistance& cres = cres_for(r);
+  j["cres_from_crest_mm"] = number(cres.from_crest_mm);
+  j["cres_fraction_embedded"] = number(cres.fraction_embedded);
+  j["mf_translation_mm"] = number(r.mf_translation_mm);
+  j["pdl_pressure_kpa"] = {{"max_compression", number(r.pressure_max_compression_kpa)},
+                           {"max_tension", number(r.pressure_max_tension_kpa)},
+                           {"p95_compression", number(r.pressure_p95_compression_kpa)}};
+  j["area_above_capillary_mm2"] = number(r.area_above_capillary_mm2);
+  j["area_above_limit_mm2"] = number(r.area_above_limit_mm2);
+  j["max_principal_strain"] = number(r.max_principal_strain);
+  j["crown_tip_displacement_um"] = number(r.crown_tip_displacement_um.norm());
+  j["equivalent_force_g"] = optional_force(r.equivalent_force_peak_g);
+
+  // Further detail.
+  if (scenario) {
+    if (scenario->horizontal_loss_percent >= 0)
+      j["bone_loss_percent_of_root"] = number(scenario->horizontal_loss_percent);
+    if (scenario->loss.defect_depth_mm > 0)
+      j["angular_defect"] = {{"surface", mesh::to_string(scenario->loss.defect_surface)},
+                             {"depth_mm", number(scenario->loss.defect_depth_mm)},
+                             {"width_deg", number(scenario->loss.defect_width_deg)}};
+  }
+  const double attachment = r.attachment_area_mm2;
+  j["area_above_capillary_percent"] =
+      attachment > 0 ? number(100.0 * r.area_above_capillary_mm2 / attachment) : Json(nullptr);
+  j["area_above_limit_percent"] =
+      attachment > 0 ? number(100.0 * r.area_above_limit_mm2 / attachment) : Json(nullptr);
+  j["cres_direction"] =
+      cres_direction_for(r.load) == CresDirection::kMesiodistal ? "mesiodistal" : "labiolingual";
+  j["cres"] = {{"labiolingual", cres_json(r.cres_labiolingual)},
+               {"mesiodistal", cres_json(r.cres_mesiodistal)}};
+  j["centre_of_rotation_mm"] = vec(r.centre_of_rotation);
+  j["max_equivalent_strain"] = number(r.max_equivalent_strain);
+  j["max_von_mises_kpa"] = number(r.max_von_mises_kpa);
+  j["crown_tip_displacement_vector_um"] = vec(r.crown_tip_displacement_um);
+  j["apex_displacement_um"] = number(r.apex_displacement_um.norm());
+  j["apex_displacement_vector_um"] = vec(r.apex_displacement_um);
+  j["rotation_deg"] = vec(r.rotation_deg);
+  j["equivalent_force"] = {{"same_peak_g", optional_force(r.equivalent_force_peak_g)},
+                           {"same_p95_g", optional_force(r.equivalent_force_p95_g)},
+                           {"attachment_area_rule_g", optional_force(r.equivalent_force_area_rule_g)},
+                           {"applied_g", number(from_newton(spec.load.force_n(), ForceUnit::kGram))}};
+  j["load"] = {{"force_n", vec(r.load.force_n)},
+               {"force_g", number(from_newton(r.load.force_n.norm(), ForceUnit::kGram))},
+               {"moment_nmm", vec(r.load.moment_nmm)},
+               {"application_point_mm", vec(r.load.application_point)},
+               {"moment_to_force_mm", number(r.load.moment_to_force_mm)}};
+  if (facts) {
+    j["geometry"] = geometry_json(facts->geometry);
+    if (facts->mesh.n_elements > 0) j["mesh"] = mesh_json(facts->mesh);
+    if (facts->solver.n_dofs > 0) j["solver"] = solver_json(facts->solver);
+    Json files = Json::object();
+    if (!facts->model_vtu.empty()) files["model_vtu"] = facts->model_vtu;
+    if (!facts->pdl_vtu.empty()) files["pdl_vtu"] = facts->pdl_vtu;
+    if (!facts->root_map_csv.empty()) files["root_map_csv"] = facts->root_map_csv;
+    if (!files.empty()) j["files"] = files;
+  }
+  return j;
+}
+
+}  // namespace
+
+CresDirection cres_direction_for(const ResolvedLoad& load) {
+  return std::abs(load.force_n.y()) > std::abs(load.force_n.x()) ? CresDirection::kMesiodistal
+                                                                 : CresDirection::kLabiolingual;
+}
+
+const CentreOfResistance& cres_for(const ScenarioResult& result) {
+  return cres_direction_for(result.load) == CresDirection::kMesiodistal ? result.cres_mesiodistal
+                                                                         : result.cres_labiolingual;
+}
+
+std::vector<ScenarioFacts> scenario_facts(const Study& study, bool measure_mesh) {
+  std::vector<ScenarioFacts> facts;
+  for (const auto& solution : study.solutions()) {
+    ScenarioFacts f;
+    f.geometry = solution->model().geometry;
+    if (measure_mesh) f.mesh = mesh::measure(solution->model().mesh);
+    f.solver = solution->solver().statistics();
+    facts.push_back(std::move(f));
+  }
+  return facts;
+}
+
+std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
+                         const std::vector<ScenarioFacts>& facts) {
+  Json j;
+  j["results_schema_version"] = kResultsSchemaVersion;
+  j["program"] = "Sharpey";
+  j["label"] = spec.label;
+  j["caution"] = caution_text();
+  j["units"] = {{"length", "mm (keys ending _mm)"},
+                {"area", "mm^2 (keys ending _mm2)"},
+                {"displacement", "micrometre (keys ending _um)"},
+                {"pressure", "kPa (keys ending _kpa); hydrostatic pressure p = -trace(stress)/3, "
+                             "compression positive"},
+                {"force", "N (keys ending _n) or grams-force (keys ending _g; 1 g = 0.00980665 N)"},
+                {"moment", "N.mm (keys ending _nmm)"},
+                {"angle", "degree (keys ending _deg)"},
+                {"strain", "dimensionless (mm/mm)"},
+                {"coordinates", "tooth system: origin on the long axis at the CEJ, x labial, "
+                                "y mesial, z toward the crown"}};
+  Json sources = Json::array();
+  for (const SourcedValue& s : value_sources(spec))
+    sources.push_back({{"quantity", s.quantity},
+                       {"value", number(s.value)},
+                       {"unit", s.unit},
+                       {"source", s.source}});
+  j["sources"] = sources;
+  j["thresholds"] = {
+      {"capillary_kpa", number(spec.thresholds.capillary.value_kpa)},
+      {"capillary_source", spec.thresholds.capillary.source},
+      {"limit_kpa", number(spec.thresholds.limit.value_kpa)},
+      {"limit_source", spec.thresholds.limit.source}};
+  Json scenarios = Json::array();
+  for (size_t i = 0; i < results.size(); ++i) {
+    const ScenarioFacts* f = i < facts.size() ? &facts[i] : nullptr;
+    const Scenario* s = i < spec.scenarios.size() ? &spec.scenarios[i] : nullptr;
+    scenarios.push_back(scenario_json(spec, results[i], f, s));
+  }
+  j["scenarios"] = scenarios;
+  j["case"] = Json::parse(case_to_json(spec));
+  return j.dump(2) + "\n";
+}
+
+}  // namespace sharpey::analysis
