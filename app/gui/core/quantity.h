@@ -1,0 +1,39 @@
+// The PDL quantities the app can colour by, their display units, and their values per PDL node
+// taken from an analysis::ScenarioResult (no computation beyond unit scaling and vector length).
+#pragma once
+
+#include <QString>
+#include <vector>
+
+#include "sharpey/analysis/study.h"
+
+namespace sharpey::app {
+
+enum class Quantity {
+  kPressure,            // hydrostatic pressure, kPa, compression positive
+  kMaxPrincipalStrain,  // %, tensor strain
+  kEquivalentStrain,    // %, von Mises equivalent strain
+  kVonMises,            // kPa
+  kDisplacement,        // displacement magnitude, um
+};
+std::vector<Quantity> all_quantities();
+QString label(Quantity q);          // "hydrostatic pressure"
+QString unit_label(Quantity q);     // "kPa"
+QString short_label(Quantity q);    // "p" style axis label with unit, e.g. "pressure (kPa)"
+// Signed quantities get a diverging colour map centred on zero.
+bool is_signed(Quantity q);
+
+// Values per PDL node, in the display unit, same order as `pdl_nodes`
+// (ScenarioSolution::pdl_nodes(); the result's per-node fields follow that order).
+std::vector<double> quantity_values(const analysis::ScenarioResult& result, Quantity q,
+                                    const std::vector<int>& pdl_nodes);
+
+struct ValueRange {
+  double min = 0, max = 0;
+  bool valid() const { return min <= max; }
+};
+// Smallest and largest finite value; {0, 0} for no finite values.
+ValueRange finite_range(const std::vector<double>& values);
+ValueRange merge(const ValueRange& a, const ValueRange& b);
+
+}  // namespace sharpey::app

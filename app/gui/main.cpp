@@ -1,0 +1,7 @@
+// sharpey: desktop application. Usage: sharpey [CASE.json]
+#include <QApplication>
+
+int main(int argc, char** argv) {
+  QApplication app(argc, argv);
+  return 0;
+}

@@ -1,0 +1,112 @@
+// Key-number table, CSV and the plain verdict (no display needed).
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+#include "core/quantity.h"
+#include "core/scenario_table.h"
+#include "core/verdict.h"
+
+namespace sharpey::app {
+namespace {
+
+analysis::ScenarioResult result(const char* name, double loss, double peak, double above_cap,
+                                double above_lim) {
+  analysis::ScenarioResult r;
+  r.name = name;
+  r.bone_loss_mm = loss;
+  r.attachment_area_mm2 = 200 - 10 * loss;
+  r.pressure_max_compression_kpa = peak;
+  r.pressure_max_tension_kpa = 0.5 * peak;
+  r.area_above_capillary_mm2 = above_cap;
+  r.area_above_limit_mm2 = above_lim;
+  r.cres_labiolingual.from_crest_mm = 4 + 0.5 * loss;
+  r.cres_labiolingual.fraction_embedded = 0.4;
+  r.cres_mesiodistal.from_crest_mm = 5 + 0.5 * loss;
+  r.mf_translation_mm = 9 + loss;
+  r.load.force_n = Eigen::Vector3d(-0.98, 0, 0);
+  r.equivalent_force_peak_g = loss == 0 ? 100 : 100 * 3 / peak;
+  r.equivalent_force_area_rule_g = -1;
+  return r;
+}
+
+TEST(ScenarioTable, OneRowPerScenarioWithUnits) {
+  const std::vector<analysis::ScenarioResult> results = {result("healthy", 0, 3, 0, 0),
+                                                         result("4.0 mm loss", 4, 9, 12.5, 0)};
+  const ScenarioTable t = make_table(results);
+  ASSERT_EQ(t.row_names.size(), 2);
+  ASSERT_EQ(t.values.size(), 2u);
+  ASSERT_EQ(t.values[0].size(), all_key_numbers().size());
+  const int peak = 2, cres = 6, eq_area = 10;
+  ASSERT_EQ(t.columns[static_cast<size_t>(peak)], KeyNumber::kPeakCompression);
+  EXPECT_EQ(t.cell_text(1, peak), "9.0");
+  EXPECT_EQ(t.header_text(peak), "peak compression (kPa)");
+  // Labiolingual force: the labiolingual CRes is reported.
+  EXPECT_DOUBLE_EQ(t.values[1][static_cast<size_t>(cres)], 6.0);
+  EXPECT_EQ(t.cell_text(0, eq_area), "n/a");  // -1 means not available
+}
+
+TEST(ScenarioTable, MesiodistalForceReportsTheMesiodistalCRes) {
+  auto r = result("healthy", 0, 3, 0, 0);
+  r.load.force_n = Eigen::Vector3d(0.1, 0.9, 0);
+  EXPECT_DOUBLE_EQ(key_value(r, KeyNumber::kCresFromCrest), 5.0);
+}
+
+TEST(ScenarioTable, CsvStartsWithTheCommentLines) {
+  const ScenarioTable t = make_table({result("a, b", 2, 5, 1, 0)}, {KeyNumber::kBoneLoss});
+  const QString csv = t.to_csv({"Caution: model estimate"});
+  const QStringList lines = csv.split('\n');
+  ASSERT_GE(lines.size(), 3);
+  EXPECT_EQ(lines[0], "# Caution: model estimate");
+  EXPECT_EQ(lines[1], "scenario,bone loss (mm)");
+  EXPECT_EQ(lines[2], "\"a, b\",2.0");
+}
+
+analysis::Thresholds thresholds() {
+  analysis::Thresholds t;
+  t.capillary = {4.7, "test"};
+  t.limit = {16.0, "test"};
+  return t;
+}
+
+struct VerdictCase {
+  double peak, above_cap, above_lim;
+  VerdictLevel expected;
+};
+class Verdicts : public ::testing::TestWithParam<VerdictCase> {};
+
+TEST_P(Verdicts, LevelFollowsTheThresholds) {
+  const auto& p = GetParam();
+  const Verdict v = judge(result("x", 0, p.peak, p.above_cap, p.above_lim), thresholds());
+  EXPECT_EQ(v.level, p.expected);
+  EXPECT_FALSE(v.headline.isEmpty());
+  EXPECT_TRUE(v.detail.contains("kPa")) << v.detail.toStdString();
+}
+INSTANTIATE_TEST_SUITE_P(Levels, Verdicts,
+                         ::testing::Values(VerdictCase{3.0, 0, 0, VerdictLevel::kBelowCapillary},
+                                           VerdictCase{4.69, 0, 0, VerdictLevel::kBelowCapillary},
+                                           VerdictCase{4.8, 0.3, 0, VerdictLevel::kAboveCapillary},
+                                           VerdictCase{15.9, 20, 0, VerdictLevel::kAboveCapillary},
+                                           VerdictCase{16.5, 40, 2.0, VerdictLevel::kAboveLimit}));
+
+TEST(Quantity, ValuesFollowThePdlNodeOrderInDisplayUnits) {
+  analysis::ScenarioResult r;
+  r.pressure_kpa = {1.0, -2.0};
+  r.max_principal_strain_field = {0.01, 0.02};
+  r.equivalent_strain_field = {0.03, 0.04};
+  r.von_mises_kpa = {5, 6};
+  r.displacement_mm = Eigen::Matrix3Xd::Zero(3, 4);
+  r.displacement_mm.col(3) = Eigen::Vector3d(0.003, 0.004, 0);  // 5 um
+  const std::vector<int> pdl_nodes = {3, 0};
+  EXPECT_EQ(quantity_values(r, Quantity::kPressure, pdl_nodes), (std::vector<double>{1.0, -2.0}));
+  EXPECT_DOUBLE_EQ(quantity_values(r, Quantity::kMaxPrincipalStrain, pdl_nodes)[1], 2.0);  // %
+  const auto d = quantity_values(r, Quantity::kDisplacement, pdl_nodes);
+  EXPECT_NEAR(d[0], 5.0, 1e-12);
+  EXPECT_DOUBLE_EQ(d[1], 0.0);
+  // A field missing from the result stays missing rather than turning into zeros.
+  r.von_mises_kpa.clear();
+  EXPECT_TRUE(std::isnan(quantity_values(r, Quantity::kVonMises, pdl_nodes)[0]));
+}
+
+}  // namespace
+}  // namespace sharpey::app
