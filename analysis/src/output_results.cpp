@@ -215,4 +215,32 @@ std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>
   return j.dump(2) + "\n";
 }
 
+std::string mesh_statistics_json(const CaseSpec& spec, const std::vector<ScenarioFacts>& facts) {
+  Json j;
+  j["results_schema_version"] = kResultsSchemaVersion;
+  j["program"] = "Sharpey";
+  j["label"] = spec.label;
+  j["caution"] = caution_text();
+  j["units"] = {{"length", "mm"}, {"area", "mm^2"}, {"volume", "mm^3"}, {"angle", "degree"}};
+  j["regions"] = {{"1", "tooth"}, {"2", "PDL"}, {"3", "cortical bone"}, {"4", "cancellous bone"}};
+  j["face_markers"] = {{"1", "root surface (PDL inner)"}, {"2", "socket surface (PDL outer)"},
+                       {"3", "crown surface"}, {"4", "bracket pad"}, {"5", "fixed bone"},
+                       {"6", "exposed root"}, {"7", "free bone"}, {"8", "PDL crest"},
+                       {"9", "other"}};
+  Json scenarios = Json::array();
+  for (size_t i = 0; i < facts.size(); ++i) {
+    Json s;
+    s["name"] = i < spec.scenarios.size() ? spec.scenarios[i].name : std::to_string(i + 1);
+    s["bone_loss_mm"] =
+        i < spec.scenarios.size() ? number(spec.scenarios[i].loss.horizontal_mm) : Json(nullptr);
+    s["geometry"] = geometry_json(facts[i].geometry);
+    s["mesh"] = mesh_json(facts[i].mesh);
+    if (!facts[i].model_vtu.empty()) s["files"] = {{"mesh_vtu", facts[i].model_vtu}};
+    scenarios.push_back(s);
+  }
+  j["scenarios"] = scenarios;
+  j["case"] = Json::parse(case_to_json(spec));
+  return j.dump(2) + "\n";
+}
+
 }  // namespace sharpey::analysis

@@ -107,6 +107,24 @@ std::string case_to_json(const CaseSpec& spec);  // round-trips through parse_ca
 // Writes atomically (temporary file, then rename). Throws Error naming the path on failure.
 void save_case(const CaseSpec& spec, const std::string& path);
 
+// ---- variations (the batch command's --vary) ----------------------------------------------------
+
+// One varied case-file key: a dotted path with optional array indices ("load.magnitude",
+// "scenarios[1].horizontal_loss_mm", "pdl.material.young_modulus_mpa") and its values, each a JSON
+// literal (number, true/false, "string", [x, y, z]) or a bare word taken as a string.
+struct CaseVariation {
+  std::string key;
+  std::vector<std::string> values;
+};
+// Parses "KEY=V1,V2,..." (commas inside [...] or quotes do not split). Throws InputError with key
+// "--vary" naming the option and the fix.
+CaseVariation parse_variation(const std::string& option);
+// Returns `json_text` (a case file) with `key` set to `value`, creating missing objects on the way.
+// Does not validate the result (parse_case does). Throws InputError with key "--vary" when the path
+// is malformed or runs through an array index that does not exist.
+std::string set_case_value(const std::string& json_text, const std::string& key,
+                           const std::string& value);
+
 // Range checks of a CaseSpec built in code (parse_case runs them too): every value against its
 // allowed range, keys named by their case-file path. Throws InputError.
 void validate_case(const CaseSpec& spec);

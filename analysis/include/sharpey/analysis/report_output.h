@@ -25,6 +25,30 @@ class OutputError : public Error {
 // Throws OutputError naming the path and the system's reason.
 void write_file_atomic(const std::string& path, const std::string& content);
 
+// An output folder filled all at once. Files are written into a staging folder beside `folder`
+// (".<name>.partial-<pid>" in the same parent, so renames stay on one file system); commit() then
+// renames the staging folder to `folder` when it does not exist yet (one atomic step), or moves
+// each staged file into it. A run that is killed leaves `folder` untouched: no partial file ever
+// appears in it. Destroying an uncommitted StagedFolder removes the staging folder. Staging
+// folders left by killed runs (their process gone) are removed by the next StagedFolder for the
+// same folder. Throws OutputError.
+class StagedFolder {
+ public:
+  explicit StagedFolder(const std::string& folder);
+  ~StagedFolder();
+  StagedFolder(const StagedFolder&) = delete;
+  StagedFolder& operator=(const StagedFolder&) = delete;
+
+  // Path in the staging folder for `file_name` (a plain name, no folders).
+  std::string path(const std::string& file_name) const;
+  const std::string& staging_folder() const { return staging_; }
+  void commit();
+
+ private:
+  std::string folder_, staging_;
+  bool committed_ = false;
+};
+
 // Version of the results.json layout (its fixed key names are documented in docs/case-format.md).
 constexpr int kResultsSchemaVersion = 1;
 
@@ -54,6 +78,10 @@ const CentreOfResistance& cres_for(const ScenarioResult& result);
 // more). `facts` may be empty or hold one entry per result.
 std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
                          const std::vector<ScenarioFacts>& facts);
+
+// mesh_statistics.json of the batch `mesh` command: per scenario its name, geometry and mesh
+// statistics, with the caution.
+std::string mesh_statistics_json(const CaseSpec& spec, const std::vector<ScenarioFacts>& facts);
 
 // summary.csv: a `# caution` comment line, then a header and one row per scenario.
 std::string summary_csv(const CaseSpec& spec, const std::vector<ScenarioResult>& results);

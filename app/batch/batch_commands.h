@@ -1,0 +1,28 @@
+// The three sub-commands of sharpey-batch. Each throws the library's typed errors (mapped to exit
+// codes in main.cpp) and writes its output folder through analysis::StagedFolder.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace sharpey::batch {
+
+struct CommonOptions {
+  std::string case_path;
+  std::string out_dir;
+  std::string mesh_preset;  // empty: the case file's preset
+  bool quiet = false;
+};
+
+// Meshes and solves every scenario; writes results.json, summary.csv, summary.txt, case.json and
+// per scenario <stem>_model.vtu, <stem>_pdl.vtu, <stem>_root_map.csv.
+void run_command(const CommonOptions& options);
+
+// Full factorial over the --vary options; writes sweep.csv (one row per combination and scenario)
+// and sweep_case.json (the base case).
+void sweep_command(const CommonOptions& options, const std::vector<std::string>& vary);
+
+// Meshes every scenario; writes <stem>_mesh.vtu, <stem>_boundary.vtu and mesh_statistics.json.
+void mesh_command(const CommonOptions& options);
+
+}  // namespace sharpey::batch

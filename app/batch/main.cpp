@@ -1,0 +1,120 @@
+// sharpey-batch: headless runs of Sharpey case files (run, sweep, mesh). Exit codes in
+// exit_codes.h, documented in --help and docs/case-format.md.
+#include <CLI/CLI.hpp>
+
+#include <cstdio>
+#include <filesystem>
+#include <iostream>
+#include <new>
+
+#include "batch_commands.h"
+#include "exit_codes.h"
+#include "interrupt.h"
+#include "sharpey/analysis/report_output.h"
+#include "sharpey/analysis/study.h"
+#include "sharpey/error.h"
+
+namespace {
+
+using namespace sharpey;
+using namespace sharpey::batch;
+
+constexpr const char* kFooter = R"(Examples:
+  sharpey-batch run samples/maxillary_central_incisor_bone_loss.json --out out/incisor
+  sharpey-batch run samples/mandibular_canine_angular_defect.json --out out/canine --mesh-preset coarse
+  sharpey-batch sweep samples/maxillary_central_incisor_bone_loss.json --out out/sweep \
+      --vary load.magnitude=50,100,150 --vary pdl.material.young_modulus_mpa=0.05,0.47,0.7
+  sharpey-batch mesh samples/mandibular_second_premolar_intrusion.json --out out/premolar-mesh
+
+Exit codes:
+  0  success
+  1  internal error (an unexpected failure; please report it)
+  2  bad input or usage: the case file or an option is malformed or out of range
+     (the message names the key, the value and the fix)
+  3  mesher failure: the tooth model could not be meshed
+  4  solver failure: the finite-element system could not be solved
+  5  output failure: a result file could not be written
+  6  interrupted (Ctrl-C, SIGINT or SIGTERM); nothing partial is left in the output folder
+
+Output folders are written all at once: files appear in --out only when complete.
+The case-file format is described in docs/case-format.md.)";
+
+int fail(int code, const std::string& kind, const std::string& message) {
+  std::cerr << "sharpey-batch: " << kind << ": " << message << '\n';
+  return code;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  CLI::App app{
+      "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
+      "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +
+      analysis::caution_text()};
+  app.footer(kFooter);
+  app.require_subcommand(1, 1);
+
+  CommonOptions options;
+  std::vector<std::string> vary;
+  auto add_common = [&options](CLI::App* sub) {
+    sub->add_option("case", options.case_path, "case file (JSON, see docs/case-format.md)")
+        ->required()
+        ->check(CLI::ExistingFile);
+    sub->add_option("--out,-o", options.out_dir, "output folder (created if missing)")->required();
+    sub->add_option("--mesh-preset", options.mesh_preset,
+                    "override the case file's mesh preset (coarse, standard, fine)")
+        ->check(CLI::IsMember({"coarse", "standard", "fine"}));
+    sub->add_flag("--quiet,-q", options.quiet, "no progress lines on stderr");
+  };
+  CLI::App* run = app.add_subcommand(
+      "run", "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
+             "case.json and per scenario the model and PDL .vtu and the root-map CSV");
+  add_common(run);
+  CLI::App* sweep = app.add_subcommand(
+      "sweep", "full-factorial sweep over case keys; write sweep.csv (one row per combination "
+               "and scenario)");
+  add_common(sweep);
+  sweep
+      ->add_option("--vary", vary,
+                   "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "
+                   "load.magnitude=50,100,150 (repeat for more keys)")
+      ->required();
+  CLI::App* mesh_cmd = app.add_subcommand(
+      "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
+  add_common(mesh_cmd);
+  // Usage errors go through our exit code 2, not CLI11's own numbers.
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    const int shown = app.exit(e);
+    return shown == 0 ? kOk : kBadInput;
+  }
+
+  install_interrupt_handlers();
+  try {
+    if (run->parsed()) run_command(options);
+    if (sweep->parsed()) sweep_command(options, vary);
+    if (mesh_cmd->parsed()) mesh_command(options);
+    return kOk;
+  } catch (const Cancelled&) {
+    return fail(kInterrupted, "interrupted", "stopped before finishing; no output was written");
+  } catch (const InputError& e) {
+    return fail(kBadInput, "bad input (key " + e.key() + ")", e.what());
+  } catch (const MeshError& e) {
+    return fail(kMeshFailure, "mesher failure", e.what());
+  } catch (const SolverError& e) {
+    return fail(kSolverFailure, "solver failure", e.what());
+  } catch (const analysis::OutputError& e) {
+    return fail(kOutputFailure, "output failure", e.what());
+  } catch (const std::filesystem::filesystem_error& e) {
+    return fail(kOutputFailure, "output failure", e.what());
+  } catch (const Error& e) {
+    // Other library data errors: the .vtu writer reports I/O failures this way.
+    return fail(kOutputFailure, "error", e.what());
+  } catch (const std::bad_alloc&) {
+    return fail(kInternalError, "internal error",
+                "out of memory; try a coarser mesh preset (--mesh-preset coarse)");
+  } catch (const std::exception& e) {
+    return fail(kInternalError, "internal error", e.what());
+  }
+}
