@@ -112,7 +112,7 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   // Equivalent force: linear scaling against the healthy scenario under the same load spec
   // (resolved there on its own centre of resistance).
   if (healthy != nullptr) {
-    const double force_g = load.magnitude * to_newton(1.0, load.unit) / to_newton(1.0, ForceUnit::kGram);
+    const double force_g = from_newton(load.force_n(), ForceUnit::kGram);
     const PressureMeasures reference =
         healthy == &solution ? measures : pressure_measures(*healthy, load);
     r.equivalent_force_peak_g =

@@ -1,3 +1,4 @@
+#include <Eigen/LU>
 #include <cmath>
 #include <limits>
 #include <sstream>
@@ -39,7 +40,8 @@ ForceGeometry force_geometry(const LoadSpec& load, const LoadContext& context) {
   if (!std::isfinite(magnitude_n) || !(magnitude_n > 0)) {
     std::ostringstream msg;
     msg << "force magnitude " << load.magnitude << " " << to_string(load.unit)
-        << " must be positive; give the force in " << to_string(load.unit) << ", e.g. 100 g";
+        << " must be positive; give a magnitude above 0 (orthodontic forces are typically 10 to "
+           "150 g, about 0.1 to 1.5 N)";
     throw InputError("load.magnitude", msg.str());
   }
   ForceGeometry g;
@@ -62,7 +64,10 @@ ForceGeometry force_geometry(const LoadSpec& load, const LoadContext& context) {
   const double wx = f_hat.x() * f_hat.x(), wy = f_hat.y() * f_hat.y();
   const double z_c = wx + wy > 1e-12 ? (wx * context.cres_x_z_mm + wy * context.cres_y_z_mm) / (wx + wy)
                                       : 0.5 * (context.cres_x_z_mm + context.cres_y_z_mm);
-  const Eigen::Vector3d tipping = (g.point - Eigen::Vector3d(0, 0, z_c)).cross(g.force_n);
+  // Only the tipping part of the force's moment about the CRes (perpendicular to the long axis)
+  // sets c_hat; a torque about the axis (a mesial force at a labial bracket) is not tipping.
+  Eigen::Vector3d tipping = (g.point - Eigen::Vector3d(0, 0, z_c)).cross(g.force_n);
+  tipping.z() = 0;
   if (tipping.norm() > 1e-9 * magnitude_n) {
     g.couple_unit = -tipping.normalized();
   } else {
@@ -74,39 +79,46 @@ ForceGeometry force_geometry(const LoadSpec& load, const LoadContext& context) {
   return g;
 }
 
-// Rigid motion of the force (with its moment about the bracket) plus kappa times the unit couple.
-struct MotionPair {
-  RigidMotion base, per_kappa;
-};
-
-MotionPair motions(const ForceGeometry& g, const LoadContext& context) {
+// The couple that leaves the tooth without rotation: W_M C = -w(force), W_M the rotation per unit
+// couple (3 x 3, invertible for an elastically held tooth).
+Eigen::Vector3d couple_for_no_rotation(const ForceGeometry& g, const LoadContext& context) {
   const Eigen::Vector3d r = context.response.reference_point;
-  MotionPair m;
-  m.base = context.response.motion(g.force_n, (g.point - r).cross(g.force_n));
-  m.per_kappa = context.response.motion(Eigen::Vector3d::Zero(), g.force_n.norm() * g.couple_unit);
-  return m;
+  const Eigen::Vector3d w0 =
+      context.response.motion(g.force_n, (g.point - r).cross(g.force_n)).rotation_rad;
+  const Eigen::Matrix3d W_M = context.response.matrix.block<3, 3>(3, 3);
+  const Eigen::FullPivLU<Eigen::Matrix3d> lu(W_M);
+  if (!lu.isInvertible()) {
+    throw SolverError("translation couple undefined: some couple does not rotate the tooth; the "
+                      "model is not held elastically (check the materials and the fixed bone faces)");
+  }
+  return -lu.solve(w0);
 }
 
-double kappa_for_no_rotation(const MotionPair& m) {
-  const double den = m.per_kappa.rotation_rad.squaredNorm();
-  if (!(den > 0)) throw SolverError("translation couple undefined: a couple does not rotate the tooth");
-  return -m.base.rotation_rad.dot(m.per_kappa.rotation_rad) / den;
-}
-
-double kappa_for_centre_of_rotation(const MotionPair& m, const ForceGeometry& g, double z,
-                                    const char* what) {
-  // Displacement of the axis point along the force's tipping plane: d = c_hat x e_z.
+// The couple C = kappa |F| c_hat + tau |F| e_z that puts the centre of rotation at the axis point
+// of height z (no displacement along d = c_hat x e_z there) with no turn about the long axis.
+Eigen::Vector3d couple_for_centre_of_rotation(const ForceGeometry& g, const LoadContext& context,
+                                              double z, const char* what) {
+  const Eigen::Vector3d r = context.response.reference_point;
+  const double f = g.force_n.norm();
+  const RigidMotion base = context.response.motion(g.force_n, (g.point - r).cross(g.force_n));
+  const RigidMotion per_kappa = context.response.motion(Eigen::Vector3d::Zero(), f * g.couple_unit);
+  const RigidMotion per_tau =
+      context.response.motion(Eigen::Vector3d::Zero(), f * Eigen::Vector3d::UnitZ());
   const Eigen::Vector3d d = g.couple_unit.cross(Eigen::Vector3d::UnitZ());
   const Eigen::Vector3d q(0, 0, z);
-  const double den = d.dot(m.per_kappa.displacement_at(q));
-  const double num = d.dot(m.base.displacement_at(q));
-  if (d.norm() < 1e-9 || !(std::abs(den) > 1e-12 * std::abs(num))) {
+  Eigen::Matrix2d A;
+  A << d.dot(per_kappa.displacement_at(q)), d.dot(per_tau.displacement_at(q)),
+      per_kappa.rotation_rad.z(), per_tau.rotation_rad.z();
+  const Eigen::Vector2d b(-d.dot(base.displacement_at(q)), -base.rotation_rad.z());
+  const Eigen::FullPivLU<Eigen::Matrix2d> lu(A);
+  if (!lu.isInvertible()) {
     std::ostringstream msg;
     msg << what << " undefined for this force: no couple moves the centre of rotation to z = " << z
         << " mm; use a force with a component perpendicular to the long axis";
     throw SolverError(msg.str());
   }
-  return -num / den;
+  const Eigen::Vector2d x = lu.solve(b);
+  return f * (x(0) * g.couple_unit + x(1) * Eigen::Vector3d::UnitZ());
 }
 
 }  // namespace
@@ -132,35 +144,32 @@ ResolvedLoad resolve_load(const LoadSpec& load, const LoadContext& context) {
   }
   const ForceGeometry g = force_geometry(load, context);
   const double magnitude_n = g.force_n.norm();
-  double kappa = 0;
-  Eigen::Vector3d extra_couple = Eigen::Vector3d::Zero();  // part of a given moment off c_hat
+  Eigen::Vector3d couple = Eigen::Vector3d::Zero();
   switch (load.preset) {
     case MovementPreset::kNone:
       if (load.couple == CoupleKind::kRatio) {
-        kappa = load.moment_to_force_mm;
+        couple = load.moment_to_force_mm * magnitude_n * g.couple_unit;
       } else if (load.couple == CoupleKind::kMoment) {
-        kappa = load.moment_nmm.dot(g.couple_unit) / magnitude_n;
-        extra_couple = load.moment_nmm - kappa * magnitude_n * g.couple_unit;
+        couple = load.moment_nmm;
       }
       break;
-    case MovementPreset::kUncontrolledTipping: kappa = 0; break;
+    case MovementPreset::kUncontrolledTipping: break;
     case MovementPreset::kControlledTipping:
-      kappa = kappa_for_centre_of_rotation(motions(g, context), g, context.apex_z_mm,
-                                           "controlled tipping");
+      couple = couple_for_centre_of_rotation(g, context, context.apex_z_mm, "controlled tipping");
       break;
     case MovementPreset::kRootMovement:
-      kappa = kappa_for_centre_of_rotation(motions(g, context), g, g.point.z(), "root movement");
+      couple = couple_for_centre_of_rotation(g, context, g.point.z(), "root movement");
       break;
     case MovementPreset::kTranslation:
     case MovementPreset::kIntrusion:
-    case MovementPreset::kExtrusion: kappa = kappa_for_no_rotation(motions(g, context)); break;
+    case MovementPreset::kExtrusion: couple = couple_for_no_rotation(g, context); break;
     case MovementPreset::kRotation: break;  // handled above
   }
   out.force_n = g.force_n;
   out.application_point = g.point;
-  out.couple_nmm = kappa * magnitude_n * g.couple_unit + extra_couple;
-  out.moment_nmm = (g.point - r).cross(g.force_n) + out.couple_nmm;
-  out.moment_to_force_mm = kappa;
+  out.couple_nmm = couple;
+  out.moment_nmm = (g.point - r).cross(g.force_n) + couple;
+  out.moment_to_force_mm = couple.dot(g.couple_unit) / magnitude_n;
   out.preset = load.preset;
   return out;
 }

@@ -28,19 +28,21 @@ struct LoadContext {
 // - application point: the bracket centre, or at `bracket_height_mm` above the CEJ straight above
 //   or below it (same x and y; the crown's curvature is ignored). The force's moment about the
 //   bracket centre is included in the resolved moment.
-// - couple: C = kappa |F| c_hat, where c_hat opposes the force's tipping moment about the centre of
-//   resistance (c_hat = -m / |m|, m = (p - c) x F, c on the long axis at the CRes height for the
-//   force's horizontal direction), so kappa is the moment-to-force ratio (mm, positive when the
-//   couple opposes tipping). kappa comes from the couple kind (none: 0, ratio: as given, moment: the
-//   given moment's component along c_hat, the rest of the moment is applied too) or the preset:
-//     uncontrolled tipping  kappa = 0
-//     controlled tipping    the axis point at the apex height does not move along the force
-//     translation           |rotation| minimal (zero for a symmetric tooth)
-//     root movement         the axis point at the application height does not move along the force
+// - couple direction c_hat: opposite to the tipping part (perpendicular to the long axis) of the
+//   force's moment about the centre of resistance, m = (p - c) x F with c on the long axis at the
+//   CRes height for the force's horizontal direction (x and y heights blended by the squared
+//   direction components). The moment-to-force ratio reported is kappa = C . c_hat / |F| (mm,
+//   positive when the couple opposes tipping).
+// - couple C from the couple kind (none: 0; ratio: kappa |F| c_hat; moment: as given) or the preset:
+//     uncontrolled tipping  no couple
+//     controlled tipping    C = kappa |F| c_hat + tau |F| e_z with the axis point at the apex height
+//                           not moving along d = c_hat x e_z and no turn about the long axis
+//     translation           C cancelling the whole rotation: W_M C = -w(force), 3 x 3
+//     root movement         as controlled tipping, with the axis point at the application height
 //     intrusion, extrusion  as translation, force along -z / +z
 //     rotation              no force; a couple |F| * (crown mesiodistal width / 2) about +z
 //                           (counter-clockwise seen from the crown); kappa = width / 2
-//   Each preset is one linear equation in kappa on the superposed rigid motion.
+//   Each preset is a small linear system on the superposed rigid motion.
 // Throws InputError ("load.magnitude", "load.direction", "load.bracket_height_mm") for values the
 // resolution cannot use, SolverError when a preset's equation is degenerate.
 ResolvedLoad resolve_load(const LoadSpec& load, const LoadContext& context);

@@ -5,6 +5,7 @@
 #pragma once
 
 #include <Eigen/Core>
+#include <Eigen/Geometry>  // cross products
 #include <vector>
 
 namespace sharpey::analysis::detail {
