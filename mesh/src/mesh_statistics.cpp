@@ -39,13 +39,6 @@ void check_mesh(const VolumeMesh& m) {
   }
 }
 
-// Shape-function gradients at a set of reference points, evaluated once per mesh.
-std::vector<Eigen::MatrixXd> tet_gradients(int k, const std::vector<Eigen::Vector3d>& points) {
-  std::vector<Eigen::MatrixXd> g;
-  for (const auto& p : points) g.push_back(tet_shape_gradient(k, p));
-  return g;
-}
-
 // Dihedral angles (deg) and radius-edge ratio of the straight tetrahedron a, b, c, d.
 void vertex_quality(const Eigen::Vector3d x[4], double* min_dihedral, double* max_dihedral,
                     double* radius_edge) {
@@ -79,30 +72,23 @@ void vertex_quality(const Eigen::Vector3d x[4], double* min_dihedral, double* ma
                                              : circumradius / shortest;
 }
 
-}  // namespace
-
-MeshStatistics measure(const VolumeMesh& m) {
-  check_mesh(m);
-  MeshStatistics s;
-  s.n_nodes = m.n_nodes();
-  s.n_elements = m.n_elements();
-  s.n_faces = m.n_faces();
-
-  const int k = m.nodes_per_element;
-  const QuadratureRule rule = tet_quadrature(k == 10 ? 5 : 1);
-  const std::vector<Eigen::MatrixXd> g_qp = tet_gradients(k, rule.points);
-  std::vector<Eigen::Vector3d> node_points;
-  if (k == 10) {  // for 4-node elements det J is constant: the quadrature point suffices
-    for (int i = 0; i < k; ++i) node_points.push_back(tet_node_reference(i));
+// Volume, Jacobian ratio and vertex quality of every K-node element (fixed sizes: no allocation in
+// the loop).
+template <int K>
+void measure_elements(const VolumeMesh& m, MeshStatistics& s) {
+  const QuadratureRule rule = tet_quadrature(K == 10 ? 5 : 1);
+  using Gradient = Eigen::Matrix<double, K, 3>;
+  std::vector<Gradient> g_qp, g_nodes;
+  for (const auto& p : rule.points) g_qp.push_back(tet_shape_gradient(K, p));
+  if (K == 10) {  // for 4-node elements det J is constant: the quadrature point suffices
+    for (int i = 0; i < K; ++i) g_nodes.push_back(tet_shape_gradient(K, tet_node_reference(i)));
   }
-  const std::vector<Eigen::MatrixXd> g_nodes = tet_gradients(k, node_points);
-
   s.min_jacobian_ratio = s.n_elements > 0 ? std::numeric_limits<double>::max() : 0.0;
   s.min_dihedral_deg = s.n_elements > 0 ? 180.0 : 0.0;
-  Eigen::Matrix3Xd X(3, k);
+  Eigen::Matrix<double, 3, K> X;
   for (int e = 0; e < s.n_elements; ++e) {
     const int* el = m.element(e);
-    for (int i = 0; i < k; ++i) X.col(i) = m.nodes[static_cast<size_t>(el[i])];
+    for (int i = 0; i < K; ++i) X.col(i) = m.nodes[static_cast<size_t>(el[i])];
     double volume = 0, det_min = std::numeric_limits<double>::max(), det_max_abs = 0;
     for (size_t q = 0; q < g_qp.size(); ++q) {
       const double det = (X * g_qp[q]).determinant();
@@ -135,21 +121,44 @@ MeshStatistics measure(const VolumeMesh& m) {
     s.max_radius_edge_ratio = std::max(s.max_radius_edge_ratio, re);
   }
   s.n_inverted_elements = static_cast<int>(s.inverted_elements.size());
+}
 
-  const int kf = m.nodes_per_face;
-  const TriangleQuadrature face_rule = tri_quadrature(kf == 6 ? 5 : 1);
-  std::vector<Eigen::MatrixXd> g_face;
-  for (const auto& p : face_rule.points) g_face.push_back(tri_shape_gradient(kf, p));
-  Eigen::Matrix3Xd Y(3, kf);
+// Area per marker of K-node faces: the integral of |x_u x x_v| over the reference triangle.
+template <int K>
+void measure_faces(const VolumeMesh& m, MeshStatistics& s) {
+  const TriangleQuadrature rule = tri_quadrature(K == 6 ? 5 : 1);
+  std::vector<Eigen::Matrix<double, K, 2>> g;
+  for (const auto& p : rule.points) g.push_back(tri_shape_gradient(K, p));
+  Eigen::Matrix<double, 3, K> Y;
   for (int f = 0; f < s.n_faces; ++f) {
     const int* fa = m.face(f);
-    for (int i = 0; i < kf; ++i) Y.col(i) = m.nodes[static_cast<size_t>(fa[i])];
+    for (int i = 0; i < K; ++i) Y.col(i) = m.nodes[static_cast<size_t>(fa[i])];
     double area = 0;
-    for (size_t q = 0; q < g_face.size(); ++q) {
-      const Eigen::Matrix<double, 3, 2> T = Y * g_face[q];
-      area += face_rule.weights[q] * T.col(0).cross(T.col(1)).norm();
+    for (size_t q = 0; q < g.size(); ++q) {
+      const Eigen::Matrix<double, 3, 2> T = Y * g[q];
+      area += rule.weights[q] * T.col(0).cross(T.col(1)).norm();
     }
     s.area_per_marker_mm2[m.face_marker[static_cast<size_t>(f)]] += area;
+  }
+}
+
+}  // namespace
+
+MeshStatistics measure(const VolumeMesh& m) {
+  check_mesh(m);
+  MeshStatistics s;
+  s.n_nodes = m.n_nodes();
+  s.n_elements = m.n_elements();
+  s.n_faces = m.n_faces();
+  if (m.nodes_per_element == 10) {
+    measure_elements<10>(m, s);
+  } else {
+    measure_elements<4>(m, s);
+  }
+  if (m.nodes_per_face == 6) {
+    measure_faces<6>(m, s);
+  } else {
+    measure_faces<3>(m, s);
   }
 
   const std::vector<PdlWidthSample> widths = pdl_width_samples(m);

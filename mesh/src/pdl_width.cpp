@@ -1,10 +1,12 @@
-// PDL width: nearest-point distance from root-surface nodes to the socket surface, with a bucket
-// grid over the socket triangles.
+// PDL width: nearest-point distance from root-surface nodes to the socket surface, with a
+// bounding-volume hierarchy over the socket triangles.
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <cstdint>
 #include <limits>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include <Eigen/Dense>
@@ -70,104 +72,151 @@ Vector3d closest_point_on_triangle(const Vector3d& p, const Vector3d& a, const V
   return a + *s * ab + *t * ac;
 }
 
-// Uniform bucket grid over triangles; each triangle is listed in every cell its box touches.
-class TriangleGrid {
+// Bounding-volume hierarchy over triangles (axis-aligned boxes plus a slab along the mean normal,
+// median split on the longest axis)
+// with a depth-first nearest-point query that visits the nearer child first and prunes boxes
+// farther than the best distance found so far.
+class TriangleTree {
  public:
-  explicit TriangleGrid(const std::vector<SearchTriangle>& tris) : tris_(tris) {
-    Vector3d lo = Vector3d::Constant(std::numeric_limits<double>::max());
-    Vector3d hi = -lo;
-    double extent_sum = 0;
-    for (const auto& t : tris_) {
-      const Vector3d tlo = t.x[0].cwiseMin(t.x[1]).cwiseMin(t.x[2]);
-      const Vector3d thi = t.x[0].cwiseMax(t.x[1]).cwiseMax(t.x[2]);
-      lo = lo.cwiseMin(tlo);
-      hi = hi.cwiseMax(thi);
-      extent_sum += (thi - tlo).maxCoeff();
-    }
-    const Vector3d size = (hi - lo).cwiseMax(1e-12);
-    h_ = std::max(extent_sum / static_cast<double>(tris_.size()), 1e-9 * size.maxCoeff());
-    // Keep the cell count within a few per triangle.
-    const double max_cells = 4.0 * static_cast<double>(tris_.size()) + 64.0;
-    while ((size / h_).array().ceil().prod() > max_cells) h_ *= 1.25;
-    lo_ = lo;
-    for (int d = 0; d < 3; ++d) n_[d] = std::max(1, static_cast<int>(std::ceil(size[d] / h_)));
-
-    std::vector<int> count(static_cast<size_t>(n_[0]) * n_[1] * n_[2] + 1, 0);
-    auto for_cells = [this](const SearchTriangle& t, auto&& visit) {
-      const auto a = cell_of(t.x[0].cwiseMin(t.x[1]).cwiseMin(t.x[2]));
-      const auto b = cell_of(t.x[0].cwiseMax(t.x[1]).cwiseMax(t.x[2]));
-      for (int i = a[0]; i <= b[0]; ++i)
-        for (int j = a[1]; j <= b[1]; ++j)
-          for (int k = a[2]; k <= b[2]; ++k) visit(index(i, j, k));
-    };
-    for (const auto& t : tris_) for_cells(t, [&count](size_t c) { ++count[c + 1]; });
-    for (size_t c = 1; c < count.size(); ++c) count[c] += count[c - 1];
-    start_ = count;
-    items_.resize(static_cast<size_t>(count.back()));
+  explicit TriangleTree(const std::vector<SearchTriangle>& tris) : tris_(tris) {
+    order_.resize(tris_.size());
+    centroid_.resize(tris_.size());
     for (size_t i = 0; i < tris_.size(); ++i) {
-      for_cells(tris_[i], [&](size_t c) { items_[static_cast<size_t>(count[c]++)] = static_cast<int>(i); });
+      order_[i] = static_cast<int>(i);
+      centroid_[i] = (tris_[i].x[0] + tris_[i].x[1] + tris_[i].x[2]) / 3.0;
     }
+    nodes_.reserve(2 * tris_.size() + 1);
+    build(0, static_cast<int>(tris_.size()));
+    // Copy the corners in leaf order so a query reads neighbouring triangles from adjacent memory.
+    leaf_x_.reserve(tris_.size());
+    for (int i : order_) leaf_x_.push_back(tris_[static_cast<size_t>(i)].x);
   }
 
   // Index of the nearest triangle, its closest point and barycentric (s, t) there.
   int nearest(const Vector3d& p, Vector3d* closest, double* s, double* t) const {
-    const auto c = cell_of(p);
-    double best = std::numeric_limits<double>::max();
-    int best_tri = -1;
-    const int max_ring = std::max({n_[0], n_[1], n_[2]});
-    for (int r = 0; r <= max_ring; ++r) {
-      for (int i = std::max(0, c[0] - r); i <= std::min(n_[0] - 1, c[0] + r); ++i) {
-        for (int j = std::max(0, c[1] - r); j <= std::min(n_[1] - 1, c[1] + r); ++j) {
-          const bool inner = std::abs(i - c[0]) < r && std::abs(j - c[1]) < r;
-          for (int k = std::max(0, c[2] - r); k <= std::min(n_[2] - 1, c[2] + r); ++k) {
-            if (inner && std::abs(k - c[2]) < r) {  // interior of the ring: seen already
-              k = c[2] + r - 1;
-              continue;
-            }
-            const size_t cell = index(i, j, k);
-            for (int q = start_[cell]; q < start_[cell + 1]; ++q) {
-              const SearchTriangle& tri = tris_[static_cast<size_t>(items_[static_cast<size_t>(q)])];
-              double ss, tt;
-              const Vector3d x = closest_point_on_triangle(p, tri.x[0], tri.x[1], tri.x[2], &ss, &tt);
-              const double d = (x - p).squaredNorm();
-              if (d < best) {
-                best = d;
-                best_tri = items_[static_cast<size_t>(q)];
-                *closest = x;
-                *s = ss;
-                *t = tt;
-              }
-            }
-          }
-        }
-      }
-      // Cells beyond ring r are at least r cell widths away from p's cell.
-      if (best_tri >= 0 && std::sqrt(best) <= r * h_) break;
-    }
-    return best_tri;
+    Query q{p, std::numeric_limits<double>::max(), -1, Vector3d::Zero(), 0, 0};
+    visit(0, q);
+    *closest = q.point;
+    *s = q.s;
+    *t = q.t;
+    return q.tri;
   }
 
  private:
-  std::array<int, 3> cell_of(const Vector3d& p) const {
-    std::array<int, 3> c;
-    for (int d = 0; d < 3; ++d) {
-      const int i = static_cast<int>(std::floor((p[d] - lo_[d]) / h_));
-      c[static_cast<size_t>(d)] = std::clamp(i, 0, n_[d] - 1);
+  static constexpr int kLeafSize = 4;
+  struct Node {
+    Eigen::AlignedBox3d box;
+    // Slab {x : slab_lo <= axis . x <= slab_hi} holding the node's triangles, axis close to their
+    // common normal: on smooth surfaces it bounds the distance far better than the box does.
+    Vector3d axis = Vector3d::UnitX();
+    double slab_lo = 0, slab_hi = 0;
+    int first = 0, count = 0;  // leaf: triangles order_[first, first + count)
+    int left = -1, right = -1;  // inner node: children
+  };
+  struct Query {
+    Vector3d p;
+    double best;  // squared distance
+    int tri;
+    Vector3d point;
+    double s, t;
+  };
+
+  void fit_slab(Node& node, int first, int last) const {
+    Vector3d normal_sum = Vector3d::Zero();
+    for (int i = first; i < last; ++i) {
+      const auto& x = tris_[static_cast<size_t>(order_[static_cast<size_t>(i)])].x;
+      const Vector3d n = (x[1] - x[0]).cross(x[2] - x[0]);
+      normal_sum += normal_sum.dot(n) < 0 ? -n : n;  // orientation-independent sum of area normals
     }
-    return c;
+    node.axis = normal_sum.norm() > 0 ? normal_sum.normalized() : Vector3d::UnitX();
+    node.slab_lo = std::numeric_limits<double>::max();
+    node.slab_hi = -std::numeric_limits<double>::max();
+    for (int i = first; i < last; ++i) {
+      for (const auto& x : tris_[static_cast<size_t>(order_[static_cast<size_t>(i)])].x) {
+        node.slab_lo = std::min(node.slab_lo, node.axis.dot(x));
+        node.slab_hi = std::max(node.slab_hi, node.axis.dot(x));
+      }
+    }
   }
-  size_t index(int i, int j, int k) const {
-    return (static_cast<size_t>(i) * static_cast<size_t>(n_[1]) + static_cast<size_t>(j)) *
-               static_cast<size_t>(n_[2]) +
-           static_cast<size_t>(k);
+
+  int build(int first, int last) {
+    const int id = static_cast<int>(nodes_.size());
+    nodes_.emplace_back();
+    Eigen::AlignedBox3d box, centres;
+    for (int i = first; i < last; ++i) {
+      const SearchTriangle& tri = tris_[static_cast<size_t>(order_[static_cast<size_t>(i)])];
+      for (const auto& x : tri.x) box.extend(x);
+      centres.extend(centroid_[static_cast<size_t>(order_[static_cast<size_t>(i)])]);
+    }
+    nodes_[static_cast<size_t>(id)].box = box;
+    fit_slab(nodes_[static_cast<size_t>(id)], first, last);
+    if (last - first <= kLeafSize) {
+      nodes_[static_cast<size_t>(id)].first = first;
+      nodes_[static_cast<size_t>(id)].count = last - first;
+      return id;
+    }
+    int axis = 0;
+    centres.sizes().maxCoeff(&axis);
+    const int mid = (first + last) / 2;
+    std::nth_element(order_.begin() + first, order_.begin() + mid, order_.begin() + last,
+                     [this, axis](int a, int b) {
+                       return centroid_[static_cast<size_t>(a)][axis] < centroid_[static_cast<size_t>(b)][axis];
+                     });
+    const int left = build(first, mid);
+    const int right = build(mid, last);
+    nodes_[static_cast<size_t>(id)].left = left;
+    nodes_[static_cast<size_t>(id)].right = right;
+    return id;
+  }
+
+  // Squared lower bound of the distance from p to the node's triangles.
+  static double lower_bound(const Node& n, const Vector3d& p) {
+    const double a = n.axis.dot(p);
+    const double slab = std::max({0.0, a - n.slab_hi, n.slab_lo - a});
+    return std::max(n.box.squaredExteriorDistance(p), slab * slab);
+  }
+
+  void visit(int id, Query& q) const {
+    const Node& n = nodes_[static_cast<size_t>(id)];
+    if (n.left < 0) {
+      for (int i = n.first; i < n.first + n.count; ++i) {
+        const auto& x3 = leaf_x_[static_cast<size_t>(i)];
+        double ss, tt;
+        const Vector3d x = closest_point_on_triangle(q.p, x3[0], x3[1], x3[2], &ss, &tt);
+        const double d = (x - q.p).squaredNorm();
+        if (d < q.best) q = Query{q.p, d, order_[static_cast<size_t>(i)], x, ss, tt};
+      }
+      return;
+    }
+    const double dl = lower_bound(nodes_[static_cast<size_t>(n.left)], q.p);
+    const double dr = lower_bound(nodes_[static_cast<size_t>(n.right)], q.p);
+    const bool left_first = dl <= dr;
+    const int near = left_first ? n.left : n.right, far = left_first ? n.right : n.left;
+    if (std::min(dl, dr) < q.best) visit(near, q);
+    if (std::max(dl, dr) < q.best) visit(far, q);
   }
 
   const std::vector<SearchTriangle>& tris_;
-  Vector3d lo_;
-  double h_ = 1;
-  std::array<int, 3> n_{};
-  std::vector<int> start_, items_;
+  std::vector<int> order_;
+  std::vector<std::array<Vector3d, 3>> leaf_x_;
+  std::vector<Vector3d> centroid_;
+  std::vector<Node> nodes_;
 };
+
+// 63-bit Morton code of p inside `box` (21 bits per axis).
+std::uint64_t morton_code(const Vector3d& p, const Eigen::AlignedBox3d& box) {
+  const Vector3d size = box.sizes().cwiseMax(1e-300);
+  std::uint64_t code = 0;
+  std::uint64_t c[3];
+  for (int d = 0; d < 3; ++d) {
+    const double u = std::clamp((p[d] - box.min()[d]) / size[d], 0.0, 1.0);
+    c[d] = static_cast<std::uint64_t>(u * 2097151.0);
+  }
+  for (int bit = 20; bit >= 0; --bit) {
+    for (int d = 0; d < 3; ++d) code = (code << 1) | ((c[d] >> bit) & 1u);
+  }
+  return code;
+}
 
 // Projects (u, v) onto the reference triangle.
 Vector2d clamp_to_triangle(Vector2d uv) {
@@ -242,15 +291,29 @@ std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& m, int root_mark
   }
   std::vector<PdlWidthSample> samples;
   if (tris.empty()) return samples;
-  const TriangleGrid grid(tris);
+  const TriangleTree tree(tris);
+  // Query in Morton (Z-curve) order so consecutive queries walk the same part of the tree; the
+  // samples are returned in ascending node order.
+  std::vector<int> roots;
+  Eigen::AlignedBox3d box;
   for (int v = 0; v < m.n_nodes(); ++v) {
     if (!is_root[static_cast<size_t>(v)]) continue;
-    PdlWidthSample sample;
+    roots.push_back(v);
+    box.extend(m.nodes[static_cast<size_t>(v)]);
+  }
+  std::vector<std::pair<std::uint64_t, int>> by_code;
+  by_code.reserve(roots.size());
+  for (int v : roots) by_code.emplace_back(morton_code(m.nodes[static_cast<size_t>(v)], box), v);
+  std::sort(by_code.begin(), by_code.end());
+  samples.resize(roots.size());
+  for (const auto& [code, v] : by_code) {
+    PdlWidthSample& sample = samples[static_cast<size_t>(
+        std::lower_bound(roots.begin(), roots.end(), v) - roots.begin())];
     sample.node = v;
     sample.root_point = m.nodes[static_cast<size_t>(v)];
     double s = 0, t = 0;
     Vector3d closest = Vector3d::Zero();
-    const int tri = grid.nearest(sample.root_point, &closest, &s, &t);
+    const int tri = tree.nearest(sample.root_point, &closest, &s, &t);
     if (k == 6) {
       const SearchTriangle& st = tris[static_cast<size_t>(tri)];
       const Vector2d uv = (1 - s - t) * st.ref[0] + s * st.ref[1] + t * st.ref[2];
@@ -258,7 +321,6 @@ std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& m, int root_mark
     }
     sample.socket_point = closest;
     sample.width_mm = (closest - sample.root_point).norm();
-    samples.push_back(sample);
   }
   return samples;
 }

@@ -46,8 +46,10 @@ struct PdlWidthSample {
 // Samples the distance from every node of the faces marked `root_marker` to the nearest point of
 // the faces marked `socket_marker` (6-node faces: the curved quadratic surface, found on its four
 // flat sub-triangles and refined by Newton steps on the patch; 3-node faces: the flat triangles).
-// Uses a bucket grid: about 0.5 s for 10^5 socket faces and 10^5 samples. Returns samples in
-// ascending node order; empty when either surface has no faces.
+// Uses a bounding-volume hierarchy (boxes plus normal slabs): about 0.1 s of processor time for
+// 8e4 flat socket faces and 4e4 samples, 0.6 s for 8e4 curved faces and 1.6e5 samples
+// (tests/bench/bench_mesh_statistics.cpp). Returns samples in ascending node order; empty when
+// either surface has no faces.
 std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& mesh, int root_marker = kRootSurface,
                                               int socket_marker = kSocketSurface);
 

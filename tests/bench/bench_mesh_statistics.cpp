@@ -1,0 +1,99 @@
+// Prints the run time of the PDL width search and of measure() on large invented surfaces: two
+// concentric geodesic spheres (radius 3 and 3.2 mm) with about 10^5 faces each, flat and curved.
+#include <Eigen/Geometry>
+#include <algorithm>
+#include <array>
+#include <ctime>
+#include <cmath>
+#include <cstdio>
+#include <map>
+#include <utility>
+#include <vector>
+
+#include "sharpey/mesh/mesh_statistics.h"
+#include "sharpey/mesh/second_order.h"
+
+namespace {
+
+using sharpey::mesh::VolumeMesh;
+
+// Geodesic sphere (icosahedron subdivided `levels` times) appended to `m` as faces with `marker`.
+void add_sphere(VolumeMesh& m, double radius, int levels, int marker) {
+  const double t = (1.0 + std::sqrt(5.0)) / 2.0;
+  std::vector<Eigen::Vector3d> p = {{-1, t, 0}, {1, t, 0}, {-1, -t, 0}, {1, -t, 0},
+                                    {0, -1, t}, {0, 1, t}, {0, -1, -t}, {0, 1, -t},
+                                    {t, 0, -1}, {t, 0, 1}, {-t, 0, -1}, {-t, 0, 1}};
+  for (auto& x : p) x.normalize();
+  std::vector<std::array<int, 3>> f = {
+      {0, 11, 5}, {0, 5, 1},  {0, 1, 7},   {0, 7, 10}, {0, 10, 11}, {1, 5, 9}, {5, 11, 4},
+      {11, 10, 2}, {10, 7, 6}, {7, 1, 8},  {3, 9, 4},  {3, 4, 2},   {3, 2, 6}, {3, 6, 8},
+      {3, 8, 9},  {4, 9, 5},  {2, 4, 11}, {6, 2, 10}, {8, 6, 7},   {9, 8, 1}};
+  for (int l = 0; l < levels; ++l) {
+    std::map<std::pair<int, int>, int> mid;
+    auto midpoint = [&](int a, int b) {
+      const auto key = std::make_pair(std::min(a, b), std::max(a, b));
+      const auto it = mid.find(key);
+      if (it != mid.end()) return it->second;
+      p.push_back((p[static_cast<size_t>(a)] + p[static_cast<size_t>(b)]).normalized());
+      mid.emplace(key, static_cast<int>(p.size()) - 1);
+      return static_cast<int>(p.size()) - 1;
+    };
+    std::vector<std::array<int, 3>> next;
+    for (const auto& tri : f) {
+      const int a = midpoint(tri[0], tri[1]), b = midpoint(tri[1], tri[2]), c = midpoint(tri[2], tri[0]);
+      next.push_back({tri[0], a, c});
+      next.push_back({tri[1], b, a});
+      next.push_back({tri[2], c, b});
+      next.push_back({a, b, c});
+    }
+    f = std::move(next);
+  }
+  const int base = m.n_nodes();
+  for (const auto& x : p) m.nodes.push_back(radius * x);
+  for (const auto& tri : f) {
+    for (int v : tri) m.faces.push_back(base + v);
+    m.face_marker.push_back(marker);
+  }
+}
+
+// Processor time of this process (the machine may be shared, so wall time would mislead).
+struct Timer {
+  std::clock_t start = std::clock();
+  double seconds() const { return static_cast<double>(std::clock() - start) / CLOCKS_PER_SEC; }
+};
+
+}  // namespace
+
+int main() {
+  using namespace sharpey::mesh;
+  VolumeMesh m;
+  m.nodes_per_element = 4;
+  m.nodes_per_face = 3;
+  add_sphere(m, 3.0, 6, kRootSurface);
+  add_sphere(m, 3.2, 6, kSocketSurface);
+  std::printf("flat surfaces: %d faces per sphere\n", m.n_faces() / 2);
+  Timer timer;
+  auto samples = pdl_width_samples(m);
+  double t = timer.seconds();
+  double lo = 1e9, hi = 0;
+  for (const auto& s : samples) lo = std::min(lo, s.width_mm), hi = std::max(hi, s.width_mm);
+  std::printf("  pdl_width_samples: %zu samples in %.3f s CPU, width %.6f to %.6f mm (exact 0.2)\n",
+              samples.size(), t, lo, hi);
+
+  const VolumeMesh q = make_second_order(m, [](const std::vector<int>& markers,
+                                               const Eigen::Vector3d& a, const Eigen::Vector3d& b) {
+    return Eigen::Vector3d((markers.front() == kRootSurface ? 3.0 : 3.2) * (a + b).normalized());
+  });
+  timer = Timer();
+  samples = pdl_width_samples(q);
+  t = timer.seconds();
+  lo = 1e9, hi = 0;
+  for (const auto& s : samples) lo = std::min(lo, s.width_mm), hi = std::max(hi, s.width_mm);
+  std::printf("curved 6-node surfaces: %zu samples in %.3f s CPU, width %.6f to %.6f mm\n",
+              samples.size(), t, lo, hi);
+  timer = Timer();
+  const MeshStatistics s = measure(q);
+  std::printf("measure() on the curved faces: %.3f s CPU, root area %.4f mm^2 (exact %.4f)\n",
+              timer.seconds(), s.area_per_marker_mm2.at(kRootSurface), 4 * 3.14159265358979323846 * 9.0);
+  return 0;
+}
