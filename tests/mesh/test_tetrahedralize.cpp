@@ -98,6 +98,23 @@ TEST(Tetrahedralize, UnitCubeVolumeOrientationAndMarkers) {
   EXPECT_TRUE(std::all_of(used.begin(), used.end(), [](bool u) { return u; }));
 }
 
+TEST(Tetrahedralize, InputPointsAreFoundThroughPointNodeAndNothingIsPrinted) {
+  Plc plc = unit_cube(0.01);
+  plc.points.push_back(plc.points[3]);  // an unreferenced duplicate: in no element
+  std::vector<int> point_node;
+  testing::internal::CaptureStdout();
+  const VolumeMesh m = tetrahedralize(plc, linear_options(), &point_node);
+  EXPECT_EQ(testing::internal::GetCapturedStdout(), "");
+  ASSERT_EQ(point_node.size(), plc.points.size());
+  for (size_t i = 0; i + 1 < plc.points.size(); ++i) {
+    ASSERT_GE(point_node[i], 0) << "point " << i;
+    EXPECT_EQ(m.nodes[static_cast<size_t>(point_node[i])], plc.points[i]);
+  }
+  const int dup = point_node.back();
+  EXPECT_TRUE(dup == -1 || dup == point_node[3]) << dup;
+  EXPECT_GT(m.n_nodes(), 8);  // Steiner points from the volume bound
+}
+
 TEST(Tetrahedralize, RegionVolumeBoundIsHonoured) {
   const double bound = 0.002;
   const VolumeMesh m = tetrahedralize(unit_cube(bound), linear_options());

@@ -196,7 +196,7 @@ double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
 
 // Converts TetGen's output to a linear VolumeMesh: compact nodes, positive volumes, region ids,
 // face markers and face orientation.
-VolumeMesh convert_output(const Plc& plc, const tetgenio& out) {
+VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>* point_node) {
   if (out.numberoftetrahedra <= 0) fail(plc, "TetGen produced no elements (is the surface closed?)");
   if (out.numberofcorners != 4) fail(plc, "TetGen returned elements that are not 4-node");
   if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
@@ -220,6 +220,15 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out) {
     new_index[static_cast<size_t>(v)] = mesh.n_nodes();
     const REAL* p = out.pointlist + 3 * static_cast<size_t>(v);
     mesh.nodes.emplace_back(p[0], p[1], p[2]);
+  }
+
+  if (point_node != nullptr) {
+    // TetGen lists the input points first, in input order; check the coordinates all the same.
+    point_node->assign(plc.points.size(), -1);
+    for (size_t i = 0; i < plc.points.size() && i < static_cast<size_t>(n_in_nodes); ++i) {
+      const REAL* p = out.pointlist + 3 * i;
+      if (Eigen::Vector3d(p[0], p[1], p[2]) == plc.points[i]) (*point_node)[i] = new_index[i];
+    }
   }
 
   std::vector<int> seeded;
@@ -296,7 +305,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out) {
 
 }  // namespace
 
-VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options) {
+VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
   check_options(options);
   check_plc(plc);
   tetgenio in;
@@ -318,7 +327,7 @@ VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options) {
   } catch (const std::bad_alloc&) {
     fail(plc, tetgen_reason(1));
   }
-  VolumeMesh linear = convert_output(plc, out);
+  VolumeMesh linear = convert_output(plc, out, point_node);
   if (!options.second_order) return linear;
   return make_second_order(linear);
 }

@@ -45,10 +45,15 @@ struct TetgenOptions {
 // of the adjacent element with the smaller region id (on the outer boundary: outward; on the
 // tooth/PDL interface: from the tooth into the PDL). Nodes not used by any element are dropped.
 //
+// point_node (may be null) receives, per PLC point, its node index in the output (-1 if TetGen
+// left it out of every element, e.g. a duplicate point), so callers can find their input points
+// without matching coordinates.
+//
 // Throws InputError for malformed options, MeshError for a malformed PLC (index out of range,
 // degenerate triangle, marker count, missing or invalid seeds) and when TetGen fails (the message
 // names the stage, TetGen's reason, e.g. self-intersecting facets, and the input size), and when an
 // element lies in no seeded region.
-VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options);
+VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options,
+                          std::vector<int>* point_node = nullptr);
 
 }  // namespace sharpey::mesh
