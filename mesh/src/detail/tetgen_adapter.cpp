@@ -30,7 +30,11 @@
 namespace sharpey::mesh {
 namespace {
 
-constexpr const char* kStage = "tetrahedralising the PLC";
+// What is being meshed, for the messages: the caller's stage name and the PLC.
+struct Context {
+  const Plc& plc;
+  const std::string& stage;
+};
 
 std::string size_text(const Plc& plc) {
   std::ostringstream s;
@@ -61,8 +65,8 @@ std::string tetgen_reason(int code) {
   }
 }
 
-[[noreturn]] void fail(const Plc& plc, const std::string& what) {
-  throw MeshError(std::string(kStage) + ": " + what + " (input: " + size_text(plc) + ")");
+[[noreturn]] void fail(const Context& ctx, const std::string& what) {
+  throw MeshError(ctx.stage + ": " + what + " (input: " + size_text(ctx.plc) + ")");
 }
 
 void check_options(const TetgenOptions& o) {
@@ -83,43 +87,44 @@ void check_options(const TetgenOptions& o) {
   }
 }
 
-void check_plc(const Plc& plc) {
+void check_plc(const Context& ctx) {
+  const Plc& plc = ctx.plc;
   const int n_points = static_cast<int>(plc.points.size());
-  if (n_points < 4 || plc.triangles.size() < 4) fail(plc, "fewer than 4 points or 4 triangles");
+  if (n_points < 4 || plc.triangles.size() < 4) fail(ctx, "fewer than 4 points or 4 triangles");
   if (plc.triangle_marker.size() != plc.triangles.size()) {
-    fail(plc, "triangle_marker has " + std::to_string(plc.triangle_marker.size()) +
+    fail(ctx, "triangle_marker has " + std::to_string(plc.triangle_marker.size()) +
                   " entries, one per triangle is required");
   }
   for (int i = 0; i < n_points; ++i) {
-    if (!plc.points[i].allFinite()) fail(plc, "point " + std::to_string(i) + " is not finite");
+    if (!plc.points[i].allFinite()) fail(ctx, "point " + std::to_string(i) + " is not finite");
   }
   for (size_t t = 0; t < plc.triangles.size(); ++t) {
     const auto& tri = plc.triangles[t];
     for (int v : tri) {
       if (v < 0 || v >= n_points) {
-        fail(plc, "triangle " + std::to_string(t) + " refers to point " + std::to_string(v) +
+        fail(ctx, "triangle " + std::to_string(t) + " refers to point " + std::to_string(v) +
                       ", valid indices are 0 to " + std::to_string(n_points - 1));
       }
     }
     const Eigen::Vector3d& a = plc.points[tri[0]];
     const Eigen::Vector3d n = (plc.points[tri[1]] - a).cross(plc.points[tri[2]] - a);
     if (tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] || n.norm() == 0.0) {
-      fail(plc, "triangle " + std::to_string(t) + " is degenerate (zero area)");
+      fail(ctx, "triangle " + std::to_string(t) + " is degenerate (zero area)");
     }
   }
-  if (plc.regions.empty()) fail(plc, "no region seed given; every region needs one");
+  if (plc.regions.empty()) fail(ctx, "no region seed given; every region needs one");
   for (size_t r = 0; r < plc.regions.size(); ++r) {
     const auto& seed = plc.regions[r];
     if (seed.region < 1) {
-      fail(plc, "region seed " + std::to_string(r) + " has region id " +
+      fail(ctx, "region seed " + std::to_string(r) + " has region id " +
                     std::to_string(seed.region) + "; ids must be >= 1");
     }
     if (!seed.point.allFinite() || !std::isfinite(seed.max_volume_mm3)) {
-      fail(plc, "region seed " + std::to_string(r) + " has a non-finite point or volume bound");
+      fail(ctx, "region seed " + std::to_string(r) + " has a non-finite point or volume bound");
     }
   }
   for (size_t h = 0; h < plc.holes.size(); ++h) {
-    if (!plc.holes[h].allFinite()) fail(plc, "hole point " + std::to_string(h) + " is not finite");
+    if (!plc.holes[h].allFinite()) fail(ctx, "hole point " + std::to_string(h) + " is not finite");
   }
 }
 
@@ -196,11 +201,12 @@ double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
 
 // Converts TetGen's output to a linear VolumeMesh: compact nodes, positive volumes, region ids,
 // face markers and face orientation.
-VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>* point_node) {
-  if (out.numberoftetrahedra <= 0) fail(plc, "TetGen produced no elements (is the surface closed?)");
-  if (out.numberofcorners != 4) fail(plc, "TetGen returned elements that are not 4-node");
+VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<int>* point_node) {
+  const Plc& plc = ctx.plc;
+  if (out.numberoftetrahedra <= 0) fail(ctx, "TetGen produced no elements (is the surface closed?)");
+  if (out.numberofcorners != 4) fail(ctx, "TetGen returned elements that are not 4-node");
   if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
-    fail(plc, "TetGen returned no region attributes");
+    fail(ctx, "TetGen returned no region attributes");
   }
   const int n_tets = out.numberoftetrahedra;
   const int n_in_nodes = out.numberofpoints;
@@ -209,7 +215,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
   std::vector<int> new_index(static_cast<size_t>(n_in_nodes), -1);
   for (int i = 0; i < 4 * n_tets; ++i) {
     const int v = out.tetrahedronlist[i];
-    if (v < 0 || v >= n_in_nodes) fail(plc, "TetGen returned an element node out of range");
+    if (v < 0 || v >= n_in_nodes) fail(ctx, "TetGen returned an element node out of range");
     new_index[static_cast<size_t>(v)] = 0;
   }
   VolumeMesh mesh;
@@ -249,7 +255,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
     mesh.element_region[static_cast<size_t>(e)] = region;
   }
   if (n_unseeded > 0) {
-    fail(plc, std::to_string(n_unseeded) + " of " + std::to_string(n_tets) +
+    fail(ctx, std::to_string(n_unseeded) + " of " + std::to_string(n_tets) +
                   " elements lie in no seeded region (a closed sub-volume has no region seed or "
                   "hole point, or a seed lies outside its region)");
   }
@@ -257,7 +263,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
   // Faces: TetGen's subfaces (pieces of the input triangles) with their facet markers.
   const int n_faces = out.numberoftrifaces;
   if (n_faces <= 0 || out.trifacelist == nullptr || out.trifacemarkerlist == nullptr) {
-    fail(plc, "TetGen returned no boundary faces");
+    fail(ctx, "TetGen returned no boundary faces");
   }
   std::unordered_map<FaceKey, int, FaceKeyHash> face_of_key;
   face_of_key.reserve(static_cast<size_t>(n_faces) * 2);
@@ -268,7 +274,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
     for (int k = 0; k < 3; ++k) {
       const int v = out.trifacelist[3 * f + k];
       if (v < 0 || v >= n_in_nodes || new_index[static_cast<size_t>(v)] < 0) {
-        fail(plc, "TetGen returned a face whose node belongs to no element");
+        fail(ctx, "TetGen returned a face whose node belongs to no element");
       }
       tri[k] = new_index[static_cast<size_t>(v)];
     }
@@ -297,7 +303,7 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
   }
   for (int f = 0; f < n_faces; ++f) {
     if (n_adjacent[static_cast<size_t>(f)] == 0) {
-      fail(plc, "TetGen returned a face that belongs to no element");
+      fail(ctx, "TetGen returned a face that belongs to no element");
     }
   }
   return mesh;
@@ -307,27 +313,28 @@ VolumeMesh convert_output(const Plc& plc, const tetgenio& out, std::vector<int>*
 
 VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
   check_options(options);
-  check_plc(plc);
+  const Context ctx{plc, options.stage};
+  check_plc(ctx);
   tetgenio in;
   tetgenio out;
   try {
     fill_input(plc, in);
   } catch (const std::bad_alloc&) {
-    fail(plc, "out of memory while copying the input");
+    fail(ctx, "out of memory while copying the input");
   }
   const std::string sw = switches(plc, options);
   std::vector<char> sw_buffer(sw.begin(), sw.end());
   sw_buffer.push_back('\0');
-  if (!detail::tetgen_termination_fix_linked()) fail(plc, "TetGen error handler missing");
+  if (!detail::tetgen_termination_fix_linked()) fail(ctx, "TetGen error handler missing");
   try {
     ::tetrahedralize(sw_buffer.data(), &in, &out);
   } catch (int code) {
-    fail(plc, tetgen_reason(code) + " [TetGen code " + std::to_string(code) + ", switches \"" + sw +
+    fail(ctx, tetgen_reason(code) + " [TetGen code " + std::to_string(code) + ", switches \"" + sw +
                   "\"]");
   } catch (const std::bad_alloc&) {
-    fail(plc, tetgen_reason(1));
+    fail(ctx, tetgen_reason(1));
   }
-  VolumeMesh linear = convert_output(plc, out, point_node);
+  VolumeMesh linear = convert_output(ctx, out, point_node);
   if (!options.second_order) return linear;
   return make_second_order(linear);
 }

@@ -4,6 +4,7 @@
 
 #include <Eigen/Core>
 #include <array>
+#include <string>
 #include <vector>
 
 #include "sharpey/mesh/volume_mesh.h"
@@ -33,6 +34,8 @@ struct TetgenOptions {
   bool second_order = true;        // 10-node output with straight-edge midside nodes; for curved
                                    // surfaces ask for 4 nodes and call make_second_order with a
                                    // projection (second_order.h)
+  std::string stage = "tetrahedralising the PLC";  // names the step in error messages, e.g.
+                                                    // "tetrahedralising the tooth/PDL/bone model"
 };
 
 // Tetrahedralises `plc` with TetGen ("p", quality "q<ratio>/<angle>", region attributes "A",
