@@ -1,5 +1,6 @@
 #include <cmath>
 #include <sstream>
+#include <string>
 
 #include "sharpey/error.h"
 #include "sharpey/fem/elasticity.h"
@@ -29,6 +30,24 @@ Matrix6d elasticity_matrix(const Material& m) {
   D.topLeftCorner<3, 3>().diagonal().array() += 2 * mu;
   D.bottomRightCorner<3, 3>().diagonal().setConstant(mu);
   return D;
+}
+
+}  // namespace sharpey::fem
+
+namespace sharpey::fem {
+
+const Material& material_of(const MaterialTable& materials, int region) {
+  const auto it = materials.find(region);
+  if (it != materials.end()) return it->second;
+  std::ostringstream s;
+  s << "region " << region << " of the mesh has no material; the material table covers regions {";
+  bool first = true;
+  for (const auto& [id, m] : materials) {
+    s << (first ? "" : ", ") << id;
+    first = false;
+  }
+  s << "}; add a Young's modulus and Poisson ratio for region " << region;
+  throw InputError("materials[" + std::to_string(region) + "]", s.str());
 }
 
 }  // namespace sharpey::fem

@@ -1,0 +1,277 @@
+#include <omp.h>
+
+#include <algorithm>
+#include <chrono>
+#include <climits>
+#include <cstdint>
+#include <exception>
+#include <map>
+#include <string>
+
+#include "detail/kinematics.h"
+#include "detail/node_graph.h"
+#include "sharpey/error.h"
+#include "sharpey/fem/assembly.h"
+
+namespace sharpey::fem {
+namespace {
+
+double seconds_since(std::chrono::steady_clock::time_point t0) {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+// Greedy colouring: no two elements of a colour share a node. Elements are visited in index order
+// and keep index order inside their colour (locality). Returns colour_ptr (n_colours + 1) and the
+// elements grouped by colour.
+void colour_elements(const mesh::VolumeMesh& m, std::vector<long long>* colour_ptr,
+                     std::vector<int>* order) {
+  const int n_elements = m.n_elements(), k = m.nodes_per_element;
+  for (int words = 2;; words *= 2) {  // 128 colours first; more only for pathological meshes
+    std::vector<std::uint64_t> used(static_cast<size_t>(m.n_nodes()) * words, 0);
+    std::vector<int> colour(static_cast<size_t>(n_elements));
+    int n_colours = 0;
+    bool overflow = false;
+    for (int e = 0; e < n_elements && !overflow; ++e) {
+      const int* en = m.element(e);
+      int c = -1;
+      for (int w = 0; w < words && c < 0; ++w) {
+        std::uint64_t taken = 0;
+        for (int a = 0; a < k; ++a) taken |= used[static_cast<size_t>(en[a]) * words + w];
+        if (~taken != 0) c = 64 * w + __builtin_ctzll(~taken);
+      }
+      if (c < 0) {
+        overflow = true;
+        break;
+      }
+      colour[static_cast<size_t>(e)] = c;
+      n_colours = std::max(n_colours, c + 1);
+      for (int a = 0; a < k; ++a) {
+        used[static_cast<size_t>(en[a]) * words + c / 64] |= std::uint64_t{1} << (c % 64);
+      }
+    }
+    if (overflow) continue;
+    colour_ptr->assign(static_cast<size_t>(n_colours) + 1, 0);
+    for (int c : colour) ++(*colour_ptr)[static_cast<size_t>(c) + 1];
+    for (int c = 0; c < n_colours; ++c) (*colour_ptr)[c + 1] += (*colour_ptr)[c];
+    order->resize(static_cast<size_t>(n_elements));
+    std::vector<long long> next(colour_ptr->begin(), colour_ptr->end() - 1);
+    for (int e = 0; e < n_elements; ++e) {
+      (*order)[static_cast<size_t>(next[static_cast<size_t>(colour[static_cast<size_t>(e)])]++)] = e;
+    }
+    return;
+  }
+}
+
+// Adds element matrices into the value array of the pattern built from `g`.
+template <int K>
+class Scatter {
+ public:
+  Scatter(const mesh::VolumeMesh& m, const detail::NodeGraph& g, double* values)
+      : m_(m), g_(g), values_(values) {}
+
+  template <bool kAtomic>
+  void add(int e, const detail::ElementMatrix<K>& Ke) const {
+    const int* en = m_.element(e);
+    for (int b = 0; b < K; ++b) {
+      const int nb = en[b];
+      const long long begin = g_.ptr[nb], deg = g_.degree(nb);
+      const int* adj = g_.adjacent.data() + begin;
+      for (int a = 0; a < K; ++a) {
+        const long long p = std::lower_bound(adj, adj + deg, en[a]) - adj;
+        for (int c = 0; c < 3; ++c) {
+          double* col = values_ + 9 * begin + 3 * c * deg + 3 * p;
+          for (int r = 0; r < 3; ++r) {
+            const double v = Ke(3 * a + r, 3 * b + c);
+            if constexpr (kAtomic) {
+#pragma omp atomic
+              col[r] += v;
+            } else {
+              col[r] += v;
+            }
+          }
+        }
+      }
+    }
+  }
+
+ private:
+  const mesh::VolumeMesh& m_;
+  const detail::NodeGraph& g_;
+  double* values_;
+};
+
+// Records the first error raised inside a parallel region (exceptions must not leave it).
+class ErrorSlot {
+ public:
+  void capture() {
+#pragma omp critical(sharpey_fem_error_slot)
+    if (!error_) error_ = std::current_exception();
+  }
+  bool failed() const { return static_cast<bool>(error_); }
+  void rethrow() const {
+    if (error_) std::rethrow_exception(error_);
+  }
+
+ private:
+  std::exception_ptr error_;
+};
+
+template <int K>
+void assemble_values(const mesh::VolumeMesh& m, const detail::NodeGraph& g,
+                     const std::vector<const Matrix6d*>& D_of_element,
+                     const AssemblyOptions& options, int n_threads, AssemblyStatistics* stats,
+                     double* values) {
+  const Scatter<K> scatter(m, g, values);
+  ErrorSlot error;
+  auto element = [&](int e, detail::ElementMatrix<K>* Ke) {
+    const double det = detail::element_stiffness_fixed<K>(detail::element_coordinates<K>(m, e),
+                                                          *D_of_element[static_cast<size_t>(e)], Ke);
+    if (!(det > 0)) throw MeshError(detail::inverted_element_message(m, e, det));
+  };
+  const int n_elements = m.n_elements();
+  if (options.strategy == AssemblyStrategy::kSerial || n_threads == 1) {
+    detail::ElementMatrix<K> Ke;
+    for (int e = 0; e < n_elements; ++e) {
+      element(e, &Ke);
+      scatter.template add<false>(e, Ke);
+    }
+    return;
+  }
+  if (options.strategy == AssemblyStrategy::kAtomic) {
+#pragma omp parallel num_threads(n_threads)
+    {
+      detail::ElementMatrix<K> Ke;
+#pragma omp for schedule(static)
+      for (int e = 0; e < n_elements; ++e) {
+        if (error.failed()) continue;
+        try {
+          element(e, &Ke);
+          scatter.template add<true>(e, Ke);
+        } catch (...) {
+          error.capture();
+        }
+      }
+    }
+    error.rethrow();
+    return;
+  }
+  const auto t0 = std::chrono::steady_clock::now();
+  std::vector<long long> colour_ptr;
+  std::vector<int> order;
+  colour_elements(m, &colour_ptr, &order);
+  const int n_colours = static_cast<int>(colour_ptr.size()) - 1;
+  if (stats) {
+    stats->colouring_s = seconds_since(t0);
+    stats->n_colours = n_colours;
+  }
+#pragma omp parallel num_threads(n_threads)
+  {
+    detail::ElementMatrix<K> Ke;
+    for (int c = 0; c < n_colours; ++c) {
+#pragma omp for schedule(static)
+      for (long long i = colour_ptr[c]; i < colour_ptr[c + 1]; ++i) {
+        if (error.failed()) continue;
+        try {
+          const int e = order[static_cast<size_t>(i)];
+          element(e, &Ke);
+          scatter.template add<false>(e, Ke);
+        } catch (...) {
+          error.capture();
+        }
+      }  // implicit barrier: a colour finishes before the next starts
+    }
+  }
+  error.rethrow();
+}
+
+}  // namespace
+
+Eigen::SparseMatrix<double> assemble_stiffness(const mesh::VolumeMesh& mesh,
+                                               const MaterialTable& materials) {
+  return assemble_stiffness(mesh, materials, AssemblyOptions{});
+}
+
+Eigen::SparseMatrix<double> assemble_stiffness(const mesh::VolumeMesh& mesh,
+                                               const MaterialTable& materials,
+                                               const AssemblyOptions& options,
+                                               AssemblyStatistics* statistics) {
+  detail::validate_mesh(mesh);
+  AssemblyStatistics stats;
+  // Elasticity matrix per region (validates the table: every region needs a valid material).
+  std::map<int, Matrix6d> D_of_region;
+  for (int r : mesh.element_region) {
+    if (D_of_region.count(r) == 0) D_of_region[r] = elasticity_matrix(material_of(materials, r));
+  }
+  std::vector<const Matrix6d*> D_of_element(mesh.element_region.size());
+  for (size_t e = 0; e < D_of_element.size(); ++e) D_of_element[e] = &D_of_region[mesh.element_region[e]];
+
+  auto t0 = std::chrono::steady_clock::now();
+  const detail::NodeGraph g = detail::build_node_graph(mesh);
+  const int n = mesh.n_nodes();
+  const long long nnz = 9 * g.ptr[static_cast<size_t>(n)];
+  if (nnz > INT_MAX || 3LL * n > INT_MAX) {
+    throw InputError("mesh", "the stiffness matrix would hold " + std::to_string(nnz) +
+                                 " entries, more than the 32-bit index limit; use a coarser mesh");
+  }
+  const int n_dofs = 3 * n;
+  Eigen::SparseMatrix<double> K(n_dofs, n_dofs);
+  K.resizeNonZeros(static_cast<Eigen::Index>(nnz));
+  int* outer = K.outerIndexPtr();
+  int* inner = K.innerIndexPtr();
+  double* values = K.valuePtr();
+  // Column 3j+c holds rows 3i, 3i+1, 3i+2 for every neighbour i of j, ascending.
+#pragma omp parallel for schedule(static)
+  for (int j = 0; j < n; ++j) {
+    const long long begin = g.ptr[j], deg = g.degree(j);
+    for (int c = 0; c < 3; ++c) {
+      const long long start = 9 * begin + 3 * c * deg;
+      outer[3 * j + c] = static_cast<int>(start);
+      for (long long p = 0; p < deg; ++p) {
+        const int i = g.adjacent[static_cast<size_t>(begin + p)];
+        for (int r = 0; r < 3; ++r) inner[start + 3 * p + r] = 3 * i + r;
+      }
+    }
+  }
+  outer[n_dofs] = static_cast<int>(nnz);
+  std::fill(values, values + nnz, 0.0);
+  stats.pattern_s = seconds_since(t0);
+  stats.n_nonzeros = nnz;
+
+  const int n_threads = options.strategy == AssemblyStrategy::kSerial
+                            ? 1
+                            : (options.n_threads > 0 ? options.n_threads : omp_get_max_threads());
+  stats.n_threads = n_threads;
+  t0 = std::chrono::steady_clock::now();
+  if (mesh.nodes_per_element == 4) {
+    assemble_values<4>(mesh, g, D_of_element, options, n_threads, &stats, values);
+  } else {
+    assemble_values<10>(mesh, g, D_of_element, options, n_threads, &stats, values);
+  }
+  stats.values_s = seconds_since(t0) - stats.colouring_s;
+  if (statistics) *statistics = stats;
+  return K;
+}
+
+std::vector<DofConstraint> fix_faces(const mesh::VolumeMesh& mesh, int marker) {
+  std::vector<int> nodes;
+  const int kf = mesh.nodes_per_face;
+  for (int f = 0; f < mesh.n_faces(); ++f) {
+    if (mesh.face_marker[static_cast<size_t>(f)] != marker) continue;
+    nodes.insert(nodes.end(), mesh.face(f), mesh.face(f) + kf);
+  }
+  if (nodes.empty()) {
+    throw InputError("marker", "no boundary face carries marker " + std::to_string(marker) +
+                                   ", so nothing would be held fixed; check the face markers of "
+                                   "the mesh");
+  }
+  std::sort(nodes.begin(), nodes.end());
+  nodes.erase(std::unique(nodes.begin(), nodes.end()), nodes.end());
+  std::vector<DofConstraint> out;
+  out.reserve(3 * nodes.size());
+  for (int v : nodes) {
+    for (int c = 0; c < 3; ++c) out.push_back({v, c, 0.0});
+  }
+  return out;
+}
+
+}  // namespace sharpey::fem

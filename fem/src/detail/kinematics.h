@@ -1,0 +1,147 @@
+// Internal element kinematics shared by stiffness, recovery and the assembly: reference tables of
+// shape functions at quadrature points, Jacobians, the B matrix. Fixed-size Eigen types per node
+// count K (4 or 10) keep the hot loops free of allocations.
+#pragma once
+
+#include <Eigen/Core>
+#include <Eigen/LU>
+#include <algorithm>
+#include <string>
+#include <vector>
+
+#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/mesh/volume_mesh.h"
+
+namespace sharpey::fem::detail {
+
+template <int K>
+using NodeCoords = Eigen::Matrix<double, 3, K>;  // columns: node positions, mm
+template <int K>
+using ShapeGradient = Eigen::Matrix<double, K, 3>;  // dN_a / d(coordinate)
+template <int K>
+using BMatrix = Eigen::Matrix<double, 6, 3 * K>;
+template <int K>
+using ElementMatrix = Eigen::Matrix<double, 3 * K, 3 * K>;
+
+// Shape functions and their reference gradients at the points of one quadrature rule.
+template <int K>
+struct ReferenceTable {
+  std::vector<Eigen::Vector3d> points;
+  std::vector<double> weights;
+  std::vector<Eigen::Matrix<double, K, 1>> shape;
+  std::vector<ShapeGradient<K>> gradient;
+};
+
+template <int K>
+ReferenceTable<K> make_reference_table(const mesh::QuadratureRule& rule) {
+  ReferenceTable<K> t;
+  t.points = rule.points;
+  t.weights = rule.weights;
+  for (const Eigen::Vector3d& p : rule.points) {
+    t.shape.push_back(mesh::tet_shape(K, p));
+    t.gradient.push_back(mesh::tet_shape_gradient(K, p));
+  }
+  return t;
+}
+
+// Table of the tetrahedral rule of `degree` (1, 2 or 5), built once (thread-safe static init).
+template <int K>
+const ReferenceTable<K>& reference_table(int degree) {
+  static const ReferenceTable<K> t1 = make_reference_table<K>(mesh::tet_quadrature(1));
+  static const ReferenceTable<K> t2 = make_reference_table<K>(mesh::tet_quadrature(2));
+  static const ReferenceTable<K> t5 = make_reference_table<K>(mesh::tet_quadrature(5));
+  return degree <= 1 ? t1 : (degree == 2 ? t2 : t5);
+}
+
+template <int K>
+NodeCoords<K> element_coordinates(const mesh::VolumeMesh& m, int e) {
+  NodeCoords<K> X;
+  const int* en = m.element(e);
+  for (int a = 0; a < K; ++a) X.col(a) = m.nodes[static_cast<size_t>(en[a])];
+  return X;
+}
+
+// Relative tolerance on midside-node offsets below which an edge counts as straight.
+inline constexpr double kStraightTolerance = 1e-9;
+
+template <int K>
+bool is_straight(const NodeCoords<K>& X) {
+  if constexpr (K == 4) {
+    return true;
+  } else {
+    for (int k = 0; k < 6; ++k) {
+      const Eigen::Vector3d a = X.col(mesh::kTetEdges[k][0]), b = X.col(mesh::kTetEdges[k][1]);
+      if ((X.col(4 + k) - 0.5 * (a + b)).norm() > kStraightTolerance * (b - a).norm()) return false;
+    }
+    return true;
+  }
+}
+
+// Degree of the stiffness rule: exact for straight elements, degree 5 for curved 10-node ones.
+template <int K>
+int stiffness_degree(const NodeCoords<K>& X) {
+  if constexpr (K == 4) {
+    return 1;
+  } else {
+    return is_straight<K>(X) ? 2 : 5;
+  }
+}
+
+// Physical shape gradients G = dN/dxi * J^-1 (K x 3) with J = X dN/dxi; returns det(J).
+template <int K>
+double physical_gradient(const NodeCoords<K>& X, const ShapeGradient<K>& dN, ShapeGradient<K>* G) {
+  const Eigen::Matrix3d J = X * dN;  // J(i, j) = dx_i / dxi_j
+  const double det = J.determinant();
+  if (det != 0.0) G->noalias() = dN * J.inverse();
+  return det;
+}
+
+// B (6 x 3K), Voigt xx yy zz yz xz xy, engineering shear, from physical gradients G (K x 3).
+template <int K>
+void fill_b(const ShapeGradient<K>& G, BMatrix<K>* B) {
+  B->setZero();
+  for (int a = 0; a < K; ++a) {
+    const double gx = G(a, 0), gy = G(a, 1), gz = G(a, 2);
+    const int c = 3 * a;
+    (*B)(0, c) = gx;
+    (*B)(1, c + 1) = gy;
+    (*B)(2, c + 2) = gz;
+    (*B)(3, c + 1) = gz;
+    (*B)(3, c + 2) = gy;
+    (*B)(4, c) = gz;
+    (*B)(4, c + 2) = gx;
+    (*B)(5, c) = gy;
+    (*B)(5, c + 1) = gx;
+  }
+}
+
+// Element stiffness in Ke (3K x 3K). Returns the element index-free status: the smallest det(J) over
+// the quadrature points (the caller throws when it is not positive).
+template <int K>
+double element_stiffness_fixed(const NodeCoords<K>& X, const Eigen::Matrix<double, 6, 6>& D,
+                               ElementMatrix<K>* Ke) {
+  const ReferenceTable<K>& t = reference_table<K>(stiffness_degree<K>(X));
+  Ke->setZero();
+  double min_det = 1e300;
+  ShapeGradient<K> G;
+  BMatrix<K> B;
+  Eigen::Matrix<double, 6, 3 * K> DB;
+  for (size_t q = 0; q < t.points.size(); ++q) {
+    const double det = physical_gradient<K>(X, t.gradient[q], &G);
+    min_det = std::min(min_det, det);
+    if (!(det > 0)) return min_det;
+    fill_b<K>(G, &B);
+    DB.noalias() = D * B;
+    Ke->noalias() += (t.weights[q] * det) * (B.transpose() * DB);
+  }
+  return min_det;
+}
+
+// Throws InputError unless the mesh is well formed (node count per element 4 or 10, sizes agree,
+// indices in range, face node count matches the elements').
+void validate_mesh(const mesh::VolumeMesh& m);
+
+// Message for an element with a non-positive Jacobian (thrown as MeshError by the callers).
+std::string inverted_element_message(const mesh::VolumeMesh& m, int e, double det);
+
+}  // namespace sharpey::fem::detail

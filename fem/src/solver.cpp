@@ -1,0 +1,413 @@
+// CHOLMOD is included here only (its headers stay out of the public interface).
+#include <cholmod.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <map>
+#include <mutex>
+#include <set>
+#include <sstream>
+#include <string>
+#include <utility>
+
+#include "detail/kinematics.h"
+#include "sharpey/error.h"
+#include "sharpey/fem/solver.h"
+
+namespace sharpey::fem {
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double seconds_since(Clock::time_point t0) {
+  return std::chrono::duration<double>(Clock::now() - t0).count();
+}
+
+const char* component_name(int c) { return c == 0 ? "x" : (c == 1 ? "y" : "z"); }
+
+std::string cholmod_status_text(int status) {
+  switch (status) {
+    case CHOLMOD_OUT_OF_MEMORY:
+      return "out of memory: the model is too large for this computer; use a coarser mesh preset";
+    case CHOLMOD_TOO_LARGE:
+      return "integer overflow: the model is too large; use a coarser mesh preset";
+    case CHOLMOD_INVALID:
+      return "invalid input to the factorisation (an internal error; please report it)";
+    case CHOLMOD_NOT_INSTALLED:
+      return "the requested ordering is not available in this CHOLMOD build; use another ordering";
+    default:
+      return "CHOLMOD status " + std::to_string(status);
+  }
+}
+
+std::string ordering_name(int ordering) {
+  switch (ordering) {
+    case CHOLMOD_NATURAL: return "natural";
+    case CHOLMOD_GIVEN: return "given";
+    case CHOLMOD_AMD: return "amd";
+    case CHOLMOD_METIS: return "metis";
+    case CHOLMOD_NESDIS: return "nesdis";
+    case CHOLMOD_COLAMD: return "colamd";
+    case CHOLMOD_POSTORDERED: return "natural (postordered)";
+    default: return "unknown (" + std::to_string(ordering) + ")";
+  }
+}
+
+}  // namespace
+
+std::string to_string(Ordering ordering) {
+  switch (ordering) {
+    case Ordering::kAuto: return "auto";
+    case Ordering::kAmd: return "amd";
+    case Ordering::kMetis: return "metis";
+    case Ordering::kNesdis: return "nesdis";
+  }
+  return "unknown";
+}
+
+struct LinearElasticSolver::Impl {
+  SolverOptions options;
+  SolverStatistics stats;
+  Eigen::SparseMatrix<double> K;        // full, 3n x 3n
+  std::vector<DofConstraint> constraints;
+  int n_nodes = 0;
+  std::vector<int> free_dofs;           // free index -> global dof
+  Eigen::VectorXd prescribed;           // 3n: constrained values, zero elsewhere
+  cholmod_common common{};
+  cholmod_factor* L = nullptr;
+  bool started = false;
+  mutable std::mutex mutex;
+
+  ~Impl() {
+    if (started) {
+      if (L) cholmod_l_free_factor(&L, &common);
+      cholmod_l_finish(&common);
+    }
+  }
+
+  void set_constraints(const mesh::VolumeMesh& mesh);
+  void factorise(const mesh::VolumeMesh& mesh);
+  [[noreturn]] void throw_not_positive_definite(const mesh::VolumeMesh& mesh, long k_permuted,
+                                                double pivot_ratio) const;
+  Eigen::MatrixXd solve(const Eigen::MatrixXd& F);
+};
+
+void LinearElasticSolver::Impl::set_constraints(const mesh::VolumeMesh& mesh) {
+  const int n_dofs = 3 * n_nodes;
+  prescribed = Eigen::VectorXd::Zero(n_dofs);
+  std::vector<char> is_fixed(static_cast<size_t>(n_dofs), 0);
+  for (size_t i = 0; i < constraints.size(); ++i) {
+    const DofConstraint& c = constraints[i];
+    const std::string key = "constraints[" + std::to_string(i) + "]";
+    if (c.node < 0 || c.node >= n_nodes) {
+      throw InputError(key + ".node", "constraint " + std::to_string(i) + " names node " +
+                                          std::to_string(c.node) + ", outside 0.." +
+                                          std::to_string(n_nodes - 1) + " of this mesh");
+    }
+    if (c.component < 0 || c.component > 2) {
+      throw InputError(key + ".component",
+                       "constraint " + std::to_string(i) + " has component " +
+                           std::to_string(c.component) + "; use 0, 1 or 2 for x, y or z");
+    }
+    if (!std::isfinite(c.value_mm)) {
+      throw InputError(key + ".value_mm", "constraint " + std::to_string(i) +
+                                              " prescribes a non-finite displacement");
+    }
+    const int dof = 3 * c.node + c.component;
+    if (is_fixed[static_cast<size_t>(dof)] && prescribed(dof) != c.value_mm) {
+      std::ostringstream s;
+      s << "node " << c.node << " component " << component_name(c.component)
+        << " is prescribed twice with different values (" << prescribed(dof) << " and "
+        << c.value_mm << " mm); keep one";
+      throw InputError(key + ".value_mm", s.str());
+    }
+    is_fixed[static_cast<size_t>(dof)] = 1;
+    prescribed(dof) = c.value_mm;
+  }
+  // Nodes of no element carry no stiffness: hold them at zero, outside the system.
+  std::vector<char> used(static_cast<size_t>(n_nodes), 0);
+  for (int v : mesh.elements) used[static_cast<size_t>(v)] = 1;
+  for (int i = 0; i < n_nodes; ++i) {
+    if (used[static_cast<size_t>(i)]) continue;
+    ++stats.n_unused_nodes;
+    for (int c = 0; c < 3; ++c) is_fixed[static_cast<size_t>(3 * i + c)] = 1;
+  }
+  free_dofs.clear();
+  for (int d = 0; d < n_dofs; ++d) {
+    if (!is_fixed[static_cast<size_t>(d)]) free_dofs.push_back(d);
+  }
+  stats.n_dofs = static_cast<int>(free_dofs.size());
+  stats.n_constrained_dofs = n_dofs - stats.n_dofs - 3 * stats.n_unused_nodes;
+}
+
+void LinearElasticSolver::Impl::throw_not_positive_definite(const mesh::VolumeMesh& mesh,
+                                                            long k_permuted,
+                                                            double pivot_ratio) const {
+  const long* perm = static_cast<const long*>(L->Perm);
+  const long k_free = perm ? perm[k_permuted] : k_permuted;
+  const int dof = free_dofs[static_cast<size_t>(k_free)];
+  const int node = dof / 3, component = dof % 3;
+  std::set<int> regions;
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    const int* en = mesh.element(e);
+    if (std::find(en, en + mesh.nodes_per_element, node) != en + mesh.nodes_per_element) {
+      regions.insert(mesh.element_region[static_cast<size_t>(e)]);
+    }
+  }
+  std::ostringstream s;
+  s << "the stiffness matrix is singular or not positive definite at equation " << k_free
+    << " (node " << node << " at (" << mesh.nodes[static_cast<size_t>(node)].transpose()
+    << ") mm, component " << component_name(component) << ", region";
+  for (int r : regions) s << ' ' << r;
+  s << "): the model is not held against rigid-body motion, or a region has no material / a zero "
+       "modulus";
+  if (pivot_ratio >= 0) {
+    s << " (pivot " << pivot_ratio << " of its diagonal, limit " << options.min_pivot_ratio << ")";
+  }
+  s << "; fix enough nodes (e.g. the bone faces) and check every region's material";
+  throw SolverError(s.str());
+}
+
+void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
+  const long nf = static_cast<long>(free_dofs.size());
+  if (nf == 0) return;  // everything prescribed: nothing to solve
+  std::vector<int> free_of(static_cast<size_t>(3 * n_nodes), -1);
+  for (long i = 0; i < nf; ++i) free_of[static_cast<size_t>(free_dofs[static_cast<size_t>(i)])] = static_cast<int>(i);
+
+  cholmod_l_start(&common);
+  started = true;
+  common.print = 0;              // the library never prints
+  common.error_handler = nullptr;
+  common.supernodal = CHOLMOD_SUPERNODAL;
+  common.final_ll = 1;
+  switch (options.ordering) {
+    case Ordering::kAuto:
+      common.nmethods = 0;
+      break;
+    case Ordering::kAmd:
+    case Ordering::kMetis:
+    case Ordering::kNesdis:
+      common.nmethods = 1;
+      common.method[0].ordering = options.ordering == Ordering::kAmd
+                                      ? CHOLMOD_AMD
+                                      : (options.ordering == Ordering::kMetis ? CHOLMOD_METIS
+                                                                              : CHOLMOD_NESDIS);
+      common.postorder = 1;
+      break;
+  }
+
+  // Upper triangle of the free-free block, in CHOLMOD's long-index CSC.
+  long nnz = 0;
+  for (long j = 0; j < nf; ++j) {
+    const int g = free_dofs[static_cast<size_t>(j)];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
+      if (it.row() > g) break;
+      if (free_of[static_cast<size_t>(it.row())] >= 0) ++nnz;
+    }
+  }
+  cholmod_sparse* A = cholmod_l_allocate_sparse(static_cast<size_t>(nf), static_cast<size_t>(nf),
+                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_REAL,
+                                                &common);
+  if (!A) throw SolverError("could not allocate the stiffness matrix: " + cholmod_status_text(common.status));
+  std::vector<double> diagonal(static_cast<size_t>(nf), 0.0);
+  {
+    long* Ap = static_cast<long*>(A->p);
+    long* Ai = static_cast<long*>(A->i);
+    double* Ax = static_cast<double*>(A->x);
+    long q = 0;
+    for (long j = 0; j < nf; ++j) {
+      Ap[j] = q;
+      const int g = free_dofs[static_cast<size_t>(j)];
+      for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
+        if (it.row() > g) break;
+        const int r = free_of[static_cast<size_t>(it.row())];
+        if (r < 0) continue;
+        Ai[q] = r;
+        Ax[q] = it.value();
+        if (r == j) diagonal[static_cast<size_t>(j)] = it.value();
+        ++q;
+      }
+    }
+    Ap[nf] = q;
+  }
+  stats.n_nonzeros = nnz;
+
+  auto t0 = Clock::now();
+  L = cholmod_l_analyze(A, &common);
+  stats.analyse_s = seconds_since(t0);
+  if (!L || common.status < CHOLMOD_OK) {
+    const std::string why = cholmod_status_text(common.status);
+    cholmod_l_free_sparse(&A, &common);
+    throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " + why);
+  }
+  stats.ordering = ordering_name(L->ordering);
+  stats.factorisation_gflop = common.fl / 1e9;
+  stats.factor_nonzeros = static_cast<long long>(common.lnz);
+
+  t0 = Clock::now();
+  const int ok = cholmod_l_factorize(A, L, &common);
+  stats.factorise_s = seconds_since(t0);
+  const int status = common.status;
+  cholmod_l_free_sparse(&A, &common);
+  if (!ok || status < CHOLMOD_OK) {
+    throw SolverError("the factorisation of the stiffness matrix failed: " + cholmod_status_text(status));
+  }
+  if (status == CHOLMOD_NOT_POSDEF || L->minor < L->n) {
+    throw_not_positive_definite(mesh, static_cast<long>(std::min<size_t>(L->minor, L->n - 1)), -1);
+  }
+  // A singular matrix can survive the factorisation with round-off pivots of either sign; flag a
+  // pivot that is a vanishing fraction of its diagonal entry.
+  const long* perm = static_cast<const long*>(L->Perm);
+  const double* Lx = static_cast<const double*>(L->x);
+  double min_ratio = 1e300;
+  long min_k = 0;
+  auto visit = [&](long k, double ljj) {
+    const double a = diagonal[static_cast<size_t>(perm ? perm[k] : k)];
+    const double ratio = a > 0 ? ljj * ljj / a : 0.0;
+    if (ratio < min_ratio) {
+      min_ratio = ratio;
+      min_k = k;
+    }
+  };
+  if (L->is_super) {
+    const long* super = static_cast<const long*>(L->super);
+    const long* pi = static_cast<const long*>(L->pi);
+    const long* px = static_cast<const long*>(L->px);
+    for (size_t s = 0; s < L->nsuper; ++s) {
+      const long k1 = super[s], k2 = super[s + 1], nsrow = pi[s + 1] - pi[s];
+      for (long jj = 0; jj < k2 - k1; ++jj) visit(k1 + jj, Lx[px[s] + jj * nsrow + jj]);
+    }
+    stats.factor_mb = static_cast<double>(L->xsize) * sizeof(double) / 1e6;
+  } else {
+    const long* Lp = static_cast<const long*>(L->p);
+    for (long k = 0; k < nf; ++k) {
+      const double d = Lx[Lp[k]];
+      visit(k, L->is_ll ? d : std::sqrt(std::max(d, 0.0)));
+    }
+    stats.factor_mb = static_cast<double>(L->nzmax) * sizeof(double) / 1e6;
+  }
+  stats.min_pivot_ratio = min_ratio;
+  if (!(min_ratio >= options.min_pivot_ratio)) throw_not_positive_definite(mesh, min_k, min_ratio);
+}
+
+Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
+  const int n_dofs = 3 * n_nodes;
+  if (F.rows() != n_dofs) {
+    throw std::invalid_argument("LinearElasticSolver::solve: the load has " +
+                                std::to_string(F.rows()) + " rows, the model " +
+                                std::to_string(n_dofs) + " degrees of freedom");
+  }
+  const long m = F.cols();
+  const long nf = static_cast<long>(free_dofs.size());
+  const auto t0 = Clock::now();
+  Eigen::MatrixXd U = prescribed.replicate(1, m);
+  if (m == 0) return U;
+  if (!F.allFinite()) throw InputError("f", "the load vector contains a non-finite value");
+  const Eigen::VectorXd K_prescribed = K * prescribed;
+  std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
+  if (nf > 0) {
+    cholmod_dense* B = cholmod_l_allocate_dense(static_cast<size_t>(nf), static_cast<size_t>(m),
+                                                static_cast<size_t>(nf), CHOLMOD_REAL, &common);
+    if (!B) throw SolverError("could not allocate the right-hand sides: " + cholmod_status_text(common.status));
+    double* Bx = static_cast<double*>(B->x);
+    for (long j = 0; j < m; ++j) {
+      double norm2 = 0;
+      for (long i = 0; i < nf; ++i) {
+        const int d = free_dofs[static_cast<size_t>(i)];
+        const double b = F(d, j) - K_prescribed(d);
+        Bx[i + j * nf] = b;
+        norm2 += b * b;
+      }
+      rhs_norm[static_cast<size_t>(j)] = std::sqrt(norm2);
+    }
+    cholmod_dense* X = cholmod_l_solve(CHOLMOD_A, L, B, &common);
+    cholmod_l_free_dense(&B, &common);
+    if (!X || common.status < CHOLMOD_OK) {
+      if (X) cholmod_l_free_dense(&X, &common);
+      throw SolverError("the triangular solves failed: " + cholmod_status_text(common.status));
+    }
+    const double* Xx = static_cast<const double*>(X->x);
+    for (long j = 0; j < m; ++j) {
+      for (long i = 0; i < nf; ++i) U(free_dofs[static_cast<size_t>(i)], j) = Xx[i + j * nf];
+    }
+    cholmod_l_free_dense(&X, &common);
+  }
+  // Relative residual over the free dofs, the worst of the columns.
+  const Eigen::MatrixXd R = K * U - F;
+  double worst = 0;
+  for (long j = 0; j < m; ++j) {
+    double norm2 = 0;
+    for (long i = 0; i < nf; ++i) norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
+    const double bn = rhs_norm[static_cast<size_t>(j)];
+    const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
+    worst = std::max(worst, rel);
+  }
+  stats.last_relative_residual = worst;
+  stats.last_solve_s = seconds_since(t0);
+  if (!(worst <= options.max_relative_residual)) {
+    std::ostringstream s;
+    s << "the solution's relative residual " << worst << " exceeds " << options.max_relative_residual
+      << ": the stiffness matrix is too ill-conditioned (material moduli many orders of magnitude "
+         "apart, or badly shaped elements); check the materials and the mesh quality";
+    throw SolverError(s.str());
+  }
+  return U;
+}
+
+LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
+                                         const MaterialTable& materials,
+                                         std::vector<DofConstraint> constraints)
+    : LinearElasticSolver(mesh, materials, std::move(constraints), SolverOptions{}) {}
+
+LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
+                                         const MaterialTable& materials,
+                                         std::vector<DofConstraint> constraints,
+                                         const SolverOptions& options)
+    : impl_(new Impl) {
+  try {
+    impl_->options = options;
+    impl_->constraints = std::move(constraints);
+    impl_->n_nodes = mesh.n_nodes();
+    impl_->stats.requested_ordering = to_string(options.ordering);
+    const auto t0 = Clock::now();
+    AssemblyStatistics assembly;
+    impl_->K = assemble_stiffness(mesh, materials, options.assembly, &assembly);
+    impl_->stats.assembly_s = seconds_since(t0);
+    impl_->stats.n_threads_assembly = assembly.n_threads;
+    impl_->set_constraints(mesh);
+    impl_->factorise(mesh);
+  } catch (...) {
+    delete impl_;
+    throw;
+  }
+}
+
+LinearElasticSolver::~LinearElasticSolver() { delete impl_; }
+
+Eigen::VectorXd LinearElasticSolver::solve(const Eigen::VectorXd& f) const {
+  const Eigen::MatrixXd F = f;
+  std::lock_guard<std::mutex> lock(impl_->mutex);
+  return impl_->solve(F).col(0);
+}
+
+Eigen::MatrixXd LinearElasticSolver::solve(const Eigen::MatrixXd& F) const {
+  std::lock_guard<std::mutex> lock(impl_->mutex);
+  return impl_->solve(F);
+}
+
+Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
+                                               const Eigen::VectorXd& f) const {
+  if (u.size() != impl_->K.rows() || f.size() != impl_->K.rows()) {
+    throw std::invalid_argument("LinearElasticSolver::reactions: u and f need 3n entries");
+  }
+  return impl_->K * u - f;
+}
+
+const SolverStatistics& LinearElasticSolver::statistics() const { return impl_->stats; }
+const Eigen::SparseMatrix<double>& LinearElasticSolver::stiffness() const { return impl_->K; }
+const std::vector<DofConstraint>& LinearElasticSolver::constraints() const {
+  return impl_->constraints;
+}
+int LinearElasticSolver::n_nodes() const { return impl_->n_nodes; }
+
+}  // namespace sharpey::fem
