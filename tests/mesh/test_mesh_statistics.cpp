@@ -153,6 +153,14 @@ TEST(PdlWidth, ConcentricSpheresGiveTheGap) {
   EXPECT_NEAR(s.volume_per_region_mm3.at(kPdl), 4.0 / 3.0 * kPi * (std::pow(r_out, 3) - std::pow(r_in, 3)),
               1e-3 * s.volume_per_region_mm3.at(kPdl));
   EXPECT_GT(s.min_jacobian_ratio, 0.0);
+  // The curved ball and sphere: derived 4/3 pi r^3 and 4 pi r^2.
+  const double ball = 4.0 / 3.0 * kPi * std::pow(r_in, 3), socket_area = 4 * kPi * r_out * r_out;
+  const double ball_error = std::abs(s.volume_per_region_mm3.at(kTooth) - ball) / ball;
+  const double area_error = std::abs(s.area_per_marker_mm2.at(kSocketSurface) - socket_area) / socket_area;
+  std::printf("curved ball volume relative error %.2e, sphere area relative error %.2e\n", ball_error,
+              area_error);
+  EXPECT_LT(ball_error, 1e-4);
+  EXPECT_LT(area_error, 1e-4);
 
   const auto samples = pdl_width_samples(m);
   ASSERT_EQ(static_cast<int>(samples.size()), s.pdl_width_samples);
