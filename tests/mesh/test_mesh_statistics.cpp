@@ -1,6 +1,6 @@
 // measure() and pdl_width_samples(): exact volumes and areas of boxes, curved ball, element quality
 // of known tetrahedra, Jacobian of curved and inverted elements, PDL width between concentric
-// spheres, and the bucket-grid search against brute force. Expected values are derived.
+// spheres, and the tree search against brute force. Expected values are derived.
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -210,7 +210,7 @@ double brute_distance(const Eigen::Vector3d& p, const Eigen::Vector3d& a, const 
   return std::min({segment(a, b), segment(b, c), segment(c, a)});
 }
 
-TEST(PdlWidth, GridSearchAgreesWithBruteForce) {
+TEST(PdlWidth, TreeSearchAgreesWithBruteForce) {
   std::mt19937 rng(7);
   std::uniform_real_distribution<double> u(-1.0, 1.0);
   VolumeMesh m;
