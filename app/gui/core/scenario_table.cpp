@@ -1,5 +1,7 @@
 #include "core/scenario_table.h"
 
+#include "sharpey/analysis/report_output.h"
+
 #include <cmath>
 #include <limits>
 
@@ -7,12 +9,6 @@ namespace sharpey::app {
 
 namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-
-// CRes of the direction the force mostly acts in (labiolingual unless mesiodistal dominates).
-const analysis::CentreOfResistance& relevant_cres(const analysis::ScenarioResult& r) {
-  const Eigen::Vector3d& f = r.load.force_n;
-  return std::abs(f.y()) > std::abs(f.x()) ? r.cres_mesiodistal : r.cres_labiolingual;
-}
 
 double or_nan(double v) { return v < 0 ? kNaN : v; }
 }  // namespace
@@ -93,8 +89,8 @@ double key_value(const analysis::ScenarioResult& r, KeyNumber k) {
     case KeyNumber::kPeakTension: return r.pressure_max_tension_kpa;
     case KeyNumber::kAreaAboveCapillary: return r.area_above_capillary_mm2;
     case KeyNumber::kAreaAboveLimit: return r.area_above_limit_mm2;
-    case KeyNumber::kCresFromCrest: return relevant_cres(r).from_crest_mm;
-    case KeyNumber::kCresFraction: return 100.0 * relevant_cres(r).fraction_embedded;
+    case KeyNumber::kCresFromCrest: return analysis::cres_for(r).from_crest_mm;
+    case KeyNumber::kCresFraction: return 100.0 * analysis::cres_for(r).fraction_embedded;
     case KeyNumber::kMfTranslation: return r.mf_translation_mm;
     case KeyNumber::kEquivalentForcePeak: return or_nan(r.equivalent_force_peak_g);
     case KeyNumber::kEquivalentForceArea: return or_nan(r.equivalent_force_area_rule_g);

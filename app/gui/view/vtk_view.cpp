@@ -1,0 +1,219 @@
+#include "view/vtk_view.h"
+
+#include <QElapsedTimer>
+#include <QMouseEvent>
+#include <QOpenGLContext>
+#include <QSurfaceFormat>
+#include <QWheelEvent>
+#include <vtkCallbackCommand.h>
+#include <vtkCamera.h>
+#include <vtkCommand.h>
+#include <vtkGenericOpenGLRenderWindow.h>
+#include <vtkGenericRenderWindowInteractor.h>
+#include <vtkInteractorStyleTrackballCamera.h>
+#include <vtkRenderer.h>
+
+#include "view/vtk_paint.h"
+
+namespace sharpey::app {
+
+void VtkView::set_default_surface_format() {
+  QSurfaceFormat format;
+  format.setRenderableType(QSurfaceFormat::OpenGL);
+  format.setVersion(3, 2);
+  format.setProfile(QSurfaceFormat::CoreProfile);
+  format.setRedBufferSize(8);
+  format.setGreenBufferSize(8);
+  format.setBlueBufferSize(8);
+  format.setAlphaBufferSize(8);
+  format.setDepthBufferSize(24);
+  format.setStencilBufferSize(8);
+  format.setSwapBehavior(QSurfaceFormat::DoubleBuffer);
+  QSurfaceFormat::setDefaultFormat(format);
+}
+
+VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
+  setFocusPolicy(Qt::StrongFocus);
+  setMouseTracking(false);
+  setMinimumSize(160, 120);
+
+  window_ = vtkSmartPointer<vtkGenericOpenGLRenderWindow>::New();
+  window_->SetMultiSamples(0);
+  window_->SetFrameBlitModeToBlitToCurrent();
+  window_->SetNumberOfLayers(2);
+  for (unsigned long id : {vtkCommand::WindowMakeCurrentEvent, vtkCommand::WindowIsCurrentEvent,
+                           vtkCommand::WindowSupportsOpenGLEvent, vtkCommand::WindowIsDirectEvent,
+                           vtkCommand::WindowFrameEvent})
+    window_->AddObserver(id, this, &VtkView::on_window_event);
+
+  renderer_ = vtkSmartPointer<vtkRenderer>::New();
+  renderer_->SetLayer(0);
+  overlay_ = vtkSmartPointer<vtkRenderer>::New();
+  overlay_->SetLayer(1);
+  overlay_->SetInteractive(0);
+  overlay_->SetActiveCamera(renderer_->GetActiveCamera());
+  window_->AddRenderer(renderer_);
+  window_->AddRenderer(overlay_);
+
+  interactor_ = vtkSmartPointer<vtkGenericRenderWindowInteractor>::New();
+  interactor_->SetRenderWindow(window_);
+  interactor_->EnableRenderOff();  // renders happen in paintGL only
+  vtkNew<vtkInteractorStyleTrackballCamera> style;
+  interactor_->SetInteractorStyle(style);
+  interactor_->AddObserver(vtkCommand::RenderEvent, this, &VtkView::on_interactor_render);
+  interactor_->Initialize();
+}
+
+VtkView::~VtkView() {
+  makeCurrent();
+  release_graphics();
+  doneCurrent();
+  window_->RemoveAllObservers();
+  interactor_->RemoveAllObservers();
+}
+
+vtkRenderer* VtkView::renderer() const { return renderer_; }
+vtkRenderer* VtkView::overlay() const { return overlay_; }
+vtkCamera* VtkView::camera() const { return renderer_->GetActiveCamera(); }
+vtkGenericOpenGLRenderWindow* VtkView::render_window() const { return window_; }
+
+void VtkView::copy_camera_from(vtkCamera* other) {
+  vtkCamera* mine = camera();
+  if (other == mine) return;
+  mine->SetPosition(other->GetPosition());
+  mine->SetFocalPoint(other->GetFocalPoint());
+  mine->SetViewUp(other->GetViewUp());
+  mine->SetViewAngle(other->GetViewAngle());
+  mine->SetParallelProjection(other->GetParallelProjection());
+  mine->SetParallelScale(other->GetParallelScale());
+  renderer_->ResetCameraClippingRange();
+  update();
+}
+
+void VtkView::release_graphics() {
+  if (context() && window_->GetReadyForRendering()) {
+    window_->Finalize();
+    window_->SetReadyForRendering(false);
+  }
+}
+
+void VtkView::on_context_destroyed() {
+  makeCurrent();
+  release_graphics();
+  doneCurrent();
+}
+
+void VtkView::initializeGL() {
+  // A new context (first show, or after the widget moved to another window).
+  connect(context(), &QOpenGLContext::aboutToBeDestroyed, this, &VtkView::on_context_destroyed,
+          Qt::UniqueConnection);
+  window_->SetOwnContext(0);
+  window_->SetReadyForRendering(true);
+  window_->OpenGLInitContext();
+  const qreal dpr = devicePixelRatioF();
+  interactor_->UpdateSize(static_cast<int>(width() * dpr), static_cast<int>(height() * dpr));
+}
+
+void VtkView::resizeGL(int w, int h) {
+  const qreal dpr = devicePixelRatioF();
+  interactor_->UpdateSize(static_cast<int>(w * dpr), static_cast<int>(h * dpr));
+}
+
+void VtkView::paintGL() {
+  if (!window_->GetReadyForRendering()) return;
+  in_paint_ = true;
+  QElapsedTimer timer;
+  timer.start();
+  render_into_bound_framebuffer(window_);
+  last_render_ms_ = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
+  ++frames_;
+  in_paint_ = false;
+  emit frame_rendered();
+}
+
+void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_data) {
+  switch (event_id) {
+    case vtkCommand::WindowMakeCurrentEvent:
+      if (QOpenGLContext::currentContext() != context()) makeCurrent();
+      break;
+    case vtkCommand::WindowIsCurrentEvent:
+      *static_cast<bool*>(call_data) = context() && QOpenGLContext::currentContext() == context();
+      break;
+    case vtkCommand::WindowSupportsOpenGLEvent:
+      *static_cast<int*>(call_data) = 1;
+      break;
+    case vtkCommand::WindowIsDirectEvent:
+      *static_cast<int*>(call_data) = 1;
+      break;
+    case vtkCommand::WindowFrameEvent:
+      // A render outside paintGL (should not happen): show it at the next paint.
+      if (!in_paint_) update();
+      break;
+    default: break;
+  }
+}
+
+void VtkView::on_interactor_render(vtkObject*, unsigned long, void*) {
+  update();
+  emit camera_changed();
+}
+
+bool VtkView::forward_mouse(QMouseEvent* event, unsigned long vtk_event) {
+  const qreal dpr = devicePixelRatioF();
+  const QPointF p = event->position();
+  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr), static_cast<int>(p.y() * dpr),
+                                        (event->modifiers() & Qt::ControlModifier) ? 1 : 0,
+                                        (event->modifiers() & Qt::ShiftModifier) ? 1 : 0, 0,
+                                        event->type() == QEvent::MouseButtonDblClick ? 1 : 0);
+  interactor_->SetAltKey((event->modifiers() & Qt::AltModifier) ? 1 : 0);
+  interactor_->InvokeEvent(vtk_event, event);
+  return true;
+}
+
+void VtkView::mousePressEvent(QMouseEvent* event) {
+  switch (event->button()) {
+    case Qt::LeftButton: forward_mouse(event, vtkCommand::LeftButtonPressEvent); break;
+    case Qt::MiddleButton: forward_mouse(event, vtkCommand::MiddleButtonPressEvent); break;
+    case Qt::RightButton: forward_mouse(event, vtkCommand::RightButtonPressEvent); break;
+    default: break;
+  }
+}
+
+void VtkView::mouseReleaseEvent(QMouseEvent* event) {
+  switch (event->button()) {
+    case Qt::LeftButton: forward_mouse(event, vtkCommand::LeftButtonReleaseEvent); break;
+    case Qt::MiddleButton: forward_mouse(event, vtkCommand::MiddleButtonReleaseEvent); break;
+    case Qt::RightButton: forward_mouse(event, vtkCommand::RightButtonReleaseEvent); break;
+    default: break;
+  }
+}
+
+void VtkView::mouseMoveEvent(QMouseEvent* event) { forward_mouse(event, vtkCommand::MouseMoveEvent); }
+
+void VtkView::mouseDoubleClickEvent(QMouseEvent* event) {
+  if (event->button() == Qt::LeftButton) forward_mouse(event, vtkCommand::LeftButtonPressEvent);
+}
+
+void VtkView::wheelEvent(QWheelEvent* event) {
+  const qreal dpr = devicePixelRatioF();
+  const QPointF p = event->position();
+  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr), static_cast<int>(p.y() * dpr),
+                                        (event->modifiers() & Qt::ControlModifier) ? 1 : 0,
+                                        (event->modifiers() & Qt::ShiftModifier) ? 1 : 0);
+  const int delta = event->angleDelta().y();
+  if (delta > 0) interactor_->InvokeEvent(vtkCommand::MouseWheelForwardEvent, event);
+  else if (delta < 0) interactor_->InvokeEvent(vtkCommand::MouseWheelBackwardEvent, event);
+  event->accept();
+}
+
+void VtkView::enterEvent(QEnterEvent* event) {
+  interactor_->InvokeEvent(vtkCommand::EnterEvent, event);
+  QOpenGLWidget::enterEvent(event);
+}
+
+void VtkView::leaveEvent(QEvent* event) {
+  interactor_->InvokeEvent(vtkCommand::LeaveEvent, event);
+  QOpenGLWidget::leaveEvent(event);
+}
+
+}  // namespace sharpey::app

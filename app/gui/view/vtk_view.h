@@ -1,0 +1,82 @@
+// A Qt6 widget that shows a VTK renderer: a QOpenGLWidget around vtkGenericOpenGLRenderWindow.
+// (Debian's VTK Qt module is built against Qt5, so this bridge replaces it.)
+//
+// VTK renders only inside paintGL, into Qt's framebuffer object (VTK's FrameBlitMode
+// BlitToCurrent). Mouse and wheel events go to a vtkGenericRenderWindowInteractor whose render
+// requests turn into update() calls, so interaction never renders outside paintGL.
+// Call VtkView::set_default_surface_format() before the QApplication is created.
+#pragma once
+
+#include <QOpenGLWidget>
+#include <vtkNew.h>
+#include <vtkSmartPointer.h>
+
+class vtkCamera;
+class vtkGenericOpenGLRenderWindow;
+class vtkGenericRenderWindowInteractor;
+class vtkObject;
+class vtkRenderer;
+
+namespace sharpey::app {
+
+class VtkView : public QOpenGLWidget {
+  Q_OBJECT
+
+ public:
+  // OpenGL 3.2 core profile with depth and stencil buffers, as VTK 9 needs.
+  static void set_default_surface_format();
+
+  explicit VtkView(QWidget* parent = nullptr);
+  ~VtkView() override;
+
+  // Scene renderer (layer 0) and an overlay renderer (layer 1) that shares its camera and is
+  // drawn on top, for markers that must stay visible inside the tooth.
+  vtkRenderer* renderer() const;
+  vtkRenderer* overlay() const;
+  vtkCamera* camera() const;
+  vtkGenericOpenGLRenderWindow* render_window() const;
+
+  // Copies position, focal point, view-up and view angle from `other` (for linked views).
+  void copy_camera_from(vtkCamera* other);
+
+  // Time the last paintGL spent in VTK's Render, ms.
+  double last_render_ms() const { return last_render_ms_; }
+  int frames_rendered() const { return frames_; }
+
+ signals:
+  // The user moved the camera (emitted after the interactor changed it).
+  void camera_changed();
+  // A frame was rendered (after paintGL).
+  void frame_rendered();
+
+ protected:
+  void initializeGL() override;
+  void paintGL() override;
+  void resizeGL(int w, int h) override;
+  void mousePressEvent(QMouseEvent* event) override;
+  void mouseReleaseEvent(QMouseEvent* event) override;
+  void mouseMoveEvent(QMouseEvent* event) override;
+  void mouseDoubleClickEvent(QMouseEvent* event) override;
+  void wheelEvent(QWheelEvent* event) override;
+  void enterEvent(QEnterEvent* event) override;
+  void leaveEvent(QEvent* event) override;
+
+ private slots:
+  void on_context_destroyed();
+
+ private:
+  void on_window_event(vtkObject* caller, unsigned long event_id, void* call_data);
+  void on_interactor_render(vtkObject* caller, unsigned long event_id, void* call_data);
+  void release_graphics();
+  bool forward_mouse(QMouseEvent* event, unsigned long vtk_event);
+
+  vtkSmartPointer<vtkGenericOpenGLRenderWindow> window_;
+  vtkSmartPointer<vtkGenericRenderWindowInteractor> interactor_;
+  vtkSmartPointer<vtkRenderer> renderer_;
+  vtkSmartPointer<vtkRenderer> overlay_;
+  bool in_paint_ = false;
+  double last_render_ms_ = 0;
+  int frames_ = 0;
+};
+
+}  // namespace sharpey::app
