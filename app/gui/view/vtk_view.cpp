@@ -65,6 +65,8 @@ VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
 }
 
 VtkView::~VtkView() {
+  // ~QOpenGLWidget destroys the context after this object's members are gone.
+  if (context()) disconnect(context(), nullptr, this, nullptr);
   makeCurrent();
   release_graphics();
   doneCurrent();
