@@ -53,14 +53,6 @@ void check_threshold(const Threshold& t, const std::string& key) {
                                             "(a citation, or \"own choice\")");
 }
 
-void check_optional_size(double v, const std::string& key, double lo, double hi,
-                         const std::string& what) {
-  if (v == 0) return;  // 0 keeps the preset's value
-  if (!(std::isfinite(v) && v >= lo && v <= hi))
-    out_of_range(key, num(v) + " mm", "allowed " + num(lo) + " to " + num(hi) + " mm, or 0",
-                 what + "; use 0 (or leave the key out) to keep the preset's value");
-}
-
 void check_load(const CaseSpec& spec) {
   const LoadSpec& load = spec.load;
   const double force_n = load.force_n();
@@ -231,14 +223,7 @@ void validate_case(const CaseSpec& spec) {
                      num(spec.thresholds.capillary.value_kpa) + " kPa",
                  "the physiological limit (default 16 kPa) lies above capillary pressure "
                  "(default 4.7 kPa)");
-  const mesh::MeshSizing& sizing = spec.model.sizing;
-  check_optional_size(sizing.pdl_edge_mm, "mesh.pdl_edge_mm", 0.05, 5.0,
-                      "the target edge length along the PDL");
-  check_optional_size(sizing.bone_edge_mm, "mesh.bone_edge_mm", 0.2, 20.0,
-                      "the target edge length in the bone");
-  if (sizing.pdl_layers < 0 || sizing.pdl_layers > 4)
-    out_of_range("mesh.pdl_layers", std::to_string(sizing.pdl_layers), "allowed 0 to 4",
-                 "give the number of elements across the PDL width, or 0 for the preset's");
+  // Mesh sizes, tooth dimensions, PDL widths, bone and bracket: mesh::validate below.
   check_scenarios(spec);
   check_load(spec);
 

@@ -1,0 +1,385 @@
+// Case-file reading: defaults, units, directions, bone-loss conversion, and a table of malformed
+// cases, each rejected with an InputError naming the key path, the value and a fix.
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include <cmath>
+#include <string>
+
+#include "sharpey/analysis/case_spec.h"
+#include "sharpey/error.h"
+
+namespace sharpey::analysis {
+namespace {
+
+using Json = nlohmann::ordered_json;
+
+// A small valid case: two scenarios, coarse mesh.
+Json base_case() {
+  return Json::parse(R"({
+    "schema_version": 1,
+    "label": "Invented test case",
+    "tooth": {"type": "maxillary_central_incisor"},
+    "pdl": {"width_mm": 0.2},
+    "scenarios": [{"name": "healthy", "horizontal_loss_mm": 0},
+                  {"name": "loss", "horizontal_loss_mm": 2}],
+    "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
+    "mesh": {"preset": "coarse"}
+  })");
+}
+
+TEST(CaseParse, BaseCaseReadsWithDefaults) {
+  const CaseSpec spec = parse_case(base_case().dump());
+  EXPECT_EQ(spec.label, "Invented test case");
+  EXPECT_EQ(spec.model.tooth.type, mesh::ToothType::kMaxillaryCentralIncisor);
+  // Handbook dimensions come with the tooth type.
+  EXPECT_EQ(spec.model.tooth.dimensions.root_length_mm,
+            mesh::handbook_dimensions(mesh::ToothType::kMaxillaryCentralIncisor).root_length_mm);
+  ASSERT_EQ(spec.scenarios.size(), 2u);
+  EXPECT_EQ(spec.scenarios[1].loss.horizontal_mm, 2.0);
+  EXPECT_EQ(spec.model.sizing.preset, mesh::MeshPreset::kCoarse);
+  // Defaults with their sources (check-values.md sections 1 and 6).
+  EXPECT_EQ(spec.pdl_material.young_modulus_mpa, 0.47);
+  EXPECT_EQ(spec.pdl_material.poisson_ratio, 0.45);
+  EXPECT_EQ(spec.thresholds.capillary.value_kpa, 4.7);
+  EXPECT_EQ(spec.thresholds.limit.value_kpa, 16.0);
+  EXPECT_NE(spec.thresholds.capillary.source.find("Hohmann"), std::string::npos);
+  EXPECT_NE(spec.thresholds.capillary.source.find("from memory"), std::string::npos);
+  EXPECT_NE(spec.thresholds.limit.source.find("Moga"), std::string::npos);
+}
+
+TEST(CaseParse, ForceUnitsConvertToNewton) {
+  // source: definition of the gram-force, 1 gf = 9.80665e-3 N (standard gravity)
+  EXPECT_DOUBLE_EQ(to_newton(100, ForceUnit::kGram), 0.980665);
+  EXPECT_DOUBLE_EQ(to_newton(50, ForceUnit::kCentinewton), 0.5);
+  EXPECT_DOUBLE_EQ(to_newton(1.5, ForceUnit::kNewton), 1.5);
+  for (ForceUnit u : {ForceUnit::kGram, ForceUnit::kCentinewton, ForceUnit::kNewton})
+    EXPECT_NEAR(from_newton(to_newton(123.4, u), u), 123.4, 1e-12);
+  Json j = base_case();
+  j["load"]["magnitude"] = 98;
+  j["load"]["unit"] = "cN";
+  EXPECT_DOUBLE_EQ(parse_case(j.dump()).load.force_n(), 0.98);
+}
+
+TEST(CaseParse, DirectionsByNameVectorAndAngles) {
+  const std::pair<const char*, Eigen::Vector3d> named[] = {
+      {"labial", Eigen::Vector3d::UnitX()},     {"lingual", -Eigen::Vector3d::UnitX()},
+      {"mesial", Eigen::Vector3d::UnitY()},     {"distal", -Eigen::Vector3d::UnitY()},
+      {"extrusive", Eigen::Vector3d::UnitZ()}, {"intrusive", -Eigen::Vector3d::UnitZ()}};
+  for (const auto& [name, v] : named) {
+    SCOPED_TRACE(name);
+    Json j = base_case();
+    j["load"]["direction"] = name;
+    const LoadSpec load = parse_case(j.dump()).load;
+    EXPECT_EQ(load.direction, v);
+    EXPECT_EQ(load.direction_name, name);
+  }
+  Json j = base_case();
+  j["load"]["direction"] = Json::array({3, 0, -4});
+  LoadSpec load = parse_case(j.dump()).load;
+  EXPECT_NEAR((load.direction - Eigen::Vector3d(0.6, 0, -0.8)).norm(), 0, 1e-15);
+  EXPECT_TRUE(load.direction_name.empty());
+  // Azimuth from labial (+x) toward mesial (+y), elevation toward the crown (+z).
+  j["load"]["direction"] = {{"azimuth_deg", 90}, {"elevation_deg", 0}};
+  load = parse_case(j.dump()).load;
+  EXPECT_NEAR((load.direction - Eigen::Vector3d::UnitY()).norm(), 0, 1e-15);
+  j["load"]["direction"] = {{"azimuth_deg", 180}, {"elevation_deg", 30}};
+  load = parse_case(j.dump()).load;
+  EXPECT_NEAR((load.direction - Eigen::Vector3d(-std::sqrt(3.0) / 2, 0, 0.5)).norm(), 0, 1e-15);
+}
+
+TEST(CaseParse, CoupleAsMomentInUnitsOrAsRatio) {
+  Json j = base_case();
+  j["load"]["couple"] = {{"moment", {0, 1000, 0}}, {"unit", "g.mm"}};
+  LoadSpec load = parse_case(j.dump()).load;
+  EXPECT_EQ(load.couple, CoupleKind::kMoment);
+  // source: definition of the gram-force (1000 g.mm = 9.80665 N.mm)
+  EXPECT_NEAR(load.moment_nmm.y(), 9.80665, 1e-12);
+  j["load"]["couple"] = {{"moment_to_force_mm", 8.5}};
+  load = parse_case(j.dump()).load;
+  EXPECT_EQ(load.couple, CoupleKind::kRatio);
+  EXPECT_EQ(load.moment_to_force_mm, 8.5);
+  j["load"].erase("couple");
+  j["load"]["movement"] = "controlled_tipping";
+  EXPECT_EQ(parse_case(j.dump()).load.preset, MovementPreset::kControlledTipping);
+  for (MovementPreset p : all_movement_presets())
+    EXPECT_EQ(movement_preset_from_string(to_string(p)), p);
+}
+
+TEST(CaseParse, PercentBoneLossUsesTheRootLength) {
+  // Rule (docs/case-format.md): loss in mm = percent / 100 x root length (CEJ to apex), applied
+  // below the healthy crest. Derived: 20 % of the 13.0 mm handbook root = 2.6 mm.
+  Json j = base_case();
+  j["scenarios"][1] = {{"horizontal_loss_percent", 20}};
+  const CaseSpec spec = parse_case(j.dump());
+  EXPECT_NEAR(spec.scenarios[1].loss.horizontal_mm, 2.6, 1e-12);
+  EXPECT_EQ(spec.scenarios[1].horizontal_loss_percent, 20);
+  EXPECT_EQ(spec.scenarios[1].name, "20 % loss");  // default name
+  // With a root length override the same percentage gives a different depth.
+  j["tooth"]["dimensions"] = {{"root_length_mm", 15.0}};
+  EXPECT_NEAR(parse_case(j.dump()).scenarios[1].loss.horizontal_mm, 3.0, 1e-12);
+}
+
+TEST(CaseParse, AngularDefectAndHourglassProfile) {
+  Json j = base_case();
+  j["scenarios"][1]["angular_defect"] = {{"surface", "distal"}, {"depth_mm", 2.5}, {"width_deg", 80}};
+  j["pdl"] = {{"width_profile_mm", {{"crest", 0.2}, {"mid_root", 0.14}, {"apex", 0.19}}}};
+  const CaseSpec spec = parse_case(j.dump());
+  EXPECT_EQ(spec.scenarios[1].loss.defect_surface, mesh::ToothSurface::kDistal);
+  EXPECT_EQ(spec.scenarios[1].loss.defect_depth_mm, 2.5);
+  EXPECT_EQ(spec.scenarios[1].loss.defect_width_deg, 80);
+  EXPECT_EQ(spec.model.pdl.mid_width_mm, 0.14);
+  const mesh::ModelSpec model = scenario_model(spec, 1);
+  EXPECT_EQ(model.loss.defect_depth_mm, 2.5);
+  EXPECT_EQ(model.pdl.apex_width_mm, 0.19);
+}
+
+TEST(CaseParse, ThresholdSourceFollowsTheValue) {
+  Json j = base_case();
+  j["thresholds"] = {{"capillary", {{"value_kpa", 5.0}}}};
+  CaseSpec spec = parse_case(j.dump());
+  EXPECT_EQ(spec.thresholds.capillary.value_kpa, 5.0);
+  EXPECT_NE(spec.thresholds.capillary.source.find("no source given"), std::string::npos);
+  j["thresholds"]["capillary"]["source"] = "own choice";
+  spec = parse_case(j.dump());
+  EXPECT_EQ(spec.thresholds.capillary.source, "own choice");
+  EXPECT_EQ(spec.thresholds.limit, default_thresholds().limit);
+}
+
+TEST(CaseParse, MaterialTableCoversEveryRegion) {
+  const CaseSpec spec = parse_case(base_case().dump());
+  const fem::MaterialTable table = material_table(spec);
+  ASSERT_EQ(table.size(), 4u);
+  EXPECT_EQ(table.at(mesh::kPdl).young_modulus_mpa, 0.47);
+  EXPECT_EQ(table.at(mesh::kTooth).young_modulus_mpa, 18600);
+  EXPECT_EQ(table.at(mesh::kCorticalBone).young_modulus_mpa, 13700);
+  EXPECT_EQ(table.at(mesh::kCancellousBone).young_modulus_mpa, 1370);
+}
+
+TEST(CaseParse, SourcesNameEveryDefaultAndFlagUserValues) {
+  Json j = base_case();
+  j["pdl"]["material"] = {{"young_modulus_mpa", 0.7}};
+  const std::vector<SourcedValue> sources = value_sources(parse_case(j.dump()));
+  bool saw_pdl = false, saw_dentin = false;
+  for (const SourcedValue& s : sources) {
+    EXPECT_FALSE(s.source.empty()) << s.quantity;
+    if (s.quantity == "pdl.material.young_modulus_mpa") {
+      saw_pdl = true;
+      EXPECT_EQ(s.value, 0.7);
+      EXPECT_EQ(s.source, "set in the case file");
+    }
+    if (s.quantity == "tooth.material.young_modulus_mpa") {
+      saw_dentin = true;
+      EXPECT_NE(s.source.find("published"), std::string::npos);
+    }
+  }
+  EXPECT_TRUE(saw_pdl);
+  EXPECT_TRUE(saw_dentin);
+}
+
+// ---- malformed cases ----------------------------------------------------------------------------
+
+struct BadCase {
+  const char* name;
+  const char* path;   // dotted path to change ("" = use `text` as the whole file)
+  const char* value;  // JSON value to put there ("#erase" removes the key)
+  const char* text;   // whole file when path is ""
+  const char* key;    // expected InputError::key()
+  const char* fragment;  // expected somewhere in the message
+};
+
+std::ostream& operator<<(std::ostream& os, const BadCase& c) {
+  return os << c.name << " [" << c.path << " = " << c.value << "] -> key " << c.key;
+}
+
+// Applies `path = value` to the base case (paths with array indices like scenarios[1].x).
+std::string mutated(const BadCase& c) {
+  if (std::string(c.path).empty()) return c.text;
+  Json root = base_case();
+  Json* node = &root;
+  std::string path = c.path, step;
+  std::vector<std::string> steps;
+  for (char ch : path) {
+    if (ch == '.') {
+      steps.push_back(step);
+      step.clear();
+    } else {
+      step += ch;
+    }
+  }
+  steps.push_back(step);
+  for (size_t i = 0; i < steps.size(); ++i) {
+    std::string name = steps[i];
+    int index = -1;
+    const size_t bracket = name.find('[');
+    if (bracket != std::string::npos) {
+      index = std::stoi(name.substr(bracket + 1));
+      name = name.substr(0, bracket);
+    }
+    const bool last = i + 1 == steps.size();
+    if (last && index < 0 && std::string(c.value) == "#erase") {
+      node->erase(name);
+      break;
+    }
+    node = &(*node)[name];
+    if (index >= 0) node = &(*node)[static_cast<size_t>(index)];
+    if (last) *node = Json::parse(c.value);
+  }
+  return root.dump(2);
+}
+
+class BadCaseTest : public ::testing::TestWithParam<BadCase> {};
+
+TEST_P(BadCaseTest, RejectedWithKeyValueAndFix) {
+  const BadCase& c = GetParam();
+  const std::string text = mutated(c);
+  SCOPED_TRACE(text);
+  try {
+    parse_case(text, "bad.json");
+    FAIL() << "accepted a malformed case: " << c;
+  } catch (const InputError& e) {
+    const std::string message = e.what();
+    EXPECT_EQ(e.key(), c.key) << message;
+    EXPECT_EQ(message.rfind("bad.json: ", 0), 0u) << "message must name the file: " << message;
+    EXPECT_NE(message.find(c.key), std::string::npos) << "message must name the key: " << message;
+    EXPECT_NE(message.find(c.fragment), std::string::npos)
+        << "expected \"" << c.fragment << "\" in: " << message;
+  }
+}
+
+const BadCase kBadCases[] = {
+    // Syntax errors: the key is the position where the parser stopped (the end of the unexpected
+    // token: the string "load" after the missing comma spans columns 3 to 8 of line 3).
+    {"syntax_missing_comma", "", "",
+     "{\n  \"tooth\": {\"type\": \"maxillary_central_incisor\"}\n  \"load\": {}\n}",
+     "line 3, column 8", "syntax error"},
+    {"syntax_unclosed", "", "", "{\"tooth\": {\"type\": \"mandibular_canine\"}", "line 1, column 40",
+     "unexpected end of input"},
+    {"syntax_not_an_object", "", "", "[1, 2]", "(top level)", "expected an object"},
+    {"duplicate_key", "", "", "{\"label\": \"a\", \"label\": \"b\"}", "label", "appears twice"},
+    // Wrong types.
+    {"type_magnitude_string", "load.magnitude", "\"heavy\"", "", "load.magnitude", "expected a number"},
+    {"type_scenarios_object", "scenarios", "{}", "", "scenarios", "expected an array"},
+    {"type_layers_fraction", "mesh.pdl_layers", "1.5", "", "mesh.pdl_layers", "whole number"},
+    {"type_direction_number", "load.direction", "3", "", "load.direction", "expected a name"},
+    {"type_vector_short", "load.direction", "[1, 0]", "", "load.direction", "three numbers"},
+    {"type_quadratic", "mesh.quadratic", "\"yes\"", "", "mesh.quadratic", "true or false"},
+    {"type_label", "label", "7", "", "label", "expected a string"},
+    // Unknown keys, with the closest known one suggested.
+    {"unknown_top", "lod", "{}", "", "lod", "did you mean \"load\""},
+    {"unknown_nested", "load.magnitud", "50", "", "load.magnitud", "did you mean \"magnitude\""},
+    {"unknown_scenario_key", "scenarios[1].horizontal_los_mm", "2", "",
+     "scenarios[1].horizontal_los_mm", "did you mean \"horizontal_loss_mm\""},
+    {"unknown_far", "zzzzzzzzzzzz", "1", "", "zzzzzzzzzzzz", "keys known at the top level"},
+    {"unknown_material_key", "pdl.material.youngs_modulus", "0.5", "",
+     "pdl.material.youngs_modulus", "did you mean \"young_modulus_mpa\""},
+    // Out-of-range values.
+    {"magnitude_negative", "load.magnitude", "-5", "", "load.magnitude", "out of range"},
+    {"magnitude_zero", "load.magnitude", "0", "", "load.magnitude", "out of range"},
+    {"magnitude_too_big", "load.magnitude", "5000", "", "load.magnitude", "2000 g"},
+    {"unit_unknown", "load.unit", "\"kg\"", "", "load.unit", "grams-force"},
+    {"pdl_modulus_zero", "pdl.material", "{\"young_modulus_mpa\": 0}", "",
+     "pdl.material.young_modulus_mpa", "0.05 to 0.7 MPa"},
+    {"poisson_half", "bone.cortical_material", "{\"poisson_ratio\": 0.5}", "",
+     "bone.cortical_material.poisson_ratio", "0.49"},
+    {"limit_below_capillary", "thresholds.limit", "{\"value_kpa\": 3}", "",
+     "thresholds.limit.value_kpa", "capillary"},
+    {"threshold_zero", "thresholds.capillary", "{\"value_kpa\": 0}", "",
+     "thresholds.capillary.value_kpa", "kPa"},
+    {"tooth_unknown", "tooth.type", "\"maxillary_molar\"", "", "tooth.type", "maxillary_canine"},
+    {"direction_unknown", "load.direction", "\"upward\"", "", "load.direction", "intrusive"},
+    {"direction_zero", "load.direction", "[0, 0, 0]", "", "load.direction", "no length"},
+    {"elevation_too_big", "load.direction", "{\"azimuth_deg\": 0, \"elevation_deg\": 100}", "",
+     "load.direction.elevation_deg", "[-90, 90]"},
+    {"couple_both", "load.couple", "{\"moment\": [0, 1, 0], \"moment_to_force_mm\": 8}", "",
+     "load.couple", "exactly one"},
+    {"couple_unit", "load.couple", "{\"moment\": [0, 1, 0], \"unit\": \"kg.m\"}", "",
+     "load.couple.unit", "g.mm"},
+    {"couple_too_big", "load.couple", "{\"moment\": [0, 5000, 0], \"unit\": \"N.mm\"}", "",
+     "load.couple.moment", "200 N.mm"},
+    {"ratio_too_big", "load.couple", "{\"moment_to_force_mm\": 45}", "",
+     "load.couple.moment_to_force_mm", "30"},
+    {"movement_unknown", "load.movement", "\"bodily\"", "", "load.movement", "translation"},
+    {"application_too_high", "load.application_height_mm", "20", "",
+     "load.application_height_mm", "crown length"},
+    {"application_negative", "load.application_height_mm", "-2", "",
+     "load.application_height_mm", "negative"},
+    {"percent_too_big", "scenarios[1]", "{\"horizontal_loss_percent\": 120}", "",
+     "scenarios[1].horizontal_loss_percent", "[0, 100)"},
+    {"percent_and_mm", "scenarios[1]", "{\"horizontal_loss_percent\": 10, \"horizontal_loss_mm\": 1}",
+     "", "scenarios[1].horizontal_loss_percent", "not both"},
+    {"scenarios_empty", "scenarios", "[]", "", "scenarios", "at least one"},
+    {"scenario_names_repeat", "scenarios[1].name", "\"healthy\"", "", "scenarios[1].name", "unique"},
+    {"scenario_name_empty", "scenarios[1].name", "\"\"", "", "scenarios[1].name", "empty"},
+    {"schema_newer", "schema_version", "2", "", "schema_version", "newer program"},
+    {"preset_unknown", "mesh.preset", "\"ultra\"", "", "mesh.preset", "coarse"},
+    {"defect_surface_unknown", "scenarios[1].angular_defect", "{\"surface\": \"top\", \"depth_mm\": 1}",
+     "", "scenarios[1].angular_defect.surface", "mesial"},
+    {"defect_without_depth", "scenarios[1].angular_defect", "{\"surface\": \"mesial\"}", "",
+     "scenarios[1].angular_defect.depth_mm", "is missing"},
+    {"pdl_width_and_profile", "pdl.width_profile_mm", "{\"crest\": 0.2, \"mid_root\": 0.2, \"apex\": 0.2}",
+     "", "pdl.width_profile_mm", "not both"},
+    {"ideal_root_shape", "tooth.idealised_root", "{\"shape\": \"cube\"}", "",
+     "tooth.idealised_root.shape", "paraboloid"},
+    // Impossible geometry, found by mesh::validate and reported under the case-file key.
+    {"loss_beyond_root", "scenarios[1].horizontal_loss_mm", "14", "",
+     "scenarios[1].horizontal_loss_mm", "leaves no embedded root"},
+    {"loss_negative", "scenarios[1].horizontal_loss_mm", "-1", "", "scenarios[1].horizontal_loss_mm",
+     "0 mm"},
+    {"defect_too_deep", "scenarios[1].angular_defect", "{\"surface\": \"mesial\", \"depth_mm\": 11}",
+     "", "scenarios[1].angular_defect.depth_mm", "deeper than the remaining root"},
+    {"pdl_width_zero", "pdl.width_mm", "0", "", "pdl.width_mm", "positive width"},
+    {"pdl_profile_too_wide", "pdl", "{\"width_profile_mm\": {\"crest\": 2, \"mid_root\": 0.14, \"apex\": 0.19}}",
+     "", "pdl.width_profile_mm.crest", "0.1 to 0.4 mm"},
+    {"root_too_short", "tooth.dimensions", "{\"root_length_mm\": 2}", "",
+     "tooth.dimensions.root_length_mm", "human single-rooted teeth"},
+    {"cortical_thicker_than_plate", "bone.cortical_thickness_mm", "2.5", "",
+     "bone.cortical_thickness_mm", "plate"},
+    {"bracket_off_crown", "bracket.height_mm", "30", "", "bracket.height_mm", "off the crown"},
+    {"mesh_edge_too_small", "mesh.pdl_edge_mm", "0.01", "", "mesh.pdl_edge_mm", "PDL edge length"},
+    {"ideal_radius_too_big", "tooth.idealised_root",
+     "{\"shape\": \"cylinder\", \"radius_at_crest_mm\": 8, \"root_length_mm\": 12}", "",
+     "tooth.idealised_root.radius_at_crest_mm", "a third of the root length"},
+};
+
+INSTANTIATE_TEST_SUITE_P(CaseParse, BadCaseTest, ::testing::ValuesIn(kBadCases),
+                         [](const ::testing::TestParamInfo<BadCase>& p) {
+                           return std::string(p.param.name);
+                         });
+
+TEST(CaseParse, CoupleAndMovementTogetherAreRejected) {
+  Json j = base_case();
+  j["load"]["couple"] = {{"moment_to_force_mm", 8}};
+  j["load"]["movement"] = "translation";
+  try {
+    parse_case(j.dump());
+    FAIL() << "accepted a couple and a movement preset together";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "load.movement");
+    EXPECT_NE(std::string(e.what()).find("remove one of them"), std::string::npos) << e.what();
+  }
+}
+
+TEST(CaseParse, LoadCaseNamesAMissingFile) {
+  try {
+    load_case("/nonexistent/folder/case.json");
+    FAIL();
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "file");
+    EXPECT_NE(std::string(e.what()).find("/nonexistent/folder/case.json"), std::string::npos);
+  }
+}
+
+TEST(CaseParse, ValidateCaseChecksACaseBuiltInCode) {
+  CaseSpec spec = parse_case(base_case().dump());
+  EXPECT_NO_THROW(validate_case(spec));
+  spec.load.direction = Eigen::Vector3d(1, 1, 0);  // not unit length
+  EXPECT_THROW(validate_case(spec), InputError);
+  spec.load.direction = Eigen::Vector3d::UnitY();
+  spec.scenarios.clear();
+  EXPECT_THROW(validate_case(spec), InputError);
+}
+
+}  // namespace
+}  // namespace sharpey::analysis
