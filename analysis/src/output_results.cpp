@@ -112,22 +112,23 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
                              {"depth_mm", number(scenario->loss.defect_depth_mm)},
                              {"width_deg", number(scenario->loss.defect_width_deg)}};
   }
-  const double attachment = r.attachment_area_mm2;
-  j["area_above_capillary_percent"] =
-      attachment > 0 ? number(100.0 * r.area_above_capillary_mm2 / attachment) : Json(nullptr);
-  j["area_above_limit_percent"] =
-      attachment > 0 ? number(100.0 * r.area_above_limit_mm2 / attachment) : Json(nullptr);
+  j["area_above_capillary_percent"] = number(r.area_above_capillary_percent);
+  j["area_above_limit_percent"] = number(r.area_above_limit_percent);
   j["cres_direction"] =
       cres_direction_for(r.load) == CresDirection::kMesiodistal ? "mesiodistal" : "labiolingual";
   j["cres"] = {{"labiolingual", cres_json(r.cres_labiolingual)},
                {"mesiodistal", cres_json(r.cres_mesiodistal)}};
-  j["centre_of_rotation_mm"] = vec(r.centre_of_rotation);
+  // null when the motion has no centre of rotation on the axis (translation, pure rotation
+  // about the long axis).
+  j["centre_of_rotation_mm"] =
+      r.centre_of_rotation_defined ? vec(r.centre_of_rotation) : Json(nullptr);
   j["max_equivalent_strain"] = number(r.max_equivalent_strain);
   j["max_von_mises_kpa"] = number(r.max_von_mises_kpa);
   j["crown_tip_displacement_vector_um"] = vec(r.crown_tip_displacement_um);
   j["apex_displacement_um"] = number(r.apex_displacement_um.norm());
   j["apex_displacement_vector_um"] = vec(r.apex_displacement_um);
   j["rotation_deg"] = vec(r.rotation_deg);
+  j["rigid_fit_rms_um"] = number(r.rigid_fit_rms_um);
   j["equivalent_force"] = {{"same_peak_g", optional_force(r.equivalent_force_peak_g)},
                            {"same_p95_g", optional_force(r.equivalent_force_p95_g)},
                            {"attachment_area_rule_g", optional_force(r.equivalent_force_area_rule_g)},

@@ -18,20 +18,29 @@ std::string fixed(double v, int decimals) {
   return buffer;
 }
 
-// Wraps `text` at `width` columns, each line starting with `indent`.
-std::string wrap(const std::string& text, size_t width, const std::string& indent = "") {
+// Wraps `text` at `width` columns: the first line starts with `first`, the others with `indent`.
+std::string wrap(const std::string& text, size_t width, const std::string& first = "",
+                 const std::string& indent = "") {
   std::istringstream words(text);
-  std::string word, line = indent, out;
+  std::string word, line = first, out;
+  size_t start = first.size();
   while (words >> word) {
-    if (line.size() > indent.size() && line.size() + 1 + word.size() > width) {
+    if (line.size() > start && line.size() + 1 + word.size() > width) {
       out += line + "\n";
       line = indent;
+      start = indent.size();
     }
-    if (line.size() > indent.size()) line += ' ';
+    if (line.size() > start) line += ' ';
     line += word;
   }
-  if (line.size() > indent.size()) out += line + "\n";
+  if (line.size() > start) out += line + "\n";
   return out;
+}
+
+std::string spaced(std::string identifier) {
+  for (char& c : identifier)
+    if (c == '_') c = ' ';
+  return identifier;
 }
 
 std::string direction_words(const LoadSpec& load) {
@@ -53,7 +62,7 @@ std::string force_system_words(const CaseSpec& spec) {
   else
     s << ", applied at the bracket centre";
   if (load.preset != MovementPreset::kNone)
-    s << "; movement " << to_string(load.preset)
+    s << "; movement " << spaced(to_string(load.preset))
       << " (couple set from the centre of resistance of each scenario)";
   else if (load.couple == CoupleKind::kRatio)
     s << "; moment-to-force ratio " << fixed(load.moment_to_force_mm, 1) << " mm";
@@ -106,7 +115,7 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
   const mesh::ToothSpec& tooth = spec.model.tooth;
   out << "Tooth:      ";
   if (tooth.ideal_root == mesh::IdealRoot::kNone)
-    out << mesh::to_string(tooth.type) << ", root " << fixed(tooth.dimensions.root_length_mm, 1)
+    out << spaced(mesh::to_string(tooth.type)) << ", root " << fixed(tooth.dimensions.root_length_mm, 1)
         << " mm, crown " << fixed(tooth.dimensions.crown_length_mm, 1) << " mm\n";
   else
     out << "idealised root, radius " << fixed(tooth.ideal_radius_mm, 2) << " mm at the crest, length "
@@ -118,7 +127,7 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
       << fixed(spec.pdl_material.poisson_ratio, 2) << "\n";
   out << "Bone:       healthy crest " << fixed(spec.model.bone.crest_below_cej_mm, 1)
       << " mm below the CEJ\n";
-  out << wrap("Force:      " + force_system_words(spec), kWidth);
+  out << wrap(force_system_words(spec), kWidth, "Force:      ", "            ");
   out << "Mesh:       " << mesh::to_string(spec.model.sizing.preset) << " preset\n";
   out << wrap("Capillary threshold " + fixed(spec.thresholds.capillary.value_kpa, 1) +
                   " kPa; source: " + spec.thresholds.capillary.source,
@@ -199,7 +208,7 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
   for (const ScenarioResult& r : results) {
     const bool is_reference = !reference_taken && r.bone_loss_mm == least_loss;
     reference_taken = reference_taken || is_reference;
-    out << wrap("- " + reading(spec, r, is_reference), kWidth, "") << "";
+    out << wrap(reading(spec, r, is_reference), kWidth, "- ", "  ");
   }
   out << "\n" << wrap(caution_text(), kWidth);
   return out.str();
