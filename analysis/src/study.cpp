@@ -27,6 +27,7 @@ Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<
   const auto overall = [&progress, n](int k, const std::string& stage, double fraction) {
     if (progress) progress(stage, (k + fraction) / n);
   };
+  if (cancelled()) throw Cancelled();
   std::future<mesh::ToothModel> next = std::async(std::launch::async, build, 0);
   for (int k = 0; k < n; ++k) {
     const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
