@@ -48,25 +48,51 @@ ToothDimensions handbook_dimensions(ToothType type);
 // "pub (secondary copy)" or "mem" as in check-values.md, with the source named.
 std::string handbook_status(ToothType type);
 
-// Idealised roots for verification: a rigid-ish body of revolution with the given radius at the
-// crest and embedded length; the crown above is a short cylinder carrying the bracket pad.
+// Idealised roots for verification: bodies of revolution about the long axis with circular
+// cross-sections of radius r(h) at height h above the apex (the root's lowest point, at
+// z = -ideal_length_mm), scaled so that r = ideal_radius_mm at the HEALTHY alveolar crest
+// (bone.crest_below_cej_mm below the CEJ; bone loss does not change the root):
+//   kCylinder:   r = R, closed at the apex by a half-ellipsoid of height R/3;
+//   kCone:       r = k (h + delta): a cone whose tip is rounded by a tangent sphere of radius
+//                0.05 R, so the virtual (sharp) tip lies delta below the apex (delta ~ 0.03 L for
+//                R = 3, L = 12); cone_virtual_tip_below_apex_mm() returns it;
+//   kParaboloid: r = k sqrt(h), smooth rounded apex.
+// With depth d below the crest and embedded length L, these are r(d) = R, R (1 - d/L') with
+// L' = L + delta, and R sqrt(1 - d/L). The crown above is a cylinder of the root's CEJ radius and
+// height dimensions.crown_length_mm, closed by an elliptical cap, carrying the bracket pad.
+// root_section() gives the exact radius at any height.
 enum class IdealRoot { kNone, kCylinder, kCone, kParaboloid };
 
+// Anatomical teeth: horizontal elliptical cross-sections. Root half-widths (cervix_labiolingual/2,
+// cervix_mesiodistal/2) times rho(u) = sqrt(1 - (1 - u^2)^1.6), u^2 = height above the apex /
+// root length: a full taper with a rounded apex. Crown: from the cervical ellipse to the
+// labiolingual height of contour and the mesiodistal contact areas, closed by an elliptical cap
+// (incisal edge, cusp or occlusal outline; proportions per tooth class). The CEJ is modelled as
+// the plane z = 0: the CEJ curvature values are carried in ToothDimensions (and validated) but
+// not used by the geometry; the alveolar crest is level (not scalloped between teeth).
 struct ToothSpec {
   ToothType type = ToothType::kMaxillaryCentralIncisor;
   ToothDimensions dimensions = handbook_dimensions(ToothType::kMaxillaryCentralIncisor);
   IdealRoot ideal_root = IdealRoot::kNone;  // kNone: anatomical tooth of `type`
-  double ideal_radius_mm = 3.0;             // radius at the crest (idealised roots)
+  double ideal_radius_mm = 3.0;             // radius at the healthy crest (idealised roots)
   double ideal_length_mm = 12.0;            // root length below the CEJ (idealised roots)
 };
 
-// PDL width profile: linear from crest to mid-root to apex (hourglass when mid < crest, apex).
+// PDL width profile: linear in depth from the crest (after horizontal loss) to mid-way to the
+// apex, then linear to the apex (hourglass when mid < crest, apex). The socket surface is the root
+// surface offset along its normal by this width, so the width is exact by construction.
 struct PdlSpec {
   double crest_width_mm = 0.20;
   double mid_width_mm = 0.20;
   double apex_width_mm = 0.20;
 };
 
+// Alveolar bone: a block with vertical sides around the socket. Its labial and lingual faces lie
+// labial_plate_mm / lingual_plate_mm outside the socket's widest point at the crest, its mesial
+// and distal faces interproximal_margin_mm outside, its base depth_below_apex_mm below the socket
+// bottom. Cortical shell: the labial and lingual plates and the top layer (thickness
+// cortical_thickness_mm); cancellous core: the rest, reaching the mesial, distal and basal cut
+// faces (held fixed, kFixedBone) and the socket below the cortical layer.
 struct BoneSpec {
   double crest_below_cej_mm = 1.5;     // healthy crest, common practice 1 to 2 mm
   double cortical_thickness_mm = 0.6;  // cortical shell (labial, lingual plates and crest top)
@@ -80,6 +106,11 @@ enum class ToothSurface { kMesial, kDistal, kLabial, kLingual };
 std::string to_string(ToothSurface s);
 ToothSurface tooth_surface_from_string(const std::string& name);
 
+// Bone loss. The angular defect lowers the attachment level on the root by
+// defect_depth * cos^2(pi * delta / width) at polar angle delta from the named surface's centre
+// (|delta| < width / 2; labial 0 deg, mesial +90, lingual 180, distal -90 around the long axis),
+// and the bone top beside it as a trough that rises back to the crest over a radial distance of
+// max(1 mm, defect depth) from the socket.
 struct BoneLoss {
   double horizontal_mm = 0;          // crest lowered by this much below the healthy crest
   double defect_depth_mm = 0;        // angular (vertical) defect depth below the lowered crest; 0 = none
@@ -87,6 +118,9 @@ struct BoneLoss {
   double defect_width_deg = 60;      // angular width of the defect around the root
 };
 
+// Bracket pad: the crown-surface faces on the labial side between the heights
+// height_mm -/+ length_mm / 2 whose centroid lies within width_mm / 2 of the mid-sagittal plane
+// (y = 0); its area is width x length to within one column of faces.
 struct BracketSpec {
   double height_mm = -1;     // centre height above the CEJ; < 0 means crown mid-height
   double width_mm = 3.0;     // mesiodistal extent of the pad
@@ -97,6 +131,7 @@ enum class MeshPreset { kCoarse, kStandard, kFine };
 std::string to_string(MeshPreset p);
 MeshPreset mesh_preset_from_string(const std::string& name);
 
+// Preset sizes (pdl_edge_mm / bone_edge_mm / pdl_layers): see resolve_sizing().
 struct MeshSizing {
   MeshPreset preset = MeshPreset::kStandard;
   // Explicit controls; <= 0 keeps the preset's value.
@@ -116,9 +151,13 @@ struct ModelSpec {
 };
 
 // Geometry facts of a built model that the analyses need, all in the tooth coordinate system.
+// The crest is the attachment level on the root: the PDL's upper edge on the root surface lies at
+// crest_z_mm (lower inside an angular defect); the bone top meets the socket a few hundredths of a
+// millimetre lower (the PDL's free top runs from the root outward along the root normal).
 struct ModelGeometry {
   double cej_z_mm = 0;                 // always 0
   double crest_z_mm = 0;               // alveolar crest after horizontal loss (negative)
+  double defect_bottom_z_mm = 0;       // lowest attachment level (crest minus defect depth)
   double apex_z_mm = 0;                // root apex (negative)
   double root_length_mm = 0;           // CEJ to apex along the axis
   double embedded_length_mm = 0;       // crest to apex along the axis
@@ -130,6 +169,9 @@ struct ModelGeometry {
   double attachment_area_mm2 = 0;      // PDL-covered root surface, from the parametric definition
   double exposed_root_area_mm2 = 0;    // root above the crest, from the parametric definition
   double tooth_volume_mm3 = 0, pdl_volume_mm3 = 0, bone_volume_mm3 = 0;  // parametric definition
+  double cortical_volume_mm3 = 0, cancellous_volume_mm3 = 0;  // parts of bone_volume_mm3
+  Eigen::Vector3d bone_min = Eigen::Vector3d::Zero();  // corners of the bone block, mm
+  Eigen::Vector3d bone_max = Eigen::Vector3d::Zero();  // (its top is at the crest)
 };
 
 struct ToothModel {
@@ -138,11 +180,53 @@ struct ToothModel {
   VolumeMesh mesh;
 };
 
+// Element sizes a MeshSizing resolves to (explicit controls override the preset):
+//   coarse:   pdl_edge 0.9 mm, bone_edge 3.0 mm, 1 layer across the PDL;
+//   standard: pdl_edge 0.5 mm, bone_edge 2.0 mm, 1 layer;
+//   fine:     pdl_edge 0.35 mm, bone_edge 1.5 mm, 2 layers.
+// tooth_edge_mm (interior of the tooth) follows bone_edge_mm.
+struct MeshSizes {
+  double pdl_edge_mm = 0, bone_edge_mm = 0, tooth_edge_mm = 0;
+  int pdl_layers = 1;
+};
+MeshSizes resolve_sizing(const MeshSizing& sizing);
+
+// Cross-section of the root at height z_mm (apex <= z <= 0): half-widths of the ellipse.
+// Idealised roots: both equal the radius r. Throws InputError when z is outside the root.
+struct RootSection {
+  double labiolingual_half_mm = 0;  // along x
+  double mesiodistal_half_mm = 0;   // along y
+};
+RootSection root_section(const ModelSpec& spec, double z_mm);
+
+// Idealised cone only: distance from the apex down to the cone's virtual sharp tip (the apex is
+// rounded), mm; 0 for the other roots.
+double cone_virtual_tip_below_apex_mm(const ModelSpec& spec);
+
+// The requested PDL width at height z_mm (crest to apex profile of spec.pdl), mm.
+double requested_pdl_width_mm(const ModelSpec& spec, double z_mm);
+
+// Attachment level (upper edge of the PDL on the root) at polar angle `angle_rad` around the long
+// axis (0 labial, pi/2 mesial): the crest after horizontal loss, lowered inside an angular defect.
+double attachment_level_z_mm(const ModelSpec& spec, double angle_rad);
+
 // Checks every parameter; throws InputError naming the value, the allowed range and why.
 void validate(const ModelSpec& spec);
 
+// The geometry facts of build_tooth_model() from the parametric definition alone, without
+// meshing (validates first; a few tens of milliseconds).
+ModelGeometry model_geometry(const ModelSpec& spec);
+
 // Builds the geometry and meshes it with TetGen. Throws InputError for impossible geometry and
 // MeshError (naming the stage and parameters) when TetGen fails. Never prints.
+//
+// Mesh: regions kTooth, kPdl, kCorticalBone, kCancellousBone; faces with their FaceMarker.
+// Root (kRootSurface, kExposedRoot), crown (kCrownSurface, kBracketPad) and socket
+// (kSocketSurface) faces have their normal pointing away from the tooth; bone faces (kFreeBone,
+// kFixedBone) point out of the bone; kPdlCrest faces point up, out of the PDL. The PDL is a
+// structured layer (sizes().pdl_layers tetrahedra across, each prism split into three), with the
+// same nodes as the tooth and bone on its two surfaces; 10-node elements have their midside nodes
+// on the exact root and socket surfaces (and on the crown), elsewhere at edge midpoints.
 ToothModel build_tooth_model(const ModelSpec& spec);
 
 }  // namespace sharpey::mesh

@@ -1,0 +1,114 @@
+// Builds the linear (4-node) mesh of a tooth model: structured triangulations of the tooth,
+// socket and bone surfaces, the structured PDL layer, and one TetGen call for tooth and bone.
+// Used by build_tooth_model(); split over model_surfaces.cpp (tooth and PDL), model_bone.cpp
+// (bone block) and model_build.cpp (TetGen, merging, quadratic elements).
+#pragma once
+
+#include <Eigen/Core>
+#include <array>
+#include <unordered_map>
+#include <vector>
+
+#include "model_frame.h"
+#include "sharpey/mesh/tetrahedralize.h"
+#include "sharpey/mesh/volume_mesh.h"
+
+namespace sharpey::mesh::detail {
+
+// Which parametric surface a point lies on (for placing midside nodes on the true surface).
+enum class PointKind : unsigned char { kTooth, kPdlLayer, kSocket, kBone };
+
+struct PointInfo {
+  PointKind kind = PointKind::kBone;
+  double theta = 0;    // column angle; NaN at a pole
+  double s = 0;        // meridian parameter of the tooth surface (tooth, PDL and socket points)
+};
+
+// Points with merging of coincident positions (within 1e-9 mm), so surfaces built separately
+// share their boundary vertices.
+class PointSet {
+ public:
+  int add(const Eigen::Vector3d& p, const PointInfo& info);
+  const std::vector<Eigen::Vector3d>& points() const { return points_; }
+  const std::vector<PointInfo>& info() const { return info_; }
+  int size() const { return static_cast<int>(points_.size()); }
+
+ private:
+  std::vector<Eigen::Vector3d> points_;
+  std::vector<PointInfo> info_;
+  std::unordered_map<long long, std::vector<int>> cells_;
+};
+
+struct Facet {
+  std::array<int, 3> v;
+  int marker;       // FaceMarker, or kOther for the cortical/cancellous interface
+  bool to_tetgen;   // part of the PLC
+  bool output;      // listed as a mesh face
+};
+
+class ModelMesher {
+ public:
+  explicit ModelMesher(const ModelFrame& frame);
+
+  // Builds everything and returns the linear mesh; `pdl_hole` etc. are internal.
+  VolumeMesh build_linear();
+  const PointSet& points() const { return points_; }
+
+ private:
+  // model_surfaces.cpp
+  void build_tooth_surface();
+  void build_pdl_layer();
+  // model_bone.cpp
+  void build_bone();
+  // model_build.cpp
+  Plc make_plc(std::vector<int>* plc_to_point) const;
+
+  void add_facet(int a, int b, int c, int marker, bool to_tetgen, bool output);
+  // Adds the two triangles of the quad (a, b, c, d) (in cyclic order) split along its shorter
+  // diagonal, oriented like the quad.
+  void add_quad(int a, int b, int c, int d, int marker, bool to_tetgen, bool output);
+  // Structured grid: rows[r][c] point indices; quads between consecutive rows and columns.
+  // `closed`: the columns wrap around. `outward`: each triangle is flipped if its normal has a
+  // negative dot product with outward(centroid).
+  template <class Outward>
+  void add_grid(const std::vector<std::vector<int>>& rows, bool closed, int marker, bool to_tetgen,
+                bool output, const Outward& outward);
+  void orient(Facet* f, const Eigen::Vector3d& outward) const;
+
+  const ModelFrame& frame_;
+  PointSet points_;
+  std::vector<Facet> facets_;
+  int n_columns_ = 0;
+  // Tooth rings (from the crown tip to the apex): point indices; poles are rings of one point.
+  std::vector<std::vector<int>> rings_;
+  int crest_ring_ = 0, cortical_ring_ = 0;  // indices into rings_
+  std::vector<std::array<int, 3>> root_triangles_;  // tooth triangles below the crest
+  // layer_[k][p]: the point at fraction k / n_layers across the PDL above tooth point p
+  // (-1 where p is above the crest). layer_[0][p] = p.
+  std::vector<std::vector<int>> layer_;
+  std::vector<std::array<int, 4>> pdl_tets_;
+  std::vector<double> crest_s_, cortical_s_;  // per column
+  Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
+  std::vector<Plc::RegionSeed> seeds_;
+};
+
+template <class Outward>
+void ModelMesher::add_grid(const std::vector<std::vector<int>>& rows, bool closed, int marker,
+                           bool to_tetgen, bool output, const Outward& outward) {
+  const std::vector<Eigen::Vector3d>& x = points_.points();
+  for (size_t r = 0; r + 1 < rows.size(); ++r) {
+    const size_t n = rows[r].size();
+    const size_t n_quads = closed ? n : n - 1;
+    for (size_t c = 0; c < n_quads; ++c) {
+      const size_t c1 = (c + 1) % n;
+      const size_t first = facets_.size();
+      add_quad(rows[r][c], rows[r][c1], rows[r + 1][c1], rows[r + 1][c], marker, to_tetgen, output);
+      for (size_t f = first; f < facets_.size(); ++f) {
+        const auto& v = facets_[f].v;
+        orient(&facets_[f], outward((x[v[0]] + x[v[1]] + x[v[2]]) / 3.0));
+      }
+    }
+  }
+}
+
+}  // namespace sharpey::mesh::detail

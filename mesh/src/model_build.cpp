@@ -1,0 +1,295 @@
+// build_tooth_model(): surfaces and PDL layer (model_surfaces.cpp, model_bone.cpp), one TetGen
+// call for tooth and bone with the PDL as a hole, merging, and quadratic elements whose midside
+// nodes lie on the exact tooth and socket surfaces.
+#include <Eigen/Geometry>
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <cstring>
+#include <sstream>
+#include <unordered_map>
+#include <unordered_set>
+
+#include "detail/model_mesher.h"
+#include "sharpey/error.h"
+#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/mesh/second_order.h"
+
+namespace sharpey::mesh {
+namespace {
+// Smallest accepted ratio of the smallest to the largest Jacobian determinant in an element.
+constexpr double kMinJacobianRatio = 0.05;
+}  // namespace
+namespace detail {
+namespace {
+
+// Bit-exact position key: TetGen returns input points unchanged.
+struct PositionKey {
+  std::uint64_t b[3];
+  explicit PositionKey(const Eigen::Vector3d& p) {
+    for (int k = 0; k < 3; ++k) {
+      const double v = p[k] == 0.0 ? 0.0 : p[k];  // -0 and +0 alike
+      std::memcpy(&b[k], &v, sizeof v);
+    }
+  }
+  bool operator==(const PositionKey& o) const {
+    return b[0] == o.b[0] && b[1] == o.b[1] && b[2] == o.b[2];
+  }
+};
+struct PositionKeyHash {
+  size_t operator()(const PositionKey& k) const {
+    std::uint64_t h = 1469598103934665603ull;
+    for (std::uint64_t x : k.b) h = (h ^ x) * 1099511628211ull;
+    return static_cast<size_t>(h);
+  }
+};
+
+struct TriangleKey {
+  std::array<int, 3> v;
+  TriangleKey(int a, int b, int c) : v{a, b, c} { std::sort(v.begin(), v.end()); }
+  bool operator==(const TriangleKey& o) const { return v == o.v; }
+};
+struct TriangleKeyHash {
+  size_t operator()(const TriangleKey& k) const {
+    std::uint64_t h = 1469598103934665603ull;
+    for (int x : k.v) h = (h ^ static_cast<std::uint32_t>(x)) * 1099511628211ull;
+    return static_cast<size_t>(h);
+  }
+};
+
+}  // namespace
+
+Plc ModelMesher::make_plc(std::vector<int>* plc_to_point) const {
+  Plc plc;
+  std::vector<int> point_to_plc(points_.size(), -1);
+  plc_to_point->clear();
+  for (const Facet& f : facets_) {
+    if (!f.to_tetgen) continue;
+    std::array<int, 3> t{};
+    for (int k = 0; k < 3; ++k) {
+      int& q = point_to_plc[f.v[k]];
+      if (q < 0) {
+        q = static_cast<int>(plc.points.size());
+        plc.points.push_back(points_.points()[f.v[k]]);
+        plc_to_point->push_back(f.v[k]);
+      }
+      t[k] = q;
+    }
+    plc.triangles.push_back(t);
+    plc.triangle_marker.push_back(f.marker);
+  }
+  plc.regions = seeds_;
+  plc.holes = {hole_};
+  return plc;
+}
+
+VolumeMesh ModelMesher::build_linear() {
+  build_tooth_surface();
+  build_pdl_layer();
+  build_bone();
+
+  std::vector<int> plc_to_point;
+  const Plc plc = make_plc(&plc_to_point);
+  TetgenOptions options;
+  options.preserve_surface = true;
+  options.second_order = false;
+  const VolumeMesh tet = tetrahedralize(plc, options);
+
+  VolumeMesh mesh;
+  mesh.nodes_per_element = 4;
+  mesh.nodes_per_face = 3;
+  mesh.nodes = points_.points();
+  std::unordered_map<PositionKey, int, PositionKeyHash> input;
+  input.reserve(plc_to_point.size() * 2);
+  for (int p : plc_to_point) input.emplace(PositionKey(points_.points()[p]), p);
+  std::vector<int> node_map(tet.n_nodes());
+  for (int i = 0; i < tet.n_nodes(); ++i) {
+    const auto it = input.find(PositionKey(tet.nodes[i]));
+    if (it != input.end()) {
+      node_map[i] = it->second;
+    } else {
+      node_map[i] = mesh.n_nodes();
+      mesh.nodes.push_back(tet.nodes[i]);
+    }
+  }
+  for (int e = 0; e < tet.n_elements(); ++e) {
+    for (int k = 0; k < 4; ++k) mesh.elements.push_back(node_map[tet.element(e)[k]]);
+    mesh.element_region.push_back(tet.element_region[e]);
+  }
+
+  // The preserved surfaces must come back as element faces, or the PDL would not conform.
+  std::unordered_set<TriangleKey, TriangleKeyHash> element_faces;
+  element_faces.reserve(static_cast<size_t>(mesh.n_elements()) * 4);
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    const int* t = mesh.element(e);
+    for (const auto& f : kTetFaces) element_faces.emplace(t[f[0]], t[f[1]], t[f[2]]);
+  }
+  int n_missing = 0;
+  for (const Facet& f : facets_) {
+    if (f.to_tetgen && !element_faces.count(TriangleKey(f.v[0], f.v[1], f.v[2]))) ++n_missing;
+  }
+  if (n_missing > 0) {
+    throw MeshError("tetrahedralising tooth and bone: TetGen changed " + std::to_string(n_missing) +
+                    " of the preserved surface triangles, so the PDL layer would not conform");
+  }
+
+  for (const auto& t : pdl_tets_) {
+    mesh.elements.insert(mesh.elements.end(), t.begin(), t.end());
+    mesh.element_region.push_back(kPdl);
+  }
+  for (const Facet& f : facets_) {
+    if (!f.output) continue;
+    mesh.faces.insert(mesh.faces.end(), f.v.begin(), f.v.end());
+    mesh.face_marker.push_back(f.marker);
+  }
+  return mesh;
+}
+
+namespace {
+
+std::string describe(const ModelSpec& spec) {
+  std::ostringstream s;
+  s << "tooth " << to_string(spec.tooth.type);
+  switch (spec.tooth.ideal_root) {
+    case IdealRoot::kCylinder:
+      s << " (idealised cylinder root)";
+      break;
+    case IdealRoot::kCone:
+      s << " (idealised cone root)";
+      break;
+    case IdealRoot::kParaboloid:
+      s << " (idealised paraboloid root)";
+      break;
+    case IdealRoot::kNone:
+      break;
+  }
+  const MeshSizes z = resolve_sizing(spec.sizing);
+  s << ", " << to_string(spec.sizing.preset) << " mesh (PDL edge " << z.pdl_edge_mm
+    << " mm, bone edge " << z.bone_edge_mm << " mm, " << z.pdl_layers << " PDL layer"
+    << (z.pdl_layers > 1 ? "s" : "") << "), horizontal loss " << spec.loss.horizontal_mm
+    << " mm, angular defect " << spec.loss.defect_depth_mm << " mm";
+  return s.str();
+}
+
+// Minimum over the nodes and degree-2 quadrature points of det J, divided by the maximum.
+double jacobian_ratio(const VolumeMesh& mesh, int e, const std::vector<Eigen::MatrixXd>& grads) {
+  const int* t = mesh.element(e);
+  Eigen::Matrix<double, 3, 10> x;
+  for (int k = 0; k < 10; ++k) x.col(k) = mesh.nodes[t[k]];
+  double lo = 1e300, hi = -1e300;
+  for (const Eigen::MatrixXd& g : grads) {
+    const double det = (x * g).determinant();
+    lo = std::min(lo, det);
+    hi = std::max(hi, det);
+  }
+  return hi > 0 ? lo / hi : -1.0;
+}
+
+// Curved midside nodes can fold thin PDL elements where the surface bends strongly within an
+// element (root apex, incisal edge) on coarse meshes. Pull the midside nodes of such elements
+// back toward their edge midpoints (halving the offset each pass, straight after eight passes)
+// until every element's Jacobian ratio is at least `min_ratio`. Returns the number of moves.
+int straighten_folded(VolumeMesh* mesh, double min_ratio) {
+  std::vector<Eigen::MatrixXd> grads;
+  for (int k = 0; k < 10; ++k) grads.push_back(tet_shape_gradient(10, tet_node_reference(k)));
+  for (const Eigen::Vector3d& p : tet_quadrature(2).points) grads.push_back(tet_shape_gradient(10, p));
+  std::vector<int> suspects(mesh->n_elements());
+  for (int e = 0; e < mesh->n_elements(); ++e) suspects[e] = e;
+  int n_moves = 0;
+  for (int pass = 0; pass < 12 && !suspects.empty(); ++pass) {
+    std::vector<int> bad;
+    for (int e : suspects)
+      if (jacobian_ratio(*mesh, e, grads) < min_ratio) bad.push_back(e);
+    if (bad.empty()) break;
+    const double keep = pass < 8 ? 0.5 : 0.0;
+    std::unordered_set<int> moved;
+    for (int e : bad) {
+      const int* t = mesh->element(e);
+      for (int k = 0; k < 6; ++k) {
+        const int m = t[4 + k];
+        if (!moved.insert(m).second) continue;
+        const Eigen::Vector3d mid =
+            0.5 * (mesh->nodes[t[kTetEdges[k][0]]] + mesh->nodes[t[kTetEdges[k][1]]]);
+        if ((mesh->nodes[m] - mid).squaredNorm() == 0) continue;
+        mesh->nodes[m] = mid + keep * (mesh->nodes[m] - mid);
+        ++n_moves;
+      }
+    }
+    // Elements sharing a moved node may change; check them (and the bad ones) next pass.
+    std::unordered_set<int> next;
+    for (int e = 0; e < mesh->n_elements(); ++e) {
+      const int* t = mesh->element(e);
+      for (int k = 4; k < 10; ++k)
+        if (moved.count(t[k])) {
+          next.insert(e);
+          break;
+        }
+    }
+    suspects.assign(next.begin(), next.end());
+  }
+  return n_moves;
+}
+
+}  // namespace
+}  // namespace detail
+
+ToothModel build_tooth_model(const ModelSpec& spec) {
+  validate(spec);
+  const detail::ModelFrame frame(spec);
+  detail::ModelMesher mesher(frame);
+  VolumeMesh linear;
+  try {
+    linear = mesher.build_linear();
+  } catch (const MeshError& e) {
+    throw MeshError(std::string(e.what()) + " [" + detail::describe(spec) + "]");
+  }
+
+  ToothModel model;
+  model.spec = spec;
+  model.geometry = detail::integrate_geometry(frame);
+  if (!spec.sizing.second_order) {
+    model.mesh = std::move(linear);
+    return model;
+  }
+
+  // Midside nodes of tooth-surface and socket edges on the exact surfaces.
+  const detail::PointSet& points = mesher.points();
+  std::unordered_map<detail::PositionKey, int, detail::PositionKeyHash> lookup;
+  lookup.reserve(static_cast<size_t>(points.size()) * 2);
+  for (int p = 0; p < points.size(); ++p) {
+    const detail::PointKind kind = points.info()[p].kind;
+    if (kind == detail::PointKind::kTooth || kind == detail::PointKind::kSocket)
+      lookup.emplace(detail::PositionKey(points.points()[p]), p);
+  }
+  const detail::ToothShape& shape = frame.shape();
+  auto project = [&](const std::vector<int>& markers, const Eigen::Vector3d& a,
+                     const Eigen::Vector3d& b) -> Eigen::Vector3d {
+    auto has = [&](int m) { return std::find(markers.begin(), markers.end(), m) != markers.end(); };
+    const auto ia = lookup.find(detail::PositionKey(a));
+    const auto ib = lookup.find(detail::PositionKey(b));
+    if (ia != lookup.end() && ib != lookup.end()) {
+      const detail::PointInfo& pa = points.info()[ia->second];
+      const detail::PointInfo& pb = points.info()[ib->second];
+      const bool tooth = pa.kind == detail::PointKind::kTooth &&
+                         pb.kind == detail::PointKind::kTooth &&
+                         (has(kRootSurface) || has(kExposedRoot) || has(kCrownSurface) ||
+                          has(kBracketPad));
+      const bool socket = pa.kind == detail::PointKind::kSocket &&
+                          pb.kind == detail::PointKind::kSocket && has(kSocketSurface);
+      if (tooth || socket) {
+        double ta = pa.theta, tb = pb.theta;
+        if (std::isnan(ta)) ta = tb;
+        if (std::isnan(tb)) tb = ta;
+        const double theta = std::isnan(ta) ? 0.0 : ta + 0.5 * detail::wrap_angle(tb - ta);
+        const double s = 0.5 * (pa.s + pb.s);
+        return tooth ? shape.point(theta, s) : frame.socket_point(theta, s);
+      }
+    }
+    return 0.5 * (a + b);
+  };
+  model.mesh = make_second_order(linear, project);
+  detail::straighten_folded(&model.mesh, kMinJacobianRatio);
+  return model;
+}
+
+}  // namespace sharpey::mesh

@@ -1,0 +1,216 @@
+// Areas, volumes and reference points of a model from its parametric definition, by numerical
+// integration; independent of the mesh, so tests can compare the two.
+#include <Eigen/Geometry>
+#include <cmath>
+#include <functional>
+
+#include "detail/model_frame.h"
+
+namespace sharpey::mesh::detail {
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+constexpr double kFdStep = 1e-6;  // central differences on the (theta, s) parameters
+
+// Integrates f(s) over [s0, s1] with `panels` Gauss-Legendre panels of `order` points.
+struct LineRule {
+  std::vector<double> x, w;
+  LineRule(int panels, int order) {
+    std::vector<double> gx, gw;
+    gauss_legendre01(order, &gx, &gw);
+    for (int p = 0; p < panels; ++p) {
+      for (int k = 0; k < order; ++k) {
+        x.push_back((p + gx[k]) / panels);
+        w.push_back(gw[k] / panels);
+      }
+    }
+  }
+};
+
+// Tangents of a parametric map by central differences.
+template <class Map>
+void fd_tangents(const Map& map, double theta, double s, Eigen::Vector3d* p_theta,
+                 Eigen::Vector3d* p_s) {
+  *p_theta = (map(theta + kFdStep, s) - map(theta - kFdStep, s)) / (2 * kFdStep);
+  *p_s = (map(theta, s + kFdStep) - map(theta, s - kFdStep)) / (2 * kFdStep);
+}
+
+// Integral over theta in [0, 2 pi) and s in [s_lo(theta), s_hi(theta)] of f(theta, s) ds dtheta.
+double integrate_band(int n_theta, const LineRule& rule,
+                      const std::function<double(double)>& s_lo,
+                      const std::function<double(double)>& s_hi,
+                      const std::function<double(double, double)>& f) {
+  double total = 0;
+  for (int i = 0; i < n_theta; ++i) {
+    const double theta = 2 * kPi * (i + 0.5) / n_theta;
+    const double a = s_lo(theta), b = s_hi(theta);
+    double inner = 0;
+    for (size_t k = 0; k < rule.x.size(); ++k) inner += rule.w[k] * f(theta, a + (b - a) * rule.x[k]);
+    total += inner * (b - a);
+  }
+  return total * 2 * kPi / n_theta;
+}
+
+// Integral of g(x, y) over the rectangle [x0, x1] x [y0, y1] (2 x 2 Gauss on a fine grid).
+double integrate_rectangle(double x0, double x1, double y0, double y1, double cell,
+                           const std::function<double(double, double)>& g) {
+  const int nx = std::max(1, static_cast<int>(std::ceil((x1 - x0) / cell)));
+  const int ny = std::max(1, static_cast<int>(std::ceil((y1 - y0) / cell)));
+  const double hx = (x1 - x0) / nx, hy = (y1 - y0) / ny;
+  const double g1 = 0.5 - 0.5 / std::sqrt(3.0), g2 = 0.5 + 0.5 / std::sqrt(3.0);
+  double total = 0;
+  for (int i = 0; i < nx; ++i) {
+    for (int j = 0; j < ny; ++j) {
+      for (double u : {g1, g2})
+        for (double v : {g1, g2}) total += g(x0 + (i + u) * hx, y0 + (j + v) * hy);
+    }
+  }
+  return total * 0.25 * hx * hy;
+}
+
+}  // namespace
+
+void gauss_legendre01(int n, std::vector<double>* nodes, std::vector<double>* weights) {
+  nodes->assign(n, 0);
+  weights->assign(n, 0);
+  for (int i = 0; i < n; ++i) {
+    double x = std::cos(kPi * (i + 0.75) / (n + 0.5));
+    double dp = 1;
+    for (int it = 0; it < 100; ++it) {
+      double p0 = 1, p1 = x;
+      for (int k = 2; k <= n; ++k) {
+        const double p2 = ((2 * k - 1) * x * p1 - (k - 1) * p0) / k;
+        p0 = p1;
+        p1 = p2;
+      }
+      dp = n * (x * p1 - p0) / (x * x - 1);
+      const double dx = p1 / dp;
+      x -= dx;
+      if (std::abs(dx) < 1e-15) break;
+    }
+    (*nodes)[i] = 0.5 * (1 - x);
+    (*weights)[i] = 1.0 / ((1 - x * x) * dp * dp);
+  }
+}
+
+ModelGeometry integrate_geometry(const ModelFrame& frame) {
+  const ToothShape& shape = frame.shape();
+  const bool defect = frame.spec().loss.defect_depth_mm > 0;
+  const int n_theta = defect ? 720 : 128;
+  const LineRule rule(48, 5);
+
+  ModelGeometry g;
+  g.cej_z_mm = 0;
+  g.crest_z_mm = frame.crest_z();
+  g.defect_bottom_z_mm = frame.crest_z() - frame.spec().loss.defect_depth_mm;
+  g.apex_z_mm = frame.apex_z();
+  g.root_length_mm = shape.root_length();
+  g.embedded_length_mm = frame.crest_z() - frame.apex_z();
+  g.crown_tip = shape.point(0, 1.0);
+  g.apex = shape.point(0, -1.0);
+  const double s_bracket = shape.s_of_z(frame.bracket_z());
+  g.bracket_center = shape.point(0, s_bracket);
+  g.bracket_normal = shape.normal(0, s_bracket);
+
+  auto area_density = [&](double theta, double s) {
+    Eigen::Vector3d x, xt, xs;
+    shape.frame(theta, s, &x, &xt, &xs);
+    return xt.cross(xs).norm();
+  };
+  auto apex = [](double) { return -1.0; };
+  auto cej = [](double) { return 0.0; };
+  auto crest = [&](double theta) { return frame.crest_s(theta); };
+  g.root_area_mm2 = integrate_band(n_theta, rule, apex, cej, area_density);
+  g.attachment_area_mm2 = integrate_band(n_theta, rule, apex, crest, area_density);
+  g.exposed_root_area_mm2 = integrate_band(n_theta, rule, crest, cej, area_density);
+
+  // Tooth: V = 1/3 closed-surface integral of x . n dA.
+  auto flux = [&](double theta, double s) {
+    Eigen::Vector3d x, xt, xs;
+    shape.frame(theta, s, &x, &xt, &xs);
+    return x.dot(xt.cross(xs)) / 3.0;
+  };
+  const double s_cap = shape.s_of_z(shape.crown_body_top());
+  g.tooth_volume_mm3 = integrate_band(n_theta, rule, apex, cej, flux) +
+                       integrate_band(n_theta, rule, cej, [&](double) { return s_cap; }, flux) +
+                       integrate_band(n_theta, rule, [&](double) { return s_cap; },
+                                      [](double) { return 1.0; }, flux);
+
+  // PDL: the map (theta, s, t) -> root point + t w n, t in [0, 1]; its Jacobian is quadratic in t.
+  std::vector<double> tx, tw;
+  gauss_legendre01(2, &tx, &tw);
+  auto pdl_density = [&](double theta, double s) {
+    double v = 0;
+    for (int k = 0; k < 2; ++k) {
+      const double t = tx[k];
+      auto map = [&](double th, double ss) { return frame.pdl_point(th, ss, t); };
+      Eigen::Vector3d pt, ps;
+      fd_tangents(map, theta, s, &pt, &ps);
+      const Eigen::Vector3d x = shape.point(theta, s);
+      const Eigen::Vector3d p_t = frame.pdl_width(x.z()) * shape.normal(theta, s);
+      v += tw[k] * pt.cross(ps).dot(p_t);
+    }
+    return v;
+  };
+  g.pdl_volume_mm3 = integrate_band(n_theta, rule, apex, crest, pdl_density);
+
+  // Bone: divergence theorem with the field (0, 0, z) over the block minus the socket cavity.
+  // V = int_rect top - int_opening top - z_base * A_rect - int_socket z n_z dA, where the socket
+  // surface runs from the apex to the ring `ring_s` and the opening is that ring's projection.
+  auto socket_z_flux = [&](double theta, double s) {
+    auto map = [&](double th, double ss) { return frame.socket_point(th, ss); };
+    Eigen::Vector3d pt, ps;
+    fd_tangents(map, theta, s, &pt, &ps);
+    return frame.socket_point(theta, s).z() * pt.cross(ps).z();
+  };
+  auto block_part = [&](double x0, double x1, double top_offset,
+                        const std::function<double(double)>& ring_s) {
+    const double y0 = frame.y_distal(), y1 = frame.y_mesial();
+    const double rect_area = (x1 - x0) * (y1 - y0);
+    const double top = defect ? integrate_rectangle(x0, x1, y0, y1, 0.1,
+                                                    [&](double x, double y) {
+                                                      return frame.bone_top(x, y);
+                                                    })
+                              : frame.crest_z() * rect_area;
+    // Opening: inside it the top is crest - depth * weight(polar angle); integrate over the
+    // star-shaped region bounded by the ring, in the ring's parameter theta.
+    double open_area = 0, open_weighted = 0;
+    const int n_ring = 2048;
+    for (int i = 0; i < n_ring; ++i) {
+      const double theta = 2 * kPi * (i + 0.5) / n_ring;
+      auto ring = [&](double th) { return frame.socket_point(th, ring_s(th)); };
+      const Eigen::Vector3d c = ring(theta);
+      const Eigen::Vector3d dc = (ring(theta + kFdStep) - ring(theta - kFdStep)) / (2 * kFdStep);
+      const double sector = 0.5 * (c.x() * dc.y() - c.y() * dc.x());
+      open_area += sector;
+      open_weighted += sector * frame.defect_weight(std::atan2(c.y(), c.x()));
+    }
+    open_area *= 2 * kPi / n_ring;
+    open_weighted *= 2 * kPi / n_ring;
+    const double open_top =
+        frame.crest_z() * open_area - frame.spec().loss.defect_depth_mm * open_weighted;
+    const double socket = integrate_band(n_theta, rule, apex, ring_s, socket_z_flux);
+    return (top - top_offset * rect_area) - (open_top - top_offset * open_area) -
+           frame.z_base() * (rect_area - open_area) - socket -
+           frame.z_base() * open_area;
+  };
+  g.bone_volume_mm3 = block_part(frame.x_lingual(), frame.x_labial(), 0.0, crest);
+  g.cancellous_volume_mm3 =
+      block_part(frame.x_lingual_inner(), frame.x_labial_inner(), frame.cortical_thickness(),
+                 [&](double theta) { return frame.cortical_s(theta); });
+  g.cortical_volume_mm3 = g.bone_volume_mm3 - g.cancellous_volume_mm3;
+  g.bone_min = {frame.x_lingual(), frame.y_distal(), frame.z_base()};
+  g.bone_max = {frame.x_labial(), frame.y_mesial(), frame.crest_z()};
+  return g;
+}
+
+}  // namespace sharpey::mesh::detail
+
+namespace sharpey::mesh {
+
+ModelGeometry model_geometry(const ModelSpec& spec) {
+  validate(spec);
+  return detail::integrate_geometry(detail::ModelFrame(spec));
+}
+
+}  // namespace sharpey::mesh

@@ -1,0 +1,55 @@
+// Small queries on a model specification: resolved mesh sizes, root cross-sections, requested
+// PDL width and attachment level.
+#include <cmath>
+#include <string>
+
+#include "detail/model_frame.h"
+#include "sharpey/error.h"
+#include "sharpey/mesh/tooth_model.h"
+
+namespace sharpey::mesh {
+
+MeshSizes resolve_sizing(const MeshSizing& sizing) {
+  MeshSizes s;
+  switch (sizing.preset) {
+    case MeshPreset::kCoarse:
+      s = {0.9, 3.0, 3.0, 1};
+      break;
+    case MeshPreset::kStandard:
+      s = {0.5, 2.0, 2.0, 1};
+      break;
+    case MeshPreset::kFine:
+      s = {0.35, 1.5, 1.5, 2};
+      break;
+  }
+  if (sizing.pdl_edge_mm > 0) s.pdl_edge_mm = sizing.pdl_edge_mm;
+  if (sizing.bone_edge_mm > 0) s.bone_edge_mm = s.tooth_edge_mm = sizing.bone_edge_mm;
+  if (sizing.pdl_layers > 0) s.pdl_layers = sizing.pdl_layers;
+  return s;
+}
+
+RootSection root_section(const ModelSpec& spec, double z_mm) {
+  const detail::ToothShape shape(spec.tooth, spec.bone.crest_below_cej_mm);
+  if (!(z_mm >= -shape.root_length() && z_mm <= 0)) {
+    throw InputError("z_mm", "height " + std::to_string(z_mm) +
+                                 " mm is not on the root, which spans " +
+                                 std::to_string(-shape.root_length()) + " to 0 mm");
+  }
+  const detail::Section<double> q = shape.section(shape.s_of_z(z_mm));
+  return {q.a, q.b};
+}
+
+double cone_virtual_tip_below_apex_mm(const ModelSpec& spec) {
+  if (spec.tooth.ideal_root != IdealRoot::kCone) return 0.0;
+  return detail::ToothShape(spec.tooth, spec.bone.crest_below_cej_mm).cone_delta();
+}
+
+double requested_pdl_width_mm(const ModelSpec& spec, double z_mm) {
+  return detail::ModelFrame(spec).pdl_width(z_mm);
+}
+
+double attachment_level_z_mm(const ModelSpec& spec, double angle_rad) {
+  return detail::ModelFrame(spec).attachment_z(angle_rad);
+}
+
+}  // namespace sharpey::mesh
