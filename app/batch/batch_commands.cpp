@@ -1,7 +1,10 @@
 #include "batch_commands.h"
 
 #include <algorithm>
+#include <chrono>
+#include <cstdlib>
 #include <fstream>
+#include <thread>
 #include <iostream>
 #include <memory>
 #include <sstream>
@@ -49,6 +52,16 @@ std::string plural(size_t n, const std::string& word) {
   return std::to_string(n) + " " + word + (n == 1 ? "" : "s");
 }
 
+// Testing aid: SHARPEY_BATCH_WRITE_DELAY_MS=<ms> pauses after each report file, so the tests can
+// kill or interrupt a run while it is writing (tests/analysis/test_batch_kill.cpp).
+void pause_after_write() {
+  static const long delay_ms = [] {
+    const char* value = std::getenv("SHARPEY_BATCH_WRITE_DELAY_MS");
+    return value ? std::strtol(value, nullptr, 10) : 0L;
+  }();
+  if (delay_ms > 0) std::this_thread::sleep_for(std::chrono::milliseconds(delay_ms));
+}
+
 void announce(const std::string& folder, const std::vector<std::string>& files) {
   std::cout << "sharpey-batch: wrote " << plural(files.size(), "file") << " to " << folder << ":";
   for (const std::string& f : files) std::cout << ' ' << f;
@@ -72,7 +85,6 @@ void run_command(const CommonOptions& options) {
   std::vector<analysis::ScenarioFacts> facts = analysis::scenario_facts(study, true);
   stop_if_interrupted();
 
-  progress.report("writing the report", 0.0);
   analysis::StagedFolder out(options.out_dir);
   std::vector<std::string> written;
   for (size_t i = 0; i < results.size(); ++i) {
@@ -81,17 +93,22 @@ void run_command(const CommonOptions& options) {
     f.model_vtu = stem + "_model.vtu";
     f.pdl_vtu = stem + "_pdl.vtu";
     f.root_map_csv = stem + "_root_map.csv";
+    progress.report("writing " + stem + " files", 0.0);
     analysis::write_scenario_vtu(*study.solutions()[i], results[i], out.path(f.model_vtu),
                                  out.path(f.pdl_vtu));
+    pause_after_write();
     analysis::write_file_atomic(out.path(f.root_map_csv), analysis::root_map_csv(spec, results[i]));
     written.insert(written.end(), {f.model_vtu, f.pdl_vtu, f.root_map_csv});
+    pause_after_write();
     stop_if_interrupted();
   }
+  progress.report("writing the summaries", 0.0);
   analysis::write_file_atomic(out.path("results.json"), analysis::results_json(spec, results, facts));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
   analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
   analysis::save_case(spec, out.path("case.json"));
   written.insert(written.begin(), {"results.json", "summary.csv", "summary.txt", "case.json"});
+  pause_after_write();
   stop_if_interrupted();
   out.commit();
   announce(options.out_dir, written);

@@ -114,6 +114,20 @@ bool ChildProcess::wait_for_stderr(const std::string& text, double timeout_s) {
 
 std::string ChildProcess::stderr_so_far() const { return read_file(err_path_); }
 
+std::string coarse_case_json(int n_scenarios) {
+  std::string scenarios = R"({"name": "healthy", "horizontal_loss_mm": 0})";
+  if (n_scenarios >= 2) scenarios += R"(, {"name": "3 mm loss", "horizontal_loss_mm": 3})";
+  return R"({
+  "schema_version": 1,
+  "label": "Invented test case: maxillary central incisor, 100 g lingual",
+  "tooth": {"type": "maxillary_central_incisor"},
+  "pdl": {"width_mm": 0.2},
+  "scenarios": [)" + scenarios + R"(],
+  "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
+  "mesh": {"preset": "coarse"}
+})";
+}
+
 ProcessResult run_batch(const std::vector<std::string>& args, double timeout_s) {
   ChildProcess child(batch_binary(), args);
   return child.wait(timeout_s);
