@@ -1,0 +1,203 @@
+#include "core/case_session.h"
+
+#include <algorithm>
+
+#include "sharpey/error.h"
+
+namespace sharpey::app {
+
+CaseSession::CaseSession(QObject* parent) : QObject(parent) {
+  flush_timer_.setSingleShot(true);
+  flush_timer_.setInterval(250);
+  connect(&flush_timer_, &QTimer::timeout, this, &CaseSession::flush);
+  new_case();
+}
+
+void CaseSession::new_case() {
+  analysis::CaseSpec spec;
+  spec.label = "Invented case: new";
+  analysis::Scenario healthy;
+  healthy.name = "healthy";
+  analysis::Scenario reduced;
+  reduced.name = "3.0 mm loss";
+  reduced.loss.horizontal_mm = 3.0;
+  spec.scenarios = {healthy, reduced};
+  adopt(spec);
+  document_.reset_untitled();
+  emit document_changed();
+}
+
+void CaseSession::open(const QString& path) {
+  analysis::CaseSpec spec = analysis::load_case(path.toStdString());  // throws before any change
+  adopt(std::move(spec));
+  document_.opened(path);
+  emit document_changed();
+}
+
+void CaseSession::recover(const analysis::CaseSpec& spec, const QString& original_path) {
+  adopt(spec);
+  document_.recovered(original_path);
+  emit document_changed();
+}
+
+void CaseSession::save(const QString& path) {
+  analysis::save_case(spec_with_load(), path.toStdString());
+  document_.saved(path);
+  emit document_changed();
+}
+
+QString CaseSession::case_json() const {
+  return QString::fromStdString(analysis::case_to_json(spec_with_load()));
+}
+
+analysis::CaseSpec CaseSession::spec_with_load() const {
+  analysis::CaseSpec spec = spec_;
+  spec.scenarios = levels_.scenarios();
+  return spec;
+}
+
+void CaseSession::adopt(analysis::CaseSpec spec) {
+  spec_ = std::move(spec);
+  load_ = from_load_spec(spec_.load);
+  levels_ = ScenarioList(spec_.scenarios);
+  study_.reset();
+  results_.clear();
+  current_ = 0;
+  pending_ = false;
+  stale_ = true;
+  error_.clear();
+  flush_timer_.stop();
+  emit case_replaced();
+}
+
+void CaseSession::modified() {
+  const bool was = document_.modified();
+  document_.mark_modified();
+  if (!was) emit document_changed();
+}
+
+void CaseSession::geometry_edit() {
+  modified();
+  stale_ = true;
+  emit geometry_changed();
+}
+
+void CaseSession::set_load(const LoadControls& controls, bool interactive) {
+  load_ = controls;
+  const analysis::LoadSpec load = to_load_spec(controls);
+  spec_.load = load;
+  // The case file names the direction ("lingual") when it is one of the named ones.
+  spec_.load.direction_name = controls.direction == DirectionChoice::kAngles
+                                  ? std::string()
+                                  : label(controls.direction).toStdString();
+  modified();
+  evaluate(interactive);
+}
+
+void CaseSession::set_thresholds(double capillary_kpa, double limit_kpa) {
+  if (capillary_kpa == spec_.thresholds.capillary.value_kpa &&
+      limit_kpa == spec_.thresholds.limit.value_kpa)
+    return;
+  spec_.thresholds.capillary.value_kpa = capillary_kpa;
+  spec_.thresholds.limit.value_kpa = limit_kpa;
+  modified();
+  evaluate(false);
+}
+
+void CaseSession::set_label(const QString& label) {
+  if (label.toStdString() == spec_.label) return;
+  spec_.label = label.toStdString();
+  modified();
+}
+
+void CaseSession::set_tooth(mesh::ToothType type) {
+  if (type == spec_.model.tooth.type && spec_.model.tooth.ideal_root == mesh::IdealRoot::kNone) return;
+  spec_.model.tooth.type = type;
+  spec_.model.tooth.dimensions = mesh::handbook_dimensions(type);
+  spec_.model.tooth.ideal_root = mesh::IdealRoot::kNone;
+  geometry_edit();
+}
+
+void CaseSession::set_mesh_preset(mesh::MeshPreset preset) {
+  if (preset == spec_.model.sizing.preset) return;
+  spec_.model.sizing.preset = preset;
+  geometry_edit();
+}
+
+void CaseSession::set_pdl_width(double width_mm) {
+  mesh::PdlSpec& p = spec_.model.pdl;
+  if (p.crest_width_mm == width_mm && p.mid_width_mm == width_mm && p.apex_width_mm == width_mm) return;
+  p.crest_width_mm = p.mid_width_mm = p.apex_width_mm = width_mm;
+  geometry_edit();
+}
+
+void CaseSession::set_levels(const ScenarioList& levels) {
+  levels_ = levels;
+  spec_.scenarios = levels_.scenarios();
+  geometry_edit();
+}
+
+bool CaseSession::set_compared(int level, bool on) { return levels_.set_compared(level, on); }
+
+void CaseSession::set_study(std::shared_ptr<const analysis::Study> study) {
+  study_ = std::move(study);
+  stale_ = false;
+  current_ = std::clamp(current_, 0, study_ ? static_cast<int>(study_->solutions().size()) - 1 : 0);
+  evaluate(false);
+  emit current_changed(current_);
+}
+
+void CaseSession::set_current(int index) {
+  if (!study_ || index < 0 || index >= static_cast<int>(results_.size()) || index == current_) return;
+  current_ = index;
+  // The newly shown scenario must reflect the latest load.
+  if (pending_) flush();
+  emit current_changed(current_);
+}
+
+const analysis::ScenarioResult* CaseSession::current_result() const {
+  if (current_ < 0 || current_ >= static_cast<int>(results_.size())) return nullptr;
+  return &results_[static_cast<size_t>(current_)];
+}
+
+const analysis::ScenarioSolution* CaseSession::solution(int index) const {
+  if (!study_ || index < 0 || index >= static_cast<int>(study_->solutions().size())) return nullptr;
+  return study_->solutions()[static_cast<size_t>(index)].get();
+}
+
+const analysis::ScenarioSolution* CaseSession::current_solution() const { return solution(current_); }
+
+void CaseSession::evaluate(bool interactive) {
+  if (!study_) return;
+  const auto& solutions = study_->solutions();
+  const int h = study_->healthy_index();
+  const analysis::ScenarioSolution* healthy = h >= 0 ? solutions[static_cast<size_t>(h)].get() : nullptr;
+  try {
+    if (interactive && results_.size() == solutions.size()) {
+      results_[static_cast<size_t>(current_)] =
+          analysis::evaluate(*solutions[static_cast<size_t>(current_)], spec_.load, spec_.thresholds, healthy);
+      pending_ = solutions.size() > 1;
+      if (pending_) flush_timer_.start();
+    } else {
+      std::vector<analysis::ScenarioResult> all;
+      for (const auto& s : solutions) all.push_back(analysis::evaluate(*s, spec_.load, spec_.thresholds, healthy));
+      results_ = std::move(all);
+      pending_ = false;
+      flush_timer_.stop();
+    }
+    error_.clear();
+  } catch (const Error& e) {
+    // An unusable load (e.g. zero force): keep the last results and say why.
+    error_ = QString::fromStdString(e.what());
+    emit evaluation_failed(error_);
+    return;
+  }
+  emit results_changed(interactive);
+}
+
+void CaseSession::flush() {
+  if (!pending_) return;
+  evaluate(false);
+}
+
+}  // namespace sharpey::app

@@ -1,0 +1,106 @@
+// The open case and its results: what the window shows and edits, without any widget.
+//
+// Holds the CaseSpec, its file state, the force-system panel state, the bone-level list and the
+// solved Study (shared, immutable). Load and threshold edits re-evaluate at once by superposition
+// (no new solve); while a slider is dragged only the scenario on display is evaluated and the
+// others follow shortly after (flush). Geometry edits mark the results stale until the next solve.
+// QtCore only, so it is tested without a display.
+#pragma once
+
+#include <QObject>
+#include <QString>
+#include <QTimer>
+#include <memory>
+#include <vector>
+
+#include "core/document_state.h"
+#include "core/load_controls.h"
+#include "core/scenario_list.h"
+#include "sharpey/analysis/study.h"
+
+namespace sharpey::app {
+
+class CaseSession : public QObject {
+  Q_OBJECT
+
+ public:
+  explicit CaseSession(QObject* parent = nullptr);
+
+  // ---- the case and its file ----
+  const analysis::CaseSpec& spec() const { return spec_; }
+  const DocumentState& document() const { return document_; }
+  // A new invented case: maxillary central incisor, healthy and 3 mm loss, 100 g lingual.
+  void new_case();
+  // Reads a case file (analysis::load_case). Throws InputError with the library's message; the
+  // open case is unchanged then.
+  void open(const QString& path);
+  // Takes a case recovered from an autosave copy: modified, belonging to `original_path`.
+  void recover(const analysis::CaseSpec& spec, const QString& original_path);
+  // Writes the case (analysis::save_case, atomic). Throws Error naming the path.
+  void save(const QString& path);
+  // The case as JSON (analysis::case_to_json), for autosave.
+  QString case_json() const;
+
+  // ---- edits ----
+  const LoadControls& load_controls() const { return load_; }
+  // interactive: a slider is moving; only the scenario on display is evaluated now.
+  void set_load(const LoadControls& controls, bool interactive = false);
+  void set_thresholds(double capillary_kpa, double limit_kpa);
+  void set_label(const QString& label);
+  void set_tooth(mesh::ToothType type);  // handbook dimensions of that tooth
+  void set_mesh_preset(mesh::MeshPreset preset);
+  void set_pdl_width(double width_mm);   // uniform width
+  const ScenarioList& levels() const { return levels_; }
+  // Replaces the bone-level list (names and losses); the comparison choice is kept when possible.
+  void set_levels(const ScenarioList& levels);
+  // Comparison choice only: no geometry change.
+  bool set_compared(int level, bool on);
+  // True when the case geometry differs from the solved study (or nothing is solved yet).
+  bool geometry_stale() const { return stale_; }
+
+  // ---- results ----
+  // Takes a study solved from this case's geometry (from SolveJob) and evaluates it.
+  void set_study(std::shared_ptr<const analysis::Study> study);
+  const analysis::Study* study() const { return study_.get(); }
+  const std::vector<analysis::ScenarioResult>& results() const { return results_; }
+  int current() const { return current_; }
+  void set_current(int index);  // index into results()
+  const analysis::ScenarioResult* current_result() const;
+  const analysis::ScenarioSolution* current_solution() const;
+  const analysis::ScenarioSolution* solution(int index) const;
+  // True while some results still reflect an older load (after interactive edits).
+  bool has_pending() const { return pending_; }
+  // Evaluates the scenarios left behind by interactive edits.
+  void flush();
+  // Last evaluation error (empty when the last evaluation succeeded).
+  const QString& evaluation_error() const { return error_; }
+
+ signals:
+  void case_replaced();    // new, open or recover: everything changed
+  void document_changed(); // title or modified flag
+  void geometry_changed(); // results are stale
+  void results_changed(bool interactive);
+  void current_changed(int index);
+  void evaluation_failed(const QString& message);
+
+ private:
+  void adopt(analysis::CaseSpec spec);
+  void modified();
+  void geometry_edit();
+  void evaluate(bool interactive);
+  analysis::CaseSpec spec_with_load() const;
+
+  analysis::CaseSpec spec_;
+  DocumentState document_;
+  LoadControls load_;
+  ScenarioList levels_;
+  bool stale_ = true;
+  std::shared_ptr<const analysis::Study> study_;
+  std::vector<analysis::ScenarioResult> results_;
+  int current_ = 0;
+  bool pending_ = false;
+  QString error_;
+  QTimer flush_timer_;
+};
+
+}  // namespace sharpey::app
