@@ -73,6 +73,7 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
   const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") +
                 ", " + mesh::to_string(spec.model.sizing.preset) + " mesh");
   const analysis::Study study(
@@ -85,7 +86,6 @@ void run_command(const CommonOptions& options) {
   std::vector<analysis::ScenarioFacts> facts = analysis::scenario_facts(study, true);
   stop_if_interrupted();
 
-  analysis::StagedFolder out(options.out_dir);
   std::vector<std::string> written;
   for (size_t i = 0; i < results.size(); ++i) {
     const std::string stem = analysis::scenario_file_stem(static_cast<int>(i), results[i].name);
@@ -173,6 +173,7 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
     }
   }
 
+  analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   std::vector<std::string> keys;
   for (const auto& v : variations) keys.push_back(v.key);
   analysis::SweepTable table(keys);
@@ -210,7 +211,6 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
   }
   progress.note(plural(combinations.size(), "combination") + ", " +
                 plural(static_cast<size_t>(n_solves), "model") + " solved");
-  analysis::StagedFolder out(options.out_dir);
   analysis::write_file_atomic(out.path("sweep.csv"), table.csv());
   analysis::save_case(base, out.path("sweep_case.json"));
   stop_if_interrupted();

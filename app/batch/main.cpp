@@ -82,6 +82,13 @@ int main(int argc, char** argv) {
   CLI::App* mesh_cmd = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
   add_common(mesh_cmd);
+  // CLI11 says only "A subcommand is required" for a misspelt command: name it.
+  if (argc > 1 && argv[1][0] != '-') {
+    const std::string command = argv[1];
+    if (command != "run" && command != "sweep" && command != "mesh")
+      return fail(kBadInput, "usage", "unknown command \"" + command +
+                                          "\"; use run, sweep or mesh (see sharpey-batch --help)");
+  }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
     app.parse(argc, argv);

@@ -15,6 +15,8 @@
 #include <stdexcept>
 #include <thread>
 
+extern char** environ;  // POSIX: the environment of this process
+
 namespace sharpey::test {
 
 namespace fs = std::filesystem;
@@ -34,7 +36,8 @@ std::string unique_name(const std::string& tag) {
 
 }  // namespace
 
-ChildProcess::ChildProcess(const std::string& program, const std::vector<std::string>& args) {
+ChildProcess::ChildProcess(const std::string& program, const std::vector<std::string>& args,
+                           const std::vector<std::string>& environment) {
   const fs::path base = fs::temp_directory_path() / unique_name("proc");
   out_path_ = base.string() + ".out";
   err_path_ = base.string() + ".err";
@@ -43,6 +46,12 @@ ChildProcess::ChildProcess(const std::string& program, const std::vector<std::st
   std::vector<char*> argv;
   for (std::string& a : argv_storage) argv.push_back(a.data());
   argv.push_back(nullptr);
+  std::vector<std::string> env_storage;
+  for (char** e = environ; *e; ++e) env_storage.emplace_back(*e);
+  env_storage.insert(env_storage.end(), environment.begin(), environment.end());
+  std::vector<char*> envp;
+  for (std::string& e : env_storage) envp.push_back(e.data());
+  envp.push_back(nullptr);
   pid_ = ::fork();
   if (pid_ < 0) throw std::runtime_error("fork failed");
   if (pid_ == 0) {
@@ -53,7 +62,7 @@ ChildProcess::ChildProcess(const std::string& program, const std::vector<std::st
     ::dup2(err, 2);
     ::close(out);
     ::close(err);
-    ::execv(program.c_str(), argv.data());
+    ::execve(program.c_str(), argv.data(), envp.data());
     ::_exit(127);
   }
 }

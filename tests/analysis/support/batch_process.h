@@ -23,7 +23,9 @@ struct ProcessResult {
 // A child process whose stdout and stderr go to files.
 class ChildProcess {
  public:
-  ChildProcess(const std::string& program, const std::vector<std::string>& args);
+  // `environment`: extra "NAME=value" entries added to this process's environment.
+  ChildProcess(const std::string& program, const std::vector<std::string>& args,
+               const std::vector<std::string>& environment = {});
   ~ChildProcess();  // kills (SIGKILL) and reaps the child if still running
   ChildProcess(const ChildProcess&) = delete;
   ChildProcess& operator=(const ChildProcess&) = delete;

@@ -1,0 +1,131 @@
+// sharpey-batch killed or interrupted mid-run: the output folder holds only complete files or
+// nothing, an older folder's files survive intact, SIGINT / SIGTERM end with exit code 6 and clean
+// up, and the staging left by a SIGKILL is removed by the next run for the same folder.
+#include <gtest/gtest.h>
+#include <signal.h>
+
+#include <nlohmann/json.hpp>
+
+#include <chrono>
+#include <string>
+#include <thread>
+
+#include "support/batch_process.h"
+
+namespace sharpey::test {
+namespace {
+
+// Pauses the batch after each report file so a signal can land while it writes
+// (app/batch/batch_commands.cpp, pause_after_write).
+const std::vector<std::string> kSlowWriting = {"SHARPEY_BATCH_WRITE_DELAY_MS=400"};
+
+bool ends_with(const std::string& s, const std::string& tail) {
+  return s.size() >= tail.size() && s.compare(s.size() - tail.size(), tail.size(), tail) == 0;
+}
+
+// Every file in `folder` is complete: JSON parses, CSV and text end with a line break, .vtu
+// files are closed. No hidden or temporary file.
+void expect_only_complete_files(const std::string& folder) {
+  for (const std::string& name : list_folder(folder)) {
+    SCOPED_TRACE(name);
+    EXPECT_NE(name[0], '.') << "hidden (temporary) file in the output folder";
+    EXPECT_EQ(name.find("tmp"), std::string::npos);
+    const std::string text = read_file(folder + "/" + name);
+    if (ends_with(name, ".json")) {
+      EXPECT_FALSE(nlohmann::json::parse(text, nullptr, false).is_discarded()) << "incomplete JSON";
+    } else if (ends_with(name, ".vtu")) {
+      EXPECT_NE(text.rfind("</VTKFile>"), std::string::npos) << "incomplete .vtu";
+    } else {
+      EXPECT_TRUE(ends_with(text, "\n")) << "incomplete text file";
+    }
+  }
+}
+
+// Entries of `parent` that are staging folders of `name`.
+std::vector<std::string> staging_folders(const std::string& parent, const std::string& name) {
+  std::vector<std::string> found;
+  for (const std::string& entry : list_folder(parent))
+    if (entry.rfind("." + name + ".partial-", 0) == 0) found.push_back(entry);
+  return found;
+}
+
+class KillAfter : public ::testing::TestWithParam<double> {};
+
+TEST_P(KillAfter, OutputFolderHoldsOnlyCompleteFilesOrNothing) {
+  const double seconds = GetParam();
+  TempFolder folder("batch-kill-time");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(2));
+  const std::string out = folder / "out";
+  ChildProcess child(batch_binary(), {"run", case_path, "--out", out});
+  std::this_thread::sleep_for(std::chrono::duration<double>(seconds));
+  child.send(SIGKILL);
+  const ProcessResult r = child.wait();
+  SCOPED_TRACE("stderr at the kill:\n" + r.err);
+  if (r.signal == SIGKILL) {
+    EXPECT_FALSE(exists(out)) << "a killed run must not leave its output folder";
+  } else {
+    EXPECT_EQ(r.exit_code, 0);  // it finished before the kill: the folder is complete
+    expect_only_complete_files(out);
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Batch, KillAfter, ::testing::Values(0.05, 0.5, 2.0, 6.0),
+                         [](const ::testing::TestParamInfo<double>& p) {
+                           return "after_" + std::to_string(static_cast<int>(p.param * 1000)) + "_ms";
+                         });
+
+TEST(BatchKill, KillWhileWritingKeepsTheOlderFolderIntact) {
+  TempFolder folder("batch-kill-writing");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string out = folder / "out";
+  std::filesystem::create_directories(out);
+  write_file(out + "/results.json", "{\"older\": true}\n");
+  ChildProcess child(batch_binary(), {"run", case_path, "--out", out}, kSlowWriting);
+  ASSERT_TRUE(child.wait_for_stderr("writing s1_healthy files", 600)) << child.stderr_so_far();
+  std::this_thread::sleep_for(std::chrono::milliseconds(500));  // one file written, more to come
+  child.send(SIGKILL);
+  const ProcessResult r = child.wait();
+  ASSERT_EQ(r.signal, SIGKILL) << "the run ended before the kill:\n" << r.err;
+  EXPECT_EQ(list_folder(out), std::vector<std::string>{"results.json"});
+  EXPECT_EQ(read_file(out + "/results.json"), "{\"older\": true}\n");
+  // The half-filled staging folder sits beside the output, hidden, and the next run for the same
+  // folder removes it (the mesh command is the quickest such run).
+  ASSERT_EQ(staging_folders(folder.path(), "out").size(), 1u);
+  const ProcessResult next = run_batch({"mesh", case_path, "--out", out, "--quiet"});
+  ASSERT_EQ(next.exit_code, 0) << next.err;
+  EXPECT_TRUE(staging_folders(folder.path(), "out").empty());
+  EXPECT_EQ(read_file(out + "/results.json"), "{\"older\": true}\n");  // not the mesh's business
+  expect_only_complete_files(out);
+}
+
+TEST(BatchKill, InterruptWhileWritingExitsSixAndLeavesNothing) {
+  TempFolder folder("batch-int-writing");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string out = folder / "out";
+  ChildProcess child(batch_binary(), {"run", case_path, "--out", out}, kSlowWriting);
+  ASSERT_TRUE(child.wait_for_stderr("writing s1_healthy files", 600)) << child.stderr_so_far();
+  child.send(SIGINT);
+  const ProcessResult r = child.wait(120);
+  EXPECT_EQ(r.exit_code, 6) << r.err;
+  EXPECT_NE(r.err.find("interrupted"), std::string::npos) << r.err;
+  EXPECT_EQ(list_folder(folder.path()), std::vector<std::string>{"case.json"});
+}
+
+TEST(BatchKill, TerminateDuringTheSolveExitsSixAndLeavesNothing) {
+  TempFolder folder("batch-term-solve");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(2));
+  const std::string out = folder / "out";
+  ChildProcess child(batch_binary(), {"run", case_path, "--out", out});
+  ASSERT_TRUE(child.wait_for_stderr("scenario 1/2", 600)) << child.stderr_so_far();
+  child.send(SIGTERM);
+  const ProcessResult r = child.wait(300);
+  EXPECT_EQ(r.exit_code, 6) << r.err;
+  EXPECT_EQ(list_folder(folder.path()), std::vector<std::string>{"case.json"});
+}
+
+}  // namespace
+}  // namespace sharpey::test
