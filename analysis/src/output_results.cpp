@@ -169,7 +169,7 @@ std::vector<ScenarioFacts> scenario_facts(const Study& study, bool measure_mesh)
     ScenarioFacts f;
     f.geometry = solution->model().geometry;
     if (measure_mesh) f.mesh = mesh::measure(solution->model().mesh);
-    f.solver = solution->solver().statistics();
+    f.solver = solution->solver_statistics();
     facts.push_back(std::move(f));
   }
   return facts;

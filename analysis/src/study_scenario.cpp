@@ -41,25 +41,25 @@ void report(const ProgressCallback& progress, const char* stage, double fraction
 
 ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
                                    const ProgressCallback& progress,
-                                   const std::atomic<bool>* cancel, RootMapGrid grid)
+                                   const std::atomic<bool>* cancel, ScenarioOptions options)
     : scenario_(checked_scenario(spec, scenario_index)) {
   check_cancel(cancel);
   report(progress, "mesh", 0.0);
   model_ = mesh::build_tooth_model(model_of(spec, scenario_index));
-  solve(spec, progress, cancel, grid);
+  solve(spec, progress, cancel, options);
 }
 
 ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
                                    mesh::ToothModel model, const ProgressCallback& progress,
-                                   const std::atomic<bool>* cancel, RootMapGrid grid)
+                                   const std::atomic<bool>* cancel, ScenarioOptions options)
     : scenario_(checked_scenario(spec, scenario_index)), model_(std::move(model)) {
-  solve(spec, progress, cancel, grid);
+  solve(spec, progress, cancel, options);
 }
 
 ScenarioSolution::~ScenarioSolution() = default;
 
 void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progress,
-                             const std::atomic<bool>* cancel, RootMapGrid grid) {
+                             const std::atomic<bool>* cancel, const ScenarioOptions& options) {
   const mesh::VolumeMesh& m = model_.mesh;
   const mesh::ModelGeometry& g = model_.geometry;
   check_cancel(cancel);
@@ -71,6 +71,8 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   report(progress, "unit loads", 0.75);
   basis_ = std::make_unique<fem::UnitLoadBasis>(m, materials_, *solver_, mesh::kBracketPad,
                                                 g.bracket_center, mesh::kPdl);
+  solver_statistics_ = solver_->statistics();
+  if (!options.keep_solver) solver_.reset();  // the factor is no longer needed
   check_cancel(cancel);
   report(progress, "post-processing", 0.9);
 
@@ -96,8 +98,18 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   root_surface_ = std::make_unique<detail::RootSurfaceSampler>(m, mesh::kRootSurface, pdl_nodes());
   // Depth below the CEJ (z = 0) from the CEJ to the apex, the same range for every scenario.
   root_map_ = std::make_unique<detail::RootMapSampler>(m, mesh::kRootSurface, pdl_nodes(),
-                                                       grid.n_angle, grid.n_depth, 0.0, -g.apex_z_mm);
+                                                       options.root_map.n_angle, options.root_map.n_depth,
+                                                       0.0, -g.apex_z_mm);
   report(progress, "done", 1.0);
+}
+
+const fem::LinearElasticSolver& ScenarioSolution::solver() const {
+  if (!solver_) {
+    throw Error("the factorisation of scenario '" + scenario_.name +
+                "' was released once its unit load cases were solved; construct the "
+                "ScenarioSolution with ScenarioOptions::keep_solver to keep it");
+  }
+  return *solver_;
 }
 
 const std::vector<int>& ScenarioSolution::pdl_nodes() const {

@@ -125,7 +125,7 @@ INSTANTIATE_TEST_SUITE_P(
     ::testing::Values(IdealCase{mesh::IdealRoot::kCylinder, "cylinder", 1.0 / 2.0},
                       IdealCase{mesh::IdealRoot::kCone, "cone", 1.0 / 3.0},
                       IdealCase{mesh::IdealRoot::kParaboloid, "paraboloid", 2.0 / 5.0}),
-    [](const ::testing::TestParamInfo<IdealCase>& info) { return std::string(info.param.name); });
+    [](const ::testing::TestParamInfo<IdealCase>& p) { return std::string(p.param.name); });
 
 }  // namespace
 }  // namespace sharpey::analysis

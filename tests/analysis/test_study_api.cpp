@@ -83,7 +83,12 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
   const mesh::VolumeMesh& m = s.model().mesh;
   const Eigen::VectorXd f = fem::patch_load(m, mesh::kBracketPad, r.load.force_n, r.load.moment_nmm,
                                             s.model().geometry.bracket_center);
-  const Eigen::VectorXd u = s.solver().solve(f);
+  // The Study released its factor; a fresh solver is the independent computation.
+  EXPECT_FALSE(s.has_solver());
+  EXPECT_THROW(s.solver(), Error);
+  EXPECT_GT(s.solver_statistics().n_dofs, 0);
+  const fem::LinearElasticSolver solver(m, s.materials(), fem::fix_faces(m, mesh::kFixedBone));
+  const Eigen::VectorXd u = solver.solve(f);
   const fem::RegionField field = fem::recover_region(m, s.materials(), u, mesh::kPdl);
   ASSERT_EQ(field.nodes, s.pdl_nodes());
   ASSERT_EQ(r.pressure_kpa.size(), s.pdl_nodes().size());

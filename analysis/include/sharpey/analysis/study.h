@@ -45,18 +45,27 @@ struct RootMapGrid {
   int n_depth = 60;  // rows from the CEJ to the apex
 };
 
+struct ScenarioOptions {
+  RootMapGrid root_map;
+  // The Cholesky factor is only needed to solve the six unit cases; it is the largest object of a
+  // scenario (about 1 GB for the standard incisor mesh), so by default it is released once they
+  // are solved and solver() is no longer available (solver_statistics() stays).
+  bool keep_solver = false;
+};
+
 // Everything that depends on one scenario's geometry but not on the load.
 class ScenarioSolution {
  public:
   // Meshes the scenario's model (spec.model with the scenario's bone loss) and solves it.
-  // Stages reported: "mesh", "factorise", "unit loads", "post-processing". Throws InputError,
-  // MeshError, SolverError, or Cancelled when *cancel becomes true (checked between stages).
+  // Stages reported: "mesh", "factorise", "unit loads", "post-processing", "done". Throws
+  // InputError, MeshError, SolverError, or Cancelled when *cancel becomes true (checked between
+  // stages).
   ScenarioSolution(const CaseSpec& spec, int scenario_index, const ProgressCallback& progress,
-                   const std::atomic<bool>* cancel, RootMapGrid grid = {});
-  // Same with the model already built (Study meshes in parallel, then solves one at a time).
+                   const std::atomic<bool>* cancel, ScenarioOptions options = {});
+  // Same with the model already built (Study meshes the next scenario while this one is solved).
   ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
                    const ProgressCallback& progress, const std::atomic<bool>* cancel,
-                   RootMapGrid grid = {});
+                   ScenarioOptions options = {});
   ~ScenarioSolution();
   ScenarioSolution(const ScenarioSolution&) = delete;
   ScenarioSolution& operator=(const ScenarioSolution&) = delete;
@@ -64,7 +73,11 @@ class ScenarioSolution {
   const Scenario& scenario() const { return scenario_; }
   const mesh::ToothModel& model() const { return model_; }
   const fem::MaterialTable& materials() const { return materials_; }
-  const fem::LinearElasticSolver& solver() const { return *solver_; }
+  // Assembly, ordering and factorisation figures; always available.
+  const fem::SolverStatistics& solver_statistics() const { return solver_statistics_; }
+  // The factorised solver; only with ScenarioOptions::keep_solver (throws Error otherwise).
+  bool has_solver() const { return solver_ != nullptr; }
+  const fem::LinearElasticSolver& solver() const;
   const fem::UnitLoadBasis& basis() const { return *basis_; }
   const CentreOfResistance& cres_labiolingual() const { return cres_x_; }
   const CentreOfResistance& cres_mesiodistal() const { return cres_y_; }
@@ -81,12 +94,13 @@ class ScenarioSolution {
 
  private:
   void solve(const CaseSpec& spec, const ProgressCallback& progress,
-             const std::atomic<bool>* cancel, RootMapGrid grid);
+             const std::atomic<bool>* cancel, const ScenarioOptions& options);
 
   Scenario scenario_;
   mesh::ToothModel model_;
   fem::MaterialTable materials_;
   std::unique_ptr<fem::LinearElasticSolver> solver_;
+  fem::SolverStatistics solver_statistics_;
   std::unique_ptr<fem::UnitLoadBasis> basis_;
   CentreOfResistance cres_x_, cres_y_;
   std::vector<int> tooth_nodes_;
