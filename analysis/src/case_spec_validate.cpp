@@ -59,7 +59,8 @@ void check_load(const CaseSpec& spec) {
   if (!(std::isfinite(load.magnitude) && load.magnitude > 0 && force_n <= kMaxForceN + 1e-12))
     out_of_range("load.magnitude", num(load.magnitude) + " " + to_string(load.unit),
                  "allowed above 0 and up to " + num(from_newton(kMaxForceN, load.unit)) + " " +
-                     to_string(load.unit) + " (2000 g)",
+                     to_string(load.unit) +
+                     (load.unit == ForceUnit::kGram ? std::string() : std::string(" (2000 g)")),
                  "check the magnitude and load.unit (\"g\", \"cN\" or \"N\"); orthodontic forces "
                  "are usually 10 to 150 g");
   const double norm = load.direction.norm();
