@@ -29,18 +29,31 @@ double ellipse_perimeter(double a, double b) {
   return kPi * (a + b) * (1 + 3 * h / (10 + std::sqrt(4 - 3 * h)));
 }
 
-// Positions 0 < p_1 < ... < p_n = length of rings away from a pole: steps start at h_start and
-// grow by 25 % per ring up to h_max, then all steps are scaled to end exactly at `length`.
-std::vector<double> graded_positions(double length, double h_start, double h_max) {
-  std::vector<double> p;
-  double sum = 0, h = h_start;
-  while (sum + 0.5 * h < length || p.empty()) {
-    sum += h;
-    p.push_back(sum);
-    h = std::min(h_max, 1.25 * h);
+// Arc positions of rings strictly after arc0 up to arc1 (included), spaced at most h_max apart
+// and close enough where the meridian bends that the sagitta of a ring interval stays below a
+// quarter of `thickness` (the layer the surface bounds): density max(1/h_max, sqrt(k/(2 t))).
+std::vector<double> ring_arcs(const ToothShape& shape, double arc0, double arc1, double h_max,
+                              double thickness) {
+  const int n_samples = 400;
+  std::vector<double> cumulative(n_samples + 1, 0.0);
+  auto density = [&](double arc) {
+    const double k = shape.meridian_curvature(shape.s_of_arc(arc));
+    return std::max(1.0 / h_max, std::sqrt(k / (2 * thickness)));
+  };
+  const double step = (arc1 - arc0) / n_samples;
+  for (int j = 0; j < n_samples; ++j)
+    cumulative[j + 1] = cumulative[j] + std::abs(step) * density(arc0 + (j + 0.5) * step);
+  const int n = std::max(1, static_cast<int>(std::ceil(cumulative.back() - 1e-9)));
+  std::vector<double> arcs;
+  for (int k = 1; k < n; ++k) {
+    const double target = cumulative.back() * k / n;
+    const int j = static_cast<int>(std::upper_bound(cumulative.begin(), cumulative.end(), target) -
+                                   cumulative.begin()) - 1;
+    const double f = (target - cumulative[j]) / (cumulative[j + 1] - cumulative[j]);
+    arcs.push_back(arc0 + (j + f) * step);
   }
-  for (double& x : p) x *= length / sum;
-  return p;
+  arcs.push_back(arc1);
+  return arcs;
 }
 
 struct RingSpec {
@@ -96,7 +109,7 @@ void ModelMesher::build_tooth_surface() {
   const ToothShape& shape = frame_.shape();
   const MeshSizes& sizes = frame_.sizes();
   const double h = sizes.pdl_edge_mm;
-  const double h_crown = std::min(1.5 * h, sizes.tooth_edge_mm);
+  const double h_crown = std::min(2.0 * h, sizes.tooth_edge_mm);
 
   const Section<double> cervix = shape.section(-1e-9);
   const double perimeter = ellipse_perimeter(cervix.a, cervix.b);
@@ -129,18 +142,16 @@ void ModelMesher::build_tooth_surface() {
   const double arc_hi = shape.arc(s_pad_hi), arc_lo = shape.arc(s_pad_lo), arc_cej = shape.arc(0);
   specs.push_back(common(1.0, false));  // the tip pole
   {
-    const std::vector<double> p = graded_positions(arc_tip - arc_hi, 0.4 * h_crown, h_crown);
-    for (size_t k = 0; k + 1 < p.size(); ++k)
-      specs.push_back(common(shape.s_of_arc(arc_tip - p[k]), false));
+    const double t_crown = 0.5 * h_crown;
+    const std::vector<double> a1 = ring_arcs(shape, arc_tip, arc_hi, h_crown, t_crown);
+    for (size_t k = 0; k + 1 < a1.size(); ++k) specs.push_back(common(shape.s_of_arc(a1[k]), false));
     specs.push_back(common(s_pad_hi, true));
-    const int n2 = std::max(1, static_cast<int>(std::ceil((arc_hi - arc_lo) / h_crown)));
-    for (int k = 1; k < n2; ++k)
-      specs.push_back(common(shape.s_of_arc(arc_hi - (arc_hi - arc_lo) * k / n2), true));
+    const std::vector<double> a2 = ring_arcs(shape, arc_hi, arc_lo, h_crown, t_crown);
+    for (size_t k = 0; k + 1 < a2.size(); ++k) specs.push_back(common(shape.s_of_arc(a2[k]), true));
     specs.push_back(common(s_pad_lo, true));
-    const int n3 = std::max(1, static_cast<int>(std::ceil((arc_lo - arc_cej) / h_crown)));
-    for (int k = 1; k < n3; ++k)
-      specs.push_back(common(shape.s_of_arc(arc_lo - (arc_lo - arc_cej) * k / n3), true));
-    specs.push_back(common(0.0, true));
+    const std::vector<double> a3 = ring_arcs(shape, arc_lo, arc_cej, h_crown, t_crown);
+    for (size_t k = 0; k + 1 < a3.size(); ++k) specs.push_back(common(shape.s_of_arc(a3[k]), true));
+  specs.push_back(common(0.0, true));
   }
   const int pad_hi_ring = [&] {
     for (size_t r = 0; r < specs.size(); ++r)
@@ -195,10 +206,12 @@ void ModelMesher::build_tooth_surface() {
     }
   }
   {
-    // Finer rings toward the apex, where the root bends most.
-    const std::vector<double> p = graded_positions(arc_u, 0.4 * h, h);
-    for (int k = static_cast<int>(p.size()) - 2; k >= 0; --k)
-      specs.push_back(common(shape.s_of_arc(p[k]), false));
+    // Finer rings where the root bends (the apex): the PDL sub-layer is the thickness to respect.
+    const PdlSpec& pdl = frame_.spec().pdl;
+    const double t = std::min({pdl.crest_width_mm, pdl.mid_width_mm, pdl.apex_width_mm}) /
+                     frame_.sizes().pdl_layers;
+    const std::vector<double> a = ring_arcs(shape, arc_u, 0.0, h, t);
+    for (size_t k = 0; k + 1 < a.size(); ++k) specs.push_back(common(shape.s_of_arc(a[k]), false));
   }
   specs.push_back(common(-1.0, false));  // the apex pole
 

@@ -248,6 +248,19 @@ double ToothShape::s_of_arc(double arc_mm) const {
   return -1.0 + 2.0 * (j + f) / kArcIntervals;
 }
 
+double ToothShape::meridian_curvature(double s) const {
+  const double ds = 1e-4;
+  s = std::clamp(s, -1.0 + 2 * ds, 1.0 - 2 * ds);
+  auto m = [this](double t) {
+    const Section<double> q = section(t);
+    return Eigen::Vector2d(0.5 * (q.a + q.b), q.z);
+  };
+  const Eigen::Vector2d d1 = (m(s + ds) - m(s - ds)) / (2 * ds);
+  const Eigen::Vector2d d2 = (m(s + ds) - 2 * m(s) + m(s - ds)) / (ds * ds);
+  const double speed = d1.norm();
+  return std::abs(d1.x() * d2.y() - d1.y() * d2.x()) / (speed * speed * speed);
+}
+
 double ToothShape::root_polar_angle(double theta) const {
   const Section<double> q = section(-0.5);
   return std::atan2(q.b * std::sin(theta), q.cx + q.a * std::cos(theta));

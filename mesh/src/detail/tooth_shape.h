@@ -61,6 +61,8 @@ class ToothShape {
   double arc(double s) const;
   double s_of_arc(double arc_mm) const;
   double total_arc() const { return arc_.back(); }
+  // Curvature (1/mm) of the mean meridian at s, by central differences.
+  double meridian_curvature(double s) const;
 
   double root_length() const { return root_length_; }
   double crown_length() const { return crown_length_; }
