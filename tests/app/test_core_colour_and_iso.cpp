@@ -131,3 +131,30 @@ TEST(IsoLines, SaddleIsSplitByTheCentreValue) {
 
 }  // namespace
 }  // namespace sharpey::app
+
+#include "core/axis_ticks.h"
+
+namespace sharpey::app {
+namespace {
+
+TEST(AxisTicks, RoundStepsInsideTheRange) {
+  const auto t = nice_ticks(-3.2, 51.5, 6);
+  ASSERT_FALSE(t.empty());
+  const double step = nice_step(-3.2, 51.5, 6);
+  EXPECT_DOUBLE_EQ(step, 10.0);
+  EXPECT_DOUBLE_EQ(t.front(), 0.0);
+  EXPECT_DOUBLE_EQ(t.back(), 50.0);
+  for (double v : t) {
+    EXPECT_GE(v, -3.2);
+    EXPECT_LE(v, 51.5);
+    EXPECT_NEAR(std::remainder(v, step), 0.0, 1e-12);
+  }
+  EXPECT_DOUBLE_EQ(nice_step(0, 0.37, 5), 0.1);
+  EXPECT_EQ(tick_label(0.30000000000000004, 0.1), "0.3");
+  EXPECT_EQ(tick_label(20, 5), "20");
+  EXPECT_TRUE(nice_ticks(1, 1).empty());
+  EXPECT_TRUE(nice_ticks(0, NAN).empty());
+}
+
+}  // namespace
+}  // namespace sharpey::app

@@ -1,0 +1,50 @@
+// Vertical colour bar beside a 3D view: the colours of the current scale over the range that
+// occurs, round-number ticks, the quantity and its unit, and the thresholds marked with the same
+// line styles as their iso-lines. Drawn with QPainter.
+#pragma once
+
+#include <QColor>
+#include <QString>
+#include <QWidget>
+#include <vector>
+
+#include "core/colour_map.h"
+
+namespace sharpey::app {
+
+struct BarMark {
+  double value = 0;
+  QString text;        // e.g. "capillary 4.7"
+  QColor colour;
+  Qt::PenStyle style = Qt::SolidLine;
+  double width = 2;
+};
+
+class ColourBar : public QWidget {
+  Q_OBJECT
+
+ public:
+  explicit ColourBar(QWidget* parent = nullptr);
+  void set_scale(const ColourScale& scale, const QString& title, const QString& unit);
+  void set_marks(const std::vector<BarMark>& marks);
+  // The range shown (the scale's data range).
+  const ValueRange& range() const { return scale_.range(); }
+  const QString& unit() const { return unit_; }
+  QSize sizeHint() const override { return {118, 300}; }
+
+  // Paints the bar into `rect` of any painter (also used by the PDF report).
+  void paint_into(QPainter& painter, const QRect& rect) const;
+
+ protected:
+  void paintEvent(QPaintEvent* event) override;
+
+ private:
+  ColourScale scale_;
+  QString title_, unit_;
+  std::vector<BarMark> marks_;
+  bool has_scale_ = false;
+};
+
+QColor to_qcolor(const Rgb& rgb);
+
+}  // namespace sharpey::app

@@ -1,0 +1,69 @@
+// The 3D scene of one bone-level scenario: tooth, PDL and bone surfaces, the PDL coloured by a
+// quantity, threshold iso-lines, an optional section along the long axis, and the force system
+// (force arrow at the bracket, couple, centre of resistance, centre of rotation).
+//
+// Geometry is built once per scenario (set_model); a load change only rewrites the scalar
+// arrays, the lookup table, the iso-lines and the glyphs (set_field, set_load_glyphs), so it
+// costs milliseconds. All display geometry comes from core/display_mesh.h.
+#pragma once
+
+#include <Eigen/Core>
+#include <QString>
+#include <memory>
+#include <vector>
+
+#include "core/colour_map.h"
+#include "sharpey/analysis/study.h"
+#include "sharpey/mesh/tooth_model.h"
+
+class vtkRenderer;
+
+namespace sharpey::app {
+
+enum class BoneStyle { kTranslucent, kOpaque, kHidden };
+enum class SectionPlane {
+  kNone,
+  kLabiolingual,  // the x-z plane through the long axis; the mesial half is cut away
+  kMesiodistal,   // the y-z plane through the long axis; the labial half is cut away
+};
+QString label(BoneStyle style);
+QString label(SectionPlane plane);
+
+class ModelScene {
+ public:
+  // `scene` shows the model; `overlay` (drawn on top, same camera) shows the markers.
+  ModelScene(vtkRenderer* scene, vtkRenderer* overlay);
+  ~ModelScene();
+  ModelScene(const ModelScene&) = delete;
+  ModelScene& operator=(const ModelScene&) = delete;
+
+  // Builds the surfaces of a solved scenario. `pdl_nodes`: the PDL's global node ids, the order
+  // of every per-node field.
+  void set_model(const mesh::VolumeMesh& mesh, const std::vector<int>& pdl_nodes,
+                 const mesh::ModelGeometry& geometry);
+  void clear();
+  bool has_model() const;
+
+  // Colours the PDL: one value per PDL node (pdl_nodes order) in the scale's unit.
+  void set_field(const std::vector<double>& pdl_values, const ColourScale& scale);
+  // Iso-lines at the two thresholds (values in the field's unit); hidden when !visible.
+  void set_iso_levels(double capillary, double limit, bool visible);
+  // Force arrow, couple, CRes and CRot of a result; `force_text` labels the arrow.
+  void set_load_glyphs(const analysis::ScenarioResult& result, const QString& force_text);
+  void set_glyphs_visible(bool visible);
+  void set_bone_style(BoneStyle style);
+  void set_section(SectionPlane plane);
+  SectionPlane section() const;
+  // Frames the model, looking from labial and a little mesial and occlusal (or at the cut face).
+  void reset_camera();
+
+  // For tests and benchmarks.
+  int n_coloured_points() const;
+  int n_iso_segments() const;
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace sharpey::app

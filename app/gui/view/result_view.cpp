@@ -1,0 +1,164 @@
+#include "view/result_view.h"
+
+#include <QCheckBox>
+#include <QComboBox>
+#include <QHBoxLayout>
+#include <QLabel>
+#include <QPainter>
+#include <QToolButton>
+#include <QVBoxLayout>
+
+#include "view/colour_bar.h"
+#include "view/vtk_view.h"
+
+namespace sharpey::app {
+
+bool has_threshold_lines(Quantity q) { return q == Quantity::kPressure; }
+
+ResultView::ResultView(QWidget* parent) : QWidget(parent) {
+  auto* outer = new QVBoxLayout(this);
+  outer->setContentsMargins(0, 0, 0, 0);
+  outer->setSpacing(2);
+
+  options_ = new QWidget;
+  auto* opt = new QHBoxLayout(options_);
+  opt->setContentsMargins(4, 2, 4, 2);
+  quantity_box_ = new QComboBox;
+  for (Quantity q : all_quantities()) quantity_box_->addItem(short_label(q), static_cast<int>(q));
+  quantity_box_->setToolTip(QStringLiteral("Quantity the ligament is coloured by"));
+  bone_box_ = new QComboBox;
+  for (BoneStyle s : {BoneStyle::kTranslucent, BoneStyle::kOpaque, BoneStyle::kHidden})
+    bone_box_->addItem(label(s), static_cast<int>(s));
+  section_box_ = new QComboBox;
+  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
+    section_box_->addItem(label(s), static_cast<int>(s));
+  section_box_->setToolTip(QStringLiteral("Cut the model along the long axis of the tooth"));
+  glyphs_box_ = new QCheckBox(QStringLiteral("force system"));
+  glyphs_box_->setChecked(true);
+  glyphs_box_->setToolTip(QStringLiteral("Force arrow, couple, centre of resistance (CRes) and "
+                                         "centre of rotation (CRot)"));
+  auto* reset = new QToolButton;
+  reset->setText(QStringLiteral("Reset view"));
+  opt->addWidget(new QLabel(QStringLiteral("Colour by")));
+  opt->addWidget(quantity_box_);
+  opt->addSpacing(8);
+  opt->addWidget(bone_box_);
+  opt->addWidget(section_box_);
+  opt->addWidget(glyphs_box_);
+  opt->addStretch(1);
+  opt->addWidget(reset);
+  outer->addWidget(options_);
+
+  auto* row = new QHBoxLayout;
+  row->setSpacing(0);
+  view_ = new VtkView;
+  bar_ = new ColourBar;
+  row->addWidget(view_, 1);
+  row->addWidget(bar_);
+  outer->addLayout(row, 1);
+
+  scene_ = std::make_unique<ModelScene>(view_->renderer(), view_->overlay());
+
+  connect(quantity_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    set_quantity(static_cast<Quantity>(quantity_box_->currentData().toInt()));
+  });
+  connect(bone_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    scene_->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
+    view_->update();
+  });
+  connect(section_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    scene_->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
+    scene_->reset_camera();
+    view_->update();
+  });
+  connect(glyphs_box_, &QCheckBox::toggled, this, [this](bool on) {
+    scene_->set_glyphs_visible(on);
+    view_->update();
+  });
+  connect(reset, &QToolButton::clicked, this, &ResultView::reset_camera);
+}
+
+ResultView::~ResultView() = default;
+
+void ResultView::set_options_visible(bool visible) { options_->setVisible(visible); }
+
+void ResultView::set_quantity(Quantity q) {
+  if (q == quantity_) return;
+  quantity_ = q;
+  const int index = quantity_box_->findData(static_cast<int>(q));
+  if (quantity_box_->currentIndex() != index) quantity_box_->setCurrentIndex(index);
+  refresh();
+  emit quantity_changed(q);
+}
+
+void ResultView::set_bone_style(BoneStyle style) {
+  bone_box_->setCurrentIndex(bone_box_->findData(static_cast<int>(style)));
+}
+
+void ResultView::set_section(SectionPlane plane) {
+  section_box_->setCurrentIndex(section_box_->findData(static_cast<int>(plane)));
+}
+
+void ResultView::reset_camera() {
+  scene_->reset_camera();
+  view_->update();
+}
+
+void ResultView::clear() {
+  solution_ = nullptr;
+  scene_->clear();
+  view_->update();
+}
+
+void ResultView::show_result(const analysis::ScenarioSolution& solution,
+                             const analysis::ScenarioResult& result,
+                             const analysis::Thresholds& thresholds, const QString& force_text,
+                             const std::optional<ValueRange>& fixed_range) {
+  if (&solution != solution_) {
+    solution_ = &solution;
+    scene_->set_model(solution.model().mesh, solution.pdl_nodes(), solution.model().geometry);
+    if (!camera_set_) {
+      scene_->reset_camera();
+      camera_set_ = true;
+    }
+  }
+  result_ = result;
+  thresholds_ = thresholds;
+  force_text_ = force_text;
+  fixed_range_ = fixed_range;
+  refresh();
+}
+
+void ResultView::refresh() {
+  if (!solution_) return;
+  const std::vector<double> values = quantity_values(result_, quantity_, solution_->pdl_nodes());
+  range_ = finite_range(values);
+  const ColourScale scale(quantity_, fixed_range_ ? *fixed_range_ : range_);
+  scene_->set_field(values, scale);
+  const bool lines = has_threshold_lines(quantity_);
+  scene_->set_iso_levels(thresholds_.capillary.value_kpa, thresholds_.limit.value_kpa, lines);
+  scene_->set_load_glyphs(result_, force_text_);
+  bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
+  std::vector<BarMark> marks;
+  if (lines) {
+    marks.push_back({thresholds_.capillary.value_kpa, QStringLiteral("capillary"),
+                     to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0});
+    marks.push_back({thresholds_.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()),
+                     Qt::SolidLine, 3.0});
+  }
+  bar_->set_marks(marks);
+  view_->update();
+}
+
+QImage ResultView::grab_image() {
+  const QImage scene = view_->grabFramebuffer();
+  QImage out(scene.width() + bar_->width(), std::max(scene.height(), bar_->height()), QImage::Format_RGB32);
+  out.fill(palette().window().color());
+  QPainter p(&out);
+  p.drawImage(0, 0, scene);
+  p.translate(scene.width(), 0);
+  bar_->render(&p);
+  return out;
+}
+
+}  // namespace sharpey::app

@@ -1,0 +1,80 @@
+// The 3D result view of one scenario: a VTK view of the model with the PDL coloured by the
+// chosen quantity, a colour bar with units and threshold marks, and the view options (quantity,
+// bone style, section, force-system glyphs, reset camera).
+#pragma once
+
+#include <QImage>
+#include <QWidget>
+#include <memory>
+#include <optional>
+
+#include "core/quantity.h"
+#include "sharpey/analysis/study.h"
+#include "view/model_scene.h"
+
+class QCheckBox;
+class QComboBox;
+
+namespace sharpey::app {
+
+class ColourBar;
+class VtkView;
+
+// Threshold iso-line levels in a quantity's unit: only pressure has them.
+bool has_threshold_lines(Quantity q);
+
+class ResultView : public QWidget {
+  Q_OBJECT
+
+ public:
+  explicit ResultView(QWidget* parent = nullptr);
+  ~ResultView() override;
+
+  // Shows a scenario (rebuilds the geometry when `solution` differs from the last one) with
+  // `result`; `fixed_range`, when given, replaces the data range (shared comparison scale).
+  void show_result(const analysis::ScenarioSolution& solution, const analysis::ScenarioResult& result,
+                   const analysis::Thresholds& thresholds, const QString& force_text,
+                   const std::optional<ValueRange>& fixed_range = std::nullopt);
+  void clear();
+
+  Quantity quantity() const { return quantity_; }
+  void set_quantity(Quantity q);
+  void set_bone_style(BoneStyle style);
+  void set_section(SectionPlane plane);
+  void reset_camera();
+  // Hides the option strip (used by the comparison grid, which has shared options).
+  void set_options_visible(bool visible);
+
+  VtkView* vtk_view() const { return view_; }
+  ColourBar* colour_bar() const { return bar_; }
+  ModelScene* scene() const { return scene_.get(); }
+  // The view with its colour bar, as shown.
+  QImage grab_image();
+  // The range of the last shown field (data range), in the quantity's unit.
+  const ValueRange& shown_range() const { return range_; }
+
+ signals:
+  void quantity_changed(Quantity q);
+
+ private:
+  void refresh();
+
+  VtkView* view_ = nullptr;
+  ColourBar* bar_ = nullptr;
+  QWidget* options_ = nullptr;
+  QComboBox* quantity_box_ = nullptr;
+  QComboBox* bone_box_ = nullptr;
+  QComboBox* section_box_ = nullptr;
+  QCheckBox* glyphs_box_ = nullptr;
+  std::unique_ptr<ModelScene> scene_;
+  Quantity quantity_ = Quantity::kPressure;
+  const analysis::ScenarioSolution* solution_ = nullptr;
+  analysis::ScenarioResult result_;
+  analysis::Thresholds thresholds_;
+  QString force_text_;
+  std::optional<ValueRange> fixed_range_;
+  ValueRange range_;
+  bool camera_set_ = false;
+};
+
+}  // namespace sharpey::app
