@@ -28,18 +28,20 @@ struct PressureMeasures {
   double peak_kpa = 0, p95_kpa = 0;
 };
 
-PressureMeasures pressure_measures(const ScenarioSolution& solution, const Eigen::VectorXd& p) {
+// p: nodal pressure of the PDL; sampled: the same on the root-surface sub-triangles.
+PressureMeasures pressure_measures(const ScenarioSolution& solution, const Eigen::VectorXd& p,
+                                   const Eigen::VectorXd& sampled) {
   PressureMeasures m;
   m.peak_kpa = p.size() > 0 ? std::max(0.0, p.maxCoeff()) : 0.0;
-  const Eigen::VectorXd sampled = solution.root_surface().sample(p);
   m.p95_kpa = std::max(0.0, solution.root_surface().level_exceeded_on(sampled, kP95AreaShare));
   return m;
 }
 
 PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadSpec& load) {
   const ResolvedLoad r = resolve_load(load, solution);
-  return pressure_measures(solution,
-                           pdl_pressure_kpa(solution.basis().region_field(r.force_n, r.moment_nmm)));
+  const Eigen::VectorXd p =
+      pdl_pressure_kpa(solution.basis().region_field(r.force_n, r.moment_nmm));
+  return pressure_measures(solution, p, solution.root_surface().sample(p));
 }
 
 }  // namespace
@@ -95,13 +97,13 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
                                                 r.equivalent_strain_field.end());
     r.max_von_mises_kpa = *std::max_element(r.von_mises_kpa.begin(), r.von_mises_kpa.end());
   }
-  const PressureMeasures measures = pressure_measures(solution, p);
+  const detail::RootSurfaceSampler& surface = solution.root_surface();
+  const Eigen::VectorXd sampled = surface.sample(p);
+  const PressureMeasures measures = pressure_measures(solution, p, sampled);
   r.pressure_max_compression_kpa = measures.peak_kpa;
   r.pressure_p95_compression_kpa = measures.p95_kpa;
 
   // Areas over thresholds, from the same root-surface sampling.
-  const detail::RootSurfaceSampler& surface = solution.root_surface();
-  const Eigen::VectorXd sampled = surface.sample(p);
   r.area_above_capillary_mm2 = surface.area_above(sampled, thresholds.capillary.value_kpa);
   r.area_above_limit_mm2 = surface.area_above(sampled, thresholds.limit.value_kpa);
   if (r.attachment_area_mm2 > 0) {

@@ -97,6 +97,31 @@ int main(int argc, char** argv) {
                   st.factorise_s, st.factorisation_gflop);
     }
 
+    // The figures docs/analyses.md records: the case's force system and a translation of it.
+    for (const bool translation : {false, true}) {
+      analysis::LoadSpec load = spec.load;
+      if (translation) load.preset = analysis::MovementPreset::kTranslation;
+      std::printf("\n%s, %.0f %s:\n", translation ? "translation" : "case force system",
+                  load.magnitude, analysis::to_string(load.unit).c_str());
+      std::printf("%-12s %7s %7s %7s %8s %8s %8s %8s %8s %8s %8s\n", "scenario", "CRes x%",
+                  "CRes y%", "M/F tr", "peak kPa", "p95 kPa", "tens kPa", "A>cap %", "A>lim %",
+                  "Feq pk g", "area g");
+      const auto results =
+          sequential ? std::vector<analysis::ScenarioResult>{} : study->evaluate(load);
+      for (size_t k = 0; k < solutions.size(); ++k) {
+        const analysis::ScenarioResult r =
+            sequential ? analysis::evaluate(*solutions[k], load, spec.thresholds, solutions[0].get())
+                       : results[k];
+        std::printf("%-12s %7.1f %7.1f %7.2f %8.2f %8.2f %8.2f %8.1f %8.1f %8.1f %8.1f\n",
+                    r.name.c_str(), 100 * r.cres_labiolingual.fraction_embedded,
+                    100 * r.cres_mesiodistal.fraction_embedded, r.mf_translation_mm,
+                    r.pressure_max_compression_kpa, r.pressure_p95_compression_kpa,
+                    r.pressure_max_tension_kpa, r.area_above_capillary_percent,
+                    r.area_above_limit_percent, r.equivalent_force_peak_g,
+                    r.equivalent_force_area_rule_g);
+      }
+    }
+
     // Evaluation: what the app does while a slider moves.
     const int n_eval = 20;
     const auto t1 = Clock::now();
