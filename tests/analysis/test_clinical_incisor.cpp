@@ -44,8 +44,8 @@ TEST_F(IncisorBoneLoss, HealthyCentreOfResistance) {
 // studies report labiolingual loading (from memory), so the 5-point bound applies to the
 // labiolingual CRes. Mesiodistally the modelled root tapers more (cervix 7.0 mm mesiodistal vs
 // 6.0 mm labiolingual), so the remaining apical part is more cone-like and its CRes fraction
-// drops further: measured 6.2 points at 6 mm loss on this mesh (5.9 on the standard preset);
-// bounded here at 7 points and reported in docs/analyses.md.
+// drops further: about 6 points at 6 mm loss (docs/analyses.md section 8.2 has the measured
+// values); bounded here at 7 points and reported as not meeting the 5-point bound.
 TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
   const auto& s = study_->solutions();
   for (size_t k = 1; k < s.size(); ++k) {
