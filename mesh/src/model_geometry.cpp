@@ -35,18 +35,27 @@ void fd_tangents(const Map& map, double theta, double s, Eigen::Vector3d* p_thet
   *p_s = (map(theta, s + kFdStep) - map(theta, s - kFdStep)) / (2 * kFdStep);
 }
 
-// Integral over theta in [0, 2 pi) and s in [s_lo(theta), s_hi(theta)] of f(theta, s) ds dtheta.
-double integrate_band(int n_theta, const LineRule& rule,
+// Integral over theta in [0, 2 pi) and s in [s_lo(theta), s_hi(theta)] of f(theta, s) ds dtheta;
+// the s-interval is split at `knots` (where the integrand has kinks).
+double integrate_band(int n_theta, const LineRule& rule, const std::vector<double>& knots,
                       const std::function<double(double)>& s_lo,
                       const std::function<double(double)>& s_hi,
                       const std::function<double(double, double)>& f) {
   double total = 0;
+  std::vector<double> cuts;
   for (int i = 0; i < n_theta; ++i) {
     const double theta = 2 * kPi * (i + 0.5) / n_theta;
     const double a = s_lo(theta), b = s_hi(theta);
-    double inner = 0;
-    for (size_t k = 0; k < rule.x.size(); ++k) inner += rule.w[k] * f(theta, a + (b - a) * rule.x[k]);
-    total += inner * (b - a);
+    cuts.assign(1, a);
+    for (double k : knots)
+      if (k > a && k < b) cuts.push_back(k);
+    cuts.push_back(b);
+    for (size_t c = 0; c + 1 < cuts.size(); ++c) {
+      const double lo = cuts[c], hi = cuts[c + 1];
+      double inner = 0;
+      for (size_t k = 0; k < rule.x.size(); ++k) inner += rule.w[k] * f(theta, lo + (hi - lo) * rule.x[k]);
+      total += inner * (hi - lo);
+    }
   }
   return total * 2 * kPi / n_theta;
 }
@@ -96,8 +105,9 @@ void gauss_legendre01(int n, std::vector<double>* nodes, std::vector<double>* we
 ModelGeometry integrate_geometry(const ModelFrame& frame) {
   const ToothShape& shape = frame.shape();
   const bool defect = frame.spec().loss.defect_depth_mm > 0;
-  const int n_theta = defect ? 720 : 128;
-  const LineRule rule(48, 5);
+  const int n_theta = defect ? 240 : 96;
+  const LineRule rule(24, 5);
+  const std::vector<double> knots = shape.knots();
 
   ModelGeometry g;
   g.cej_z_mm = 0;
@@ -120,9 +130,9 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
   auto apex = [](double) { return -1.0; };
   auto cej = [](double) { return 0.0; };
   auto crest = [&](double theta) { return frame.crest_s(theta); };
-  g.root_area_mm2 = integrate_band(n_theta, rule, apex, cej, area_density);
-  g.attachment_area_mm2 = integrate_band(n_theta, rule, apex, crest, area_density);
-  g.exposed_root_area_mm2 = integrate_band(n_theta, rule, crest, cej, area_density);
+  g.root_area_mm2 = integrate_band(n_theta, rule, knots, apex, cej, area_density);
+  g.attachment_area_mm2 = integrate_band(n_theta, rule, knots, apex, crest, area_density);
+  g.exposed_root_area_mm2 = integrate_band(n_theta, rule, knots, crest, cej, area_density);
 
   // Tooth: V = 1/3 closed-surface integral of x . n dA.
   auto flux = [&](double theta, double s) {
@@ -131,9 +141,9 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     return x.dot(xt.cross(xs)) / 3.0;
   };
   const double s_cap = shape.s_of_z(shape.crown_body_top());
-  g.tooth_volume_mm3 = integrate_band(n_theta, rule, apex, cej, flux) +
-                       integrate_band(n_theta, rule, cej, [&](double) { return s_cap; }, flux) +
-                       integrate_band(n_theta, rule, [&](double) { return s_cap; },
+  g.tooth_volume_mm3 = integrate_band(n_theta, rule, knots, apex, cej, flux) +
+                       integrate_band(n_theta, rule, knots, cej, [&](double) { return s_cap; }, flux) +
+                       integrate_band(n_theta, rule, knots, [&](double) { return s_cap; },
                                       [](double) { return 1.0; }, flux);
 
   // PDL: the map (theta, s, t) -> root point + t w n, t in [0, 1]; its Jacobian is quadratic in t.
@@ -152,7 +162,7 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     }
     return v;
   };
-  g.pdl_volume_mm3 = integrate_band(n_theta, rule, apex, crest, pdl_density);
+  g.pdl_volume_mm3 = integrate_band(n_theta, rule, knots, apex, crest, pdl_density);
 
   // Bone: divergence theorem with the field (0, 0, z) over the block minus the socket cavity.
   // V = int_rect top - int_opening top - z_base * A_rect - int_socket z n_z dA, where the socket
@@ -175,7 +185,7 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     // Opening: inside it the top is crest - depth * weight(polar angle); integrate over the
     // star-shaped region bounded by the ring, in the ring's parameter theta.
     double open_area = 0, open_weighted = 0;
-    const int n_ring = 2048;
+    const int n_ring = 512;
     for (int i = 0; i < n_ring; ++i) {
       const double theta = 2 * kPi * (i + 0.5) / n_ring;
       auto ring = [&](double th) { return frame.socket_point(th, ring_s(th)); };
@@ -189,7 +199,7 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     open_weighted *= 2 * kPi / n_ring;
     const double open_top =
         frame.crest_z() * open_area - frame.spec().loss.defect_depth_mm * open_weighted;
-    const double socket = integrate_band(n_theta, rule, apex, ring_s, socket_z_flux);
+    const double socket = integrate_band(n_theta, rule, knots, apex, ring_s, socket_z_flux);
     return (top - top_offset * rect_area) - (open_top - top_offset * open_area) -
            frame.z_base() * (rect_area - open_area) - socket -
            frame.z_base() * open_area;

@@ -221,7 +221,7 @@ double ToothShape::s_of_z(double z) const {
     lo = 0;
     hi = 1;
   }
-  for (int it = 0; it < 100; ++it) {
+  for (int it = 0; it < 64; ++it) {
     const double mid = 0.5 * (lo + hi);
     if (section(mid).z < z) {
       lo = mid;
@@ -246,6 +246,13 @@ double ToothShape::s_of_arc(double arc_mm) const {
   const int j = static_cast<int>(it - arc_.begin()) - 1;
   const double f = (arc_mm - arc_[j]) / (arc_[j + 1] - arc_[j]);
   return -1.0 + 2.0 * (j + f) / kArcIntervals;
+}
+
+std::vector<double> ToothShape::knots() const {
+  std::vector<double> k = {0.0, s_cap_};
+  if (ideal_ == IdealRoot::kCylinder || ideal_ == IdealRoot::kCone) k.push_back(u1_ - 1.0);
+  std::sort(k.begin(), k.end());
+  return k;
 }
 
 double ToothShape::meridian_curvature(double s) const {

@@ -61,6 +61,8 @@ class ToothShape {
   double arc(double s) const;
   double s_of_arc(double arc_mm) const;
   double total_arc() const { return arc_.back(); }
+  // Parameters s where the meridian changes formula (curvature jumps): integrate piecewise.
+  std::vector<double> knots() const;
   // Curvature (1/mm) of the mean meridian at s, by central differences.
   double meridian_curvature(double s) const;
 
