@@ -198,7 +198,7 @@ void validate(const ModelSpec& spec) {
   const double crown_width = 2 * shape.section(shape.s_of_z(0.5 * body_top)).b;
   check_range("bracket.width_mm", "bracket pad width", br.width_mm, 0.5,
               std::floor(0.8 * crown_width * 10) / 10, "mm",
-              "the pad must fit on the labial face of the crown (" + fmt(crown_width) +
+              "the pad must fit on the labial face of the crown (" + fmt(std::round(crown_width * 10) / 10) +
                   " mm wide)");
   check_range("bracket.length_mm", "bracket pad length", br.length_mm, 0.5,
               std::floor((body_top - 0.5) * 10) / 10, "mm",
