@@ -1,6 +1,7 @@
 #include <future>
 #include <sstream>
 
+#include "sharpey/analysis/detail/evaluation.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
 
@@ -65,11 +66,18 @@ int Study::healthy_index() const {
 }
 
 std::vector<ScenarioResult> Study::evaluate(const LoadSpec& load) const {
-  std::vector<ScenarioResult> results;
+  std::vector<ScenarioResult> results(solutions_.size());
   const int h = healthy_index();
-  const ScenarioSolution* healthy = h >= 0 ? solutions_[static_cast<size_t>(h)].get() : nullptr;
-  for (const auto& s : solutions_) {
-    results.push_back(analysis::evaluate(*s, load, spec_.thresholds, healthy));
+  if (h < 0) return results;
+  // The healthy scenario first: its pressure measures are every other scenario's reference.
+  const ScenarioSolution* healthy = solutions_[static_cast<size_t>(h)].get();
+  results[static_cast<size_t>(h)] = detail::evaluate(*healthy, load, spec_.thresholds, healthy, nullptr);
+  detail::PressureMeasures reference;
+  reference.peak_kpa = results[static_cast<size_t>(h)].pressure_max_compression_kpa;
+  reference.p95_kpa = results[static_cast<size_t>(h)].pressure_p95_compression_kpa;
+  for (size_t k = 0; k < solutions_.size(); ++k) {
+    if (static_cast<int>(k) == h) continue;
+    results[k] = detail::evaluate(*solutions_[k], load, spec_.thresholds, healthy, &reference);
   }
   return results;
 }

@@ -3,6 +3,7 @@
 #include <limits>
 
 #include "sharpey/analysis/detail/equivalent_force.h"
+#include "sharpey/analysis/detail/evaluation.h"
 #include "sharpey/analysis/detail/load_resolution.h"
 #include "sharpey/analysis/detail/rigid_motion.h"
 #include "sharpey/analysis/detail/root_map.h"
@@ -24,9 +25,7 @@ Eigen::VectorXd pdl_pressure_kpa(const fem::RegionField& field) {
   return p;
 }
 
-struct PressureMeasures {
-  double peak_kpa = 0, p95_kpa = 0;
-};
+using detail::PressureMeasures;
 
 // p: nodal pressure of the PDL; sampled: the same on the root-surface sub-triangles.
 PressureMeasures pressure_measures(const ScenarioSolution& solution, const Eigen::VectorXd& p,
@@ -46,8 +45,11 @@ PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadS
 
 }  // namespace
 
+namespace detail {
+
 ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
-                        const Thresholds& thresholds, const ScenarioSolution* healthy) {
+                        const Thresholds& thresholds, const ScenarioSolution* healthy,
+                        const PressureMeasures* known_reference) {
   const mesh::ModelGeometry& g = solution.model().geometry;
   const detail::LoadContext& context = solution.load_context();
   ScenarioResult r;
@@ -115,8 +117,9 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   // (resolved there on its own centre of resistance).
   if (healthy != nullptr) {
     const double force_g = from_newton(load.force_n(), ForceUnit::kGram);
-    const PressureMeasures reference =
-        healthy == &solution ? measures : pressure_measures(*healthy, load);
+    const PressureMeasures reference = known_reference != nullptr ? *known_reference
+                                       : healthy == &solution     ? measures
+                                                                  : pressure_measures(*healthy, load);
     r.equivalent_force_peak_g =
         detail::equivalent_force_by_pressure(force_g, reference.peak_kpa, measures.peak_kpa);
     r.equivalent_force_p95_g =
@@ -126,6 +129,13 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   }
   r.root_map = solution.root_map_sampler().sample(p);
   return r;
+}
+
+}  // namespace detail
+
+ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
+                        const Thresholds& thresholds, const ScenarioSolution* healthy) {
+  return detail::evaluate(solution, load, thresholds, healthy, nullptr);
 }
 
 }  // namespace sharpey::analysis

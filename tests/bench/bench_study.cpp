@@ -88,13 +88,14 @@ int main(int argc, char** argv) {
     const double t_solve = seconds_since(t0);
     const auto& solutions = sequential ? own : study->solutions();
 
-    std::printf("\n%-12s %8s %9s %10s %9s %9s %9s %8s\n", "scenario", "nodes", "dofs", "factor MB",
-                "assemble", "analyse", "factor", "GFlop");
+    std::printf("\n%-12s %8s %9s %10s %9s %9s %9s %8s  %s\n", "scenario", "nodes", "dofs",
+                "factor MB", "assemble", "analyse", "factor", "GFlop", "ordering");
     for (const auto& s : solutions) {
       const fem::SolverStatistics& st = s->solver_statistics();
-      std::printf("%-12s %8d %9d %10.1f %8.2fs %8.2fs %8.2fs %8.1f\n", s->scenario().name.c_str(),
-                  s->model().mesh.n_nodes(), st.n_dofs, st.factor_mb, st.assembly_s, st.analyse_s,
-                  st.factorise_s, st.factorisation_gflop);
+      std::printf("%-12s %8d %9d %10.1f %8.2fs %8.2fs %8.2fs %8.1f  %s\n",
+                  s->scenario().name.c_str(), s->model().mesh.n_nodes(), st.n_dofs, st.factor_mb,
+                  st.assembly_s, st.analyse_s, st.factorise_s, st.factorisation_gflop,
+                  st.ordering.c_str());
     }
 
     // The figures docs/analyses.md records: the case's force system and a translation of it.
