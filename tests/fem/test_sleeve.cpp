@@ -17,6 +17,7 @@
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
+#include <algorithm>
 #include <cmath>
 #include <iostream>
 #include <string>
@@ -29,11 +30,29 @@ namespace {
 
 constexpr double kA = 3.0, kB = 3.3, kLength = 4.0;  // mm
 
-mesh::VolumeMesh quarter_sleeve() {
-  return grid_mesh(3, 12, 4, 10, [](const Eigen::Vector3d& p) {
+mesh::VolumeMesh quarter_sleeve(double length = kLength, int n_axial = 4) {
+  return grid_mesh(3, 12, n_axial, 10, [length](const Eigen::Vector3d& p) {
     const double r = kA + (kB - kA) * p.x(), t = 0.5 * M_PI * p.y();
-    return Eigen::Vector3d(r * std::cos(t), r * std::sin(t), kLength * p.z());
+    return Eigen::Vector3d(r * std::cos(t), r * std::sin(t), length * p.z());
   });
+}
+
+// Axial push-out with free ends: the plane formula's displacement for the computed force,
+// divided by the prescribed displacement, minus 1.
+double free_end_push_out_error(double length, int n_axial, const fem::Material& material) {
+  const mesh::VolumeMesh m = quarter_sleeve(length, n_axial);
+  const double delta = 1.0e-3;
+  ConstraintSet constraints;
+  constraints.set_component_on_faces(m, kEtaMin, 1, 0.0);
+  constraints.set_component_on_faces(m, kEtaMax, 0, 0.0);
+  constraints.set_field_on_faces(m, kXiMax, [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
+  constraints.set_field_on_faces(m, kXiMin, [&](const Eigen::Vector3d&) { return Eigen::Vector3d(0, 0, delta); });
+  const fem::LinearElasticSolver solver(m, {{1, material}}, constraints.list());
+  const Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
+  const Eigen::VectorXd reactions = solver.reactions(solver.solve(f), f);
+  double force = 0;
+  for (int n : nodes_on_faces(m, kXiMin)) force += 4.0 * reactions[3 * n + 2];
+  return force * std::log(kB / kA) / (2.0 * M_PI * shear_modulus(material) * length) / delta - 1.0;
 }
 
 class Sleeve : public ::testing::TestWithParam<double> {
@@ -111,6 +130,22 @@ TEST_P(Sleeve, Twist) {
             << " rad: relative error " << error << "\n";
   RecordProperty("relative_error", std::to_string(error));
   EXPECT_LT(error, 0.02);
+}
+
+TEST_P(Sleeve, FreeEndsApproachThePlaneSolutionAsTheSleeveLengthens) {
+  // Free ends cannot carry the antiplane field's shear traction: the end zones, a few wall
+  // thicknesses (b - a) long, are softer, so the relative error should fall roughly like (b - a) / L.
+  double previous = 0;
+  for (int times : {4, 16, 64}) {
+    const double length = times * (kB - kA);
+    const double error = free_end_push_out_error(length, std::max(4, times / 4), material());
+    std::cout << "[sleeve axial free ends nu=" << GetParam() << "] L = " << times
+              << " (b - a): relative error " << error << "\n";
+    if (times > 4) {
+      EXPECT_LT(std::abs(error), 0.5 * std::abs(previous)) << "L = " << times << " (b - a)";
+    }
+    previous = error;
+  }
 }
 
 INSTANTIATE_TEST_SUITE_P(PoissonRatio, Sleeve, ::testing::Values(0.30, 0.49),
