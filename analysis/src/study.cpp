@@ -1,8 +1,9 @@
+#include "sharpey/analysis/study.h"
+
 #include <future>
 #include <sstream>
 
 #include "sharpey/analysis/detail/evaluation.h"
-#include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis {
@@ -31,8 +32,8 @@ Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<
   if (cancelled()) throw Cancelled();
   std::future<mesh::ToothModel> next = std::async(std::launch::async, build, 0);
   for (int k = 0; k < n; ++k) {
-    const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
-                               spec_.scenarios[static_cast<size_t>(k)].name + "): ";
+    const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) +
+                               " (" + spec_.scenarios[static_cast<size_t>(k)].name + "): ";
     overall(k, prefix + "mesh", 0.0);
     // get() rethrows the mesher's exception. On any exception below, the pending future's
     // destructor waits for the mesher of the next scenario to finish (a few seconds at most).
@@ -71,7 +72,8 @@ std::vector<ScenarioResult> Study::evaluate(const LoadSpec& load) const {
   if (h < 0) return results;
   // The healthy scenario first: its pressure measures are every other scenario's reference.
   const ScenarioSolution* healthy = solutions_[static_cast<size_t>(h)].get();
-  results[static_cast<size_t>(h)] = detail::evaluate(*healthy, load, spec_.thresholds, healthy, nullptr);
+  results[static_cast<size_t>(h)] =
+      detail::evaluate(*healthy, load, spec_.thresholds, healthy, nullptr);
   detail::PressureMeasures reference;
   reference.peak_kpa = results[static_cast<size_t>(h)].pressure_max_compression_kpa;
   reference.p95_kpa = results[static_cast<size_t>(h)].pressure_p95_compression_kpa;

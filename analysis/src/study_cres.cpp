@@ -6,7 +6,8 @@
 
 namespace sharpey::analysis::detail {
 
-double centre_of_resistance_height(const RigidResponse& response, const Eigen::Vector3d& direction) {
+double centre_of_resistance_height(const RigidResponse& response,
+                                   const Eigen::Vector3d& direction) {
   const Eigen::Vector3d d = direction.normalized();
   const Eigen::Vector3d n = Eigen::Vector3d::UnitZ().cross(d);
   const Eigen::Matrix3d W_F = response.matrix.block<3, 3>(3, 0);  // rad per N

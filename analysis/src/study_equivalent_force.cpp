@@ -1,6 +1,6 @@
-#include "sharpey/analysis/detail/equivalent_force.h"
-
 #include <cmath>
+
+#include "sharpey/analysis/detail/equivalent_force.h"
 
 namespace sharpey::analysis::detail {
 

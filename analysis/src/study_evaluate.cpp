@@ -93,10 +93,10 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   }
   if (n > 0) {
     r.pressure_max_tension_kpa = std::max(0.0, -p.minCoeff());
-    r.max_principal_strain = *std::max_element(r.max_principal_strain_field.begin(),
-                                               r.max_principal_strain_field.end());
-    r.max_equivalent_strain = *std::max_element(r.equivalent_strain_field.begin(),
-                                                r.equivalent_strain_field.end());
+    r.max_principal_strain =
+        *std::max_element(r.max_principal_strain_field.begin(), r.max_principal_strain_field.end());
+    r.max_equivalent_strain =
+        *std::max_element(r.equivalent_strain_field.begin(), r.equivalent_strain_field.end());
     r.max_von_mises_kpa = *std::max_element(r.von_mises_kpa.begin(), r.von_mises_kpa.end());
   }
   const detail::RootSurfaceSampler& surface = solution.root_surface();
@@ -119,7 +119,7 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     const double force_g = from_newton(load.force_n(), ForceUnit::kGram);
     const PressureMeasures reference = known_reference != nullptr ? *known_reference
                                        : healthy == &solution     ? measures
-                                                                  : pressure_measures(*healthy, load);
+                                                              : pressure_measures(*healthy, load);
     r.equivalent_force_peak_g =
         detail::equivalent_force_by_pressure(force_g, reference.peak_kpa, measures.peak_kpa);
     r.equivalent_force_p95_g =

@@ -14,15 +14,18 @@ constexpr double kFarAwayMm = 1000.0;  // a centre of rotation further than this
 // The force's line of action and the couple direction that opposes its tipping.
 struct ForceGeometry {
   Eigen::Vector3d force_n = Eigen::Vector3d::Zero();
-  Eigen::Vector3d point = Eigen::Vector3d::Zero();       // application point
+  Eigen::Vector3d point = Eigen::Vector3d::Zero();         // application point
   Eigen::Vector3d couple_unit = Eigen::Vector3d::UnitY();  // c_hat
 };
 
 Eigen::Vector3d checked_direction(const LoadSpec& load) {
   switch (load.preset) {
-    case MovementPreset::kIntrusion: return -Eigen::Vector3d::UnitZ();
-    case MovementPreset::kExtrusion: return Eigen::Vector3d::UnitZ();
-    default: break;
+    case MovementPreset::kIntrusion:
+      return -Eigen::Vector3d::UnitZ();
+    case MovementPreset::kExtrusion:
+      return Eigen::Vector3d::UnitZ();
+    default:
+      break;
   }
   const double norm = load.direction.norm();
   if (!std::isfinite(norm) || norm < 1e-9) {
@@ -62,8 +65,9 @@ ForceGeometry force_geometry(const LoadSpec& load, const LoadContext& context) {
   // Centre of resistance for this direction: blend of the x and y heights by the squared
   // horizontal components (the direction's own CRes for x or y forces).
   const double wx = f_hat.x() * f_hat.x(), wy = f_hat.y() * f_hat.y();
-  const double z_c = wx + wy > 1e-12 ? (wx * context.cres_x_z_mm + wy * context.cres_y_z_mm) / (wx + wy)
-                                      : 0.5 * (context.cres_x_z_mm + context.cres_y_z_mm);
+  const double z_c = wx + wy > 1e-12
+                         ? (wx * context.cres_x_z_mm + wy * context.cres_y_z_mm) / (wx + wy)
+                         : 0.5 * (context.cres_x_z_mm + context.cres_y_z_mm);
   // Only the tipping part of the force's moment about the CRes (perpendicular to the long axis)
   // sets c_hat; a torque about the axis (a mesial force at a labial bracket) is not tipping.
   Eigen::Vector3d tipping = (g.point - Eigen::Vector3d(0, 0, z_c)).cross(g.force_n);
@@ -73,8 +77,9 @@ ForceGeometry force_geometry(const LoadSpec& load, const LoadContext& context) {
   } else {
     // The line of action passes through the CRes: no tipping to oppose; keep a conventional axis.
     const Eigen::Vector3d h(f_hat.x(), f_hat.y(), 0);
-    g.couple_unit = h.norm() > 1e-9 ? Eigen::Vector3d(-Eigen::Vector3d::UnitZ().cross(h).normalized())
-                                    : Eigen::Vector3d(Eigen::Vector3d::UnitY());
+    g.couple_unit = h.norm() > 1e-9
+                        ? Eigen::Vector3d(-Eigen::Vector3d::UnitZ().cross(h).normalized())
+                        : Eigen::Vector3d(Eigen::Vector3d::UnitY());
   }
   return g;
 }
@@ -88,8 +93,9 @@ Eigen::Vector3d couple_for_no_rotation(const ForceGeometry& g, const LoadContext
   const Eigen::Matrix3d W_M = context.response.matrix.block<3, 3>(3, 3);
   const Eigen::FullPivLU<Eigen::Matrix3d> lu(W_M);
   if (!lu.isInvertible()) {
-    throw SolverError("translation couple undefined: some couple does not rotate the tooth; the "
-                      "model is not held elastically (check the materials and the fixed bone faces)");
+    throw SolverError(
+        "translation couple undefined: some couple does not rotate the tooth; the "
+        "model is not held elastically (check the materials and the fixed bone faces)");
   }
   return -lu.solve(w0);
 }
@@ -153,7 +159,8 @@ ResolvedLoad resolve_load(const LoadSpec& load, const LoadContext& context) {
         couple = load.moment_nmm;
       }
       break;
-    case MovementPreset::kUncontrolledTipping: break;
+    case MovementPreset::kUncontrolledTipping:
+      break;
     case MovementPreset::kControlledTipping:
       couple = couple_for_centre_of_rotation(g, context, context.apex_z_mm, "controlled tipping");
       break;
@@ -162,8 +169,11 @@ ResolvedLoad resolve_load(const LoadSpec& load, const LoadContext& context) {
       break;
     case MovementPreset::kTranslation:
     case MovementPreset::kIntrusion:
-    case MovementPreset::kExtrusion: couple = couple_for_no_rotation(g, context); break;
-    case MovementPreset::kRotation: break;  // handled above
+    case MovementPreset::kExtrusion:
+      couple = couple_for_no_rotation(g, context);
+      break;
+    case MovementPreset::kRotation:
+      break;  // handled above
   }
   out.force_n = g.force_n;
   out.application_point = g.point;

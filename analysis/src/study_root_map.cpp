@@ -22,7 +22,8 @@ RootMapSampler::RootMapSampler(const mesh::VolumeMesh& mesh, int marker,
   if (n_angle < 1 || n_depth < 1 || !(depth_max_mm > depth_min_mm)) {
     std::ostringstream msg;
     msg << "root map grid " << n_angle << " x " << n_depth << " over depths " << depth_min_mm
-        << " to " << depth_max_mm << " mm is empty; use at least 1 x 1 cells and a positive depth range";
+        << " to " << depth_max_mm
+        << " mm is empty; use at least 1 x 1 cells and a positive depth range";
     throw InputError("root_map", msg.str());
   }
   layout_.n_angle = n_angle;
@@ -57,7 +58,10 @@ RootMapSampler::RootMapSampler(const mesh::VolumeMesh& mesh, int marker,
       depth[a] = -x.z();
       pole[a] = std::hypot(x.x(), x.y()) < kPoleRadiusMm;
       angle[a] = pole[a] ? 0.0 : std::atan2(x.y(), x.x()) * 180.0 / kPi;
-      if (pole[a]) ++n_pole; else if (ref < 0) ref = a;
+      if (pole[a])
+        ++n_pole;
+      else if (ref < 0)
+        ref = a;
     }
     if (n_pole > 1) continue;  // degenerate face on the axis
     double lo = std::numeric_limits<double>::infinity(), hi = -lo;
@@ -71,24 +75,32 @@ RootMapSampler::RootMapSampler(const mesh::VolumeMesh& mesh, int marker,
     const double d_lo = std::min({depth[0], depth[1], depth[2]});
     const double d_hi = std::max({depth[0], depth[1], depth[2]});
     const int i0 = std::max(0, static_cast<int>(std::ceil((d_lo - depth_min_mm) / d_depth - 0.5)));
-    const int i1 = std::min(n_depth - 1, static_cast<int>(std::floor((d_hi - depth_min_mm) / d_depth - 0.5)));
+    const int i1 =
+        std::min(n_depth - 1, static_cast<int>(std::floor((d_hi - depth_min_mm) / d_depth - 0.5)));
     for (double shift : {-360.0, 0.0, 360.0}) {
       // Cell centres theta_j + shift inside [lo, hi].
       const int j0 = std::max(0, static_cast<int>(std::ceil((lo - shift) / d_angle - 0.5)));
-      const int j1 = std::min(n_angle - 1, static_cast<int>(std::floor((hi - shift) / d_angle - 0.5)));
+      const int j1 =
+          std::min(n_angle - 1, static_cast<int>(std::floor((hi - shift) / d_angle - 0.5)));
       for (int j = j0; j <= j1; ++j) {
         const double q_angle = (j + 0.5) * d_angle + shift;
         double a2[3];
         for (int a = 0; a < 3; ++a) a2[a] = pole[a] ? q_angle : angle[a];
         // Barycentric coordinates of (q_angle, q_depth) in the image triangle.
-        const double det = (a2[1] - a2[0]) * (depth[2] - depth[0]) - (a2[2] - a2[0]) * (depth[1] - depth[0]);
+        const double det =
+            (a2[1] - a2[0]) * (depth[2] - depth[0]) - (a2[2] - a2[0]) * (depth[1] - depth[0]);
         if (std::abs(det) < 1e-14) continue;
         for (int i = i0; i <= i1; ++i) {
-          const size_t cell = static_cast<size_t>(i) * static_cast<size_t>(n_angle) + static_cast<size_t>(j);
+          const size_t cell =
+              static_cast<size_t>(i) * static_cast<size_t>(n_angle) + static_cast<size_t>(j);
           if (covered_[cell]) continue;
           const double q_depth = depth_min_mm + (i + 0.5) * d_depth;
-          const double xi = ((q_angle - a2[0]) * (depth[2] - depth[0]) - (a2[2] - a2[0]) * (q_depth - depth[0])) / det;
-          const double eta = ((a2[1] - a2[0]) * (q_depth - depth[0]) - (q_angle - a2[0]) * (depth[1] - depth[0])) / det;
+          const double xi =
+              ((q_angle - a2[0]) * (depth[2] - depth[0]) - (a2[2] - a2[0]) * (q_depth - depth[0])) /
+              det;
+          const double eta =
+              ((a2[1] - a2[0]) * (q_depth - depth[0]) - (q_angle - a2[0]) * (depth[1] - depth[0])) /
+              det;
           const double tol = 1e-9;
           if (xi < -tol || eta < -tol || xi + eta > 1 + tol) continue;
           const Eigen::VectorXd N = mesh::tri_shape(k, Eigen::Vector2d(xi, eta));
@@ -109,14 +121,16 @@ RootMap RootMapSampler::sample(const Eigen::VectorXd& nodal_values) const {
   const Eigen::VectorXd v = interpolation_ * nodal_values;
   map.pressure_kpa.resize(covered_.size());
   for (size_t c = 0; c < covered_.size(); ++c) {
-    map.pressure_kpa[c] = covered_[c] ? v(static_cast<Eigen::Index>(c)) : std::numeric_limits<double>::quiet_NaN();
+    map.pressure_kpa[c] =
+        covered_[c] ? v(static_cast<Eigen::Index>(c)) : std::numeric_limits<double>::quiet_NaN();
   }
   return map;
 }
 
 double RootMapSampler::covered_fraction() const {
   if (covered_.empty()) return 0;
-  return static_cast<double>(std::count(covered_.begin(), covered_.end(), 1)) / static_cast<double>(covered_.size());
+  return static_cast<double>(std::count(covered_.begin(), covered_.end(), 1)) /
+         static_cast<double>(covered_.size());
 }
 
 }  // namespace sharpey::analysis::detail

@@ -31,7 +31,8 @@ RootSurfaceSampler::RootSurfaceSampler(const mesh::VolumeMesh& mesh, int marker,
 
   // Reference sub-grid: vertices (i/n, j/n), i + j <= n.
   std::vector<std::array<double, 2>> ref;
-  std::vector<std::vector<int>> index(static_cast<size_t>(n + 1), std::vector<int>(static_cast<size_t>(n + 1), -1));
+  std::vector<std::vector<int>> index(static_cast<size_t>(n + 1),
+                                      std::vector<int>(static_cast<size_t>(n + 1), -1));
   for (int j = 0; j <= n; ++j) {
     for (int i = 0; i + j <= n; ++i) {
       index[static_cast<size_t>(i)][static_cast<size_t>(j)] = static_cast<int>(ref.size());
@@ -41,7 +42,9 @@ RootSurfaceSampler::RootSurfaceSampler(const mesh::VolumeMesh& mesh, int marker,
   std::vector<std::array<int, 3>> ref_tri;
   for (int j = 0; j < n; ++j) {
     for (int i = 0; i + j < n; ++i) {
-      const auto at = [&](int a, int b) { return index[static_cast<size_t>(a)][static_cast<size_t>(b)]; };
+      const auto at = [&](int a, int b) {
+        return index[static_cast<size_t>(a)][static_cast<size_t>(b)];
+      };
       ref_tri.push_back({at(i, j), at(i + 1, j), at(i, j + 1)});
       if (i + j + 2 <= n) ref_tri.push_back({at(i + 1, j), at(i + 1, j + 1), at(i, j + 1)});
     }
@@ -73,8 +76,12 @@ RootSurfaceSampler::RootSurfaceSampler(const mesh::VolumeMesh& mesh, int marker,
       ++n_sub;
     }
     for (const auto& t : ref_tri) {
-      const double xi = (ref[static_cast<size_t>(t[0])][0] + ref[static_cast<size_t>(t[1])][0] + ref[static_cast<size_t>(t[2])][0]) / 3;
-      const double eta = (ref[static_cast<size_t>(t[0])][1] + ref[static_cast<size_t>(t[1])][1] + ref[static_cast<size_t>(t[2])][1]) / 3;
+      const double xi = (ref[static_cast<size_t>(t[0])][0] + ref[static_cast<size_t>(t[1])][0] +
+                         ref[static_cast<size_t>(t[2])][0]) /
+                        3;
+      const double eta = (ref[static_cast<size_t>(t[0])][1] + ref[static_cast<size_t>(t[1])][1] +
+                          ref[static_cast<size_t>(t[2])][1]) /
+                         3;
       const Eigen::MatrixXd G = mesh::tri_shape_gradient(k, Eigen::Vector2d(xi, eta));
       Eigen::Vector3d gx = Eigen::Vector3d::Zero(), gy = Eigen::Vector3d::Zero();
       for (int a = 0; a < k; ++a) {
@@ -100,7 +107,8 @@ double RootSurfaceSampler::area_above(const Eigen::VectorXd& sampled, double lev
   double area = 0;
   for (size_t t = 0; t < triangles_.size(); ++t) {
     const auto& v = triangles_[t];
-    area += triangle_area_mm2_[t] * triangle_fraction_above(sampled(v[0]), sampled(v[1]), sampled(v[2]), level);
+    area += triangle_area_mm2_[t] *
+            triangle_fraction_above(sampled(v[0]), sampled(v[1]), sampled(v[2]), level);
   }
   return area;
 }
@@ -113,7 +121,10 @@ double RootSurfaceSampler::level_exceeded_on(const Eigen::VectorXd& sampled,
   const double tol = 1e-9 * std::max(1e-300, hi - lo);
   while (hi - lo > tol) {
     const double mid = 0.5 * (lo + hi);
-    if (area_above(sampled, mid) > target) lo = mid; else hi = mid;
+    if (area_above(sampled, mid) > target)
+      lo = mid;
+    else
+      hi = mid;
   }
   return 0.5 * (lo + hi);
 }

@@ -15,8 +15,8 @@ namespace {
 const Scenario& checked_scenario(const CaseSpec& spec, int index) {
   if (index < 0 || index >= static_cast<int>(spec.scenarios.size())) {
     std::ostringstream msg;
-    msg << "scenario index " << index << " is out of range: the case has "
-        << spec.scenarios.size() << " bone-level scenario(s)";
+    msg << "scenario index " << index << " is out of range: the case has " << spec.scenarios.size()
+        << " bone-level scenario(s)";
     if (spec.scenarios.empty()) msg << "; add at least one scenario (e.g. one without bone loss)";
     throw InputError("scenarios", msg.str());
   }
@@ -49,8 +49,8 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
   solve(spec, progress, cancel, options);
 }
 
-ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
-                                   mesh::ToothModel model, const ProgressCallback& progress,
+ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                                   const ProgressCallback& progress,
                                    const std::atomic<bool>* cancel, ScenarioOptions options)
     : scenario_(checked_scenario(spec, scenario_index)), model_(std::move(model)) {
   solve(spec, progress, cancel, options);
@@ -85,8 +85,8 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
 
   load_context_ = std::make_unique<detail::LoadContext>();
   detail::LoadContext& c = *load_context_;
-  c.response = detail::rigid_response(m.nodes, basis_->unit_displacements(), tooth_nodes_,
-                                      g.bracket_center);
+  c.response =
+      detail::rigid_response(m.nodes, basis_->unit_displacements(), tooth_nodes_, g.bracket_center);
   c.cres_x_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitX());
   c.cres_y_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitY());
   c.crown_tip_z_mm = g.crown_tip.z();
@@ -98,8 +98,8 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   root_surface_ = std::make_unique<detail::RootSurfaceSampler>(m, mesh::kRootSurface, pdl_nodes());
   // Depth below the CEJ (z = 0) from the CEJ to the apex, the same range for every scenario.
   root_map_ = std::make_unique<detail::RootMapSampler>(m, mesh::kRootSurface, pdl_nodes(),
-                                                       options.root_map.n_angle, options.root_map.n_depth,
-                                                       0.0, -g.apex_z_mm);
+                                                       options.root_map.n_angle,
+                                                       options.root_map.n_depth, 0.0, -g.apex_z_mm);
   report(progress, "done", 1.0);
 }
 

@@ -54,8 +54,8 @@ TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
       const auto& prev = dir == 0 ? s[k - 1]->cres_labiolingual() : s[k - 1]->cres_mesiodistal();
       const auto& cur = dir == 0 ? s[k]->cres_labiolingual() : s[k]->cres_mesiodistal();
       const auto& healthy = dir == 0 ? s[0]->cres_labiolingual() : s[0]->cres_mesiodistal();
-      std::cout << s[k]->scenario().name << (dir == 0 ? " x" : " y") << ": CRes "
-                << cur.from_cej_mm << " mm below the CEJ, " << 100 * cur.fraction_embedded
+      std::cout << s[k]->scenario().name << (dir == 0 ? " x" : " y") << ": CRes " << cur.from_cej_mm
+                << " mm below the CEJ, " << 100 * cur.fraction_embedded
                 << " % of the remaining embedded root\n";
       EXPECT_GT(cur.from_cej_mm, prev.from_cej_mm);
       EXPECT_NEAR(cur.fraction_embedded, healthy.fraction_embedded, dir == 0 ? 0.05 : 0.07);
@@ -113,7 +113,8 @@ TEST_F(IncisorBoneLoss, LinearScalingAndEquivalentForce) {
     EXPECT_NEAR(two.pressure_max_tension_kpa, 2 * one.pressure_max_tension_kpa,
                 1e-9 * one.pressure_max_tension_kpa);
     for (size_t i = 0; i < one.pressure_kpa.size(); i += 97) {
-      EXPECT_NEAR(two.pressure_kpa[i], 2 * one.pressure_kpa[i], 1e-9 * one.pressure_max_compression_kpa);
+      EXPECT_NEAR(two.pressure_kpa[i], 2 * one.pressure_kpa[i],
+                  1e-9 * one.pressure_max_compression_kpa);
     }
     EXPECT_NEAR(two.mf_translation_mm, one.mf_translation_mm, 1e-9);
     EXPECT_NEAR(two.load.moment_to_force_mm, one.load.moment_to_force_mm, 1e-9);
@@ -134,7 +135,8 @@ TEST_F(IncisorBoneLoss, LinearScalingAndEquivalentForce) {
 // section 8, pub): an intact lower second premolar keeps 0.6 to 1.2 N below 16 kPa, so about 1 N
 // (100 g) should give some kPa to a few tens of kPa, not Pa or MPa.
 TEST_F(IncisorBoneLoss, TranslationPressureIsInTheKilopascalRange) {
-  const std::vector<ScenarioResult> r = study_->evaluate(lingual_g(100, MovementPreset::kTranslation));
+  const std::vector<ScenarioResult> r =
+      study_->evaluate(lingual_g(100, MovementPreset::kTranslation));
   std::cout << "100 g translation, healthy: peak compression " << r[0].pressure_max_compression_kpa
             << " kPa, p95 " << r[0].pressure_p95_compression_kpa << " kPa, peak tension "
             << r[0].pressure_max_tension_kpa << " kPa\n";

@@ -1,5 +1,5 @@
-// Acceptance 1: centre of resistance of idealised roots in a thin uniform PDL with a stiff tooth and
-// bone, against thin-layer (Winkler) theory.
+// Acceptance 1: centre of resistance of idealised roots in a thin uniform PDL with a stiff tooth
+// and bone, against thin-layer (Winkler) theory.
 //
 // Thin-layer theory (derived, check-values.md section 7): a rigid root in a thin layer whose
 // stiffness per unit depth is proportional to the local radius has its CRes at the radius-weighted
@@ -70,7 +70,8 @@ double thin_layer_cres_z(const mesh::ModelSpec& model, const fem::Material& pdl,
   Eigen::Matrix<double, 6, 6> K = Eigen::Matrix<double, 6, 6>::Zero();
   const int n_phi = 72;
   for (int i = 0; i < n; ++i) {
-    const Eigen::Vector2d a = meridian[static_cast<size_t>(i)], b = meridian[static_cast<size_t>(i + 1)];
+    const Eigen::Vector2d a = meridian[static_cast<size_t>(i)],
+                          b = meridian[static_cast<size_t>(i + 1)];
     const Eigen::Vector2d mid = 0.5 * (a + b), tangent = b - a;
     const double ds = tangent.norm();
     if (ds == 0) continue;
@@ -104,8 +105,9 @@ TEST_P(IdealRootCres, MatchesThinLayerTheory) {
   ASSERT_GT(L, 0);
   const double fe = s.cres_labiolingual().fraction_embedded;
   const double fe_y = s.cres_mesiodistal().fraction_embedded;
-  const double exact_shape =
-      (g.crest_z_mm - thin_layer_cres_z(s.model().spec, spec.pdl_material, g.crest_z_mm, g.apex_z_mm)) / L;
+  const double exact_shape = (g.crest_z_mm - thin_layer_cres_z(s.model().spec, spec.pdl_material,
+                                                               g.crest_z_mm, g.apex_z_mm)) /
+                             L;
   RecordProperty("cres_fraction_fe", std::to_string(fe));
   RecordProperty("cres_fraction_thin_layer_exact_shape", std::to_string(exact_shape));
   std::cout << c.name << ": FE CRes " << fe << " (x) " << fe_y << " (y) of L = " << L

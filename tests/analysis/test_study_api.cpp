@@ -116,14 +116,15 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
   }
   const Eigen::Vector3d tip_node_um = 1000.0 * u.segment<3>(3 * nearest);
   EXPECT_NEAR((r.crown_tip_displacement_um - tip_node_um).norm(), 0,
-              0.05 * r.crown_tip_displacement_um.norm() + 1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
+              0.05 * r.crown_tip_displacement_um.norm() +
+                  1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
 }
 
 // The tooth is nearly rigid: the fitted rigid motion explains the tooth's displacement.
 TEST_F(StudyOnCoarseIncisor, ToothMovesRigidly) {
   for (const auto& s : study_->solutions()) {
-    const ScenarioResult r =
-        evaluate(*s, lingual_g(100, MovementPreset::kUncontrolledTipping), default_thresholds(), nullptr);
+    const ScenarioResult r = evaluate(*s, lingual_g(100, MovementPreset::kUncontrolledTipping),
+                                      default_thresholds(), nullptr);
     EXPECT_LT(r.rigid_fit_rms_um, 0.05 * r.crown_tip_displacement_um.norm());
     EXPECT_GT(r.crown_tip_displacement_um.x(), -1e3);
     EXPECT_LT(r.crown_tip_displacement_um.x(), 0);  // lingual force: crown moves lingually
@@ -165,8 +166,8 @@ TEST_F(StudyOnCoarseIncisor, AreasAndThresholds) {
 TEST_F(StudyOnCoarseIncisor, RootMapLayout) {
   for (const auto& s : study_->solutions()) {
     SCOPED_TRACE(s->scenario().name);
-    const ScenarioResult r =
-        evaluate(*s, lingual_g(100, MovementPreset::kUncontrolledTipping), default_thresholds(), nullptr);
+    const ScenarioResult r = evaluate(*s, lingual_g(100, MovementPreset::kUncontrolledTipping),
+                                      default_thresholds(), nullptr);
     const RootMap& map = r.root_map;
     ASSERT_EQ(map.n_angle, 72);
     ASSERT_EQ(map.n_depth, 60);
@@ -205,11 +206,13 @@ TEST_F(StudyOnCoarseIncisor, RootMapLayout) {
 TEST_F(StudyOnCoarseIncisor, CentreOfRotation) {
   const ScenarioSolution& s = *study_->solutions()[1];
   const Thresholds t = default_thresholds();
-  const ScenarioResult tip = evaluate(s, lingual_g(100, MovementPreset::kUncontrolledTipping), t, nullptr);
+  const ScenarioResult tip =
+      evaluate(s, lingual_g(100, MovementPreset::kUncontrolledTipping), t, nullptr);
   ASSERT_TRUE(tip.centre_of_rotation_defined);
   EXPECT_LT(tip.centre_of_rotation.z(), s.cres_labiolingual().point.z());
   EXPECT_GT(tip.centre_of_rotation.z(), s.model().geometry.apex_z_mm);
-  const ScenarioResult ct = evaluate(s, lingual_g(100, MovementPreset::kControlledTipping), t, nullptr);
+  const ScenarioResult ct =
+      evaluate(s, lingual_g(100, MovementPreset::kControlledTipping), t, nullptr);
   ASSERT_TRUE(ct.centre_of_rotation_defined);
   // Up to the small turn the asymmetric mesh adds out of the force's plane.
   EXPECT_NEAR(ct.centre_of_rotation.z(), s.model().geometry.apex_z_mm, 1e-3);

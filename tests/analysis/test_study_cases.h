@@ -11,7 +11,8 @@
 namespace sharpey::testing {
 
 // Maxillary central incisor with handbook dimensions, one scenario per horizontal bone loss (mm).
-inline analysis::CaseSpec incisor_case(mesh::MeshPreset preset, const std::vector<double>& losses_mm) {
+inline analysis::CaseSpec incisor_case(mesh::MeshPreset preset,
+                                       const std::vector<double>& losses_mm) {
   analysis::CaseSpec spec;
   spec.label = "invented verification case: maxillary central incisor";
   spec.model.tooth.type = mesh::ToothType::kMaxillaryCentralIncisor;

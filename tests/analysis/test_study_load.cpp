@@ -82,7 +82,8 @@ LoadContext context_for(const SpringBed& bed) {
 }
 
 SpringBed cylinder_bed() {
-  return root_bed(kCrest, kLength, [](double) { return 3.0; }, 10.0, 1.0);
+  return root_bed(
+      kCrest, kLength, [](double) { return 3.0; }, 10.0, 1.0);
 }
 
 // Derived: with isotropic springs the CRes is the stiffness-weighted mean height, so a cylinder
@@ -91,16 +92,17 @@ SpringBed cylinder_bed() {
 TEST(CentreOfResistance, IsotropicBedGivesWeightedMeanDepth) {
   for (const bool cone : {false, true}) {
     SCOPED_TRACE(cone ? "cone" : "cylinder");
-    const SpringBed bed = root_bed(kCrest, kLength, [cone](double d) {
-      return cone ? 3.0 * (1.0 - d / kLength) : 3.0;
-    }, 1.0, 1.0);
+    const SpringBed bed = root_bed(
+        kCrest, kLength, [cone](double d) { return cone ? 3.0 * (1.0 - d / kLength) : 3.0; }, 1.0,
+        1.0);
     double sum_k = 0, sum_kz = 0;
     for (size_t i = 0; i < bed.points.size(); ++i) {
       sum_k += bed.stiffness[i](0, 0);
       sum_kz += bed.stiffness[i](0, 0) * bed.points[i].z();
     }
     const RigidResponse r = bed.response(kBracket, Eigen::Vector3d(0, 0, -5));
-    for (const Eigen::Vector3d& d : {Eigen::Vector3d::UnitX().eval(), Eigen::Vector3d::UnitY().eval()}) {
+    for (const Eigen::Vector3d& d :
+         {Eigen::Vector3d::UnitX().eval(), Eigen::Vector3d::UnitY().eval()}) {
       const double z = centre_of_resistance_height(r, d);
       EXPECT_NEAR(z, sum_kz / sum_k, 1e-9);
       EXPECT_NEAR((kCrest - z) / kLength, cone ? 1.0 / 3.0 : 0.5, 2e-3);
@@ -111,9 +113,9 @@ TEST(CentreOfResistance, IsotropicBedGivesWeightedMeanDepth) {
 // Two independent computations: the CRes from the rotation formula equals the point about which
 // the compliance has no force-to-rotation coupling (anisotropic springs, so not a plain centroid).
 TEST(CentreOfResistance, MatchesDecoupledCompliancePoint) {
-  const SpringBed bed = root_bed(kCrest, kLength, [](double d) {
-    return 3.0 * std::sqrt(std::max(0.0, 1.0 - d / kLength)) + 0.05;
-  }, 11.0, 1.0);
+  const SpringBed bed = root_bed(
+      kCrest, kLength,
+      [](double d) { return 3.0 * std::sqrt(std::max(0.0, 1.0 - d / kLength)) + 0.05; }, 11.0, 1.0);
   const RigidResponse r = bed.response(kBracket, Eigen::Vector3d(0.3, -0.2, -6));
   const double zx = centre_of_resistance_height(r, Eigen::Vector3d::UnitX());
   const double zy = centre_of_resistance_height(r, Eigen::Vector3d::UnitY());
@@ -251,9 +253,8 @@ TEST(LoadResolution, RatioAndMomentCouples) {
 
 // A mesiodistal force uses the mesiodistal CRes and tips about x.
 TEST(LoadResolution, MesialTranslation) {
-  const LoadContext c = context_for(root_bed(kCrest, kLength, [](double d) {
-    return 3.0 * (1.0 - 0.5 * d / kLength);
-  }, 10.0, 1.0));
+  const LoadContext c = context_for(root_bed(
+      kCrest, kLength, [](double d) { return 3.0 * (1.0 - 0.5 * d / kLength); }, 10.0, 1.0));
   LoadSpec l = lingual_100g(MovementPreset::kTranslation);
   l.direction = Eigen::Vector3d(0, 2, 0);  // not normalised on purpose
   const ResolvedLoad r = resolve_load(l, c);

@@ -45,7 +45,8 @@ TEST(RigidMotion, ExactRigidFieldIsRecovered) {
 }
 
 // Derived: adding a field orthogonal to the rigid motions (here a uniform dilation about the
-// centroid: zero mean, and sum r x r = 0) leaves the fitted motion unchanged; its rms is the misfit.
+// centroid: zero mean, and sum r x r = 0) leaves the fitted motion unchanged; its rms is the
+// misfit.
 TEST(RigidMotion, DeformationOrthogonalToRigidModesIsIgnored) {
   auto p = random_points(300, 2);
   Eigen::Vector3d c = Eigen::Vector3d::Zero();

@@ -56,8 +56,10 @@ mesh::VolumeMesh revolution_surface(const std::function<double(double)>& rho, do
         add({at(k, l), at(k + 2, l), at(k, l + 2), at(k + 1, l), at(k + 2, l + 1), at(k, l + 1)});
         continue;
       }
-      add({at(k, l), at(k + 2, l), at(k + 2, l + 2), at(k + 1, l), at(k + 2, l + 1), at(k + 1, l + 1)});
-      add({at(k, l), at(k + 2, l + 2), at(k, l + 2), at(k + 1, l + 1), at(k + 1, l + 2), at(k, l + 1)});
+      add({at(k, l), at(k + 2, l), at(k + 2, l + 2), at(k + 1, l), at(k + 2, l + 1),
+           at(k + 1, l + 1)});
+      add({at(k, l), at(k + 2, l + 2), at(k, l + 2), at(k + 1, l + 1), at(k + 1, l + 2),
+           at(k, l + 1)});
     }
   }
   return m;
@@ -69,7 +71,8 @@ std::vector<int> all_nodes(const mesh::VolumeMesh& m) {
   return v;
 }
 
-Eigen::VectorXd nodal(const mesh::VolumeMesh& m, const std::function<double(const Eigen::Vector3d&)>& f) {
+Eigen::VectorXd nodal(const mesh::VolumeMesh& m,
+                      const std::function<double(const Eigen::Vector3d&)>& f) {
   Eigen::VectorXd v(m.n_nodes());
   for (int i = 0; i < m.n_nodes(); ++i) v(i) = f(m.nodes[static_cast<size_t>(i)]);
   return v;
@@ -97,7 +100,10 @@ TEST(RootSurface, TriangleFractionAbove) {
     const int n = 200000;
     for (int s = 0; s < n; ++s) {
       double x = u(rng), y = u(rng);
-      if (x + y > 1) { x = 1 - x; y = 1 - y; }
+      if (x + y > 1) {
+        x = 1 - x;
+        y = 1 - y;
+      }
       above += a * (1 - x - y) + b * x + c * y > level;
     }
     EXPECT_NEAR(triangle_fraction_above(a, b, c, level), static_cast<double>(above) / n, 5e-3)
@@ -134,8 +140,11 @@ TEST(RootSurface, CylinderCosineField) {
   // Finer sub-triangles converge on the exact area (the quadratic field is captured better).
   const RootSurfaceSampler fine(m, kMarker, all_nodes(m), 8);
   const double exact = 2 * kR * kL * std::acos(2.5 / kR);
-  EXPECT_LT(std::abs(fine.area_above(fine.sample(nodal(m, [](const Eigen::Vector3d& x) { return x.x(); })), 2.5) - exact),
-            std::abs(s.area_above(p, 2.5) - exact) + 1e-9);
+  EXPECT_LT(
+      std::abs(fine.area_above(
+                   fine.sample(nodal(m, [](const Eigen::Vector3d& x) { return x.x(); })), 2.5) -
+               exact),
+      std::abs(s.area_above(p, 2.5) - exact) + 1e-9);
 }
 
 TEST(RootSurface, FieldMustCoverTheSurface) {
@@ -171,8 +180,8 @@ TEST(RootMap, CylinderDepthFieldAndCoverage) {
   EXPECT_GT(n_covered, 0);
 }
 
-// Derived: p = cos(angle) is mapped to the right columns (0 = +x labial, 90 = +y mesial), within the
-// quadratic interpolation error of 15-degree faces.
+// Derived: p = cos(angle) is mapped to the right columns (0 = +x labial, 90 = +y mesial), within
+// the quadratic interpolation error of 15-degree faces.
 TEST(RootMap, AngleConvention) {
   const mesh::VolumeMesh m = cylinder();
   const RootMapSampler s(m, kMarker, all_nodes(m), 72, 60, 0.0, -kBottom);

@@ -38,7 +38,8 @@ struct StageTimer {
   void operator()(const std::string& next, double fraction) {
     const auto now = Clock::now();
     if (!stage.empty()) {
-      std::printf("  %-48s %7.2f s\n", stage.c_str(), std::chrono::duration<double>(now - last).count());
+      std::printf("  %-48s %7.2f s\n", stage.c_str(),
+                  std::chrono::duration<double>(now - last).count());
     }
     (void)fraction;  // the stage names say enough here
     stage = next;
@@ -111,15 +112,15 @@ int main(int argc, char** argv) {
           sequential ? std::vector<analysis::ScenarioResult>{} : study->evaluate(load);
       for (size_t k = 0; k < solutions.size(); ++k) {
         const analysis::ScenarioResult r =
-            sequential ? analysis::evaluate(*solutions[k], load, spec.thresholds, solutions[0].get())
-                       : results[k];
-        std::printf("%-12s %7.1f %7.1f %7.2f %8.2f %8.2f %8.2f %8.1f %8.1f %8.1f %8.1f\n",
-                    r.name.c_str(), 100 * r.cres_labiolingual.fraction_embedded,
-                    100 * r.cres_mesiodistal.fraction_embedded, r.mf_translation_mm,
-                    r.pressure_max_compression_kpa, r.pressure_p95_compression_kpa,
-                    r.pressure_max_tension_kpa, r.area_above_capillary_percent,
-                    r.area_above_limit_percent, r.equivalent_force_peak_g,
-                    r.equivalent_force_area_rule_g);
+            sequential
+                ? analysis::evaluate(*solutions[k], load, spec.thresholds, solutions[0].get())
+                : results[k];
+        std::printf(
+            "%-12s %7.1f %7.1f %7.2f %8.2f %8.2f %8.2f %8.1f %8.1f %8.1f %8.1f\n", r.name.c_str(),
+            100 * r.cres_labiolingual.fraction_embedded, 100 * r.cres_mesiodistal.fraction_embedded,
+            r.mf_translation_mm, r.pressure_max_compression_kpa, r.pressure_p95_compression_kpa,
+            r.pressure_max_tension_kpa, r.area_above_capillary_percent, r.area_above_limit_percent,
+            r.equivalent_force_peak_g, r.equivalent_force_area_rule_g);
       }
     }
 
@@ -130,7 +131,8 @@ int main(int argc, char** argv) {
       analysis::LoadSpec load = spec.load;
       load.magnitude *= 1.0 + 0.01 * i;
       if (sequential) {
-        for (const auto& s : solutions) analysis::evaluate(*s, load, spec.thresholds, solutions[0].get());
+        for (const auto& s : solutions)
+          analysis::evaluate(*s, load, spec.thresholds, solutions[0].get());
       } else {
         study->evaluate(load);
       }

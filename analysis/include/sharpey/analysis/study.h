@@ -34,9 +34,9 @@ using ProgressCallback = std::function<void(const std::string& stage, double fra
 // under the unit load cases.
 struct CentreOfResistance {
   Eigen::Vector3d point = Eigen::Vector3d::Zero();  // on the long axis, tooth coordinates, mm
-  double from_crest_mm = 0;        // apical distance from the alveolar crest
-  double from_cej_mm = 0;          // apical distance from the CEJ
-  double fraction_embedded = 0;    // from_crest_mm / embedded root length
+  double from_crest_mm = 0;                         // apical distance from the alveolar crest
+  double from_cej_mm = 0;                           // apical distance from the CEJ
+  double fraction_embedded = 0;                     // from_crest_mm / embedded root length
 };
 
 // Grid size of the root maps a ScenarioSolution prepares.
@@ -81,7 +81,7 @@ class ScenarioSolution {
   const fem::UnitLoadBasis& basis() const { return *basis_; }
   const CentreOfResistance& cres_labiolingual() const { return cres_x_; }
   const CentreOfResistance& cres_mesiodistal() const { return cres_y_; }
-  const std::vector<int>& pdl_nodes() const;   // global node ids of the PDL region
+  const std::vector<int>& pdl_nodes() const;  // global node ids of the PDL region
   const std::vector<int>& tooth_nodes() const { return tooth_nodes_; }  // used by the rigid fit
   // Root surface (tooth/PDL interface) area integrated on the mesh, mm^2.
   double attachment_area_mm2() const;
@@ -112,7 +112,8 @@ class ScenarioSolution {
 // A force system resolved to a force and a couple at the bracket centre.
 struct ResolvedLoad {
   Eigen::Vector3d force_n = Eigen::Vector3d::Zero();
-  Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // about the bracket centre (force + couple)
+  Eigen::Vector3d moment_nmm =
+      Eigen::Vector3d::Zero();  // about the bracket centre (force + couple)
   Eigen::Vector3d application_point = Eigen::Vector3d::Zero();
   // |couple component opposing tipping| / |F|, mm; signed: positive when the couple opposes the
   // force's tipping about the centre of resistance. Rotation preset: the lever arm (half the

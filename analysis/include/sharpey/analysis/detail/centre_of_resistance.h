@@ -16,8 +16,8 @@ namespace sharpey::analysis::detail {
 // rotation about the horizontal axis e_z x direction (the tipping axis of that force).
 //
 // Method: a unit force along d at q = (0, 0, z) equals, at the reference point r, the force d and
-// the moment (q - r) x d = (-r) x d + z (e_z x d). The fitted rotation is linear in the load, so its
-// component about n = e_z x d is theta(z) = alpha + z beta with
+// the moment (q - r) x d = (-r) x d + z (e_z x d). The fitted rotation is linear in the load, so
+// its component about n = e_z x d is theta(z) = alpha + z beta with
 //   alpha = n . (W_F d + W_M ((-r) x d)),  beta = n . W_M (e_z x d),
 // W_F and W_M being the rotation rows of the rigid response (per unit force, per unit moment).
 // The centre of resistance is z = -alpha / beta. Throws SolverError when beta vanishes (a couple

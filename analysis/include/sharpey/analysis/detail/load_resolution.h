@@ -14,12 +14,12 @@ namespace sharpey::analysis::detail {
 
 // What the load resolution needs to know about one scenario.
 struct LoadContext {
-  RigidResponse response;          // reference_point = bracket centre (where the unit cases act)
-  double crown_tip_z_mm = 0;       // upper limit of the application height
-  double apex_z_mm = 0;            // controlled tipping puts the centre of rotation here
-  double cres_x_z_mm = 0;          // centre-of-resistance heights for x and y forces
+  RigidResponse response;     // reference_point = bracket centre (where the unit cases act)
+  double crown_tip_z_mm = 0;  // upper limit of the application height
+  double apex_z_mm = 0;       // controlled tipping puts the centre of rotation here
+  double cres_x_z_mm = 0;     // centre-of-resistance heights for x and y forces
   double cres_y_z_mm = 0;
-  double crown_mesiodistal_mm = 0; // lever arm of the rotation preset is half of it
+  double crown_mesiodistal_mm = 0;  // lever arm of the rotation preset is half of it
 };
 
 // Resolves `load`:
@@ -33,9 +33,11 @@ struct LoadContext {
 //   CRes height for the force's horizontal direction (x and y heights blended by the squared
 //   direction components). The moment-to-force ratio reported is kappa = C . c_hat / |F| (mm,
 //   positive when the couple opposes tipping).
-// - couple C from the couple kind (none: 0; ratio: kappa |F| c_hat; moment: as given) or the preset:
+// - couple C from the couple kind (none: 0; ratio: kappa |F| c_hat; moment: as given) or the
+// preset:
 //     uncontrolled tipping  no couple
-//     controlled tipping    C = kappa |F| c_hat + tau |F| e_z with the axis point at the apex height
+//     controlled tipping    C = kappa |F| c_hat + tau |F| e_z with the axis point at the apex
+//     height
 //                           not moving along d = c_hat x e_z and no turn about the long axis
 //     translation           C cancelling the whole rotation: W_M C = -w(force), 3 x 3
 //     root movement         as controlled tipping, with the axis point at the application height
