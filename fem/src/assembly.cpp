@@ -124,8 +124,12 @@ void assemble_values(const mesh::VolumeMesh& m, const detail::NodeGraph& g,
   const Scatter<K> scatter(m, g, values);
   ErrorSlot error;
   auto element = [&](int e, detail::ElementMatrix<K>* Ke) {
-    const double det = detail::element_stiffness_fixed<K>(detail::element_coordinates<K>(m, e),
-                                                          *D_of_element[static_cast<size_t>(e)], Ke);
+    const Matrix6d& D = *D_of_element[static_cast<size_t>(e)];
+    const detail::NodeCoords<K> X = detail::element_coordinates<K>(m, e);
+    double lambda = 0, mu = 0;
+    const double det = detail::isotropic_parameters(D, &lambda, &mu)
+                           ? detail::element_stiffness_isotropic<K>(X, lambda, mu, Ke)
+                           : detail::element_stiffness_fixed<K>(X, D, Ke);
     if (!(det > 0)) throw MeshError(detail::inverted_element_message(m, e, det));
   };
   const int n_elements = m.n_elements();

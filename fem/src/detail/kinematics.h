@@ -137,6 +137,53 @@ double element_stiffness_fixed(const NodeCoords<K>& X, const Eigen::Matrix<doubl
   return min_det;
 }
 
+// Isotropic kernel used by the assembly: per quadrature point and node pair (a, b),
+// K_ab(i, j) += w det(J) [lambda g_a,i g_b,j + mu g_a,j g_b,i + mu (g_a . g_b) delta_ij], computed for
+// b >= a and mirrored. Same result as element_stiffness_fixed with the isotropic D, with about a
+// quarter of the work (B is half zeros). Returns the smallest det(J) like element_stiffness_fixed.
+template <int K>
+double element_stiffness_isotropic(const NodeCoords<K>& X, double lambda, double mu,
+                                   ElementMatrix<K>* Ke) {
+  const ReferenceTable<K>& t = reference_table<K>(stiffness_degree<K>(X));
+  Ke->setZero();
+  double min_det = 1e300;
+  ShapeGradient<K> G;
+  for (size_t q = 0; q < t.points.size(); ++q) {
+    const double det = physical_gradient<K>(X, t.gradient[q], &G);
+    min_det = std::min(min_det, det);
+    if (!(det > 0)) return min_det;
+    const double s = t.weights[q] * det;
+    const ShapeGradient<K> Gl = (s * lambda) * G, Gm = (s * mu) * G;
+    for (int b = 0; b < K; ++b) {
+      for (int a = 0; a <= b; ++a) {
+        const double dot = Gm.row(a).dot(G.row(b));
+        auto block = Ke->template block<3, 3>(3 * a, 3 * b);
+        block.noalias() += Gl.row(a).transpose() * G.row(b) + G.row(b).transpose() * Gm.row(a);
+        block.diagonal().array() += dot;
+      }
+    }
+  }
+  for (int b = 0; b < K; ++b) {
+    for (int a = 0; a < b; ++a) {
+      Ke->template block<3, 3>(3 * b, 3 * a) = Ke->template block<3, 3>(3 * a, 3 * b).transpose();
+    }
+  }
+  return min_det;
+}
+
+// Lame parameters of D when D has the isotropic pattern (to 1e-14 relative), else false.
+inline bool isotropic_parameters(const Eigen::Matrix<double, 6, 6>& D, double* lambda, double* mu) {
+  const double l = D(0, 1), m = D(3, 3);
+  Eigen::Matrix<double, 6, 6> iso = Eigen::Matrix<double, 6, 6>::Zero();
+  iso.topLeftCorner<3, 3>().setConstant(l);
+  iso.topLeftCorner<3, 3>().diagonal().array() += 2 * m;
+  iso.bottomRightCorner<3, 3>().diagonal().setConstant(m);
+  if ((D - iso).cwiseAbs().maxCoeff() > 1e-14 * D.cwiseAbs().maxCoeff()) return false;
+  *lambda = l;
+  *mu = m;
+  return true;
+}
+
 // Throws InputError unless the mesh is well formed (node count per element 4 or 10, sizes agree,
 // indices in range, face node count matches the elements').
 void validate_mesh(const mesh::VolumeMesh& m);
