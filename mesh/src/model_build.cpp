@@ -142,6 +142,14 @@ VolumeMesh ModelMesher::build_linear() {
     mesh.faces.insert(mesh.faces.end(), f.v.begin(), f.v.end());
     mesh.face_marker.push_back(f.marker);
   }
+  std::unordered_set<TriangleKey, TriangleKeyHash> pdl_faces;
+  for (const auto& t : pdl_tets_) {
+    for (const auto& lf : kTetFaces) {
+      if (!pdl_faces.emplace(t[lf[0]], t[lf[1]], t[lf[2]]).second) continue;
+      for (int k : lf) mesh.faces.push_back(t[k]);
+      mesh.face_marker.push_back(kPdlHelperMarker);
+    }
+  }
   return mesh;
 }
 
@@ -247,47 +255,55 @@ ToothModel build_tooth_model(const ModelSpec& spec) {
   ToothModel model;
   model.spec = spec;
   model.geometry = detail::integrate_geometry(frame);
+  auto drop_layer_faces = [](VolumeMesh* mesh) {
+    size_t kept = 0;
+    const int n = mesh->nodes_per_face;
+    for (int f = 0; f < mesh->n_faces(); ++f) {
+      if (mesh->face_marker[f] < 0) continue;
+      std::copy(mesh->face(f), mesh->face(f) + n, mesh->faces.begin() + kept * n);
+      mesh->face_marker[kept++] = mesh->face_marker[f];
+    }
+    mesh->faces.resize(kept * n);
+    mesh->face_marker.resize(kept);
+  };
   if (!spec.sizing.second_order) {
     model.mesh = std::move(linear);
+    drop_layer_faces(&model.mesh);
     return model;
   }
 
-  // Midside nodes of tooth-surface and socket edges on the exact surfaces.
+  // Midside nodes on the exact geometry: edges of the tooth surface, of the socket and of every
+  // PDL element take the image of their parametric midpoint under the offset map
+  // (theta, s, f) -> tooth surface point + f * width * normal (f = 0 tooth, 1 socket), so the PDL
+  // elements are smooth images of straight prisms and stay valid however thin their layers.
   const detail::PointSet& points = mesher.points();
   std::unordered_map<detail::PositionKey, int, detail::PositionKeyHash> lookup;
   lookup.reserve(static_cast<size_t>(points.size()) * 2);
   for (int p = 0; p < points.size(); ++p) {
-    const detail::PointKind kind = points.info()[p].kind;
-    if (kind == detail::PointKind::kTooth || kind == detail::PointKind::kSocket)
+    if (points.info()[p].kind != detail::PointKind::kBone)
       lookup.emplace(detail::PositionKey(points.points()[p]), p);
   }
-  const detail::ToothShape& shape = frame.shape();
   auto project = [&](const std::vector<int>& markers, const Eigen::Vector3d& a,
                      const Eigen::Vector3d& b) -> Eigen::Vector3d {
     auto has = [&](int m) { return std::find(markers.begin(), markers.end(), m) != markers.end(); };
     const auto ia = lookup.find(detail::PositionKey(a));
     const auto ib = lookup.find(detail::PositionKey(b));
-    if (ia != lookup.end() && ib != lookup.end()) {
-      const detail::PointInfo& pa = points.info()[ia->second];
-      const detail::PointInfo& pb = points.info()[ib->second];
-      const bool tooth = pa.kind == detail::PointKind::kTooth &&
-                         pb.kind == detail::PointKind::kTooth &&
-                         (has(kRootSurface) || has(kExposedRoot) || has(kCrownSurface) ||
-                          has(kBracketPad));
-      const bool socket = pa.kind == detail::PointKind::kSocket &&
-                          pb.kind == detail::PointKind::kSocket && has(kSocketSurface);
-      if (tooth || socket) {
-        double ta = pa.theta, tb = pb.theta;
-        if (std::isnan(ta)) ta = tb;
-        if (std::isnan(tb)) tb = ta;
-        const double theta = std::isnan(ta) ? 0.0 : ta + 0.5 * detail::wrap_angle(tb - ta);
-        const double s = 0.5 * (pa.s + pb.s);
-        return tooth ? shape.point(theta, s) : frame.socket_point(theta, s);
-      }
-    }
-    return 0.5 * (a + b);
+    if (ia == lookup.end() || ib == lookup.end()) return 0.5 * (a + b);
+    const detail::PointInfo& pa = points.info()[ia->second];
+    const detail::PointInfo& pb = points.info()[ib->second];
+    const bool tooth = pa.kind == detail::PointKind::kTooth && pb.kind == detail::PointKind::kTooth &&
+                       (has(kRootSurface) || has(kExposedRoot) || has(kCrownSurface) || has(kBracketPad));
+    const bool socket = pa.kind == detail::PointKind::kSocket &&
+                        pb.kind == detail::PointKind::kSocket && has(kSocketSurface);
+    if (!(tooth || socket || has(detail::kPdlHelperMarker))) return 0.5 * (a + b);
+    double ta = pa.theta, tb = pb.theta;
+    if (std::isnan(ta)) ta = tb;
+    if (std::isnan(tb)) tb = ta;
+    const double theta = std::isnan(ta) ? 0.0 : ta + 0.5 * detail::wrap_angle(tb - ta);
+    return frame.pdl_point(theta, 0.5 * (pa.s + pb.s), 0.5 * (pa.f + pb.f));
   };
   model.mesh = make_second_order(linear, project);
+  drop_layer_faces(&model.mesh);
   detail::straighten_folded(&model.mesh, kMinJacobianRatio);
   return model;
 }

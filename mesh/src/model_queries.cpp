@@ -45,11 +45,13 @@ double cone_virtual_tip_below_apex_mm(const ModelSpec& spec) {
 }
 
 double requested_pdl_width_mm(const ModelSpec& spec, double z_mm) {
-  return detail::ModelFrame(spec).pdl_width(z_mm);
+  return detail::pdl_width_profile(spec.pdl, detail::crest_height(spec), detail::apex_height(spec),
+                                   z_mm);
 }
 
 double attachment_level_z_mm(const ModelSpec& spec, double angle_rad) {
-  return detail::ModelFrame(spec).attachment_z(angle_rad);
+  return detail::crest_height(spec) -
+         spec.loss.defect_depth_mm * detail::defect_weight(spec.loss, angle_rad);
 }
 
 }  // namespace sharpey::mesh

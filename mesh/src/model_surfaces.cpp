@@ -31,14 +31,15 @@ double ellipse_perimeter(double a, double b) {
 
 // Arc positions of rings strictly after arc0 up to arc1 (included), spaced at most h_max apart
 // and close enough where the meridian bends that the sagitta of a ring interval stays below a
-// quarter of `thickness` (the layer the surface bounds): density max(1/h_max, sqrt(k/(2 t))).
+// quarter of `thickness` (the layer the surface bounds) and the meridian turns by at most 20 deg
+// per interval: density max(1/h_max, sqrt(k/(2 t)), k/0.35).
 std::vector<double> ring_arcs(const ToothShape& shape, double arc0, double arc1, double h_max,
                               double thickness) {
   const int n_samples = 400;
   std::vector<double> cumulative(n_samples + 1, 0.0);
   auto density = [&](double arc) {
     const double k = shape.meridian_curvature(shape.s_of_arc(arc));
-    return std::max(1.0 / h_max, std::sqrt(k / (2 * thickness)));
+    return std::max({1.0 / h_max, std::sqrt(k / (2 * thickness)), k / 0.35});
   };
   const double step = (arc1 - arc0) / n_samples;
   for (int j = 0; j < n_samples; ++j)
@@ -315,7 +316,7 @@ void ModelMesher::build_pdl_layer() {
       for (int k = 1; k <= n_layers; ++k) {
         const double f = static_cast<double>(k) / n_layers;
         const PointKind kind = k == n_layers ? PointKind::kSocket : PointKind::kPdlLayer;
-        layer_[k][p] = points_.add(frame_.pdl_point(theta, info.s, f), {kind, info.theta, info.s});
+        layer_[k][p] = points_.add(frame_.pdl_point(theta, info.s, f), {kind, info.theta, info.s, f});
       }
     }
   }
@@ -335,6 +336,7 @@ void ModelMesher::build_pdl_layer() {
     }
     add_facet(layer_[n_layers][t[0]], layer_[n_layers][t[1]], layer_[n_layers][t[2]],
               kSocketSurface, true, true);
+
   }
   const auto& x = points_.points();
   for (auto& tet : pdl_tets_) {

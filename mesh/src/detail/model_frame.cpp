@@ -35,11 +35,9 @@ ModelFrame::ModelFrame(const ModelSpec& spec)
     : spec_(spec),
       shape_(spec.tooth, spec.bone.crest_below_cej_mm),
       sizes_(resolve_sizing(spec.sizing)) {
-  crest_z_ = -(spec.bone.crest_below_cej_mm + spec.loss.horizontal_mm);
-  apex_z_ = -shape_.root_length();
+  crest_z_ = crest_height(spec);
+  apex_z_ = apex_height(spec);
   defect_depth_ = spec.loss.defect_depth_mm;
-  defect_center_ = surface_angle(spec.loss.defect_surface);
-  defect_width_ = spec.loss.defect_width_deg * kPi / 180.0;
   defect_radial_ = std::max(1.0, defect_depth_);
 
   // Socket crest ring (with the defect) for the trough's distance function.
@@ -68,11 +66,32 @@ ModelFrame::ModelFrame(const ModelSpec& spec)
   bracket_z_ = spec.bracket.height_mm < 0 ? 0.5 * shape_.crown_length() : spec.bracket.height_mm;
 }
 
-double ModelFrame::pdl_width(double z) const {
-  const double t = std::clamp((crest_z_ - z) / (crest_z_ - apex_z_), 0.0, 1.0);
-  const PdlSpec& p = spec_.pdl;
+double pdl_width_profile(const PdlSpec& p, double crest_z, double apex_z, double z) {
+  const double t = std::clamp((crest_z - z) / (crest_z - apex_z), 0.0, 1.0);
   if (t <= 0.5) return p.crest_width_mm + (p.mid_width_mm - p.crest_width_mm) * 2 * t;
   return p.mid_width_mm + (p.apex_width_mm - p.mid_width_mm) * (2 * t - 1);
+}
+
+double defect_weight(const BoneLoss& loss, double polar) {
+  if (loss.defect_depth_mm <= 0) return 0.0;
+  const double width = loss.defect_width_deg * kPi / 180.0;
+  const double delta = wrap_angle(polar - surface_angle(loss.defect_surface));
+  if (std::abs(delta) >= 0.5 * width) return 0.0;
+  const double c = std::cos(kPi * delta / width);
+  return c * c;
+}
+
+double crest_height(const ModelSpec& spec) {
+  return -(spec.bone.crest_below_cej_mm + spec.loss.horizontal_mm);
+}
+
+double apex_height(const ModelSpec& spec) {
+  return spec.tooth.ideal_root == IdealRoot::kNone ? -spec.tooth.dimensions.root_length_mm
+                                                   : -spec.tooth.ideal_length_mm;
+}
+
+double ModelFrame::pdl_width(double z) const {
+  return pdl_width_profile(spec_.pdl, crest_z_, apex_z_, z);
 }
 
 Eigen::Vector3d ModelFrame::pdl_point(double theta, double s, double f) const {
@@ -82,11 +101,7 @@ Eigen::Vector3d ModelFrame::pdl_point(double theta, double s, double f) const {
 }
 
 double ModelFrame::defect_weight(double polar) const {
-  if (defect_depth_ <= 0) return 0.0;
-  const double delta = wrap_angle(polar - defect_center_);
-  if (std::abs(delta) >= 0.5 * defect_width_) return 0.0;
-  const double c = std::cos(kPi * delta / defect_width_);
-  return c * c;
+  return detail::defect_weight(spec_.loss, polar);
 }
 
 double ModelFrame::attachment_z(double polar) const {

@@ -62,7 +62,7 @@ class ModelFrame {
   ToothShape shape_;
   MeshSizes sizes_;
   double crest_z_ = 0, apex_z_ = 0;
-  double defect_depth_ = 0, defect_center_ = 0, defect_width_ = 0, defect_radial_ = 1;
+  double defect_depth_ = 0, defect_radial_ = 1;
   double x_labial_ = 0, x_lingual_ = 0, y_mesial_ = 0, y_distal_ = 0, z_base_ = 0;
   double bracket_z_ = 0;
   std::vector<Eigen::Vector2d> outline_;  // socket crest ring projected on z = 0, closed loop
@@ -70,6 +70,14 @@ class ModelFrame {
 
 // Wraps an angle to (-pi, pi].
 double wrap_angle(double a);
+
+// PDL width at height z for a crest at crest_z and the apex at apex_z (piecewise linear profile).
+double pdl_width_profile(const PdlSpec& pdl, double crest_z, double apex_z, double z);
+// Angular-defect weight in [0, 1] at polar angle `polar` (0 where there is no defect).
+double defect_weight(const BoneLoss& loss, double polar);
+// Crest height after horizontal loss and the apex height of a specification.
+double crest_height(const ModelSpec& spec);
+double apex_height(const ModelSpec& spec);
 
 }  // namespace sharpey::mesh::detail
 

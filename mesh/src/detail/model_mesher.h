@@ -22,7 +22,13 @@ struct PointInfo {
   PointKind kind = PointKind::kBone;
   double theta = 0;    // column angle; NaN at a pole
   double s = 0;        // meridian parameter of the tooth surface (tooth, PDL and socket points)
+  double f = 0;        // fraction across the PDL: 0 tooth surface, 1 socket
 };
+
+// Marker of helper faces: every face of a PDL element is listed with it in the linear mesh so
+// that every PDL edge gets its midside node from the exact offset map (see build_tooth_model);
+// the helper faces are dropped afterwards.
+constexpr int kPdlHelperMarker = -1;
 
 // Points with merging of coincident positions (within 1e-9 mm), so surfaces built separately
 // share their boundary vertices.
