@@ -119,12 +119,37 @@ double RootSurfaceSampler::level_exceeded_on(const Eigen::VectorXd& sampled,
   const double target = std::clamp(area_fraction, 0.0, 1.0) * area_mm2_;
   double lo = sampled.minCoeff(), hi = sampled.maxCoeff();  // area_above(lo-) = all, (hi) = 0
   const double tol = 1e-9 * std::max(1e-300, hi - lo);
+  // Bisection on the area above a level. Sub-triangles entirely below the bracket [lo, hi] add
+  // nothing to any later level and those entirely above it add their whole area, so each step
+  // keeps only the sub-triangles that straddle the bracket: the work shrinks geometrically.
+  struct Straddling {
+    double a, b, c, area_mm2;
+  };
+  std::vector<Straddling> active;
+  active.reserve(triangles_.size());
+  for (size_t t = 0; t < triangles_.size(); ++t) {
+    const auto& v = triangles_[t];
+    active.push_back({sampled(v[0]), sampled(v[1]), sampled(v[2]), triangle_area_mm2_[t]});
+  }
+  double area_fully_above = 0;
   while (hi - lo > tol) {
     const double mid = 0.5 * (lo + hi);
-    if (area_above(sampled, mid) > target)
-      lo = mid;
-    else
-      hi = mid;
+    double area = area_fully_above;
+    for (const Straddling& t : active) {
+      area += t.area_mm2 * triangle_fraction_above(t.a, t.b, t.c, mid);
+    }
+    if (area > target) lo = mid; else hi = mid;
+    size_t kept = 0;
+    for (const Straddling& t : active) {
+      const double t_min = std::min({t.a, t.b, t.c}), t_max = std::max({t.a, t.b, t.c});
+      if (t_max <= lo) continue;  // fraction 0 for every level >= lo
+      if (t_min >= hi) {          // fraction 1 for every level < hi
+        area_fully_above += t.area_mm2;
+        continue;
+      }
+      active[kept++] = t;
+    }
+    active.resize(kept);
   }
   return 0.5 * (lo + hi);
 }
