@@ -1,7 +1,98 @@
-// sharpey: desktop application. Usage: sharpey [CASE.json]
+// sharpey: the desktop application.
+// Usage: sharpey [CASE.json] [--mesh coarse|standard|fine] [--screenshots DIR]
 #include <QApplication>
+#include <QCommandLineParser>
+#include <QDir>
+#include <QTimer>
+#include <cstdio>
+
+#include "sharpey/error.h"
+#include "view/main_window.h"
+#include "view/vtk_view.h"
+
+namespace {
+
+// --screenshots: once solved, writes one PNG per view and the PDF report, then quits.
+void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
+  using sharpey::app::ViewKind;
+  QDir().mkpath(folder);
+  const QDir dir(folder);
+  auto shot = [&](ViewKind view, const QString& name) {
+    window.show_view(view);
+    QApplication::processEvents();
+    window.grab().toImage().save(dir.filePath(name + QStringLiteral("_window.png")));
+    window.export_image(dir.filePath(name + QStringLiteral(".png")), view);
+  };
+  shot(ViewKind::k3D, QStringLiteral("view_3d"));
+  shot(ViewKind::kRootMap, QStringLiteral("root_map"));
+  shot(ViewKind::kComparison, QStringLiteral("bone_levels"));
+  window.show_view(ViewKind::k3D);
+  window.export_report(dir.filePath(QStringLiteral("report.pdf")));
+}
+
+}  // namespace
 
 int main(int argc, char** argv) {
+  sharpey::app::VtkView::set_default_surface_format();
   QApplication app(argc, argv);
-  return 0;
+  QApplication::setApplicationName(QStringLiteral("sharpey"));
+  QApplication::setOrganizationName(QStringLiteral("Sharpey"));
+  QApplication::setApplicationDisplayName(QStringLiteral("Sharpey"));
+
+  QCommandLineParser parser;
+  parser.setApplicationDescription(QStringLiteral(
+      "Sharpey: periodontal-ligament stress and strain under an orthodontic force system.\n"
+      "Model estimates, not prescriptions; clinical judgement and local regulations prevail."));
+  parser.addHelpOption();
+  parser.addPositionalArgument(QStringLiteral("case"), QStringLiteral("Case file (JSON) to open and solve."));
+  QCommandLineOption mesh({QStringLiteral("m"), QStringLiteral("mesh")},
+                          QStringLiteral("Override the case's mesh preset: coarse, standard or fine."),
+                          QStringLiteral("preset"));
+  QCommandLineOption screenshots(QStringLiteral("screenshots"),
+                                 QStringLiteral("Solve, write a PNG of every view and the PDF report to DIR, "
+                                                "then quit."),
+                                 QStringLiteral("DIR"));
+  parser.addOption(mesh);
+  parser.addOption(screenshots);
+  parser.process(app);
+
+  sharpey::app::MainWindowOptions options;
+  if (parser.isSet(mesh)) {
+    try {
+      options.mesh_override = sharpey::mesh::mesh_preset_from_string(parser.value(mesh).toStdString());
+    } catch (const sharpey::Error& e) {
+      std::fprintf(stderr, "sharpey: %s\n", e.what());
+      return 2;
+    }
+  }
+  const bool shoot = parser.isSet(screenshots);
+  if (shoot) options.dialogs = false;
+  sharpey::app::MainWindow window(options);
+  window.show();
+  if (!shoot) window.check_recovery();
+  const QStringList args = parser.positionalArguments();
+  if (!args.isEmpty()) {
+    if (!window.open_case(args.first()) && shoot) {
+      std::fprintf(stderr, "sharpey: %s\n", window.last_error().toLocal8Bit().constData());
+      return 2;
+    }
+  }
+  if (shoot) {
+    const QString folder = parser.value(screenshots);
+    QObject::connect(&window, &sharpey::app::MainWindow::solve_finished, &window, [&window, folder]() {
+      QTimer::singleShot(300, &window, [&window, folder]() {
+        take_screenshots(window, folder);
+        QApplication::exit(0);
+      });
+    });
+    QObject::connect(&window, &sharpey::app::MainWindow::solve_failed, &window, [&window](const QString& m) {
+      std::fprintf(stderr, "sharpey: %s\n", m.toLocal8Bit().constData());
+      QApplication::exit(4);
+    });
+    if (args.isEmpty()) {
+      std::fprintf(stderr, "sharpey: --screenshots needs a case file\n");
+      return 2;
+    }
+  }
+  return app.exec();
 }

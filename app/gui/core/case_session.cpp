@@ -27,8 +27,9 @@ void CaseSession::new_case() {
   emit document_changed();
 }
 
-void CaseSession::open(const QString& path) {
+void CaseSession::open(const QString& path, std::optional<mesh::MeshPreset> mesh_override) {
   analysis::CaseSpec spec = analysis::load_case(path.toStdString());  // throws before any change
+  if (mesh_override) spec.model.sizing.preset = *mesh_override;
   adopt(std::move(spec));
   document_.opened(path);
   emit document_changed();

@@ -11,6 +11,7 @@
 #include <QString>
 #include <QTimer>
 #include <memory>
+#include <optional>
 #include <vector>
 
 #include "core/document_state.h"
@@ -32,8 +33,9 @@ class CaseSession : public QObject {
   // A new invented case: maxillary central incisor, healthy and 3 mm loss, 100 g lingual.
   void new_case();
   // Reads a case file (analysis::load_case). Throws InputError with the library's message; the
-  // open case is unchanged then.
-  void open(const QString& path);
+  // open case is unchanged then. `mesh_override` replaces the file's mesh preset (a quick look
+  // with a coarser mesh); saving then writes the overridden preset.
+  void open(const QString& path, std::optional<mesh::MeshPreset> mesh_override = std::nullopt);
   // Takes a case recovered from an autosave copy: modified, belonging to `original_path`.
   void recover(const analysis::CaseSpec& spec, const QString& original_path);
   // Writes the case (analysis::save_case, atomic). Throws Error naming the path.

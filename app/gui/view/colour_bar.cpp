@@ -38,25 +38,31 @@ void ColourBar::paintEvent(QPaintEvent*) {
 
 void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   if (!has_scale_) return;
+  draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
+}
+
+void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& scale,
+                     const QString& title, const QString& unit, const std::vector<BarMark>& marks,
+                     const QColor& text) {
   painter.save();
   painter.setRenderHint(QPainter::Antialiasing, true);
   const QFontMetrics fm(painter.font());
   const int line = fm.height();
   // From the top: title (up to two lines), unit, "max", the bar, "min".
-  const QRect title_rect(area.left() + 2, area.top() + 4, area.width() - 4, 2 * line);
-  painter.setPen(palette().windowText().color());
-  painter.drawText(title_rect, Qt::AlignHCenter | Qt::AlignTop | Qt::TextWordWrap, title_);
+  const QRect titlerect(area.left() + 2, area.top() + 4, area.width() - 4, 2 * line);
+  painter.setPen(text);
+  painter.drawText(titlerect, Qt::AlignHCenter | Qt::AlignTop | Qt::TextWordWrap, title);
   QFont bold = painter.font();
   bold.setBold(true);
   painter.setFont(bold);
-  const QRect unit_rect(area.left(), title_rect.bottom() + 2, area.width(), line);
-  painter.drawText(unit_rect, Qt::AlignHCenter, QStringLiteral("[%1]").arg(unit_));
+  const QRect unitrect(area.left(), titlerect.bottom() + 2, area.width(), line);
+  painter.drawText(unitrect, Qt::AlignHCenter, QStringLiteral("[%1]").arg(unit));
   bold.setBold(false);
   painter.setFont(bold);
-  const int top = unit_rect.bottom() + line + 8;
+  const int top = unitrect.bottom() + line + 8;
   const int bottom = area.bottom() - line - 6;
   const QRect bar(area.left() + 10, top, 22, std::max(10, bottom - top));
-  const ValueRange r = scale_.range();
+  const ValueRange r = scale.range();
   const bool flat = !(r.max > r.min);
   auto y_of = [&](double v) {
     if (flat) return 0.5 * (bar.top() + bar.bottom());
@@ -66,7 +72,7 @@ void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   for (int y = bar.top(); y <= bar.bottom(); ++y) {
     const double t = flat ? 0.5 : (bar.bottom() - y) / static_cast<double>(bar.height());
     const double v = r.min + t * (r.max - r.min);
-    painter.setPen(to_qcolor(scale_.colour(v)));
+    painter.setPen(to_qcolor(scale.colour(v)));
     painter.drawLine(bar.left(), y, bar.right(), y);
   }
   painter.setPen(QPen(QColor(40, 40, 40), 1));
@@ -76,7 +82,7 @@ void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   const double step = nice_step(r.min, r.max, std::max(2, bar.height() / (2 * line)));
   for (double v : nice_ticks(r.min, r.max, std::max(2, bar.height() / (2 * line)))) {
     const double y = y_of(v);
-    painter.setPen(palette().windowText().color());
+    painter.setPen(text);
     painter.drawLine(QPointF(bar.right(), y), QPointF(bar.right() + 4, y));
     painter.drawText(QRectF(bar.right() + 6, y - line / 2.0, area.right() - bar.right() - 6, line),
                      Qt::AlignLeft | Qt::AlignVCenter, tick_label(v, step));
@@ -85,13 +91,13 @@ void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   QFont small = painter.font();
   small.setPointSizeF(std::max(6.0, small.pointSizeF() * 0.85));
   painter.setFont(small);
-  painter.setPen(palette().windowText().color());
+  painter.setPen(text);
   painter.drawText(QRect(area.left(), bar.top() - line - 2, area.width(), line), Qt::AlignHCenter,
                    QStringLiteral("max %1").arg(r.max, 0, 'f', 1));
   painter.drawText(QRect(area.left(), bar.bottom() + 2, area.width(), line), Qt::AlignHCenter,
                    QStringLiteral("min %1").arg(r.min, 0, 'f', 1));
   // Threshold marks across the bar.
-  for (const BarMark& m : marks_) {
+  for (const BarMark& m : marks) {
     if (m.value < r.min || m.value > r.max) continue;
     const double y = y_of(m.value);
     QPen pen(m.colour, m.width, m.style);

@@ -34,6 +34,10 @@ class ColourBar : public QWidget {
 
   // Paints the bar into `rect` of any painter (also used by the PDF report).
   void paint_into(QPainter& painter, const QRect& rect) const;
+  // Same drawing without a widget: scale, title, unit, marks, text colour.
+  static void draw(QPainter& painter, const QRect& rect, const ColourScale& scale,
+                   const QString& title, const QString& unit, const std::vector<BarMark>& marks,
+                   const QColor& text);
 
  protected:
   void paintEvent(QPaintEvent* event) override;

@@ -81,6 +81,7 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
 ResultView::~ResultView() = default;
 
 void ResultView::set_options_visible(bool visible) { options_->setVisible(visible); }
+void ResultView::set_bar_visible(bool visible) { bar_->setVisible(visible); }
 
 void ResultView::set_quantity(Quantity q) {
   if (q == quantity_) return;
@@ -152,6 +153,7 @@ void ResultView::refresh() {
 
 QImage ResultView::grab_image() {
   const QImage scene = view_->grabFramebuffer();
+  if (!bar_->isVisible()) return scene;
   QImage out(scene.width() + bar_->width(), std::max(scene.height(), bar_->height()), QImage::Format_RGB32);
   out.fill(palette().window().color());
   QPainter p(&out);

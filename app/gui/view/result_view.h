@@ -42,8 +42,9 @@ class ResultView : public QWidget {
   void set_bone_style(BoneStyle style);
   void set_section(SectionPlane plane);
   void reset_camera();
-  // Hides the option strip (used by the comparison grid, which has shared options).
+  // Hides the option strip or the colour bar (the comparison grid shares both).
   void set_options_visible(bool visible);
+  void set_bar_visible(bool visible);
 
   VtkView* vtk_view() const { return view_; }
   ColourBar* colour_bar() const { return bar_; }

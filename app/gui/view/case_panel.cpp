@@ -1,0 +1,229 @@
+#include "view/case_panel.h"
+
+#include <QCheckBox>
+#include <QComboBox>
+#include <QDoubleSpinBox>
+#include <QFormLayout>
+#include <QHBoxLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QLineEdit>
+#include <QMessageBox>
+#include <QPushButton>
+#include <QTableWidget>
+#include <QVBoxLayout>
+
+#include "core/case_session.h"
+#include "sharpey/error.h"
+
+namespace sharpey::app {
+
+QString tooth_name(int tooth_type) {
+  return QString::fromStdString(mesh::to_string(static_cast<mesh::ToothType>(tooth_type))).replace('_', ' ');
+}
+
+CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), session_(session) {
+  auto* outer = new QVBoxLayout(this);
+  auto* form = new QFormLayout;
+  form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
+  label_ = new QLineEdit;
+  label_->setPlaceholderText(QStringLiteral("what this case is (invented cases say so)"));
+  form->addRow(QStringLiteral("Label"), label_);
+  tooth_ = new QComboBox;
+  for (mesh::ToothType t : mesh::all_tooth_types()) tooth_->addItem(tooth_name(static_cast<int>(t)), static_cast<int>(t));
+  form->addRow(QStringLiteral("Tooth"), tooth_);
+  pdl_width_ = new QDoubleSpinBox;
+  pdl_width_->setRange(0.05, 0.60);
+  pdl_width_->setDecimals(2);
+  pdl_width_->setSingleStep(0.01);
+  pdl_width_->setSuffix(QStringLiteral(" mm"));
+  pdl_width_->setKeyboardTracking(false);
+  pdl_width_->setToolTip(QStringLiteral("Uniform ligament width (a case file may give a crest / "
+                                        "mid-root / apex profile)"));
+  form->addRow(QStringLiteral("PDL width"), pdl_width_);
+  preset_ = new QComboBox;
+  for (auto p : {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard, mesh::MeshPreset::kFine})
+    preset_->addItem(QString::fromStdString(mesh::to_string(p)), static_cast<int>(p));
+  preset_->setToolTip(QStringLiteral("Mesh fineness: coarse is quick, fine is slow"));
+  form->addRow(QStringLiteral("Mesh"), preset_);
+  outer->addLayout(form);
+
+  outer->addWidget(new QLabel(QStringLiteral("<b>Bone levels</b> (tick two to four to compare)")));
+  levels_ = new QTableWidget(0, 3);
+  levels_->setHorizontalHeaderLabels({QStringLiteral("compare"), QStringLiteral("name"),
+                                      QStringLiteral("horizontal loss (mm)")});
+  levels_->horizontalHeader()->setStretchLastSection(true);
+  levels_->verticalHeader()->setVisible(false);
+  levels_->setSelectionBehavior(QAbstractItemView::SelectRows);
+  levels_->setSelectionMode(QAbstractItemView::SingleSelection);
+  levels_->setMinimumHeight(120);
+  outer->addWidget(levels_);
+  auto* add_row = new QHBoxLayout;
+  new_loss_ = new QDoubleSpinBox;
+  new_loss_->setRange(0, 15);
+  new_loss_->setDecimals(1);
+  new_loss_->setValue(5.0);
+  new_loss_->setSuffix(QStringLiteral(" mm"));
+  auto* add = new QPushButton(QStringLiteral("Add level"));
+  auto* remove = new QPushButton(QStringLiteral("Remove"));
+  add_row->addWidget(new_loss_);
+  add_row->addWidget(add);
+  add_row->addWidget(remove);
+  outer->addLayout(add_row);
+
+  outer->addWidget(new QLabel(QStringLiteral("<b>Pressure thresholds</b>")));
+  auto* thresholds = new QFormLayout;
+  capillary_ = new QDoubleSpinBox;
+  limit_ = new QDoubleSpinBox;
+  for (QDoubleSpinBox* s : {capillary_, limit_}) {
+    s->setRange(0.1, 200);
+    s->setDecimals(1);
+    s->setSuffix(QStringLiteral(" kPa"));
+    s->setKeyboardTracking(false);
+  }
+  capillary_source_ = new QLabel;
+  limit_source_ = new QLabel;
+  for (QLabel* l : {capillary_source_, limit_source_}) {
+    l->setWordWrap(true);
+    l->setStyleSheet(QStringLiteral("color: #5a5a5a; font-size: 9pt;"));
+    l->setTextInteractionFlags(Qt::TextSelectableByMouse);
+  }
+  thresholds->addRow(QStringLiteral("Capillary"), capillary_);
+  thresholds->addRow(capillary_source_);
+  thresholds->addRow(QStringLiteral("Limit"), limit_);
+  thresholds->addRow(limit_source_);
+  outer->addLayout(thresholds);
+
+  stale_ = new QLabel;
+  stale_->setWordWrap(true);
+  stale_->setStyleSheet(QStringLiteral("background: #f6e7c1; color: #5b4100; padding: 4px;"));
+  outer->addWidget(stale_);
+  solve_ = new QPushButton(QStringLiteral("Mesh and solve"));
+  solve_->setToolTip(QStringLiteral("Meshes and solves every bone level (F5)"));
+  outer->addWidget(solve_);
+  outer->addStretch(1);
+
+  connect(label_, &QLineEdit::editingFinished, this, [this]() {
+    if (!updating_) session_->set_label(label_->text());
+  });
+  connect(tooth_, &QComboBox::currentIndexChanged, this, [this]() {
+    if (!updating_) session_->set_tooth(static_cast<mesh::ToothType>(tooth_->currentData().toInt()));
+  });
+  connect(pdl_width_, &QDoubleSpinBox::valueChanged, this, [this](double v) {
+    if (!updating_) session_->set_pdl_width(v);
+  });
+  connect(preset_, &QComboBox::currentIndexChanged, this, [this]() {
+    if (!updating_) session_->set_mesh_preset(static_cast<mesh::MeshPreset>(preset_->currentData().toInt()));
+  });
+  auto thresholds_edited = [this]() {
+    if (!updating_) session_->set_thresholds(capillary_->value(), limit_->value());
+  };
+  connect(capillary_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
+  connect(limit_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
+  connect(add, &QPushButton::clicked, this, [this]() {
+    ScenarioList list = session_->levels();
+    try {
+      list.add(new_loss_->value());
+    } catch (const InputError& e) {
+      QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+      return;
+    }
+    session_->set_levels(list);
+    reload_levels();
+  });
+  connect(remove, &QPushButton::clicked, this, [this]() {
+    const int row = levels_->currentRow();
+    if (row < 0) return;
+    ScenarioList list = session_->levels();
+    try {
+      list.remove(row);
+    } catch (const InputError& e) {
+      QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+      return;
+    }
+    session_->set_levels(list);
+    reload_levels();
+  });
+  connect(levels_, &QTableWidget::itemChanged, this, [this](QTableWidgetItem* item) {
+    if (updating_) return;
+    if (item->column() == 0) {
+      if (!session_->set_compared(item->row(), item->checkState() == Qt::Checked)) {
+        QMessageBox::information(this, QStringLiteral("Compare"),
+                                 QStringLiteral("At most four bone levels can be compared at once."));
+      }
+      reload_levels();
+      emit comparison_changed();
+      return;
+    }
+    levels_edited();
+  });
+  connect(solve_, &QPushButton::clicked, this, &CasePanel::solve_requested);
+  reload();
+}
+
+void CasePanel::reload() {
+  updating_ = true;
+  const analysis::CaseSpec& s = session_->spec();
+  label_->setText(QString::fromStdString(s.label));
+  tooth_->setCurrentIndex(tooth_->findData(static_cast<int>(s.model.tooth.type)));
+  pdl_width_->setValue(s.model.pdl.mid_width_mm);
+  preset_->setCurrentIndex(preset_->findData(static_cast<int>(s.model.sizing.preset)));
+  capillary_->setValue(s.thresholds.capillary.value_kpa);
+  limit_->setValue(s.thresholds.limit.value_kpa);
+  capillary_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.capillary.source));
+  limit_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.limit.source));
+  updating_ = false;
+  reload_levels();
+}
+
+void CasePanel::reload_levels() {
+  updating_ = true;
+  const ScenarioList& list = session_->levels();
+  levels_->setRowCount(list.size());
+  for (int i = 0; i < list.size(); ++i) {
+    auto* check = new QTableWidgetItem;
+    check->setFlags(Qt::ItemIsUserCheckable | Qt::ItemIsEnabled | Qt::ItemIsSelectable);
+    check->setCheckState(list.is_compared(i) ? Qt::Checked : Qt::Unchecked);
+    levels_->setItem(i, 0, check);
+    levels_->setItem(i, 1, new QTableWidgetItem(QString::fromStdString(list.at(i).name)));
+    levels_->setItem(i, 2, new QTableWidgetItem(QString::number(list.at(i).loss.horizontal_mm, 'f', 1)));
+  }
+  levels_->resizeColumnToContents(0);
+  updating_ = false;
+}
+
+void CasePanel::levels_edited() {
+  ScenarioList list = session_->levels();
+  try {
+    for (int i = 0; i < list.size(); ++i) {
+      const QString name = levels_->item(i, 1)->text();
+      if (name.toStdString() != list.at(i).name) list.rename(i, name);
+      bool ok = false;
+      const double loss = levels_->item(i, 2)->text().toDouble(&ok);
+      if (!ok || loss < 0) {
+        throw InputError("scenarios[" + std::to_string(i) + "].horizontal_loss_mm",
+                         "\"" + levels_->item(i, 2)->text().toStdString() +
+                             "\" is not a bone loss; enter a number of millimetres, 0 or more");
+      }
+      if (loss != list.at(i).loss.horizontal_mm) {
+        mesh::BoneLoss l = list.at(i).loss;
+        l.horizontal_mm = loss;
+        list.set_loss(i, l);
+      }
+    }
+  } catch (const InputError& e) {
+    QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+    reload_levels();
+    return;
+  }
+  session_->set_levels(list);
+}
+
+void CasePanel::set_stale(bool stale, bool solving) {
+  stale_->setVisible(stale && !solving);
+  stale_->setText(QStringLiteral("The results shown do not match the case any more (geometry, "
+                                 "mesh or bone levels changed). Mesh and solve again to update them."));
+  solve_->setEnabled(!solving);
+}
+
+}  // namespace sharpey::app

@@ -1,0 +1,58 @@
+// Case panel: the label, the tooth, the ligament width, the mesh preset, the bone levels (with the
+// choice of two to four to compare), the pressure thresholds with their sources, and the solve
+// button. Geometry edits go to the session, which marks the results stale.
+#pragma once
+
+#include <QWidget>
+
+class QCheckBox;
+class QComboBox;
+class QDoubleSpinBox;
+class QLabel;
+class QLineEdit;
+class QPushButton;
+class QTableWidget;
+
+namespace sharpey::app {
+
+class CaseSession;
+
+class CasePanel : public QWidget {
+  Q_OBJECT
+
+ public:
+  explicit CasePanel(CaseSession* session, QWidget* parent = nullptr);
+  // Reloads every field from the session (after new, open, recover).
+  void reload();
+  // Shows whether the results match the case geometry.
+  void set_stale(bool stale, bool solving);
+  QPushButton* solve_button() const { return solve_; }
+
+ signals:
+  void solve_requested();
+  void comparison_changed();
+
+ private:
+  void reload_levels();
+  void levels_edited();
+
+  CaseSession* session_;
+  bool updating_ = false;
+  QLineEdit* label_ = nullptr;
+  QComboBox* tooth_ = nullptr;
+  QDoubleSpinBox* pdl_width_ = nullptr;
+  QComboBox* preset_ = nullptr;
+  QTableWidget* levels_ = nullptr;
+  QDoubleSpinBox* new_loss_ = nullptr;
+  QDoubleSpinBox* capillary_ = nullptr;
+  QDoubleSpinBox* limit_ = nullptr;
+  QLabel* capillary_source_ = nullptr;
+  QLabel* limit_source_ = nullptr;
+  QLabel* stale_ = nullptr;
+  QPushButton* solve_ = nullptr;
+};
+
+// Readable tooth name: "maxillary central incisor".
+QString tooth_name(int tooth_type);
+
+}  // namespace sharpey::app

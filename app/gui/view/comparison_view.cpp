@@ -1,0 +1,217 @@
+#include "view/comparison_view.h"
+
+#include <QComboBox>
+#include <QGridLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QPainter>
+#include <QSplitter>
+#include <QTableWidget>
+#include <QVBoxLayout>
+
+#include "core/case_session.h"
+#include "view/colour_bar.h"
+#include "view/result_view.h"
+#include "view/trend_plot.h"
+#include "view/vtk_view.h"
+
+namespace sharpey::app {
+
+ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
+  auto* outer = new QVBoxLayout(this);
+  outer->setContentsMargins(0, 0, 0, 0);
+  auto* options = new QHBoxLayout;
+  options->setContentsMargins(4, 2, 4, 2);
+  quantity_box_ = new QComboBox;
+  for (Quantity q : all_quantities()) quantity_box_->addItem(short_label(q), static_cast<int>(q));
+  bone_box_ = new QComboBox;
+  for (BoneStyle s : {BoneStyle::kTranslucent, BoneStyle::kOpaque, BoneStyle::kHidden})
+    bone_box_->addItem(label(s), static_cast<int>(s));
+  section_box_ = new QComboBox;
+  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
+    section_box_->addItem(label(s), static_cast<int>(s));
+  note_ = new QLabel(QStringLiteral("One colour scale for all; cameras move together."));
+  note_->setStyleSheet(QStringLiteral("color: #555;"));
+  options->addWidget(new QLabel(QStringLiteral("Colour by")));
+  options->addWidget(quantity_box_);
+  options->addWidget(bone_box_);
+  options->addWidget(section_box_);
+  options->addSpacing(12);
+  options->addWidget(note_, 1);
+  outer->addLayout(options);
+
+  auto* split = new QSplitter(Qt::Vertical);
+  auto* top = new QWidget;
+  auto* top_row = new QHBoxLayout(top);
+  top_row->setContentsMargins(0, 0, 0, 0);
+  top_row->setSpacing(0);
+  grid_host_ = new QWidget;
+  grid_ = new QGridLayout(grid_host_);
+  grid_->setContentsMargins(0, 0, 0, 0);
+  grid_->setSpacing(3);
+  bar_ = new ColourBar;
+  top_row->addWidget(grid_host_, 1);
+  top_row->addWidget(bar_);
+  split->addWidget(top);
+
+  auto* bottom = new QSplitter(Qt::Horizontal);
+  plot_ = new TrendPlot;
+  table_widget_ = new QTableWidget;
+  table_widget_->setEditTriggers(QAbstractItemView::NoEditTriggers);
+  table_widget_->verticalHeader()->setVisible(true);
+  bottom->addWidget(plot_);
+  bottom->addWidget(table_widget_);
+  bottom->setStretchFactor(0, 3);
+  bottom->setStretchFactor(1, 2);
+  split->addWidget(bottom);
+  split->setStretchFactor(0, 3);
+  split->setStretchFactor(1, 2);
+  outer->addWidget(split, 1);
+
+  auto reshow = [this]() {
+    if (last_session_) show_session(*last_session_, last_force_text_);
+  };
+  connect(quantity_box_, &QComboBox::currentIndexChanged, this, [this, reshow]() {
+    quantity_ = static_cast<Quantity>(quantity_box_->currentData().toInt());
+    reshow();
+  });
+  connect(bone_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    for (const Cell& c : cells_) c.view->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
+  });
+  connect(section_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    for (const Cell& c : cells_) c.view->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
+  });
+}
+
+ComparisonView::~ComparisonView() = default;
+
+ResultView* ComparisonView::view(int i) const { return cells_[static_cast<size_t>(i)].view; }
+
+void ComparisonView::clear() {
+  for (const Cell& c : cells_) c.box->deleteLater();
+  cells_.clear();
+  shown_.clear();
+  last_session_ = nullptr;
+  table_ = ScenarioTable{};
+  table_widget_->clear();
+  table_widget_->setRowCount(0);
+  table_widget_->setColumnCount(0);
+  plot_->set_table(table_);
+}
+
+void ComparisonView::show_session(const CaseSession& session, const QString& force_text) {
+  last_session_ = &session;
+  last_force_text_ = force_text;
+  const auto& results = session.results();
+  std::vector<int> wanted;
+  for (int i : session.levels().compared())
+    if (i < static_cast<int>(results.size())) wanted.push_back(i);
+  if (wanted.size() < 2) {  // fewer than two chosen: the first ones
+    wanted.clear();
+    for (int i = 0; i < std::min<int>(ScenarioList::kMaxCompared, static_cast<int>(results.size())); ++i)
+      wanted.push_back(i);
+  }
+  if (wanted.size() != cells_.size()) {
+    for (const Cell& c : cells_) c.box->deleteLater();
+    cells_.clear();
+    const int n = static_cast<int>(wanted.size());
+    const int columns = n <= 2 ? n : 2;
+    for (int k = 0; k < n; ++k) {
+      Cell cell;
+      cell.box = new QWidget;
+      auto* v = new QVBoxLayout(cell.box);
+      v->setContentsMargins(0, 0, 0, 0);
+      v->setSpacing(0);
+      cell.title = new QLabel;
+      cell.title->setAlignment(Qt::AlignCenter);
+      cell.title->setStyleSheet(QStringLiteral("font-weight: bold; padding: 2px; background: #e6e2d8;"));
+      cell.view = new ResultView;
+      cell.view->set_options_visible(false);
+      cell.view->set_bar_visible(false);
+      cell.view->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
+      cell.view->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
+      v->addWidget(cell.title);
+      v->addWidget(cell.view, 1);
+      grid_->addWidget(cell.box, k / columns, k % columns);
+      cells_.push_back(cell);
+    }
+    link_cameras();
+  }
+  shown_ = wanted;
+  // One scale over every shown scenario.
+  ValueRange range{0, 0};
+  bool first = true;
+  for (int i : wanted) {
+    const auto* s = session.solution(i);
+    if (!s) continue;
+    const ValueRange r = finite_range(quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes()));
+    range = first ? r : merge(range, r);
+    first = false;
+  }
+  for (size_t k = 0; k < wanted.size(); ++k) {
+    const int i = wanted[k];
+    const auto* s = session.solution(i);
+    if (!s) continue;
+    const auto& r = results[static_cast<size_t>(i)];
+    cells_[k].title->setText(QStringLiteral("%1  \u2013  peak compression %2 kPa")
+                                 .arg(QString::fromStdString(r.name))
+                                 .arg(r.pressure_max_compression_kpa, 0, 'f', 1));
+    cells_[k].view->set_quantity(quantity_);
+    cells_[k].view->show_result(*s, r, session.spec().thresholds, force_text, range);
+  }
+  const ColourScale scale(quantity_, range);
+  bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
+  std::vector<BarMark> marks;
+  if (has_threshold_lines(quantity_)) {
+    const auto& t = session.spec().thresholds;
+    marks.push_back({t.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0});
+    marks.push_back({t.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0});
+  }
+  bar_->set_marks(marks);
+
+  table_ = make_table(results);
+  plot_->set_table(table_);
+  table_widget_->clear();
+  table_widget_->setColumnCount(table_.row_names.size());
+  table_widget_->setRowCount(static_cast<int>(table_.columns.size()));
+  table_widget_->setHorizontalHeaderLabels(table_.row_names);
+  QStringList rows;
+  for (int c = 0; c < static_cast<int>(table_.columns.size()); ++c) rows << table_.header_text(c);
+  table_widget_->setVerticalHeaderLabels(rows);
+  for (int r = 0; r < table_.row_names.size(); ++r)
+    for (int c = 0; c < static_cast<int>(table_.columns.size()); ++c) {
+      auto* item = new QTableWidgetItem(table_.cell_text(r, c));
+      item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
+      table_widget_->setItem(c, r, item);
+    }
+  table_widget_->resizeColumnsToContents();
+}
+
+void ComparisonView::link_cameras() {
+  for (size_t a = 0; a < cells_.size(); ++a) {
+    VtkView* source = cells_[a].view->vtk_view();
+    connect(source, &VtkView::camera_changed, this, [this, source]() {
+      if (syncing_) return;
+      syncing_ = true;
+      for (const Cell& c : cells_)
+        if (c.view->vtk_view() != source) c.view->vtk_view()->copy_camera_from(source->camera());
+      syncing_ = false;
+    });
+  }
+  // Start from the same camera.
+  if (cells_.size() > 1)
+    for (size_t a = 1; a < cells_.size(); ++a) cells_[a].view->vtk_view()->copy_camera_from(cells_[0].view->vtk_view()->camera());
+}
+
+QImage ComparisonView::grab_views() {
+  const QImage grid = grid_host_->grab().toImage();
+  QImage out(grid.width() + bar_->width(), std::max(grid.height(), bar_->height()), QImage::Format_RGB32);
+  out.fill(palette().window().color());
+  QPainter p(&out);
+  p.drawImage(0, 0, grid);
+  p.translate(grid.width(), 0);
+  bar_->render(&p);
+  return out;
+}
+
+}  // namespace sharpey::app

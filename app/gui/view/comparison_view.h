@@ -1,0 +1,69 @@
+// Bone-level comparison: two to four scenarios side by side with linked cameras and one colour
+// scale, then the trend plots and the table of key numbers against bone loss.
+#pragma once
+
+#include <QImage>
+#include <QWidget>
+#include <vector>
+
+#include "core/quantity.h"
+#include "core/scenario_table.h"
+#include "view/model_scene.h"
+
+class QComboBox;
+class QGridLayout;
+class QLabel;
+class QTableWidget;
+
+namespace sharpey::app {
+
+class CaseSession;
+class ColourBar;
+class ResultView;
+class TrendPlot;
+
+class ComparisonView : public QWidget {
+  Q_OBJECT
+
+ public:
+  explicit ComparisonView(QWidget* parent = nullptr);
+  ~ComparisonView() override;
+
+  // Shows the compared scenarios of the session (its choice of two to four) and the table of all.
+  void show_session(const CaseSession& session, const QString& force_text);
+  void clear();
+
+  int n_views() const { return static_cast<int>(cells_.size()); }
+  ResultView* view(int i) const;
+  ColourBar* shared_bar() const { return bar_; }
+  const ScenarioTable& table() const { return table_; }
+  TrendPlot* plot() const { return plot_; }
+  // The side-by-side views with the shared colour bar, as shown.
+  QImage grab_views();
+
+ private:
+  void link_cameras();
+  struct Cell {
+    QWidget* box;
+    QLabel* title;
+    ResultView* view;
+  };
+  std::vector<Cell> cells_;
+  std::vector<int> shown_;  // result indices in the cells
+  QWidget* grid_host_ = nullptr;
+  QGridLayout* grid_ = nullptr;
+  ColourBar* bar_ = nullptr;
+  QComboBox* quantity_box_ = nullptr;
+  QComboBox* bone_box_ = nullptr;
+  QComboBox* section_box_ = nullptr;
+  QLabel* note_ = nullptr;
+  TrendPlot* plot_ = nullptr;
+  QTableWidget* table_widget_ = nullptr;
+  ScenarioTable table_;
+  Quantity quantity_ = Quantity::kPressure;
+  bool syncing_ = false;
+  const CaseSession* last_session_ = nullptr;
+  QString last_force_text_;
+};
+
+}  // namespace sharpey::app

@@ -1,0 +1,666 @@
+#include "view/main_window.h"
+
+#include <QAction>
+#include <QApplication>
+#include <QCloseEvent>
+#include <QComboBox>
+#include <QCoreApplication>
+#include <QDir>
+#include <QFileDialog>
+#include <QFileInfo>
+#include <QHBoxLayout>
+#include <QKeySequence>
+#include <QLabel>
+#include <QMenu>
+#include <QMenuBar>
+#include <QProgressBar>
+#include <QScrollArea>
+#include <QSettings>
+#include <QSplitter>
+#include <QStandardPaths>
+#include <QStatusBar>
+#include <QTabWidget>
+#include <QToolBar>
+#include <QToolBox>
+#include <QToolButton>
+#include <QVBoxLayout>
+
+#include "core/autosave_store.h"
+#include "core/case_session.h"
+#include "core/document_state.h"
+#include "core/solve_job.h"
+#include "core/units.h"
+#include "sharpey/analysis/report_output.h"
+#include "sharpey/error.h"
+#include "view/case_panel.h"
+#include "view/comparison_view.h"
+#include "view/findings_panel.h"
+#include "view/icons.h"
+#include "view/load_panel.h"
+#include "view/report_writer.h"
+#include "view/result_view.h"
+#include "view/root_map_view.h"
+
+namespace sharpey::app {
+
+QString samples_folder() {
+  const QByteArray env = qgetenv("SHARPEY_SAMPLES_DIR");
+  if (!env.isEmpty()) return QString::fromLocal8Bit(env);
+  const QString installed = QDir(QCoreApplication::applicationDirPath()).filePath(QStringLiteral("../share/sharpey/samples"));
+  if (QFileInfo::exists(installed)) return QDir::cleanPath(installed);
+  return QStringLiteral(SHARPEY_SOURCE_DIR "/samples");
+}
+
+namespace {
+const char* const kRecentKey = "recent_files";
+
+QString autosave_default_folder() {
+  return QDir(QStandardPaths::writableLocation(QStandardPaths::AppDataLocation)).filePath(QStringLiteral("autosave"));
+}
+}  // namespace
+
+MainWindow::MainWindow(const MainWindowOptions& options)
+    : options_(options),
+      session_(std::make_unique<CaseSession>()),
+      job_(std::make_unique<SolveJob>()),
+      autosave_(std::make_unique<AutosaveStore>(options.autosave_folder.isEmpty() ? autosave_default_folder()
+                                                                                  : options.autosave_folder)) {
+  setWindowIcon(make_icon(IconKind::kApp));
+  build_layout();
+  build_menus();
+  connect_session();
+
+  connect(job_.get(), &SolveJob::progress, this, [this](const QString& stage, double fraction) {
+    progress_->setValue(static_cast<int>(1000 * fraction));
+    status_->setText(QStringLiteral("Meshing and solving: ") + stage);
+  });
+  connect(job_.get(), &SolveJob::finished, this, [this]() {
+    set_solving_ui(false);
+    session_->set_study(job_->take_result());
+    status_->setText(QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size()));
+    emit solve_finished();
+  });
+  connect(job_.get(), &SolveJob::cancelled, this, [this]() {
+    set_solving_ui(false);
+    status_->setText(QStringLiteral("Solve cancelled; the previous results (if any) are still shown."));
+    emit solve_failed(QStringLiteral("cancelled"));
+  });
+  connect(job_.get(), &SolveJob::failed, this, [this](const QString& kind, const QString& message) {
+    set_solving_ui(false);
+    status_->setText(QStringLiteral("Solve failed (%1).").arg(kind));
+    show_error(QStringLiteral("Could not mesh and solve the case"),
+               QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
+    emit solve_failed(message);
+  });
+
+  auto* autosave_timer = new QTimer(this);
+  connect(autosave_timer, &QTimer::timeout, this, &MainWindow::autosave_now);
+  autosave_timer->start(options_.autosave_interval_ms);
+
+  QSettings settings;
+  RecentFiles recent;
+  recent.set_paths(settings.value(QLatin1String(kRecentKey)).toStringList());
+  recent.remove_missing();
+  settings.setValue(QLatin1String(kRecentKey), recent.paths());
+  refresh_recent_menu();
+  case_panel_->reload();
+  load_panel_->set_controls(session_->load_controls());
+  refresh_title();
+  resize(1480, 920);
+}
+
+MainWindow::~MainWindow() {
+  job_->cancel();
+  job_.reset();  // joins the worker before the session goes
+}
+
+// ---------------------------------------------------------------------------------------------
+// Layout
+
+void MainWindow::build_layout() {
+  auto* central = new QWidget;
+  auto* outer = new QVBoxLayout(central);
+  outer->setContentsMargins(4, 4, 4, 4);
+  outer->setSpacing(4);
+
+  auto* split = new QSplitter(Qt::Horizontal);
+  // Left: force system first (used most), then the case.
+  auto* left = new QToolBox;
+  load_panel_ = new LoadPanel;
+  case_panel_ = new CasePanel(session_.get());
+  auto wrap = [](QWidget* w) {
+    auto* scroll = new QScrollArea;
+    scroll->setWidget(w);
+    scroll->setWidgetResizable(true);
+    scroll->setFrameShape(QFrame::NoFrame);
+    return scroll;
+  };
+  left->addItem(wrap(load_panel_), QStringLiteral("Force system"));
+  left->addItem(wrap(case_panel_), QStringLiteral("Case and bone levels"));
+  left->setMinimumWidth(320);
+  split->addWidget(left);
+
+  // Middle: which bone level, then the views.
+  auto* middle = new QWidget;
+  auto* mid = new QVBoxLayout(middle);
+  mid->setContentsMargins(0, 0, 0, 0);
+  auto* choice = new QHBoxLayout;
+  scenario_box_ = new QComboBox;
+  scenario_box_->setMinimumWidth(160);
+  scenario_box_->setToolTip(QStringLiteral("Bone level shown in the 3D view, the root map and the findings"));
+  load_summary_ = new QLabel;
+  load_summary_->setStyleSheet(QStringLiteral("color: #3b4652;"));
+  choice->addWidget(new QLabel(QStringLiteral("<b>Bone level</b>")));
+  choice->addWidget(scenario_box_);
+  choice->addSpacing(16);
+  choice->addWidget(load_summary_, 1);
+  mid->addLayout(choice);
+  tabs_ = new QTabWidget;
+  result_view_ = new ResultView;
+  root_map_ = new RootMapView;
+  comparison_ = new ComparisonView;
+  tabs_->addTab(result_view_, QStringLiteral("3D"));
+  tabs_->addTab(root_map_, QStringLiteral("Root map"));
+  tabs_->addTab(comparison_, QStringLiteral("Bone levels compared"));
+  mid->addWidget(tabs_, 1);
+  split->addWidget(middle);
+
+  // Right: findings.
+  findings_ = new FindingsPanel;
+  auto* right = wrap(findings_);
+  right->setMinimumWidth(300);
+  split->addWidget(right);
+  split->setStretchFactor(0, 0);
+  split->setStretchFactor(1, 1);
+  split->setStretchFactor(2, 0);
+  split->setSizes({340, 820, 320});
+  outer->addWidget(split, 1);
+
+  // The caution, always visible.
+  caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
+  caution_->setWordWrap(true);
+  caution_->setStyleSheet(QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
+                                         "border-left: 5px solid #9c6e14;"));
+  outer->addWidget(caution_);
+  setCentralWidget(central);
+
+  status_ = new QLabel(QStringLiteral("Ready."));
+  progress_ = new QProgressBar;
+  progress_->setRange(0, 1000);
+  progress_->setMaximumWidth(260);
+  progress_->setTextVisible(true);
+  progress_->setFormat(QStringLiteral("%p %"));
+  cancel_ = new QToolButton;
+  cancel_->setIcon(make_icon(IconKind::kCancel));
+  cancel_->setText(QStringLiteral("Cancel"));
+  cancel_->setToolButtonStyle(Qt::ToolButtonTextBesideIcon);
+  cancel_->setToolTip(QStringLiteral("Stop meshing and solving"));
+  statusBar()->addWidget(status_, 1);
+  statusBar()->addPermanentWidget(progress_);
+  statusBar()->addPermanentWidget(cancel_);
+  progress_->hide();
+  cancel_->hide();
+  connect(cancel_, &QToolButton::clicked, this, &MainWindow::cancel_solve);
+
+  connect(scenario_box_, &QComboBox::currentIndexChanged, this, [this](int index) {
+    if (index >= 0) session_->set_current(index);
+  });
+  connect(load_panel_, &LoadPanel::changed, this, [this](const LoadControls& c, bool interactive) {
+    session_->set_load(c, interactive);
+  });
+  connect(case_panel_, &CasePanel::solve_requested, this, &MainWindow::solve);
+  connect(case_panel_, &CasePanel::comparison_changed, this, [this]() {
+    comparison_dirty_ = true;
+    refresh_comparison();
+  });
+  connect(tabs_, &QTabWidget::currentChanged, this, [this]() { refresh_comparison(); });
+}
+
+void MainWindow::build_menus() {
+  QMenu* file = menuBar()->addMenu(QStringLiteral("&File"));
+  QAction* new_action = file->addAction(make_icon(IconKind::kNew), QStringLiteral("&New case"), this, [this]() {
+    if (maybe_save()) new_case();
+  });
+  new_action->setShortcut(QKeySequence::New);
+  QAction* open_action = file->addAction(make_icon(IconKind::kOpen), QStringLiteral("&Open case\u2026"), this, [this]() {
+    if (!maybe_save()) return;
+    const QString path = QFileDialog::getOpenFileName(this, QStringLiteral("Open case"), samples_folder(),
+                                                      QStringLiteral("Sharpey cases (*.json)"));
+    if (!path.isEmpty()) open_case(path);
+  });
+  open_action->setShortcut(QKeySequence::Open);
+  samples_menu_ = file->addMenu(QStringLiteral("Open &sample"));
+  const QDir samples(samples_folder());
+  for (const QString& name : samples.entryList({QStringLiteral("*.json")}, QDir::Files, QDir::Name)) {
+    const QString path = samples.filePath(name);
+    samples_menu_->addAction(QFileInfo(name).completeBaseName().replace('_', ' '), this, [this, path]() {
+      if (maybe_save()) open_case(path);
+    });
+  }
+  samples_menu_->setEnabled(!samples_menu_->isEmpty());
+  recent_menu_ = file->addMenu(QStringLiteral("Open &recent"));
+  file->addSeparator();
+  QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this, [this]() { save(); });
+  save_action->setShortcut(QKeySequence::Save);
+  QAction* save_as_action = file->addAction(QStringLiteral("Save &as\u2026"), this, [this]() {
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"), session_->document().path(),
+                                                      QStringLiteral("Sharpey cases (*.json)"));
+    if (!path.isEmpty()) save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
+  });
+  save_as_action->setShortcut(QKeySequence::SaveAs);
+  file->addSeparator();
+  QMenu* exports = file->addMenu(QStringLiteral("&Export"));
+  QAction* image_action = exports->addAction(make_icon(IconKind::kImage), QStringLiteral("&Image of the current view (PNG)\u2026"),
+                                             this, [this]() {
+    const ViewKind which = tabs_->currentIndex() == 1 ? ViewKind::kRootMap
+                           : tabs_->currentIndex() == 2 ? ViewKind::kComparison
+                                                        : ViewKind::k3D;
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"), QString(),
+                                                      QStringLiteral("PNG images (*.png)"));
+    if (!path.isEmpty()) export_image(path.endsWith(QStringLiteral(".png")) ? path : path + QStringLiteral(".png"), which);
+  });
+  QAction* report_action = exports->addAction(make_icon(IconKind::kReport), QStringLiteral("&PDF report\u2026"), this, [this]() {
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"), QString(),
+                                                      QStringLiteral("PDF documents (*.pdf)"));
+    if (!path.isEmpty()) export_report(path.endsWith(QStringLiteral(".pdf")) ? path : path + QStringLiteral(".pdf"));
+  });
+  QAction* data_action = exports->addAction(make_icon(IconKind::kExportData),
+                                            QStringLiteral("&Results as CSV, JSON and VTU\u2026"), this, [this]() {
+    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"));
+    if (!folder.isEmpty()) export_data(folder);
+  });
+  file->addSeparator();
+  QAction* quit = file->addAction(QStringLiteral("&Quit"), this, &QWidget::close);
+  quit->setShortcut(QKeySequence::Quit);
+
+  QMenu* run = menuBar()->addMenu(QStringLiteral("&Solve"));
+  QAction* solve_action = run->addAction(make_icon(IconKind::kSolve), QStringLiteral("&Mesh and solve"), this, &MainWindow::solve);
+  solve_action->setShortcut(QKeySequence(Qt::Key_F5));
+  run->addAction(make_icon(IconKind::kCancel), QStringLiteral("&Cancel"), this, &MainWindow::cancel_solve);
+
+  QMenu* view = menuBar()->addMenu(QStringLiteral("&View"));
+  view->addAction(QStringLiteral("&3D"), this, [this]() { show_view(ViewKind::k3D); })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
+  view->addAction(QStringLiteral("&Root map"), this, [this]() { show_view(ViewKind::kRootMap); })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
+  view->addAction(QStringLiteral("&Bone levels compared"), this, [this]() { show_view(ViewKind::kComparison); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
+
+  QMenu* help = menuBar()->addMenu(QStringLiteral("&Help"));
+  help->addAction(QStringLiteral("&Reading the results"), this, [this]() {
+    QMessageBox::information(
+        this, QStringLiteral("Reading the results"),
+        QStringLiteral("Colours show the ligament's hydrostatic pressure (compression positive, kPa) or the "
+                       "quantity chosen above the view. The dashed line marks capillary pressure, the solid "
+                       "line the physiological limit; both values and their sources are in the case panel.\n\n"
+                       "CRes: centre of resistance for the force's direction. CRot: centre of rotation "
+                       "produced by the force system.\n\n") +
+            QString::fromStdString(analysis::caution_text()));
+  });
+  help->addAction(QStringLiteral("&About Sharpey"), this, [this]() {
+    QMessageBox::about(this, QStringLiteral("About Sharpey"),
+                       QStringLiteral("Sharpey: finite-element estimate of periodontal-ligament stress and "
+                                      "strain under an orthodontic force system, healthy and with bone loss.\n\n"
+                                      "Licence: AGPL-3.0-or-later.\n\n") +
+                           QString::fromStdString(analysis::caution_text()));
+  });
+
+  QToolBar* bar = addToolBar(QStringLiteral("Main"));
+  bar->setObjectName(QStringLiteral("main_toolbar"));
+  bar->setIconSize(QSize(24, 24));
+  bar->setToolButtonStyle(Qt::ToolButtonTextUnderIcon);
+  bar->addAction(new_action);
+  bar->addAction(open_action);
+  bar->addAction(save_action);
+  bar->addSeparator();
+  bar->addAction(solve_action);
+  bar->addSeparator();
+  bar->addAction(image_action);
+  bar->addAction(report_action);
+  bar->addAction(data_action);
+  new_action->setIconText(QStringLiteral("New"));
+  open_action->setIconText(QStringLiteral("Open"));
+  save_action->setIconText(QStringLiteral("Save"));
+  solve_action->setIconText(QStringLiteral("Solve"));
+  image_action->setIconText(QStringLiteral("Image"));
+  report_action->setIconText(QStringLiteral("Report"));
+  data_action->setIconText(QStringLiteral("Data"));
+}
+
+void MainWindow::connect_session() {
+  CaseSession* s = session_.get();
+  connect(s, &CaseSession::case_replaced, this, [this]() {
+    case_panel_->reload();
+    load_panel_->set_controls(session_->load_controls());
+    result_view_->clear();
+    root_map_->clear();
+    comparison_->clear();
+    findings_->clear();
+    load_panel_->set_resolved(nullptr);
+    refresh_scenario_choice();
+    case_panel_->set_stale(false, solving());
+    load_summary_->setText(describe(session_->load_controls()));
+  });
+  connect(s, &CaseSession::document_changed, this, &MainWindow::refresh_title);
+  connect(s, &CaseSession::geometry_changed, this, [this]() {
+    case_panel_->set_stale(session_->study() != nullptr, solving());
+    if (const auto* r = session_->current_result()) findings_->show_result(*r, session_->spec().thresholds, true);
+  });
+  connect(s, &CaseSession::results_changed, this, &MainWindow::refresh_results);
+  connect(s, &CaseSession::current_changed, this, [this](int index) {
+    if (scenario_box_->currentIndex() != index) scenario_box_->setCurrentIndex(index);
+    refresh_results(true);
+  });
+  connect(s, &CaseSession::evaluation_failed, this, [this](const QString& message) {
+    status_->setText(QStringLiteral("Force system not applied: ") + message);
+    last_error_ = message;
+  });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Results
+
+QString MainWindow::force_text() const {
+  const LoadControls& c = session_->load_controls();
+  return with_unit(c.magnitude, force_unit_label(c.unit), force_decimals(c.unit));
+}
+
+void MainWindow::refresh_results(bool interactive) {
+  load_summary_->setText(describe(session_->load_controls()));
+  const analysis::ScenarioResult* r = session_->current_result();
+  const analysis::ScenarioSolution* s = session_->current_solution();
+  if (!r || !s) return;
+  const auto& t = session_->spec().thresholds;
+  result_view_->show_result(*s, *r, t, force_text());
+  findings_->show_result(*r, t, session_->geometry_stale());
+  load_panel_->set_resolved(r);
+  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)));
+  if (!interactive) {
+    refresh_scenario_choice();
+    comparison_dirty_ = true;
+    refresh_comparison();
+  }
+}
+
+void MainWindow::refresh_comparison() {
+  // The comparison redraws up to four models: only when it is on screen.
+  if (!comparison_dirty_ || tabs_->currentWidget() != comparison_ || session_->results().empty()) return;
+  comparison_->show_session(*session_, force_text());
+  comparison_dirty_ = false;
+}
+
+void MainWindow::refresh_scenario_choice() {
+  const QSignalBlocker block(scenario_box_);
+  scenario_box_->clear();
+  for (const auto& r : session_->results()) scenario_box_->addItem(QString::fromStdString(r.name));
+  scenario_box_->setCurrentIndex(session_->current());
+  scenario_box_->setEnabled(scenario_box_->count() > 1);
+}
+
+void MainWindow::show_view(ViewKind which) {
+  tabs_->setCurrentIndex(which == ViewKind::k3D ? 0 : which == ViewKind::kRootMap ? 1 : 2);
+  refresh_comparison();
+}
+
+// ---------------------------------------------------------------------------------------------
+// Files
+
+void MainWindow::refresh_title() { setWindowTitle(session_->document().window_title()); }
+
+void MainWindow::refresh_recent_menu() {
+  recent_menu_->clear();
+  const QStringList paths = QSettings().value(QLatin1String(kRecentKey)).toStringList();
+  for (const QString& path : paths) {
+    recent_menu_->addAction(QFileInfo(path).fileName(), this, [this, path]() {
+      if (maybe_save()) open_case(path);
+    })->setToolTip(path);
+  }
+  recent_menu_->setEnabled(!paths.isEmpty());
+}
+
+void MainWindow::remember_recent(const QString& path) {
+  QSettings settings;
+  RecentFiles recent;
+  recent.set_paths(settings.value(QLatin1String(kRecentKey)).toStringList());
+  recent.add(path);
+  settings.setValue(QLatin1String(kRecentKey), recent.paths());
+  refresh_recent_menu();
+}
+
+void MainWindow::new_case() {
+  cancel_solve();
+  session_->new_case();
+  autosave_->discard();
+  autosaved_json_.clear();
+  status_->setText(QStringLiteral("New case: set it up, then mesh and solve (F5)."));
+}
+
+bool MainWindow::open_case(const QString& path) {
+  try {
+    session_->open(path, options_.mesh_override);
+  } catch (const Error& e) {
+    show_error(QStringLiteral("Could not open the case"), QString::fromStdString(e.what()));
+    return false;
+  }
+  autosave_->discard();
+  autosaved_json_.clear();
+  remember_recent(path);
+  solve();
+  return true;
+}
+
+bool MainWindow::save() {
+  if (session_->document().save_needs_path()) {
+    if (!options_.dialogs) return false;
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"), QString(),
+                                                      QStringLiteral("Sharpey cases (*.json)"));
+    if (path.isEmpty()) return false;
+    return save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
+  }
+  return save_as(session_->document().path());
+}
+
+bool MainWindow::save_as(const QString& path) {
+  try {
+    session_->save(path);
+  } catch (const Error& e) {
+    show_error(QStringLiteral("Could not save the case"), QString::fromStdString(e.what()));
+    return false;
+  }
+  autosave_->discard();
+  autosaved_json_.clear();
+  remember_recent(path);
+  status_->setText(QStringLiteral("Saved %1.").arg(path));
+  return true;
+}
+
+bool MainWindow::maybe_save() {
+  if (!session_->document().needs_save_prompt()) return true;
+  const auto answer = ask(QStringLiteral("Unsaved changes"),
+                          QStringLiteral("%1 has changes that are not saved. Save them first?")
+                              .arg(session_->document().display_name()),
+                          QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel, prompt_answer_);
+  if (answer == QMessageBox::Save) return save();
+  return answer == QMessageBox::Discard;
+}
+
+void MainWindow::autosave_now() {
+  if (!session_->document().modified()) return;
+  const QString json = session_->case_json();
+  if (json == autosaved_json_) return;
+  QString error;
+  if (autosave_->write(json, session_->document().path(), QString::fromStdString(session_->spec().label), &error)) {
+    autosaved_json_ = json;
+  } else {
+    status_->setText(QStringLiteral("Autosave failed: ") + error);
+  }
+}
+
+void MainWindow::check_recovery() {
+  const auto found = autosave_->recoverable();
+  if (found.empty()) return;
+  // The newest copy is offered; older ones are left for a later start.
+  const RecoverableCase* newest = &found.front();
+  for (const auto& f : found)
+    if (f.saved_at > newest->saved_at) newest = &f;
+  const auto answer =
+      ask(QStringLiteral("Recover unsaved work"),
+          QStringLiteral("Sharpey did not close normally. An autosaved copy of \"%1\" (%2) from %3 exists. "
+                         "Recover it?")
+              .arg(newest->label, newest->original_path.isEmpty() ? QStringLiteral("untitled") : newest->original_path,
+                   newest->saved_at.toLocalTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))),
+          QMessageBox::Yes | QMessageBox::No, QMessageBox::Yes);
+  if (answer != QMessageBox::Yes) {
+    AutosaveStore::remove(*newest);
+    return;
+  }
+  try {
+    const analysis::CaseSpec spec = analysis::load_case(newest->case_path.toStdString());
+    session_->recover(spec, newest->original_path);
+    AutosaveStore::remove(*newest);
+    autosave_now();  // the recovered work now belongs to this session
+    solve();
+  } catch (const Error& e) {
+    show_error(QStringLiteral("Could not recover the case"), QString::fromStdString(e.what()));
+  }
+}
+
+void MainWindow::closeEvent(QCloseEvent* event) {
+  if (!maybe_save()) {
+    event->ignore();
+    return;
+  }
+  cancel_solve();
+  autosave_->discard();
+  event->accept();
+}
+
+// ---------------------------------------------------------------------------------------------
+// Solving
+
+bool MainWindow::solving() const { return job_->running(); }
+
+void MainWindow::solve() {
+  if (solving()) return;
+  analysis::CaseSpec spec = session_->spec();
+  spec.scenarios = session_->levels().scenarios();
+  if (!job_->start(spec)) return;
+  set_solving_ui(true);
+  status_->setText(QStringLiteral("Meshing and solving\u2026"));
+}
+
+void MainWindow::cancel_solve() {
+  if (solving()) {
+    job_->cancel();
+    status_->setText(QStringLiteral("Cancelling after the current step\u2026"));
+  }
+}
+
+void MainWindow::set_solving_ui(bool on) {
+  progress_->setVisible(on);
+  cancel_->setVisible(on);
+  if (on) progress_->setValue(0);
+  case_panel_->set_stale(!on && session_->study() && session_->geometry_stale(), on);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Exports
+
+QImage MainWindow::view_image(ViewKind which) {
+  switch (which) {
+    case ViewKind::k3D: return result_view_->grab_image();
+    case ViewKind::kRootMap: return root_map_->grab().toImage();
+    case ViewKind::kComparison:
+      if (tabs_->currentWidget() != comparison_) {
+        const int was = tabs_->currentIndex();
+        show_view(ViewKind::kComparison);
+        QApplication::processEvents();
+        const QImage image = comparison_->grab_views();
+        tabs_->setCurrentIndex(was);
+        return image;
+      }
+      return comparison_->grab_views();
+  }
+  return {};
+}
+
+bool MainWindow::export_image(const QString& path, ViewKind which) {
+  const QImage image = view_image(which);
+  if (image.isNull() || !image.save(path, "PNG")) {
+    show_error(QStringLiteral("Could not export the image"),
+               QStringLiteral("Writing %1 failed (no permission, or the folder does not exist).").arg(path));
+    return false;
+  }
+  status_->setText(QStringLiteral("Image written to %1.").arg(path));
+  return true;
+}
+
+bool MainWindow::export_report(const QString& path) {
+  if (session_->results().empty()) {
+    show_error(QStringLiteral("No report yet"), QStringLiteral("There are no results yet: open or solve a case first."));
+    return false;
+  }
+  ReportInputs in;
+  in.spec = &session_->spec();
+  in.results = &session_->results();
+  in.current = session_->current();
+  in.load = session_->load_controls();
+  in.case_file = session_->document().display_name();
+  in.view_3d = view_image(ViewKind::k3D);
+  in.comparison = session_->results().size() > 1 ? view_image(ViewKind::kComparison) : QImage();
+  in.stale = session_->geometry_stale();
+  QString error;
+  if (write_report(path, in, &error) != kReportPages) {
+    show_error(QStringLiteral("Could not write the report"), error);
+    return false;
+  }
+  status_->setText(QStringLiteral("Report written to %1.").arg(path));
+  return true;
+}
+
+bool MainWindow::export_data(const QString& folder) {
+  const analysis::Study* study = session_->study();
+  if (!study || session_->results().empty()) {
+    show_error(QStringLiteral("Nothing to export"), QStringLiteral("There are no results yet: open or solve a case first."));
+    return false;
+  }
+  try {
+    const QDir dir(folder);
+    if (!dir.exists() && !QDir().mkpath(folder))
+      throw analysis::OutputError("cannot create the folder " + folder.toStdString());
+    const auto& results = session_->results();
+    const analysis::CaseSpec& spec = study->spec();
+    auto out = [&](const std::string& name) { return dir.filePath(QString::fromStdString(name)).toStdString(); };
+    analysis::write_file_atomic(out("results.json"),
+                                analysis::results_json(session_->spec(), results, analysis::scenario_facts(*study, false)));
+    analysis::write_file_atomic(out("summary.csv"), analysis::summary_csv(session_->spec(), results));
+    analysis::write_file_atomic(out("summary.txt"), analysis::summary_text(session_->spec(), results));
+    for (size_t k = 0; k < results.size(); ++k) {
+      const std::string stem = analysis::scenario_file_stem(static_cast<int>(k), results[k].name);
+      analysis::write_file_atomic(out(stem + "_root_map.csv"), analysis::root_map_csv(spec, results[k]));
+      analysis::write_scenario_vtu(*study->solutions()[k], results[k], out(stem + "_model.vtu"),
+                                   out(stem + "_pdl.vtu"));
+    }
+  } catch (const Error& e) {
+    show_error(QStringLiteral("Could not export the results"), QString::fromStdString(e.what()));
+    return false;
+  }
+  status_->setText(QStringLiteral("Results written to %1.").arg(folder));
+  return true;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Dialogs
+
+void MainWindow::show_error(const QString& title, const QString& message) {
+  last_error_ = message;
+  if (options_.dialogs) QMessageBox::warning(this, title, message);
+}
+
+QMessageBox::StandardButton MainWindow::ask(const QString& title, const QString& text,
+                                            QMessageBox::StandardButtons buttons,
+                                            QMessageBox::StandardButton fallback) {
+  ++prompts_;
+  if (!options_.dialogs) return fallback;
+  return QMessageBox::question(this, title, text, buttons);
+}
+
+}  // namespace sharpey::app

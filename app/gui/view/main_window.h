@@ -1,0 +1,146 @@
+// The Sharpey main window: case and force-system panels on the left, the 3D view, root map and
+// bone-level comparison in the middle, the findings on the right, the caution always visible at
+// the bottom, solve progress with a cancel button in the status bar. File handling (new, open,
+// samples, recent files, save, save as, unsaved-changes prompt, autosave with recovery) and the
+// exports (PNG, PDF report, CSV / JSON / VTU) live here; every number comes from the library.
+#pragma once
+
+#include <QMainWindow>
+#include <QMessageBox>
+#include <QString>
+#include <functional>
+#include <memory>
+#include <optional>
+
+#include "sharpey/mesh/tooth_model.h"
+
+class QComboBox;
+class QLabel;
+class QMenu;
+class QProgressBar;
+class QTabWidget;
+class QToolButton;
+
+namespace sharpey::app {
+
+class AutosaveStore;
+class CaseSession;
+class CasePanel;
+class ComparisonView;
+class FindingsPanel;
+class LoadPanel;
+class ResultView;
+class RootMapView;
+class SolveJob;
+
+struct MainWindowOptions {
+  QString autosave_folder;                          // empty: <app data>/autosave
+  int autosave_interval_ms = 20000;
+  std::optional<mesh::MeshPreset> mesh_override;    // --mesh: replaces the case's preset on open
+  bool dialogs = true;  // false (tests): no modal dialogs; errors are recorded, prompts use answers
+};
+
+enum class ViewKind { k3D, kRootMap, kComparison };
+
+class MainWindow : public QMainWindow {
+  Q_OBJECT
+
+ public:
+  explicit MainWindow(const MainWindowOptions& options = {});
+  ~MainWindow() override;
+
+  // ---- files ----
+  void new_case();
+  // Opens a case file and starts meshing and solving it. False (and an error) on a bad file.
+  bool open_case(const QString& path);
+  bool save();
+  bool save_as(const QString& path);
+  // Asks about unsaved changes; true when the caller may go on (saved or discarded).
+  bool maybe_save();
+  // Offers the autosaved copies of sessions that ended without closing; recovers the chosen one.
+  void check_recovery();
+
+  // ---- solving ----
+  void solve();
+  void cancel_solve();
+  bool solving() const;
+
+  // ---- exports ----
+  QImage view_image(ViewKind which);
+  bool export_image(const QString& path, ViewKind which);
+  bool export_report(const QString& path);
+  bool export_data(const QString& folder);
+
+  // ---- parts, for tests ----
+  CaseSession& session() { return *session_; }
+  ResultView* result_view() const { return result_view_; }
+  RootMapView* root_map() const { return root_map_; }
+  ComparisonView* comparison() const { return comparison_; }
+  LoadPanel* load_panel() const { return load_panel_; }
+  CasePanel* case_panel() const { return case_panel_; }
+  FindingsPanel* findings() const { return findings_; }
+  QTabWidget* tabs() const { return tabs_; }
+  QLabel* caution_label() const { return caution_; }
+  void show_view(ViewKind which);
+  // The last error shown to the user (also recorded when dialogs are off).
+  const QString& last_error() const { return last_error_; }
+  int prompts_shown() const { return prompts_; }
+  // Answer given to prompts when dialogs are off (default: discard unsaved changes, recover).
+  void set_prompt_answer(QMessageBox::StandardButton answer) { prompt_answer_ = answer; }
+  AutosaveStore& autosave() { return *autosave_; }
+  void autosave_now();
+
+ signals:
+  void solve_finished();
+  void solve_failed(const QString& message);
+
+ protected:
+  void closeEvent(QCloseEvent* event) override;
+
+ private:
+  void build_menus();
+  void build_layout();
+  void connect_session();
+  void refresh_results(bool interactive);
+  void refresh_scenario_choice();
+  void refresh_title();
+  void refresh_recent_menu();
+  void refresh_comparison();
+  void show_error(const QString& title, const QString& message);
+  QMessageBox::StandardButton ask(const QString& title, const QString& text,
+                                  QMessageBox::StandardButtons buttons, QMessageBox::StandardButton fallback);
+  QString force_text() const;
+  void set_solving_ui(bool on);
+  void remember_recent(const QString& path);
+
+  MainWindowOptions options_;
+  std::unique_ptr<CaseSession> session_;
+  std::unique_ptr<SolveJob> job_;
+  std::unique_ptr<AutosaveStore> autosave_;
+  QString autosaved_json_;
+  CasePanel* case_panel_ = nullptr;
+  LoadPanel* load_panel_ = nullptr;
+  ResultView* result_view_ = nullptr;
+  RootMapView* root_map_ = nullptr;
+  ComparisonView* comparison_ = nullptr;
+  FindingsPanel* findings_ = nullptr;
+  QTabWidget* tabs_ = nullptr;
+  QComboBox* scenario_box_ = nullptr;
+  QLabel* load_summary_ = nullptr;
+  QLabel* caution_ = nullptr;
+  QLabel* status_ = nullptr;
+  QProgressBar* progress_ = nullptr;
+  QToolButton* cancel_ = nullptr;
+  QMenu* recent_menu_ = nullptr;
+  QMenu* samples_menu_ = nullptr;
+  QString last_error_;
+  int prompts_ = 0;
+  QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
+  bool comparison_dirty_ = true;
+};
+
+// Folder of the bundled sample cases (SHARPEY_SAMPLES_DIR, the installed share folder, or the
+// source tree's samples/).
+QString samples_folder();
+
+}  // namespace sharpey::app

@@ -1,0 +1,282 @@
+#include "view/report_writer.h"
+
+#include <QDateTime>
+#include <QFileInfo>
+#include <QPageLayout>
+#include <QPageSize>
+#include <QPainter>
+#include <QPdfWriter>
+#include <QTextOption>
+
+#include "core/scenario_table.h"
+#include "core/units.h"
+#include "core/verdict.h"
+#include "view/case_panel.h"
+#include "view/findings_panel.h"
+#include "view/root_map_view.h"
+#include "view/trend_plot.h"
+
+namespace sharpey::app {
+
+namespace {
+
+// Page geometry in device units of the writer (300 dpi).
+struct Page {
+  QPainter* p;
+  QRect body;
+  int y;
+  int line;  // height of a body text line
+
+  void heading(const QString& text, double scale = 1.5) {
+    QFont f = p->font();
+    const QFont saved = f;
+    f.setBold(true);
+    f.setPointSizeF(saved.pointSizeF() * scale);
+    p->setFont(f);
+    const QRect r(body.left(), y, body.width(), static_cast<int>(line * scale * 1.4));
+    p->drawText(r, Qt::AlignLeft | Qt::AlignVCenter, text);
+    y = r.bottom() + line / 3;
+    p->setFont(saved);
+  }
+  // Wrapped paragraph; returns its height.
+  int paragraph(const QString& text, const QColor& colour = Qt::black, bool bold = false) {
+    const QFont saved = p->font();
+    QFont f = saved;
+    f.setBold(bold);
+    p->setFont(f);
+    p->setPen(colour);
+    const QRect bound = p->boundingRect(QRect(body.left(), y, body.width(), 100000),
+                                        Qt::TextWordWrap | Qt::AlignLeft, text);
+    p->drawText(QRect(body.left(), y, body.width(), bound.height()), Qt::TextWordWrap | Qt::AlignLeft, text);
+    y += bound.height() + line / 3;
+    p->setPen(Qt::black);
+    p->setFont(saved);
+    return bound.height();
+  }
+  void rows(const std::vector<std::pair<QString, QString>>& items, int label_width) {
+    for (const auto& [name, value] : items) {
+      p->setPen(QColor(70, 70, 70));
+      p->drawText(QRect(body.left(), y, label_width, line), Qt::AlignLeft | Qt::AlignVCenter, name);
+      p->setPen(Qt::black);
+      const QRect bound = p->boundingRect(QRect(body.left() + label_width, y, body.width() - label_width, 100000),
+                                          Qt::TextWordWrap, value);
+      p->drawText(QRect(body.left() + label_width, y, body.width() - label_width, std::max(line, bound.height())),
+                  Qt::TextWordWrap | Qt::AlignLeft | Qt::AlignVCenter, value);
+      y += std::max(line, bound.height()) + line / 5;
+    }
+    y += line / 3;
+  }
+  void image(const QImage& img, int max_height) {
+    if (img.isNull()) return;
+    const QSize fitted = img.size().scaled(body.width(), max_height, Qt::KeepAspectRatio);
+    const QRect target(body.left() + (body.width() - fitted.width()) / 2, y, fitted.width(), fitted.height());
+    p->drawImage(target, img);
+    y = target.bottom() + line / 2;
+  }
+};
+
+void footer(QPainter& p, const QRect& page, int number, const QString& case_file) {
+  const QFont saved = p.font();
+  QFont f = saved;
+  f.setPointSizeF(saved.pointSizeF() * 0.8);
+  p.setFont(f);
+  const int h = p.fontMetrics().height();
+  const QRect box(page.left(), page.bottom() - 3 * h, page.width(), 3 * h);
+  p.setPen(QColor(90, 90, 90));
+  p.drawLine(box.topLeft(), box.topRight());
+  p.drawText(box.adjusted(0, h / 3, 0, 0), Qt::TextWordWrap | Qt::AlignLeft,
+             QString::fromStdString(analysis::caution_text()));
+  p.drawText(QRect(page.left(), page.bottom() - h, page.width(), h), Qt::AlignRight,
+             QStringLiteral("Sharpey report, %1, page %2 of %3").arg(case_file).arg(number).arg(kReportPages));
+  p.setFont(saved);
+  p.setPen(Qt::black);
+}
+
+QString describe_case(const analysis::CaseSpec& s) {
+  const auto& m = s.model;
+  return QStringLiteral("%1; crown %2, root %3; PDL width %4 / %5 / %6 mm (crest / mid-root / apex), "
+                        "E %7 MPa, \u03bd %8; healthy crest %9 below the CEJ; mesh preset %10.")
+      .arg(tooth_name(static_cast<int>(m.tooth.type)))
+      .arg(with_unit(m.tooth.dimensions.crown_length_mm, QStringLiteral("mm"), 1))
+      .arg(with_unit(m.tooth.dimensions.root_length_mm, QStringLiteral("mm"), 1))
+      .arg(m.pdl.crest_width_mm, 0, 'f', 2)
+      .arg(m.pdl.mid_width_mm, 0, 'f', 2)
+      .arg(m.pdl.apex_width_mm, 0, 'f', 2)
+      .arg(s.pdl_material.young_modulus_mpa, 0, 'f', 2)
+      .arg(s.pdl_material.poisson_ratio, 0, 'f', 2)
+      .arg(with_unit(m.bone.crest_below_cej_mm, QStringLiteral("mm"), 1))
+      .arg(QString::fromStdString(mesh::to_string(m.sizing.preset)));
+}
+
+}  // namespace
+
+int write_report(const QString& path, const ReportInputs& in, QString* error) {
+  if (!in.spec || !in.results || in.results->empty()) {
+    if (error) *error = QStringLiteral("there are no results to report yet; open or solve a case first");
+    return 0;
+  }
+  const analysis::CaseSpec& spec = *in.spec;
+  const auto& results = *in.results;
+  const int current = std::clamp(in.current, 0, static_cast<int>(results.size()) - 1);
+  const analysis::ScenarioResult& r = results[static_cast<size_t>(current)];
+
+  QPdfWriter writer(path);
+  writer.setPageSize(QPageSize(QPageSize::A4));
+  writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
+  writer.setResolution(300);
+  writer.setTitle(QStringLiteral("Sharpey report: ") + QString::fromStdString(spec.label));
+  writer.setCreator(QStringLiteral("Sharpey"));
+  QPainter painter;
+  if (!painter.begin(&writer)) {
+    if (error) *error = QStringLiteral("cannot write %1 (no permission, or the folder does not exist)").arg(path);
+    return 0;
+  }
+  QFont font(QStringLiteral("DejaVu Sans"));
+  font.setPointSizeF(9.5);
+  painter.setFont(font);
+  const QRect page = painter.viewport();
+  const int line = painter.fontMetrics().height();
+  const QRect body(page.left(), page.top(), page.width(), page.height() - 4 * line);
+  int pages = 0;
+
+  // ---- page 1: case, force system, thresholds, verdict, key numbers ----
+  {
+    Page pg{&painter, body, body.top(), line};
+    pg.heading(QStringLiteral("Sharpey report"), 2.0);
+    pg.paragraph(QString::fromStdString(spec.label), Qt::black, true);
+    pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
+                     .arg(in.case_file, QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))));
+    // The caution, boxed.
+    const QString caution = QString::fromStdString(analysis::caution_text());
+    const QRect bound = painter.boundingRect(QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, 100000),
+                                             Qt::TextWordWrap, caution);
+    const QRect box(body.left(), pg.y, body.width(), bound.height() + line);
+    painter.fillRect(box, QColor(246, 231, 193));
+    painter.setPen(QPen(QColor(156, 110, 20), 4));
+    painter.drawLine(box.topLeft(), box.bottomLeft());
+    painter.setPen(QColor(70, 50, 0));
+    painter.drawText(QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, bound.height()),
+                     Qt::TextWordWrap, caution);
+    painter.setPen(Qt::black);
+    pg.y = box.bottom() + line;
+    if (in.stale) {
+      pg.paragraph(QStringLiteral("Note: the case geometry was edited after the last solve; the results "
+                                  "below belong to the geometry that was solved."),
+                   QColor(120, 60, 0), true);
+    }
+    pg.heading(QStringLiteral("Model"));
+    pg.paragraph(describe_case(spec));
+    pg.heading(QStringLiteral("Force system"));
+    pg.paragraph(describe(in.load) + '.');
+    pg.paragraph(QStringLiteral("Resolved at the bracket for %1: force (%2, %3, %4) N, couple (%5, %6, %7) N\u00b7mm, "
+                                "moment-to-force ratio %8.")
+                     .arg(QString::fromStdString(r.name))
+                     .arg(r.load.force_n.x(), 0, 'f', 3)
+                     .arg(r.load.force_n.y(), 0, 'f', 3)
+                     .arg(r.load.force_n.z(), 0, 'f', 3)
+                     .arg(r.load.couple_nmm.x(), 0, 'f', 1)
+                     .arg(r.load.couple_nmm.y(), 0, 'f', 1)
+                     .arg(r.load.couple_nmm.z(), 0, 'f', 1)
+                     .arg(with_unit(r.load.moment_to_force_mm, QStringLiteral("mm"), 1)));
+    pg.heading(QStringLiteral("Thresholds and their sources"));
+    pg.rows({{QStringLiteral("capillary pressure"),
+              with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
+                  QString::fromStdString(spec.thresholds.capillary.source)},
+             {QStringLiteral("physiological limit"),
+              with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
+                  QString::fromStdString(spec.thresholds.limit.source)}},
+            body.width() / 4);
+    const Verdict v = judge(r, spec.thresholds);
+    pg.heading(QStringLiteral("Reading for %1").arg(QString::fromStdString(r.name)));
+    const QRect badge(body.left(), pg.y, body.width(), static_cast<int>(line * 1.6));
+    painter.fillRect(badge, verdict_background(v.level));
+    painter.setPen(Qt::white);
+    QFont bold = font;
+    bold.setBold(true);
+    painter.setFont(bold);
+    painter.drawText(badge.adjusted(line / 2, 0, 0, 0), Qt::AlignLeft | Qt::AlignVCenter, v.headline);
+    painter.setFont(font);
+    painter.setPen(Qt::black);
+    pg.y = badge.bottom() + line / 2;
+    pg.paragraph(v.detail);
+    pg.rows(key_number_rows(r), body.width() / 3);
+    footer(painter, page, ++pages, in.case_file);
+  }
+
+  // ---- page 2: the scenario on display, 3D and root map ----
+  writer.newPage();
+  {
+    Page pg{&painter, body, body.top(), line};
+    pg.heading(QStringLiteral("%1: ligament pressure").arg(QString::fromStdString(r.name)));
+    pg.paragraph(QStringLiteral("3D view: hydrostatic pressure in the PDL (compression positive), threshold "
+                                "iso-lines, force arrow at the bracket, centre of resistance (CRes) and centre "
+                                "of rotation (CRot)."));
+    pg.image(in.view_3d, body.height() / 2 - 4 * line);
+    pg.paragraph(QStringLiteral("Root map: the root surface unrolled, angle around the root against depth below "
+                                "the CEJ."));
+    RootMapView map;
+    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)));
+    const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
+    // Paint at screen-like size and scale, so fonts keep their proportion to the drawing.
+    const QSize logical(1100, 1100 * map_height / std::max(1, body.width()));
+    painter.save();
+    painter.translate(body.left(), pg.y);
+    painter.scale(static_cast<double>(body.width()) / logical.width(), static_cast<double>(body.width()) / logical.width());
+    QFont small = font;
+    small.setPointSizeF(font.pointSizeF() * 0.9 * logical.width() / body.width());
+    painter.setFont(small);
+    map.paint_into(painter, QRect(QPoint(0, 0), logical));
+    painter.restore();
+    painter.setFont(font);
+    footer(painter, page, ++pages, in.case_file);
+  }
+
+  // ---- page 3: bone-level comparison ----
+  writer.newPage();
+  {
+    Page pg{&painter, body, body.top(), line};
+    pg.heading(QStringLiteral("Bone levels compared"));
+    pg.paragraph(QStringLiteral("Same force system at every bone level; one colour scale for all views."));
+    pg.image(in.comparison, body.height() / 3);
+    const ScenarioTable table = make_table(results);
+    // Table: one column per scenario.
+    const int label_w = body.width() * 2 / 5;
+    const int col_w = (body.width() - label_w) / std::max(1, static_cast<int>(table.row_names.size()));
+    QFont bold = font;
+    bold.setBold(true);
+    painter.setFont(bold);
+    for (int s = 0; s < table.row_names.size(); ++s)
+      painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight, table.row_names[s]);
+    painter.setFont(font);
+    pg.y += line + line / 4;
+    for (int c = 0; c < static_cast<int>(table.columns.size()); ++c) {
+      if (c % 2 == 0) painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
+      painter.drawText(QRect(body.left(), pg.y, label_w, line), Qt::AlignLeft | Qt::AlignVCenter, table.header_text(c));
+      for (int s = 0; s < table.row_names.size(); ++s)
+        painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight | Qt::AlignVCenter,
+                         table.cell_text(s, c));
+      pg.y += line;
+    }
+    pg.y += line;
+    TrendPlot plot;
+    plot.set_table(table);
+    const int plot_height = body.bottom() - pg.y;
+    if (plot_height > 10 * line) {
+      const QSize logical(1100, 1100 * plot_height / body.width());
+      painter.save();
+      painter.translate(body.left(), pg.y);
+      painter.scale(static_cast<double>(body.width()) / logical.width(), static_cast<double>(body.width()) / logical.width());
+      QFont small = font;
+      small.setPointSizeF(font.pointSizeF() * 0.9 * logical.width() / body.width());
+      painter.setFont(small);
+      plot.paint_into(painter, QRect(QPoint(0, 0), logical));
+      painter.restore();
+      painter.setFont(font);
+    }
+    footer(painter, page, ++pages, in.case_file);
+  }
+  painter.end();
+  return pages;
+}
+
+}  // namespace sharpey::app

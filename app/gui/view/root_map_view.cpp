@@ -1,0 +1,195 @@
+#include "view/root_map_view.h"
+
+#include <QImage>
+#include <QPainter>
+#include <cmath>
+
+#include "core/axis_ticks.h"
+#include "core/iso_lines.h"
+#include "view/colour_bar.h"
+
+namespace sharpey::app {
+
+namespace {
+
+// Value of the map at fractional cell coordinates (column x, row y; cell centres at integers):
+// bilinear between the four nearest cell centres, periodic in angle; where one of them has no
+// ligament, the nearest cell's value (so the crest edge stays sharp).
+double sample(const analysis::RootMap& m, double x, double y) {
+  auto at = [&](int row, int col) {
+    col = ((col % m.n_angle) + m.n_angle) % m.n_angle;
+    row = std::clamp(row, 0, m.n_depth - 1);
+    return m.pressure_kpa[static_cast<size_t>(row) * static_cast<size_t>(m.n_angle) + static_cast<size_t>(col)];
+  };
+  const int c0 = static_cast<int>(std::floor(x)), r0 = static_cast<int>(std::floor(y));
+  const double fx = x - c0, fy = y - r0;
+  const double v00 = at(r0, c0), v01 = at(r0, c0 + 1), v10 = at(r0 + 1, c0), v11 = at(r0 + 1, c0 + 1);
+  if (std::isfinite(v00) && std::isfinite(v01) && std::isfinite(v10) && std::isfinite(v11))
+    return (1 - fy) * ((1 - fx) * v00 + fx * v01) + fy * ((1 - fx) * v10 + fx * v11);
+  return at(static_cast<int>(std::lround(y)), static_cast<int>(std::lround(x)));
+}
+
+const char* const kSideNames[] = {"labial", "mesial", "lingual", "distal", "labial"};
+
+}  // namespace
+
+RootMapView::RootMapView(QWidget* parent) : QWidget(parent) {
+  setMinimumSize(420, 280);
+  setAutoFillBackground(true);
+}
+
+void RootMapView::set_map(const analysis::RootMap& map, const analysis::Thresholds& thresholds,
+                          const QString& title, const ValueRange* fixed_range) {
+  map_ = map;
+  thresholds_ = thresholds;
+  title_ = title;
+  scale_ = ColourScale(Quantity::kPressure, fixed_range ? *fixed_range : finite_range(map.pressure_kpa));
+  update();
+}
+
+void RootMapView::clear() {
+  map_ = analysis::RootMap{};
+  update();
+}
+
+void RootMapView::paintEvent(QPaintEvent*) {
+  QPainter painter(this);
+  paint_into(painter, rect());
+}
+
+void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
+  painter.save();
+  painter.setRenderHint(QPainter::Antialiasing, true);
+  const QColor text = palette().windowText().color();
+  painter.fillRect(area, palette().window());
+  const QFontMetrics fm(painter.font());
+  const int line = fm.height();
+  if (!has_map()) {
+    painter.setPen(text);
+    painter.drawText(area, Qt::AlignCenter, QStringLiteral("No root map yet: open or solve a case."));
+    painter.restore();
+    return;
+  }
+  const int bar_width = 110;
+  const QRect title_rect(area.left() + 8, area.top() + 4, area.width() - 16, line + 4);
+  QFont title_font = painter.font();
+  title_font.setBold(true);
+  painter.setFont(title_font);
+  painter.setPen(text);
+  painter.drawText(title_rect, Qt::AlignLeft | Qt::AlignVCenter, title_);
+  title_font.setBold(false);
+  painter.setFont(title_font);
+  const int left = area.left() + fm.horizontalAdvance(QStringLiteral("00.0")) + line + 16;
+  const QRect plot(left, title_rect.bottom() + 2 * line + 6,
+                   area.right() - bar_width - left - 8,
+                   area.bottom() - title_rect.bottom() - 5 * line - 16);
+  if (plot.width() < 40 || plot.height() < 40) {
+    painter.restore();
+    return;
+  }
+  const int n_a = map_.n_angle, n_d = map_.n_depth;
+  // Image: each pixel samples the map (cell centres at (j + 0.5) / n_a of the width).
+  QImage image(plot.size(), QImage::Format_RGB32);
+  const QColor hatch_back(226, 226, 226), hatch_line(196, 196, 196);
+  for (int py = 0; py < plot.height(); ++py) {
+    const double y = (py + 0.5) / plot.height() * n_d - 0.5;
+    auto* row = reinterpret_cast<QRgb*>(image.scanLine(py));
+    for (int px = 0; px < plot.width(); ++px) {
+      const double x = (px + 0.5) / plot.width() * n_a - 0.5;
+      const double v = sample(map_, x, y);
+      if (std::isfinite(v)) {
+        row[px] = to_qcolor(scale_.colour(v)).rgb();
+      } else {  // no ligament: light diagonal hatching
+        row[px] = ((px + py) % 9 == 0 ? hatch_line : hatch_back).rgb();
+      }
+    }
+  }
+  painter.drawImage(plot.topLeft(), image);
+  painter.setPen(QPen(QColor(60, 60, 60), 1));
+  painter.setBrush(Qt::NoBrush);
+  painter.drawRect(plot);
+
+  // Threshold outlines: marching squares on the cell grid, with the first column repeated after
+  // the last so outlines close across 360 degrees.
+  std::vector<double> wrapped(static_cast<size_t>(n_d) * static_cast<size_t>(n_a + 1));
+  for (int r = 0; r < n_d; ++r)
+    for (int c = 0; c <= n_a; ++c)
+      wrapped[static_cast<size_t>(r) * static_cast<size_t>(n_a + 1) + static_cast<size_t>(c)] =
+          map_.pressure_kpa[static_cast<size_t>(r) * static_cast<size_t>(n_a) + static_cast<size_t>(c % n_a)];
+  auto to_px = [&](double x, double y) {
+    return QPointF(plot.left() + (x + 0.5) / n_a * plot.width(), plot.top() + (y + 0.5) / n_d * plot.height());
+  };
+  n_segments_ = 0;
+  struct Outline {
+    double level;
+    QPen pen;
+  };
+  const Outline outlines[] = {
+      {thresholds_.capillary.value_kpa, QPen(to_qcolor(capillary_line_colour()), 2.0, Qt::DashLine)},
+      {thresholds_.limit.value_kpa, QPen(to_qcolor(limit_line_colour()), 2.6, Qt::SolidLine)}};
+  painter.save();
+  painter.setClipRect(plot);
+  for (const Outline& o : outlines) {
+    painter.setPen(o.pen);
+    for (const IsoSegment& s : iso_segments(wrapped, n_d, n_a + 1, o.level)) {
+      painter.drawLine(to_px(s.x0, s.y0), to_px(s.x1, s.y1));
+      ++n_segments_;
+    }
+  }
+  painter.restore();
+
+  // Axes: angle with the sides named, depth below the CEJ.
+  painter.setPen(text);
+  for (int k = 0; k <= 8; ++k) {
+    const double x = plot.left() + k / 8.0 * plot.width();
+    painter.drawLine(QPointF(x, plot.bottom()), QPointF(x, plot.bottom() + 4));
+    QString label = QStringLiteral("%1\u00b0").arg(45 * k);
+    if (k % 2 == 0) label += QStringLiteral("\n") + QLatin1String(kSideNames[k / 2]);
+    painter.drawText(QRectF(x - 40, plot.bottom() + 5, 80, 2 * line), Qt::AlignHCenter | Qt::AlignTop, label);
+  }
+  painter.drawText(QRectF(plot.left(), plot.bottom() + 2 * line + 6, plot.width(), line), Qt::AlignHCenter,
+                   QStringLiteral("angle around the root (0\u00b0 labial, 90\u00b0 mesial)"));
+  const double d0 = map_.depth_min_mm, d1 = map_.depth_max_mm;
+  const double step = nice_step(d0, d1, 6);
+  for (double d : nice_ticks(d0, d1, 6)) {
+    const double y = plot.top() + (d - d0) / (d1 - d0) * plot.height();
+    painter.drawLine(QPointF(plot.left() - 4, y), QPointF(plot.left(), y));
+    painter.drawText(QRectF(area.left(), y - line / 2.0, plot.left() - area.left() - 6, line),
+                     Qt::AlignRight | Qt::AlignVCenter, tick_label(d, step));
+  }
+  painter.save();
+  painter.translate(area.left() + line / 2.0 + 2, plot.center().y());
+  painter.rotate(-90);
+  painter.drawText(QRectF(-plot.height() / 2.0, -line / 2.0, plot.height(), line), Qt::AlignCenter,
+                   QStringLiteral("depth below the CEJ (mm)"));
+  painter.restore();
+
+  // Legend above the plot.
+  const int ly = title_rect.bottom() + line / 2 + 4;
+  int lx = plot.left();
+  auto legend_line = [&](const QPen& pen, const QString& label) {
+    painter.setPen(pen);
+    painter.drawLine(lx, ly + line / 2, lx + 26, ly + line / 2);
+    painter.setPen(text);
+    painter.drawText(QRect(lx + 30, ly, 400, line), Qt::AlignLeft | Qt::AlignVCenter, label);
+    lx += 30 + fm.horizontalAdvance(label) + 18;
+  };
+  legend_line(outlines[0].pen, QStringLiteral("capillary pressure %1 kPa").arg(thresholds_.capillary.value_kpa, 0, 'f', 1));
+  legend_line(outlines[1].pen, QStringLiteral("physiological limit %1 kPa").arg(thresholds_.limit.value_kpa, 0, 'f', 1));
+  painter.fillRect(QRect(lx, ly + 2, 26, line - 4), hatch_back);
+  painter.setPen(hatch_line);
+  painter.drawRect(QRect(lx, ly + 2, 26, line - 4));
+  painter.setPen(text);
+  painter.drawText(QRect(lx + 30, ly, 300, line), Qt::AlignLeft | Qt::AlignVCenter,
+                   QStringLiteral("no ligament (above the crest)"));
+
+  // Colour bar.
+  std::vector<BarMark> marks = {
+      {thresholds_.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
+      {thresholds_.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+  ColourBar::draw(painter, QRect(plot.right() + 8, plot.top() - 3 * line, bar_width, plot.height() + 3 * line + line),
+                  scale_, QStringLiteral("pressure"), QStringLiteral("kPa"), marks, text);
+  painter.restore();
+}
+
+}  // namespace sharpey::app
