@@ -93,6 +93,7 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
       y1 = std::max(y1, v);
     }
     painter.setPen(QPen(QColor(150, 150, 150), 1));
+    painter.setBrush(Qt::NoBrush);
     painter.drawRect(plot);
     if (values.empty()) {
       painter.setPen(text);

@@ -1,0 +1,199 @@
+// The whole window on the incisor sample (coarse mesh override for speed): opening meshes and
+// solves at once, the 3D view shows colour-mapped pixels, the colour bar spans the computed
+// pressure range, doubling the force in the panel doubles the displayed peak, and the exports
+// (PDF report with its pages, caution and threshold sources; PNG; CSV/JSON/VTU) are written.
+#include <gtest/gtest.h>
+
+#include <QDir>
+#include <QDoubleSpinBox>
+#include <QFile>
+#include <QLabel>
+#include <QRegularExpression>
+#include <QProcess>
+#include <QStandardPaths>
+#include <QTemporaryDir>
+#include <QTest>
+#include <algorithm>
+
+#include "core/autosave_store.h"
+#include "core/case_session.h"
+#include "core/colour_map.h"
+#include "support/image_checks.h"
+#include "support/solved_sample.h"
+#include "view/colour_bar.h"
+#include "view/load_panel.h"
+#include "view/main_window.h"
+#include "view/result_view.h"
+#include "view/vtk_view.h"
+
+namespace sharpey::app {
+namespace {
+
+using testing::count_pixels;
+
+int colour_map_pixels(const QImage& image) {
+  std::vector<QColor> palette;
+  for (int i = -20; i <= 20; ++i)
+    if (std::abs(i) >= 4) palette.push_back(to_qcolor(diverging_colour(i / 20.0)));
+  return count_pixels(image, [&](const QColor& c) {
+    if (c.hsvSaturationF() < 0.25f) return false;
+    for (const QColor& p : palette)
+      if (std::abs(c.red() - p.red()) + std::abs(c.green() - p.green()) + std::abs(c.blue() - p.blue()) < 60)
+        return true;
+    return false;
+  });
+}
+
+// Runs a program and returns its standard output (empty when it is missing).
+QString run(const QString& program, const QStringList& args) {
+  QProcess p;
+  p.start(program, args);
+  if (!p.waitForFinished(60000)) return {};
+  return QString::fromUtf8(p.readAllStandardOutput());
+}
+
+MainWindow* g_window = nullptr;
+QTemporaryDir* g_dir = nullptr;
+
+class MainWindowTest : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    QStandardPaths::setTestModeEnabled(true);  // recent files and settings stay out of $HOME
+    g_dir = new QTemporaryDir;
+    MainWindowOptions options;
+    options.dialogs = false;
+    options.mesh_override = mesh::MeshPreset::kCoarse;
+    options.autosave_folder = g_dir->filePath("autosave");
+    g_window = new MainWindow(options);
+    g_window->resize(1500, 920);
+    g_window->show();
+    ASSERT_TRUE(QTest::qWaitForWindowExposed(g_window));
+    bool done = false, failed = false;
+    QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
+    QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
+    ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path())) << g_window->last_error().toStdString();
+    EXPECT_TRUE(g_window->solving());  // opening starts the solve at once
+    ASSERT_TRUE(QTest::qWaitFor([&]() { return done || failed; }, 600000)) << "solve timed out";
+    ASSERT_TRUE(done) << g_window->last_error().toStdString();
+    QTest::qWait(100);
+  }
+  static void TearDownTestSuite() {
+    delete g_window;
+    delete g_dir;
+  }
+};
+
+TEST_F(MainWindowTest, OpeningTheSampleSolvesAndShowsColours) {
+  ASSERT_EQ(g_window->session().results().size(), 4u);
+  g_window->show_view(ViewKind::k3D);
+  QApplication::processEvents();
+  const QImage window = g_window->grab().toImage();
+  testing::keep_image(window, "test_main_window");
+  const QImage view = g_window->result_view()->vtk_view()->grabFramebuffer();
+  const int coloured = colour_map_pixels(view);
+  EXPECT_GT(coloured, 1000) << "colour-map pixels in the 3D view";
+  EXPECT_GT(colour_map_pixels(window), coloured / 2);  // the grab of the window shows them too
+  EXPECT_TRUE(g_window->caution_label()->isVisible());
+  EXPECT_EQ(g_window->caution_label()->text().toStdString(), analysis::caution_text());
+}
+
+TEST_F(MainWindowTest, ColourBarSpansTheComputedPressureRange) {
+  const analysis::ScenarioResult* r = g_window->session().current_result();
+  ASSERT_NE(r, nullptr);
+  const auto [lo, hi] = std::minmax_element(r->pressure_kpa.begin(), r->pressure_kpa.end());
+  const ColourBar* bar = g_window->result_view()->colour_bar();
+  EXPECT_DOUBLE_EQ(bar->range().min, *lo);
+  EXPECT_DOUBLE_EQ(bar->range().max, *hi);
+  EXPECT_EQ(bar->unit(), "kPa");
+}
+
+TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
+  const ColourBar* bar = g_window->result_view()->colour_bar();
+  const double peak = bar->range().max;
+  const int frames = g_window->result_view()->vtk_view()->frames_rendered();
+  QDoubleSpinBox* magnitude = g_window->load_panel()->magnitude_box();
+  const double before = magnitude->value();
+  magnitude->setValue(2 * before);
+  QApplication::processEvents();
+  // Linear elasticity: superposition doubles every pressure (derived); no new solve.
+  EXPECT_NEAR(bar->range().max, 2 * peak, 1e-9 * peak);
+  EXPECT_FALSE(g_window->solving());
+  QTest::qWait(50);
+  EXPECT_GT(g_window->result_view()->vtk_view()->frames_rendered(), frames);  // repainted
+  magnitude->setValue(before);
+  QApplication::processEvents();
+  EXPECT_NEAR(bar->range().max, peak, 1e-9 * peak);
+}
+
+TEST_F(MainWindowTest, PdfReportHasItsPagesTheCautionAndTheSources) {
+  const QString pdf = g_dir->filePath("report.pdf");
+  ASSERT_TRUE(g_window->export_report(pdf)) << g_window->last_error().toStdString();
+  ASSERT_TRUE(QFile::exists(pdf));
+  const QString info = run(QStringLiteral("pdfinfo"), {pdf});
+  ASSERT_FALSE(info.isEmpty()) << "pdfinfo (poppler-utils) is needed for this test";
+  EXPECT_TRUE(info.contains(QRegularExpression(QStringLiteral("Pages:\\s+3\\b")))) << info.toStdString();
+  // pdftotext breaks lines: compare with all white space collapsed.
+  const QString text = run(QStringLiteral("pdftotext"), {pdf, QStringLiteral("-")}).simplified();
+  const auto squeeze = [](QString s) { return s.replace(QString::fromUtf8("\ufb01"), QStringLiteral("fi")).simplified(); };
+  const QString plain = squeeze(text);
+  EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(analysis::caution_text())))) << plain.left(400).toStdString();
+  const auto& t = g_window->session().spec().thresholds;
+  EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(t.capillary.source))));
+  EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(t.limit.source))));
+  EXPECT_TRUE(plain.contains(QStringLiteral("6 mm loss")));  // the comparison page
+}
+
+TEST_F(MainWindowTest, ImagesAndDataExports) {
+  for (ViewKind v : {ViewKind::k3D, ViewKind::kRootMap, ViewKind::kComparison}) {
+    const QString png = g_dir->filePath(QStringLiteral("view_%1.png").arg(static_cast<int>(v)));
+    ASSERT_TRUE(g_window->export_image(png, v));
+    QImage image(png);
+    EXPECT_GT(image.width(), 200);
+    EXPECT_GT(testing::count_colours(image), 50) << "view " << static_cast<int>(v);
+  }
+  const QString folder = g_dir->filePath("data");
+  ASSERT_TRUE(g_window->export_data(folder)) << g_window->last_error().toStdString();
+  const QDir dir(folder);
+  EXPECT_TRUE(dir.exists("results.json"));
+  EXPECT_TRUE(dir.exists("summary.csv"));
+  EXPECT_EQ(dir.entryList({"*.vtu"}).size(), 8);
+  EXPECT_EQ(dir.entryList({"*_root_map.csv"}).size(), 4);
+  QFile csv(dir.filePath("summary.csv"));
+  ASSERT_TRUE(csv.open(QIODevice::ReadOnly));
+  EXPECT_TRUE(csv.readLine().startsWith("#"));  // the caution line first
+}
+
+TEST_F(MainWindowTest, UnsavedChangesArePromptedAndAutosaved) {
+  const int prompts = g_window->prompts_shown();
+  LoadControls c = g_window->session().load_controls();
+  c.magnitude += 10;
+  g_window->session().set_load(c);
+  EXPECT_TRUE(g_window->session().document().modified());
+  g_window->autosave_now();
+  EXPECT_TRUE(g_window->autosave().has_copy());
+  g_window->set_prompt_answer(QMessageBox::Cancel);
+  EXPECT_FALSE(g_window->maybe_save());
+  EXPECT_EQ(g_window->prompts_shown(), prompts + 1);
+  const QString saved = g_dir->filePath("saved.json");
+  ASSERT_TRUE(g_window->save_as(saved));
+  EXPECT_FALSE(g_window->autosave().has_copy());  // saved: nothing left to recover
+  EXPECT_TRUE(g_window->maybe_save());            // no prompt without changes
+  EXPECT_EQ(g_window->prompts_shown(), prompts + 1);
+  EXPECT_TRUE(g_window->windowTitle().startsWith("saved.json"));
+}
+
+TEST_F(MainWindowTest, ABadCaseFileShowsTheLibraryMessage) {
+  const QString bad = g_dir->filePath("bad.json");
+  QFile f(bad);
+  ASSERT_TRUE(f.open(QIODevice::WriteOnly));
+  f.write("{ \"schema_version\": 1, \"tooth\": { \"type\": \"maxillary_central_incisor\" }, "
+          "\"scenarios\": [ { \"name\": \"healthy\", \"horizontal_loss_mm\": 0 } ], "
+          "\"load\": { \"magnitude\": \"heavy\" } }");
+  f.close();
+  EXPECT_FALSE(g_window->open_case(bad));
+  EXPECT_TRUE(g_window->last_error().contains("load.magnitude")) << g_window->last_error().toStdString();
+  EXPECT_EQ(g_window->session().results().size(), 4u);  // the open case stays
+}
+
+}  // namespace
+}  // namespace sharpey::app
