@@ -150,6 +150,7 @@ void run(const BenchCase& c, bool baseline) {
   std::printf("%-22s ordering %s, relative residual %.1e, field region %d: %zu nodes (checksum %.3g)\n",
               "", stats.ordering.c_str(), stats.last_relative_residual, c.field_region,
               basis.unit_fields().empty() ? size_t{0} : basis.unit_fields()[0].nodes.size(), checksum);
+  std::fflush(stdout);  // progress stays visible when the output goes to a file
 
   if (baseline) {
     Eigen::SparseMatrix<double> K_ff;
