@@ -3,11 +3,11 @@
 // For 10-node grid meshes of about 20k, 90k and 200k degrees of freedom and for the incisor model's
 // coarse / standard / fine presets (mesh::build_tooth_model, when it is available) it prints: DOFs,
 // nonzeros of the free-free stiffness block, mesh, assembly, analyse and factorise times, the
-// factorisation's GFlop and GFlop/s, the time of one right-hand side, the time to build the six-case
-// unit-load basis (six solves in one pass plus the field recovery), the time of a new load by
-// superposition (displacement + field of one region), and the process's peak resident memory so far
-// (getrusage ru_maxrss; cases run in increasing size, so it is the peak of the largest case run).
-// On the incisor's coarse preset (on the smallest grid when the incisor is not run) it also
+// factorisation's GFlop and GFlop/s, the time of one right-hand side, the time to build the
+// six-case unit-load basis (six solves in one pass plus the field recovery), the time of a new load
+// by superposition (displacement + field of one region), and the process's peak resident memory so
+// far (getrusage ru_maxrss; cases run in increasing size, so it is the peak of the largest case
+// run). On the incisor's coarse preset (on the smallest grid when the incisor is not run) it also
 // factorises the same free-free block with Eigen's SimplicialLDLT as a baseline and prints the time
 // ratio and the difference between the two solutions. The machine's load average is printed first
 // and last: other processes on the cores slow every figure down.
@@ -73,16 +73,15 @@ struct BenchCase {
 };
 
 void print_header() {
-  std::printf(
-      "%-22s %8s %9s %11s %7s %8s %8s %9s %8s %8s %9s %9s %9s %10s %9s\n", "case", "elements",
-      "dofs", "nnz(K_ff)", "mesh_s", "assem_s", "analy_s", "factor_s", "GFlop", "GFlop/s",
-      "1rhs_ms", "basis_s", "total_s", "superp_ms", "peak_MB");
+  std::printf("%-22s %8s %9s %11s %7s %8s %8s %9s %8s %8s %9s %9s %9s %10s %9s\n", "case",
+              "elements", "dofs", "nnz(K_ff)", "mesh_s", "assem_s", "analy_s", "factor_s", "GFlop",
+              "GFlop/s", "1rhs_ms", "basis_s", "total_s", "superp_ms", "peak_MB");
 }
 
 // Free-free block of K and the reduced right-hand side f_f - K_fc u_c, for the baseline solve.
-void reduce(const Eigen::SparseMatrix<double>& K, const std::vector<fem::DofConstraint>& constraints,
-            const Eigen::VectorXd& f, Eigen::SparseMatrix<double>* K_ff, Eigen::VectorXd* f_f,
-            std::vector<int>* free_dofs) {
+void reduce(const Eigen::SparseMatrix<double>& K,
+            const std::vector<fem::DofConstraint>& constraints, const Eigen::VectorXd& f,
+            Eigen::SparseMatrix<double>* K_ff, Eigen::VectorXd* f_f, std::vector<int>* free_dofs) {
   const int n = static_cast<int>(K.rows());
   Eigen::VectorXd u_c = Eigen::VectorXd::Zero(n);
   std::vector<int> index(static_cast<size_t>(n), 0);
@@ -104,7 +103,8 @@ void reduce(const Eigen::SparseMatrix<double>& K, const std::vector<fem::DofCons
     for (Eigen::SparseMatrix<double>::InnerIterator it(K, j); it; ++it) {
       const int i = static_cast<int>(it.row());
       if (index[static_cast<size_t>(i)] >= 0) {
-        triplets.emplace_back(index[static_cast<size_t>(i)], index[static_cast<size_t>(j)], it.value());
+        triplets.emplace_back(index[static_cast<size_t>(i)], index[static_cast<size_t>(j)],
+                              it.value());
       }
     }
   }
@@ -142,14 +142,16 @@ void run(const BenchCase& c, bool baseline) {
   }
   const double superpose_ms = 1000.0 * seconds_since(t0) / repeats;
 
-  std::printf("%-22s %8d %9d %11lld %7.2f %8.2f %8.2f %9.2f %8.2f %8.2f %9.1f %9.2f %9.2f %10.2f %9.0f\n",
-              c.name.c_str(), c.mesh.n_elements(), stats.n_dofs, stats.n_nonzeros, c.mesh_s,
-              stats.assembly_s, stats.analyse_s, stats.factorise_s, stats.factorisation_gflop,
-              stats.factorise_s > 0 ? stats.factorisation_gflop / stats.factorise_s : 0.0,
-              1000.0 * one_rhs_s, basis_s, total_s, superpose_ms, peak_rss_mb());
-  std::printf("%-22s ordering %s, relative residual %.1e, field region %d: %zu nodes (checksum %.3g)\n",
-              "", stats.ordering.c_str(), stats.last_relative_residual, c.field_region,
-              basis.unit_fields().empty() ? size_t{0} : basis.unit_fields()[0].nodes.size(), checksum);
+  std::printf(
+      "%-22s %8d %9d %11lld %7.2f %8.2f %8.2f %9.2f %8.2f %8.2f %9.1f %9.2f %9.2f %10.2f %9.0f\n",
+      c.name.c_str(), c.mesh.n_elements(), stats.n_dofs, stats.n_nonzeros, c.mesh_s,
+      stats.assembly_s, stats.analyse_s, stats.factorise_s, stats.factorisation_gflop,
+      stats.factorise_s > 0 ? stats.factorisation_gflop / stats.factorise_s : 0.0,
+      1000.0 * one_rhs_s, basis_s, total_s, superpose_ms, peak_rss_mb());
+  std::printf(
+      "%-22s ordering %s, relative residual %.1e, field region %d: %zu nodes (checksum %.3g)\n", "",
+      stats.ordering.c_str(), stats.last_relative_residual, c.field_region,
+      basis.unit_fields().empty() ? size_t{0} : basis.unit_fields()[0].nodes.size(), checksum);
   std::fflush(stdout);  // progress stays visible when the output goes to a file
 
   if (baseline) {
@@ -170,10 +172,11 @@ void run(const BenchCase& c, bool baseline) {
       diff = std::max(diff, std::abs(u_f[static_cast<Eigen::Index>(k)] - u[free_dofs[k]]));
       norm = std::max(norm, std::abs(u[free_dofs[k]]));
     }
-    std::printf("%-22s baseline Eigen SimplicialLDLT (AMD) analyse+factorise %.2f s = %.1f x CHOLMOD's "
-                "%.2f s; max |u_eigen - u_cholmod| / max |u| = %.1e\n",
-                "", ldlt_s, ldlt_s / (stats.analyse_s + stats.factorise_s),
-                stats.analyse_s + stats.factorise_s, diff / norm);
+    std::printf(
+        "%-22s baseline Eigen SimplicialLDLT (AMD) analyse+factorise %.2f s = %.1f x CHOLMOD's "
+        "%.2f s; max |u_eigen - u_cholmod| / max |u| = %.1e\n",
+        "", ldlt_s, ldlt_s / (stats.analyse_s + stats.factorise_s),
+        stats.analyse_s + stats.factorise_s, diff / norm);
   }
 }
 
@@ -181,7 +184,8 @@ void run(const BenchCase& c, bool baseline) {
 BenchCase grid_case(int n) {
   BenchCase c;
   const auto t0 = Clock::now();
-  c.mesh = testing::grid_mesh(n, n, n, 10, [](const Eigen::Vector3d& p) -> Eigen::Vector3d { return 10.0 * p; });
+  c.mesh = testing::grid_mesh(n, n, n, 10,
+                              [](const Eigen::Vector3d& p) -> Eigen::Vector3d { return 10.0 * p; });
   c.mesh_s = seconds_since(t0);
   c.name = "grid " + std::to_string(n) + "^3 10-node";
   c.materials = {{1, fem::Material{1000.0, 0.3}}};
@@ -226,7 +230,8 @@ int main(int argc, char** argv) {
       quick = true;
       teeth = false;
     } else {
-      std::fprintf(stderr, "bench_solver: unknown option '%s'; use --grid-only, --tooth-only or --quick\n",
+      std::fprintf(stderr,
+                   "bench_solver: unknown option '%s'; use --grid-only, --tooth-only or --quick\n",
                    argv[i]);
       return 2;
     }
@@ -242,7 +247,8 @@ int main(int argc, char** argv) {
       for (size_t i = 0; i < sizes.size(); ++i) run(grid_case(sizes[i]), i == 0 && !teeth);
     }
     if (teeth) {
-      for (mesh::MeshPreset p : {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard, mesh::MeshPreset::kFine}) {
+      for (mesh::MeshPreset p :
+           {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard, mesh::MeshPreset::kFine}) {
         try {
           run(tooth_case(p), p == mesh::MeshPreset::kCoarse);
         } catch (const sharpey::Error& e) {

@@ -1,11 +1,11 @@
 // Convergence on a manufactured smooth solution (method of manufactured solutions; source: Roache,
 // Verification and Validation in Computational Science and Engineering, 1998; optimal a-priori
-// rates h^(p+1) in L2 and h^p in H1 for degree-p isoparametric elements, source: Ciarlet, The Finite
-// Element Method for Elliptic Problems, 1978). u is a product of sines per component on a gently
-// curved cube; its boundary values are prescribed at the boundary nodes and the consistent body
-// force b = -div sigma(u) = -(mu lap u + (lambda + mu) grad div u) (derived) is applied.
-// Asserted: L2 rate 2 (4-node) and 3 (10-node), H1 rate 1 and 2, each within +-0.3, between the two
-// finest meshes.
+// rates h^(p+1) in L2 and h^p in H1 for degree-p isoparametric elements, source: Ciarlet, The
+// Finite Element Method for Elliptic Problems, 1978; both citations from memory). u is a product of
+// sines per component on a gently curved cube; its boundary values are prescribed at the boundary
+// nodes and the consistent body force b = -div sigma(u) = -(mu lap u + (lambda + mu) grad div u)
+// (derived) is applied. Asserted: L2 rate 2 (4-node) and 3 (10-node), H1 rate 1 and 2, each within
+// +-0.3, between the two finest meshes.
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
@@ -32,9 +32,12 @@ struct SineField {
   double factor(int c, int d, const Eigen::Vector3d& x, int derivative) const {
     const double t = k[c][d] * x[d] + phase[c][d];
     switch (derivative) {
-      case 0: return std::sin(t);
-      case 1: return k[c][d] * std::cos(t);
-      default: return -k[c][d] * k[c][d] * std::sin(t);
+      case 0:
+        return std::sin(t);
+      case 1:
+        return k[c][d] * std::cos(t);
+      default:
+        return -k[c][d] * k[c][d] * std::sin(t);
     }
   }
   // d^(n_0 + n_1 + n_2) u_c / dx_0^n_0 dx_1^n_1 dx_2^n_2
@@ -91,14 +94,14 @@ ErrorNorms solve_and_measure(int n, int nodes_per_element, const SineField& fiel
   ConstraintSet constraints;
   for (int side = kXiMin; side <= kZetaMax; ++side) constraints.set_field_on_faces(m, side, exact);
   const fem::LinearElasticSolver solver(m, {{1, kMaterial}}, constraints.list());
-  const Eigen::VectorXd u =
-      solver.solve(body_force_load(m, [&](const Eigen::Vector3d& x) { return field.body_force(x); }));
+  const Eigen::VectorXd u = solver.solve(
+      body_force_load(m, [&](const Eigen::Vector3d& x) { return field.body_force(x); }));
   return relative_errors(m, u, exact, [&](const Eigen::Vector3d& x) { return field.gradient(x); });
 }
 
 struct ConvergenceCase {
   int nodes_per_element;
-  std::vector<int> cells;  // per direction, each level doubles the previous one
+  std::vector<int> cells;   // per direction, each level doubles the previous one
   double l2_rate, h1_rate;  // expected
 };
 
@@ -110,8 +113,8 @@ TEST_P(Convergence, OptimalRates) {
   std::vector<ErrorNorms> errors;
   for (int n : c.cells) {
     errors.push_back(solve_and_measure(n, c.nodes_per_element, field));
-    std::cout << "[convergence k=" << c.nodes_per_element << "] n=" << n
-              << " relative L2 error " << errors.back().l2 << ", H1 error " << errors.back().h1;
+    std::cout << "[convergence k=" << c.nodes_per_element << "] n=" << n << " relative L2 error "
+              << errors.back().l2 << ", H1 error " << errors.back().h1;
     if (errors.size() > 1) {
       const ErrorNorms& a = errors[errors.size() - 2];
       std::cout << ", rates L2 " << std::log2(a.l2 / errors.back().l2) << " H1 "

@@ -22,7 +22,7 @@ namespace sharpey::testing {
 namespace {
 
 constexpr double kA = 5.0, kB = 10.0, kHeight = 1.0;  // mm
-constexpr double kPressure = 2.0;                      // MPa
+constexpr double kPressure = 2.0;                     // MPa
 const fem::Material kMaterial{1000.0, 0.3};
 
 double exact_hoop(double r) {
@@ -80,7 +80,8 @@ LameErrors solve_quarter_annulus(int n_radial, int n_circumferential) {
     const double r = std::hypot(x.x(), x.y());
     const Eigen::Vector3d er(x.x() / r, x.y() / r, 0), et(-x.y() / r, x.x() / r, 0);
     const Eigen::Vector3d un = u.segment<3>(3 * n);
-    err.nodal_ur = std::max(err.nodal_ur, std::abs(un.dot(er) / exact_radial_displacement(r) - 1.0));
+    err.nodal_ur =
+        std::max(err.nodal_ur, std::abs(un.dot(er) / exact_radial_displacement(r) - 1.0));
     err.nodal_ut = std::max(err.nodal_ut, std::abs(un.dot(et)) / exact_radial_displacement(kB));
     stress_errors(x, field.stress_mpa.col(static_cast<Eigen::Index>(j)), &err.nodal_hoop,
                   &err.nodal_radial, &err.nodal_axial);
@@ -98,10 +99,10 @@ LameErrors solve_quarter_annulus(int n_radial, int n_circumferential) {
   for (int n : nodes_on_faces(m, kEtaMax)) err.reaction_x += reactions[3 * n];
 
   std::cout << "[lame " << n_radial << "x" << n_circumferential << "x1, 10-node] nodes: u_r "
-            << err.nodal_ur << ", sigma_theta " << err.nodal_hoop << ", sigma_r/p " << err.nodal_radial
-            << ", sigma_z/p " << err.nodal_axial << ", u_theta/u_r(b) " << err.nodal_ut
-            << "; quadrature points: sigma_theta " << err.qp_hoop << ", sigma_r/p " << err.qp_radial
-            << ", sigma_z/p " << err.qp_axial << "\n";
+            << err.nodal_ur << ", sigma_theta " << err.nodal_hoop << ", sigma_r/p "
+            << err.nodal_radial << ", sigma_z/p " << err.nodal_axial << ", u_theta/u_r(b) "
+            << err.nodal_ut << "; quadrature points: sigma_theta " << err.qp_hoop << ", sigma_r/p "
+            << err.qp_radial << ", sigma_z/p " << err.qp_axial << "\n";
   return err;
 }
 

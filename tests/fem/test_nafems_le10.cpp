@@ -13,7 +13,8 @@
 // midside nodes on the elliptic boundaries, graded toward D (cells grow geometrically, 3 : 1 from
 // the inner to the outer ellipse and 2 : 1 from y = 0 to x = 0). Measured: uniform grids converge
 // slowly from below (-5.12 MPa on 4 x 8 x 4 cells to -5.30 MPa on 16 x 32 x 8, 109k DOFs) because
-// sigma_yy varies steeply near D; the graded grids reach -5.32 (6 x 12 x 4) and -5.37 (12 x 24 x 6).
+// sigma_yy varies steeply near D; the graded grids reach -5.32 (6 x 12 x 4) and -5.37 (12 x 24 x
+// 6).
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
@@ -42,7 +43,8 @@ double graded(double x, int n, double ratio) {
   return level(i) + (x * n - i) * (level(i + 1) - level(i));
 }
 
-mesh::VolumeMesh le10_mesh(int n_radial, int n_circumferential, int n_thickness, int nodes_per_element) {
+mesh::VolumeMesh le10_mesh(int n_radial, int n_circumferential, int n_thickness,
+                           int nodes_per_element) {
   return grid_mesh(n_radial, n_circumferential, n_thickness, nodes_per_element,
                    [&](const Eigen::Vector3d& p) -> Eigen::Vector3d {
                      const double s = graded(p.x(), n_radial, 3.0);
@@ -89,8 +91,8 @@ TEST(NafemsLe10, SigmaYyAtPointD) {
   for (const auto& l : levels) {
     const double value = sigma_yy_at_d(l[0], l[1], l[2], 10);
     const double error = value / kTarget - 1.0;
-    std::cout << "[nafems le10 10-node " << l[0] << "x" << l[1] << "x" << l[2] << "] sigma_yy(D) = "
-              << value << " MPa, error vs -5.38: " << 100.0 * error << " %\n";
+    std::cout << "[nafems le10 10-node " << l[0] << "x" << l[1] << "x" << l[2]
+              << "] sigma_yy(D) = " << value << " MPa, error vs -5.38: " << 100.0 * error << " %\n";
     RecordProperty("sigma_yy_D_mpa_" + std::to_string(l[0]), std::to_string(value));
     EXPECT_LT(std::abs(error), 0.03) << l[0] << " x " << l[1] << " x " << l[2];
   }
@@ -100,8 +102,8 @@ TEST(NafemsLe10, LinearElementsAreFarOffOnTheSameMesh) {
   // For docs/verification.md: 4-node tetrahedra are stiff in bending. Asserted: the 4-node error is
   // larger than the 10-node acceptance bound on the finer graded mesh (a property, not a target).
   const double value = sigma_yy_at_d(12, 24, 6, 4);
-  std::cout << "[nafems le10 4-node 12x24x6] sigma_yy(D) = " << value << " MPa, error vs -5.38: "
-            << 100.0 * (value / kTarget - 1.0) << " %\n";
+  std::cout << "[nafems le10 4-node 12x24x6] sigma_yy(D) = " << value
+            << " MPa, error vs -5.38: " << 100.0 * (value / kTarget - 1.0) << " %\n";
   EXPECT_LT(value, 0.0);
   EXPECT_GT(std::abs(value / kTarget - 1.0), 0.03);
 }

@@ -1,13 +1,14 @@
-// Patch tests on distorted structured meshes (source: Irons & Razzaque 1972, the patch test for
-// finite elements; common practice; check-values.md section 10 item 5). A field the element space
-// contains must be reproduced to 1e-10 relative (round-off):
+// Patch tests on distorted structured meshes (source: Irons & Razzaque 1972, citation from memory,
+// the patch test for finite elements; common practice; check-values.md section 10 item 5). A field
+// the element space contains must be reproduced to 1e-10 relative (round-off):
 //  - linear displacement with its boundary values prescribed (4- and 10-node),
 //  - constant stress with the matching tractions on all six sides and only rigid-body supports
 //    (4- and 10-node),
 //  - quadratic displacement with its boundary values and the consistent constant body force
 //    (10-node only).
-// Meshes: a 4 x 4 x 4-cell grid of the box, interior vertices jittered by up to 35-40 % of the local
-// spacing, two regions with the same material. The TetGen meshes are in test_patch_tetgen.cpp.
+// Meshes: a 4 x 4 x 4-cell grid of the box, interior vertices jittered by up to 35-40 % of the
+// local spacing, two regions with the same material. The TetGen meshes are in
+// test_patch_tetgen.cpp.
 #include <gtest/gtest.h>
 
 #include <iostream>
@@ -44,7 +45,8 @@ class Patch : public ::testing::TestWithParam<PatchCase> {};
 
 TEST_P(Patch, LinearDisplacementFromBoundaryValues) {
   const PatchErrors e = linear_dirichlet_patch(distorted_box(GetParam()));
-  std::cout << "[patch grid linear Dirichlet] nodal " << e.nodal << ", quadrature stress " << e.stress << "\n";
+  std::cout << "[patch grid linear Dirichlet] nodal " << e.nodal << ", quadrature stress "
+            << e.stress << "\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_LT(e.stress, kTolerance);
@@ -52,7 +54,8 @@ TEST_P(Patch, LinearDisplacementFromBoundaryValues) {
 
 TEST_P(Patch, ConstantStressFromTractions) {
   const PatchErrors e = constant_stress_patch(distorted_box(GetParam()));
-  std::cout << "[patch grid constant stress] nodal " << e.nodal << ", recovered stress " << e.stress << "\n";
+  std::cout << "[patch grid constant stress] nodal " << e.nodal << ", recovered stress " << e.stress
+            << "\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_LT(e.stress, kTolerance);
@@ -63,7 +66,8 @@ class QuadraticPatch : public ::testing::TestWithParam<PatchCase> {};
 
 TEST_P(QuadraticPatch, QuadraticDisplacementWithBodyForce) {
   const PatchErrors e = quadratic_body_force_patch(distorted_box(GetParam()));
-  std::cout << "[patch grid quadratic] nodal " << e.nodal << " (without the body force: " << e.stress << ")\n";
+  std::cout << "[patch grid quadratic] nodal " << e.nodal
+            << " (without the body force: " << e.stress << ")\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_GT(e.stress, 1e-4);

@@ -21,7 +21,8 @@ double element_volume(const mesh::VolumeMesh& m, int e) {
   for (size_t p = 0; p < q.points.size(); ++p) {
     const Eigen::MatrixXd G = mesh::tet_shape_gradient(m.nodes_per_element, q.points[p]);
     Eigen::Matrix3d J = Eigen::Matrix3d::Zero();
-    for (int i = 0; i < m.nodes_per_element; ++i) J += m.nodes[static_cast<size_t>(m.element(e)[i])] * G.row(i);
+    for (int i = 0; i < m.nodes_per_element; ++i)
+      J += m.nodes[static_cast<size_t>(m.element(e)[i])] * G.row(i);
     EXPECT_GT(J.determinant(), 0.0) << "element " << e;
     v += q.weights[p] * J.determinant();
   }
@@ -97,7 +98,8 @@ TEST_P(GridMesh, FacesPointOutwardAndLieOnTheirSide) {
       }
     }
   }
-  for (int s = 1; s <= 6; ++s) EXPECT_NEAR(area[static_cast<size_t>(s)], 1.0, 1e-14) << "side " << s;
+  for (int s = 1; s <= 6; ++s)
+    EXPECT_NEAR(area[static_cast<size_t>(s)], 1.0, 1e-14) << "side " << s;
 }
 
 TEST_P(GridMesh, OrientationReversingCurvedMapGivesPositiveElements) {
@@ -107,9 +109,8 @@ TEST_P(GridMesh, OrientationReversingCurvedMapGivesPositiveElements) {
     const double r = 1.0 + p.x(), t = 0.5 * M_PI * (1.0 - p.y());
     return Eigen::Vector3d(r * std::cos(t), r * std::sin(t), 0.5 * p.z());
   };
-  const mesh::VolumeMesh m = grid_mesh(4, 6, 1, k, annulus, [](const Eigen::Vector3d& c) {
-    return c.x() < 0.5 ? 7 : 8;
-  });
+  const mesh::VolumeMesh m =
+      grid_mesh(4, 6, 1, k, annulus, [](const Eigen::Vector3d& c) { return c.x() < 0.5 ? 7 : 8; });
   // derived: quarter annulus area 3 pi / 4 times height 0.5; the chordal 4-node mesh is smaller.
   const double exact = 0.375 * M_PI;
   const double error = std::abs(total_volume(m) - exact) / exact;
@@ -139,8 +140,9 @@ TEST_P(GridMesh, JitterKeepsBoundaryAndValidity) {
     for (int e = 0; e < m.n_elements(); ++e) {
       for (int s = 0; s < 6; ++s) {
         const int* en = m.element(e);
-        const Eigen::Vector3d mid = 0.5 * (m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][0]])] +
-                                           m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][1]])]);
+        const Eigen::Vector3d mid =
+            0.5 * (m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][0]])] +
+                   m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][1]])]);
         EXPECT_LT((m.nodes[static_cast<size_t>(en[4 + s])] - mid).norm(), 1e-15);
       }
     }

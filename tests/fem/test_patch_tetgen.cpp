@@ -1,9 +1,10 @@
-// Patch tests on real TetGen output (source: Irons & Razzaque 1972, the patch test; common practice;
-// check-values.md section 10 item 5): the box [0, 2] x [0, 1] x [0, 1.5] mm split by the plane x = 1
-// into two regions (same material), tetrahedralised by mesh::tetrahedralize (4-node), then made
-// quadratic by mesh::make_second_order (10-node, straight edges); optionally with interior vertices
-// jittered. Linear and constant-stress fields to 1e-10 relative for both elements, quadratic fields
-// with the consistent body force for the 10-node element.
+// Patch tests on real TetGen output (source: Irons & Razzaque 1972, citation from memory, the patch
+// test; common practice; check-values.md section 10 item 5): the box [0, 2] x [0, 1] x [0, 1.5] mm
+// split by the plane x = 1 into two regions (same material), tetrahedralised by
+// mesh::tetrahedralize (4-node), then made quadratic by mesh::make_second_order (10-node, straight
+// edges); optionally with interior vertices jittered. Linear and constant-stress fields to 1e-10
+// relative for both elements, quadratic fields with the consistent body force for the 10-node
+// element.
 #include <gtest/gtest.h>
 
 #include <array>
@@ -19,7 +20,8 @@ namespace {
 
 constexpr double kTolerance = 1e-10;
 
-// Box PLC: 12 corner points (x = 0, 1, 2), side triangles marked 1..6, the interface x = 1 marked 7.
+// Box PLC: 12 corner points (x = 0, 1, 2), side triangles marked 1..6, the interface x = 1
+// marked 7.
 mesh::Plc box_plc() {
   mesh::Plc plc;
   const double X = kPatchBox.x(), Y = kPatchBox.y(), Z = kPatchBox.z();
@@ -40,8 +42,8 @@ mesh::Plc box_plc() {
   quad(8, 9, 10, 11, kXiMax);
   for (int s = 0; s < 2; ++s) {  // the two halves' y, z sides
     const int o = 4 * s;
-    quad(o + 0, o + 4, o + 7, o + 3, kEtaMin);  // y = 0
-    quad(o + 1, o + 5, o + 6, o + 2, kEtaMax);  // y = Y
+    quad(o + 0, o + 4, o + 7, o + 3, kEtaMin);   // y = 0
+    quad(o + 1, o + 5, o + 6, o + 2, kEtaMax);   // y = Y
     quad(o + 0, o + 4, o + 5, o + 1, kZetaMin);  // z = 0
     quad(o + 3, o + 7, o + 6, o + 2, kZetaMax);  // z = Z
   }
@@ -74,16 +76,19 @@ TEST_P(PatchTetgen, MeshIsWhatTheTestAssumes) {
   EXPECT_EQ(m.nodes_per_element, GetParam().nodes_per_element);
   std::array<int, 8> per_marker{};
   for (int marker : m.face_marker) ++per_marker[static_cast<size_t>(marker)];
-  for (int side = kXiMin; side <= 7; ++side) EXPECT_GT(per_marker[static_cast<size_t>(side)], 0) << side;
-  for (const Eigen::Vector3d& corner : {Eigen::Vector3d(0, 0, 0), Eigen::Vector3d(kPatchBox.x(), 0, 0),
-                                        Eigen::Vector3d(0, kPatchBox.y(), 0)}) {
+  for (int side = kXiMin; side <= 7; ++side)
+    EXPECT_GT(per_marker[static_cast<size_t>(side)], 0) << side;
+  for (const Eigen::Vector3d& corner :
+       {Eigen::Vector3d(0, 0, 0), Eigen::Vector3d(kPatchBox.x(), 0, 0),
+        Eigen::Vector3d(0, kPatchBox.y(), 0)}) {
     EXPECT_EQ((m.nodes[static_cast<size_t>(nearest_node(m, corner))] - corner).norm(), 0.0);
   }
 }
 
 TEST_P(PatchTetgen, LinearDisplacementFromBoundaryValues) {
   const PatchErrors e = linear_dirichlet_patch(tetgen_box(GetParam()));
-  std::cout << "[patch tetgen linear Dirichlet] nodal " << e.nodal << ", quadrature stress " << e.stress << "\n";
+  std::cout << "[patch tetgen linear Dirichlet] nodal " << e.nodal << ", quadrature stress "
+            << e.stress << "\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_LT(e.stress, kTolerance);
@@ -91,7 +96,8 @@ TEST_P(PatchTetgen, LinearDisplacementFromBoundaryValues) {
 
 TEST_P(PatchTetgen, ConstantStressFromTractions) {
   const PatchErrors e = constant_stress_patch(tetgen_box(GetParam()));
-  std::cout << "[patch tetgen constant stress] nodal " << e.nodal << ", recovered stress " << e.stress << "\n";
+  std::cout << "[patch tetgen constant stress] nodal " << e.nodal << ", recovered stress "
+            << e.stress << "\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_LT(e.stress, kTolerance);
@@ -102,7 +108,8 @@ class QuadraticPatchTetgen : public ::testing::TestWithParam<TetgenCase> {};
 
 TEST_P(QuadraticPatchTetgen, QuadraticDisplacementWithBodyForce) {
   const PatchErrors e = quadratic_body_force_patch(tetgen_box(GetParam()));
-  std::cout << "[patch tetgen quadratic] nodal " << e.nodal << " (without the body force: " << e.stress << ")\n";
+  std::cout << "[patch tetgen quadratic] nodal " << e.nodal
+            << " (without the body force: " << e.stress << ")\n";
   RecordProperty("nodal_error", std::to_string(e.nodal));
   EXPECT_LT(e.nodal, kTolerance);
   EXPECT_GT(e.stress, 1e-4);

@@ -45,8 +45,10 @@ double free_end_push_out_error(double length, int n_axial, const fem::Material& 
   ConstraintSet constraints;
   constraints.set_component_on_faces(m, kEtaMin, 1, 0.0);
   constraints.set_component_on_faces(m, kEtaMax, 0, 0.0);
-  constraints.set_field_on_faces(m, kXiMax, [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
-  constraints.set_field_on_faces(m, kXiMin, [&](const Eigen::Vector3d&) { return Eigen::Vector3d(0, 0, delta); });
+  constraints.set_field_on_faces(m, kXiMax,
+                                 [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
+  constraints.set_field_on_faces(
+      m, kXiMin, [&](const Eigen::Vector3d&) { return Eigen::Vector3d(0, 0, delta); });
   const fem::LinearElasticSolver solver(m, {{1, material}}, constraints.list());
   const Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
   const Eigen::VectorXd reactions = solver.reactions(solver.solve(f), f);
@@ -70,8 +72,10 @@ TEST_P(Sleeve, AxialPushOut) {
     constraints.set_component_on_faces(m, end, 0, 0.0);
     constraints.set_component_on_faces(m, end, 1, 0.0);
   }
-  constraints.set_field_on_faces(m, kXiMax, [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
-  constraints.set_field_on_faces(m, kXiMin, [&](const Eigen::Vector3d&) { return Eigen::Vector3d(0, 0, delta); });
+  constraints.set_field_on_faces(m, kXiMax,
+                                 [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
+  constraints.set_field_on_faces(
+      m, kXiMin, [&](const Eigen::Vector3d&) { return Eigen::Vector3d(0, 0, delta); });
   const fem::MaterialTable materials = {{1, material()}};
   const fem::LinearElasticSolver solver(m, materials, constraints.list());
   const Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
@@ -96,7 +100,8 @@ TEST_P(Sleeve, AxialPushOut) {
     const double w = delta * std::log(kB / std::hypot(x.x(), x.y())) / std::log(kB / kA);
     field_error = std::max(field_error, std::abs(u[3 * n + 2] - w) / delta);
   }
-  std::cout << "[sleeve axial nu=" << GetParam() << "] max nodal |w - exact| / delta " << field_error << "\n";
+  std::cout << "[sleeve axial nu=" << GetParam() << "] max nodal |w - exact| / delta "
+            << field_error << "\n";
   EXPECT_LT(field_error, 0.02);
 }
 
@@ -108,7 +113,8 @@ TEST_P(Sleeve, Twist) {
   constraints.set_component_on_faces(m, kEtaMin, 2, 0.0);
   constraints.set_component_on_faces(m, kEtaMax, 1, 0.0);
   constraints.set_component_on_faces(m, kEtaMax, 2, 0.0);
-  constraints.set_field_on_faces(m, kXiMax, [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
+  constraints.set_field_on_faces(m, kXiMax,
+                                 [](const Eigen::Vector3d&) { return Eigen::Vector3d::Zero(); });
   constraints.set_field_on_faces(m, kXiMin, [&](const Eigen::Vector3d& x) {
     return Eigen::Vector3d(-angle * x.y(), angle * x.x(), 0.0);
   });
@@ -123,7 +129,8 @@ TEST_P(Sleeve, Twist) {
     torque += 4.0 * (x.x() * reactions[3 * n + 1] - x.y() * reactions[3 * n]);
   }
   const double G = shear_modulus(material());
-  const double exact_angle = torque * (1.0 / (kA * kA) - 1.0 / (kB * kB)) / (4.0 * M_PI * G * kLength);
+  const double exact_angle =
+      torque * (1.0 / (kA * kA) - 1.0 / (kB * kB)) / (4.0 * M_PI * G * kLength);
   const double error = std::abs(exact_angle / angle - 1.0);
   std::cout << "[sleeve twist nu=" << GetParam() << "] torque " << torque
             << " N.mm, angle from the formula " << exact_angle << " rad vs prescribed " << angle
@@ -134,7 +141,8 @@ TEST_P(Sleeve, Twist) {
 
 TEST_P(Sleeve, FreeEndsApproachThePlaneSolutionAsTheSleeveLengthens) {
   // Free ends cannot carry the antiplane field's shear traction: the end zones, a few wall
-  // thicknesses (b - a) long, are softer, so the relative error should fall roughly like (b - a) / L.
+  // thicknesses (b - a) long, are softer, so the relative error should fall roughly like (b - a) /
+  // L.
   double previous = 0;
   for (int times : {4, 16, 64}) {
     const double length = times * (kB - kA);
@@ -150,7 +158,8 @@ TEST_P(Sleeve, FreeEndsApproachThePlaneSolutionAsTheSleeveLengthens) {
 
 INSTANTIATE_TEST_SUITE_P(PoissonRatio, Sleeve, ::testing::Values(0.30, 0.49),
                          [](const ::testing::TestParamInfo<double>& param_info) {
-                           return "nu" + std::to_string(static_cast<int>(std::lround(100 * param_info.param)));
+                           return "nu" + std::to_string(
+                                             static_cast<int>(std::lround(100 * param_info.param)));
                          });
 
 }  // namespace

@@ -34,8 +34,8 @@ inline double shear_modulus(const fem::Material& m) {
 // Stress (Voigt xx yy zz yz xz xy, MPa) of a displacement gradient, isotropic material.
 inline fem::Vector6d stress_of_gradient(const fem::Material& m, const Eigen::Matrix3d& grad) {
   const Eigen::Matrix3d eps = 0.5 * (grad + grad.transpose());
-  const Eigen::Matrix3d s = lame_lambda(m) * eps.trace() * Eigen::Matrix3d::Identity() +
-                            2.0 * shear_modulus(m) * eps;
+  const Eigen::Matrix3d s =
+      lame_lambda(m) * eps.trace() * Eigen::Matrix3d::Identity() + 2.0 * shear_modulus(m) * eps;
   fem::Vector6d v;
   v << s(0, 0), s(1, 1), s(2, 2), s(1, 2), s(0, 2), s(0, 1);
   return v;
@@ -85,10 +85,10 @@ class ConstraintSet {
 
 // Jacobian dx/dxi (3 x 3) of element e at reference point p, and the shape-function gradients.
 struct ElementPoint {
-  Eigen::VectorXd N;       // k shape values
-  Eigen::MatrixXd dN_dx;   // k x 3 physical gradients
-  Eigen::Vector3d x;       // physical position, mm
-  double det_j = 0;        // mm^3 per reference volume
+  Eigen::VectorXd N;      // k shape values
+  Eigen::MatrixXd dN_dx;  // k x 3 physical gradients
+  Eigen::Vector3d x;      // physical position, mm
+  double det_j = 0;       // mm^3 per reference volume
 };
 inline ElementPoint element_point(const mesh::VolumeMesh& m, int e, const Eigen::Vector3d& p) {
   const int k = m.nodes_per_element;

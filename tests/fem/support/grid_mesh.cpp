@@ -33,7 +33,8 @@ double jacobian_determinant(const mesh::VolumeMesh& m, int e, const Eigen::Vecto
 double min_jacobian(const mesh::VolumeMesh& m, int e) {
   double d = jacobian_determinant(m, e, Eigen::Vector3d(0.25, 0.25, 0.25));
   if (m.nodes_per_element == 10) {
-    for (int i = 0; i < 10; ++i) d = std::min(d, jacobian_determinant(m, e, mesh::tet_node_reference(i)));
+    for (int i = 0; i < 10; ++i)
+      d = std::min(d, jacobian_determinant(m, e, mesh::tet_node_reference(i)));
   }
   return d;
 }
@@ -44,13 +45,14 @@ mesh::VolumeMesh grid_mesh(int nx, int ny, int nz, int nodes_per_element, const 
                            const RegionOf& region_of) {
   if (nx < 1 || ny < 1 || nz < 1) {
     throw InputError("grid_mesh.n", "grid_mesh: cell counts must be >= 1, got " +
-                                         std::to_string(nx) + " x " + std::to_string(ny) + " x " +
-                                         std::to_string(nz) + "; pass at least one cell per direction");
+                                        std::to_string(nx) + " x " + std::to_string(ny) + " x " +
+                                        std::to_string(nz) +
+                                        "; pass at least one cell per direction");
   }
   if (nodes_per_element != 4 && nodes_per_element != 10) {
-    throw InputError("grid_mesh.nodes_per_element",
-                     "grid_mesh: nodes_per_element must be 4 or 10, got " +
-                         std::to_string(nodes_per_element));
+    throw InputError(
+        "grid_mesh.nodes_per_element",
+        "grid_mesh: nodes_per_element must be 4 or 10, got " + std::to_string(nodes_per_element));
   }
   const bool quadratic = nodes_per_element == 10;
   const Index3 n_half = {2 * nx + 1, 2 * ny + 1, 2 * nz + 1};
@@ -62,7 +64,8 @@ mesh::VolumeMesh grid_mesh(int nx, int ny, int nz, int nodes_per_element, const 
   m.nodes_per_face = quadratic ? 6 : 3;
   std::vector<int> id(static_cast<size_t>(n_half[0]) * n_half[1] * n_half[2], -1);
   auto flat = [&](const Index3& h) {
-    return static_cast<size_t>(h[0]) + static_cast<size_t>(n_half[0]) * (h[1] + static_cast<size_t>(n_half[1]) * h[2]);
+    return static_cast<size_t>(h[0]) +
+           static_cast<size_t>(n_half[0]) * (h[1] + static_cast<size_t>(n_half[1]) * h[2]);
   };
   auto unit = [&](const Index3& h) {
     return Eigen::Vector3d(0.5 * h[0] / nx, 0.5 * h[1] / ny, 0.5 * h[2] / nz);
@@ -114,7 +117,8 @@ mesh::VolumeMesh grid_mesh(int nx, int ny, int nz, int nodes_per_element, const 
             for (int axis = 0; axis < 3; ++axis) {
               for (int side = 0; side < 2; ++side) {
                 const int level = side ? 2 * n_cells[axis] : 0;
-                if (v[f[0]][axis] != level || v[f[1]][axis] != level || v[f[2]][axis] != level) continue;
+                if (v[f[0]][axis] != level || v[f[1]][axis] != level || v[f[2]][axis] != level)
+                  continue;
                 for (int a = 0; a < 3; ++a) m.faces.push_back(id[flat(v[f[a]])]);
                 if (quadratic) {
                   m.faces.push_back(id[flat(midpoint(v[f[0]], v[f[1]]))]);
@@ -206,7 +210,8 @@ void jitter_nodes(mesh::VolumeMesh& m, double fraction, unsigned seed) {
     for (int attempt = 0; attempt < 6; ++attempt, d *= 0.5) {
       m.nodes[vi] = origin + d;
       for (const auto& [mid, other] : midsides_of[vi]) {
-        m.nodes[static_cast<size_t>(mid)] = 0.5 * (m.nodes[vi] + m.nodes[static_cast<size_t>(other)]);
+        m.nodes[static_cast<size_t>(mid)] =
+            0.5 * (m.nodes[vi] + m.nodes[static_cast<size_t>(other)]);
       }
       bool valid = true;
       for (int e : elements_of[vi]) valid = valid && min_jacobian(m, e) > 0.0;
@@ -214,7 +219,8 @@ void jitter_nodes(mesh::VolumeMesh& m, double fraction, unsigned seed) {
       if (attempt == 5) {  // give up on this vertex: put it back on its straight edges
         m.nodes[vi] = origin;
         for (const auto& [mid, other] : midsides_of[vi]) {
-          m.nodes[static_cast<size_t>(mid)] = 0.5 * (m.nodes[vi] + m.nodes[static_cast<size_t>(other)]);
+          m.nodes[static_cast<size_t>(mid)] =
+              0.5 * (m.nodes[vi] + m.nodes[static_cast<size_t>(other)]);
         }
       }
     }

@@ -32,9 +32,9 @@ using RegionOf = std::function<int(const Eigen::Vector3d&)>;
 // empty = identity. Every element is oriented to positive volume (judged from its mapped vertices),
 // so a map that reverses orientation is fine. Boundary faces (3 or 6 nodes) on the six sides carry
 // GridSide markers with outward right-hand normals. element_region = region_of(cell centre in unit
-// coordinates), or 1 if region_of is empty. Nodes are numbered lexicographically (xi fastest) on the
-// grid of vertices (4-node) or of vertices and half-spacing points (10-node).
-// Throws InputError for bad counts.
+// coordinates), or 1 if region_of is empty. Nodes are numbered lexicographically (xi fastest) on
+// the grid of vertices (4-node) or of vertices and half-spacing points (10-node). Throws InputError
+// for bad counts.
 mesh::VolumeMesh grid_mesh(int nx, int ny, int nz, int nodes_per_element, const PointMap& map = {},
                            const RegionOf& region_of = {});
 

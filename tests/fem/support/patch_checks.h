@@ -1,5 +1,6 @@
 // The three patch tests shared by the structured-grid and TetGen patch-test files
-// (source: Irons & Razzaque 1972, the patch test for finite elements; common practice).
+// (source: Irons & Razzaque 1972, the patch test for finite elements, citation from memory;
+// common practice).
 // Each runs on a box [0, 2] x [0, 1] x [0, 1.5] mm whose six sides carry the GridSide markers
 // (1: x = 0, 2: x = 2, 3: y = 0, 4: y = 1, 5: z = 0, 6: z = 1.5); every region of the mesh gets the
 // same material, so a region interface inside the box must be invisible to the solution.
@@ -20,7 +21,8 @@ inline const Eigen::Vector3d kPatchBox(2.0, 1.0, 1.5);  // mm
 
 inline fem::MaterialTable patch_materials(const mesh::VolumeMesh& m) {
   fem::MaterialTable table;
-  for (int r : std::set<int>(m.element_region.begin(), m.element_region.end())) table[r] = kPatchMaterial;
+  for (int r : std::set<int>(m.element_region.begin(), m.element_region.end()))
+    table[r] = kPatchMaterial;
   return table;
 }
 
@@ -90,20 +92,22 @@ inline PatchErrors constant_stress_patch(const mesh::VolumeMesh& m) {
   errors.nodal = max_nodal_relative_error(m, u, exact);
   for (const auto& [region, material] : materials) {
     const fem::RegionField field = fem::recover_region(m, materials, u, region);
-    if (field.stress_mpa.cols() != static_cast<Eigen::Index>(field.nodes.size()) || field.nodes.empty()) {
+    if (field.stress_mpa.cols() != static_cast<Eigen::Index>(field.nodes.size()) ||
+        field.nodes.empty()) {
       errors.stress = HUGE_VAL;  // malformed recovery: fail loudly
       continue;
     }
-    errors.stress = std::max(errors.stress, (field.stress_mpa.colwise() - sigma).cwiseAbs().maxCoeff());
+    errors.stress =
+        std::max(errors.stress, (field.stress_mpa.colwise() - sigma).cwiseAbs().maxCoeff());
   }
   errors.stress /= sigma.lpNorm<Eigen::Infinity>();
   return errors;
 }
 
-// Quadratic field u_i = a_i + B_ij x_j + 1/2 Q_ijk x_j x_k at every boundary node with the consistent
-// constant body force b = -div sigma (derived: (div sigma)_i = lambda Q_kki + mu (Q_ijj + Q_jij)).
-// stress: relative nodal error of the solve without the body force (must be large: shows the body
-// force matters, so the check can fail).
+// Quadratic field u_i = a_i + B_ij x_j + 1/2 Q_ijk x_j x_k at every boundary node with the
+// consistent constant body force b = -div sigma (derived: (div sigma)_i = lambda Q_kki + mu (Q_ijj
+// + Q_jij)). stress: relative nodal error of the solve without the body force (must be large: shows
+// the body force matters, so the check can fail).
 inline PatchErrors quadratic_body_force_patch(const mesh::VolumeMesh& m) {
   Eigen::Matrix3d B;
   B << 2.0e-4, 1.0e-4, -3.0e-4, -1.0e-4, 4.0e-4, 2.0e-4, 3.0e-4, -2.0e-4, -1.0e-4;
