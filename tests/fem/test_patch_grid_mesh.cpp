@@ -117,6 +117,22 @@ TEST_P(GridMesh, OrientationReversingCurvedMapGivesPositiveElements) {
   EXPECT_LT(error, k == 10 ? 2e-4 : 2e-2);
   EXPECT_EQ(std::count(m.element_region.begin(), m.element_region.end(), 7), m.n_elements() / 2);
   expect_conforming(m);
+
+  // Faces point outward: the volume of the vertex polyhedron from its boundary triangles,
+  // (1/6) sum x0 . (x1 x x2) (derived: divergence theorem), equals the sum of the straight
+  // elements' volumes; an inward face would subtract instead of add.
+  const auto x = [&m](int node) { return m.nodes[static_cast<size_t>(node)]; };
+  double from_faces = 0, from_elements = 0;
+  for (int f = 0; f < m.n_faces(); ++f) {
+    from_faces += x(m.face(f)[0]).dot(x(m.face(f)[1]).cross(x(m.face(f)[2]))) / 6.0;
+  }
+  for (int e = 0; e < m.n_elements(); ++e) {
+    const int* en = m.element(e);
+    from_elements +=
+        (x(en[1]) - x(en[0])).cross(x(en[2]) - x(en[0])).dot(x(en[3]) - x(en[0])) / 6.0;
+  }
+  EXPECT_NEAR(from_faces, from_elements, 1e-13);
+  EXPECT_GT(from_elements, 0.0);
 }
 
 TEST_P(GridMesh, JitterKeepsBoundaryAndValidity) {
