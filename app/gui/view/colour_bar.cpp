@@ -13,7 +13,7 @@ namespace sharpey::app {
 QColor to_qcolor(const Rgb& rgb) { return QColor::fromRgbF(static_cast<float>(rgb[0]), static_cast<float>(rgb[1]), static_cast<float>(rgb[2])); }
 
 ColourBar::ColourBar(QWidget* parent) : QWidget(parent) {
-  setMinimumWidth(104);
+  setMinimumWidth(124);
   setSizePolicy(QSizePolicy::Fixed, QSizePolicy::Expanding);
 }
 
@@ -61,7 +61,7 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
   painter.setFont(bold);
   const int top = unitrect.bottom() + line + 8;
   const int bottom = area.bottom() - line - 6;
-  const QRect bar(area.left() + 10, top, 22, std::max(10, bottom - top));
+  const QRect bar(area.left() + 46, top, 20, std::max(10, bottom - top));
   const ValueRange r = scale.range();
   const bool flat = !(r.max > r.min);
   auto y_of = [&](double v) {
@@ -102,10 +102,11 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
     const double y = y_of(m.value);
     QPen pen(m.colour, m.width, m.style);
     painter.setPen(pen);
-    painter.drawLine(QPointF(bar.left() - 6, y), QPointF(bar.right() + 2, y));
+    painter.drawLine(QPointF(bar.left() - 6, y), QPointF(bar.right(), y));
     painter.setPen(m.colour);
-    painter.drawText(QRectF(bar.right() + 6, y - line, area.right() - bar.right() - 6, line),
-                     Qt::AlignLeft | Qt::AlignBottom, m.text);
+    // Threshold names left of the bar, tick values right of it: they never overlap.
+    painter.drawText(QRectF(area.left(), y - line, bar.left() - area.left() - 7, line),
+                     Qt::AlignRight | Qt::AlignBottom, m.text);
   }
   painter.restore();
 }

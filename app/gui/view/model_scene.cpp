@@ -270,7 +270,9 @@ struct ModelScene::Impl {
     if (plane == SectionPlane::kLabiolingual) clip->SetNormal(0, -1, 0);  // keep the distal half
     if (plane == SectionPlane::kMesiodistal) clip->SetNormal(-1, 0, 0);   // keep the lingual half
     clip->SetOrigin(0, 0, 0);
-    scene->SetUseDepthPeeling(bone_style == BoneStyle::kTranslucent && !cut);
+    // Plain alpha blending for the see-through bone: one translucent shell needs no depth peeling,
+    // which costs about half the frame rate with software OpenGL.
+    scene->SetUseDepthPeeling(false);
     const bool g = has_model && glyphs_visible;
     for (Part* p : {&arrow, &cres}) p->actor->SetVisibility(g);
     couple_arc.actor->SetVisibility(g && couple_shown);
@@ -342,6 +344,9 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   style_label(d.crot_label, kCrotColour);
   d.cres_label->SetInput("CRes");
   d.crot_label->SetInput("CRot");
+  // Labels on opposite sides of their markers, which often sit close together.
+  d.cres_label->SetDisplayOffset(-62, 6);
+  d.crot_label->SetDisplayOffset(18, -18);
   d.apply_visibility();
 }
 
@@ -506,7 +511,7 @@ void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const Q
   cres_ball->SetThetaResolution(24);
   cres_ball->SetPhiResolution(24);
   copy_output(d.cres.data, cres_ball);
-  d.cres_label->SetPosition(cres.point.x(), cres.point.y() - 1.0, cres.point.z() + 0.8);
+  d.cres_label->SetPosition(cres.point.x(), cres.point.y(), cres.point.z());
 
   d.crot_shown = result.centre_of_rotation_defined && result.centre_of_rotation.allFinite() &&
                  result.centre_of_rotation.norm() < 60.0;
@@ -518,7 +523,7 @@ void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const Q
     ball->SetThetaResolution(4);  // a faceted marker, told apart from the CRes ball
     ball->SetPhiResolution(4);
     copy_output(d.crot.data, ball);
-    d.crot_label->SetPosition(c.x(), c.y() - 1.0, c.z() - 1.2);
+    d.crot_label->SetPosition(c.x(), c.y(), c.z());
   }
   d.apply_visibility();
 }
@@ -545,7 +550,7 @@ void ModelScene::reset_camera() {
   Impl& d = *impl_;
   vtkCamera* camera = d.scene->GetActiveCamera();
   const double mid_z = 0.5 * (d.geometry.crown_tip.z() + d.geometry.apex.z());
-  Eigen::Vector3d view(1.0, 0.45, 0.25);  // from labial, a little mesial and occlusal
+  Eigen::Vector3d view(0.75, 1.0, 0.3);  // from mesio-labial and a little occlusal
   if (d.plane == SectionPlane::kLabiolingual) view = Eigen::Vector3d(0.15, 1.0, 0.1);
   if (d.plane == SectionPlane::kMesiodistal) view = Eigen::Vector3d(1.0, 0.15, 0.1);
   view.normalize();
