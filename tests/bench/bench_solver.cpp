@@ -12,7 +12,8 @@
 // ratio and the difference between the two solutions. The machine's load average is printed first
 // and last: other processes on the cores slow every figure down.
 //
-// Usage: bench_solver [--grid-only] [--tooth-only] [--quick]   (--quick: the smallest grid only)
+// Usage: bench_solver [--grid-only] [--tooth-only] [--quick] [--preset coarse|standard|fine]
+//   --quick: the smallest grid only; --preset: that incisor preset only (no grids, no baseline).
 // Targets (2-core machine): standard preset mesh + assembly + factorisation + six solves + recovery
 // under 10 s and 4 GB; a new load by superposition under 30 ms for the PDL fields.
 #include <sys/resource.h>
@@ -221,6 +222,9 @@ BenchCase tooth_case(mesh::MeshPreset preset) {
 
 int main(int argc, char** argv) {
   bool grids = true, teeth = true, quick = false;
+  std::vector<mesh::MeshPreset> presets = {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard,
+                                           mesh::MeshPreset::kFine};
+  bool baseline = true;
   for (int i = 1; i < argc; ++i) {
     if (std::strcmp(argv[i], "--grid-only") == 0) {
       teeth = false;
@@ -229,9 +233,19 @@ int main(int argc, char** argv) {
     } else if (std::strcmp(argv[i], "--quick") == 0) {
       quick = true;
       teeth = false;
+    } else if (std::strcmp(argv[i], "--preset") == 0 && i + 1 < argc) {
+      try {
+        presets = {mesh::mesh_preset_from_string(argv[++i])};
+      } catch (const sharpey::Error& e) {
+        std::fprintf(stderr, "bench_solver: %s\n", e.what());
+        return 2;
+      }
+      grids = false;
+      baseline = false;
     } else {
       std::fprintf(stderr,
-                   "bench_solver: unknown option '%s'; use --grid-only, --tooth-only or --quick\n",
+                   "bench_solver: unknown option '%s'; use --grid-only, --tooth-only, --quick or "
+                   "--preset coarse|standard|fine\n",
                    argv[i]);
       return 2;
     }
@@ -247,10 +261,9 @@ int main(int argc, char** argv) {
       for (size_t i = 0; i < sizes.size(); ++i) run(grid_case(sizes[i]), i == 0 && !teeth);
     }
     if (teeth) {
-      for (mesh::MeshPreset p :
-           {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard, mesh::MeshPreset::kFine}) {
+      for (mesh::MeshPreset p : presets) {
         try {
-          run(tooth_case(p), p == mesh::MeshPreset::kCoarse);
+          run(tooth_case(p), baseline && p == mesh::MeshPreset::kCoarse);
         } catch (const sharpey::Error& e) {
           std::printf("incisor %s: not available: %s\n", mesh::to_string(p).c_str(), e.what());
         }
