@@ -7,6 +7,7 @@
 #include <exception>
 #include <map>
 #include <string>
+#include <utility>
 
 #include "detail/kinematics.h"
 #include "detail/node_graph.h"
@@ -59,6 +60,49 @@ void colour_elements(const mesh::VolumeMesh& m, std::vector<long long>* colour_p
       (*order)[static_cast<size_t>(next[static_cast<size_t>(colour[static_cast<size_t>(e)])]++)] = e;
     }
     return;
+  }
+}
+
+// Splits the elements into `n_parts` slabs of equal element count along the longest extent of the
+// mesh (by centroid). An element is an interface element when one of its nodes is shared with an
+// element of another slab; the others of a slab touch only nodes no other slab touches, so slabs
+// can be assembled concurrently without synchronisation.
+void partition_elements(const mesh::VolumeMesh& m, int n_parts, std::vector<int>* slab,
+                        std::vector<char>* interface) {
+  const int n_elements = m.n_elements(), k = m.nodes_per_element;
+  Eigen::Vector3d lo = Eigen::Vector3d::Constant(1e300), hi = Eigen::Vector3d::Constant(-1e300);
+  for (const Eigen::Vector3d& x : m.nodes) {
+    lo = lo.cwiseMin(x);
+    hi = hi.cwiseMax(x);
+  }
+  int axis = 0;
+  (hi - lo).maxCoeff(&axis);
+  std::vector<std::pair<double, int>> key(static_cast<size_t>(n_elements));
+  for (int e = 0; e < n_elements; ++e) {
+    double c = 0;
+    for (int a = 0; a < 4; ++a) c += m.nodes[static_cast<size_t>(m.element(e)[a])](axis);
+    key[static_cast<size_t>(e)] = {c, e};
+  }
+  std::sort(key.begin(), key.end());
+  slab->assign(static_cast<size_t>(n_elements), 0);
+  for (size_t i = 0; i < key.size(); ++i) {
+    (*slab)[static_cast<size_t>(key[i].second)] =
+        static_cast<int>(i * static_cast<size_t>(n_parts) / key.size());
+  }
+  // Node owner: the slab of its elements, or -1 when elements of several slabs share it.
+  std::vector<int> owner(static_cast<size_t>(m.n_nodes()), -2);
+  for (int e = 0; e < n_elements; ++e) {
+    const int s = (*slab)[static_cast<size_t>(e)];
+    for (int a = 0; a < k; ++a) {
+      int& o = owner[static_cast<size_t>(m.element(e)[a])];
+      o = (o == -2 || o == s) ? s : -1;
+    }
+  }
+  interface->assign(static_cast<size_t>(n_elements), 0);
+  for (int e = 0; e < n_elements; ++e) {
+    for (int a = 0; a < k; ++a) {
+      if (owner[static_cast<size_t>(m.element(e)[a])] < 0) (*interface)[static_cast<size_t>(e)] = 1;
+    }
   }
 }
 
@@ -157,6 +201,39 @@ void assemble_values(const mesh::VolumeMesh& m, const detail::NodeGraph& g,
       }
     }
     error.rethrow();
+    return;
+  }
+  if (options.strategy == AssemblyStrategy::kPartitioned) {
+    const auto t0 = std::chrono::steady_clock::now();
+    std::vector<int> slab;
+    std::vector<char> interface;
+    partition_elements(m, n_threads, &slab, &interface);
+    if (stats) {
+      stats->colouring_s = seconds_since(t0);
+      stats->n_interface_elements = std::count(interface.begin(), interface.end(), 1);
+    }
+#pragma omp parallel num_threads(n_threads)
+    {
+      detail::ElementMatrix<K> Ke;
+      const int me = omp_get_thread_num();
+      for (int e = 0; e < n_elements; ++e) {
+        if (slab[static_cast<size_t>(e)] != me || interface[static_cast<size_t>(e)]) continue;
+        if (error.failed()) break;
+        try {
+          element(e, &Ke);
+          scatter.template add<false>(e, Ke);
+        } catch (...) {
+          error.capture();
+        }
+      }
+    }
+    error.rethrow();
+    detail::ElementMatrix<K> Ke;
+    for (int e = 0; e < n_elements; ++e) {
+      if (!interface[static_cast<size_t>(e)]) continue;
+      element(e, &Ke);
+      scatter.template add<false>(e, Ke);
+    }
     return;
   }
   const auto t0 = std::chrono::steady_clock::now();

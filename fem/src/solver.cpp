@@ -53,6 +53,72 @@ std::string ordering_name(int ordering) {
   }
 }
 
+
+// Quiet, supernodal, with the requested fill-reducing ordering.
+void configure(cholmod_common* common, Ordering ordering) {
+  common->print = 0;  // the library never prints
+  common->error_handler = nullptr;
+  common->supernodal = CHOLMOD_SUPERNODAL;
+  common->final_ll = 1;
+  switch (ordering) {
+    case Ordering::kAuto:
+      common->nmethods = 0;
+      break;
+    case Ordering::kAmd:
+    case Ordering::kMetis:
+    case Ordering::kNesdis:
+      common->nmethods = 1;
+      common->method[0].ordering =
+          ordering == Ordering::kAmd ? CHOLMOD_AMD
+                                     : (ordering == Ordering::kMetis ? CHOLMOD_METIS : CHOLMOD_NESDIS);
+      common->postorder = 1;
+      break;
+  }
+}
+
+// Upper triangle of the free-free block of K in CHOLMOD's long-index CSC; `diagonal` receives its
+// diagonal (free order). Throws SolverError when CHOLMOD cannot allocate it.
+cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
+                                 const std::vector<int>& free_dofs, const std::vector<int>& free_of,
+                                 cholmod_common* common, std::vector<double>* diagonal, long* n_nonzeros) {
+  const long nf = static_cast<long>(free_dofs.size());
+  long nnz = 0;
+  for (long j = 0; j < nf; ++j) {
+    const int g = free_dofs[static_cast<size_t>(j)];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
+      if (it.row() > g) break;
+      if (free_of[static_cast<size_t>(it.row())] >= 0) ++nnz;
+    }
+  }
+  cholmod_sparse* A = cholmod_l_allocate_sparse(static_cast<size_t>(nf), static_cast<size_t>(nf),
+                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_REAL,
+                                                common);
+  if (!A) {
+    throw SolverError("could not allocate the stiffness matrix: " + cholmod_status_text(common->status));
+  }
+  diagonal->assign(static_cast<size_t>(nf), 0.0);
+  long* Ap = static_cast<long*>(A->p);
+  long* Ai = static_cast<long*>(A->i);
+  double* Ax = static_cast<double*>(A->x);
+  long q = 0;
+  for (long j = 0; j < nf; ++j) {
+    Ap[j] = q;
+    const int g = free_dofs[static_cast<size_t>(j)];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
+      if (it.row() > g) break;
+      const int r = free_of[static_cast<size_t>(it.row())];
+      if (r < 0) continue;
+      Ai[q] = r;
+      Ax[q] = it.value();
+      if (r == j) (*diagonal)[static_cast<size_t>(j)] = it.value();
+      ++q;
+    }
+  }
+  Ap[nf] = q;
+  *n_nonzeros = nnz;
+  return A;
+}
+
 }  // namespace
 
 std::string to_string(Ordering ordering) {
@@ -176,60 +242,11 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
 
   cholmod_l_start(&common);
   started = true;
-  common.print = 0;              // the library never prints
-  common.error_handler = nullptr;
-  common.supernodal = CHOLMOD_SUPERNODAL;
-  common.final_ll = 1;
-  switch (options.ordering) {
-    case Ordering::kAuto:
-      common.nmethods = 0;
-      break;
-    case Ordering::kAmd:
-    case Ordering::kMetis:
-    case Ordering::kNesdis:
-      common.nmethods = 1;
-      common.method[0].ordering = options.ordering == Ordering::kAmd
-                                      ? CHOLMOD_AMD
-                                      : (options.ordering == Ordering::kMetis ? CHOLMOD_METIS
-                                                                              : CHOLMOD_NESDIS);
-      common.postorder = 1;
-      break;
-  }
+  configure(&common, options.ordering);
 
-  // Upper triangle of the free-free block, in CHOLMOD's long-index CSC.
+  std::vector<double> diagonal;
   long nnz = 0;
-  for (long j = 0; j < nf; ++j) {
-    const int g = free_dofs[static_cast<size_t>(j)];
-    for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
-      if (it.row() > g) break;
-      if (free_of[static_cast<size_t>(it.row())] >= 0) ++nnz;
-    }
-  }
-  cholmod_sparse* A = cholmod_l_allocate_sparse(static_cast<size_t>(nf), static_cast<size_t>(nf),
-                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_REAL,
-                                                &common);
-  if (!A) throw SolverError("could not allocate the stiffness matrix: " + cholmod_status_text(common.status));
-  std::vector<double> diagonal(static_cast<size_t>(nf), 0.0);
-  {
-    long* Ap = static_cast<long*>(A->p);
-    long* Ai = static_cast<long*>(A->i);
-    double* Ax = static_cast<double*>(A->x);
-    long q = 0;
-    for (long j = 0; j < nf; ++j) {
-      Ap[j] = q;
-      const int g = free_dofs[static_cast<size_t>(j)];
-      for (Eigen::SparseMatrix<double>::InnerIterator it(K, g); it; ++it) {
-        if (it.row() > g) break;
-        const int r = free_of[static_cast<size_t>(it.row())];
-        if (r < 0) continue;
-        Ai[q] = r;
-        Ax[q] = it.value();
-        if (r == j) diagonal[static_cast<size_t>(j)] = it.value();
-        ++q;
-      }
-    }
-    Ap[nf] = q;
-  }
+  cholmod_sparse* A = free_block_upper(K, free_dofs, free_of, &common, &diagonal, &nnz);
   stats.n_nonzeros = nnz;
 
   auto t0 = Clock::now();
@@ -401,6 +418,56 @@ Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
     throw std::invalid_argument("LinearElasticSolver::reactions: u and f need 3n entries");
   }
   return impl_->K * u - f;
+}
+
+OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
+                                   const std::vector<DofConstraint>& constraints, Ordering ordering) {
+  const int n_dofs = static_cast<int>(K.rows());
+  std::vector<int> free_of(static_cast<size_t>(n_dofs), 0);
+  for (const DofConstraint& c : constraints) {
+    const int dof = 3 * c.node + c.component;
+    if (c.component < 0 || c.component > 2 || dof < 0 || dof >= n_dofs) {
+      throw InputError("constraints", "a constraint names node " + std::to_string(c.node) +
+                                          " component " + std::to_string(c.component) +
+                                          ", outside the matrix");
+    }
+    free_of[static_cast<size_t>(dof)] = -1;
+  }
+  std::vector<int> free_dofs;
+  for (int d = 0; d < n_dofs; ++d) {
+    if (free_of[static_cast<size_t>(d)] < 0) continue;
+    free_of[static_cast<size_t>(d)] = static_cast<int>(free_dofs.size());
+    free_dofs.push_back(d);
+  }
+  cholmod_common common;
+  cholmod_l_start(&common);
+  configure(&common, ordering);
+  OrderingEstimate out;
+  cholmod_sparse* A = nullptr;
+  try {
+    std::vector<double> diagonal;
+    long nnz = 0;
+    A = free_block_upper(K, free_dofs, free_of, &common, &diagonal, &nnz);
+  } catch (...) {
+    cholmod_l_finish(&common);
+    throw;
+  }
+  const auto t0 = Clock::now();
+  cholmod_factor* L = cholmod_l_analyze(A, &common);
+  out.analyse_s = seconds_since(t0);
+  const int status = common.status;
+  if (L) {
+    out.ordering = ordering_name(L->ordering);
+    out.factorisation_gflop = common.fl / 1e9;
+    out.factor_nonzeros = static_cast<long long>(common.lnz);
+    cholmod_l_free_factor(&L, &common);
+  }
+  cholmod_l_free_sparse(&A, &common);
+  cholmod_l_finish(&common);
+  if (out.ordering.empty() || status < CHOLMOD_OK) {
+    throw SolverError("the analysis (fill-reducing ordering) failed: " + cholmod_status_text(status));
+  }
+  return out;
 }
 
 const SolverStatistics& LinearElasticSolver::statistics() const { return impl_->stats; }

@@ -73,7 +73,8 @@ TEST_P(AssemblyCase, SymmetricAndEqualToTripletAssembly) {
   const mesh::VolumeMesh m = two_region_mesh(GetParam().k, GetParam().curved, GetParam().jittered);
   const Eigen::SparseMatrix<double> reference = triplet_assembly(m, kTwoMaterials);
   const double scale = max_abs(reference);
-  for (AssemblyStrategy s : {AssemblyStrategy::kSerial, AssemblyStrategy::kColoured, AssemblyStrategy::kAtomic}) {
+  for (AssemblyStrategy s : {AssemblyStrategy::kSerial, AssemblyStrategy::kColoured,
+                             AssemblyStrategy::kAtomic, AssemblyStrategy::kPartitioned}) {
     SCOPED_TRACE(static_cast<int>(s));
     AssemblyStatistics stats;
     const Eigen::SparseMatrix<double> K = assemble_stiffness(m, kTwoMaterials, {s, 2}, &stats);
@@ -84,6 +85,10 @@ TEST_P(AssemblyCase, SymmetricAndEqualToTripletAssembly) {
     if (s == AssemblyStrategy::kColoured) {
       EXPECT_GT(stats.n_colours, 1);
       EXPECT_EQ(stats.n_threads, 2);
+    }
+    if (s == AssemblyStrategy::kPartitioned) {
+      EXPECT_GT(stats.n_interface_elements, 0);
+      EXPECT_LT(stats.n_interface_elements, m.n_elements());
     }
   }
 }
@@ -109,6 +114,18 @@ INSTANTIATE_TEST_SUITE_P(Meshes, AssemblyCase, ::testing::ValuesIn(kCases),
                          [](const ::testing::TestParamInfo<MeshCase>& param_info) {
                            return param_info.param.name();
                          });
+
+TEST(Assembly, PartitionedWithMoreSlabsThanCores) {
+  const mesh::VolumeMesh m = two_region_mesh(10, true, false);
+  const Eigen::SparseMatrix<double> reference = triplet_assembly(m, kTwoMaterials);
+  for (int threads : {3, 5}) {
+    AssemblyStatistics stats;
+    const Eigen::SparseMatrix<double> K =
+        assemble_stiffness(m, kTwoMaterials, {AssemblyStrategy::kPartitioned, threads}, &stats);
+    EXPECT_LT(max_abs(K - reference), 1e-13 * max_abs(reference)) << threads << " slabs";
+    EXPECT_EQ(stats.n_threads, threads);
+  }
+}
 
 TEST(Assembly, PatternHoldsEveryNodePairSharingAnElementAndNothingElse) {
   const mesh::VolumeMesh m = grid_mesh(2, 2, 2, 10);

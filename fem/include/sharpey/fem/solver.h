@@ -88,4 +88,16 @@ class LinearElasticSolver {
   Impl* impl_;
 };
 
+// Fill and work of the factorisation under one ordering, from CHOLMOD's symbolic analysis only (no
+// numeric factorisation): for choosing an ordering by measurement (bench_assembly).
+struct OrderingEstimate {
+  std::string ordering;           // the ordering CHOLMOD used
+  double analyse_s = 0;
+  double factorisation_gflop = 0;
+  long long factor_nonzeros = 0;
+};
+// K: full 3n x 3n stiffness; the dofs named in `constraints` are removed first.
+OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
+                                   const std::vector<DofConstraint>& constraints, Ordering ordering);
+
 }  // namespace sharpey::fem
