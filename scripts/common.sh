@@ -8,7 +8,7 @@ SHARPEY_BUILD=${SHARPEY_BUILD:-$SHARPEY_ROOT/build}
 # Debian 12 packages Sharpey needs to build, test and run.
 SHARPEY_PACKAGES=(cmake ninja-build g++ pkg-config qt6-base-dev libvtk9-dev libeigen3-dev
   libtet1.5-dev libsuitesparse-dev libopenblas-dev libgtest-dev nlohmann-json3-dev libcli11-dev
-  xvfb xauth poppler-utils)
+  libqt6opengl6-dev libgl1-mesa-dri fonts-dejavu-core xvfb xauth poppler-utils)
 
 sharpey_install_packages() {
   local missing=()
@@ -28,8 +28,8 @@ sharpey_install_packages() {
     fi
   fi
   "${sudo[@]}" apt-get update -qq
-  DEBIAN_FRONTEND=noninteractive "${sudo[@]}" apt-get install -y -qq --no-install-recommends \
-    "${missing[@]}" >/dev/null
+  # With recommends: the set the project is built and tested with.
+  DEBIAN_FRONTEND=noninteractive "${sudo[@]}" apt-get install -y -qq "${missing[@]}" >/dev/null
 }
 
 sharpey_build() {
