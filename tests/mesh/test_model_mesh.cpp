@@ -18,23 +18,7 @@ using test::element_faces;
 using test::FaceUse;
 using test::sorted_triple;
 
-class CoarseIncisor : public ::testing::Test {
- protected:
-  static void SetUpTestSuite() {
-    ModelSpec spec;
-    spec.sizing.preset = MeshPreset::kCoarse;
-    model_ = new ToothModel(build_tooth_model(spec));
-    stats_ = new MeshStatistics(measure(model_->mesh));
-  }
-  static void TearDownTestSuite() {
-    delete model_;
-    delete stats_;
-  }
-  static const ToothModel* model_;
-  static const MeshStatistics* stats_;
-};
-const ToothModel* CoarseIncisor::model_ = nullptr;
-const MeshStatistics* CoarseIncisor::stats_ = nullptr;
+using CoarseIncisor = test::IncisorFixture<MeshPreset::kCoarse>;
 
 bool is_bone(int region) { return region == kCorticalBone || region == kCancellousBone; }
 

@@ -51,23 +51,7 @@ INSTANTIATE_TEST_SUITE_P(
                       WidthCase{"uniform_0_35", {0.35, 0.35, 0.35}, 0}),
     [](const ::testing::TestParamInfo<WidthCase>& p) { return p.param.name; });
 
-class FineIncisor : public ::testing::Test {
- protected:
-  static void SetUpTestSuite() {
-    ModelSpec spec;
-    spec.sizing.preset = MeshPreset::kFine;
-    model_ = new ToothModel(build_tooth_model(spec));
-    stats_ = new MeshStatistics(measure(model_->mesh));
-  }
-  static void TearDownTestSuite() {
-    delete model_;
-    delete stats_;
-  }
-  static const ToothModel* model_;
-  static const MeshStatistics* stats_;
-};
-const ToothModel* FineIncisor::model_ = nullptr;
-const MeshStatistics* FineIncisor::stats_ = nullptr;
+using FineIncisor = test::IncisorFixture<MeshPreset::kFine>;
 
 TEST_F(FineIncisor, RegionVolumesWithinOnePercentOfTheParametricDefinition) {
   const ModelGeometry& g = model_->geometry;

@@ -8,11 +8,36 @@
 #include <map>
 #include <vector>
 
+#include <gtest/gtest.h>
+
+#include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/reference_triangle.h"
+#include "sharpey/mesh/tooth_model.h"
 #include "sharpey/mesh/volume_mesh.h"
 
 namespace sharpey::mesh::test {
+
+// The default model (maxillary central incisor, healthy) at one mesh preset, built and measured
+// once for all cases of a test suite.
+template <MeshPreset kPreset>
+class IncisorFixture : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    ModelSpec spec;
+    spec.sizing.preset = kPreset;
+    model_ = new ToothModel(build_tooth_model(spec));
+    stats_ = new MeshStatistics(measure(model_->mesh));
+  }
+  static void TearDownTestSuite() {
+    delete model_;
+    delete stats_;
+    model_ = nullptr;
+    stats_ = nullptr;
+  }
+  static inline const ToothModel* model_ = nullptr;
+  static inline const MeshStatistics* stats_ = nullptr;
+};
 
 using Triple = std::array<int, 3>;
 
