@@ -1,10 +1,44 @@
 #include "core/case_session.h"
 
+#include <QElapsedTimer>
 #include <algorithm>
 
 #include "sharpey/error.h"
 
 namespace sharpey::app {
+
+QString label(MaterialPart part) {
+  switch (part) {
+    case MaterialPart::kPdl: return QStringLiteral("PDL");
+    case MaterialPart::kCorticalBone: return QStringLiteral("cortical bone");
+    case MaterialPart::kCancellousBone: return QStringLiteral("cancellous bone");
+  }
+  return {};
+}
+
+std::string case_key(MaterialPart part) {
+  switch (part) {
+    case MaterialPart::kPdl: return "pdl.material";
+    case MaterialPart::kCorticalBone: return "bone.cortical_material";
+    case MaterialPart::kCancellousBone: return "bone.cancellous_material";
+  }
+  return {};
+}
+
+namespace {
+
+// Works for const and non-const specs alike.
+template <typename Spec>
+auto& material_of(Spec& spec, MaterialPart part) {
+  switch (part) {
+    case MaterialPart::kPdl: return spec.pdl_material;
+    case MaterialPart::kCorticalBone: return spec.cortical_material;
+    case MaterialPart::kCancellousBone: break;
+  }
+  return spec.cancellous_material;
+}
+
+}  // namespace
 
 CaseSession::CaseSession(QObject* parent) : QObject(parent) {
   flush_timer_.setSingleShot(true);
@@ -132,6 +166,38 @@ void CaseSession::set_pdl_width(double width_mm) {
   geometry_edit();
 }
 
+const fem::Material& CaseSession::material(MaterialPart part) const {
+  return material_of(spec_, part);
+}
+
+void CaseSession::set_material(MaterialPart part, const fem::Material& m) {
+  const fem::Material& old = material(part);
+  if (old.young_modulus_mpa == m.young_modulus_mpa && old.poisson_ratio == m.poisson_ratio) return;
+  analysis::CaseSpec edited = spec_with_load();
+  material_of(edited, part) = m;
+  analysis::validate_case(edited);  // throws before any change
+  material_of(spec_, part) = m;
+  geometry_edit();
+}
+
+void CaseSession::set_defect(int level, double depth_mm, mesh::ToothSurface surface, double width_deg) {
+  if (level < 0 || level >= levels_.size())
+    throw InputError("scenarios", "bone level " + std::to_string(level + 1) + " does not exist; the case has " +
+                                      std::to_string(levels_.size()) + " levels");
+  mesh::BoneLoss loss = levels_.at(level).loss;
+  if (loss.defect_depth_mm == depth_mm && loss.defect_surface == surface && loss.defect_width_deg == width_deg)
+    return;
+  loss.defect_depth_mm = depth_mm;
+  loss.defect_surface = surface;
+  loss.defect_width_deg = width_deg;
+  ScenarioList edited = levels_;
+  edited.set_loss(level, loss);
+  analysis::CaseSpec check = spec_with_load();
+  check.scenarios = edited.scenarios();
+  analysis::validate_case(check);  // throws before any change (depth, width and geometry checks)
+  set_levels(edited);
+}
+
 void CaseSession::set_levels(const ScenarioList& levels) {
   levels_ = levels;
   spec_.scenarios = levels_.scenarios();
@@ -173,6 +239,8 @@ void CaseSession::evaluate(bool interactive) {
   const auto& solutions = study_->solutions();
   const int h = study_->healthy_index();
   const analysis::ScenarioSolution* healthy = h >= 0 ? solutions[static_cast<size_t>(h)].get() : nullptr;
+  QElapsedTimer timer;
+  timer.start();
   try {
     if (interactive && results_.size() == solutions.size()) {
       results_[static_cast<size_t>(current_)] =
@@ -187,6 +255,7 @@ void CaseSession::evaluate(bool interactive) {
       flush_timer_.stop();
     }
     error_.clear();
+    last_evaluation_ms_ = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
   } catch (const Error& e) {
     // An unusable load (e.g. zero force): keep the last results and say why.
     error_ = QString::fromStdString(e.what());

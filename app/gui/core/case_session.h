@@ -21,6 +21,11 @@
 
 namespace sharpey::app {
 
+// The materials the case panel edits (the tooth's stays as the case file gives it).
+enum class MaterialPart { kPdl, kCorticalBone, kCancellousBone };
+QString label(MaterialPart part);             // "PDL", "cortical bone", "cancellous bone"
+std::string case_key(MaterialPart part);      // "pdl.material", "bone.cortical_material", ...
+
 class CaseSession : public QObject {
   Q_OBJECT
 
@@ -52,6 +57,15 @@ class CaseSession : public QObject {
   void set_tooth(mesh::ToothType type);  // handbook dimensions of that tooth
   void set_mesh_preset(mesh::MeshPreset preset);
   void set_pdl_width(double width_mm);   // uniform width
+  // Material edits and angular defects change the model: the results go stale until the next
+  // solve. Both check the whole case first (analysis::validate_case) and throw InputError with the
+  // library's message, naming the case-file key, the value and the allowed range; the case is
+  // unchanged then.
+  const fem::Material& material(MaterialPart part) const;
+  void set_material(MaterialPart part, const fem::Material& material);
+  // Angular defect of bone level `level` (index into levels()): depth below the level's lowered
+  // crest in mm (0 = none), the surface it is centred on and its width around the root in degrees.
+  void set_defect(int level, double depth_mm, mesh::ToothSurface surface, double width_deg);
   const ScenarioList& levels() const { return levels_; }
   // Replaces the bone-level list (names and losses); the comparison choice is kept when possible.
   void set_levels(const ScenarioList& levels);
@@ -76,6 +90,8 @@ class CaseSession : public QObject {
   void flush();
   // Last evaluation error (empty when the last evaluation succeeded).
   const QString& evaluation_error() const { return error_; }
+  // Time the last evaluation by superposition took, ms (for the benchmark and the status bar).
+  double last_evaluation_ms() const { return last_evaluation_ms_; }
 
  signals:
   void case_replaced();    // new, open or recover: everything changed
@@ -103,6 +119,7 @@ class CaseSession : public QObject {
   bool pending_ = false;
   QString error_;
   QTimer flush_timer_;
+  double last_evaluation_ms_ = 0;
 };
 
 }  // namespace sharpey::app

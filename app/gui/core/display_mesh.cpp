@@ -49,15 +49,33 @@ class NodeCompactor {
 }  // namespace
 
 DisplaySurface region_boundary(const mesh::VolumeMesh& mesh, const std::vector<int>& regions) {
+  return visible_boundary(mesh, regions, {});
+}
+
+std::vector<std::array<int, 3>> corner_triangles(const DisplaySurface& surface, bool quadratic) {
+  if (!quadratic) return surface.triangles;
+  // Face split {a, ab, ca}, {ab, b, bc}, {ca, bc, c}, {ab, bc, ca}: corners a, b, c.
+  const auto& t = surface.triangles;
+  std::vector<std::array<int, 3>> out;
+  out.reserve(t.size() / 4);
+  for (size_t i = 0; i + 4 <= t.size(); i += 4) out.push_back({t[i][0], t[i + 1][1], t[i + 2][2]});
+  return out;
+}
+
+DisplaySurface visible_boundary(const mesh::VolumeMesh& mesh, const std::vector<int>& regions,
+                                const std::vector<int>& covering) {
   std::vector<FaceRecord> faces;
   for (int e = 0; e < mesh.n_elements(); ++e) {
-    if (!in_group(mesh.element_region[static_cast<size_t>(e)], regions)) continue;
+    const int region = mesh.element_region[static_cast<size_t>(e)];
+    const bool mine = in_group(region, regions);
+    if (!mine && !in_group(region, covering)) continue;
     const int* n = mesh.element(e);
     for (int f = 0; f < 4; ++f) {
       const auto& tri = mesh::kTetFaces[static_cast<size_t>(f)];
       std::array<int, 3> key = {n[tri[0]], n[tri[1]], n[tri[2]]};
       std::sort(key.begin(), key.end());
-      faces.push_back({key, e, f});
+      // face < 0 marks a face of a covering element.
+      faces.push_back({key, e, mine ? f : -1});
     }
   }
   std::sort(faces.begin(), faces.end(),
@@ -65,15 +83,16 @@ DisplaySurface region_boundary(const mesh::VolumeMesh& mesh, const std::vector<i
 
   DisplaySurface surface;
   NodeCompactor compact(&surface);
-  const bool quadratic = mesh.nodes_per_element == 10;
+  const bool split = mesh.nodes_per_element == 10;
   for (size_t i = 0; i < faces.size();) {
     size_t j = i + 1;
     while (j < faces.size() && faces[j].key == faces[i].key) ++j;
-    if (j - i == 1) {  // not shared inside the group: on its boundary
+    // On the boundary of the group and not hidden: exactly one face there, the group's own.
+    if (j - i == 1 && faces[i].face >= 0) {
       const int* n = mesh.element(faces[i].element);
       const auto& tri = mesh::kTetFaces[static_cast<size_t>(faces[i].face)];
       const int a = compact(n[tri[0]]), b = compact(n[tri[1]]), c = compact(n[tri[2]]);
-      if (quadratic) {
+      if (split) {
         const int ab = compact(n[midside(tri[0], tri[1])]);
         const int bc = compact(n[midside(tri[1], tri[2])]);
         const int ca = compact(n[midside(tri[2], tri[0])]);

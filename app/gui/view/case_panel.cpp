@@ -4,6 +4,7 @@
 #include <QComboBox>
 #include <QDoubleSpinBox>
 #include <QFormLayout>
+#include <QGridLayout>
 #include <QHBoxLayout>
 #include <QHeaderView>
 #include <QLabel>
@@ -49,9 +50,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addLayout(form);
 
   outer->addWidget(new QLabel(QStringLiteral("<b>Bone levels</b> (tick two to four to compare)")));
-  levels_ = new QTableWidget(0, 3);
+  levels_ = new QTableWidget(0, 4);
   levels_->setHorizontalHeaderLabels({QStringLiteral("compare"), QStringLiteral("name"),
-                                      QStringLiteral("horizontal loss (mm)")});
+                                      QStringLiteral("horizontal loss (mm)"),
+                                      QStringLiteral("angular defect")});
   levels_->horizontalHeader()->setStretchLastSection(true);
   levels_->verticalHeader()->setVisible(false);
   levels_->setSelectionBehavior(QAbstractItemView::SelectRows);
@@ -70,6 +72,67 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   add_row->addWidget(add);
   add_row->addWidget(remove);
   outer->addLayout(add_row);
+
+  // Angular defect of the selected level (case file: scenarios[i].angular_defect).
+  defect_title_ = new QLabel;
+  outer->addWidget(defect_title_);
+  auto* defect = new QFormLayout;
+  defect_depth_ = new QDoubleSpinBox;
+  defect_depth_->setRange(0, 15);
+  defect_depth_->setDecimals(1);
+  defect_depth_->setSingleStep(0.5);
+  defect_depth_->setSuffix(QStringLiteral(" mm"));
+  defect_depth_->setSpecialValueText(QStringLiteral("none"));
+  defect_depth_->setToolTip(QStringLiteral("Depth of the vertical defect below this level's crest (0 = none); "
+                                           "the root must keep at least a few millimetres of attachment"));
+  defect_surface_ = new QComboBox;
+  for (mesh::ToothSurface t : {mesh::ToothSurface::kMesial, mesh::ToothSurface::kDistal, mesh::ToothSurface::kLabial,
+                               mesh::ToothSurface::kLingual})
+    defect_surface_->addItem(QString::fromStdString(mesh::to_string(t)), static_cast<int>(t));
+  defect_surface_->setToolTip(QStringLiteral("Root surface the defect is centred on"));
+  defect_width_ = new QDoubleSpinBox;
+  defect_width_->setRange(20, 180);
+  defect_width_->setDecimals(0);
+  defect_width_->setSingleStep(10);
+  defect_width_->setSuffix(QStringLiteral("\u00b0"));
+  defect_width_->setToolTip(QStringLiteral("Width of the defect around the root, 20\u00b0 to 180\u00b0"));
+  for (QDoubleSpinBox* s : {defect_depth_, defect_width_}) s->setKeyboardTracking(false);
+  defect->addRow(QStringLiteral("Depth below crest"), defect_depth_);
+  defect->addRow(QStringLiteral("Centred on"), defect_surface_);
+  defect->addRow(QStringLiteral("Width"), defect_width_);
+  outer->addLayout(defect);
+
+  // Materials (case file: pdl.material, bone.cortical_material, bone.cancellous_material).
+  outer->addWidget(new QLabel(QStringLiteral("<b>Materials</b> (linear elastic)")));
+  auto* materials = new QGridLayout;
+  materials->addWidget(new QLabel(QStringLiteral("Young's modulus")), 0, 1);
+  materials->addWidget(new QLabel(QStringLiteral("Poisson's ratio")), 0, 2);
+  for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
+    const int i = static_cast<int>(part);
+    const bool pdl = part == MaterialPart::kPdl;
+    auto* e = new QDoubleSpinBox;
+    e->setRange(pdl ? 0.001 : 1.0, 1e6);
+    e->setDecimals(pdl ? 3 : 0);
+    e->setSingleStep(pdl ? 0.01 : 100.0);
+    e->setSuffix(QStringLiteral(" MPa"));
+    e->setToolTip(QStringLiteral("%1 (%2.young_modulus_mpa): more than 0, at most 1e6 MPa")
+                      .arg(label(part), QString::fromStdString(case_key(part))));
+    auto* nu = new QDoubleSpinBox;
+    nu->setRange(0.0, 0.499);
+    nu->setDecimals(3);
+    nu->setSingleStep(0.01);
+    nu->setToolTip(QStringLiteral("%1 (%2.poisson_ratio): 0 to below 0.5")
+                       .arg(label(part), QString::fromStdString(case_key(part))));
+    for (QDoubleSpinBox* s : {e, nu}) s->setKeyboardTracking(false);
+    modulus_[i] = e;
+    poisson_[i] = nu;
+    materials->addWidget(new QLabel(label(part)), i + 1, 0);
+    materials->addWidget(e, i + 1, 1);
+    materials->addWidget(nu, i + 1, 2);
+    connect(e, &QDoubleSpinBox::valueChanged, this, [this, i]() { material_edited(i); });
+    connect(nu, &QDoubleSpinBox::valueChanged, this, [this, i]() { material_edited(i); });
+  }
+  outer->addLayout(materials);
 
   outer->addWidget(new QLabel(QStringLiteral("<b>Pressure thresholds</b>")));
   auto* thresholds = new QFormLayout;
@@ -146,6 +209,7 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   });
   connect(levels_, &QTableWidget::itemChanged, this, [this](QTableWidgetItem* item) {
     if (updating_) return;
+    if (item->column() == 3) return;
     if (item->column() == 0) {
       if (!session_->set_compared(item->row(), item->checkState() == Qt::Checked)) {
         QMessageBox::information(this, QStringLiteral("Compare"),
@@ -158,7 +222,59 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     levels_edited();
   });
   connect(solve_, &QPushButton::clicked, this, &CasePanel::solve_requested);
+  connect(levels_, &QTableWidget::currentCellChanged, this, [this]() { reload_defect(); });
+  connect(defect_depth_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
+  connect(defect_width_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
+  connect(defect_surface_, &QComboBox::currentIndexChanged, this, [this]() { defect_edited(); });
   reload();
+}
+
+void CasePanel::reload_defect() {
+  const int row = std::max(0, levels_->currentRow());
+  const ScenarioList& list = session_->levels();
+  const bool on = row < list.size();
+  for (QWidget* w : std::initializer_list<QWidget*>{defect_depth_, defect_surface_, defect_width_}) w->setEnabled(on);
+  if (!on) return;
+  const bool was = updating_;
+  updating_ = true;
+  const mesh::BoneLoss& loss = list.at(row).loss;
+  defect_title_->setText(QStringLiteral("<b>Angular defect</b> of \"%1\"")
+                             .arg(QString::fromStdString(list.at(row).name).toHtmlEscaped()));
+  defect_depth_->setValue(loss.defect_depth_mm);
+  defect_surface_->setCurrentIndex(defect_surface_->findData(static_cast<int>(loss.defect_surface)));
+  defect_width_->setValue(loss.defect_width_deg);
+  defect_surface_->setEnabled(loss.defect_depth_mm > 0);
+  defect_width_->setEnabled(loss.defect_depth_mm > 0);
+  updating_ = was;
+}
+
+void CasePanel::defect_edited() {
+  if (updating_) return;
+  const int row = std::max(0, levels_->currentRow());
+  try {
+    session_->set_defect(row, defect_depth_->value(),
+                         static_cast<mesh::ToothSurface>(defect_surface_->currentData().toInt()),
+                         defect_width_->value());
+  } catch (const InputError& e) {
+    QMessageBox::warning(this, QStringLiteral("Angular defect"), QString::fromStdString(e.what()));
+  }
+  reload_levels();
+  if (levels_->currentRow() != row && row < levels_->rowCount()) levels_->setCurrentCell(row, 1);
+  reload_defect();
+}
+
+void CasePanel::material_edited(int i) {
+  if (updating_) return;
+  const auto part = static_cast<MaterialPart>(i);
+  try {
+    session_->set_material(part, fem::Material{modulus_[i]->value(), poisson_[i]->value()});
+  } catch (const InputError& e) {
+    QMessageBox::warning(this, QStringLiteral("Material"), QString::fromStdString(e.what()));
+    updating_ = true;
+    modulus_[i]->setValue(session_->material(part).young_modulus_mpa);
+    poisson_[i]->setValue(session_->material(part).poisson_ratio);
+    updating_ = false;
+  }
 }
 
 void CasePanel::reload() {
@@ -170,6 +286,10 @@ void CasePanel::reload() {
   preset_->setCurrentIndex(preset_->findData(static_cast<int>(s.model.sizing.preset)));
   capillary_->setValue(s.thresholds.capillary.value_kpa);
   limit_->setValue(s.thresholds.limit.value_kpa);
+  for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
+    modulus_[static_cast<int>(part)]->setValue(session_->material(part).young_modulus_mpa);
+    poisson_[static_cast<int>(part)]->setValue(session_->material(part).poisson_ratio);
+  }
   capillary_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.capillary.source));
   limit_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.limit.source));
   updating_ = false;
@@ -187,9 +307,19 @@ void CasePanel::reload_levels() {
     levels_->setItem(i, 0, check);
     levels_->setItem(i, 1, new QTableWidgetItem(QString::fromStdString(list.at(i).name)));
     levels_->setItem(i, 2, new QTableWidgetItem(QString::number(list.at(i).loss.horizontal_mm, 'f', 1)));
+    const mesh::BoneLoss& loss = list.at(i).loss;
+    auto* defect = new QTableWidgetItem(
+        loss.defect_depth_mm > 0 ? QStringLiteral("%1 mm %2, %3\u00b0")
+                                       .arg(QString::number(loss.defect_depth_mm, 'f', 1),
+                                            QString::fromStdString(mesh::to_string(loss.defect_surface)))
+                                       .arg(loss.defect_width_deg, 0, 'f', 0)
+                                 : QStringLiteral("none"));
+    defect->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);  // edited below the table
+    levels_->setItem(i, 3, defect);
   }
   levels_->resizeColumnToContents(0);
   updating_ = false;
+  reload_defect();
 }
 
 void CasePanel::levels_edited() {
@@ -222,7 +352,8 @@ void CasePanel::levels_edited() {
 void CasePanel::set_stale(bool stale, bool solving) {
   stale_->setVisible(stale && !solving);
   stale_->setText(QStringLiteral("The results shown do not match the case any more (geometry, "
-                                 "mesh or bone levels changed). Mesh and solve again to update them."));
+                                 "materials, mesh or bone levels changed). Mesh and solve again to "
+                                 "update them."));
   solve_->setEnabled(!solving);
 }
 

@@ -1,6 +1,7 @@
 // Case panel: the label, the tooth, the ligament width, the mesh preset, the bone levels (with the
-// choice of two to four to compare), the pressure thresholds with their sources, and the solve
-// button. Geometry edits go to the session, which marks the results stale.
+// choice of two to four to compare) and the angular defect of the selected level, the PDL and
+// bone materials, the pressure thresholds with their sources, and the solve button. Geometry and
+// material edits go to the session, which marks the results stale until the next solve.
 #pragma once
 
 #include <QWidget>
@@ -35,6 +36,9 @@ class CasePanel : public QWidget {
  private:
   void reload_levels();
   void levels_edited();
+  void reload_defect();
+  void defect_edited();
+  void material_edited(int part);
 
   CaseSession* session_;
   bool updating_ = false;
@@ -44,6 +48,12 @@ class CasePanel : public QWidget {
   QComboBox* preset_ = nullptr;
   QTableWidget* levels_ = nullptr;
   QDoubleSpinBox* new_loss_ = nullptr;
+  QLabel* defect_title_ = nullptr;
+  QDoubleSpinBox* defect_depth_ = nullptr;
+  QComboBox* defect_surface_ = nullptr;
+  QDoubleSpinBox* defect_width_ = nullptr;
+  QDoubleSpinBox* modulus_[3] = {nullptr, nullptr, nullptr};  // MaterialPart order
+  QDoubleSpinBox* poisson_[3] = {nullptr, nullptr, nullptr};
   QDoubleSpinBox* capillary_ = nullptr;
   QDoubleSpinBox* limit_ = nullptr;
   QLabel* capillary_source_ = nullptr;

@@ -20,6 +20,7 @@
 #include <QStandardPaths>
 #include <QStatusBar>
 #include <QTabWidget>
+#include <QTimer>
 #include <QToolBar>
 #include <QToolBox>
 #include <QToolButton>
@@ -196,6 +197,13 @@ void MainWindow::build_layout() {
   cancel_->setToolButtonStyle(Qt::ToolButtonTextBesideIcon);
   cancel_->setToolTip(QStringLiteral("Stop meshing and solving"));
   statusBar()->addWidget(status_, 1);
+  // Hover read-out of the 3D view and the root map: value with unit, depth below the CEJ, side.
+  hover_ = new QLabel;
+  hover_->setObjectName(QStringLiteral("hover_readout"));
+  hover_->setTextFormat(Qt::PlainText);
+  statusBar()->addPermanentWidget(hover_);
+  connect(result_view_, &ResultView::hover_changed, hover_, &QLabel::setText);
+  connect(root_map_, &RootMapView::hover_changed, hover_, &QLabel::setText);
   statusBar()->addPermanentWidget(progress_);
   statusBar()->addPermanentWidget(cancel_);
   progress_->hide();
@@ -206,7 +214,17 @@ void MainWindow::build_layout() {
     if (index >= 0) session_->set_current(index);
   });
   connect(load_panel_, &LoadPanel::changed, this, [this](const LoadControls& c, bool interactive) {
-    session_->set_load(c, interactive);
+    // A dragged slider sends more values than can be shown: keep only the newest and apply it
+    // when the event queue is empty, so at most one evaluation and one repaint are pending.
+    pending_load_ = c;
+    if (!interactive) {
+      apply_pending_load(false);
+      return;
+    }
+    if (!load_queued_) {
+      load_queued_ = true;
+      QTimer::singleShot(0, this, [this]() { apply_pending_load(true); });
+    }
   });
   connect(case_panel_, &CasePanel::solve_requested, this, &MainWindow::solve);
   connect(case_panel_, &CasePanel::comparison_changed, this, [this]() {
@@ -357,6 +375,14 @@ void MainWindow::connect_session() {
 
 // ---------------------------------------------------------------------------------------------
 // Results
+
+void MainWindow::apply_pending_load(bool interactive) {
+  load_queued_ = false;
+  if (!pending_load_) return;
+  const LoadControls c = *pending_load_;
+  pending_load_.reset();
+  session_->set_load(c, interactive);
+}
 
 QString MainWindow::force_text() const {
   const LoadControls& c = session_->load_controls();

@@ -12,6 +12,7 @@
 #include <memory>
 #include <optional>
 
+#include "core/load_controls.h"
 #include "sharpey/mesh/tooth_model.h"
 
 class QComboBox;
@@ -81,6 +82,7 @@ class MainWindow : public QMainWindow {
   FindingsPanel* findings() const { return findings_; }
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
+  QLabel* hover_label() const { return hover_; }
   void show_view(ViewKind which);
   // The last error shown to the user (also recorded when dialogs are off).
   const QString& last_error() const { return last_error_; }
@@ -111,6 +113,7 @@ class MainWindow : public QMainWindow {
                                   QMessageBox::StandardButtons buttons, QMessageBox::StandardButton fallback);
   QString force_text() const;
   void set_solving_ui(bool on);
+  void apply_pending_load(bool interactive);
   void remember_recent(const QString& path);
 
   MainWindowOptions options_;
@@ -129,6 +132,7 @@ class MainWindow : public QMainWindow {
   QLabel* load_summary_ = nullptr;
   QLabel* caution_ = nullptr;
   QLabel* status_ = nullptr;
+  QLabel* hover_ = nullptr;
   QProgressBar* progress_ = nullptr;
   QToolButton* cancel_ = nullptr;
   QMenu* recent_menu_ = nullptr;
@@ -137,6 +141,8 @@ class MainWindow : public QMainWindow {
   int prompts_ = 0;
   QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
   bool comparison_dirty_ = true;
+  std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
+  bool load_queued_ = false;
 };
 
 // Folder of the bundled sample cases (SHARPEY_SAMPLES_DIR, the installed share folder, or the

@@ -5,6 +5,7 @@
 #include <vtkArrowSource.h>
 #include <vtkBillboardTextActor3D.h>
 #include <vtkCamera.h>
+#include <vtkCellPicker.h>
 #include <vtkCellArray.h>
 #include <vtkConeSource.h>
 #include <vtkFloatArray.h>
@@ -24,6 +25,7 @@
 #include <vtkTransformPolyDataFilter.h>
 #include <vtkTubeFilter.h>
 
+#include <QElapsedTimer>
 #include <cmath>
 
 #include "core/display_mesh.h"
@@ -65,6 +67,7 @@ struct Part {
   vtkSmartPointer<vtkPolyData> data = vtkSmartPointer<vtkPolyData>::New();
   vtkSmartPointer<vtkPolyDataMapper> mapper = vtkSmartPointer<vtkPolyDataMapper>::New();
   vtkSmartPointer<vtkActor> actor = vtkSmartPointer<vtkActor>::New();
+  vtkSmartPointer<vtkFloatArray> scalars;  // the colouring field, overwritten in place
   Part() {
     mapper->SetInputData(data);
     actor->SetMapper(mapper);
@@ -151,6 +154,22 @@ vtkSmartPointer<vtkTransform> frame_along(const Eigen::Vector3d& origin, const E
   return t;
 }
 
+// The quick twin of a full-detail surface for drawing while the view moves: `triangles` (see
+// corner_triangles) over the full surface's points, sharing its points, normals and colours.
+void fill_quick(vtkPolyData* quick, vtkPolyData* full, const std::vector<std::array<int, 3>>& triangles) {
+  vtkNew<vtkCellArray> polys;
+  polys->AllocateExact(static_cast<vtkIdType>(triangles.size()), static_cast<vtkIdType>(3 * triangles.size()));
+  for (const auto& t : triangles) {
+    const vtkIdType ids[3] = {t[0], t[1], t[2]};
+    polys->InsertNextCell(3, ids);
+  }
+  quick->Initialize();
+  quick->SetPoints(full->GetPoints());
+  quick->SetPolys(polys);
+  quick->GetPointData()->SetNormals(full->GetPointData()->GetNormals());
+  quick->Modified();
+}
+
 void copy_output(vtkPolyData* target, vtkPolyDataAlgorithm* source) {
   source->Update();
   target->DeepCopy(source->GetOutput());
@@ -173,6 +192,8 @@ struct ModelScene::Impl {
   DisplaySurface pdl_surface;
   std::vector<Eigen::Vector3d> pdl_points;
   Part tooth, pdl, bone;
+  Part tooth_quick, pdl_quick, bone_quick;  // corner triangles only, drawn while the view moves
+  bool interacting = false;
   SectionParts sections[2];  // labiolingual, mesiodistal
   SectionPlane plane = SectionPlane::kNone;
   BoneStyle bone_style = BoneStyle::kTranslucent;
@@ -189,6 +210,12 @@ struct ModelScene::Impl {
   vtkSmartPointer<vtkBillboardTextActor3D> crot_label = vtkSmartPointer<vtkBillboardTextActor3D>::New();
   bool glyphs_visible = true;
   bool crot_shown = false, couple_shown = false;
+  // What the glyph geometry was built from; a load change that keeps it (a new magnitude only)
+  // just relabels the arrow.
+  std::vector<double> glyph_key;
+  int n_triangles = 0;
+  SceneTimings timings;
+  vtkSmartPointer<vtkCellPicker> picker = vtkSmartPointer<vtkCellPicker>::New();
 
   SectionParts* active_section() {
     if (plane == SectionPlane::kLabiolingual) return &sections[0];
@@ -210,13 +237,28 @@ struct ModelScene::Impl {
     part.actor->GetProperty()->SetColor(1, 1, 1);
   }
 
-  void write_scalars(vtkPolyData* data, const std::vector<double>& values) {
-    vtkNew<vtkFloatArray> a;
-    a->SetName("value");
-    a->SetNumberOfTuples(static_cast<vtkIdType>(values.size()));
-    for (size_t i = 0; i < values.size(); ++i) a->SetValue(static_cast<vtkIdType>(i), static_cast<float>(values[i]));
-    data->GetPointData()->SetScalars(a);
-    data->Modified();
+  // Overwrites the part's scalar array in place (allocated once per model): the mapper sees the
+  // array's new modification time and re-uploads the colours only, the geometry stays.
+  void write_scalars(Part& part, const std::vector<double>& values) {
+    const auto n = static_cast<vtkIdType>(values.size());
+    if (!part.scalars || part.scalars->GetNumberOfTuples() != n ||
+        part.data->GetPointData()->GetScalars() != part.scalars) {
+      part.scalars = vtkSmartPointer<vtkFloatArray>::New();
+      part.scalars->SetName("value");
+      part.scalars->SetNumberOfTuples(n);
+      part.data->GetPointData()->SetScalars(part.scalars);
+      if (&part == &pdl) pdl_quick.data->GetPointData()->SetScalars(part.scalars);  // shared
+    }
+    float* out = part.scalars->GetPointer(0);
+    for (size_t i = 0; i < values.size(); ++i) out[i] = static_cast<float>(values[i]);
+    part.scalars->Modified();
+  }
+
+  // Colours the section on display (the hidden one is coloured when it is shown).
+  void colour_active_section() {
+    SectionParts* s = active_section();
+    if (!s || !has_model || field.empty()) return;
+    write_scalars(s->pdl_part, section_values(s->pdl));
   }
 
   std::vector<double> surface_values() const {
@@ -251,10 +293,15 @@ struct ModelScene::Impl {
 
   void apply_visibility() {
     const bool cut = plane != SectionPlane::kNone;
-    bone.actor->SetVisibility(has_model && bone_style != BoneStyle::kHidden);
+    const bool full = !interacting, quick = interacting;
+    bone.actor->SetVisibility(full && has_model && bone_style != BoneStyle::kHidden);
+    bone_quick.actor->SetVisibility(quick && has_model && bone_style != BoneStyle::kHidden);
+    // The quick twins share their full part's property, so colour and opacity follow.
     bone.actor->GetProperty()->SetOpacity(bone_style == BoneStyle::kTranslucent && !cut ? kBoneOpacity : 1.0);
-    tooth.actor->SetVisibility(has_model);
-    pdl.actor->SetVisibility(has_model);
+    tooth.actor->SetVisibility(full && has_model);
+    pdl.actor->SetVisibility(full && has_model);
+    tooth_quick.actor->SetVisibility(quick && has_model);
+    pdl_quick.actor->SetVisibility(quick && has_model);
     for (int k = 0; k < 2; ++k) {
       SectionParts& s = sections[k];
       const bool on = has_model && active_section() == &s;
@@ -263,7 +310,7 @@ struct ModelScene::Impl {
       s.cortical_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
       s.cancellous_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
     }
-    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit}) {
+    for (Part* p : {&tooth, &pdl, &bone, &tooth_quick, &pdl_quick, &bone_quick, &iso_capillary, &iso_limit}) {
       p->mapper->RemoveAllClippingPlanes();
       if (cut) p->mapper->AddClippingPlane(clip);
     }
@@ -315,6 +362,11 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
     p->actor->GetProperty()->SetSpecularPower(20);
     scene->AddActor(p->actor);
   }
+  d.colour_by_field(d.pdl_quick);
+  d.tooth_quick.actor->SetProperty(d.tooth.actor->GetProperty());
+  d.pdl_quick.actor->SetProperty(d.pdl.actor->GetProperty());
+  d.bone_quick.actor->SetProperty(d.bone.actor->GetProperty());
+  for (Part* p : {&d.tooth_quick, &d.pdl_quick, &d.bone_quick}) scene->AddActor(p->actor);
   const Rgb cap = capillary_line_colour(), lim = limit_line_colour();
   d.iso_capillary.solid(cap.data());
   d.iso_capillary.actor->GetProperty()->SetLineWidth(2.0f);
@@ -375,13 +427,23 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
     for (int n : nodes) p.push_back(mesh.nodes[static_cast<size_t>(n)]);
     return p;
   };
-  const DisplaySurface tooth = region_boundary(mesh, {mesh::kTooth});
+  // Only what can be seen from outside: the root under the PDL, the PDL's root side and the bone's
+  // socket wall lie behind the (opaque) PDL and are left out, which also keeps the see-through
+  // bone from veiling the PDL colours with a coincident layer.
+  const std::vector<int> bone_regions = {mesh::kCorticalBone, mesh::kCancellousBone};
+  const DisplaySurface tooth = visible_boundary(mesh, {mesh::kTooth}, {mesh::kPdl});
   fill_triangles(d.tooth.data, points_of(tooth.nodes), tooth.triangles, true);
-  d.pdl_surface = region_boundary(mesh, {mesh::kPdl});
+  d.pdl_surface = visible_boundary(mesh, {mesh::kPdl}, {mesh::kTooth});
   d.pdl_points = points_of(d.pdl_surface.nodes);
   fill_triangles(d.pdl.data, d.pdl_points, d.pdl_surface.triangles, true);
-  const DisplaySurface bone = region_boundary(mesh, {mesh::kCorticalBone, mesh::kCancellousBone});
+  const DisplaySurface bone = visible_boundary(mesh, bone_regions, {mesh::kPdl});
   fill_triangles(d.bone.data, points_of(bone.nodes), bone.triangles, true);
+  const bool quadratic = mesh.nodes_per_element == 10;
+  fill_quick(d.tooth_quick.data, d.tooth.data, corner_triangles(tooth, quadratic));
+  fill_quick(d.pdl_quick.data, d.pdl.data, corner_triangles(d.pdl_surface, quadratic));
+  fill_quick(d.bone_quick.data, d.bone.data, corner_triangles(bone, quadratic));
+  for (Part* p : {&d.tooth, &d.pdl, &d.bone}) p->scalars = nullptr;
+  d.n_triangles = static_cast<int>(tooth.triangles.size() + d.pdl_surface.triangles.size() + bone.triangles.size());
 
   const Eigen::Vector3d normals[2] = {Eigen::Vector3d::UnitY(), Eigen::Vector3d::UnitX()};
   for (int k = 0; k < 2; ++k) {
@@ -405,6 +467,7 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   }
   d.has_model = true;
   d.field.clear();
+  d.glyph_key.clear();
   d.apply_visibility();
 }
 
@@ -424,13 +487,20 @@ void ModelScene::set_field(const std::vector<double>& pdl_values, const ColourSc
   d.lut->SetNanColor(none[0], none[1], none[2], 1.0);
   d.lut->Modified();
   if (!d.has_model) return;
-  d.write_scalars(d.pdl.data, d.surface_values());
-  for (SectionParts& s : d.sections) d.write_scalars(s.pdl_part.data, d.section_values(s.pdl));
+  QElapsedTimer timer;
+  timer.start();
+  d.write_scalars(d.pdl, d.surface_values());
+  d.colour_active_section();
+  d.timings.scalars_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
+  timer.restart();
   d.update_iso_lines();
+  d.timings.iso_lines_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
 }
 
 void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
   Impl& d = *impl_;
+  // Called after set_field with the same levels on every load change: the lines are current.
+  if (d.iso_level[0] == capillary && d.iso_level[1] == limit && d.iso_visible == visible) return;
   d.iso_level[0] = capillary;
   d.iso_level[1] = limit;
   d.iso_visible = visible;
@@ -439,7 +509,25 @@ void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
 
 void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const QString& force_text) {
   Impl& d = *impl_;
+  QElapsedTimer timer;
+  timer.start();
   const analysis::ResolvedLoad& load = result.load;
+  const analysis::CentreOfResistance& cres_of = analysis::cres_for(result);
+  std::vector<double> key;
+  auto add = [&key](const Eigen::Vector3d& v) { key.insert(key.end(), {v.x(), v.y(), v.z()}); };
+  const double f_norm = load.force_n.norm(), m_norm = load.couple_nmm.norm();
+  add(f_norm > 0 ? Eigen::Vector3d(load.force_n / f_norm) : Eigen::Vector3d::Zero());
+  add(load.application_point);
+  add(m_norm > 1e-9 ? Eigen::Vector3d(load.couple_nmm / m_norm) : Eigen::Vector3d::Zero());
+  add(cres_of.point);
+  key.push_back(result.centre_of_rotation_defined ? 1.0 : 0.0);
+  add(result.centre_of_rotation.allFinite() ? result.centre_of_rotation : Eigen::Vector3d::Zero());
+  if (key == d.glyph_key) {
+    d.arrow_label->SetInput(f_norm > 0 ? force_text.toUtf8().constData() : "");
+    d.timings.glyphs_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
+    return;
+  }
+  d.glyph_key = key;
   const double arrow_length = 7.0;  // mm, fixed; the label gives the magnitude
   const double f = load.force_n.norm();
   if (f > 0) {
@@ -526,7 +614,16 @@ void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const Q
     d.crot_label->SetPosition(c.x(), c.y(), c.z());
   }
   d.apply_visibility();
+  d.timings.glyphs_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
 }
+
+void ModelScene::set_interacting(bool on) {
+  if (impl_->interacting == on) return;
+  impl_->interacting = on;
+  impl_->apply_visibility();
+}
+
+bool ModelScene::interacting() const { return impl_->interacting; }
 
 void ModelScene::set_glyphs_visible(bool visible) {
   impl_->glyphs_visible = visible;
@@ -540,11 +637,40 @@ void ModelScene::set_bone_style(BoneStyle style) {
 
 void ModelScene::set_section(SectionPlane plane) {
   impl_->plane = plane;
+  impl_->colour_active_section();
   impl_->apply_visibility();
   impl_->update_iso_lines();
 }
 
 SectionPlane ModelScene::section() const { return impl_->plane; }
+
+HoverReadout ModelScene::readout_at(double x, double y, Quantity quantity) {
+  Impl& d = *impl_;
+  if (!d.has_model || d.field.empty() || d.interacting) return {};
+  vtkCellPicker* picker = d.picker;
+  picker->SetTolerance(1e-4);
+  picker->PickFromListOn();
+  picker->InitializePickList();
+  SectionParts* s = d.active_section();
+  // What can hide the PDL: the tooth, and the bone when it is drawn solid.
+  std::vector<Part*> parts = {&d.pdl, &d.tooth};
+  if (s) parts.insert(parts.end(), {&s->pdl_part, &s->tooth_part});
+  if (d.bone_style == BoneStyle::kOpaque || (s && d.bone_style != BoneStyle::kHidden)) {
+    parts.push_back(&d.bone);
+    if (s) parts.insert(parts.end(), {&s->cortical_part, &s->cancellous_part});
+  }
+  for (Part* p : parts) picker->AddPickList(p->actor);
+  if (!picker->Pick(x, y, 0, d.scene)) return {};
+  const vtkActor* hit = picker->GetActor();
+  const double* q = picker->GetPickPosition();
+  const Eigen::Vector3d p(q[0], q[1], q[2]);
+  const int cell = static_cast<int>(picker->GetCellId());
+  if (hit == d.pdl.actor)
+    return surface_readout(d.pdl_points, d.pdl_surface.triangles, d.surface_values(), quantity, cell, p);
+  if (s && hit == s->pdl_part.actor)
+    return surface_readout(s->pdl_points, s->pdl.triangles, d.section_values(s->pdl), quantity, cell, p);
+  return {};
+}
 
 void ModelScene::reset_camera() {
   Impl& d = *impl_;
@@ -570,5 +696,9 @@ int ModelScene::n_coloured_points() const {
 }
 
 int ModelScene::n_iso_segments() const { return impl_->n_iso; }
+
+int ModelScene::n_triangles() const { return impl_->n_triangles; }
+
+const SceneTimings& ModelScene::last_timings() const { return impl_->timings; }
 
 }  // namespace sharpey::app

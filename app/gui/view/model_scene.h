@@ -2,8 +2,9 @@
 // quantity, threshold iso-lines, an optional section along the long axis, and the force system
 // (force arrow at the bracket, couple, centre of resistance, centre of rotation).
 //
-// Geometry is built once per scenario (set_model); a load change only rewrites the scalar
-// arrays, the lookup table, the iso-lines and the glyphs (set_field, set_load_glyphs), so it
+// Geometry is built once per scenario (set_model), surfaces only and only what can be seen from
+// outside; a load change overwrites the PDL's scalar array in place, the lookup table and the
+// iso-lines, and rebuilds the glyphs only when they move (set_field, set_load_glyphs), so it
 // costs milliseconds. All display geometry comes from core/display_mesh.h.
 #pragma once
 
@@ -13,6 +14,7 @@
 #include <vector>
 
 #include "core/colour_map.h"
+#include "core/hover_readout.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/mesh/tooth_model.h"
 
@@ -28,6 +30,13 @@ enum class SectionPlane {
 };
 QString label(BoneStyle style);
 QString label(SectionPlane plane);
+
+// Where the last load change spent its time in the scene (CPU side, before the render), ms.
+struct SceneTimings {
+  double scalars_ms = 0;    // colour field written into the PDL (and the section on display)
+  double iso_lines_ms = 0;  // threshold iso-lines traced
+  double glyphs_ms = 0;     // force arrow, couple, CRes and CRot (rebuilt only when they move)
+};
 
 class ModelScene {
  public:
@@ -51,15 +60,28 @@ class ModelScene {
   // Force arrow, couple, CRes and CRot of a result; `force_text` labels the arrow.
   void set_load_glyphs(const analysis::ScenarioResult& result, const QString& force_text);
   void set_glyphs_visible(bool visible);
+  // While the user turns or zooms the view: draw the tooth, PDL and bone with one triangle per
+  // quadratic face (a quarter of the triangles; colours at the corner nodes), full detail again
+  // when off.
+  void set_interacting(bool on);
+  bool interacting() const;
   void set_bone_style(BoneStyle style);
   void set_section(SectionPlane plane);
   SectionPlane section() const;
+  // The value of the shown field (in `quantity`'s unit) and the position under display point
+  // (x, y) (VTK display coordinates: pixels from the bottom left) on the PDL surface or on the PDL
+  // in the section. The tooth (and the bone when drawn solid) hide the PDL behind them; the
+  // see-through bone does not. No position when no PDL is under the point.
+  HoverReadout readout_at(double x, double y, Quantity quantity);
+
   // Frames the model, looking from labial and a little mesial and occlusal (or at the cut face).
   void reset_camera();
 
   // For tests and benchmarks.
   int n_coloured_points() const;
   int n_iso_segments() const;
+  int n_triangles() const;  // tooth, PDL and bone surfaces (sections excluded)
+  const SceneTimings& last_timings() const;
 
  private:
   struct Impl;

@@ -76,9 +76,38 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     view_->update();
   });
   connect(reset, &QToolButton::clicked, this, &ResultView::reset_camera);
+  // Fewer triangles while the mouse turns the view; full detail for the still frame.
+  connect(view_, &VtkView::interaction_started, this, [this]() {
+    scene_->set_interacting(true);
+    hover_timer_.stop();
+    emit hover_changed(QString());
+  });
+  hover_timer_.setSingleShot(true);
+  hover_timer_.setInterval(40);
+  connect(&hover_timer_, &QTimer::timeout, this, [this]() {
+    emit hover_changed(describe(readout_at(hover_x_, hover_y_)));
+  });
+  connect(view_, &VtkView::hovered, this, [this](int x, int y) {
+    hover_x_ = x;
+    hover_y_ = y;
+    if (!hover_timer_.isActive()) hover_timer_.start();
+  });
+  connect(view_, &VtkView::hover_left, this, [this]() {
+    hover_timer_.stop();
+    emit hover_changed(QString());
+  });
+  connect(view_, &VtkView::interaction_ended, this, [this]() {
+    scene_->set_interacting(false);
+    view_->update();
+  });
 }
 
 ResultView::~ResultView() = default;
+
+HoverReadout ResultView::readout_at(int x, int y) {
+  if (!solution_) return {};
+  return scene_->readout_at(x, y, quantity_);
+}
 
 void ResultView::set_options_visible(bool visible) { options_->setVisible(visible); }
 void ResultView::set_bar_visible(bool visible) { bar_->setVisible(visible); }

@@ -4,6 +4,7 @@
 #pragma once
 
 #include <QImage>
+#include <QTimer>
 #include <QWidget>
 #include <memory>
 #include <optional>
@@ -53,9 +54,13 @@ class ResultView : public QWidget {
   QImage grab_image();
   // The range of the last shown field (data range), in the quantity's unit.
   const ValueRange& shown_range() const { return range_; }
+  // Read-out of the shown quantity at VTK display point (x, y) (see ModelScene::readout_at).
+  HoverReadout readout_at(int x, int y);
 
  signals:
   void quantity_changed(Quantity q);
+  // Text of the read-out under the mouse (empty when there is no PDL under it).
+  void hover_changed(const QString& text);
 
  private:
   void refresh();
@@ -76,6 +81,9 @@ class ResultView : public QWidget {
   std::optional<ValueRange> fixed_range_;
   ValueRange range_;
   bool camera_set_ = false;
+  // The hover read-out picks at most every 40 ms, at the newest mouse position.
+  QTimer hover_timer_;
+  int hover_x_ = -1, hover_y_ = -1;
 };
 
 }  // namespace sharpey::app

@@ -1,33 +1,18 @@
 #include "view/root_map_view.h"
 
 #include <QImage>
+#include <QMouseEvent>
 #include <QPainter>
 #include <cmath>
 
 #include "core/axis_ticks.h"
+#include "core/hover_readout.h"
 #include "core/iso_lines.h"
 #include "view/colour_bar.h"
 
 namespace sharpey::app {
 
 namespace {
-
-// Value of the map at fractional cell coordinates (column x, row y; cell centres at integers):
-// bilinear between the four nearest cell centres, periodic in angle; where one of them has no
-// ligament, the nearest cell's value (so the crest edge stays sharp).
-double sample(const analysis::RootMap& m, double x, double y) {
-  auto at = [&](int row, int col) {
-    col = ((col % m.n_angle) + m.n_angle) % m.n_angle;
-    row = std::clamp(row, 0, m.n_depth - 1);
-    return m.pressure_kpa[static_cast<size_t>(row) * static_cast<size_t>(m.n_angle) + static_cast<size_t>(col)];
-  };
-  const int c0 = static_cast<int>(std::floor(x)), r0 = static_cast<int>(std::floor(y));
-  const double fx = x - c0, fy = y - r0;
-  const double v00 = at(r0, c0), v01 = at(r0, c0 + 1), v10 = at(r0 + 1, c0), v11 = at(r0 + 1, c0 + 1);
-  if (std::isfinite(v00) && std::isfinite(v01) && std::isfinite(v10) && std::isfinite(v11))
-    return (1 - fy) * ((1 - fx) * v00 + fx * v01) + fy * ((1 - fx) * v10 + fx * v11);
-  return at(static_cast<int>(std::lround(y)), static_cast<int>(std::lround(x)));
-}
 
 const char* const kSideNames[] = {"labial", "mesial", "lingual", "distal", "labial"};
 
@@ -36,6 +21,25 @@ const char* const kSideNames[] = {"labial", "mesial", "lingual", "distal", "labi
 RootMapView::RootMapView(QWidget* parent) : QWidget(parent) {
   setMinimumSize(420, 280);
   setAutoFillBackground(true);
+  setMouseTracking(true);
+}
+
+HoverReadout RootMapView::readout_at(const QPoint& p) const {
+  if (!has_map() || !plot_.isValid() || !plot_.contains(p)) return {};
+  const double angle = (p.x() + 0.5 - plot_.left()) / plot_.width() * 360.0;
+  const double depth = map_.depth_min_mm + (p.y() + 0.5 - plot_.top()) / plot_.height() *
+                                               (map_.depth_max_mm - map_.depth_min_mm);
+  return root_map_readout(map_, angle, depth);
+}
+
+void RootMapView::mouseMoveEvent(QMouseEvent* event) {
+  emit hover_changed(describe(readout_at(event->position().toPoint())));
+  QWidget::mouseMoveEvent(event);
+}
+
+void RootMapView::leaveEvent(QEvent* event) {
+  emit hover_changed(QString());
+  QWidget::leaveEvent(event);
 }
 
 void RootMapView::set_map(const analysis::RootMap& map, const analysis::Thresholds& thresholds,
@@ -96,7 +100,7 @@ void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
     auto* row = reinterpret_cast<QRgb*>(image.scanLine(py));
     for (int px = 0; px < plot.width(); ++px) {
       const double x = (px + 0.5) / plot.width() * n_a - 0.5;
-      const double v = sample(map_, x, y);
+      const double v = root_map_sample(map_, x, y);
       if (std::isfinite(v)) {
         row[px] = to_qcolor(scale_.colour(v)).rgb();
       } else {  // no ligament: light diagonal hatching
@@ -105,6 +109,7 @@ void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
     }
   }
   painter.drawImage(plot.topLeft(), image);
+  if (painter.device() == this) plot_ = plot;
   painter.setPen(QPen(QColor(60, 60, 60), 1));
   painter.setBrush(Qt::NoBrush);
   painter.drawRect(plot);

@@ -6,6 +6,7 @@
 #include <QWidget>
 
 #include "core/colour_map.h"
+#include "core/hover_readout.h"
 #include "sharpey/analysis/study.h"
 
 namespace sharpey::app {
@@ -28,8 +29,18 @@ class RootMapView : public QWidget {
   void paint_into(QPainter& painter, const QRect& rect) const;
   QSize sizeHint() const override { return {820, 520}; }
 
+  // The pressure and position under widget point `p` (as last painted); no position outside the
+  // map's plot.
+  HoverReadout readout_at(const QPoint& p) const;
+
+ signals:
+  // Text of the read-out under the mouse (empty when the mouse leaves the map).
+  void hover_changed(const QString& text);
+
  protected:
   void paintEvent(QPaintEvent* event) override;
+  void mouseMoveEvent(QMouseEvent* event) override;
+  void leaveEvent(QEvent* event) override;
 
  private:
   analysis::RootMap map_;
@@ -37,6 +48,7 @@ class RootMapView : public QWidget {
   QString title_;
   ColourScale scale_;
   mutable int n_segments_ = 0;
+  mutable QRect plot_;  // where the map image was last painted, widget coordinates
 };
 
 }  // namespace sharpey::app

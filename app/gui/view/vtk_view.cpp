@@ -34,7 +34,7 @@ void VtkView::set_default_surface_format() {
 
 VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
   setFocusPolicy(Qt::StrongFocus);
-  setMouseTracking(false);
+  setMouseTracking(true);  // for the hover read-out
   setMinimumSize(160, 120);
 
   window_ = vtkSmartPointer<vtkGenericOpenGLRenderWindow>::New();
@@ -60,6 +60,8 @@ VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
   interactor_->EnableRenderOff();  // renders happen in paintGL only
   vtkNew<vtkInteractorStyleTrackballCamera> style;
   interactor_->SetInteractorStyle(style);
+  style->AddObserver(vtkCommand::StartInteractionEvent, this, &VtkView::on_style_event);
+  style->AddObserver(vtkCommand::EndInteractionEvent, this, &VtkView::on_style_event);
   interactor_->AddObserver(vtkCommand::RenderEvent, this, &VtkView::on_interactor_render);
   interactor_->Initialize();
 }
@@ -72,6 +74,7 @@ VtkView::~VtkView() {
   doneCurrent();
   window_->RemoveAllObservers();
   interactor_->RemoveAllObservers();
+  if (vtkInteractorObserver* style = interactor_->GetInteractorStyle()) style->RemoveAllObservers();
 }
 
 vtkRenderer* VtkView::renderer() const { return renderer_; }
@@ -155,6 +158,11 @@ void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_dat
   }
 }
 
+void VtkView::on_style_event(vtkObject*, unsigned long event_id, void*) {
+  if (event_id == vtkCommand::StartInteractionEvent) emit interaction_started();
+  else if (event_id == vtkCommand::EndInteractionEvent) emit interaction_ended();
+}
+
 void VtkView::on_interactor_render(vtkObject*, unsigned long, void*) {
   update();
   emit camera_changed();
@@ -190,7 +198,14 @@ void VtkView::mouseReleaseEvent(QMouseEvent* event) {
   }
 }
 
-void VtkView::mouseMoveEvent(QMouseEvent* event) { forward_mouse(event, vtkCommand::MouseMoveEvent); }
+void VtkView::mouseMoveEvent(QMouseEvent* event) {
+  forward_mouse(event, vtkCommand::MouseMoveEvent);
+  if (event->buttons() == Qt::NoButton) {
+    int x = 0, y = 0;
+    interactor_->GetEventPosition(x, y);
+    emit hovered(x, y);
+  }
+}
 
 void VtkView::mouseDoubleClickEvent(QMouseEvent* event) {
   if (event->button() == Qt::LeftButton) forward_mouse(event, vtkCommand::LeftButtonPressEvent);
@@ -215,6 +230,7 @@ void VtkView::enterEvent(QEnterEvent* event) {
 
 void VtkView::leaveEvent(QEvent* event) {
   interactor_->InvokeEvent(vtkCommand::LeaveEvent, event);
+  emit hover_left();
   QOpenGLWidget::leaveEvent(event);
 }
 

@@ -48,6 +48,14 @@ class VtkView : public QOpenGLWidget {
   void camera_changed();
   // A frame was rendered (after paintGL).
   void frame_rendered();
+  // The user started / stopped turning, panning or zooming the view with the mouse (the scene may
+  // draw with less detail in between).
+  void interaction_started();
+  void interaction_ended();
+  // The mouse moved over the view with no button held, at VTK display coordinates (pixels from
+  // the bottom left); hover_left() when it leaves the view.
+  void hovered(int x, int y);
+  void hover_left();
 
  protected:
   void initializeGL() override;
@@ -67,6 +75,7 @@ class VtkView : public QOpenGLWidget {
  private:
   void on_window_event(vtkObject* caller, unsigned long event_id, void* call_data);
   void on_interactor_render(vtkObject* caller, unsigned long event_id, void* call_data);
+  void on_style_event(vtkObject* caller, unsigned long event_id, void* call_data);
   void release_graphics();
   bool forward_mouse(QMouseEvent* event, unsigned long vtk_event);
 
