@@ -3,36 +3,64 @@
 #include <QApplication>
 #include <QCommandLineParser>
 #include <QDir>
+#include <QEventLoop>
+#include <QMouseEvent>
 #include <QTimer>
 #include <cstdio>
 
 #include "sharpey/error.h"
 #include "view/main_window.h"
+#include "view/result_view.h"
+#include "view/root_map_view.h"
 #include "view/vtk_view.h"
+#include "sharpey/fem/blas_kernels.h"
 
 namespace {
 
-// --screenshots: once solved, writes one PNG per view and the PDF report, then quits.
+void wait_ms(int ms) {
+  QEventLoop loop;
+  QTimer::singleShot(ms, &loop, &QEventLoop::quit);
+  loop.exec();
+}
+
+// Moves the mouse (no button held) to a point of `widget` given as fractions of its size, so the
+// hover read-out shows in the status bar.
+void hover(QWidget* widget, double fx, double fy) {
+  const QPointF p(fx * widget->width(), fy * widget->height());
+  QMouseEvent move(QEvent::MouseMove, p, widget->mapToGlobal(p), Qt::NoButton, Qt::NoButton, Qt::NoModifier);
+  QApplication::sendEvent(widget, &move);
+  wait_ms(150);
+}
+
+// --screenshots: once solved, writes one PNG per view (the window with a hover read-out, and the
+// view's own export), the window with the case panel open and the PDF report, then quits.
 void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   using sharpey::app::ViewKind;
   QDir().mkpath(folder);
   const QDir dir(folder);
-  auto shot = [&](ViewKind view, const QString& name) {
+  auto shot = [&](ViewKind view, const QString& name, QWidget* hover_over) {
     window.show_view(view);
     QApplication::processEvents();
+    if (hover_over) hover(hover_over, 0.5, 0.72);
     window.grab().toImage().save(dir.filePath(name + QStringLiteral("_window.png")));
     window.export_image(dir.filePath(name + QStringLiteral(".png")), view);
   };
-  shot(ViewKind::k3D, QStringLiteral("view_3d"));
-  shot(ViewKind::kRootMap, QStringLiteral("root_map"));
-  shot(ViewKind::kComparison, QStringLiteral("bone_levels"));
+  shot(ViewKind::k3D, QStringLiteral("view_3d"), window.result_view()->vtk_view());
+  shot(ViewKind::kRootMap, QStringLiteral("root_map"), window.root_map());
+  shot(ViewKind::kComparison, QStringLiteral("bone_levels"), nullptr);
   window.show_view(ViewKind::k3D);
+  window.show_case_panel(true);
+  QApplication::processEvents();
+  wait_ms(100);
+  window.grab().toImage().save(dir.filePath(QStringLiteral("case_panel_window.png")));
+  window.show_case_panel(false);
   window.export_report(dir.filePath(QStringLiteral("report.pdf")));
 }
 
 }  // namespace
 
 int main(int argc, char** argv) {
+  sharpey::fem::use_fast_blas_kernels(argv);
   sharpey::app::VtkView::set_default_surface_format();
   QApplication app(argc, argv);
   QApplication::setApplicationName(QStringLiteral("sharpey"));

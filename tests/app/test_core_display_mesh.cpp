@@ -123,22 +123,6 @@ TEST_P(VisibleBoundary, LeavesOutTheFacesACoveringRegionHides) {
   EXPECT_FALSE(interface_face);
   // Nothing covering: the whole boundary, same triangles as region_boundary.
   EXPECT_EQ(visible_boundary(m, {1}, {}).triangles.size(), region_boundary(m, {1}).triangles.size());
-  // Corner triangles: one per face, same area and orientation for flat faces, a quarter of the
-  // triangles, every corner a vertex node of the mesh (ids below the first midside node).
-  const auto quick = corner_triangles(left, quadratic);
-  EXPECT_NEAR(total_area(points, quick), 12.0, 1e-12);
-  EXPECT_EQ(quick.size() * (quadratic ? 4 : 1), left.triangles.size());
-  const int n_vertices = 4 * 3 * 3;  // (3 + 1) x (2 + 1) x (2 + 1) grid nodes come first
-  for (const auto& t : quick)
-    for (int k : t) EXPECT_LT(left.nodes[static_cast<size_t>(k)], n_vertices);
-  Eigen::Vector3d full_normal = Eigen::Vector3d::Zero(), quick_normal = Eigen::Vector3d::Zero();
-  for (const auto& t : left.triangles)
-    full_normal += (points[static_cast<size_t>(t[1])] - points[static_cast<size_t>(t[0])])
-                       .cross(points[static_cast<size_t>(t[2])] - points[static_cast<size_t>(t[0])]);
-  for (const auto& t : quick)
-    quick_normal += (points[static_cast<size_t>(t[1])] - points[static_cast<size_t>(t[0])])
-                        .cross(points[static_cast<size_t>(t[2])] - points[static_cast<size_t>(t[0])]);
-  EXPECT_NEAR((full_normal - quick_normal).norm(), 0, 1e-12);
 }
 INSTANTIATE_TEST_SUITE_P(LinearAndQuadratic, VisibleBoundary, ::testing::Bool());
 

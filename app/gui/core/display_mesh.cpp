@@ -52,16 +52,6 @@ DisplaySurface region_boundary(const mesh::VolumeMesh& mesh, const std::vector<i
   return visible_boundary(mesh, regions, {});
 }
 
-std::vector<std::array<int, 3>> corner_triangles(const DisplaySurface& surface, bool quadratic) {
-  if (!quadratic) return surface.triangles;
-  // Face split {a, ab, ca}, {ab, b, bc}, {ca, bc, c}, {ab, bc, ca}: corners a, b, c.
-  const auto& t = surface.triangles;
-  std::vector<std::array<int, 3>> out;
-  out.reserve(t.size() / 4);
-  for (size_t i = 0; i + 4 <= t.size(); i += 4) out.push_back({t[i][0], t[i + 1][1], t[i + 2][2]});
-  return out;
-}
-
 DisplaySurface visible_boundary(const mesh::VolumeMesh& mesh, const std::vector<int>& regions,
                                 const std::vector<int>& covering) {
   std::vector<FaceRecord> faces;

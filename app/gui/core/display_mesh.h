@@ -27,11 +27,6 @@ DisplaySurface region_boundary(const mesh::VolumeMesh& mesh, const std::vector<i
 DisplaySurface visible_boundary(const mesh::VolumeMesh& mesh, const std::vector<int>& regions,
                                 const std::vector<int>& covering);
 
-// One triangle per mesh face of a surface from region_boundary / visible_boundary (the corners of
-// each quadratic face, whose four sub-triangles come in order), indices into the same `nodes`: a
-// quarter of the triangles, for a quick draw while the view moves. Linear: the triangles as is.
-std::vector<std::array<int, 3>> corner_triangles(const DisplaySurface& surface, bool quadratic);
-
 // A point on a mesh edge: position (and any nodal value) = (1 - t) * at(a) + t * at(b).
 struct EdgePoint {
   int a = 0, b = 0;  // global node ids

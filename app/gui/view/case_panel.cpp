@@ -4,7 +4,6 @@
 #include <QComboBox>
 #include <QDoubleSpinBox>
 #include <QFormLayout>
-#include <QGridLayout>
 #include <QHBoxLayout>
 #include <QHeaderView>
 #include <QLabel>
@@ -52,8 +51,8 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(new QLabel(QStringLiteral("<b>Bone levels</b> (tick two to four to compare)")));
   levels_ = new QTableWidget(0, 4);
   levels_->setHorizontalHeaderLabels({QStringLiteral("compare"), QStringLiteral("name"),
-                                      QStringLiteral("horizontal loss (mm)"),
-                                      QStringLiteral("angular defect")});
+                                      QStringLiteral("loss (mm)"), QStringLiteral("angular defect")});
+  levels_->horizontalHeaderItem(2)->setToolTip(QStringLiteral("Horizontal bone loss below the healthy crest"));
   levels_->horizontalHeader()->setStretchLastSection(true);
   levels_->verticalHeader()->setVisible(false);
   levels_->setSelectionBehavior(QAbstractItemView::SelectRows);
@@ -77,6 +76,7 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   defect_title_ = new QLabel;
   outer->addWidget(defect_title_);
   auto* defect = new QFormLayout;
+  defect->setRowWrapPolicy(QFormLayout::WrapLongRows);
   defect_depth_ = new QDoubleSpinBox;
   defect_depth_->setRange(0, 15);
   defect_depth_->setDecimals(1);
@@ -104,9 +104,8 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
 
   // Materials (case file: pdl.material, bone.cortical_material, bone.cancellous_material).
   outer->addWidget(new QLabel(QStringLiteral("<b>Materials</b> (linear elastic)")));
-  auto* materials = new QGridLayout;
-  materials->addWidget(new QLabel(QStringLiteral("Young's modulus")), 0, 1);
-  materials->addWidget(new QLabel(QStringLiteral("Poisson's ratio")), 0, 2);
+  auto* materials = new QFormLayout;
+  materials->setRowWrapPolicy(QFormLayout::WrapLongRows);
   for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
     const int i = static_cast<int>(part);
     const bool pdl = part == MaterialPart::kPdl;
@@ -126,9 +125,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     for (QDoubleSpinBox* s : {e, nu}) s->setKeyboardTracking(false);
     modulus_[i] = e;
     poisson_[i] = nu;
-    materials->addWidget(new QLabel(label(part)), i + 1, 0);
-    materials->addWidget(e, i + 1, 1);
-    materials->addWidget(nu, i + 1, 2);
+    QString name = label(part);
+    name[0] = name[0].toUpper();
+    materials->addRow(name + QStringLiteral(" modulus"), e);
+    materials->addRow(name + QStringLiteral(" Poisson ratio"), nu);
     connect(e, &QDoubleSpinBox::valueChanged, this, [this, i]() { material_edited(i); });
     connect(nu, &QDoubleSpinBox::valueChanged, this, [this, i]() { material_edited(i); });
   }
@@ -317,7 +317,7 @@ void CasePanel::reload_levels() {
     defect->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);  // edited below the table
     levels_->setItem(i, 3, defect);
   }
-  levels_->resizeColumnToContents(0);
+  levels_->resizeColumnsToContents();
   updating_ = false;
   reload_defect();
 }

@@ -1,5 +1,6 @@
 #include "view/colour_bar.h"
 
+#include <algorithm>
 #include <QFontMetrics>
 #include <QLinearGradient>
 #include <QPainter>
@@ -61,7 +62,10 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
   painter.setFont(bold);
   const int top = unitrect.bottom() + line + 8;
   const int bottom = area.bottom() - line - 6;
-  const QRect bar(area.left() + 46, top, 20, std::max(10, bottom - top));
+  // Room left of the bar for the longest threshold name.
+  int names = 0;
+  for (const BarMark& m : marks) names = std::max(names, fm.horizontalAdvance(m.text));
+  const QRect bar(area.left() + std::max(46, names + 12), top, 20, std::max(10, bottom - top));
   const ValueRange r = scale.range();
   const bool flat = !(r.max > r.min);
   auto y_of = [&](double v) {

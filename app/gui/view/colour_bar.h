@@ -30,7 +30,7 @@ class ColourBar : public QWidget {
   // The range shown (the scale's data range).
   const ValueRange& range() const { return scale_.range(); }
   const QString& unit() const { return unit_; }
-  QSize sizeHint() const override { return {128, 300}; }
+  QSize sizeHint() const override { return {136, 300}; }
 
   // Paints the bar into `rect` of any painter (also used by the PDF report).
   void paint_into(QPainter& painter, const QRect& rect) const;

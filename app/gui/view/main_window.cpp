@@ -41,6 +41,7 @@
 #include "view/report_writer.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
+#include "view/vtk_view.h"
 
 namespace sharpey::app {
 
@@ -139,6 +140,7 @@ void MainWindow::build_layout() {
   left->addItem(wrap(load_panel_), QStringLiteral("Force system"));
   left->addItem(wrap(case_panel_), QStringLiteral("Case and bone levels"));
   left->setMinimumWidth(320);
+  left_panels_ = left;
   split->addWidget(left);
 
   // Middle: which bone level, then the views.
@@ -213,19 +215,7 @@ void MainWindow::build_layout() {
   connect(scenario_box_, &QComboBox::currentIndexChanged, this, [this](int index) {
     if (index >= 0) session_->set_current(index);
   });
-  connect(load_panel_, &LoadPanel::changed, this, [this](const LoadControls& c, bool interactive) {
-    // A dragged slider sends more values than can be shown: keep only the newest and apply it
-    // when the event queue is empty, so at most one evaluation and one repaint are pending.
-    pending_load_ = c;
-    if (!interactive) {
-      apply_pending_load(false);
-      return;
-    }
-    if (!load_queued_) {
-      load_queued_ = true;
-      QTimer::singleShot(0, this, [this]() { apply_pending_load(true); });
-    }
-  });
+  connect(load_panel_, &LoadPanel::changed, this, &MainWindow::set_load);
   connect(case_panel_, &CasePanel::solve_requested, this, &MainWindow::solve);
   connect(case_panel_, &CasePanel::comparison_changed, this, [this]() {
     comparison_dirty_ = true;
@@ -376,12 +366,29 @@ void MainWindow::connect_session() {
 // ---------------------------------------------------------------------------------------------
 // Results
 
+void MainWindow::set_load(const LoadControls& controls, bool interactive) {
+  // A dragged slider sends more values than can be shown: keep only the newest and apply it
+  // when the event queue is empty, so at most one evaluation and one repaint are pending.
+  pending_load_ = controls;
+  if (!interactive) {
+    apply_pending_load(false);
+    return;
+  }
+  if (!load_queued_) {
+    load_queued_ = true;
+    QTimer::singleShot(0, this, [this]() { apply_pending_load(true); });
+  }
+}
+
 void MainWindow::apply_pending_load(bool interactive) {
   load_queued_ = false;
   if (!pending_load_) return;
   const LoadControls c = *pending_load_;
   pending_load_.reset();
+  // While a slider moves the 3D view draws the quick way (no see-through bone).
+  result_view_->scene()->set_interacting(interactive);
   session_->set_load(c, interactive);
+  if (!interactive) result_view_->vtk_view()->update();
 }
 
 QString MainWindow::force_text() const {
@@ -420,6 +427,8 @@ void MainWindow::refresh_scenario_choice() {
   scenario_box_->setCurrentIndex(session_->current());
   scenario_box_->setEnabled(scenario_box_->count() > 1);
 }
+
+void MainWindow::show_case_panel(bool on) { left_panels_->setCurrentIndex(on ? 1 : 0); }
 
 void MainWindow::show_view(ViewKind which) {
   tabs_->setCurrentIndex(which == ViewKind::k3D ? 0 : which == ViewKind::kRootMap ? 1 : 2);

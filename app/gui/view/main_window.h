@@ -20,6 +20,7 @@ class QLabel;
 class QMenu;
 class QProgressBar;
 class QTabWidget;
+class QToolBox;
 class QToolButton;
 
 namespace sharpey::app {
@@ -61,6 +62,12 @@ class MainWindow : public QMainWindow {
   // Offers the autosaved copies of sessions that ended without closing; recovers the chosen one.
   void check_recovery();
 
+  // ---- force system ----
+  // What the load panel calls: `interactive` while a slider is dragged (only the newest of a
+  // burst of values is applied, once the event queue is empty; the 3D view draws the quick way
+  // until a non-interactive change ends the drag).
+  void set_load(const LoadControls& controls, bool interactive);
+
   // ---- solving ----
   void solve();
   void cancel_solve();
@@ -84,6 +91,8 @@ class MainWindow : public QMainWindow {
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
   void show_view(ViewKind which);
+  // Opens the case panel (true) or the force-system panel (false) on the left.
+  void show_case_panel(bool on);
   // The last error shown to the user (also recorded when dialogs are off).
   const QString& last_error() const { return last_error_; }
   int prompts_shown() const { return prompts_; }
@@ -128,6 +137,7 @@ class MainWindow : public QMainWindow {
   ComparisonView* comparison_ = nullptr;
   FindingsPanel* findings_ = nullptr;
   QTabWidget* tabs_ = nullptr;
+  QToolBox* left_panels_ = nullptr;
   QComboBox* scenario_box_ = nullptr;
   QLabel* load_summary_ = nullptr;
   QLabel* caution_ = nullptr;

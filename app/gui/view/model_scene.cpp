@@ -154,22 +154,6 @@ vtkSmartPointer<vtkTransform> frame_along(const Eigen::Vector3d& origin, const E
   return t;
 }
 
-// The quick twin of a full-detail surface for drawing while the view moves: `triangles` (see
-// corner_triangles) over the full surface's points, sharing its points, normals and colours.
-void fill_quick(vtkPolyData* quick, vtkPolyData* full, const std::vector<std::array<int, 3>>& triangles) {
-  vtkNew<vtkCellArray> polys;
-  polys->AllocateExact(static_cast<vtkIdType>(triangles.size()), static_cast<vtkIdType>(3 * triangles.size()));
-  for (const auto& t : triangles) {
-    const vtkIdType ids[3] = {t[0], t[1], t[2]};
-    polys->InsertNextCell(3, ids);
-  }
-  quick->Initialize();
-  quick->SetPoints(full->GetPoints());
-  quick->SetPolys(polys);
-  quick->GetPointData()->SetNormals(full->GetPointData()->GetNormals());
-  quick->Modified();
-}
-
 void copy_output(vtkPolyData* target, vtkPolyDataAlgorithm* source) {
   source->Update();
   target->DeepCopy(source->GetOutput());
@@ -192,8 +176,7 @@ struct ModelScene::Impl {
   DisplaySurface pdl_surface;
   std::vector<Eigen::Vector3d> pdl_points;
   Part tooth, pdl, bone;
-  Part tooth_quick, pdl_quick, bone_quick;  // corner triangles only, drawn while the view moves
-  bool interacting = false;
+  bool interacting = false;  // the user turns the view: the see-through bone is left out
   SectionParts sections[2];  // labiolingual, mesiodistal
   SectionPlane plane = SectionPlane::kNone;
   BoneStyle bone_style = BoneStyle::kTranslucent;
@@ -247,7 +230,6 @@ struct ModelScene::Impl {
       part.scalars->SetName("value");
       part.scalars->SetNumberOfTuples(n);
       part.data->GetPointData()->SetScalars(part.scalars);
-      if (&part == &pdl) pdl_quick.data->GetPointData()->SetScalars(part.scalars);  // shared
     }
     float* out = part.scalars->GetPointer(0);
     for (size_t i = 0; i < values.size(); ++i) out[i] = static_cast<float>(values[i]);
@@ -293,15 +275,14 @@ struct ModelScene::Impl {
 
   void apply_visibility() {
     const bool cut = plane != SectionPlane::kNone;
-    const bool full = !interacting, quick = interacting;
-    bone.actor->SetVisibility(full && has_model && bone_style != BoneStyle::kHidden);
-    bone_quick.actor->SetVisibility(quick && has_model && bone_style != BoneStyle::kHidden);
-    // The quick twins share their full part's property, so colour and opacity follow.
-    bone.actor->GetProperty()->SetOpacity(bone_style == BoneStyle::kTranslucent && !cut ? kBoneOpacity : 1.0);
-    tooth.actor->SetVisibility(full && has_model);
-    pdl.actor->SetVisibility(full && has_model);
-    tooth_quick.actor->SetVisibility(quick && has_model);
-    pdl_quick.actor->SetVisibility(quick && has_model);
+    const bool see_through = bone_style == BoneStyle::kTranslucent && !cut;
+    // Software OpenGL spends its time per pixel, not per triangle: the see-through bone, blended
+    // over most of the view, costs about as much as the rest of the scene. It is left out while
+    // the view turns and drawn again for the still frame.
+    bone.actor->SetVisibility(has_model && bone_style != BoneStyle::kHidden && !(see_through && interacting));
+    bone.actor->GetProperty()->SetOpacity(see_through ? kBoneOpacity : 1.0);
+    tooth.actor->SetVisibility(has_model);
+    pdl.actor->SetVisibility(has_model);
     for (int k = 0; k < 2; ++k) {
       SectionParts& s = sections[k];
       const bool on = has_model && active_section() == &s;
@@ -310,7 +291,7 @@ struct ModelScene::Impl {
       s.cortical_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
       s.cancellous_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
     }
-    for (Part* p : {&tooth, &pdl, &bone, &tooth_quick, &pdl_quick, &bone_quick, &iso_capillary, &iso_limit}) {
+    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit}) {
       p->mapper->RemoveAllClippingPlanes();
       if (cut) p->mapper->AddClippingPlane(clip);
     }
@@ -362,11 +343,7 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
     p->actor->GetProperty()->SetSpecularPower(20);
     scene->AddActor(p->actor);
   }
-  d.colour_by_field(d.pdl_quick);
-  d.tooth_quick.actor->SetProperty(d.tooth.actor->GetProperty());
-  d.pdl_quick.actor->SetProperty(d.pdl.actor->GetProperty());
-  d.bone_quick.actor->SetProperty(d.bone.actor->GetProperty());
-  for (Part* p : {&d.tooth_quick, &d.pdl_quick, &d.bone_quick}) scene->AddActor(p->actor);
+
   const Rgb cap = capillary_line_colour(), lim = limit_line_colour();
   d.iso_capillary.solid(cap.data());
   d.iso_capillary.actor->GetProperty()->SetLineWidth(2.0f);
@@ -438,10 +415,6 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   fill_triangles(d.pdl.data, d.pdl_points, d.pdl_surface.triangles, true);
   const DisplaySurface bone = visible_boundary(mesh, bone_regions, {mesh::kPdl});
   fill_triangles(d.bone.data, points_of(bone.nodes), bone.triangles, true);
-  const bool quadratic = mesh.nodes_per_element == 10;
-  fill_quick(d.tooth_quick.data, d.tooth.data, corner_triangles(tooth, quadratic));
-  fill_quick(d.pdl_quick.data, d.pdl.data, corner_triangles(d.pdl_surface, quadratic));
-  fill_quick(d.bone_quick.data, d.bone.data, corner_triangles(bone, quadratic));
   for (Part* p : {&d.tooth, &d.pdl, &d.bone}) p->scalars = nullptr;
   d.n_triangles = static_cast<int>(tooth.triangles.size() + d.pdl_surface.triangles.size() + bone.triangles.size());
 

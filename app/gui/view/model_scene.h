@@ -60,9 +60,8 @@ class ModelScene {
   // Force arrow, couple, CRes and CRot of a result; `force_text` labels the arrow.
   void set_load_glyphs(const analysis::ScenarioResult& result, const QString& force_text);
   void set_glyphs_visible(bool visible);
-  // While the user turns or zooms the view: draw the tooth, PDL and bone with one triangle per
-  // quadratic face (a quarter of the triangles; colours at the corner nodes), full detail again
-  // when off.
+  // While the user turns or zooms the view (or drags a load slider): leave the see-through bone
+  // out (with software OpenGL it costs as much as the rest of the scene); drawn again when off.
   void set_interacting(bool on);
   bool interacting() const;
   void set_bone_style(BoneStyle style);

@@ -2,7 +2,10 @@
 
 #include <QElapsedTimer>
 #include <QMouseEvent>
+#include <QOffscreenSurface>
 #include <QOpenGLContext>
+#include <QOpenGLFramebufferObject>
+#include <QPainter>
 #include <QSurfaceFormat>
 #include <QWheelEvent>
 #include <vtkCallbackCommand.h>
@@ -32,7 +35,8 @@ void VtkView::set_default_surface_format() {
   QSurfaceFormat::setDefaultFormat(format);
 }
 
-VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
+VtkView::VtkView(QWidget* parent) : QWidget(parent) {
+  setAttribute(Qt::WA_OpaquePaintEvent);  // every pixel comes from the frame
   setFocusPolicy(Qt::StrongFocus);
   setMouseTracking(true);  // for the hover read-out
   setMinimumSize(160, 120);
@@ -57,7 +61,7 @@ VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
 
   interactor_ = vtkSmartPointer<vtkGenericRenderWindowInteractor>::New();
   interactor_->SetRenderWindow(window_);
-  interactor_->EnableRenderOff();  // renders happen in paintGL only
+  interactor_->EnableRenderOff();  // renders happen in paintEvent only
   vtkNew<vtkInteractorStyleTrackballCamera> style;
   interactor_->SetInteractorStyle(style);
   style->AddObserver(vtkCommand::StartInteractionEvent, this, &VtkView::on_style_event);
@@ -67,11 +71,11 @@ VtkView::VtkView(QWidget* parent) : QOpenGLWidget(parent) {
 }
 
 VtkView::~VtkView() {
-  // ~QOpenGLWidget destroys the context after this object's members are gone.
-  if (context()) disconnect(context(), nullptr, this, nullptr);
-  makeCurrent();
-  release_graphics();
-  doneCurrent();
+  if (context_ && make_current()) {
+    release_graphics();
+    fbo_.reset();
+    context_->doneCurrent();
+  }
   window_->RemoveAllObservers();
   interactor_->RemoveAllObservers();
   if (vtkInteractorObserver* style = interactor_->GetInteractorStyle()) style->RemoveAllObservers();
@@ -96,53 +100,89 @@ void VtkView::copy_camera_from(vtkCamera* other) {
 }
 
 void VtkView::release_graphics() {
-  if (context() && window_->GetReadyForRendering()) {
+  if (window_->GetReadyForRendering()) {
     window_->Finalize();
     window_->SetReadyForRendering(false);
   }
 }
 
-void VtkView::on_context_destroyed() {
-  makeCurrent();
-  release_graphics();
-  doneCurrent();
+bool VtkView::make_current() {
+  if (context_failed_) return false;
+  if (!context_) {
+    // VTK's own context, on an offscreen surface: shares nothing with the window's painting.
+    context_ = std::make_unique<QOpenGLContext>();
+    context_->setFormat(QSurfaceFormat::defaultFormat());
+    surface_ = std::make_unique<QOffscreenSurface>();
+    surface_->setFormat(context_->format());
+    surface_->create();
+    if (!context_->create() || !surface_->isValid() || !context_->makeCurrent(surface_.get())) {
+      context_failed_ = true;
+      return false;
+    }
+    window_->SetOwnContext(0);
+    window_->SetReadyForRendering(true);
+    window_->OpenGLInitContext();
+    return true;
+  }
+  return QOpenGLContext::currentContext() == context_.get() || context_->makeCurrent(surface_.get());
 }
 
-void VtkView::initializeGL() {
-  // A new context (first show, or after the widget moved to another window).
-  connect(context(), &QOpenGLContext::aboutToBeDestroyed, this, &VtkView::on_context_destroyed,
-          Qt::UniqueConnection);
-  window_->SetOwnContext(0);
-  window_->SetReadyForRendering(true);
-  window_->OpenGLInitContext();
+QSize VtkView::device_size() const {
   const qreal dpr = devicePixelRatioF();
-  interactor_->UpdateSize(static_cast<int>(width() * dpr), static_cast<int>(height() * dpr));
+  return {std::max(1, static_cast<int>(width() * dpr)), std::max(1, static_cast<int>(height() * dpr))};
 }
 
-void VtkView::resizeGL(int w, int h) {
-  const qreal dpr = devicePixelRatioF();
-  interactor_->UpdateSize(static_cast<int>(w * dpr), static_cast<int>(h * dpr));
-}
-
-void VtkView::paintGL() {
-  if (!window_->GetReadyForRendering()) return;
+void VtkView::render_frame() {
+  if (!make_current()) return;
+  const QSize size = device_size();
+  if (!fbo_ || fbo_->size() != size) {
+    fbo_ = std::make_unique<QOpenGLFramebufferObject>(size, QOpenGLFramebufferObject::CombinedDepthStencil);
+  }
+  interactor_->UpdateSize(size.width(), size.height());
   in_paint_ = true;
   QElapsedTimer timer;
   timer.start();
+  fbo_->bind();
   render_into_bound_framebuffer(window_);
+  frame_ = fbo_->toImage(true);  // top row first
+  fbo_->release();
   last_render_ms_ = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
   ++frames_;
   in_paint_ = false;
   emit frame_rendered();
 }
 
+QImage VtkView::grabFramebuffer() {
+  render_frame();
+  return frame_;
+}
+
+void VtkView::resizeEvent(QResizeEvent* event) {
+  const QSize size = device_size();
+  interactor_->UpdateSize(size.width(), size.height());
+  QWidget::resizeEvent(event);
+}
+
+void VtkView::paintEvent(QPaintEvent*) {
+  render_frame();
+  QPainter painter(this);
+  if (frame_.isNull()) {
+    painter.fillRect(rect(), palette().window());
+    painter.drawText(rect(), Qt::AlignCenter, QStringLiteral("No OpenGL: the 3D view cannot be drawn."));
+    return;
+  }
+  QImage shown = frame_;
+  shown.setDevicePixelRatio(devicePixelRatioF());
+  painter.drawImage(QPointF(0, 0), shown);
+}
+
 void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_data) {
   switch (event_id) {
     case vtkCommand::WindowMakeCurrentEvent:
-      if (QOpenGLContext::currentContext() != context()) makeCurrent();
+      make_current();
       break;
     case vtkCommand::WindowIsCurrentEvent:
-      *static_cast<bool*>(call_data) = context() && QOpenGLContext::currentContext() == context();
+      *static_cast<bool*>(call_data) = context_ && QOpenGLContext::currentContext() == context_.get();
       break;
     case vtkCommand::WindowSupportsOpenGLEvent:
       *static_cast<int*>(call_data) = 1;
@@ -151,7 +191,7 @@ void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_dat
       *static_cast<int*>(call_data) = 1;
       break;
     case vtkCommand::WindowFrameEvent:
-      // A render outside paintGL (should not happen): show it at the next paint.
+      // A render outside paintEvent (should not happen): show it at the next paint.
       if (!in_paint_) update();
       break;
     default: break;
@@ -225,13 +265,13 @@ void VtkView::wheelEvent(QWheelEvent* event) {
 
 void VtkView::enterEvent(QEnterEvent* event) {
   interactor_->InvokeEvent(vtkCommand::EnterEvent, event);
-  QOpenGLWidget::enterEvent(event);
+  QWidget::enterEvent(event);
 }
 
 void VtkView::leaveEvent(QEvent* event) {
   interactor_->InvokeEvent(vtkCommand::LeaveEvent, event);
   emit hover_left();
-  QOpenGLWidget::leaveEvent(event);
+  QWidget::leaveEvent(event);
 }
 
 }  // namespace sharpey::app

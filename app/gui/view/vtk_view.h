@@ -1,15 +1,25 @@
-// A Qt6 widget that shows a VTK renderer: a QOpenGLWidget around vtkGenericOpenGLRenderWindow.
-// (Debian's VTK Qt module is built against Qt5, so this bridge replaces it.)
+// A Qt6 widget that shows a VTK renderer (Debian's VTK Qt module is built against Qt5, so this
+// bridge replaces it).
 //
-// VTK renders only inside paintGL, into Qt's framebuffer object (VTK's FrameBlitMode
-// BlitToCurrent). Mouse and wheel events go to a vtkGenericRenderWindowInteractor whose render
-// requests turn into update() calls, so interaction never renders outside paintGL.
-// Call VtkView::set_default_surface_format() before the QApplication is created.
+// VTK renders with its own OpenGL context on an offscreen surface into a framebuffer object
+// (vtkGenericOpenGLRenderWindow, FrameBlitMode BlitToCurrent); the frame is read back into an
+// image that paintEvent draws like any other widget content. The window around the view then stays
+// a plain raster window: with software OpenGL, composing a whole window that holds a
+// QOpenGLWidget on every frame costs more than reading back the view's pixels. Rendering happens
+// only in paintEvent; mouse and wheel events go to a vtkGenericRenderWindowInteractor whose render
+// requests turn into update() calls. Call VtkView::set_default_surface_format() before the
+// QApplication is created.
 #pragma once
 
-#include <QOpenGLWidget>
+#include <QImage>
+#include <QWidget>
+#include <memory>
 #include <vtkNew.h>
 #include <vtkSmartPointer.h>
+
+class QOffscreenSurface;
+class QOpenGLContext;
+class QOpenGLFramebufferObject;
 
 class vtkCamera;
 class vtkGenericOpenGLRenderWindow;
@@ -19,7 +29,7 @@ class vtkRenderer;
 
 namespace sharpey::app {
 
-class VtkView : public QOpenGLWidget {
+class VtkView : public QWidget {
   Q_OBJECT
 
  public:
@@ -39,14 +49,18 @@ class VtkView : public QOpenGLWidget {
   // Copies position, focal point, view-up and view angle from `other` (for linked views).
   void copy_camera_from(vtkCamera* other);
 
-  // Time the last paintGL spent in VTK's Render, ms.
+  // The rendered frame (rendering it first when the scene changed since the last one), in device
+  // pixels; null when no OpenGL context could be made.
+  QImage grabFramebuffer();
+
+  // Time the last frame spent in VTK's Render (with the read-back), ms.
   double last_render_ms() const { return last_render_ms_; }
   int frames_rendered() const { return frames_; }
 
  signals:
   // The user moved the camera (emitted after the interactor changed it).
   void camera_changed();
-  // A frame was rendered (after paintGL).
+  // A frame was rendered.
   void frame_rendered();
   // The user started / stopped turning, panning or zooming the view with the mouse (the scene may
   // draw with less detail in between).
@@ -58,9 +72,8 @@ class VtkView : public QOpenGLWidget {
   void hover_left();
 
  protected:
-  void initializeGL() override;
-  void paintGL() override;
-  void resizeGL(int w, int h) override;
+  void paintEvent(QPaintEvent* event) override;
+  void resizeEvent(QResizeEvent* event) override;
   void mousePressEvent(QMouseEvent* event) override;
   void mouseReleaseEvent(QMouseEvent* event) override;
   void mouseMoveEvent(QMouseEvent* event) override;
@@ -69,10 +82,10 @@ class VtkView : public QOpenGLWidget {
   void enterEvent(QEnterEvent* event) override;
   void leaveEvent(QEvent* event) override;
 
- private slots:
-  void on_context_destroyed();
-
  private:
+  bool make_current();
+  void render_frame();
+  QSize device_size() const;
   void on_window_event(vtkObject* caller, unsigned long event_id, void* call_data);
   void on_interactor_render(vtkObject* caller, unsigned long event_id, void* call_data);
   void on_style_event(vtkObject* caller, unsigned long event_id, void* call_data);
@@ -83,6 +96,11 @@ class VtkView : public QOpenGLWidget {
   vtkSmartPointer<vtkGenericRenderWindowInteractor> interactor_;
   vtkSmartPointer<vtkRenderer> renderer_;
   vtkSmartPointer<vtkRenderer> overlay_;
+  std::unique_ptr<QOpenGLContext> context_;
+  std::unique_ptr<QOffscreenSurface> surface_;
+  std::unique_ptr<QOpenGLFramebufferObject> fbo_;
+  bool context_failed_ = false;
+  QImage frame_;
   bool in_paint_ = false;
   double last_render_ms_ = 0;
   int frames_ = 0;
