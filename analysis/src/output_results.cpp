@@ -3,6 +3,8 @@
 #include <nlohmann/json.hpp>
 
 #include <cmath>
+#include <initializer_list>
+#include <utility>
 
 #include "sharpey/analysis/report_output.h"
 
@@ -18,30 +20,43 @@ Json vec(const Eigen::Vector3d& v) { return Json::array({number(v.x()), number(v
 // -1 marks "not available" in ScenarioResult's equivalent forces.
 Json optional_force(double g) { return g >= 0 ? number(g) : Json(nullptr); }
 
+// Adds `key: number(value)` for each pair, in the order given (the key order is part of the file).
+void put_numbers(Json& j, std::initializer_list<std::pair<const char*, double>> fields) {
+  for (const auto& [key, value] : fields) j[key] = number(value);
+}
+
+// {"<id>": to_json(value), ...} for a map keyed by region id or face marker.
+template <class Map, class ToJson>
+Json by_id(const Map& map, ToJson to_json) {
+  Json out = Json::object();
+  for (const auto& [id, value] : map) out[std::to_string(id)] = to_json(value);
+  return out;
+}
+
 Json cres_json(const CentreOfResistance& c) {
   Json j;
   j["point_mm"] = vec(c.point);
-  j["from_crest_mm"] = number(c.from_crest_mm);
-  j["from_cej_mm"] = number(c.from_cej_mm);
-  j["fraction_embedded"] = number(c.fraction_embedded);
+  put_numbers(j, {{"from_crest_mm", c.from_crest_mm},
+                  {"from_cej_mm", c.from_cej_mm},
+                  {"fraction_embedded", c.fraction_embedded}});
   return j;
 }
 
 Json geometry_json(const mesh::ModelGeometry& g) {
   Json j;
-  j["crest_z_mm"] = number(g.crest_z_mm);
-  j["apex_z_mm"] = number(g.apex_z_mm);
-  j["root_length_mm"] = number(g.root_length_mm);
-  j["embedded_length_mm"] = number(g.embedded_length_mm);
+  put_numbers(j, {{"crest_z_mm", g.crest_z_mm},
+                  {"apex_z_mm", g.apex_z_mm},
+                  {"root_length_mm", g.root_length_mm},
+                  {"embedded_length_mm", g.embedded_length_mm}});
   j["crown_tip_mm"] = vec(g.crown_tip);
   j["apex_mm"] = vec(g.apex);
   j["bracket_center_mm"] = vec(g.bracket_center);
-  j["root_area_mm2"] = number(g.root_area_mm2);
-  j["attachment_area_mm2"] = number(g.attachment_area_mm2);
-  j["exposed_root_area_mm2"] = number(g.exposed_root_area_mm2);
-  j["tooth_volume_mm3"] = number(g.tooth_volume_mm3);
-  j["pdl_volume_mm3"] = number(g.pdl_volume_mm3);
-  j["bone_volume_mm3"] = number(g.bone_volume_mm3);
+  put_numbers(j, {{"root_area_mm2", g.root_area_mm2},
+                  {"attachment_area_mm2", g.attachment_area_mm2},
+                  {"exposed_root_area_mm2", g.exposed_root_area_mm2},
+                  {"tooth_volume_mm3", g.tooth_volume_mm3},
+                  {"pdl_volume_mm3", g.pdl_volume_mm3},
+                  {"bone_volume_mm3", g.bone_volume_mm3}});
   return j;
 }
 
@@ -50,19 +65,13 @@ Json mesh_json(const mesh::MeshStatistics& s) {
   j["n_nodes"] = s.n_nodes;
   j["n_elements"] = s.n_elements;
   j["n_faces"] = s.n_faces;
-  Json per_region = Json::object();
-  for (const auto& [region, n] : s.elements_per_region) per_region[std::to_string(region)] = n;
-  j["elements_per_region"] = per_region;
-  Json volumes = Json::object();
-  for (const auto& [region, v] : s.volume_per_region_mm3) volumes[std::to_string(region)] = number(v);
-  j["volume_per_region_mm3"] = volumes;
-  Json areas = Json::object();
-  for (const auto& [marker, a] : s.area_per_marker_mm2) areas[std::to_string(marker)] = number(a);
-  j["area_per_marker_mm2"] = areas;
-  j["min_dihedral_deg"] = number(s.min_dihedral_deg);
-  j["max_dihedral_deg"] = number(s.max_dihedral_deg);
-  j["max_radius_edge_ratio"] = number(s.max_radius_edge_ratio);
-  j["min_jacobian_ratio"] = number(s.min_jacobian_ratio);
+  j["elements_per_region"] = by_id(s.elements_per_region, [](int n) { return Json(n); });
+  j["volume_per_region_mm3"] = by_id(s.volume_per_region_mm3, number);
+  j["area_per_marker_mm2"] = by_id(s.area_per_marker_mm2, number);
+  put_numbers(j, {{"min_dihedral_deg", s.min_dihedral_deg},
+                  {"max_dihedral_deg", s.max_dihedral_deg},
+                  {"max_radius_edge_ratio", s.max_radius_edge_ratio},
+                  {"min_jacobian_ratio", s.min_jacobian_ratio}});
   j["pdl_width_mm"] = {{"mean", number(s.pdl_width_mean_mm)},
                        {"min", number(s.pdl_width_min_mm)},
                        {"max", number(s.pdl_width_max_mm)},
@@ -74,13 +83,30 @@ Json solver_json(const fem::SolverStatistics& s) {
   Json j;
   j["n_dofs"] = s.n_dofs;
   j["n_nonzeros"] = s.n_nonzeros;
-  j["assembly_s"] = number(s.assembly_s);
-  j["analyse_s"] = number(s.analyse_s);
-  j["factorise_s"] = number(s.factorise_s);
-  j["factorisation_gflop"] = number(s.factorisation_gflop);
-  j["last_relative_residual"] = number(s.last_relative_residual);
+  put_numbers(j, {{"assembly_s", s.assembly_s},
+                  {"analyse_s", s.analyse_s},
+                  {"factorise_s", s.factorise_s},
+                  {"factorisation_gflop", s.factorisation_gflop},
+                  {"last_relative_residual", s.last_relative_residual}});
   j["ordering"] = s.ordering;
   return j;
+}
+
+// The opening keys every report file shares: schema version, program, label and the caution.
+Json report_head(const CaseSpec& spec) {
+  Json j;
+  j["results_schema_version"] = kResultsSchemaVersion;
+  j["program"] = "Sharpey";
+  j["label"] = spec.label;
+  j["caution"] = caution_text();
+  return j;
+}
+
+// The closing keys every report file shares (the scenarios, then an echo of the case), as text.
+std::string report_text(Json j, Json scenarios, const CaseSpec& spec) {
+  j["scenarios"] = std::move(scenarios);
+  j["case"] = Json::parse(case_to_json(spec));
+  return j.dump(2) + "\n";
 }
 
 Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const ScenarioFacts* facts,
@@ -88,19 +114,19 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
   Json j;
   j["name"] = r.name;
   // Fixed keys first.
-  j["bone_loss_mm"] = number(r.bone_loss_mm);
-  j["attachment_area_mm2"] = number(r.attachment_area_mm2);
   const CentreOfResistance& cres = cres_for(r);
-  j["cres_from_crest_mm"] = number(cres.from_crest_mm);
-  j["cres_fraction_embedded"] = number(cres.fraction_embedded);
-  j["mf_translation_mm"] = number(r.mf_translation_mm);
+  put_numbers(j, {{"bone_loss_mm", r.bone_loss_mm},
+                  {"attachment_area_mm2", r.attachment_area_mm2},
+                  {"cres_from_crest_mm", cres.from_crest_mm},
+                  {"cres_fraction_embedded", cres.fraction_embedded},
+                  {"mf_translation_mm", r.mf_translation_mm}});
   j["pdl_pressure_kpa"] = {{"max_compression", number(r.pressure_max_compression_kpa)},
                            {"max_tension", number(r.pressure_max_tension_kpa)},
                            {"p95_compression", number(r.pressure_p95_compression_kpa)}};
-  j["area_above_capillary_mm2"] = number(r.area_above_capillary_mm2);
-  j["area_above_limit_mm2"] = number(r.area_above_limit_mm2);
-  j["max_principal_strain"] = number(r.max_principal_strain);
-  j["crown_tip_displacement_um"] = number(r.crown_tip_displacement_um.norm());
+  put_numbers(j, {{"area_above_capillary_mm2", r.area_above_capillary_mm2},
+                  {"area_above_limit_mm2", r.area_above_limit_mm2},
+                  {"max_principal_strain", r.max_principal_strain},
+                  {"crown_tip_displacement_um", r.crown_tip_displacement_um.norm()}});
   j["equivalent_force_g"] = optional_force(r.equivalent_force_peak_g);
 
   // Further detail.
@@ -112,8 +138,8 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
                              {"depth_mm", number(scenario->loss.defect_depth_mm)},
                              {"width_deg", number(scenario->loss.defect_width_deg)}};
   }
-  j["area_above_capillary_percent"] = number(r.area_above_capillary_percent);
-  j["area_above_limit_percent"] = number(r.area_above_limit_percent);
+  put_numbers(j, {{"area_above_capillary_percent", r.area_above_capillary_percent},
+                  {"area_above_limit_percent", r.area_above_limit_percent}});
   j["cres_direction"] =
       cres_direction_for(r.load) == CresDirection::kMesiodistal ? "mesiodistal" : "labiolingual";
   j["cres"] = {{"labiolingual", cres_json(r.cres_labiolingual)},
@@ -122,8 +148,8 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
   // about the long axis).
   j["centre_of_rotation_mm"] =
       r.centre_of_rotation_defined ? vec(r.centre_of_rotation) : Json(nullptr);
-  j["max_equivalent_strain"] = number(r.max_equivalent_strain);
-  j["max_von_mises_kpa"] = number(r.max_von_mises_kpa);
+  put_numbers(j, {{"max_equivalent_strain", r.max_equivalent_strain},
+                  {"max_von_mises_kpa", r.max_von_mises_kpa}});
   j["crown_tip_displacement_vector_um"] = vec(r.crown_tip_displacement_um);
   j["apex_displacement_um"] = number(r.apex_displacement_um.norm());
   j["apex_displacement_vector_um"] = vec(r.apex_displacement_um);
@@ -177,11 +203,7 @@ std::vector<ScenarioFacts> scenario_facts(const Study& study, bool measure_mesh)
 
 std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
                          const std::vector<ScenarioFacts>& facts) {
-  Json j;
-  j["results_schema_version"] = kResultsSchemaVersion;
-  j["program"] = "Sharpey";
-  j["label"] = spec.label;
-  j["caution"] = caution_text();
+  Json j = report_head(spec);
   j["units"] = {{"length", "mm (keys ending _mm)"},
                 {"area", "mm^2 (keys ending _mm2)"},
                 {"displacement", "micrometre (keys ending _um)"},
@@ -211,17 +233,11 @@ std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>
     const Scenario* s = i < spec.scenarios.size() ? &spec.scenarios[i] : nullptr;
     scenarios.push_back(scenario_json(spec, results[i], f, s));
   }
-  j["scenarios"] = scenarios;
-  j["case"] = Json::parse(case_to_json(spec));
-  return j.dump(2) + "\n";
+  return report_text(std::move(j), std::move(scenarios), spec);
 }
 
 std::string mesh_statistics_json(const CaseSpec& spec, const std::vector<ScenarioFacts>& facts) {
-  Json j;
-  j["results_schema_version"] = kResultsSchemaVersion;
-  j["program"] = "Sharpey";
-  j["label"] = spec.label;
-  j["caution"] = caution_text();
+  Json j = report_head(spec);
   j["units"] = {{"length", "mm"}, {"area", "mm^2"}, {"volume", "mm^3"}, {"angle", "degree"}};
   j["regions"] = {{"1", "tooth"}, {"2", "PDL"}, {"3", "cortical bone"}, {"4", "cancellous bone"}};
   j["face_markers"] = {{"1", "root surface (PDL inner)"}, {"2", "socket surface (PDL outer)"},
@@ -239,9 +255,7 @@ std::string mesh_statistics_json(const CaseSpec& spec, const std::vector<Scenari
     if (!facts[i].model_vtu.empty()) s["files"] = {{"mesh_vtu", facts[i].model_vtu}};
     scenarios.push_back(s);
   }
-  j["scenarios"] = scenarios;
-  j["case"] = Json::parse(case_to_json(spec));
-  return j.dump(2) + "\n";
+  return report_text(std::move(j), std::move(scenarios), spec);
 }
 
 }  // namespace sharpey::analysis

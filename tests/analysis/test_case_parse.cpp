@@ -4,6 +4,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 
@@ -180,52 +181,32 @@ TEST(CaseParse, SourcesNameEveryDefaultAndFlagUserValues) {
 
 // ---- malformed cases ----------------------------------------------------------------------------
 
+// One malformed case: base_case() with the value at `path` replaced, or a whole file when `path` is
+// empty, rejected with an InputError for `key` whose message contains `fragment`.
 struct BadCase {
   const char* name;
-  const char* path;   // dotted path to change ("" = use `text` as the whole file)
-  const char* value;  // JSON value to put there ("#erase" removes the key)
-  const char* text;   // whole file when path is ""
-  const char* key;    // expected InputError::key()
+  const char* path;      // dotted path to set, array indices as in scenarios[1].x; "" = whole file
+  const char* value;     // JSON value to put at `path`, or the whole file
   const char* fragment;  // expected somewhere in the message
+  const char* key = nullptr;  // expected InputError::key(); nullptr: the same as `path`
+
+  std::string expected_key() const { return key ? key : path; }
 };
 
 std::ostream& operator<<(std::ostream& os, const BadCase& c) {
-  return os << c.name << " [" << c.path << " = " << c.value << "] -> key " << c.key;
+  return os << c.name << " [" << c.path << " = " << c.value << "] -> key " << c.expected_key();
 }
 
-// Applies `path = value` to the base case (paths with array indices like scenarios[1].x).
+// The case file of `c`: base_case() with `path = value` applied (through a JSON pointer, so missing
+// objects on the way are created).
 std::string mutated(const BadCase& c) {
-  if (std::string(c.path).empty()) return c.text;
+  std::string pointer = c.path;
+  if (pointer.empty()) return c.value;
+  for (char& ch : pointer)
+    if (ch == '.' || ch == '[') ch = '/';
+  pointer.erase(std::remove(pointer.begin(), pointer.end(), ']'), pointer.end());
   Json root = base_case();
-  Json* node = &root;
-  std::string path = c.path, step;
-  std::vector<std::string> steps;
-  for (char ch : path) {
-    if (ch == '.') {
-      steps.push_back(step);
-      step.clear();
-    } else {
-      step += ch;
-    }
-  }
-  steps.push_back(step);
-  for (size_t i = 0; i < steps.size(); ++i) {
-    std::string name = steps[i];
-    int index = -1;
-    const size_t bracket = name.find('[');
-    if (bracket != std::string::npos) {
-      index = std::stoi(name.substr(bracket + 1));
-      name = name.substr(0, bracket);
-    }
-    const bool last = i + 1 == steps.size();
-    if (last && index < 0 && std::string(c.value) == "#erase") {
-      node->erase(name);
-      break;
-    }
-    node = &(*node)[name];
-    if (index >= 0) node = &(*node)[static_cast<size_t>(index)];
-    if (last) *node = Json::parse(c.value);
-  }
+  root[Json::json_pointer("/" + pointer)] = Json::parse(c.value);
   return root.dump(2);
 }
 
@@ -233,16 +214,16 @@ class BadCaseTest : public ::testing::TestWithParam<BadCase> {};
 
 TEST_P(BadCaseTest, RejectedWithKeyValueAndFix) {
   const BadCase& c = GetParam();
-  const std::string text = mutated(c);
+  const std::string text = mutated(c), key = c.expected_key();
   SCOPED_TRACE(text);
   try {
     parse_case(text, "bad.json");
     FAIL() << "accepted a malformed case: " << c;
   } catch (const InputError& e) {
     const std::string message = e.what();
-    EXPECT_EQ(e.key(), c.key) << message;
+    EXPECT_EQ(e.key(), key) << message;
     EXPECT_EQ(message.rfind("bad.json: ", 0), 0u) << "message must name the file: " << message;
-    EXPECT_NE(message.find(c.key), std::string::npos) << "message must name the key: " << message;
+    EXPECT_NE(message.find(key), std::string::npos) << "message must name the key: " << message;
     EXPECT_NE(message.find(c.fragment), std::string::npos)
         << "expected \"" << c.fragment << "\" in: " << message;
   }
@@ -251,115 +232,97 @@ TEST_P(BadCaseTest, RejectedWithKeyValueAndFix) {
 const BadCase kBadCases[] = {
     // Syntax errors: the key is the position where the parser stopped (the end of the unexpected
     // token: the string "load" after the missing comma spans columns 3 to 8 of line 3).
-    {"syntax_missing_comma", "", "",
-     "{\n  \"tooth\": {\"type\": \"maxillary_central_incisor\"}\n  \"load\": {}\n}",
-     "line 3, column 8", "syntax error"},
-    {"syntax_unclosed", "", "", "{\"tooth\": {\"type\": \"mandibular_canine\"}", "line 1, column 40",
-     "unexpected end of input"},
-    {"syntax_not_an_object", "", "", "[1, 2]", "(top level)", "expected an object"},
-    {"duplicate_key", "", "", "{\"label\": \"a\", \"label\": \"b\"}", "label", "appears twice"},
+    {"syntax_missing_comma", "",
+     "{\n  \"tooth\": {\"type\": \"maxillary_central_incisor\"}\n  \"load\": {}\n}", "syntax error",
+     "line 3, column 8"},
+    {"syntax_unclosed", "", "{\"tooth\": {\"type\": \"mandibular_canine\"}",
+     "unexpected end of input", "line 1, column 40"},
+    {"syntax_not_an_object", "", "[1, 2]", "expected an object", "(top level)"},
+    {"duplicate_key", "", "{\"label\": \"a\", \"label\": \"b\"}", "appears twice", "label"},
     // Wrong types.
-    {"type_magnitude_string", "load.magnitude", "\"heavy\"", "", "load.magnitude", "expected a number"},
-    {"type_scenarios_object", "scenarios", "{}", "", "scenarios", "expected an array"},
-    {"type_layers_fraction", "mesh.pdl_layers", "1.5", "", "mesh.pdl_layers", "whole number"},
-    {"type_direction_number", "load.direction", "3", "", "load.direction", "expected a name"},
-    {"type_vector_short", "load.direction", "[1, 0]", "", "load.direction", "three numbers"},
-    {"type_quadratic", "mesh.quadratic", "\"yes\"", "", "mesh.quadratic", "true or false"},
-    {"type_label", "label", "7", "", "label", "expected a string"},
+    {"type_magnitude_string", "load.magnitude", "\"heavy\"", "expected a number"},
+    {"type_scenarios_object", "scenarios", "{}", "expected an array"},
+    {"type_layers_fraction", "mesh.pdl_layers", "1.5", "whole number"},
+    {"type_direction_number", "load.direction", "3", "expected a name"},
+    {"type_vector_short", "load.direction", "[1, 0]", "three numbers"},
+    {"type_quadratic", "mesh.quadratic", "\"yes\"", "true or false"},
+    {"type_label", "label", "7", "expected a string"},
     // Unknown keys, with the closest known one suggested.
-    {"unknown_top", "lod", "{}", "", "lod", "did you mean \"load\""},
-    {"unknown_nested", "load.magnitud", "50", "", "load.magnitud", "did you mean \"magnitude\""},
-    {"unknown_scenario_key", "scenarios[1].horizontal_los_mm", "2", "",
-     "scenarios[1].horizontal_los_mm", "did you mean \"horizontal_loss_mm\""},
-    {"unknown_far", "zzzzzzzzzzzz", "1", "", "zzzzzzzzzzzz", "keys known at the top level"},
-    {"unknown_material_key", "pdl.material.youngs_modulus", "0.5", "",
-     "pdl.material.youngs_modulus", "did you mean \"young_modulus_mpa\""},
+    {"unknown_top", "lod", "{}", "did you mean \"load\""},
+    {"unknown_nested", "load.magnitud", "50", "did you mean \"magnitude\""},
+    {"unknown_scenario_key", "scenarios[1].horizontal_los_mm", "2",
+     "did you mean \"horizontal_loss_mm\""},
+    {"unknown_far", "zzzzzzzzzzzz", "1", "keys known at the top level"},
+    {"unknown_material_key", "pdl.material.youngs_modulus", "0.5",
+     "did you mean \"young_modulus_mpa\""},
     // Out-of-range values.
-    {"magnitude_negative", "load.magnitude", "-5", "", "load.magnitude", "out of range"},
-    {"magnitude_zero", "load.magnitude", "0", "", "load.magnitude", "out of range"},
-    {"magnitude_too_big", "load.magnitude", "5000", "", "load.magnitude", "2000 g"},
-    {"unit_unknown", "load.unit", "\"kg\"", "", "load.unit", "grams-force"},
-    {"pdl_modulus_zero", "pdl.material", "{\"young_modulus_mpa\": 0}", "",
-     "pdl.material.young_modulus_mpa", "0.05 to 0.7 MPa"},
-    {"poisson_half", "bone.cortical_material", "{\"poisson_ratio\": 0.5}", "",
-     "bone.cortical_material.poisson_ratio", "0.49"},
-    {"limit_below_capillary", "thresholds.limit", "{\"value_kpa\": 3}", "",
-     "thresholds.limit.value_kpa", "capillary"},
-    {"threshold_zero", "thresholds.capillary", "{\"value_kpa\": 0}", "",
-     "thresholds.capillary.value_kpa", "kPa"},
-    {"tooth_unknown", "tooth.type", "\"maxillary_molar\"", "", "tooth.type", "maxillary_canine"},
-    {"direction_unknown", "load.direction", "\"upward\"", "", "load.direction", "intrusive"},
-    {"direction_zero", "load.direction", "[0, 0, 0]", "", "load.direction", "no length"},
-    {"elevation_too_big", "load.direction", "{\"azimuth_deg\": 0, \"elevation_deg\": 100}", "",
-     "load.direction.elevation_deg", "[-90, 90]"},
-    {"couple_both", "load.couple", "{\"moment\": [0, 1, 0], \"moment_to_force_mm\": 8}", "",
-     "load.couple", "exactly one"},
-    {"couple_unit", "load.couple", "{\"moment\": [0, 1, 0], \"unit\": \"kg.m\"}", "",
-     "load.couple.unit", "g.mm"},
-    {"couple_too_big", "load.couple", "{\"moment\": [0, 5000, 0], \"unit\": \"N.mm\"}", "",
-     "load.couple.moment", "200 N.mm"},
-    {"ratio_too_big", "load.couple", "{\"moment_to_force_mm\": 45}", "",
-     "load.couple.moment_to_force_mm", "30"},
-    {"movement_unknown", "load.movement", "\"bodily\"", "", "load.movement", "translation"},
-    {"application_too_high", "load.application_height_mm", "20", "",
-     "load.application_height_mm", "crown length"},
-    {"application_negative", "load.application_height_mm", "-2", "",
-     "load.application_height_mm", "negative"},
-    {"percent_too_big", "scenarios[1]", "{\"horizontal_loss_percent\": 120}", "",
-     "scenarios[1].horizontal_loss_percent", "[0, 100)"},
-    {"percent_and_mm", "scenarios[1]", "{\"horizontal_loss_percent\": 10, \"horizontal_loss_mm\": 1}",
-     "", "scenarios[1].horizontal_loss_percent", "not both"},
-    {"scenarios_empty", "scenarios", "[]", "", "scenarios", "at least one"},
-    {"scenario_names_repeat", "scenarios[1].name", "\"healthy\"", "", "scenarios[1].name", "unique"},
-    {"scenario_name_empty", "scenarios[1].name", "\"\"", "", "scenarios[1].name", "empty"},
-    {"schema_newer", "schema_version", "2", "", "schema_version", "newer program"},
-    {"preset_unknown", "mesh.preset", "\"ultra\"", "", "mesh.preset", "coarse"},
-    {"defect_surface_unknown", "scenarios[1].angular_defect", "{\"surface\": \"top\", \"depth_mm\": 1}",
-     "", "scenarios[1].angular_defect.surface", "mesial"},
-    {"defect_without_depth", "scenarios[1].angular_defect", "{\"surface\": \"mesial\"}", "",
-     "scenarios[1].angular_defect.depth_mm", "is missing"},
-    {"pdl_width_and_profile", "pdl.width_profile_mm", "{\"crest\": 0.2, \"mid_root\": 0.2, \"apex\": 0.2}",
-     "", "pdl.width_profile_mm", "not both"},
-    {"ideal_root_shape", "tooth.idealised_root", "{\"shape\": \"cube\"}", "",
-     "tooth.idealised_root.shape", "paraboloid"},
+    {"magnitude_negative", "load.magnitude", "-5", "out of range"},
+    {"magnitude_zero", "load.magnitude", "0", "out of range"},
+    {"magnitude_too_big", "load.magnitude", "5000", "2000 g"},
+    {"unit_unknown", "load.unit", "\"kg\"", "grams-force"},
+    {"pdl_modulus_zero", "pdl.material.young_modulus_mpa", "0", "0.05 to 0.7 MPa"},
+    {"poisson_half", "bone.cortical_material.poisson_ratio", "0.5", "0.49"},
+    {"limit_below_capillary", "thresholds.limit.value_kpa", "3", "capillary"},
+    {"threshold_zero", "thresholds.capillary.value_kpa", "0", "kPa"},
+    {"tooth_unknown", "tooth.type", "\"maxillary_molar\"", "maxillary_canine"},
+    {"direction_unknown", "load.direction", "\"upward\"", "intrusive"},
+    {"direction_zero", "load.direction", "[0, 0, 0]", "no length"},
+    {"elevation_too_big", "load.direction", "{\"azimuth_deg\": 0, \"elevation_deg\": 100}",
+     "[-90, 90]", "load.direction.elevation_deg"},
+    {"couple_both", "load.couple", "{\"moment\": [0, 1, 0], \"moment_to_force_mm\": 8}",
+     "exactly one"},
+    {"couple_unit", "load.couple", "{\"moment\": [0, 1, 0], \"unit\": \"kg.m\"}", "g.mm",
+     "load.couple.unit"},
+    {"couple_too_big", "load.couple", "{\"moment\": [0, 5000, 0], \"unit\": \"N.mm\"}", "200 N.mm",
+     "load.couple.moment"},
+    {"ratio_too_big", "load.couple.moment_to_force_mm", "45", "30"},
+    {"couple_and_movement", "load",
+     "{\"magnitude\": 100, \"unit\": \"g\", \"direction\": \"lingual\", "
+     "\"couple\": {\"moment_to_force_mm\": 8}, \"movement\": \"translation\"}",
+     "remove one of them", "load.movement"},
+    {"movement_unknown", "load.movement", "\"bodily\"", "translation"},
+    {"application_too_high", "load.application_height_mm", "20", "crown length"},
+    {"application_negative", "load.application_height_mm", "-2", "negative"},
+    {"percent_too_big", "scenarios[1]", "{\"horizontal_loss_percent\": 120}", "[0, 100)",
+     "scenarios[1].horizontal_loss_percent"},
+    {"percent_and_mm", "scenarios[1]",
+     "{\"horizontal_loss_percent\": 10, \"horizontal_loss_mm\": 1}", "not both",
+     "scenarios[1].horizontal_loss_percent"},
+    {"scenarios_empty", "scenarios", "[]", "at least one"},
+    {"scenario_names_repeat", "scenarios[1].name", "\"healthy\"", "unique"},
+    {"scenario_name_empty", "scenarios[1].name", "\"\"", "empty"},
+    {"schema_newer", "schema_version", "2", "newer program"},
+    {"preset_unknown", "mesh.preset", "\"ultra\"", "coarse"},
+    {"defect_surface_unknown", "scenarios[1].angular_defect",
+     "{\"surface\": \"top\", \"depth_mm\": 1}", "mesial", "scenarios[1].angular_defect.surface"},
+    {"defect_without_depth", "scenarios[1].angular_defect", "{\"surface\": \"mesial\"}",
+     "is missing", "scenarios[1].angular_defect.depth_mm"},
+    {"pdl_width_and_profile", "pdl.width_profile_mm",
+     "{\"crest\": 0.2, \"mid_root\": 0.2, \"apex\": 0.2}", "not both"},
+    {"ideal_root_shape", "tooth.idealised_root.shape", "\"cube\"", "paraboloid"},
     // Impossible geometry, found by mesh::validate and reported under the case-file key.
-    {"loss_beyond_root", "scenarios[1].horizontal_loss_mm", "14", "",
-     "scenarios[1].horizontal_loss_mm", "leaves no embedded root"},
-    {"loss_negative", "scenarios[1].horizontal_loss_mm", "-1", "", "scenarios[1].horizontal_loss_mm",
-     "0 mm"},
-    {"defect_too_deep", "scenarios[1].angular_defect", "{\"surface\": \"mesial\", \"depth_mm\": 11}",
-     "", "scenarios[1].angular_defect.depth_mm", "deeper than the remaining root"},
-    {"pdl_width_zero", "pdl.width_mm", "0", "", "pdl.width_mm", "positive width"},
-    {"pdl_profile_too_wide", "pdl", "{\"width_profile_mm\": {\"crest\": 2, \"mid_root\": 0.14, \"apex\": 0.19}}",
-     "", "pdl.width_profile_mm.crest", "0.1 to 0.4 mm"},
-    {"root_too_short", "tooth.dimensions", "{\"root_length_mm\": 2}", "",
-     "tooth.dimensions.root_length_mm", "human single-rooted teeth"},
-    {"cortical_thicker_than_plate", "bone.cortical_thickness_mm", "2.5", "",
-     "bone.cortical_thickness_mm", "plate"},
-    {"bracket_off_crown", "bracket.height_mm", "30", "", "bracket.height_mm", "off the crown"},
-    {"mesh_edge_too_small", "mesh.pdl_edge_mm", "0.01", "", "mesh.pdl_edge_mm", "PDL edge length"},
+    {"loss_beyond_root", "scenarios[1].horizontal_loss_mm", "14", "leaves no embedded root"},
+    {"loss_negative", "scenarios[1].horizontal_loss_mm", "-1", "0 mm"},
+    {"defect_too_deep", "scenarios[1].angular_defect",
+     "{\"surface\": \"mesial\", \"depth_mm\": 11}", "deeper than the remaining root",
+     "scenarios[1].angular_defect.depth_mm"},
+    {"pdl_width_zero", "pdl.width_mm", "0", "positive width"},
+    {"pdl_profile_too_wide", "pdl",
+     "{\"width_profile_mm\": {\"crest\": 2, \"mid_root\": 0.14, \"apex\": 0.19}}", "0.1 to 0.4 mm",
+     "pdl.width_profile_mm.crest"},
+    {"root_too_short", "tooth.dimensions.root_length_mm", "2", "human single-rooted teeth"},
+    {"cortical_thicker_than_plate", "bone.cortical_thickness_mm", "2.5", "plate"},
+    {"bracket_off_crown", "bracket.height_mm", "30", "off the crown"},
+    {"mesh_edge_too_small", "mesh.pdl_edge_mm", "0.01", "PDL edge length"},
     {"ideal_radius_too_big", "tooth.idealised_root",
-     "{\"shape\": \"cylinder\", \"radius_at_crest_mm\": 8, \"root_length_mm\": 12}", "",
-     "tooth.idealised_root.radius_at_crest_mm", "a third of the root length"},
+     "{\"shape\": \"cylinder\", \"radius_at_crest_mm\": 8, \"root_length_mm\": 12}",
+     "a third of the root length", "tooth.idealised_root.radius_at_crest_mm"},
 };
 
 INSTANTIATE_TEST_SUITE_P(CaseParse, BadCaseTest, ::testing::ValuesIn(kBadCases),
                          [](const ::testing::TestParamInfo<BadCase>& p) {
                            return std::string(p.param.name);
                          });
-
-TEST(CaseParse, CoupleAndMovementTogetherAreRejected) {
-  Json j = base_case();
-  j["load"]["couple"] = {{"moment_to_force_mm", 8}};
-  j["load"]["movement"] = "translation";
-  try {
-    parse_case(j.dump());
-    FAIL() << "accepted a couple and a movement preset together";
-  } catch (const InputError& e) {
-    EXPECT_EQ(e.key(), "load.movement");
-    EXPECT_NE(std::string(e.what()).find("remove one of them"), std::string::npos) << e.what();
-  }
-}
 
 TEST(CaseParse, LoadCaseNamesAMissingFile) {
   try {
