@@ -22,6 +22,17 @@ std::string system_reason(int error) { return std::strerror(error); }
                     "); check that the folder exists, is writable and the disk is not full");
 }
 
+// Gives up after a failed `step`: keeps its errno, closes `fd` when it is still open (>= 0),
+// removes the temporary file and throws. `step` is a plain C string so that nothing runs between
+// the failed call and reading errno.
+[[noreturn]] void abandon(const std::string& path, const std::string& temp, int fd,
+                          const char* step) {
+  const int error = errno;
+  if (fd >= 0) ::close(fd);
+  ::unlink(temp.c_str());
+  fail(path, step, error);
+}
+
 }  // namespace
 
 void write_file_atomic(const std::string& path, const std::string& content) {
@@ -40,30 +51,15 @@ void write_file_atomic(const std::string& path, const std::string& content) {
     const ssize_t n = ::write(fd, data, left);
     if (n < 0) {
       if (errno == EINTR) continue;
-      const int error = errno;
-      ::close(fd);
-      ::unlink(temp.c_str());
-      fail(path, "writing", error);
+      abandon(path, temp, fd, "writing");
     }
     data += n;
     left -= static_cast<size_t>(n);
   }
-  if (::fsync(fd) != 0) {
-    const int error = errno;
-    ::close(fd);
-    ::unlink(temp.c_str());
-    fail(path, "flushing to disk", error);
-  }
-  if (::close(fd) != 0) {
-    const int error = errno;
-    ::unlink(temp.c_str());
-    fail(path, "closing", error);
-  }
-  if (::rename(temp.c_str(), path.c_str()) != 0) {
-    const int error = errno;
-    ::unlink(temp.c_str());
-    fail(path, "renaming the temporary file", error);
-  }
+  if (::fsync(fd) != 0) abandon(path, temp, fd, "flushing to disk");
+  if (::close(fd) != 0) abandon(path, temp, -1, "closing");
+  if (::rename(temp.c_str(), path.c_str()) != 0)
+    abandon(path, temp, -1, "renaming the temporary file");
 }
 
 }  // namespace sharpey::analysis
