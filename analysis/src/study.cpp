@@ -2,9 +2,11 @@
 
 #include <future>
 #include <sstream>
+#include <system_error>
 
 #include "sharpey/analysis/detail/evaluation.h"
 #include "sharpey/error.h"
+#include "study_memory.h"
 
 namespace sharpey::analysis {
 
@@ -23,14 +25,23 @@ Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<
   // calling thread only.
   const auto build = [this](int k) {
     mesh::ModelSpec m = spec_.model;
-    m.loss = spec_.scenarios[static_cast<size_t>(k)].loss;
-    return mesh::build_tooth_model(m);
+    const Scenario& scenario = spec_.scenarios[static_cast<size_t>(k)];
+    m.loss = scenario.loss;
+    return detail::build_scenario_model(m, scenario.name);
+  };
+  // No second thread to be had (thread or memory limits): mesh on this thread when get() asks.
+  const auto start_meshing = [&build](int k) {
+    try {
+      return std::async(std::launch::async, build, k);
+    } catch (const std::system_error&) {
+      return std::async(std::launch::deferred, build, k);
+    }
   };
   const auto overall = [&progress, n](int k, const std::string& stage, double fraction) {
     if (progress) progress(stage, (k + fraction) / n);
   };
   if (cancelled()) throw Cancelled();
-  std::future<mesh::ToothModel> next = std::async(std::launch::async, build, 0);
+  std::future<mesh::ToothModel> next = start_meshing(0);
   for (int k = 0; k < n; ++k) {
     const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) +
                                " (" + spec_.scenarios[static_cast<size_t>(k)].name + "): ";
@@ -39,7 +50,7 @@ Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<
     // destructor waits for the mesher of the next scenario to finish (a few seconds at most).
     mesh::ToothModel model = next.get();
     if (cancelled()) throw Cancelled();
-    if (k + 1 < n) next = std::async(std::launch::async, build, k + 1);
+    if (k + 1 < n) next = start_meshing(k + 1);
     const ProgressCallback local = [&](const std::string& stage, double fraction) {
       overall(k, prefix + stage, fraction);
     };

@@ -1,4 +1,5 @@
 #include <algorithm>
+#include <new>
 #include <sstream>
 
 #include "sharpey/analysis/detail/centre_of_resistance.h"
@@ -8,8 +9,48 @@
 #include "sharpey/analysis/detail/root_surface.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
+#include "study_memory.h"
 
 namespace sharpey::analysis {
+
+namespace detail {
+
+namespace {
+
+std::string sizes_text(const mesh::MeshSizing& sizing) {
+  const mesh::MeshSizes z = mesh::resolve_sizing(sizing);
+  std::ostringstream s;
+  s << mesh::to_string(sizing.preset) << " preset: PDL edge " << z.pdl_edge_mm << " mm, bone edge "
+    << z.bone_edge_mm << " mm, " << z.pdl_layers << " PDL layer" << (z.pdl_layers == 1 ? "" : "s");
+  return s.str();
+}
+
+constexpr const char* kLessMemory =
+    "use a coarser mesh (mesh.preset \"coarse\", or larger mesh.pdl_edge_mm and "
+    "mesh.bone_edge_mm, fewer mesh.pdl_layers), fewer scenarios per run, or a computer with more "
+    "free memory";
+
+}  // namespace
+
+mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario) {
+  try {
+    return mesh::build_tooth_model(model);
+  } catch (const std::bad_alloc&) {
+    throw MeshError("meshing scenario '" + scenario + "' ran out of memory (" +
+                    sizes_text(model.sizing) + "); " + kLessMemory);
+  }
+}
+
+std::string solver_out_of_memory_message(const std::string& scenario, int n_nodes, int n_elements) {
+  std::ostringstream s;
+  s << "solving scenario '" << scenario << "' ran out of memory while assembling, factorising or "
+    << "solving the stiffness matrix of " << n_nodes << " nodes (" << 3L * n_nodes
+    << " displacement unknowns) and " << n_elements << " elements; " << kLessMemory;
+  return s.str();
+}
+
+}  // namespace detail
+
 namespace {
 
 const Scenario& checked_scenario(const CaseSpec& spec, int index) {
@@ -45,7 +86,7 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
     : scenario_(checked_scenario(spec, scenario_index)) {
   check_cancel(cancel);
   report(progress, "mesh", 0.0);
-  model_ = mesh::build_tooth_model(model_of(spec, scenario_index));
+  model_ = detail::build_scenario_model(model_of(spec, scenario_index), scenario_.name);
   solve(spec, progress, cancel, options);
 }
 
@@ -65,12 +106,20 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   check_cancel(cancel);
   report(progress, "factorise", 0.25);
   materials_ = material_table(spec);
-  solver_ = std::make_unique<fem::LinearElasticSolver>(m, materials_,
-                                                       fem::fix_faces(m, mesh::kFixedBone));
-  check_cancel(cancel);
-  report(progress, "unit loads", 0.75);
-  basis_ = std::make_unique<fem::UnitLoadBasis>(m, materials_, *solver_, mesh::kBracketPad,
-                                                g.bracket_center, mesh::kPdl);
+  // CHOLMOD reports its own out-of-memory as a SolverError; Eigen's containers (assembly,
+  // right-hand sides, the PDL fields) throw std::bad_alloc, which is the same failure.
+  try {
+    solver_ = std::make_unique<fem::LinearElasticSolver>(m, materials_,
+                                                         fem::fix_faces(m, mesh::kFixedBone));
+    check_cancel(cancel);
+    report(progress, "unit loads", 0.75);
+    basis_ = std::make_unique<fem::UnitLoadBasis>(m, materials_, *solver_, mesh::kBracketPad,
+                                                  g.bracket_center, mesh::kPdl);
+  } catch (const std::bad_alloc&) {
+    solver_.reset();
+    throw SolverError(
+        detail::solver_out_of_memory_message(scenario_.name, m.n_nodes(), m.n_elements()));
+  }
   solver_statistics_ = solver_->statistics();
   if (!options.keep_solver) solver_.reset();  // the factor is no longer needed
   check_cancel(cancel);

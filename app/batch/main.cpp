@@ -3,6 +3,8 @@
 #include <CLI/CLI.hpp>
 
 #include <cstdio>
+#include <cstdlib>
+#include <exception>
 #include <filesystem>
 #include <iostream>
 #include <new>
@@ -28,11 +30,14 @@ constexpr const char* kFooter = R"(Examples:
 
 Exit codes:
   0  success
-  1  internal error (an unexpected failure; please report it)
+  1  internal error (an unexpected failure; please report it), or memory ran out
+     outside meshing and solving
   2  bad input or usage: the case file or an option is malformed or out of range
      (the message names the key, the value and the fix)
-  3  mesher failure: the tooth model could not be meshed
-  4  solver failure: the finite-element system could not be solved
+  3  mesher failure: the tooth model could not be meshed, also when memory ran out
+     while meshing (try --mesh-preset coarse)
+  4  solver failure: the finite-element system could not be assembled, factorised or
+     solved, also when memory ran out doing so (try --mesh-preset coarse)
   5  output failure: a result file could not be written
   6  interrupted (Ctrl-C, SIGINT or SIGTERM); nothing partial is left in the output folder
 
@@ -42,6 +47,36 @@ The case-file format is described in docs/case-format.md.)";
 int fail(int code, const std::string& kind, const std::string& message) {
   std::cerr << "sharpey-batch: " << kind << ": " << message << '\n';
   return code;
+}
+
+// What to try after a mesher or solver failure (the library's message says what failed).
+constexpr const char* kMeshHint =
+    "sharpey-batch: what to do: if memory ran out, mesh coarser (--mesh-preset coarse, or larger "
+    "mesh.pdl_edge_mm / mesh.bone_edge_mm in the case file); otherwise change the geometry values "
+    "the message names (tooth dimensions, PDL width, bone loss) slightly\n";
+constexpr const char* kSolverHint =
+    "sharpey-batch: what to do: if memory ran out, mesh coarser (--mesh-preset coarse) or run "
+    "fewer scenarios at a time; if the system is singular or not positive definite, check the "
+    "materials and the bone geometry of the case\n";
+
+// Last resort for an exception that escapes where it cannot be caught (a worker thread, a
+// destructor): a message and exit code 1 instead of std::abort's core dump. Output folders are
+// staged, so nothing half-written appears in --out.
+[[noreturn]] void on_terminate() {
+  std::string what = "unknown failure";
+  if (const std::exception_ptr e = std::current_exception()) {
+    try {
+      std::rethrow_exception(e);
+    } catch (const std::bad_alloc&) {
+      what = "out of memory; try a coarser mesh preset (--mesh-preset coarse)";
+    } catch (const std::exception& x) {
+      what = x.what();
+    } catch (...) {
+    }
+  }
+  std::fprintf(stderr, "sharpey-batch: internal error: %s (stopped)\n", what.c_str());
+  std::fflush(nullptr);
+  std::_Exit(kInternalError);
 }
 
 }  // namespace
@@ -98,6 +133,7 @@ int main(int argc, char** argv) {
   }
 
   install_interrupt_handlers();
+  std::set_terminate(on_terminate);
   try {
     if (run->parsed()) run_command(options);
     if (sweep->parsed()) sweep_command(options, vary);
@@ -108,9 +144,13 @@ int main(int argc, char** argv) {
   } catch (const InputError& e) {
     return fail(kBadInput, "bad input (key " + e.key() + ")", e.what());
   } catch (const MeshError& e) {
-    return fail(kMeshFailure, "mesher failure", e.what());
+    fail(kMeshFailure, "mesher failure", e.what());
+    std::cerr << kMeshHint;
+    return kMeshFailure;
   } catch (const SolverError& e) {
-    return fail(kSolverFailure, "solver failure", e.what());
+    fail(kSolverFailure, "solver failure", e.what());
+    std::cerr << kSolverHint;
+    return kSolverFailure;
   } catch (const analysis::OutputError& e) {
     return fail(kOutputFailure, "output failure", e.what());
   } catch (const std::filesystem::filesystem_error& e) {
@@ -119,8 +159,11 @@ int main(int argc, char** argv) {
     // Other library data errors: the .vtu writer reports I/O failures this way.
     return fail(kOutputFailure, "error", e.what());
   } catch (const std::bad_alloc&) {
+    // Meshing and solving report running out of memory as mesher (3) or solver (4) failures;
+    // this is an allocation elsewhere (reading, evaluating, writing).
     return fail(kInternalError, "internal error",
-                "out of memory; try a coarser mesh preset (--mesh-preset coarse)");
+                "out of memory outside meshing and solving; try a coarser mesh preset "
+                "(--mesh-preset coarse) or fewer scenarios");
   } catch (const std::exception& e) {
     return fail(kInternalError, "internal error", e.what());
   }
