@@ -29,20 +29,8 @@
 namespace sharpey::app {
 namespace {
 
+using testing::colour_map_pixels;
 using testing::count_pixels;
-
-int colour_map_pixels(const QImage& image) {
-  std::vector<QColor> palette;
-  for (int i = -20; i <= 20; ++i)
-    if (std::abs(i) >= 4) palette.push_back(to_qcolor(diverging_colour(i / 20.0)));
-  return count_pixels(image, [&](const QColor& c) {
-    if (c.hsvSaturationF() < 0.25f) return false;
-    for (const QColor& p : palette)
-      if (std::abs(c.red() - p.red()) + std::abs(c.green() - p.green()) + std::abs(c.blue() - p.blue()) < 60)
-        return true;
-    return false;
-  });
-}
 
 // Runs a program and returns its standard output (empty when it is missing).
 QString run(const QString& program, const QStringList& args) {

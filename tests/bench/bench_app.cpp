@@ -200,14 +200,14 @@ int main(int argc, char** argv) {
   }
 
   // Rotation: azimuth steps with a synchronous repaint each, drawn in full and as while the mouse
-  // turns the view (the see-through bone left out).
+  // turns the view (no see-through bone, half resolution).
   for (app::BoneStyle style : {app::BoneStyle::kTranslucent, app::BoneStyle::kOpaque}) {
     view->set_bone_style(style);
     QApplication::processEvents();
     const double still = rotate(vtk, 40);
-    view->scene()->set_interacting(true);
+    view->set_interacting(true);
     const double quick = rotate(vtk, 40);
-    view->scene()->set_interacting(false);
+    view->set_interacting(false);
     std::printf("rotating, %s: %.1f frames per second drawn in full, %.1f as while the mouse turns it\n",
                 app::label(style).toLocal8Bit().constData(), still, quick);
   }

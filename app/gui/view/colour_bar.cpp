@@ -42,6 +42,16 @@ void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
 }
 
+QImage ColourBar::beside(const QImage& picture, const QColor& background) const {
+  QImage out(picture.width() + width(), std::max(picture.height(), height()), QImage::Format_RGB32);
+  out.fill(background);
+  QPainter p(&out);
+  p.drawImage(0, 0, picture);
+  p.translate(picture.width(), 0);
+  const_cast<ColourBar*>(this)->render(&p);
+  return out;
+}
+
 void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& scale,
                      const QString& title, const QString& unit, const std::vector<BarMark>& marks,
                      const QColor& text) {

@@ -32,6 +32,9 @@ class ColourBar : public QWidget {
   const QString& unit() const { return unit_; }
   QSize sizeHint() const override { return {136, 300}; }
 
+  // `picture` (a grabbed view) with this bar as shown drawn to its right, on `background`.
+  QImage beside(const QImage& picture, const QColor& background) const;
+
   // Paints the bar into `rect` of any painter (also used by the PDF report).
   void paint_into(QPainter& painter, const QRect& rect) const;
   // Same drawing without a widget: scale, title, unit, marks, text colour.

@@ -204,14 +204,7 @@ void ComparisonView::link_cameras() {
 }
 
 QImage ComparisonView::grab_views() {
-  const QImage grid = grid_host_->grab().toImage();
-  QImage out(grid.width() + bar_->width(), std::max(grid.height(), bar_->height()), QImage::Format_RGB32);
-  out.fill(palette().window().color());
-  QPainter p(&out);
-  p.drawImage(0, 0, grid);
-  p.translate(grid.width(), 0);
-  bar_->render(&p);
-  return out;
+  return bar_->beside(grid_host_->grab().toImage(), palette().window().color());
 }
 
 }  // namespace sharpey::app

@@ -386,9 +386,8 @@ void MainWindow::apply_pending_load(bool interactive) {
   const LoadControls c = *pending_load_;
   pending_load_.reset();
   // While a slider moves the 3D view draws the quick way (no see-through bone).
-  result_view_->scene()->set_interacting(interactive);
+  result_view_->set_interacting(interactive);
   session_->set_load(c, interactive);
-  if (!interactive) result_view_->vtk_view()->update();
 }
 
 QString MainWindow::force_text() const {

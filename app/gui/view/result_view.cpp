@@ -78,7 +78,7 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   connect(reset, &QToolButton::clicked, this, &ResultView::reset_camera);
   // Fewer triangles while the mouse turns the view; full detail for the still frame.
   connect(view_, &VtkView::interaction_started, this, [this]() {
-    scene_->set_interacting(true);
+    set_interacting(true);
     hover_timer_.stop();
     emit hover_changed(QString());
   });
@@ -97,12 +97,17 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     emit hover_changed(QString());
   });
   connect(view_, &VtkView::interaction_ended, this, [this]() {
-    scene_->set_interacting(false);
-    view_->update();
+    set_interacting(false);
   });
 }
 
 ResultView::~ResultView() = default;
+
+void ResultView::set_interacting(bool on) {
+  scene_->set_interacting(on);
+  view_->set_quick(on);
+  view_->update();
+}
 
 HoverReadout ResultView::readout_at(int x, int y) {
   if (!solution_) return {};
@@ -183,13 +188,7 @@ void ResultView::refresh() {
 QImage ResultView::grab_image() {
   const QImage scene = view_->grabFramebuffer();
   if (!bar_->isVisible()) return scene;
-  QImage out(scene.width() + bar_->width(), std::max(scene.height(), bar_->height()), QImage::Format_RGB32);
-  out.fill(palette().window().color());
-  QPainter p(&out);
-  p.drawImage(0, 0, scene);
-  p.translate(scene.width(), 0);
-  bar_->render(&p);
-  return out;
+  return bar_->beside(scene, palette().window().color());
 }
 
 }  // namespace sharpey::app

@@ -43,6 +43,9 @@ class ResultView : public QWidget {
   void set_bone_style(BoneStyle style);
   void set_section(SectionPlane plane);
   void reset_camera();
+  // Quick drawing while the view turns or a load slider moves: no see-through bone, half the
+  // resolution (ModelScene::set_interacting, VtkView::set_quick). Off: full frame.
+  void set_interacting(bool on);
   // Hides the option strip or the colour bar (the comparison grid shares both).
   void set_options_visible(bool visible);
   void set_bar_visible(bool visible);

@@ -128,8 +128,16 @@ bool VtkView::make_current() {
 }
 
 QSize VtkView::device_size() const {
-  const qreal dpr = devicePixelRatioF();
-  return {std::max(1, static_cast<int>(width() * dpr)), std::max(1, static_cast<int>(height() * dpr))};
+  const qreal scale = devicePixelRatioF() * (quick_ ? 0.5 : 1.0);
+  return {std::max(1, static_cast<int>(width() * scale)), std::max(1, static_cast<int>(height() * scale))};
+}
+
+void VtkView::set_quick(bool on) {
+  if (quick_ == on) return;
+  quick_ = on;
+  const QSize size = device_size();
+  interactor_->UpdateSize(size.width(), size.height());
+  update();
 }
 
 void VtkView::render_frame() {
@@ -153,7 +161,12 @@ void VtkView::render_frame() {
 }
 
 QImage VtkView::grabFramebuffer() {
+  // Always at full resolution (exports, tests).
+  const bool was = quick_;
+  quick_ = false;
   render_frame();
+  quick_ = was;
+  if (was) interactor_->UpdateSize(device_size().width(), device_size().height());
   return frame_;
 }
 
@@ -169,6 +182,11 @@ void VtkView::paintEvent(QPaintEvent*) {
   if (frame_.isNull()) {
     painter.fillRect(rect(), palette().window());
     painter.drawText(rect(), Qt::AlignCenter, QStringLiteral("No OpenGL: the 3D view cannot be drawn."));
+    return;
+  }
+  if (quick_) {
+    painter.setRenderHint(QPainter::SmoothPixmapTransform, true);
+    painter.drawImage(rect(), frame_);
     return;
   }
   QImage shown = frame_;

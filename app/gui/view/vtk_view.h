@@ -53,6 +53,11 @@ class VtkView : public QWidget {
   // pixels; null when no OpenGL context could be made.
   QImage grabFramebuffer();
 
+  // Quick frames (while the view turns or a load slider moves): rendered at half the width and
+  // height and scaled up, a quarter of the pixels for software OpenGL. Off: full resolution.
+  void set_quick(bool on);
+  bool quick() const { return quick_; }
+
   // Time the last frame spent in VTK's Render (with the read-back), ms.
   double last_render_ms() const { return last_render_ms_; }
   int frames_rendered() const { return frames_; }
@@ -102,6 +107,7 @@ class VtkView : public QWidget {
   bool context_failed_ = false;
   QImage frame_;
   bool in_paint_ = false;
+  bool quick_ = false;
   double last_render_ms_ = 0;
   int frames_ = 0;
 };

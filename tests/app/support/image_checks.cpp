@@ -1,6 +1,10 @@
 #include "support/image_checks.h"
 
+#include <cstdlib>
 #include <set>
+#include <vector>
+
+#include "view/colour_bar.h"
 
 namespace sharpey::app::testing {
 
@@ -11,6 +15,19 @@ int count_pixels(const QImage& image, const std::function<bool(const QColor&)>& 
     for (int x = 0; x < img.width(); ++x)
       if (pick(QColor(img.pixel(x, y)))) ++n;
   return n;
+}
+
+int colour_map_pixels(const QImage& image) {
+  std::vector<QColor> palette;
+  for (int i = -20; i <= 20; ++i)
+    if (std::abs(i) >= 4) palette.push_back(to_qcolor(diverging_colour(i / 20.0)));
+  return count_pixels(image, [&](const QColor& c) {
+    if (c.hsvSaturationF() < 0.25f) return false;
+    for (const QColor& p : palette)
+      if (std::abs(c.red() - p.red()) + std::abs(c.green() - p.green()) + std::abs(c.blue() - p.blue()) < 60)
+        return true;
+    return false;
+  });
 }
 
 int count_colours(const QImage& image) {

@@ -11,5 +11,8 @@ namespace sharpey::app::testing {
 int count_pixels(const QImage& image, const std::function<bool(const QColor&)>& pick);
 // Number of distinct colours (quantised to 5 bits per channel).
 int count_colours(const QImage& image);
+// Pixels close to a colour of the diverging pressure map away from its neutral middle (the PDL
+// colours): saturated enough to be neither background grey nor tooth ivory.
+int colour_map_pixels(const QImage& image);
 
 }  // namespace sharpey::app::testing
