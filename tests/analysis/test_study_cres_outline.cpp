@@ -10,10 +10,11 @@
 //      idealised-root test, test_cres_ideal_roots.cpp, extended to elliptical sections).
 // They must agree on each fraction of the embedded root and on the drift with loss, and both must
 // show the larger mesiodistal drift: the root is wider mesiodistally (cervix 7.0 against 6.0 mm,
-// Wheeler's Table 1-1, from memory) with the same taper profile in both directions, and the wider
-// section gives a blunter apical dome whose surfaces face down the axis, so the remaining apical
-// part of the root holds its CRes relatively nearer the crest. The clinical figures with default
-// materials are in test_clinical_incisor.cpp and docs/analyses.md section 8.2.
+// Wheeler's Table 1-1, from memory) with the same taper profile in both directions. On an inclined
+// root surface a sideways push compresses the ligament along the normal, whose vertical part acts
+// at the half-width as a lever; the wider section is inclined more steeply with a longer lever, and
+// after loss only the inclined apical part remains. The clinical figures with default materials
+// are in test_clinical_incisor.cpp and docs/analyses.md section 8.2.
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
