@@ -38,21 +38,22 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   using sharpey::app::ViewKind;
   QDir().mkpath(folder);
   const QDir dir(folder);
-  auto shot = [&](ViewKind view, const QString& name, QWidget* hover_over) {
+  // window_<name>.png: the window; <view>.png: the view's own PNG export.
+  auto shot = [&](ViewKind view, const QString& name, const QString& image, QWidget* hover_over) {
     window.show_view(view);
     QApplication::processEvents();
     if (hover_over) hover(hover_over, 0.5, 0.72);
-    window.grab().toImage().save(dir.filePath(name + QStringLiteral("_window.png")));
-    window.export_image(dir.filePath(name + QStringLiteral(".png")), view);
+    window.grab().toImage().save(dir.filePath(QStringLiteral("window_") + name + QStringLiteral(".png")));
+    window.export_image(dir.filePath(image + QStringLiteral(".png")), view);
   };
-  shot(ViewKind::k3D, QStringLiteral("view_3d"), window.result_view()->vtk_view());
-  shot(ViewKind::kRootMap, QStringLiteral("root_map"), window.root_map());
-  shot(ViewKind::kComparison, QStringLiteral("bone_levels"), nullptr);
+  shot(ViewKind::k3D, QStringLiteral("3d"), QStringLiteral("view_3d"), window.result_view()->vtk_view());
+  shot(ViewKind::kRootMap, QStringLiteral("root_map"), QStringLiteral("root_map"), window.root_map());
+  shot(ViewKind::kComparison, QStringLiteral("bone_levels"), QStringLiteral("bone_levels"), nullptr);
   window.show_view(ViewKind::k3D);
   window.show_case_panel(true);
   QApplication::processEvents();
   wait_ms(100);
-  window.grab().toImage().save(dir.filePath(QStringLiteral("case_panel_window.png")));
+  window.grab().toImage().save(dir.filePath(QStringLiteral("window_case_panel.png")));
   window.show_case_panel(false);
   window.export_report(dir.filePath(QStringLiteral("report.pdf")));
 }

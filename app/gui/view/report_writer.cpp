@@ -7,6 +7,7 @@
 #include <QPainter>
 #include <QPdfWriter>
 #include <QTextOption>
+#include <functional>
 
 #include "core/scenario_table.h"
 #include "core/units.h"
@@ -19,6 +20,24 @@
 namespace sharpey::app {
 
 namespace {
+
+// Paints a widget drawing (`draw` into a rectangle) across the body's width from height `top`,
+// `height` high: drawn at a screen-like logical width of 1100 and scaled down, so its fonts keep
+// their proportion to the drawing.
+void paint_scaled(QPainter& painter, const QFont& font, const QRect& body, int top, int height,
+                  const std::function<void(QPainter&, const QRect&)>& draw) {
+  const QSize logical(1100, 1100 * height / std::max(1, body.width()));
+  const double scale = static_cast<double>(body.width()) / logical.width();
+  painter.save();
+  painter.translate(body.left(), top);
+  painter.scale(scale, scale);
+  QFont small = font;
+  small.setPointSizeF(font.pointSizeF() * 0.9 / scale);
+  painter.setFont(small);
+  draw(painter, QRect(QPoint(0, 0), logical));
+  painter.restore();
+  painter.setFont(font);
+}
 
 // Page geometry in device units of the writer (300 dpi).
 struct Page {
@@ -217,17 +236,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     RootMapView map;
     map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)));
     const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
-    // Paint at screen-like size and scale, so fonts keep their proportion to the drawing.
-    const QSize logical(1100, 1100 * map_height / std::max(1, body.width()));
-    painter.save();
-    painter.translate(body.left(), pg.y);
-    painter.scale(static_cast<double>(body.width()) / logical.width(), static_cast<double>(body.width()) / logical.width());
-    QFont small = font;
-    small.setPointSizeF(font.pointSizeF() * 0.9 * logical.width() / body.width());
-    painter.setFont(small);
-    map.paint_into(painter, QRect(QPoint(0, 0), logical));
-    painter.restore();
-    painter.setFont(font);
+    paint_scaled(painter, font, body, pg.y, map_height,
+                 [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
     footer(painter, page, ++pages, in.case_file);
   }
 
@@ -261,18 +271,9 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     TrendPlot plot;
     plot.set_table(table);
     const int plot_height = body.bottom() - pg.y;
-    if (plot_height > 10 * line) {
-      const QSize logical(1100, 1100 * plot_height / body.width());
-      painter.save();
-      painter.translate(body.left(), pg.y);
-      painter.scale(static_cast<double>(body.width()) / logical.width(), static_cast<double>(body.width()) / logical.width());
-      QFont small = font;
-      small.setPointSizeF(font.pointSizeF() * 0.9 * logical.width() / body.width());
-      painter.setFont(small);
-      plot.paint_into(painter, QRect(QPoint(0, 0), logical));
-      painter.restore();
-      painter.setFont(font);
-    }
+    if (plot_height > 10 * line)
+      paint_scaled(painter, font, body, pg.y, plot_height,
+                   [&plot](QPainter& p, const QRect& area) { plot.paint_into(p, area); });
     footer(painter, page, ++pages, in.case_file);
   }
   painter.end();
