@@ -113,6 +113,30 @@ TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
   EXPECT_NEAR(bar->range().max, peak, 1e-9 * peak);
 }
 
+TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
+  CaseSession& session = g_window->session();
+  const LoadControls start = session.load_controls();
+  int evaluations = 0;
+  const auto counter = QObject::connect(&session, &CaseSession::results_changed, [&]() { ++evaluations; });
+  LoadControls c = start;
+  for (int i = 1; i <= 10; ++i) {
+    c.magnitude = start.magnitude + i;
+    g_window->set_load(c, true);  // as the load panel sends them while the slider moves
+  }
+  EXPECT_EQ(evaluations, 0);  // nothing applied while the burst is being delivered
+  EXPECT_FALSE(g_window->result_view()->scene()->interacting());
+  QCoreApplication::sendPostedEvents(g_window, QEvent::MetaCall);
+  EXPECT_EQ(evaluations, 1);
+  EXPECT_EQ(session.load_controls().magnitude, start.magnitude + 10);
+  EXPECT_TRUE(g_window->result_view()->scene()->interacting());  // drawn the quick way meanwhile
+  g_window->set_load(start, false);  // the slider is released: applied at once, full detail
+  EXPECT_EQ(evaluations, 2);
+  EXPECT_FALSE(g_window->result_view()->scene()->interacting());
+  EXPECT_EQ(session.load_controls().magnitude, start.magnitude);
+  QObject::disconnect(counter);
+  QApplication::processEvents();
+}
+
 TEST_F(MainWindowTest, PdfReportHasItsPagesTheCautionAndTheSources) {
   const QString pdf = g_dir->filePath("report.pdf");
   ASSERT_TRUE(g_window->export_report(pdf)) << g_window->last_error().toStdString();
