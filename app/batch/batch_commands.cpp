@@ -7,6 +7,7 @@
 #include <thread>
 #include <iostream>
 #include <memory>
+#include <new>
 #include <sstream>
 
 #include "interrupt.h"
@@ -60,6 +61,20 @@ void pause_after_write() {
     return value ? std::strtol(value, nullptr, 10) : 0L;
   }();
   if (delay_ms > 0) std::this_thread::sleep_for(std::chrono::milliseconds(delay_ms));
+}
+
+// Meshes scenario i for the mesh command; running out of memory is a mesher failure here too,
+// as it is inside analysis::Study for run and sweep.
+mesh::ToothModel build_model(const CaseSpec& spec, int i) {
+  const mesh::ModelSpec model = analysis::scenario_model(spec, i);
+  try {
+    return mesh::build_tooth_model(model);
+  } catch (const std::bad_alloc&) {
+    throw MeshError("meshing scenario '" + spec.scenarios[static_cast<size_t>(i)].name +
+                    "' ran out of memory (" + mesh::to_string(model.sizing.preset) +
+                    " mesh preset); use a coarser mesh (--mesh-preset coarse, or larger "
+                    "mesh.pdl_edge_mm and mesh.bone_edge_mm)");
+  }
 }
 
 void announce(const std::string& folder, const std::vector<std::string>& files) {
@@ -231,8 +246,7 @@ void mesh_command(const CommonOptions& options) {
                         " (" + name + ")",
                     static_cast<double>(i) / static_cast<double>(n));
     stop_if_interrupted();
-    const mesh::ToothModel model =
-        mesh::build_tooth_model(analysis::scenario_model(spec, static_cast<int>(i)));
+    const mesh::ToothModel model = build_model(spec, static_cast<int>(i));
     stop_if_interrupted();
     analysis::ScenarioFacts f;
     f.geometry = model.geometry;

@@ -3,7 +3,8 @@
 // (setrlimit(RLIMIT_AS) in the forked child before exec), so real allocations fail.
 //   - Mesher: a case whose mesh is valid but very fine (PDL edge 0.1 mm, bone edge 0.3 mm, 4 PDL
 //     layers: about 700 MB for TetGen alone, measured) under 350 and 450 MB; TetGen reports out of
-//     memory (its code 1) or an allocation throws std::bad_alloc: both are a MeshError -> exit 3.
+//     memory (its code 1) or an allocation throws std::bad_alloc: both are a MeshError -> exit 3,
+//     for the run command and for the mesh command.
 //   - Solver: a case whose mesh fits easily (about 65 MB) but whose stiffness matrix and factor do
 //     not (PDL edge 0.3 mm, bone edge 1.0 mm, 2 layers: about 450 000 degrees of freedom) under
 //     450 and 700 MB; assembly (std::bad_alloc) or CHOLMOD (CHOLMOD_OUT_OF_MEMORY) fails: both are
@@ -97,6 +98,7 @@ std::string case_with_mesh(const std::string& mesh_object) {
 
 struct MemoryRun {
   const char* name;
+  const char* command;  // run or mesh
   const char* mesh;  // the case's "mesh" object
   long limit_mb;
   int exit_code;
@@ -104,7 +106,7 @@ struct MemoryRun {
 };
 
 std::ostream& operator<<(std::ostream& os, const MemoryRun& m) {
-  return os << m.name << " (mesh " << m.mesh << ", limit " << m.limit_mb << " MB) -> exit "
+  return os << m.name << ": " << m.command << " (mesh " << m.mesh << ", limit " << m.limit_mb << " MB) -> exit "
             << m.exit_code;
 }
 
@@ -117,7 +119,7 @@ TEST_P(BatchOutOfMemory, ExitsWithItsCodeNamesAFixLeavesNoOutput) {
   write_file(case_path, case_with_mesh(m.mesh));
   const std::string out = folder / "out";
   const auto t0 = std::chrono::steady_clock::now();
-  const ProcessResult r = run_limited({"run", case_path, "--out", out}, m.limit_mb, folder);
+  const ProcessResult r = run_limited({m.command, case_path, "--out", out}, m.limit_mb, folder);
   const double seconds =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   std::cout << m << ": exit " << r.exit_code << ", signal " << r.signal << ", " << seconds
@@ -144,10 +146,11 @@ constexpr const char* kBigMesh =
 
 INSTANTIATE_TEST_SUITE_P(
     Limits, BatchOutOfMemory,
-    ::testing::Values(MemoryRun{"mesher", kHugeMesh, 350, 3, "mesher failure"},
-                      MemoryRun{"mesher", kHugeMesh, 450, 3, "mesher failure"},
-                      MemoryRun{"solver", kBigMesh, 450, 4, "solver failure"},
-                      MemoryRun{"solver", kBigMesh, 700, 4, "solver failure"}),
+    ::testing::Values(MemoryRun{"mesher", "run", kHugeMesh, 350, 3, "mesher failure"},
+                      MemoryRun{"mesher", "run", kHugeMesh, 450, 3, "mesher failure"},
+                      MemoryRun{"mesh_command", "mesh", kHugeMesh, 450, 3, "mesher failure"},
+                      MemoryRun{"solver", "run", kBigMesh, 450, 4, "solver failure"},
+                      MemoryRun{"solver", "run", kBigMesh, 700, 4, "solver failure"}),
     [](const ::testing::TestParamInfo<MemoryRun>& run) {
       return std::string(run.param.name) + "_" + std::to_string(run.param.limit_mb) + "mb";
     });
