@@ -18,6 +18,23 @@
 
 namespace sharpey::app {
 
+namespace {
+
+// A number field that reports only finished edits (no keyboard tracking).
+QDoubleSpinBox* number_box(double lo, double hi, int decimals, double step, const QString& suffix,
+                           const QString& tip) {
+  auto* s = new QDoubleSpinBox;
+  s->setRange(lo, hi);
+  s->setDecimals(decimals);
+  s->setSingleStep(step);
+  s->setSuffix(suffix);
+  s->setToolTip(tip);
+  s->setKeyboardTracking(false);
+  return s;
+}
+
+}  // namespace
+
 QString tooth_name(int tooth_type) {
   return QString::fromStdString(mesh::to_string(static_cast<mesh::ToothType>(tooth_type))).replace('_', ' ');
 }
@@ -77,26 +94,17 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(defect_title_);
   auto* defect = new QFormLayout;
   defect->setRowWrapPolicy(QFormLayout::WrapLongRows);
-  defect_depth_ = new QDoubleSpinBox;
-  defect_depth_->setRange(0, 15);
-  defect_depth_->setDecimals(1);
-  defect_depth_->setSingleStep(0.5);
-  defect_depth_->setSuffix(QStringLiteral(" mm"));
+  defect_depth_ = number_box(0, 15, 1, 0.5, QStringLiteral(" mm"),
+                             QStringLiteral("Depth of the vertical defect below this level's crest (0 = none); "
+                                            "the root must keep at least a few millimetres of attachment"));
   defect_depth_->setSpecialValueText(QStringLiteral("none"));
-  defect_depth_->setToolTip(QStringLiteral("Depth of the vertical defect below this level's crest (0 = none); "
-                                           "the root must keep at least a few millimetres of attachment"));
   defect_surface_ = new QComboBox;
   for (mesh::ToothSurface t : {mesh::ToothSurface::kMesial, mesh::ToothSurface::kDistal, mesh::ToothSurface::kLabial,
                                mesh::ToothSurface::kLingual})
     defect_surface_->addItem(QString::fromStdString(mesh::to_string(t)), static_cast<int>(t));
   defect_surface_->setToolTip(QStringLiteral("Root surface the defect is centred on"));
-  defect_width_ = new QDoubleSpinBox;
-  defect_width_->setRange(20, 180);
-  defect_width_->setDecimals(0);
-  defect_width_->setSingleStep(10);
-  defect_width_->setSuffix(QStringLiteral("\u00b0"));
-  defect_width_->setToolTip(QStringLiteral("Width of the defect around the root, 20\u00b0 to 180\u00b0"));
-  for (QDoubleSpinBox* s : {defect_depth_, defect_width_}) s->setKeyboardTracking(false);
+  defect_width_ = number_box(20, 180, 0, 10, QStringLiteral("\u00b0"),
+                             QStringLiteral("Width of the defect around the root, 20\u00b0 to 180\u00b0"));
   defect->addRow(QStringLiteral("Depth below crest"), defect_depth_);
   defect->addRow(QStringLiteral("Centred on"), defect_surface_);
   defect->addRow(QStringLiteral("Width"), defect_width_);
@@ -109,20 +117,12 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
     const int i = static_cast<int>(part);
     const bool pdl = part == MaterialPart::kPdl;
-    auto* e = new QDoubleSpinBox;
-    e->setRange(pdl ? 0.001 : 1.0, 1e6);
-    e->setDecimals(pdl ? 3 : 0);
-    e->setSingleStep(pdl ? 0.01 : 100.0);
-    e->setSuffix(QStringLiteral(" MPa"));
-    e->setToolTip(QStringLiteral("%1 (%2.young_modulus_mpa): more than 0, at most 1e6 MPa")
-                      .arg(label(part), QString::fromStdString(case_key(part))));
-    auto* nu = new QDoubleSpinBox;
-    nu->setRange(0.0, 0.499);
-    nu->setDecimals(3);
-    nu->setSingleStep(0.01);
-    nu->setToolTip(QStringLiteral("%1 (%2.poisson_ratio): 0 to below 0.5")
-                       .arg(label(part), QString::fromStdString(case_key(part))));
-    for (QDoubleSpinBox* s : {e, nu}) s->setKeyboardTracking(false);
+    const QString key = QString::fromStdString(case_key(part));
+    auto* e = number_box(pdl ? 0.001 : 1.0, 1e6, pdl ? 3 : 0, pdl ? 0.01 : 100.0, QStringLiteral(" MPa"),
+                         QStringLiteral("%1 (%2.young_modulus_mpa): more than 0, at most 1e6 MPa")
+                             .arg(label(part), key));
+    auto* nu = number_box(0.0, 0.499, 3, 0.01, QString(),
+                          QStringLiteral("%1 (%2.poisson_ratio): 0 to below 0.5").arg(label(part), key));
     modulus_[i] = e;
     poisson_[i] = nu;
     QString name = label(part);
