@@ -106,7 +106,25 @@ TEST_F(SolvedCase, InteractiveEditsUpdateTheShownScenarioFirst) {
   session.set_current(1);
   EXPECT_FALSE(session.has_pending());
   EXPECT_NEAR(session.results()[1].pressure_max_compression_kpa, 1.5 * reduced, 1e-9 * reduced);
+  // Dragging on the reduced level: evaluated without the healthy reference (half the work), the
+  // equivalent forces follow with the flush and equal a full evaluation.
+  ASSERT_GE(session.results()[1].equivalent_force_peak_g, 0);
+  c.magnitude *= 1.2;
+  session.set_load(c, true);
+  EXPECT_TRUE(session.reference_pending());
+  EXPECT_EQ(session.results()[1].equivalent_force_peak_g, -1);
+  EXPECT_NEAR(session.results()[1].pressure_max_compression_kpa, 1.8 * reduced, 1e-9 * reduced);
+  session.flush();
+  EXPECT_FALSE(session.reference_pending());
+  const analysis::ScenarioResult full =
+      analysis::evaluate(*g_study->solutions()[1], session.spec().load, session.spec().thresholds,
+                         g_study->solutions()[static_cast<size_t>(g_study->healthy_index())].get());
+  EXPECT_NEAR(session.results()[1].equivalent_force_peak_g, full.equivalent_force_peak_g,
+              1e-9 * full.equivalent_force_peak_g);
+  EXPECT_NEAR(session.results()[1].equivalent_force_area_rule_g, full.equivalent_force_area_rule_g,
+              1e-9 * full.equivalent_force_area_rule_g);
   // The deferred evaluation also happens by itself.
+  c.magnitude /= 1.2;
   c.magnitude *= 2;
   session.set_load(c, true);
   EXPECT_TRUE(session.has_pending());

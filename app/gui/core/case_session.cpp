@@ -99,6 +99,7 @@ void CaseSession::adopt(analysis::CaseSpec spec) {
   results_.clear();
   current_ = 0;
   pending_ = false;
+  reference_pending_ = false;
   stale_ = true;
   error_.clear();
   flush_timer_.stop();
@@ -243,8 +244,13 @@ void CaseSession::evaluate(bool interactive) {
   timer.start();
   try {
     if (interactive && results_.size() == solutions.size()) {
+      // While a slider moves, a bone level other than the healthy one is evaluated without the
+      // healthy reference (which would double the work); the flush adds the equivalent forces.
+      const analysis::ScenarioSolution* shown = solutions[static_cast<size_t>(current_)].get();
+      const bool skip_reference = healthy != nullptr && healthy != shown;
       results_[static_cast<size_t>(current_)] =
-          analysis::evaluate(*solutions[static_cast<size_t>(current_)], spec_.load, spec_.thresholds, healthy);
+          analysis::evaluate(*shown, spec_.load, spec_.thresholds, skip_reference ? nullptr : healthy);
+      reference_pending_ = skip_reference;
       pending_ = solutions.size() > 1;
       if (pending_) flush_timer_.start();
     } else {
@@ -252,6 +258,7 @@ void CaseSession::evaluate(bool interactive) {
       for (const auto& s : solutions) all.push_back(analysis::evaluate(*s, spec_.load, spec_.thresholds, healthy));
       results_ = std::move(all);
       pending_ = false;
+      reference_pending_ = false;
       flush_timer_.stop();
     }
     error_.clear();

@@ -86,6 +86,9 @@ class CaseSession : public QObject {
   const analysis::ScenarioSolution* solution(int index) const;
   // True while some results still reflect an older load (after interactive edits).
   bool has_pending() const { return pending_; }
+  // True while the scenario on display was evaluated interactively without its healthy reference
+  // (that would evaluate the healthy scenario too): its equivalent forces are -1 until flush().
+  bool reference_pending() const { return reference_pending_; }
   // Evaluates the scenarios left behind by interactive edits.
   void flush();
   // Last evaluation error (empty when the last evaluation succeeded).
@@ -117,6 +120,7 @@ class CaseSession : public QObject {
   std::vector<analysis::ScenarioResult> results_;
   int current_ = 0;
   bool pending_ = false;
+  bool reference_pending_ = false;
   QString error_;
   QTimer flush_timer_;
   double last_evaluation_ms_ = 0;

@@ -19,7 +19,8 @@ QColor verdict_background(VerdictLevel level) {
   return Qt::gray;
 }
 
-std::vector<std::pair<QString, QString>> key_number_rows(const analysis::ScenarioResult& r) {
+std::vector<std::pair<QString, QString>> key_number_rows(const analysis::ScenarioResult& r,
+                                                         bool reference_pending) {
   const QString mm = QStringLiteral("mm"), kpa = QStringLiteral("kPa"), mm2 = QString::fromUtf8("mm\u00b2"),
                 um = QString::fromUtf8("\u00b5m"), g = QStringLiteral("g");
   const analysis::CentreOfResistance& cres = analysis::cres_for(r);
@@ -53,6 +54,10 @@ std::vector<std::pair<QString, QString>> key_number_rows(const analysis::Scenari
   if (r.equivalent_force_peak_g >= 0) {
     rows.push_back({QStringLiteral("equivalent force (same peak)"), with_unit(r.equivalent_force_peak_g, g, 0)});
     rows.push_back({QStringLiteral("equivalent force (area rule)"), with_unit(r.equivalent_force_area_rule_g, g, 0)});
+  } else if (reference_pending) {
+    const QString later = QStringLiteral("when the slider stops");
+    rows.push_back({QStringLiteral("equivalent force (same peak)"), later});
+    rows.push_back({QStringLiteral("equivalent force (area rule)"), later});
   }
   return rows;
 }
@@ -97,7 +102,7 @@ void FindingsPanel::clear() {
 }
 
 void FindingsPanel::show_result(const analysis::ScenarioResult& r, const analysis::Thresholds& t,
-                                bool stale) {
+                                bool stale, bool reference_pending) {
   clear();
   scenario_->setText(QStringLiteral("Bone level: ") + QString::fromStdString(r.name));
   const Verdict v = judge(r, t);
@@ -108,7 +113,7 @@ void FindingsPanel::show_result(const analysis::ScenarioResult& r, const analysi
   detail_->setText(v.detail);
   stale_->setVisible(stale);
   int row = 0;
-  for (const auto& [name, value] : key_number_rows(r)) {
+  for (const auto& [name, value] : key_number_rows(r, reference_pending)) {
     auto* l = new QLabel(name);
     l->setStyleSheet(QStringLiteral("color: #444;"));
     auto* n = new QLabel(value);

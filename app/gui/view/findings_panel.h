@@ -17,8 +17,10 @@ class FindingsPanel : public QWidget {
 
  public:
   explicit FindingsPanel(QWidget* parent = nullptr);
+  // reference_pending: the equivalent forces wait for the end of a slider drag
+  // (CaseSession::reference_pending).
   void show_result(const analysis::ScenarioResult& result, const analysis::Thresholds& thresholds,
-                   bool stale);
+                   bool stale, bool reference_pending = false);
   void clear();
   // Text of the headline and of the numbers (for tests and the report).
   QString headline() const;
@@ -37,6 +39,8 @@ class FindingsPanel : public QWidget {
 QColor verdict_background(VerdictLevel level);
 
 // The key numbers of a result as (label, value with unit) rows, shared with the PDF report.
-std::vector<std::pair<QString, QString>> key_number_rows(const analysis::ScenarioResult& r);
+// reference_pending: rows for the equivalent forces say they follow when the slider stops.
+std::vector<std::pair<QString, QString>> key_number_rows(const analysis::ScenarioResult& r,
+                                                         bool reference_pending = false);
 
 }  // namespace sharpey::app

@@ -402,7 +402,7 @@ void MainWindow::refresh_results(bool interactive) {
   if (!r || !s) return;
   const auto& t = session_->spec().thresholds;
   result_view_->show_result(*s, *r, t, force_text());
-  findings_->show_result(*r, t, session_->geometry_stale());
+  findings_->show_result(*r, t, session_->geometry_stale(), session_->reference_pending());
   load_panel_->set_resolved(r);
   root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)));
   if (!interactive) {
