@@ -15,6 +15,7 @@
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
+#include "sharpey/fem/blas_kernels.h"
 
 namespace {
 
@@ -82,6 +83,7 @@ constexpr const char* kSolverHint =
 }  // namespace
 
 int main(int argc, char** argv) {
+  sharpey::fem::use_fast_blas_kernels(argv);
   CLI::App app{
       "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
       "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +

@@ -1,0 +1,30 @@
+// The BLAS kernels CHOLMOD's supernodal factorisation runs on.
+//
+// OpenBLAS chooses its kernels from the processor model when it loads. On a processor model it
+// does not know (seen here: a recent Xeon under a hypervisor, reported as "Intel(R) Xeon(R)
+// Processor") it falls back to its oldest x86-64 kernels ("Prescott", SSE3), four to five times
+// slower in dgemm than the AVX2 or AVX-512 kernels the processor can run. OpenBLAS reads the
+// documented environment variable OPENBLAS_CORETYPE only when it loads, so a program that wants the
+// fast kernels sets it and starts itself again.
+#pragma once
+
+#include <string>
+
+namespace sharpey::fem {
+
+// The kernel set the loaded OpenBLAS uses (openblas_get_corename), or "" when the BLAS in use is
+// not OpenBLAS.
+std::string blas_core_name();
+
+// The OPENBLAS_CORETYPE that suits this processor better than `current_core`, or "" when
+// `current_core` is fine: "SkylakeX" when the processor and the operating system support AVX-512F,
+// "Haswell" with AVX2 and FMA, for a current core of "Prescott" (OpenBLAS's fallback).
+std::string better_blas_core(const std::string& current_core);
+
+// Call first thing in main(). When OpenBLAS fell back to its slow kernels on a processor that can
+// run faster ones and OPENBLAS_CORETYPE is not set, sets it and re-executes the program
+// (/proc/self/exe) with the same arguments; returns normally in every other case (also when the
+// re-execution fails). Setting OPENBLAS_CORETYPE yourself (to any value) turns this off.
+void use_fast_blas_kernels(char** argv);
+
+}  // namespace sharpey::fem
