@@ -64,6 +64,11 @@ void configure(cholmod_common* common, Ordering ordering) {
     case Ordering::kAuto:
       common->nmethods = 0;
       break;
+    case Ordering::kMetisNodes:
+      common->nmethods = 1;
+      common->method[0].ordering = CHOLMOD_GIVEN;
+      common->postorder = 1;
+      break;
     case Ordering::kAmd:
     case Ordering::kMetis:
     case Ordering::kNesdis:
@@ -119,6 +124,75 @@ cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
   return A;
 }
 
+
+// METIS nested dissection of the graph whose vertices are the nodes with free dofs (two nodes
+// adjacent when any of their dofs couple in A), expanded to the dofs: a node's free dofs stay
+// consecutive. `free_dofs` maps A's columns to global dofs (node = dof / 3). Returns an empty
+// vector when METIS fails (the caller then reports CHOLMOD's status).
+std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
+                                                      const std::vector<int>& free_dofs,
+                                                      cholmod_common* common) {
+  const long nf = static_cast<long>(A->ncol);
+  std::vector<long> node_of(static_cast<size_t>(nf));
+  std::vector<long> first_col;  // compact node -> its first column
+  for (long j = 0; j < nf; ++j) {
+    const int node = free_dofs[static_cast<size_t>(j)] / 3;
+    if (j == 0 || node != free_dofs[static_cast<size_t>(j - 1)] / 3) first_col.push_back(j);
+    node_of[static_cast<size_t>(j)] = static_cast<long>(first_col.size()) - 1;
+  }
+  const long nn = static_cast<long>(first_col.size());
+  // Upper-triangle node pattern, column by column, without duplicates.
+  const long* Ap = static_cast<const long*>(A->p);
+  const long* Ai = static_cast<const long*>(A->i);
+  std::vector<std::vector<long>> cols(static_cast<size_t>(nn));
+  for (long j = 0; j < nf; ++j) {
+    const long cj = node_of[static_cast<size_t>(j)];
+    for (long q = Ap[j]; q < Ap[j + 1]; ++q) {
+      const long ci = node_of[static_cast<size_t>(Ai[q])];
+      cols[static_cast<size_t>(std::max(ci, cj))].push_back(std::min(ci, cj));
+    }
+  }
+  long nnz = 0;
+  for (auto& c : cols) {
+    std::sort(c.begin(), c.end());
+    c.erase(std::unique(c.begin(), c.end()), c.end());
+    nnz += static_cast<long>(c.size());
+  }
+  cholmod_sparse* G = cholmod_l_allocate_sparse(static_cast<size_t>(nn), static_cast<size_t>(nn),
+                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_PATTERN,
+                                                common);
+  if (!G) return {};
+  long* Gp = static_cast<long*>(G->p);
+  long* Gi = static_cast<long*>(G->i);
+  long q = 0;
+  for (long j = 0; j < nn; ++j) {
+    Gp[j] = q;
+    for (long i : cols[static_cast<size_t>(j)]) Gi[q++] = i;
+  }
+  Gp[nn] = q;
+  std::vector<SuiteSparse_long> node_perm(static_cast<size_t>(nn));
+  const int ok = cholmod_l_metis(G, nullptr, 0, 0, node_perm.data(), common);
+  cholmod_l_free_sparse(&G, common);
+  if (!ok) return {};
+  std::vector<SuiteSparse_long> perm;
+  perm.reserve(static_cast<size_t>(nf));
+  for (SuiteSparse_long c : node_perm) {
+    for (long j = first_col[static_cast<size_t>(c)];
+         j < nf && node_of[static_cast<size_t>(j)] == c; ++j) {
+      perm.push_back(j);
+    }
+  }
+  return perm;
+}
+
+// Symbolic analysis of A under the ordering `configure` set up.
+cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Ordering ordering,
+                        cholmod_common* common) {
+  if (ordering != Ordering::kMetisNodes) return cholmod_l_analyze(A, common);
+  std::vector<SuiteSparse_long> perm = nodal_metis_permutation(A, free_dofs, common);
+  if (perm.empty()) return nullptr;
+  return cholmod_l_analyze_p(A, perm.data(), nullptr, 0, common);
+}
 }  // namespace
 
 std::string to_string(Ordering ordering) {
@@ -127,6 +201,7 @@ std::string to_string(Ordering ordering) {
     case Ordering::kAmd: return "amd";
     case Ordering::kMetis: return "metis";
     case Ordering::kNesdis: return "nesdis";
+    case Ordering::kMetisNodes: return "metis-nodes";
   }
   return "unknown";
 }
@@ -250,14 +325,15 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   stats.n_nonzeros = nnz;
 
   auto t0 = Clock::now();
-  L = cholmod_l_analyze(A, &common);
+  L = analyse(A, free_dofs, options.ordering, &common);
   stats.analyse_s = seconds_since(t0);
   if (!L || common.status < CHOLMOD_OK) {
     const std::string why = cholmod_status_text(common.status);
     cholmod_l_free_sparse(&A, &common);
     throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " + why);
   }
-  stats.ordering = ordering_name(L->ordering);
+  stats.ordering = options.ordering == Ordering::kMetisNodes ? std::string("metis-nodes")
+                                                              : ordering_name(L->ordering);
   stats.factorisation_gflop = common.fl / 1e9;
   stats.factor_nonzeros = static_cast<long long>(common.lnz);
 
@@ -453,11 +529,12 @@ OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
     throw;
   }
   const auto t0 = Clock::now();
-  cholmod_factor* L = cholmod_l_analyze(A, &common);
+  cholmod_factor* L = analyse(A, free_dofs, ordering, &common);
   out.analyse_s = seconds_since(t0);
   const int status = common.status;
   if (L) {
-    out.ordering = ordering_name(L->ordering);
+    out.ordering = ordering == Ordering::kMetisNodes ? std::string("metis-nodes")
+                                                     : ordering_name(L->ordering);
     out.factorisation_gflop = common.fl / 1e9;
     out.factor_nonzeros = static_cast<long long>(common.lnz);
     cholmod_l_free_factor(&L, &common);

@@ -19,6 +19,7 @@
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
+#include "sharpey/fem/blas_kernels.h"
 
 namespace {
 
@@ -79,6 +80,7 @@ double seconds(std::chrono::steady_clock::time_point t0) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  sharpey::fem::use_fast_blas_kernels(argv);
   std::setvbuf(stdout, nullptr, _IOLBF, 0);  // line-buffered even into a file
   std::vector<double> volumes;
   bool factorise = true;
@@ -124,14 +126,15 @@ int main(int argc, char** argv) {
     const std::vector<sharpey::fem::DofConstraint> fixed = sharpey::fem::fix_faces(m, 5);
     const auto K = sharpey::fem::assemble_stiffness(m, materials);
     using sharpey::fem::Ordering;
-    for (Ordering o : {Ordering::kAuto, Ordering::kAmd, Ordering::kMetis, Ordering::kNesdis}) {
+    for (Ordering o : {Ordering::kAuto, Ordering::kAmd, Ordering::kMetis, Ordering::kNesdis,
+                       Ordering::kMetisNodes}) {
       const sharpey::fem::OrderingEstimate e = sharpey::fem::estimate_ordering(K, fixed, o);
       std::printf("  analysis %-7s -> %-7s %.2f s, %.1f GFlop, nnz(L) %.1f M\n",
                   sharpey::fem::to_string(o).c_str(), e.ordering.c_str(), e.analyse_s,
                   e.factorisation_gflop, e.factor_nonzeros / 1e6);
     }
     if (!factorise) continue;
-    for (Ordering o : {Ordering::kMetis, Ordering::kNesdis}) {
+    for (Ordering o : {Ordering::kMetis, Ordering::kNesdis, Ordering::kMetisNodes}) {
       sharpey::fem::SolverOptions so;
       so.ordering = o;
       const sharpey::fem::LinearElasticSolver solver(m, materials, fixed, so);

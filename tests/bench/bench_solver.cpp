@@ -35,6 +35,7 @@
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "support/grid_mesh.h"
+#include "sharpey/fem/blas_kernels.h"
 
 namespace {
 
@@ -221,6 +222,7 @@ BenchCase tooth_case(mesh::MeshPreset preset) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  sharpey::fem::use_fast_blas_kernels(argv);
   bool grids = true, teeth = true, quick = false;
   std::vector<mesh::MeshPreset> presets = {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard,
                                            mesh::MeshPreset::kFine};
@@ -250,10 +252,11 @@ int main(int argc, char** argv) {
       return 2;
     }
   }
-  std::printf("bench_solver: %u hardware threads, OMP_NUM_THREADS=%s, load average %s\n",
+  std::printf("bench_solver: %u hardware threads, OMP_NUM_THREADS=%s, BLAS kernels %s, "
+              "load average %s\n",
               std::thread::hardware_concurrency(),
               std::getenv("OMP_NUM_THREADS") ? std::getenv("OMP_NUM_THREADS") : "(unset)",
-              load_average().c_str());
+              sharpey::fem::blas_core_name().c_str(), load_average().c_str());
   print_header();
   try {
     if (grids) {

@@ -105,7 +105,8 @@ TEST(Solver, EveryOrderingGivesTheSameSolution) {
   const mesh::VolumeMesh m = small_mesh(10);
   const Eigen::VectorXd f = some_load(m.n_nodes(), 5u);
   const Eigen::VectorXd reference = LinearElasticSolver(m, kMaterials, mixed_constraints(m)).solve(f);
-  for (Ordering o : {Ordering::kAuto, Ordering::kAmd, Ordering::kMetis, Ordering::kNesdis}) {
+  for (Ordering o : {Ordering::kAuto, Ordering::kAmd, Ordering::kMetis, Ordering::kNesdis,
+                     Ordering::kMetisNodes}) {
     SolverOptions options;
     options.ordering = o;
     const LinearElasticSolver solver(m, kMaterials, mixed_constraints(m), options);
