@@ -12,6 +12,7 @@
 #include <cstdio>
 #include <limits>
 #include <random>
+#include <utility>
 #include <vector>
 
 #include "sharpey/fem/elasticity.h"
@@ -152,10 +153,13 @@ TEST(ToothModelSolve, UnitLoadBasisEqualsDirectSolve) {
 // Figures of one preset under 1 N lingual (-x) at the bracket centre.
 struct ConvergenceFigures {
   int dofs = 0;
-  double peak_pressure_kpa = 0;        // max over PDL nodes of the nodal hydrostatic pressure
-  double peak_below_crest_kpa = 0;     // the same over PDL nodes more than 0.3 mm below the crest
-  double p95_pressure_kpa = 0;         // 95th percentile of the nodal pressure over PDL nodes
-  double peak_z_mm = 0;                // height of the node carrying the peak
+  // Max over the PDL nodes more than one PDL width (the crest width) below the attachment level:
+  // the peak the analyses report (analysis::ScenarioResult::pressure_max_compression_kpa).
+  double peak_pressure_kpa = 0;
+  double peak_z_mm = 0;                // height of the node carrying it
+  // Max over the band next to the free edge, where the linear-elastic stress is singular.
+  double edge_band_peak_kpa = 0;
+  double p95_pressure_kpa = 0;         // 95th percentile, PDL element volume weighted
   double crest_z_mm = 0;
   double crown_tip_mm = 0;             // |u| at the node nearest geometry.crown_tip
 };
@@ -174,20 +178,45 @@ ConvergenceFigures lingual_tipping(mesh::MeshPreset preset) {
   out.dofs = solver.statistics().n_dofs;
   out.crest_z_mm = g.crest_z_mm;
   out.peak_pressure_kpa = -std::numeric_limits<double>::infinity();
-  out.peak_below_crest_kpa = -std::numeric_limits<double>::infinity();
-  std::vector<double> pressures;
+  out.edge_band_peak_kpa = -std::numeric_limits<double>::infinity();
+  std::vector<double> local(static_cast<size_t>(m.n_nodes()), 0.0);
   for (size_t i = 0; i < pdl.nodes.size(); ++i) {
     const double p = hydrostatic_pressure_kpa(pdl.stress_mpa.col(static_cast<Eigen::Index>(i)));
-    const double z = m.nodes[static_cast<size_t>(pdl.nodes[i])].z();
-    pressures.push_back(p);
-    if (p > out.peak_pressure_kpa) {
+    const Eigen::Vector3d& x = m.nodes[static_cast<size_t>(pdl.nodes[i])];
+    local[static_cast<size_t>(pdl.nodes[i])] = p;
+    const double level = mesh::attachment_level_z_mm(model.spec, std::atan2(x.y(), x.x()));
+    if (x.z() > level - model.spec.pdl.crest_width_mm) {
+      out.edge_band_peak_kpa = std::max(out.edge_band_peak_kpa, p);
+    } else if (p > out.peak_pressure_kpa) {
       out.peak_pressure_kpa = p;
-      out.peak_z_mm = z;
+      out.peak_z_mm = x.z();
     }
-    if (z < g.crest_z_mm - 0.3) out.peak_below_crest_kpa = std::max(out.peak_below_crest_kpa, p);
   }
-  std::sort(pressures.begin(), pressures.end());
-  out.p95_pressure_kpa = pressures[static_cast<size_t>(0.95 * static_cast<double>(pressures.size() - 1))];
+  // Volume-weighted 95th percentile of the element-mean nodal pressure.
+  std::vector<std::pair<double, double>> by_volume;  // (pressure, volume)
+  double total = 0;
+  for (int e = 0; e < m.n_elements(); ++e) {
+    if (m.element_region[static_cast<size_t>(e)] != mesh::kPdl) continue;
+    const int* t = m.element(e);
+    double mean = 0;
+    for (int k = 0; k < m.nodes_per_element; ++k) mean += local[static_cast<size_t>(t[k])];
+    mean /= m.nodes_per_element;
+    const Eigen::Vector3d& a = m.nodes[static_cast<size_t>(t[0])];
+    const double v = std::abs((m.nodes[static_cast<size_t>(t[1])] - a)
+                                  .dot((m.nodes[static_cast<size_t>(t[2])] - a)
+                                           .cross(m.nodes[static_cast<size_t>(t[3])] - a))) / 6.0;
+    by_volume.emplace_back(mean, v);
+    total += v;
+  }
+  std::sort(by_volume.begin(), by_volume.end());
+  double below = 0;
+  for (const auto& [p, v] : by_volume) {
+    below += v;
+    if (below >= 0.95 * total) {
+      out.p95_pressure_kpa = p;
+      break;
+    }
+  }
 
   int tip = 0;
   for (int i = 1; i < m.n_nodes(); ++i) {
@@ -198,10 +227,10 @@ ConvergenceFigures lingual_tipping(mesh::MeshPreset preset) {
   }
   out.crown_tip_mm = node_vector(u, tip).norm();
   std::printf("%-8s %7d dofs: peak PDL pressure %.4f kPa at z %.3f mm (crest %.3f mm), "
-              "peak > 0.3 mm below crest %.4f kPa, 95th percentile %.4f kPa, crown tip %.5e mm "
+              "edge band %.4f kPa, 95th percentile %.4f kPa, crown tip %.5e mm "
               "(node %.3f mm from the tip)\n",
               mesh::to_string(preset).c_str(), out.dofs, out.peak_pressure_kpa, out.peak_z_mm,
-              out.crest_z_mm, out.peak_below_crest_kpa, out.p95_pressure_kpa, out.crown_tip_mm,
+              out.crest_z_mm, out.edge_band_peak_kpa, out.p95_pressure_kpa, out.crown_tip_mm,
               (m.nodes[static_cast<size_t>(tip)] - g.crown_tip).norm());
   return out;
 }
@@ -211,30 +240,28 @@ double relative_difference(double a, double reference) {
 }
 
 // Point 10 (derived: mesh convergence; the 5 % tolerance is the project's acceptance figure).
-// 1 N lingual at the bracket centre of the maxillary central incisor, standard vs fine preset.
-// Measured (Release, loaded machine, 329 s for both solves):
-//   standard 97539 dofs, fine 231768 dofs;
-//   crown tip |u| 2.4919e-2 vs 2.5028e-2 mm: 0.44 %;
-//   peak PDL hydrostatic pressure 56.65 vs 51.88 kPa: 9.2 % -- NOT within 5 %;
-//   peak over PDL nodes more than 0.3 mm below the crest: the same (the peak node lies at
-//   z = -1.96 / -1.95 mm, about 0.45 mm below the crest at -1.5 mm, so it is not the free-edge
-//   singularity at the crest; its cause is not yet found);
-//   95th percentile of the nodal pressure 38.42 vs 37.56 kPa: 2.3 %.
-// The test therefore asserts the crown tip and the 95th percentile within 5 % and only prints the
-// peak; the peak's 5 % acceptance point is open (docs/verification.md, "Tooth model").
-// Runs in the default suite: both solves take about 90 s on an otherwise idle 2-core machine.
-TEST(ToothModelSolve, StandardPresetCrownTipAndP95WithinFivePercentOfFine) {
+// 1 N lingual at the bracket centre of the maxillary central incisor, standard vs fine preset:
+// the peak PDL hydrostatic pressure (outside the band one PDL width deep next to the free edge,
+// as the analyses report it), the crown-tip displacement and the volume-weighted 95th percentile.
+// In the edge band the linear-elastic pressure is singular (bonded corner of a nearly
+// incompressible layer): its nodal maximum grows as the layers get thinner (measured at the
+// standard surface spacing: 43.9 kPa with two layers, 58.8 kPa with three), so it is printed, not
+// compared. Measured (Release): standard 93 093 dofs, fine 247 791 dofs; peak 52.17 vs 52.21 kPa
+// (0.08 %); crown tip 2.5049e-2 vs 2.5054e-2 mm (0.02 %); see docs/verification.md.
+TEST(ToothModelSolve, StandardPresetPeakPressureAndCrownTipWithinFivePercentOfFine) {
   const ConvergenceFigures standard = lingual_tipping(mesh::MeshPreset::kStandard);
   const ConvergenceFigures fine = lingual_tipping(mesh::MeshPreset::kFine);
   const double d_peak = relative_difference(standard.peak_pressure_kpa, fine.peak_pressure_kpa);
-  const double d_below = relative_difference(standard.peak_below_crest_kpa, fine.peak_below_crest_kpa);
   const double d_p95 = relative_difference(standard.p95_pressure_kpa, fine.p95_pressure_kpa);
   const double d_tip = relative_difference(standard.crown_tip_mm, fine.crown_tip_mm);
-  std::printf("standard vs fine: peak %.2f %%, peak below crest %.2f %%, 95th percentile %.2f %%, "
-              "crown tip %.2f %%\n",
-              100 * d_peak, 100 * d_below, 100 * d_p95, 100 * d_tip);
+  std::printf("standard vs fine: peak %.2f %%, 95th percentile %.2f %%, crown tip %.2f %%\n",
+              100 * d_peak, 100 * d_p95, 100 * d_tip);
+  EXPECT_LT(d_peak, 0.05);
   EXPECT_LT(d_tip, 0.05);
   EXPECT_LT(d_p95, 0.05);
+  // The peak lies below the edge band, in the compressed lingual cervical PDL.
+  EXPECT_LT(standard.peak_z_mm, standard.crest_z_mm - 0.2);
+  EXPECT_LT(fine.peak_z_mm, fine.crest_z_mm - 0.2);
 }
 
 }  // namespace

@@ -181,13 +181,16 @@ struct ToothModel {
 };
 
 // Element sizes a MeshSizing resolves to (explicit controls override the preset):
-//   coarse:   pdl_edge 0.9 mm, bone_edge 3.0 mm, 1 layer across the PDL (fast tests);
-//   standard: pdl_edge 0.55 mm, bone_edge 2.0 mm, 1 layer (maxillary central incisor: about
-//             95k degrees of freedom with 10-node elements);
-//   fine:     pdl_edge 0.38 mm, bone_edge 1.5 mm, 2 layers (about 2.5 times standard).
+//   coarse:   pdl_edge 0.9 mm, bone_edge 3.0 mm, 1 layer across the PDL (fast tests, quick looks);
+//   standard: pdl_edge 0.65 mm, bone_edge 2.0 mm, 2 layers (maxillary central incisor: about
+//             93k degrees of freedom with 10-node elements);
+//   fine:     pdl_edge 0.38 mm, bone_edge 1.5 mm, 2 layers (about 2.7 times standard).
 // pdl_edge sets the spacing of the points around and along the root (finer where the root bends,
 // at the apex); the crown uses twice that; tooth_edge_mm (interior of the tooth) follows
-// bone_edge_mm.
+// bone_edge_mm. Below the attachment level the rings start 0.6 PDL widths / pdl_layers apart and
+// grow by about 35 % per ring up to pdl_edge, to resolve the pressure's rise from the PDL's free
+// edge. Two layers across the PDL: with one, the peak pressure came out 12 % above the fine
+// preset's (docs/verification.md, "Tooth model").
 struct MeshSizes {
   double pdl_edge_mm = 0, bone_edge_mm = 0, tooth_edge_mm = 0;
   int pdl_layers = 1;
