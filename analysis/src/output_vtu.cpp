@@ -43,6 +43,12 @@ void write_scenario_vtu(const ScenarioSolution& solution, const ScenarioResult& 
   pdl_arrays.point_arrays.push_back(field("max_principal_strain", result.max_principal_strain_field));
   pdl_arrays.point_arrays.push_back(field("equivalent_strain", result.equivalent_strain_field));
   pdl_arrays.point_arrays.push_back(field("von_mises_kpa", result.von_mises_kpa));
+  {
+    // 1 where the node lies in the band next to the PDL's free edge that the reported maxima
+    // leave out (analysis::pdl_crest_edge_band).
+    const std::vector<char> band = pdl_crest_edge_band(solution);
+    pdl_arrays.point_arrays.push_back(field("crest_edge_band", std::vector<double>(band.begin(), band.end())));
+  }
   if (has_displacement) {
     mesh::VtuArrays::PointArray d{"displacement_mm", 3, {}};
     d.values.reserve(3 * node_map.size());
