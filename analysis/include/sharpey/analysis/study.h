@@ -59,7 +59,8 @@ class ScenarioSolution {
   // Meshes the scenario's model (spec.model with the scenario's bone loss) and solves it.
   // Stages reported: "mesh", "factorise", "unit loads", "post-processing", "done". Throws
   // InputError, MeshError, SolverError, or Cancelled when *cancel becomes true (checked between
-  // stages).
+  // stages). Running out of memory while meshing is a MeshError, while assembling, factorising
+  // or solving a SolverError (each names the mesh and a coarser one as the fix).
   ScenarioSolution(const CaseSpec& spec, int scenario_index, const ProgressCallback& progress,
                    const std::atomic<bool>* cancel, ScenarioOptions options = {});
   // Same with the model already built (Study meshes the next scenario while this one is solved).
@@ -197,7 +198,9 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
 class Study {
  public:
   // Meshes and solves every scenario. progress(stage, fraction in [0, 1]); cancel may be null.
-  // Throws InputError, MeshError, SolverError, Cancelled.
+  // Throws InputError, MeshError, SolverError, Cancelled (out of memory: as ScenarioSolution).
+  // Meshes scenario k + 1 on a second thread while k is solved, or on this thread when no thread
+  // can be started.
   Study(CaseSpec spec, const ProgressCallback& progress = {},
         const std::atomic<bool>* cancel = nullptr);
   const CaseSpec& spec() const { return spec_; }
