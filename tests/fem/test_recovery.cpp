@@ -3,7 +3,10 @@
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
+#include <algorithm>
 #include <cmath>
+#include <cstdio>
+#include <cstdlib>
 #include <string>
 #include <vector>
 
@@ -146,6 +149,27 @@ TEST(Recovery, UnknownRegionIsAnInputError) {
   const Eigen::VectorXd u = Eigen::VectorXd::Zero(3 * m.n_nodes());
   EXPECT_THROW(recover_region(m, {{1, {10.0, 0.3}}}, u, 7), InputError);
   EXPECT_THROW(recover_region(m, {{2, {10.0, 0.3}}}, u, 1), InputError);
+}
+
+// The closed-form principal values against Eigen's iterative symmetric eigensolver (an independent
+// computation) on random tensors, including nearly repeated principal values.
+TEST(ScalarMeasures, PrincipalValuesMatchTheIterativeEigensolver) {
+  std::srand(7);
+  double worst = 0;
+  for (int trial = 0; trial < 2000; ++trial) {
+    Eigen::Matrix3d A = Eigen::Matrix3d::Random();
+    Eigen::Matrix3d T = 0.5 * (A + A.transpose());
+    if (trial % 4 == 1) T += 50.0 * Eigen::Matrix3d::Identity();  // nearly equal values
+    if (trial % 4 == 2) T *= 1e-6;                                // strain-sized entries
+    Vector6d s;
+    s << T(0, 0), T(1, 1), T(2, 2), T(1, 2), T(0, 2), T(0, 1);
+    const Eigen::Vector3d ascending =
+        Eigen::SelfAdjointEigenSolver<Eigen::Matrix3d>(T, Eigen::EigenvaluesOnly).eigenvalues();
+    const Eigen::Vector3d expected(ascending(2), ascending(1), ascending(0));
+    worst = std::max(worst, (principal_stresses_mpa(s) - expected).norm() / T.norm());
+  }
+  std::printf("closed-form vs iterative principal values: worst %.1e of |T|\n", worst);
+  EXPECT_LT(worst, 1e-12);
 }
 
 // Scalar measures against closed forms (derived from the definitions).
