@@ -45,6 +45,7 @@ reports=$build/sanitizer-reports
 rm -rf "$reports"
 mkdir -p "$reports"
 export ASAN_OPTIONS="detect_leaks=1:exitcode=86:check_initialization_order=1:strict_init_order=1:log_path=$reports/asan"
+export LSAN_OPTIONS="suppressions=$SHARPEY_ROOT/scripts/lsan.supp:print_suppressions=0"
 export UBSAN_OPTIONS="print_stacktrace=1:halt_on_error=1:exitcode=86:log_path=$reports/ubsan"
 export GTEST_FILTER=${GTEST_FILTER:-"-$(IFS=:; echo "${left_out[*]}")"}
 
