@@ -122,7 +122,9 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
                   {"mf_translation_mm", r.mf_translation_mm}});
   j["pdl_pressure_kpa"] = {{"max_compression", number(r.pressure_max_compression_kpa)},
                            {"max_tension", number(r.pressure_max_tension_kpa)},
-                           {"p95_compression", number(r.pressure_p95_compression_kpa)}};
+                           {"p95_compression", number(r.pressure_p95_compression_kpa)},
+                           {"max_compression_crest_edge",
+                            number(r.pressure_max_compression_crest_edge_kpa)}};
   put_numbers(j, {{"area_above_capillary_mm2", r.area_above_capillary_mm2},
                   {"area_above_limit_mm2", r.area_above_limit_mm2},
                   {"max_principal_strain", r.max_principal_strain},

@@ -147,13 +147,16 @@ void check_vtu(const RunOutput& run) {
     // Two routes to the same number: the extremes of the written nodal fields outside the band
     // next to the PDL's free edge (array crest_edge_band = 1) and results.json.
     vtkDataArray* band = ligament->GetPointData()->GetArray("crest_edge_band");
+    double band_peak = 0;
     auto extremes = [&](const char* name) {
       vtkDataArray* a = ligament->GetPointData()->GetArray(name);
       double lo = 1e300, hi = -1e300;
       vtkIdType n_band = 0;
+      band_peak = 0;
       for (vtkIdType i = 0; i < a->GetNumberOfTuples(); ++i) {
         if (band->GetTuple1(i) != 0) {
           ++n_band;
+          band_peak = std::max(band_peak, a->GetTuple1(i));
           continue;
         }
         lo = std::min(lo, a->GetTuple1(i));
@@ -168,6 +171,8 @@ void check_vtu(const RunOutput& run) {
     EXPECT_NEAR(p_hi, peak, 1e-9 * peak);
     const double tension = s["pdl_pressure_kpa"]["max_tension"].get<double>();
     EXPECT_NEAR(-p_lo, tension, 1e-9 * tension);
+    const double edge = s["pdl_pressure_kpa"]["max_compression_crest_edge"].get<double>();
+    EXPECT_NEAR(band_peak, edge, 1e-9 * std::max(1.0, edge));
     const auto strain = extremes("max_principal_strain");
     EXPECT_NEAR(strain.second, s["max_principal_strain"].get<double>(),
                 1e-9 * s["max_principal_strain"].get<double>());
