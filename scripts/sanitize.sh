@@ -51,7 +51,8 @@ export GTEST_FILTER=${GTEST_FILTER:-"-$(IFS=:; echo "${left_out[*]}")"}
 
 cd "$build"
 status=0
-ctest --output-on-failure --timeout 1500 "$@" || status=$?
+# Two tests at a time: most of a test's time is single-threaded (meshing, recovery, checks).
+ctest --output-on-failure --timeout 1500 -j "$(nproc)" "$@" || status=$?
 shopt -s nullglob
 found=("$reports"/*)
 if [ ${#found[@]} -gt 0 ]; then
