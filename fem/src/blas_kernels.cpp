@@ -21,14 +21,24 @@ std::string better_blas_core(const std::string& current_core) {
   if (current_core != "Prescott") return "";
 #if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
   __builtin_cpu_init();
-  if (__builtin_cpu_supports("avx512f")) return "SkylakeX";
+  // The instruction sets OpenBLAS's SkylakeX kernels are built for, all of them.
+  if (__builtin_cpu_supports("avx512f") && __builtin_cpu_supports("avx512cd") &&
+      __builtin_cpu_supports("avx512bw") && __builtin_cpu_supports("avx512dq") &&
+      __builtin_cpu_supports("avx512vl")) {
+    return "SkylakeX";
+  }
   if (__builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma")) return "Haswell";
 #endif
   return "";
 }
 
 void use_fast_blas_kernels(char** argv) {
-  if (std::getenv("OPENBLAS_CORETYPE") != nullptr || argv == nullptr) return;
+  // A machine that sets either variable has chosen its kernels on purpose (some processors need a
+  // particular choice); leave it alone.
+  if (std::getenv("OPENBLAS_CORETYPE") != nullptr || std::getenv("OPENBLAS_L2_SIZE") != nullptr ||
+      argv == nullptr) {
+    return;
+  }
   const std::string better = better_blas_core(blas_core_name());
   if (better.empty()) return;
   if (setenv("OPENBLAS_CORETYPE", better.c_str(), 1) != 0) return;

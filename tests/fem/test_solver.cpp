@@ -4,10 +4,12 @@
 
 #include <Eigen/Dense>
 #include <cmath>
+#include <cstdlib>
 #include <string>
 #include <vector>
 
 #include "sharpey/error.h"
+#include "sharpey/fem/blas_kernels.h"
 #include "sharpey/fem/elasticity.h"
 #include "support/grid_mesh.h"
 
@@ -209,6 +211,28 @@ TEST(Solver, WrongLoadSizeIsRejected) {
   Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
   f(4) = std::nan("");
   EXPECT_THROW(solver.solve(f), InputError);
+}
+
+}  // namespace
+}  // namespace sharpey::fem
+
+namespace sharpey::fem {
+namespace {
+
+// derived: the kernel choice only ever replaces OpenBLAS's fallback, and only with a kernel set
+// the processor supports (checked by the compiler's cpu feature test).
+TEST(BlasKernels, OnlyTheFallbackIsReplaced) {
+  EXPECT_EQ(better_blas_core("SkylakeX"), "");
+  EXPECT_EQ(better_blas_core("Haswell"), "");
+  EXPECT_EQ(better_blas_core(""), "");  // not OpenBLAS
+  const std::string better = better_blas_core("Prescott");
+  EXPECT_TRUE(better.empty() || better == "SkylakeX" || better == "Haswell") << better;
+  // The test program itself ran use_fast_blas_kernels first (tests/support/test_main.cpp).
+  const std::string running = blas_core_name();
+  if (!running.empty() && std::getenv("OPENBLAS_CORETYPE") == nullptr &&
+      std::getenv("OPENBLAS_L2_SIZE") == nullptr) {
+    EXPECT_EQ(better_blas_core(running), "") << "still on " << running;
+  }
 }
 
 }  // namespace
