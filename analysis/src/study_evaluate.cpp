@@ -48,11 +48,12 @@ double max_outside_band(const Values& v, const std::vector<char>& band, double* 
   return std::isfinite(outside) ? outside : inside;
 }
 
-// p: nodal pressure of the PDL; sampled: the same on the root-surface sub-triangles.
+// p: nodal pressure of the PDL; sampled: the same on the root-surface sub-triangles; band: the
+// solution's pdl_crest_edge_band() (computed once per evaluation by the caller).
 PressureMeasures pressure_measures(const ScenarioSolution& solution, const Eigen::VectorXd& p,
-                                   const Eigen::VectorXd& sampled) {
+                                   const Eigen::VectorXd& sampled, const std::vector<char>& band) {
   PressureMeasures m;
-  m.peak_kpa = p.size() > 0 ? std::max(0.0, max_outside_band(p, pdl_crest_edge_band(solution))) : 0.0;
+  m.peak_kpa = p.size() > 0 ? std::max(0.0, max_outside_band(p, band)) : 0.0;
   m.p95_kpa = std::max(0.0, solution.root_surface().level_exceeded_on(sampled, kP95AreaShare));
   return m;
 }
@@ -61,7 +62,8 @@ PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadS
   const ResolvedLoad r = resolve_load(load, solution);
   const Eigen::VectorXd p =
       pdl_pressure_kpa(solution.basis().region_field(r.force_n, r.moment_nmm));
-  return pressure_measures(solution, p, solution.root_surface().sample(p));
+  return pressure_measures(solution, p, solution.root_surface().sample(p),
+                           pdl_crest_edge_band(solution));
 }
 
 }  // namespace
@@ -131,8 +133,8 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     r.equivalent_strain_field[k] = fem::equivalent_strain(field.strain.col(i));
     r.von_mises_kpa[k] = 1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
   }
+  const std::vector<char> band = pdl_crest_edge_band(solution);
   if (n > 0) {
-    const std::vector<char> band = pdl_crest_edge_band(solution);
     double edge_peak = 0;
     max_outside_band(p, band, &edge_peak);
     r.pressure_max_compression_crest_edge_kpa = std::max(0.0, edge_peak);
@@ -143,7 +145,7 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   }
   const detail::RootSurfaceSampler& surface = solution.root_surface();
   const Eigen::VectorXd sampled = surface.sample(p);
-  const PressureMeasures measures = pressure_measures(solution, p, sampled);
+  const PressureMeasures measures = pressure_measures(solution, p, sampled, band);
   r.pressure_max_compression_kpa = measures.peak_kpa;
   r.pressure_p95_compression_kpa = measures.p95_kpa;
 
