@@ -23,6 +23,7 @@ inline constexpr DimensionKey kDimensionKeys[] = {
     {"cervix_labiolingual_mm", &mesh::ToothDimensions::cervix_labiolingual_mm},
     {"cej_curvature_mesial_mm", &mesh::ToothDimensions::cej_curvature_mesial_mm},
     {"cej_curvature_distal_mm", &mesh::ToothDimensions::cej_curvature_distal_mm},
+    {"root_taper_fullness", &mesh::ToothDimensions::root_taper_fullness},
 };
 
 // bone.<key>

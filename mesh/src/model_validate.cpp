@@ -33,8 +33,9 @@ std::string fmt(double v) {
 void check_range(const std::string& key, const std::string& what, double v, double lo, double hi,
                  const std::string& unit, const std::string& why) {
   if (v >= lo && v <= hi) return;
-  throw InputError(key, what + " " + fmt(v) + " " + unit + " is outside the allowed range " +
-                            fmt(lo) + " to " + fmt(hi) + " " + unit + " (" + key + "): " + why +
+  const std::string u = unit.empty() ? "" : " " + unit;
+  throw InputError(key, what + " " + fmt(v) + u + " is outside the allowed range " + fmt(lo) +
+                            " to " + fmt(hi) + u + " (" + key + "): " + why +
                             "; use a value in that range");
 }
 
@@ -76,6 +77,9 @@ void validate(const ModelSpec& spec) {
               0, 6, "mm", anat);
   check_range(dims + "cej_curvature_distal_mm", "distal CEJ curvature", d.cej_curvature_distal_mm,
               0, 6, "mm", anat);
+  check_range(dims + "root_taper_fullness", "root taper fullness", d.root_taper_fullness, 1.0, 2.5,
+              "", "1 gives a paraboloid-like root, 2.5 an almost parallel-sided one; the ten teeth's "
+              "published root areas lie within this range (default 1.6)");
 
   double root_length = d.root_length_mm;
   switch (tooth.ideal_root) {

@@ -13,34 +13,37 @@ namespace {
 struct ToothRow {
   ToothType type;
   const char* name;
-  ToothDimensions dims;  // crown, root, MD crown, MD cervix, LL crown, LL cervix, CEJ mesial, distal
+  ToothDimensions dims;  // crown, root, MD crown, MD cervix, LL crown, LL cervix, CEJ mesial, distal,
+                        // root taper fullness (kFullness, not from the table)
   const char* status;
 };
 
 constexpr const char* kSecondary = "pub (secondary copy of Wheeler's Table 1-1)";
 constexpr const char* kMemory = "from memory (Wheeler's Table 1-1)";
+// Root taper exponent of every tooth (ToothDimensions::root_taper_fullness explains it).
+constexpr double kFullness = 1.6;
 
 const ToothRow kTeeth[] = {
     {ToothType::kMaxillaryCentralIncisor, "maxillary_central_incisor",
-     {10.5, 13.0, 8.5, 7.0, 7.0, 6.0, 3.5, 2.5}, kMemory},
+     {10.5, 13.0, 8.5, 7.0, 7.0, 6.0, 3.5, 2.5, kFullness}, kMemory},
     {ToothType::kMaxillaryLateralIncisor, "maxillary_lateral_incisor",
-     {9.0, 13.0, 6.5, 5.0, 6.0, 5.0, 3.0, 2.0}, kSecondary},
-    {ToothType::kMaxillaryCanine, "maxillary_canine", {10.0, 17.0, 7.5, 5.5, 8.0, 7.0, 2.5, 1.5},
+     {9.0, 13.0, 6.5, 5.0, 6.0, 5.0, 3.0, 2.0, kFullness}, kSecondary},
+    {ToothType::kMaxillaryCanine, "maxillary_canine", {10.0, 17.0, 7.5, 5.5, 8.0, 7.0, 2.5, 1.5, kFullness},
      kMemory},
     {ToothType::kMaxillaryFirstPremolar, "maxillary_first_premolar",
-     {8.5, 14.0, 7.0, 5.0, 9.0, 8.0, 1.0, 0.0}, kSecondary},
+     {8.5, 14.0, 7.0, 5.0, 9.0, 8.0, 1.0, 0.0, kFullness}, kSecondary},
     {ToothType::kMaxillarySecondPremolar, "maxillary_second_premolar",
-     {8.5, 14.0, 7.0, 5.0, 9.0, 8.0, 1.0, 0.0}, kMemory},
+     {8.5, 14.0, 7.0, 5.0, 9.0, 8.0, 1.0, 0.0, kFullness}, kMemory},
     {ToothType::kMandibularCentralIncisor, "mandibular_central_incisor",
-     {9.0, 12.5, 5.0, 3.5, 6.0, 5.3, 3.0, 2.0}, kSecondary},
+     {9.0, 12.5, 5.0, 3.5, 6.0, 5.3, 3.0, 2.0, kFullness}, kSecondary},
     {ToothType::kMandibularLateralIncisor, "mandibular_lateral_incisor",
-     {9.5, 14.0, 5.5, 4.0, 6.5, 5.8, 3.0, 2.0}, kMemory},
-    {ToothType::kMandibularCanine, "mandibular_canine", {11.0, 16.0, 7.0, 5.5, 7.5, 7.0, 2.5, 1.0},
+     {9.5, 14.0, 5.5, 4.0, 6.5, 5.8, 3.0, 2.0, kFullness}, kMemory},
+    {ToothType::kMandibularCanine, "mandibular_canine", {11.0, 16.0, 7.0, 5.5, 7.5, 7.0, 2.5, 1.0, kFullness},
      kSecondary},
     {ToothType::kMandibularFirstPremolar, "mandibular_first_premolar",
-     {8.5, 14.0, 7.0, 5.0, 7.5, 6.5, 1.0, 0.0}, kSecondary},
+     {8.5, 14.0, 7.0, 5.0, 7.5, 6.5, 1.0, 0.0, kFullness}, kSecondary},
     {ToothType::kMandibularSecondPremolar, "mandibular_second_premolar",
-     {8.0, 14.5, 7.0, 5.0, 8.0, 7.0, 1.0, 0.0}, kMemory},
+     {8.0, 14.5, 7.0, 5.0, 8.0, 7.0, 1.0, 0.0, kFullness}, kMemory},
 };
 
 const ToothRow& row(ToothType type) {

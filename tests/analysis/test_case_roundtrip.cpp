@@ -55,6 +55,7 @@ CaseSpec random_case(std::mt19937& rng) {
   s.model.tooth.dimensions = mesh::handbook_dimensions(s.model.tooth.type);
   if (pick(2)) s.model.tooth.dimensions.root_length_mm = in(12, 18);
   if (pick(2)) s.model.tooth.dimensions.crown_length_mm = in(8, 11);
+  if (pick(2)) s.model.tooth.dimensions.root_taper_fullness = in(1.0, 2.5);
   if (pick(4) == 0) {
     s.model.tooth.ideal_root = static_cast<mesh::IdealRoot>(1 + pick(3));
     s.model.tooth.ideal_length_mm = in(10, 14);
@@ -180,6 +181,7 @@ TEST(CaseRoundTrip, ComparisonSeesEveryField) {
        }},
       {"root length", [](CaseSpec& s) { s.model.tooth.dimensions.root_length_mm += 1e-9; }},
       {"cej curvature", [](CaseSpec& s) { s.model.tooth.dimensions.cej_curvature_distal_mm += 0.1; }},
+      {"root taper", [](CaseSpec& s) { s.model.tooth.dimensions.root_taper_fullness += 0.1; }},
       {"ideal radius", [](CaseSpec& s) { s.model.tooth.ideal_radius_mm += 0.1; }},
       {"pdl mid", [](CaseSpec& s) { s.model.pdl.mid_width_mm += 0.01; }},
       {"bone depth", [](CaseSpec& s) { s.model.bone.depth_below_apex_mm += 0.1; }},

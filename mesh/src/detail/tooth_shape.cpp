@@ -47,6 +47,7 @@ ToothShape::ToothShape(const ToothSpec& tooth, double healthy_crest_depth_mm)
     root_length_ = d.root_length_mm;
     root_a_ = 0.5 * d.cervix_labiolingual_mm;
     root_b_ = 0.5 * d.cervix_mesiodistal_mm;
+    fullness_ = d.root_taper_fullness;
   } else {
     root_length_ = tooth.ideal_length_mm;
     radius_ = tooth.ideal_radius_mm;

@@ -43,6 +43,13 @@ struct ToothDimensions {
   double cervix_labiolingual_mm = 0;
   double cej_curvature_mesial_mm = 0;
   double cej_curvature_distal_mm = 0;
+  // Shape of the root's taper along its length (dimensionless exponent m of rho below): 1 gives a
+  // paraboloid-like root, larger values a fuller root that keeps its width longer and tapers in
+  // its apical part. Not a handbook value: the handbook gives the cervical widths and the length
+  // only. The default 1.6 gives the maxillary central incisor a root area of 204 mm^2, Jepsen's
+  // 1963 figure (from memory); its CBCT area of 208.5 mm^2 (Limsiriwong 2019, published) needs
+  // about 1.8 (check-values.md section 4; docs/analyses.md section 8.2).
+  double root_taper_fullness = 1.6;
 };
 ToothDimensions handbook_dimensions(ToothType type);
 // "pub (secondary copy)" or "mem" as in check-values.md, with the source named.
@@ -64,8 +71,8 @@ std::string handbook_status(ToothType type);
 enum class IdealRoot { kNone, kCylinder, kCone, kParaboloid };
 
 // Anatomical teeth: horizontal elliptical cross-sections. Root half-widths (cervix_labiolingual/2,
-// cervix_mesiodistal/2) times rho(u) = sqrt(1 - (1 - u^2)^1.6), u^2 = height above the apex /
-// root length: a full taper with a rounded apex. Crown: from the cervical ellipse to the
+// cervix_mesiodistal/2) times rho(u) = sqrt(1 - (1 - u^2)^m), u^2 = height above the apex /
+// root length, m = dimensions.root_taper_fullness (default 1.6): a full taper with a rounded apex. Crown: from the cervical ellipse to the
 // labiolingual height of contour and the mesiodistal contact areas, closed by an elliptical cap
 // (incisal edge, cusp or occlusal outline; proportions per tooth class). The CEJ is modelled as
 // the plane z = 0: the CEJ curvature values are carried in ToothDimensions (and validated) but
