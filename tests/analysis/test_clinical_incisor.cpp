@@ -38,16 +38,20 @@ TEST_F(IncisorBoneLoss, HealthyCentreOfResistance) {
   }
 }
 
-// source: Geramy 2000, Am J Orthod Dentofacial Orthop 117:399; Poppe et al. 2002 (check-values.md
-// section 7, pub): with horizontal loss the CRes moves apically in absolute terms but stays at a
-// similar fraction of the remaining embedded root (accepted: within 5 percentage points). Those
-// studies report labiolingual loading (from memory), so the 5-point bound applies to the
-// labiolingual CRes. Mesiodistally the fraction drops further: about 6 points at 6 mm loss, the
-// same on the coarse, standard and fine presets. The root outline causes it (wider mesiodistal
-// section with the same taper profile; a thin-layer estimate over the exact outline agrees,
-// test_study_cres_outline.cpp); the taper profile has no published source to correct it against
-// (docs/analyses.md section 8.2). Bounded here at 7 points and reported as not meeting the
-// 5-point bound.
+// source: Geramy 2000, Am J Orthod Dentofacial Orthop 117:399 (published; its abstract read in a
+// secondary copy): "Bone loss causes center of resistance movement toward the apex, but its
+// relative distance to the alveolar crest decreases at the same time." Checked as stated: with
+// every step of loss the CRes lies further below the CEJ and at a smaller fraction of the
+// remaining embedded root, for both force directions.
+// Acceptance 2 adds a bound: the fraction stays within 5 points of the healthy one (Geramy 2000;
+// Poppe et al. 2002, check-values.md section 7: "a similar fraction"). Those studies load the
+// incisor labiolingually (from memory), and labiolingually the bound holds (4.5 points at 6 mm).
+// Mesiodistally the fraction falls 5.9 points at 6 mm, the same on the coarse, standard and fine
+// presets: the wider mesiodistal section with the same taper profile (a thin-layer estimate over
+// the exact outline agrees, test_study_cres_outline.cpp). The taper (tooth.dimensions.
+// root_taper_fullness, default 1.6) is pinned only by the root's published area, and the drift
+// follows it (docs/analyses.md section 8.2). Bounded here at 7 points mesiodistally: it does NOT
+// meet the 5-point bound, and the docs say so.
 TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
   const auto& s = study_->solutions();
   for (size_t k = 1; k < s.size(); ++k) {
@@ -60,6 +64,7 @@ TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
                 << " mm below the CEJ, " << 100 * cur.fraction_embedded
                 << " % of the remaining embedded root\n";
       EXPECT_GT(cur.from_cej_mm, prev.from_cej_mm);
+      EXPECT_LT(cur.fraction_embedded, prev.fraction_embedded);
       EXPECT_NEAR(cur.fraction_embedded, healthy.fraction_embedded, dir == 0 ? 0.05 : 0.07);
     }
   }

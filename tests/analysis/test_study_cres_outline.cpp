@@ -128,5 +128,43 @@ TEST_F(IncisorOutlineCres, FiniteElementsAgreeWithThinLayerTheoryAndTheOutlineSe
   EXPECT_LT(fe_drift.x, 0.0);
 }
 
+// The taper profile along the root (tooth.dimensions.root_taper_fullness) sets how far the CRes
+// fraction drifts with loss; no published width along the root pins it (only the root's area,
+// docs/analyses.md section 8.2). Healthy and 6 mm loss, default materials, over the allowed range
+// of the profile: the finite-element drift must follow the thin-layer estimate over the same
+// outline (derived; within 1.5 points as above) and grow with the fullness in both directions. The
+// printed table is the sensitivity recorded in docs/analyses.md.
+TEST(IncisorTaperProfile, DriftFollowsTheTaperProfile) {
+  const double fullness[] = {1.0, 1.3, 1.6, 2.0, 2.5};
+  Fractions prev_drift{1, 1};
+  for (const double m : fullness) {
+    CaseSpec spec = testing::incisor_case(mesh::MeshPreset::kCoarse, {0, 6});
+    spec.model.tooth.dimensions.root_taper_fullness = m;
+    const Study study(spec);
+    Fractions fe[2], thin[2];
+    for (int k = 0; k < 2; ++k) {
+      const ScenarioSolution& s = *study.solutions()[static_cast<size_t>(k)];
+      const mesh::ModelGeometry& g = s.model().geometry;
+      fe[k] = {s.cres_labiolingual().fraction_embedded, s.cres_mesiodistal().fraction_embedded};
+      thin[k] = thin_layer_fractions(s.model().spec, spec.pdl_material, g.crest_z_mm, g.apex_z_mm);
+    }
+    const mesh::ModelGeometry& healthy = study.solutions()[0]->model().geometry;
+    const Fractions drift{fe[1].x - fe[0].x, fe[1].y - fe[0].y};
+    const Fractions thin_drift{thin[1].x - thin[0].x, thin[1].y - thin[0].y};
+    std::cout << "fullness " << m << ": root area " << healthy.root_area_mm2
+              << " mm2; healthy CRes " << 100 * fe[0].x << " % (x), " << 100 * fe[0].y
+              << " % (y); 6 mm loss " << 100 * fe[1].x << " % (x), " << 100 * fe[1].y
+              << " % (y); drift " << 100 * drift.x << " (x), " << 100 * drift.y
+              << " (y) points; thin layer " << 100 * thin_drift.x << " (x), "
+              << 100 * thin_drift.y << " (y) points\n";
+    SCOPED_TRACE("fullness " + std::to_string(m));
+    EXPECT_NEAR(drift.x, thin_drift.x, 0.015);
+    EXPECT_NEAR(drift.y, thin_drift.y, 0.015);
+    EXPECT_LT(drift.x, prev_drift.x);
+    EXPECT_LT(drift.y, prev_drift.y);
+    prev_drift = drift;
+  }
+}
+
 }  // namespace
 }  // namespace sharpey::analysis
