@@ -10,19 +10,42 @@
 
 namespace sharpey::analysis {
 
-Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<bool>* cancel)
-    : spec_(std::move(spec)) {
-  const int n = static_cast<int>(spec_.scenarios.size());
-  if (n == 0) {
+namespace {
+
+void require_scenarios(const CaseSpec& spec) {
+  if (spec.scenarios.empty()) {
     throw InputError("scenarios",
                      "the case has no bone-level scenario; add at least one (e.g. a healthy "
                      "scenario without bone loss)");
   }
-  const auto cancelled = [cancel] { return cancel != nullptr && cancel->load(); };
-  // The mesher is single-threaded while assembly and factorisation use both cores: mesh scenario
-  // k + 1 on a second thread while scenario k is solved (at most one mesher runs at a time, so
-  // memory stays at one model being meshed plus the solved ones). Progress is reported from the
-  // calling thread only.
+}
+
+}  // namespace
+
+// The mesher is single-threaded while assembly and factorisation use both cores: scenario k + 1 is
+// meshed on a second thread while scenario k is solved (at most one mesher runs at a time, so
+// memory stays at one model being meshed plus the solved ones). Progress is reported from the
+// calling thread only.
+struct StudySolver::Ahead {
+  std::future<mesh::ToothModel> model;
+};
+
+StudySolver::StudySolver(CaseSpec spec, const std::atomic<bool>* cancel)
+    : spec_(std::move(spec)), cancel_(cancel) {
+  require_scenarios(spec_);
+}
+
+// A pending future's destructor waits for its mesher to finish.
+StudySolver::~StudySolver() = default;
+
+std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback& progress) {
+  const int n = scenario_count();
+  if (done()) {
+    throw InputError("scenarios", "all " + std::to_string(n) +
+                                      " scenarios of the case are already solved; nothing is left "
+                                      "to solve");
+  }
+  const auto cancelled = [this] { return cancel_ != nullptr && cancel_->load(); };
   const auto build = [this](int k) {
     mesh::ModelSpec m = spec_.model;
     const Scenario& scenario = spec_.scenarios[static_cast<size_t>(k)];
@@ -37,50 +60,94 @@ Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<
       return std::async(std::launch::deferred, build, k);
     }
   };
-  const auto overall = [&progress, n](int k, const std::string& stage, double fraction) {
+  const int k = next_;
+  const auto overall = [&progress, n, k](const std::string& stage, double fraction) {
     if (progress) progress(stage, (k + fraction) / n);
   };
-  if (cancelled()) throw Cancelled();
-  std::future<mesh::ToothModel> next = start_meshing(0);
-  for (int k = 0; k < n; ++k) {
-    const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) +
-                               " (" + spec_.scenarios[static_cast<size_t>(k)].name + "): ";
-    overall(k, prefix + "mesh", 0.0);
-    // get() rethrows the mesher's exception. On any exception below, the pending future's
-    // destructor waits for the mesher of the next scenario to finish (a few seconds at most).
-    mesh::ToothModel model = next.get();
+  if (!ahead_) {
     if (cancelled()) throw Cancelled();
-    if (k + 1 < n) next = start_meshing(k + 1);
-    const ProgressCallback local = [&](const std::string& stage, double fraction) {
-      overall(k, prefix + stage, fraction);
-    };
-    solutions_.push_back(
-        std::make_unique<ScenarioSolution>(spec_, k, std::move(model), local, cancel));
+    ahead_ = std::make_unique<Ahead>();
+    ahead_->model = start_meshing(k);
   }
-  if (progress) progress("done", 1.0);
+  const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
+                             spec_.scenarios[static_cast<size_t>(k)].name + "): ";
+  overall(prefix + "mesh", 0.0);
+  // get() rethrows the mesher's exception; the future is then empty, so a later call meshes anew.
+  std::future<mesh::ToothModel> pending = std::move(ahead_->model);
+  ahead_.reset();
+  mesh::ToothModel model = pending.get();
+  if (cancelled()) throw Cancelled();
+  if (k + 1 < n) {
+    ahead_ = std::make_unique<Ahead>();
+    ahead_->model = start_meshing(k + 1);
+  }
+  const ProgressCallback local = [&](const std::string& stage, double fraction) {
+    overall(prefix + stage, fraction);
+  };
+  auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(model), local, cancel_);
+  ++next_;
+  if (done() && progress) progress("done", 1.0);
+  return solution;
+}
+
+Study::Study(CaseSpec spec, const ProgressCallback& progress, const std::atomic<bool>* cancel)
+    : spec_(std::move(spec)) {
+  // On any exception, the solver's destructor waits for the mesher of the next scenario to finish
+  // (a few seconds at most).
+  StudySolver solver(spec_, cancel);
+  while (!solver.done()) solutions_.push_back(solver.solve_next(progress));
+}
+
+Study::Study(UnsolvedTag, CaseSpec spec) : spec_(std::move(spec)) { require_scenarios(spec_); }
+
+Study Study::unsolved(CaseSpec spec) { return Study(UnsolvedTag{}, std::move(spec)); }
+
+void Study::add(std::unique_ptr<ScenarioSolution> solution) {
+  const size_t k = solutions_.size();
+  if (k >= spec_.scenarios.size()) {
+    throw InputError("scenarios", "all " + std::to_string(k) +
+                                      " scenarios of the study are already solved; no scenario "
+                                      "can be added");
+  }
+  if (!solution) throw Error("Study::add: no solution given (null)");
+  const Scenario& expected = spec_.scenarios[k];
+  const Scenario& got = solution->scenario();
+  if (got.name != expected.name || got.loss.horizontal_mm != expected.loss.horizontal_mm ||
+      got.loss.defect_depth_mm != expected.loss.defect_depth_mm) {
+    throw Error("Study::add: expected the solution of scenario " + std::to_string(k + 1) + " (" +
+                expected.name + "), got one of \"" + got.name +
+                "\"; add the scenarios in the case's order");
+  }
+  solutions_.push_back(std::move(solution));
 }
 
 int Study::healthy_index() const {
   int best = -1;
-  for (int k = 0; k < static_cast<int>(solutions_.size()); ++k) {
-    const mesh::BoneLoss& a = solutions_[static_cast<size_t>(k)]->scenario().loss;
+  for (int k = 0; k < static_cast<int>(spec_.scenarios.size()); ++k) {
+    const mesh::BoneLoss& a = spec_.scenarios[static_cast<size_t>(k)].loss;
     if (best < 0) {
       best = k;
       continue;
     }
-    const mesh::BoneLoss& b = solutions_[static_cast<size_t>(best)]->scenario().loss;
+    const mesh::BoneLoss& b = spec_.scenarios[static_cast<size_t>(best)].loss;
     if (a.horizontal_mm < b.horizontal_mm ||
         (a.horizontal_mm == b.horizontal_mm && a.defect_depth_mm < b.defect_depth_mm)) {
       best = k;
     }
   }
-  return best;
+  // Built level by level: the reference is not there until it is solved.
+  return best < static_cast<int>(solutions_.size()) ? best : -1;
 }
 
 std::vector<ScenarioResult> Study::evaluate(const LoadSpec& load) const {
   std::vector<ScenarioResult> results(solutions_.size());
   const int h = healthy_index();
-  if (h < 0) return results;
+  if (h < 0) {
+    // Only on a study built level by level whose healthy scenario is not solved yet.
+    for (size_t k = 0; k < solutions_.size(); ++k)
+      results[k] = detail::evaluate(*solutions_[k], load, spec_.thresholds, nullptr, nullptr);
+    return results;
+  }
   // The healthy scenario first: its pressure measures are every other scenario's reference.
   const ScenarioSolution* healthy = solutions_[static_cast<size_t>(h)].get();
   results[static_cast<size_t>(h)] =

@@ -4,6 +4,7 @@
 // (PDF report with its pages, caution and threshold sources; PNG; CSV/JSON/VTU) are written.
 #include <gtest/gtest.h>
 
+#include <QComboBox>
 #include <QDir>
 #include <QDoubleSpinBox>
 #include <QFile>
@@ -43,6 +44,18 @@ QString run(const QString& program, const QStringList& args) {
 MainWindow* g_window = nullptr;
 QTemporaryDir* g_dir = nullptr;
 
+// The window as it was when the first results arrived (while the other levels were solved).
+struct FirstView {
+  bool seen = false;
+  bool solving = false;
+  size_t results = 0;
+  int levels_listed = 0;
+  int coloured_pixels = 0;
+  bool export_refused = false;
+  QString export_message;
+};
+FirstView g_first;
+
 class MainWindowTest : public ::testing::Test {
  protected:
   static void SetUpTestSuite() {
@@ -59,6 +72,18 @@ class MainWindowTest : public ::testing::Test {
     bool done = false, failed = false;
     QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
     QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
+    QObject::connect(&g_window->session(), &CaseSession::results_changed, [&](bool interactive) {
+      if (g_first.seen || interactive) return;
+      g_first.seen = true;
+      g_first.solving = g_window->solving();
+      g_first.results = g_window->session().results().size();
+      g_first.levels_listed = g_window->level_box()->count();
+      g_window->show_view(ViewKind::k3D);
+      QApplication::processEvents();
+      g_first.coloured_pixels = colour_map_pixels(g_window->result_view()->vtk_view()->grabFramebuffer());
+      g_first.export_refused = !g_window->export_data(g_dir->filePath("too_early"));
+      g_first.export_message = g_window->last_error();
+    });
     ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path())) << g_window->last_error().toStdString();
     EXPECT_TRUE(g_window->solving());  // opening starts the solve at once
     ASSERT_TRUE(QTest::qWaitFor([&]() { return done || failed; }, 600000)) << "solve timed out";
@@ -83,6 +108,18 @@ TEST_F(MainWindowTest, OpeningTheSampleSolvesAndShowsColours) {
   EXPECT_GT(colour_map_pixels(window), coloured / 2);  // the grab of the window shows them too
   EXPECT_TRUE(g_window->caution_label()->isVisible());
   EXPECT_EQ(g_window->caution_label()->text().toStdString(), analysis::caution_text());
+}
+
+TEST_F(MainWindowTest, TheHealthyLevelIsShownWhileTheOthersAreSolved) {
+  ASSERT_TRUE(g_first.seen);
+  EXPECT_TRUE(g_first.solving);
+  EXPECT_EQ(g_first.results, 1u);
+  EXPECT_EQ(g_first.levels_listed, 1);  // the selector lists the solved levels only
+  EXPECT_GT(g_first.coloured_pixels, 1000) << "colour-map pixels in the first view";
+  EXPECT_TRUE(g_first.export_refused);
+  EXPECT_TRUE(g_first.export_message.contains(QStringLiteral("1 of 4"))) << g_first.export_message.toStdString();
+  EXPECT_FALSE(QDir(g_dir->filePath("too_early")).exists());
+  EXPECT_EQ(g_window->level_box()->count(), 4);  // all listed once solved
 }
 
 TEST_F(MainWindowTest, ColourBarSpansTheComputedPressureRange) {

@@ -43,6 +43,14 @@ bool wait_for(const std::function<bool()>& done, int timeout_ms) {
 
 std::shared_ptr<const analysis::Study> g_study;
 std::vector<double> g_fractions;
+// Per level_solved signal: index, count, levels in job.study(), job still running.
+struct LevelSignal {
+  int index, count, levels_in_study;
+  bool running;
+};
+std::vector<LevelSignal> g_levels;
+std::vector<size_t> g_session_results;  // results in a session fed with each partial study
+double g_first_level_peak = 0;           // scenario 0's peak compression after the first level
 
 class SolvedCase : public ::testing::Test {
  protected:
@@ -53,6 +61,16 @@ class SolvedCase : public ::testing::Test {
     QObject::connect(&job, &SolveJob::finished, [&]() { finished = true; });
     QObject::connect(&job, &SolveJob::failed, [](const QString& kind, const QString& message) {
       ADD_FAILURE() << kind.toStdString() << ": " << message.toStdString();
+    });
+    CaseSession session;
+    session.recover(small_case(), {});
+    QObject::connect(&job, &SolveJob::level_solved, [&](int index, int count) {
+      const auto study = job.study();
+      g_levels.push_back({index, count, study ? static_cast<int>(study->solutions().size()) : -1, job.running()});
+      session.set_study(study);
+      g_session_results.push_back(session.results().size());
+      if (index == 0 && !session.results().empty())
+        g_first_level_peak = session.results()[0].pressure_max_compression_kpa;
     });
     ASSERT_TRUE(job.start(small_case()));
     EXPECT_FALSE(job.start(small_case()));  // one solve at a time
@@ -67,6 +85,25 @@ TEST_F(SolvedCase, WorkerReportsProgressAndDeliversTheStudy) {
   ASSERT_FALSE(g_fractions.empty());
   for (size_t i = 1; i < g_fractions.size(); ++i) EXPECT_GE(g_fractions[i], g_fractions[i - 1] - 1e-12);
   EXPECT_DOUBLE_EQ(g_fractions.back(), 1.0);
+}
+
+TEST_F(SolvedCase, LevelsArriveOneByOneWhileTheWorkerRuns) {
+  ASSERT_EQ(g_levels.size(), 2u);
+  for (int k = 0; k < 2; ++k) {
+    EXPECT_EQ(g_levels[static_cast<size_t>(k)].index, k);
+    EXPECT_EQ(g_levels[static_cast<size_t>(k)].count, 2);
+    EXPECT_EQ(g_levels[static_cast<size_t>(k)].levels_in_study, k + 1);  // the study grows
+    EXPECT_EQ(g_session_results[static_cast<size_t>(k)], static_cast<size_t>(k + 1));
+  }
+  // The first level is handed over while the second is still being solved.
+  EXPECT_TRUE(g_levels[0].running);
+  ASSERT_TRUE(g_study);
+  EXPECT_TRUE(g_study->complete());
+  // What the session showed for the healthy level before the other was solved is final.
+  CaseSession session;
+  session.recover(small_case(), {});
+  session.set_study(g_study);
+  EXPECT_EQ(session.results()[0].pressure_max_compression_kpa, g_first_level_peak);
 }
 
 TEST_F(SolvedCase, DoublingTheForceDoublesThePressures) {
@@ -241,6 +278,34 @@ TEST(SolveJob, CancelStopsTheWorker) {
   EXPECT_TRUE(cancelled);
   EXPECT_FALSE(job.running());
   EXPECT_FALSE(job.take_result());
+}
+
+TEST(SolveJob, CancelAfterTheFirstLevelKeepsIt) {
+  analysis::CaseSpec spec = small_case();
+  analysis::Scenario more;
+  more.name = "5 mm loss";
+  more.loss.horizontal_mm = 5.0;
+  spec.scenarios.push_back(more);
+  SolveJob job;
+  bool cancelled = false, finished = false;
+  QObject::connect(&job, &SolveJob::cancelled, [&]() { cancelled = true; });
+  QObject::connect(&job, &SolveJob::finished, [&]() { finished = true; });
+  QObject::connect(&job, &SolveJob::level_solved, [&](int index, int) {
+    if (index == 0) job.cancel();  // the user presses cancel once the first level is shown
+  });
+  ASSERT_TRUE(job.start(spec));
+  ASSERT_TRUE(wait_for([&]() { return cancelled || finished; }, 300000));
+  EXPECT_TRUE(cancelled);
+  const auto study = job.take_result();
+  ASSERT_TRUE(study);
+  EXPECT_FALSE(study->complete());
+  EXPECT_GE(study->solutions().size(), 1u);
+  EXPECT_LT(study->solutions().size(), 3u);
+  CaseSession session;
+  session.recover(spec, {});
+  session.set_study(study);
+  EXPECT_EQ(session.results().size(), study->solutions().size());
+  EXPECT_GT(session.results()[0].pressure_max_compression_kpa, 0);
 }
 
 TEST(SolveJob, LibraryErrorsArriveWithTheirMessage) {

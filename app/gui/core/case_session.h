@@ -75,7 +75,10 @@ class CaseSession : public QObject {
   bool geometry_stale() const { return stale_; }
 
   // ---- results ----
-  // Takes a study solved from this case's geometry (from SolveJob) and evaluates it.
+  // Takes a study solved from this case's geometry (from SolveJob) and evaluates it. The study may
+  // hold only the levels solved so far (SolveJob::study()); call again with it each time it grows:
+  // results() then has one entry per solved level, and equivalent forces stay -1 until the
+  // healthy level is solved.
   void set_study(std::shared_ptr<const analysis::Study> study);
   const analysis::Study* study() const { return study_.get(); }
   const std::vector<analysis::ScenarioResult>& results() const { return results_; }

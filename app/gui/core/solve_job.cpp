@@ -22,6 +22,12 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
   join();
   cancel_ = false;
   running_ = true;
+  spec_ = spec;
+  study_.reset();
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    arrived_.clear();
+  }
   worker_ = std::thread([this, spec]() {
     // Signals are posted to this object's thread; they are dropped if the job is gone by then
     // (the destructor joins first, so `this` outlives the worker).
@@ -33,9 +39,20 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
     QString kind, message;
     bool was_cancelled = false;
     try {
-      auto study = std::make_shared<const analysis::Study>(spec, on_progress, &cancel_);
-      std::lock_guard<std::mutex> lock(mutex_);
-      result_ = std::move(study);
+      analysis::StudySolver solver(spec, &cancel_);
+      const int count = solver.scenario_count();
+      while (!solver.done()) {
+        auto solution = solver.solve_next(on_progress);
+        const int index = solver.solved_count() - 1;
+        {
+          std::lock_guard<std::mutex> lock(mutex_);
+          arrived_.push_back(std::move(solution));
+        }
+        post([this, index, count]() {
+          adopt_arrived();
+          emit level_solved(index, count);
+        });
+      }
     } catch (const Cancelled&) {
       was_cancelled = true;
     } catch (const InputError& e) {
@@ -54,6 +71,7 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
     post([this, kind, message, was_cancelled]() {
       running_ = false;
       join();
+      adopt_arrived();
       if (was_cancelled) emit cancelled();
       else if (!kind.isEmpty()) emit failed(kind, message);
       else emit finished();
@@ -62,11 +80,20 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
   return true;
 }
 
+void SolveJob::adopt_arrived() {
+  std::vector<std::unique_ptr<analysis::ScenarioSolution>> solved;
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    solved.swap(arrived_);
+  }
+  for (auto& s : solved) {
+    if (!study_) study_ = std::make_shared<analysis::Study>(analysis::Study::unsolved(spec_));
+    study_->add(std::move(s));
+  }
+}
+
 void SolveJob::cancel() { cancel_ = true; }
 
-std::shared_ptr<const analysis::Study> SolveJob::take_result() {
-  std::lock_guard<std::mutex> lock(mutex_);
-  return std::move(result_);
-}
+std::shared_ptr<const analysis::Study> SolveJob::take_result() { return std::move(study_); }
 
 }  // namespace sharpey::app

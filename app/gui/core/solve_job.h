@@ -1,6 +1,8 @@
-// Meshes and solves a case (analysis::Study) on a worker thread, so the window never freezes.
-// Progress, completion, failure and cancellation arrive as signals on the thread that owns the
-// job. QtCore only.
+// Meshes and solves a case (analysis::StudySolver) on a worker thread, so the window never
+// freezes. The bone levels are solved one at a time in the case's order and each is handed over
+// as soon as it is solved (level_solved), so the first level can be shown while the others are
+// solved. Progress, levels, completion, failure and cancellation arrive as signals on the thread
+// that owns the job. QtCore only.
 #pragma once
 
 #include <QObject>
@@ -9,6 +11,7 @@
 #include <memory>
 #include <mutex>
 #include <thread>
+#include <vector>
 
 #include "sharpey/analysis/study.h"
 
@@ -27,12 +30,19 @@ class SolveJob : public QObject {
   // Asks the worker to stop at the next stage boundary; `cancelled` follows.
   void cancel();
   bool running() const { return running_; }
-  // The study of the last `finished` signal (null before); hands over ownership.
+  // The study of the current (or last) solve with the levels solved so far, in the case's order:
+  // it grows by one level before each level_solved signal (on this object's thread only). Null
+  // before the first level of a solve is solved.
+  std::shared_ptr<const analysis::Study> study() const { return study_; }
+  // The study of the last solve (complete after `finished`; the levels solved before a cancel or
+  // a failure otherwise; null when none was solved); hands over ownership.
   std::shared_ptr<const analysis::Study> take_result();
 
  signals:
   // stage: the library's description ("scenario 2/4 (2 mm loss): factorise"); fraction in [0, 1].
   void progress(const QString& stage, double fraction);
+  // Level `index` of `count` is solved and added to study(). Levels arrive in order 0, 1, ...
+  void level_solved(int index, int count);
   void finished();
   // kind: "input", "meshing", "solver" or "unexpected"; message: the library's text.
   void failed(const QString& kind, const QString& message);
@@ -40,11 +50,15 @@ class SolveJob : public QObject {
 
  private:
   void join();
+  void adopt_arrived();
   std::thread worker_;
   std::atomic<bool> cancel_{false};
   bool running_ = false;
   std::mutex mutex_;
-  std::shared_ptr<const analysis::Study> result_;
+  // Solved by the worker, not yet added to the study (guarded by mutex_).
+  std::vector<std::unique_ptr<analysis::ScenarioSolution>> arrived_;
+  analysis::CaseSpec spec_;                 // of the current solve
+  std::shared_ptr<analysis::Study> study_;  // this object's thread only
 };
 
 }  // namespace sharpey::app

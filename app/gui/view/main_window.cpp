@@ -76,20 +76,36 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     progress_->setValue(static_cast<int>(1000 * fraction));
     status_->setText(QStringLiteral("Meshing and solving: ") + stage);
   });
+  // Each bone level is shown as soon as it is solved; the level selector and the comparison list
+  // the solved ones.
+  connect(job_.get(), &SolveJob::level_solved, this, [this](int index, int count) {
+    session_->set_study(job_->study());
+    if (index + 1 < count)
+      status_->setText(QStringLiteral("Solved %1 of %2 bone levels; the others follow.").arg(index + 1).arg(count));
+  });
   connect(job_.get(), &SolveJob::finished, this, [this]() {
     set_solving_ui(false);
-    session_->set_study(job_->take_result());
+    const auto study = job_->take_result();
+    if (study && session_->study() != study.get()) session_->set_study(study);
     status_->setText(QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size()));
     emit solve_finished();
   });
-  connect(job_.get(), &SolveJob::cancelled, this, [this]() {
+  // Levels solved before a cancel or a failure stay shown.
+  auto partial_note = [this]() {
+    const auto study = job_->take_result();
+    if (!study) return QStringLiteral("the previous results (if any) are still shown.");
+    return QStringLiteral("%1 of %2 bone levels solved and shown; solve again (F5) for the rest.")
+        .arg(study->solutions().size())
+        .arg(study->spec().scenarios.size());
+  };
+  connect(job_.get(), &SolveJob::cancelled, this, [this, partial_note]() {
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve cancelled; the previous results (if any) are still shown."));
+    status_->setText(QStringLiteral("Solve cancelled; ") + partial_note());
     emit solve_failed(QStringLiteral("cancelled"));
   });
-  connect(job_.get(), &SolveJob::failed, this, [this](const QString& kind, const QString& message) {
+  connect(job_.get(), &SolveJob::failed, this, [this, partial_note](const QString& kind, const QString& message) {
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve failed (%1).").arg(kind));
+    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note());
     show_error(QStringLiteral("Could not mesh and solve the case"),
                QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
     emit solve_failed(message);
@@ -632,6 +648,7 @@ bool MainWindow::export_report(const QString& path) {
     show_error(QStringLiteral("No report yet"), QStringLiteral("There are no results yet: open or solve a case first."));
     return false;
   }
+  if (!every_level_solved(QStringLiteral("No report yet"))) return false;
   ReportInputs in;
   in.spec = &session_->spec();
   in.results = &session_->results();
@@ -656,6 +673,7 @@ bool MainWindow::export_data(const QString& folder) {
     show_error(QStringLiteral("Nothing to export"), QStringLiteral("There are no results yet: open or solve a case first."));
     return false;
   }
+  if (!every_level_solved(QStringLiteral("Nothing to export yet"))) return false;
   try {
     const QDir dir(folder);
     if (!dir.exists() && !QDir().mkpath(folder))
@@ -679,6 +697,18 @@ bool MainWindow::export_data(const QString& folder) {
   }
   status_->setText(QStringLiteral("Results written to %1.").arg(folder));
   return true;
+}
+
+bool MainWindow::every_level_solved(const QString& title) {
+  const analysis::Study* study = session_->study();
+  if (!study || study->complete()) return true;
+  const QString n = QString::number(study->spec().scenarios.size());
+  const QString k = QString::number(study->solutions().size());
+  show_error(title, solving() ? QStringLiteral("Only %1 of %2 bone levels are solved so far: wait until the others are "
+                                               "solved.").arg(k, n)
+                              : QStringLiteral("Only %1 of %2 bone levels are solved (the solve was stopped): mesh and "
+                                               "solve again (F5) first.").arg(k, n));
+  return false;
 }
 
 // ---------------------------------------------------------------------------------------------

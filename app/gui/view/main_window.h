@@ -90,6 +90,7 @@ class MainWindow : public QMainWindow {
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
+  QComboBox* level_box() const { return scenario_box_; }  // the bone-level selector
   void show_view(ViewKind which);
   // Opens the case panel (true) or the force-system panel (false) on the left.
   void show_case_panel(bool on);
@@ -118,6 +119,8 @@ class MainWindow : public QMainWindow {
   void refresh_recent_menu();
   void refresh_comparison();
   void show_error(const QString& title, const QString& message);
+  // False (and an error titled `title`) while the study on display lacks some bone levels.
+  bool every_level_solved(const QString& title);
   QMessageBox::StandardButton ask(const QString& title, const QString& text,
                                   QMessageBox::StandardButtons buttons, QMessageBox::StandardButton fallback);
   QString force_text() const;

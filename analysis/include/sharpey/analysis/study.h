@@ -197,6 +197,11 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
 // All scenarios of a case.
 class Study {
  public:
+  // Level by level (with StudySolver): a study of `spec` with no scenario solved yet; add()
+  // appends the solved scenarios in the case's order. Throws InputError like the constructor
+  // below when the case has no scenario.
+  static Study unsolved(CaseSpec spec);
+
   // Meshes and solves every scenario. progress(stage, fraction in [0, 1]); cancel may be null.
   // Throws InputError, MeshError, SolverError, Cancelled (out of memory: as ScenarioSolution).
   // Meshes scenario k + 1 on a second thread while k is solved, or on this thread when no thread
@@ -205,13 +210,57 @@ class Study {
         const std::atomic<bool>* cancel = nullptr);
   const CaseSpec& spec() const { return spec_; }
   const std::vector<std::unique_ptr<ScenarioSolution>>& solutions() const { return solutions_; }
-  // Index of the healthy reference (least bone loss), used for the equivalent force.
+  // Index of the healthy reference (least bone loss among the case's scenarios), used for the
+  // equivalent force. -1 while that scenario is not solved yet (a study built level by level).
   int healthy_index() const;
+  // One result per solved scenario; without the healthy reference (not solved yet) the
+  // equivalent forces are -1.
   std::vector<ScenarioResult> evaluate(const LoadSpec& load) const;
 
+  // Level by level: appends the solution of scenario solutions().size() of spec() (the next one
+  // in the case's order, e.g. from StudySolver::solve_next). Throws Error for a null solution or
+  // one of another scenario, InputError when every scenario is already there.
+  void add(std::unique_ptr<ScenarioSolution> solution);
+  // True when every scenario of the case is solved (always for the constructor above).
+  bool complete() const { return solutions_.size() == spec_.scenarios.size(); }
+
  private:
+  struct UnsolvedTag {};
+  Study(UnsolvedTag, CaseSpec spec);
   CaseSpec spec_;
   std::vector<std::unique_ptr<ScenarioSolution>> solutions_;
+};
+
+// Solves the scenarios of a case one at a time, in the case's order, so that each can be used as
+// soon as it is solved (the app shows the healthy level while the others are solved). The same
+// work as Study's constructor, which uses it: while one scenario is solved, the next one is meshed
+// on a second thread (or on the calling thread when no thread can be started), so the results are
+// those of the all-at-once solve. Not thread-safe: one thread calls solve_next.
+class StudySolver {
+ public:
+  // Throws InputError when the case has no scenario. Nothing is meshed before solve_next.
+  explicit StudySolver(CaseSpec spec, const std::atomic<bool>* cancel = nullptr);
+  // Waits for a mesher started ahead (a few seconds at most).
+  ~StudySolver();
+  StudySolver(const StudySolver&) = delete;
+  StudySolver& operator=(const StudySolver&) = delete;
+
+  const CaseSpec& spec() const { return spec_; }
+  int scenario_count() const { return static_cast<int>(spec_.scenarios.size()); }
+  int solved_count() const { return next_; }  // the index solve_next solves
+  bool done() const { return next_ >= scenario_count(); }
+  // Meshes (or takes the model meshed ahead) and solves the next scenario. progress(stage,
+  // fraction): the stage prefixed "scenario k/n (name): " and the share of the whole case, as
+  // Study's constructor reports it ("done", 1.0 after the last scenario). Throws InputError when
+  // done(), and otherwise as Study's constructor (Cancelled when *cancel becomes true).
+  std::unique_ptr<ScenarioSolution> solve_next(const ProgressCallback& progress = {});
+
+ private:
+  struct Ahead;
+  CaseSpec spec_;
+  const std::atomic<bool>* cancel_;
+  int next_ = 0;
+  std::unique_ptr<Ahead> ahead_;  // the mesher of scenario next_, once started
 };
 
 // The caution every output carries.
