@@ -12,16 +12,12 @@
 // checks the finite-element CRes against both.
 #include <gtest/gtest.h>
 
-#include <Eigen/Dense>
-#include <cmath>
-
 #include "sharpey/analysis/study.h"
+#include "support/thin_layer.h"
 #include "test_study_cases.h"
 
 namespace sharpey::analysis {
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 struct IdealCase {
   mesh::IdealRoot root;
@@ -48,52 +44,6 @@ CaseSpec ideal_case(mesh::IdealRoot root) {
   return spec;
 }
 
-// Derived: CRes height (z) of a rigid root on a thin elastic layer over the exact root surface from
-// the apex up to the crest: the 6 x 6 stiffness K about the origin from springs k_n N N^T +
-// k_s (I - N N^T) per unit area, then the axis point where a force along x causes no rotation
-// about y: z = -C(4,0) / C(4,4) with C = K^-1.
-double thin_layer_cres_z(const mesh::ModelSpec& model, const fem::Material& pdl, double crest_z,
-                         double apex_z) {
-  const double E = pdl.young_modulus_mpa, nu = pdl.poisson_ratio;
-  const double mu = E / (2 * (1 + nu)), lambda = E * nu / ((1 + nu) * (1 - 2 * nu));
-  const double k_n = lambda + 2 * mu, k_s = mu;  // per unit area times the width (uniform)
-  // Meridian (r, z) from the apex (r = 0) to the crest; points crowd near the apex where the
-  // radius changes fast.
-  const int n = 4000;
-  std::vector<Eigen::Vector2d> meridian;
-  for (int i = 0; i <= n; ++i) {
-    const double t = static_cast<double>(i) / n;
-    const double z = apex_z + (crest_z - apex_z) * t * t;
-    const double r = i == 0 ? 0.0 : mesh::root_section(model, z).labiolingual_half_mm;
-    meridian.emplace_back(r, z);
-  }
-  Eigen::Matrix<double, 6, 6> K = Eigen::Matrix<double, 6, 6>::Zero();
-  const int n_phi = 72;
-  for (int i = 0; i < n; ++i) {
-    const Eigen::Vector2d a = meridian[static_cast<size_t>(i)],
-                          b = meridian[static_cast<size_t>(i + 1)];
-    const Eigen::Vector2d mid = 0.5 * (a + b), tangent = b - a;
-    const double ds = tangent.norm();
-    if (ds == 0) continue;
-    const Eigen::Vector2d normal(tangent.y() / ds, -tangent.x() / ds);  // outward: +r when rising
-    for (int j = 0; j < n_phi; ++j) {
-      const double phi = (j + 0.5) * 2 * kPi / n_phi;
-      const Eigen::Vector3d N(normal.x() * std::cos(phi), normal.x() * std::sin(phi), normal.y());
-      const Eigen::Vector3d p(mid.x() * std::cos(phi), mid.x() * std::sin(phi), mid.y());
-      const double area = mid.x() * (2 * kPi / n_phi) * ds;
-      const Eigen::Matrix3d k = area * (k_n * N * N.transpose() +
-                                        k_s * (Eigen::Matrix3d::Identity() - N * N.transpose()));
-      Eigen::Matrix3d P;  // u(p) = t + w x p = t - [p]x w
-      P << 0, -p.z(), p.y(), p.z(), 0, -p.x(), -p.y(), p.x(), 0;
-      Eigen::Matrix<double, 3, 6> B;
-      B << Eigen::Matrix3d::Identity(), -P;
-      K += B.transpose() * k * B;
-    }
-  }
-  const Eigen::Matrix<double, 6, 6> C = K.inverse();
-  return -C(4, 0) / C(4, 4);
-}
-
 class IdealRootCres : public ::testing::TestWithParam<IdealCase> {};
 
 TEST_P(IdealRootCres, MatchesThinLayerTheory) {
@@ -105,9 +55,9 @@ TEST_P(IdealRootCres, MatchesThinLayerTheory) {
   ASSERT_GT(L, 0);
   const double fe = s.cres_labiolingual().fraction_embedded;
   const double fe_y = s.cres_mesiodistal().fraction_embedded;
-  const double exact_shape = (g.crest_z_mm - thin_layer_cres_z(s.model().spec, spec.pdl_material,
-                                                               g.crest_z_mm, g.apex_z_mm)) /
-                             L;
+  // Derived: the thin-layer CRes of the shape actually built (support/thin_layer.h).
+  const double exact_shape =
+      test::thin_layer_fractions(s.model().spec, spec.pdl_material, g.crest_z_mm, g.apex_z_mm).x;
   RecordProperty("cres_fraction_fe", std::to_string(fe));
   RecordProperty("cres_fraction_thin_layer_exact_shape", std::to_string(exact_shape));
   std::cout << c.name << ": FE CRes " << fe << " (x) " << fe_y << " (y) of L = " << L

@@ -5,9 +5,8 @@
 // idealisation):
 //   1. the finite-element CRes of the Study (coarse preset);
 //   2. the thin-layer (Winkler) CRes of a rigid root on springs spread over the exact elliptical
-//      root surface the mesher builds (half-widths from mesh::root_section), normal stiffness
-//      (lambda + 2 mu) / w and shear stiffness mu / w per unit area (derived; the same model as the
-//      idealised-root test, test_cres_ideal_roots.cpp, extended to elliptical sections).
+//      root surface the mesher builds (derived; support/thin_layer.h, also used by the
+//      idealised-root test, test_cres_ideal_roots.cpp).
 // They must agree on each fraction of the embedded root and on the drift with loss, and both must
 // show the larger mesiodistal drift: the root is wider mesiodistally (cervix 7.0 against 6.0 mm,
 // Wheeler's Table 1-1, from memory) with the same taper profile in both directions. On an inclined
@@ -17,71 +16,17 @@
 // are in test_clinical_incisor.cpp and docs/analyses.md section 8.2.
 #include <gtest/gtest.h>
 
-#include <Eigen/Dense>
-#include <cmath>
 #include <memory>
 
 #include "sharpey/analysis/study.h"
+#include "support/thin_layer.h"
 #include "test_study_cases.h"
 
 namespace sharpey::analysis {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-
-struct Fractions {
-  double x = 0, y = 0;  // CRes below the crest over the embedded length, for forces along x, y
-};
-
-// Derived: thin-layer CRes fractions of a rigid root with horizontal elliptical sections
-// X(theta, z) = (a(z) cos theta, b(z) sin theta, z) embedded from crest_z down to the apex.
-// K (6 x 6, about the origin) = sum over the surface of B^T (k_n N N^T + k_s (I - N N^T)) B dA,
-// B = [I, -[p]x]; then the axis height where a force along x (y) causes no rotation about y (x).
-Fractions thin_layer_fractions(const mesh::ModelSpec& model, const fem::Material& pdl,
-                               double crest_z, double apex_z) {
-  const double E = pdl.young_modulus_mpa, nu = pdl.poisson_ratio;
-  const double mu = E / (2 * (1 + nu)), lambda = E * nu / ((1 + nu) * (1 - 2 * nu));
-  const double k_n = lambda + 2 * mu, k_s = mu;  // per unit area times the (uniform) width
-  // Heights crowd near the apex, where the half-widths change fast (a ~ sqrt(z - apex_z)).
-  const int n = 3000, n_theta = 96;
-  std::vector<double> z(n + 1), a(n + 1), b(n + 1);
-  for (int i = 0; i <= n; ++i) {
-    const double t = static_cast<double>(i) / n;
-    z[i] = apex_z + (crest_z - apex_z) * t * t;
-    if (i == 0) continue;  // a = b = 0 at the apex
-    const mesh::RootSection s = mesh::root_section(model, z[i]);
-    a[i] = s.labiolingual_half_mm;
-    b[i] = s.mesiodistal_half_mm;
-  }
-  Eigen::Matrix<double, 6, 6> K = Eigen::Matrix<double, 6, 6>::Zero();
-  for (int i = 0; i < n; ++i) {
-    const double dz = z[i + 1] - z[i];
-    const double zm = 0.5 * (z[i] + z[i + 1]), am = 0.5 * (a[i] + a[i + 1]),
-                 bm = 0.5 * (b[i] + b[i + 1]);
-    const double da = (a[i + 1] - a[i]) / dz, db = (b[i + 1] - b[i]) / dz;
-    for (int j = 0; j < n_theta; ++j) {
-      const double th = (j + 0.5) * 2 * kPi / n_theta, c = std::cos(th), s = std::sin(th);
-      // X_theta x X_z, outward; its length is the area per unit theta and z.
-      const Eigen::Vector3d cross(bm * c, am * s, -(am * db * s * s + da * bm * c * c));
-      const double area = cross.norm() * (2 * kPi / n_theta) * dz;
-      const Eigen::Vector3d N = cross.normalized();
-      const Eigen::Vector3d p(am * c, bm * s, zm);
-      const Eigen::Matrix3d k =
-          area * (k_n * N * N.transpose() + k_s * (Eigen::Matrix3d::Identity() - N * N.transpose()));
-      Eigen::Matrix3d P;  // u(p) = t + w x p = t - [p]x w
-      P << 0, -p.z(), p.y(), p.z(), 0, -p.x(), -p.y(), p.x(), 0;
-      Eigen::Matrix<double, 3, 6> B;
-      B << Eigen::Matrix3d::Identity(), -P;
-      K += B.transpose() * k * B;
-    }
-  }
-  const Eigen::Matrix<double, 6, 6> C = K.inverse();
-  // Force along x through (0, 0, h): rotation about y is C(4,0) + h C(4,4) (moment h F about y).
-  // Force along y through (0, 0, h): rotation about x is C(3,1) - h C(3,3).
-  const double zx = -C(4, 0) / C(4, 4), zy = C(3, 1) / C(3, 3);
-  const double L = crest_z - apex_z;
-  return {(crest_z - zx) / L, (crest_z - zy) / L};
-}
+using test::thin_layer_fractions;
+using Fractions = test::CresFractions;
 
 class IncisorOutlineCres : public ::testing::Test {
  protected:
