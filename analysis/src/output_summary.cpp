@@ -116,7 +116,8 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
   out << "Tooth:      ";
   if (tooth.ideal_root == mesh::IdealRoot::kNone)
     out << spaced(mesh::to_string(tooth.type)) << ", root " << fixed(tooth.dimensions.root_length_mm, 1)
-        << " mm, crown " << fixed(tooth.dimensions.crown_length_mm, 1) << " mm\n";
+        << " mm (taper fullness " << fixed(tooth.dimensions.root_taper_fullness, 2)
+        << "), crown " << fixed(tooth.dimensions.crown_length_mm, 1) << " mm\n";
   else
     out << "idealised root, radius " << fixed(tooth.ideal_radius_mm, 2) << " mm at the crest, length "
         << fixed(tooth.ideal_length_mm, 1) << " mm\n";
