@@ -39,6 +39,26 @@ if [ ${#tests[@]} -eq 0 ]; then
 fi
 cmake --build "$build" -j "$(nproc)" --target sharpey-batch "${tests[@]}"
 
+# A left-out pattern that matches no test (say, after a rename) would let a slow test run here
+# again unnoticed: on a full run, each pattern must match a test in some program.
+if [ $# -eq 0 ]; then
+  mapfile -t programs < <(find "$build/tests" -type f -executable -name '*_test_*')
+  for pattern in "${left_out[@]}"; do
+    matched=0
+    for program in "${programs[@]}"; do
+      if "$program" --gtest_list_tests --gtest_filter="$pattern" 2>/dev/null | grep -q '^  '; then
+        matched=1
+        break
+      fi
+    done
+    if [ "$matched" -eq 0 ]; then
+      echo "sharpey: scripts/sanitize.sh leaves out '$pattern', which matches no test;" \
+        "update left_out to the test's current name" >&2
+      exit 1
+    fi
+  done
+fi
+
 # Reports go to files (not to stderr, which tests of sharpey-batch read), one per process; an
 # exit code no program of ours uses marks a sanitizer stop.
 reports=$build/sanitizer-reports
