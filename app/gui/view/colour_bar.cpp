@@ -5,16 +5,22 @@
 #include <QLinearGradient>
 #include <QPainter>
 #include <QPainterPath>
+#include <QPolygonF>
 #include <cmath>
 
 #include "core/axis_ticks.h"
+#include "core/label_layout.h"
 
 namespace sharpey::app {
+
+namespace {
+constexpr int kLeader = 8;  // px between a threshold name and the bar, for its leader line
+}  // namespace
 
 QColor to_qcolor(const Rgb& rgb) { return QColor::fromRgbF(static_cast<float>(rgb[0]), static_cast<float>(rgb[1]), static_cast<float>(rgb[2])); }
 
 ColourBar::ColourBar(QWidget* parent) : QWidget(parent) {
-  setMinimumWidth(124);
+  setMinimumWidth(132);
   setSizePolicy(QSizePolicy::Fixed, QSizePolicy::Expanding);
 }
 
@@ -72,10 +78,10 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
   painter.setFont(bold);
   const int top = unitrect.bottom() + line + 8;
   const int bottom = area.bottom() - line - 6;
-  // Room left of the bar for the longest threshold name.
+  // Room left of the bar for the longest threshold name and its leader line.
   int names = 0;
   for (const BarMark& m : marks) names = std::max(names, fm.horizontalAdvance(m.text));
-  const QRect bar(area.left() + std::max(46, names + 12), top, 20, std::max(10, bottom - top));
+  const QRect bar(area.left() + std::max(46, names + kLeader + 12), top, 20, std::max(10, bottom - top));
   const ValueRange r = scale.range();
   const bool flat = !(r.max > r.min);
   auto y_of = [&](double v) {
@@ -110,17 +116,30 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
                    QStringLiteral("max %1").arg(r.max, 0, 'f', 1));
   painter.drawText(QRect(area.left(), bar.bottom() + 2, area.width(), line), Qt::AlignHCenter,
                    QStringLiteral("min %1").arg(r.min, 0, 'f', 1));
-  // Threshold marks across the bar.
+  // Threshold marks across the bar; their names left of it (tick values are right of it). Each
+  // name sits just above its line; names that would overlap (thresholds close together on a wide
+  // range) are moved apart, kept beside the bar, and joined to their line by a leader.
+  std::vector<const BarMark*> shown;
+  std::vector<double> wanted;
   for (const BarMark& m : marks) {
     if (m.value < r.min || m.value > r.max) continue;
+    shown.push_back(&m);
+    wanted.push_back(y_of(m.value) - line / 2.0);
+  }
+  const std::vector<double> centres = spread_labels(wanted, line, bar.top() - 1.0, bar.bottom() + 1.0);
+  const double text_right = bar.left() - 7 - kLeader;
+  for (size_t i = 0; i < shown.size(); ++i) {
+    const BarMark& m = *shown[i];
     const double y = y_of(m.value);
-    QPen pen(m.colour, m.width, m.style);
-    painter.setPen(pen);
+    painter.setPen(QPen(m.colour, m.width, m.style));
     painter.drawLine(QPointF(bar.left() - 6, y), QPointF(bar.right(), y));
-    painter.setPen(m.colour);
-    // Threshold names left of the bar, tick values right of it: they never overlap.
-    painter.drawText(QRectF(area.left(), y - line, bar.left() - area.left() - 7, line),
-                     Qt::AlignRight | Qt::AlignBottom, m.text);
+    painter.setPen(QPen(m.colour, 1));
+    const double c = centres[i];
+    // The leader: from the end of the name to the start of the line.
+    if (std::abs(c - wanted[i]) > 0.5)
+      painter.drawPolyline(QPolygonF({QPointF(text_right + 1, c), QPointF(text_right + 3, c), QPointF(bar.left() - 6, y)}));
+    painter.drawText(QRectF(area.left(), c - line / 2.0, text_right - area.left(), line),
+                     Qt::AlignRight | Qt::AlignVCenter, m.text);
   }
   painter.restore();
 }

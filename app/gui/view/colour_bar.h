@@ -30,7 +30,7 @@ class ColourBar : public QWidget {
   // The range shown (the scale's data range).
   const ValueRange& range() const { return scale_.range(); }
   const QString& unit() const { return unit_; }
-  QSize sizeHint() const override { return {136, 300}; }
+  QSize sizeHint() const override { return {144, 300}; }
 
   // `picture` (a grabbed view) with this bar as shown drawn to its right, on `background`.
   QImage beside(const QImage& picture, const QColor& background) const;
