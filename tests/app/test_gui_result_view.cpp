@@ -141,6 +141,11 @@ TEST_F(ResultViewTest, QuickDrawingWhileInteractingAndFullFramesForExports) {
   const QImage grabbed = view_->vtk_view()->grabFramebuffer();
   EXPECT_EQ(grabbed.size(), full.size());
   EXPECT_GT(colour_map_pixels(grabbed), 500);
+  // The quick frame as shown (scaled up), for a look at the labels' size.
+  view_->vtk_view()->repaint();
+  EXPECT_EQ(view_->vtk_view()->last_frame().width() * 2, full.width());
+  testing::keep_image(view_->vtk_view()->last_frame().scaled(full.size()), "result_view_quick");
+  testing::keep_image(full, "result_view_full");
   view_->set_interacting(false);
   EXPECT_FALSE(view_->vtk_view()->quick());
 }

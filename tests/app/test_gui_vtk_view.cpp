@@ -3,16 +3,19 @@
 #include <gtest/gtest.h>
 
 #include <QApplication>
+#include <cstdio>
 #include <QMouseEvent>
 #include <QTest>
 #include <QVBoxLayout>
 #include <vtkActor.h>
+#include <vtkBillboardTextActor3D.h>
 #include <vtkCamera.h>
 #include <vtkNew.h>
 #include <vtkPolyDataMapper.h>
 #include <vtkProperty.h>
 #include <vtkRenderer.h>
 #include <vtkSphereSource.h>
+#include <vtkTextProperty.h>
 
 #include "support/image_checks.h"
 #include "view/vtk_view.h"
@@ -68,6 +71,57 @@ TEST(VtkView, WidgetGrabOfAParentIncludesTheView) {
   ASSERT_TRUE(QTest::qWaitForWindowExposed(&parent));
   const QImage image = parent.grab().toImage();
   EXPECT_GT(count_pixels(image, is_red), image.width() * image.height() / 20);
+}
+
+// Height in pixels of the rows holding pure-yellow pixels (the label's text), 0 when none.
+int yellow_rows(const QImage& image) {
+  int first = -1, last = -1;
+  for (int y = 0; y < image.height(); ++y)
+    for (int x = 0; x < image.width(); ++x) {
+      const QColor c = image.pixelColor(x, y);
+      if (c.red() > 200 && c.green() > 200 && c.blue() < 80) {
+        if (first < 0) first = y;
+        last = y;
+        break;
+      }
+    }
+  return first < 0 ? 0 : last - first + 1;
+}
+
+TEST(VtkView, LabelsKeepTheirScreenSizeInHalfResolutionFrames) {
+  VtkView view;
+  view.resize(400, 300);
+  add_sphere(view);
+  vtkNew<vtkBillboardTextActor3D> label;
+  label->SetInput("Wg");  // an ascender and a descender: the full text height
+  label->GetTextProperty()->SetFontSize(24);
+  label->GetTextProperty()->SetColor(1, 1, 0);
+  label->GetTextProperty()->SetBackgroundColor(0, 0, 0);
+  label->GetTextProperty()->SetBackgroundOpacity(1.0);
+  label->SetPosition(0, 0, 0);
+  view.overlay()->AddActor(label);
+  double scales_seen = 0;
+  QObject::connect(&view, &VtkView::pixel_scale_changed, [&](double s) { scales_seen = s; });
+  view.show();
+  ASSERT_TRUE(QTest::qWaitForWindowExposed(&view));
+  view.repaint();
+  const QImage full = view.last_frame();
+  view.set_quick(true);
+  view.repaint();
+  const QImage quick = view.last_frame();
+  EXPECT_DOUBLE_EQ(scales_seen, 0.5);
+  EXPECT_DOUBLE_EQ(view.pixel_scale(), 0.5);
+  ASSERT_EQ(quick.height() * 2, full.height());
+  const int h_full = yellow_rows(full), h_quick = yellow_rows(quick);
+  ASSERT_GT(h_full, 10);
+  // The quick frame is shown twice as large: the text must be half as tall in it (a frame pixel
+  // or two of rounding in the font size allowed).
+  EXPECT_NEAR(2.0 * h_quick, h_full, 4.0) << "full " << h_full << " px, quick " << h_quick << " px";
+  std::printf("label height: full frame %d px, quick frame %d px (shown at twice that)\n", h_full, h_quick);
+  view.set_quick(false);
+  view.repaint();
+  EXPECT_DOUBLE_EQ(scales_seen, 1.0);
+  EXPECT_EQ(yellow_rows(view.last_frame()), h_full);
 }
 
 TEST(VtkView, DraggingRotatesTheCameraAndLinkedViewsFollow) {

@@ -26,6 +26,7 @@
 #include <vtkTubeFilter.h>
 
 #include <QElapsedTimer>
+#include <algorithm>
 #include <cmath>
 
 #include "core/display_mesh.h"
@@ -273,6 +274,18 @@ struct ModelScene::Impl {
     }
   }
 
+  // Sizes in pixels, for frames of `scale` frame pixels per screen pixel (VtkView::pixel_scale).
+  void apply_pixel_scale(double scale) {
+    iso_capillary.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.0 * scale)));
+    iso_limit.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 3.5 * scale)));
+    // Labels on opposite sides of their markers, which often sit close together.
+    auto offset = [scale](vtkBillboardTextActor3D* t, int x, int y) {
+      t->SetDisplayOffset(static_cast<int>(std::lround(x * scale)), static_cast<int>(std::lround(y * scale)));
+    };
+    offset(cres_label, -62, 6);
+    offset(crot_label, 18, -18);
+  }
+
   void apply_visibility() {
     const bool cut = plane != SectionPlane::kNone;
     const bool see_through = bone_style == BoneStyle::kTranslucent && !cut;
@@ -346,9 +359,7 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
 
   const Rgb cap = capillary_line_colour(), lim = limit_line_colour();
   d.iso_capillary.solid(cap.data());
-  d.iso_capillary.actor->GetProperty()->SetLineWidth(2.0f);
   d.iso_limit.solid(lim.data());
-  d.iso_limit.actor->GetProperty()->SetLineWidth(3.5f);
   for (Part* p : {&d.iso_capillary, &d.iso_limit}) {
     p->actor->GetProperty()->LightingOff();
     scene->AddActor(p->actor);
@@ -373,11 +384,11 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   style_label(d.crot_label, kCrotColour);
   d.cres_label->SetInput("CRes");
   d.crot_label->SetInput("CRot");
-  // Labels on opposite sides of their markers, which often sit close together.
-  d.cres_label->SetDisplayOffset(-62, 6);
-  d.crot_label->SetDisplayOffset(18, -18);
+  d.apply_pixel_scale(1.0);
   d.apply_visibility();
 }
+
+void ModelScene::set_pixel_scale(double scale) { impl_->apply_pixel_scale(scale); }
 
 ModelScene::~ModelScene() = default;
 

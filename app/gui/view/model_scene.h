@@ -64,6 +64,9 @@ class ModelScene {
   // out (with software OpenGL it costs as much as the rest of the scene); drawn again when off.
   void set_interacting(bool on);
   bool interacting() const;
+  // Frame pixels per screen pixel (VtkView::pixel_scale): line widths and label offsets, given in
+  // pixels, are scaled by it so that a half-resolution frame looks like the full one.
+  void set_pixel_scale(double scale);
   void set_bone_style(BoneStyle style);
   void set_section(SectionPlane plane);
   SectionPlane section() const;

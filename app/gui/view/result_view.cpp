@@ -58,6 +58,8 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   outer->addLayout(row, 1);
 
   scene_ = std::make_unique<ModelScene>(view_->renderer(), view_->overlay());
+  // Half-resolution frames: pixel sizes follow, so labels and lines keep their look on screen.
+  connect(view_, &VtkView::pixel_scale_changed, this, [this](double scale) { scene_->set_pixel_scale(scale); });
 
   connect(quantity_box_, &QComboBox::currentIndexChanged, this, [this]() {
     set_quantity(static_cast<Quantity>(quantity_box_->currentData().toInt()));

@@ -1,6 +1,8 @@
 #include "view/vtk_view.h"
 
 #include <QElapsedTimer>
+#include <algorithm>
+#include <cmath>
 #include <QMouseEvent>
 #include <QOffscreenSurface>
 #include <QOpenGLContext>
@@ -45,6 +47,7 @@ VtkView::VtkView(QWidget* parent) : QWidget(parent) {
   window_->SetMultiSamples(0);
   window_->SetFrameBlitModeToBlitToCurrent();
   window_->SetNumberOfLayers(2);
+  base_dpi_ = window_->GetDPI();
   for (unsigned long id : {vtkCommand::WindowMakeCurrentEvent, vtkCommand::WindowIsCurrentEvent,
                            vtkCommand::WindowSupportsOpenGLEvent, vtkCommand::WindowIsDirectEvent,
                            vtkCommand::WindowFrameEvent})
@@ -147,6 +150,14 @@ void VtkView::render_frame() {
     fbo_ = std::make_unique<QOpenGLFramebufferObject>(size, QOpenGLFramebufferObject::CombinedDepthStencil);
   }
   interactor_->UpdateSize(size.width(), size.height());
+  // Text is sized in points at the window's DPI: half the DPI in a half-resolution frame keeps the
+  // labels their size on screen once the frame is scaled up.
+  const double scale = pixel_scale();
+  window_->SetDPI(std::max(1, static_cast<int>(std::lround(base_dpi_ * scale))));
+  if (scale != rendered_scale_) {
+    rendered_scale_ = scale;
+    emit pixel_scale_changed(scale);
+  }
   in_paint_ = true;
   QElapsedTimer timer;
   timer.start();

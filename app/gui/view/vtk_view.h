@@ -58,6 +58,14 @@ class VtkView : public QWidget {
   void set_quick(bool on);
   bool quick() const { return quick_; }
 
+  // Size of one frame pixel in widget pixels' terms: 0.5 for quick frames, 1 otherwise. Text
+  // actors follow by themselves (the render window's DPI is scaled alike, so a label keeps its
+  // on-screen size); sizes given in pixels (line widths, label offsets) follow through
+  // pixel_scale_changed.
+  double pixel_scale() const { return quick_ ? 0.5 : 1.0; }
+  // The last frame rendered (quick or full), as read back.
+  const QImage& last_frame() const { return frame_; }
+
   // Time the last frame spent in VTK's Render (with the read-back), ms.
   double last_render_ms() const { return last_render_ms_; }
   int frames_rendered() const { return frames_; }
@@ -67,6 +75,9 @@ class VtkView : public QWidget {
   void camera_changed();
   // A frame was rendered.
   void frame_rendered();
+  // Emitted just before a frame is rendered at another pixel scale than the one before (see
+  // pixel_scale()); a direct connection can scale pixel sizes for that frame.
+  void pixel_scale_changed(double scale);
   // The user started / stopped turning, panning or zooming the view with the mouse (the scene may
   // draw with less detail in between).
   void interaction_started();
@@ -109,6 +120,8 @@ class VtkView : public QWidget {
   bool in_paint_ = false;
   bool quick_ = false;
   double last_render_ms_ = 0;
+  int base_dpi_ = 72;            // the render window's DPI for full frames
+  double rendered_scale_ = 1.0;  // pixel scale of the last frame
   int frames_ = 0;
 };
 
