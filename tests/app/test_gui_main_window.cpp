@@ -22,6 +22,7 @@
 #include "support/image_checks.h"
 #include "support/solved_sample.h"
 #include "view/colour_bar.h"
+#include "view/comparison_view.h"
 #include "view/load_panel.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
@@ -81,6 +82,7 @@ class MainWindowTest : public ::testing::Test {
       g_window->show_view(ViewKind::k3D);
       QApplication::processEvents();
       g_first.coloured_pixels = colour_map_pixels(g_window->result_view()->vtk_view()->grabFramebuffer());
+      testing::keep_image(g_window->grab().toImage(), "test_main_window_first_view");
       g_first.export_refused = !g_window->export_data(g_dir->filePath("too_early"));
       g_first.export_message = g_window->last_error();
     });
@@ -148,6 +150,40 @@ TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
   magnitude->setValue(before);
   QApplication::processEvents();
   EXPECT_NEAR(bar->range().max, peak, 1e-9 * peak);
+}
+
+TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {
+  g_window->show_view(ViewKind::kComparison);
+  QApplication::processEvents();
+  ComparisonView* comparison = g_window->comparison();
+  ASSERT_GE(comparison->n_views(), 2);
+  const ViewOptionBoxes a = g_window->result_view()->option_boxes();
+  const ViewOptionBoxes b = comparison->option_boxes();
+  auto entries = [](const QComboBox* box) {
+    QStringList out;
+    for (int i = 0; i < box->count(); ++i) out << box->itemText(i);
+    return out;
+  };
+  EXPECT_EQ(entries(a.quantity), entries(b.quantity));
+  EXPECT_EQ(entries(a.bone), entries(b.bone));
+  EXPECT_EQ(entries(a.section), entries(b.section));
+  // The comparison's row acts on every cell; the 3D view's row on its own view only.
+  b.quantity->setCurrentIndex(b.quantity->findData(static_cast<int>(Quantity::kVonMises)));
+  b.section->setCurrentIndex(b.section->findData(static_cast<int>(SectionPlane::kMesiodistal)));
+  for (int i = 0; i < comparison->n_views(); ++i) {
+    EXPECT_EQ(comparison->view(i)->quantity(), Quantity::kVonMises);
+    EXPECT_EQ(comparison->view(i)->scene()->section(), SectionPlane::kMesiodistal);
+  }
+  EXPECT_EQ(g_window->result_view()->quantity(), Quantity::kPressure);
+  a.section->setCurrentIndex(a.section->findData(static_cast<int>(SectionPlane::kLabiolingual)));
+  EXPECT_EQ(g_window->result_view()->scene()->section(), SectionPlane::kLabiolingual);
+  EXPECT_EQ(comparison->view(0)->scene()->section(), SectionPlane::kMesiodistal);
+  // Back as the other tests expect it.
+  b.quantity->setCurrentIndex(b.quantity->findData(static_cast<int>(Quantity::kPressure)));
+  b.section->setCurrentIndex(b.section->findData(static_cast<int>(SectionPlane::kNone)));
+  a.section->setCurrentIndex(a.section->findData(static_cast<int>(SectionPlane::kNone)));
+  g_window->show_view(ViewKind::k3D);
+  QApplication::processEvents();
 }
 
 TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {

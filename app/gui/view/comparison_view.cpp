@@ -22,20 +22,23 @@ ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
   outer->setContentsMargins(0, 0, 0, 0);
   auto* options = new QHBoxLayout;
   options->setContentsMargins(4, 2, 4, 2);
-  quantity_box_ = new QComboBox;
-  for (Quantity q : all_quantities()) quantity_box_->addItem(short_label(q), static_cast<int>(q));
-  bone_box_ = new QComboBox;
-  for (BoneStyle s : {BoneStyle::kTranslucent, BoneStyle::kOpaque, BoneStyle::kHidden})
-    bone_box_->addItem(label(s), static_cast<int>(s));
-  section_box_ = new QComboBox;
-  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
-    section_box_->addItem(label(s), static_cast<int>(s));
+  ViewOptionHandlers handlers;
+  handlers.quantity = [this](Quantity q) {
+    quantity_ = q;
+    if (last_session_) show_session(*last_session_, last_force_text_);
+  };
+  handlers.bone = [this](BoneStyle style) {
+    for (const Cell& c : cells_) c.view->set_bone_style(style);
+  };
+  handlers.section = [this](SectionPlane plane) {
+    for (const Cell& c : cells_) c.view->set_section(plane);
+  };
+  const ViewOptionBoxes boxes = add_view_options(options, this, handlers);
+  quantity_box_ = boxes.quantity;
+  bone_box_ = boxes.bone;
+  section_box_ = boxes.section;
   note_ = new QLabel(QStringLiteral("One colour scale for all; cameras move together."));
   note_->setStyleSheet(QStringLiteral("color: #555;"));
-  options->addWidget(new QLabel(QStringLiteral("Colour by")));
-  options->addWidget(quantity_box_);
-  options->addWidget(bone_box_);
-  options->addWidget(section_box_);
   options->addSpacing(12);
   options->addWidget(note_, 1);
   outer->addLayout(options);
@@ -68,19 +71,6 @@ ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
   split->setStretchFactor(1, 2);
   outer->addWidget(split, 1);
 
-  auto reshow = [this]() {
-    if (last_session_) show_session(*last_session_, last_force_text_);
-  };
-  connect(quantity_box_, &QComboBox::currentIndexChanged, this, [this, reshow]() {
-    quantity_ = static_cast<Quantity>(quantity_box_->currentData().toInt());
-    reshow();
-  });
-  connect(bone_box_, &QComboBox::currentIndexChanged, this, [this]() {
-    for (const Cell& c : cells_) c.view->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
-  });
-  connect(section_box_, &QComboBox::currentIndexChanged, this, [this]() {
-    for (const Cell& c : cells_) c.view->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
-  });
 }
 
 ComparisonView::~ComparisonView() = default;
@@ -161,13 +151,7 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
   }
   const ColourScale scale(quantity_, range);
   bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
-  std::vector<BarMark> marks;
-  if (has_threshold_lines(quantity_)) {
-    const auto& t = session.spec().thresholds;
-    marks.push_back({t.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0});
-    marks.push_back({t.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0});
-  }
-  bar_->set_marks(marks);
+  bar_->set_marks(threshold_marks(session.spec().thresholds, quantity_));
 
   table_ = make_table(results);
   plot_->set_table(table_);

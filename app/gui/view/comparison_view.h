@@ -9,6 +9,7 @@
 #include "core/quantity.h"
 #include "core/scenario_table.h"
 #include "view/model_scene.h"
+#include "view/result_view.h"
 
 class QComboBox;
 class QGridLayout;
@@ -36,6 +37,8 @@ class ComparisonView : public QWidget {
   int n_views() const { return static_cast<int>(cells_.size()); }
   ResultView* view(int i) const;
   ColourBar* shared_bar() const { return bar_; }
+  // The options row's boxes: they act on every cell.
+  ViewOptionBoxes option_boxes() const { return {quantity_box_, bone_box_, section_box_}; }
   const ScenarioTable& table() const { return table_; }
   TrendPlot* plot() const { return plot_; }
   // The side-by-side views with the shared colour bar, as shown.

@@ -15,6 +15,43 @@ namespace sharpey::app {
 
 bool has_threshold_lines(Quantity q) { return q == Quantity::kPressure; }
 
+std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q) {
+  if (!has_threshold_lines(q)) return {};
+  return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()),
+           Qt::DashLine, 2.0},
+          {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+}
+
+ViewOptionBoxes add_view_options(QHBoxLayout* row, QObject* context, const ViewOptionHandlers& on) {
+  ViewOptionBoxes boxes;
+  boxes.quantity = new QComboBox;
+  for (Quantity q : all_quantities()) boxes.quantity->addItem(short_label(q), static_cast<int>(q));
+  boxes.quantity->setToolTip(QStringLiteral("Quantity the ligament is coloured by"));
+  boxes.bone = new QComboBox;
+  for (BoneStyle s : {BoneStyle::kTranslucent, BoneStyle::kOpaque, BoneStyle::kHidden})
+    boxes.bone->addItem(label(s), static_cast<int>(s));
+  boxes.bone->setToolTip(QStringLiteral("How the alveolar bone is drawn"));
+  boxes.section = new QComboBox;
+  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
+    boxes.section->addItem(label(s), static_cast<int>(s));
+  boxes.section->setToolTip(QStringLiteral("Cut the model along the long axis of the tooth"));
+  row->addWidget(new QLabel(QStringLiteral("Colour by")));
+  row->addWidget(boxes.quantity);
+  row->addSpacing(8);
+  row->addWidget(boxes.bone);
+  row->addWidget(boxes.section);
+  // Each handler gets the value of the entry chosen.
+  auto hook = [context](QComboBox* box, auto handler, auto as_value) {
+    if (!handler) return;
+    QObject::connect(box, &QComboBox::currentIndexChanged, context,
+                     [box, handler, as_value]() { handler(as_value(box->currentData().toInt())); });
+  };
+  hook(boxes.quantity, on.quantity, [](int v) { return static_cast<Quantity>(v); });
+  hook(boxes.bone, on.bone, [](int v) { return static_cast<BoneStyle>(v); });
+  hook(boxes.section, on.section, [](int v) { return static_cast<SectionPlane>(v); });
+  return boxes;
+}
+
 ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   auto* outer = new QVBoxLayout(this);
   outer->setContentsMargins(0, 0, 0, 0);
@@ -23,27 +60,27 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   options_ = new QWidget;
   auto* opt = new QHBoxLayout(options_);
   opt->setContentsMargins(4, 2, 4, 2);
-  quantity_box_ = new QComboBox;
-  for (Quantity q : all_quantities()) quantity_box_->addItem(short_label(q), static_cast<int>(q));
-  quantity_box_->setToolTip(QStringLiteral("Quantity the ligament is coloured by"));
-  bone_box_ = new QComboBox;
-  for (BoneStyle s : {BoneStyle::kTranslucent, BoneStyle::kOpaque, BoneStyle::kHidden})
-    bone_box_->addItem(label(s), static_cast<int>(s));
-  section_box_ = new QComboBox;
-  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
-    section_box_->addItem(label(s), static_cast<int>(s));
-  section_box_->setToolTip(QStringLiteral("Cut the model along the long axis of the tooth"));
+  ViewOptionHandlers handlers;
+  handlers.quantity = [this](Quantity q) { set_quantity(q); };
+  handlers.bone = [this](BoneStyle style) {
+    scene_->set_bone_style(style);
+    view_->update();
+  };
+  handlers.section = [this](SectionPlane plane) {
+    scene_->set_section(plane);
+    scene_->reset_camera();
+    view_->update();
+  };
+  const ViewOptionBoxes boxes = add_view_options(opt, this, handlers);
+  quantity_box_ = boxes.quantity;
+  bone_box_ = boxes.bone;
+  section_box_ = boxes.section;
   glyphs_box_ = new QCheckBox(QStringLiteral("force system"));
   glyphs_box_->setChecked(true);
   glyphs_box_->setToolTip(QStringLiteral("Force arrow, couple, centre of resistance (CRes) and "
                                          "centre of rotation (CRot)"));
   auto* reset = new QToolButton;
   reset->setText(QStringLiteral("Reset view"));
-  opt->addWidget(new QLabel(QStringLiteral("Colour by")));
-  opt->addWidget(quantity_box_);
-  opt->addSpacing(8);
-  opt->addWidget(bone_box_);
-  opt->addWidget(section_box_);
   opt->addWidget(glyphs_box_);
   opt->addStretch(1);
   opt->addWidget(reset);
@@ -61,18 +98,6 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   // Half-resolution frames: pixel sizes follow, so labels and lines keep their look on screen.
   connect(view_, &VtkView::pixel_scale_changed, this, [this](double scale) { scene_->set_pixel_scale(scale); });
 
-  connect(quantity_box_, &QComboBox::currentIndexChanged, this, [this]() {
-    set_quantity(static_cast<Quantity>(quantity_box_->currentData().toInt()));
-  });
-  connect(bone_box_, &QComboBox::currentIndexChanged, this, [this]() {
-    scene_->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
-    view_->update();
-  });
-  connect(section_box_, &QComboBox::currentIndexChanged, this, [this]() {
-    scene_->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
-    scene_->reset_camera();
-    view_->update();
-  });
   connect(glyphs_box_, &QCheckBox::toggled, this, [this](bool on) {
     scene_->set_glyphs_visible(on);
     view_->update();
@@ -176,14 +201,7 @@ void ResultView::refresh() {
   scene_->set_iso_levels(thresholds_.capillary.value_kpa, thresholds_.limit.value_kpa, lines);
   scene_->set_load_glyphs(result_, force_text_);
   bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
-  std::vector<BarMark> marks;
-  if (lines) {
-    marks.push_back({thresholds_.capillary.value_kpa, QStringLiteral("capillary"),
-                     to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0});
-    marks.push_back({thresholds_.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()),
-                     Qt::SolidLine, 3.0});
-  }
-  bar_->set_marks(marks);
+  bar_->set_marks(threshold_marks(thresholds_, quantity_));
   view_->update();
 }
 

@@ -6,23 +6,44 @@
 #include <QImage>
 #include <QTimer>
 #include <QWidget>
+#include <functional>
 #include <memory>
 #include <optional>
+#include <vector>
 
 #include "core/quantity.h"
 #include "sharpey/analysis/study.h"
+#include "view/colour_bar.h"
 #include "view/model_scene.h"
 
 class QCheckBox;
 class QComboBox;
+class QHBoxLayout;
 
 namespace sharpey::app {
 
-class ColourBar;
 class VtkView;
 
 // Threshold iso-line levels in a quantity's unit: only pressure has them.
 bool has_threshold_lines(Quantity q);
+// The colour bar's capillary and limit marks, drawn like their iso-lines (none for a quantity
+// without threshold lines).
+std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q);
+
+// The display options row the 3D view and the comparison share: "Colour by" with the quantity,
+// then the bone style and the section. Each box calls its handler with the value chosen.
+struct ViewOptionBoxes {
+  QComboBox* quantity = nullptr;
+  QComboBox* bone = nullptr;
+  QComboBox* section = nullptr;
+};
+struct ViewOptionHandlers {
+  std::function<void(Quantity)> quantity;
+  std::function<void(BoneStyle)> bone;
+  std::function<void(SectionPlane)> section;
+};
+// Adds the label and the three boxes to `row`; the connections live as long as `context`.
+ViewOptionBoxes add_view_options(QHBoxLayout* row, QObject* context, const ViewOptionHandlers& on);
 
 class ResultView : public QWidget {
   Q_OBJECT
@@ -50,6 +71,8 @@ class ResultView : public QWidget {
   void set_options_visible(bool visible);
   void set_bar_visible(bool visible);
 
+  // The options row's boxes (hidden in the comparison's cells).
+  ViewOptionBoxes option_boxes() const { return {quantity_box_, bone_box_, section_box_}; }
   VtkView* vtk_view() const { return view_; }
   ColourBar* colour_bar() const { return bar_; }
   ModelScene* scene() const { return scene_.get(); }
