@@ -74,14 +74,21 @@ MainWindow::MainWindow(const MainWindowOptions& options)
 
   connect(job_.get(), &SolveJob::progress, this, [this](const QString& stage, double fraction) {
     progress_->setValue(static_cast<int>(1000 * fraction));
-    status_->setText(QStringLiteral("Meshing and solving: ") + stage);
+    // Once levels are shown, say how many while the others are solved.
+    const auto study = job_->study();
+    const QString shown = study ? QStringLiteral("%1 of %2 bone levels shown; ")
+                                      .arg(study->solutions().size())
+                                      .arg(study->spec().scenarios.size())
+                                : QString();
+    status_->setText(shown.isEmpty() ? QStringLiteral("Meshing and solving: ") + stage
+                                     : shown + QStringLiteral("meshing and solving: ") + stage);
   });
   // Each bone level is shown as soon as it is solved; the level selector and the comparison list
   // the solved ones.
   connect(job_.get(), &SolveJob::level_solved, this, [this](int index, int count) {
     session_->set_study(job_->study());
     if (index + 1 < count)
-      status_->setText(QStringLiteral("Solved %1 of %2 bone levels; the others follow.").arg(index + 1).arg(count));
+      status_->setText(QStringLiteral("%1 of %2 bone levels shown; the others follow.").arg(index + 1).arg(count));
   });
   connect(job_.get(), &SolveJob::finished, this, [this]() {
     set_solving_ui(false);
