@@ -51,6 +51,7 @@ struct LevelSignal {
 std::vector<LevelSignal> g_levels;
 std::vector<size_t> g_session_results;  // results in a session fed with each partial study
 double g_first_level_peak = 0;           // scenario 0's peak compression after the first level
+std::vector<analysis::ScenarioResult> g_grown_results;  // that session's results at the end
 
 class SolvedCase : public ::testing::Test {
  protected:
@@ -76,6 +77,7 @@ class SolvedCase : public ::testing::Test {
     EXPECT_FALSE(job.start(small_case()));  // one solve at a time
     ASSERT_TRUE(wait_for([&]() { return finished; }, 300000));
     g_study = job.take_result();
+    g_grown_results = session.results();
   }
 };
 
@@ -104,6 +106,19 @@ TEST_F(SolvedCase, LevelsArriveOneByOneWhileTheWorkerRuns) {
   session.recover(small_case(), {});
   session.set_study(g_study);
   EXPECT_EQ(session.results()[0].pressure_max_compression_kpa, g_first_level_peak);
+  // A session fed level by level (the later level evaluated alone, the first kept) ends with the
+  // results of one fed the whole study.
+  ASSERT_EQ(g_grown_results.size(), session.results().size());
+  for (size_t k = 0; k < g_grown_results.size(); ++k) {
+    const auto& a = g_grown_results[k];
+    const auto& b = session.results()[k];
+    EXPECT_EQ(a.name, b.name);
+    EXPECT_EQ(a.pressure_kpa, b.pressure_kpa);
+    EXPECT_EQ(a.pressure_max_compression_kpa, b.pressure_max_compression_kpa);
+    EXPECT_EQ(a.equivalent_force_peak_g, b.equivalent_force_peak_g);
+    EXPECT_EQ(a.equivalent_force_area_rule_g, b.equivalent_force_area_rule_g);
+  }
+  EXPECT_GT(g_grown_results[1].equivalent_force_peak_g, 0);  // the reduced level has its reference
 }
 
 TEST_F(SolvedCase, DoublingTheForceDoublesThePressures) {
@@ -278,6 +293,27 @@ TEST(SolveJob, CancelStopsTheWorker) {
   EXPECT_TRUE(cancelled);
   EXPECT_FALSE(job.running());
   EXPECT_FALSE(job.take_result());
+}
+
+TEST(SolveJob, AHealthyLevelSolvedLastStillGivesTheOthersTheirReference) {
+  analysis::CaseSpec spec = small_case();
+  std::swap(spec.scenarios[0], spec.scenarios[1]);  // 3 mm loss first, healthy second
+  SolveJob job;
+  CaseSession session;
+  session.recover(spec, {});
+  std::vector<double> first_level_equivalent;
+  bool finished = false;
+  QObject::connect(&job, &SolveJob::finished, [&]() { finished = true; });
+  QObject::connect(&job, &SolveJob::level_solved, [&](int, int) {
+    session.set_study(job.study());
+    first_level_equivalent.push_back(session.results()[0].equivalent_force_peak_g);
+  });
+  ASSERT_TRUE(job.start(spec));
+  ASSERT_TRUE(wait_for([&]() { return finished; }, 300000));
+  ASSERT_EQ(first_level_equivalent.size(), 2u);
+  EXPECT_EQ(first_level_equivalent[0], -1);  // no healthy reference yet
+  EXPECT_GT(first_level_equivalent[1], 0);   // re-evaluated once the healthy level came
+  EXPECT_LT(first_level_equivalent[1], 100); // with bone lost a lighter force reaches the healthy peak
 }
 
 TEST(SolveJob, CancelAfterTheFirstLevelKeepsIt) {

@@ -71,7 +71,8 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset)
   if (!QTest::qWaitForWindowExposed(&window)) return 1;
   app::CaseSession& session = window.session();
   QElapsedTimer clock;
-  std::vector<double> level_s;  // when each new level was on screen
+  std::vector<double> level_s;        // when each new level was on screen
+  std::vector<double> level_eval_ms;  // the evaluation by superposition that went with it
   double first_paint_s = -1;
   size_t levels_seen = 0;
   bool done = false, failed = false;
@@ -83,6 +84,7 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset)
       first_paint_s = static_cast<double>(clock.nsecsElapsed()) * 1e-9;
     }
     level_s.push_back(static_cast<double>(clock.nsecsElapsed()) * 1e-9);
+    level_eval_ms.push_back(session.last_evaluation_ms());
   });
   QObject::connect(&window, &app::MainWindow::solve_finished, [&]() { done = true; });
   QObject::connect(&window, &app::MainWindow::solve_failed, [&](const QString& m) {
@@ -111,7 +113,7 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset)
               mesh::to_string(session.spec().model.sizing.preset).c_str(), session.results().size());
   std::printf("first view (first level solved, 3D view painted): %.1f s after opening\n", first_paint_s);
   for (size_t k = 0; k < level_s.size(); ++k)
-    std::printf("  %zu level(s) on screen at %.1f s\n", k + 1, level_s[k]);
+    std::printf("  %zu level(s) on screen at %.1f s (evaluation %.0f ms)\n", k + 1, level_s[k], level_eval_ms[k]);
   std::printf("all levels solved: %.1f s; longest event-loop stall while solving: %.0f ms\n", total_s,
               worst_gap_ms);
   for (const auto& [when, gap] : stalls) std::printf("  stall of %.0f ms ending at %.1f s\n", gap, when);

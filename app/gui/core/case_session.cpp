@@ -208,10 +208,17 @@ void CaseSession::set_levels(const ScenarioList& levels) {
 bool CaseSession::set_compared(int level, bool on) { return levels_.set_compared(level, on); }
 
 void CaseSession::set_study(std::shared_ptr<const analysis::Study> study) {
+  // The same study grown by some levels (solved one by one): the levels already evaluated under
+  // the current load keep their results when their healthy reference was already there.
+  size_t keep = 0;
+  if (study && study == study_ && !pending_ && error_.isEmpty() && results_.size() < study->solutions().size()) {
+    const int h = study->healthy_index();
+    if (h >= 0 && static_cast<size_t>(h) < results_.size()) keep = results_.size();
+  }
   study_ = std::move(study);
   stale_ = false;
   current_ = std::clamp(current_, 0, study_ ? static_cast<int>(study_->solutions().size()) - 1 : 0);
-  evaluate(false);
+  evaluate(false, keep);
   emit current_changed(current_);
 }
 
@@ -235,7 +242,7 @@ const analysis::ScenarioSolution* CaseSession::solution(int index) const {
 
 const analysis::ScenarioSolution* CaseSession::current_solution() const { return solution(current_); }
 
-void CaseSession::evaluate(bool interactive) {
+void CaseSession::evaluate(bool interactive, size_t keep) {
   if (!study_) return;
   const auto& solutions = study_->solutions();
   const int h = study_->healthy_index();
@@ -254,8 +261,10 @@ void CaseSession::evaluate(bool interactive) {
       pending_ = solutions.size() > 1;
       if (pending_) flush_timer_.start();
     } else {
-      std::vector<analysis::ScenarioResult> all;
-      for (const auto& s : solutions) all.push_back(analysis::evaluate(*s, spec_.load, spec_.thresholds, healthy));
+      keep = std::min(keep, results_.size());
+      std::vector<analysis::ScenarioResult> all(results_.begin(), results_.begin() + static_cast<std::ptrdiff_t>(keep));
+      for (size_t k = keep; k < solutions.size(); ++k)
+        all.push_back(analysis::evaluate(*solutions[k], spec_.load, spec_.thresholds, healthy));
       results_ = std::move(all);
       pending_ = false;
       reference_pending_ = false;

@@ -111,7 +111,8 @@ class CaseSession : public QObject {
   void adopt(analysis::CaseSpec spec);
   void modified();
   void geometry_edit();
-  void evaluate(bool interactive);
+  // keep: the first `keep` results are current (a grown study); only the others are evaluated.
+  void evaluate(bool interactive, size_t keep = 0);
   analysis::CaseSpec spec_with_load() const;
 
   analysis::CaseSpec spec_;
