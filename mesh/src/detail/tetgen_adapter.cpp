@@ -2,9 +2,10 @@
 //
 // TetGen 1.5 built with TETLIBRARY reports failures by throwing an int from terminatetetgen()
 // (1 out of memory, 2 internal error, 3 self-intersection, 4 tiny feature, 5 close facets,
-// 10 input error); they are mapped to MeshError here. TetGen's own assertions cannot be caught,
-// so the PLC is checked for the mistakes that would reach them (indices, degenerate triangles,
-// non-finite coordinates) before TetGen sees it.
+// 10 input error); they are mapped to MeshError here. TetGen's own assertions and crashes cannot
+// be caught, so the PLC is checked for the mistakes that would reach them (indices, degenerate
+// triangles, non-finite coordinates) before TetGen sees it, and TetGen runs in a child process
+// (child_process.h): if it crashes all the same, the caller gets a MeshError, not a dead program.
 #include <tetgen.h>
 
 #include <Eigen/Geometry>
@@ -13,6 +14,7 @@
 #include <array>
 #include <cmath>
 #include <cstdint>
+#include <cstring>
 #include <iomanip>
 #include <limits>
 #include <new>
@@ -22,6 +24,7 @@
 #include <vector>
 
 #include "sharpey/error.h"
+#include "sharpey/mesh/child_process.h"
 #include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
@@ -309,20 +312,17 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
   return mesh;
 }
 
-}  // namespace
-
-VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
-  check_options(options);
-  const Context ctx{plc, options.stage};
-  check_plc(ctx);
+// Runs TetGen on the checked input and converts its output (MeshError on failure).
+VolumeMesh run_tetgen(const Context& ctx, const TetgenOptions& options,
+                      std::vector<int>* point_node) {
   tetgenio in;
   tetgenio out;
   try {
-    fill_input(plc, in);
+    fill_input(ctx.plc, in);
   } catch (const std::bad_alloc&) {
     fail(ctx, "out of memory while copying the input");
   }
-  const std::string sw = switches(plc, options);
+  const std::string sw = switches(ctx.plc, options);
   std::vector<char> sw_buffer(sw.begin(), sw.end());
   sw_buffer.push_back('\0');
   if (!detail::tetgen_termination_fix_linked()) fail(ctx, "TetGen error handler missing");
@@ -334,7 +334,98 @@ VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vec
   } catch (const std::bad_alloc&) {
     fail(ctx, tetgen_reason(1));
   }
-  VolumeMesh linear = convert_output(ctx, out, point_node);
+  return convert_output(ctx, out, point_node);
+}
+
+// The child's report on its pipe: 'E' and the MeshError message, or 'M', the counts and the
+// linear mesh's arrays (4-node elements, 3-node faces) and point_node, as raw bytes (the parent is
+// the same program, so the layout matches).
+constexpr char kMeshReport = 'M', kErrorReport = 'E';
+
+template <class T>
+bool write_vector(int fd, const std::vector<T>& v) {
+  const std::uint64_t n = v.size();
+  return write_all(fd, &n, sizeof n) && write_all(fd, v.data(), n * sizeof(T));
+}
+
+int report_mesh(int fd, const Context& ctx, const TetgenOptions& options, bool want_point_node) {
+  std::vector<int> point_node;
+  try {
+    const VolumeMesh mesh = run_tetgen(ctx, options, want_point_node ? &point_node : nullptr);
+    const bool ok = write_all(fd, &kMeshReport, 1) && write_vector(fd, mesh.nodes) &&
+                    write_vector(fd, mesh.elements) && write_vector(fd, mesh.element_region) &&
+                    write_vector(fd, mesh.faces) && write_vector(fd, mesh.face_marker) &&
+                    write_vector(fd, point_node);
+    return ok ? 0 : 1;
+  } catch (const MeshError& e) {
+    const std::string what = e.what();
+    return write_all(fd, &kErrorReport, 1) && write_all(fd, what.data(), what.size()) ? 0 : 1;
+  }
+}
+
+// Reads one vector written by write_vector at `pos`; false if the report is too short.
+template <class T>
+bool read_vector(const std::string& report, size_t* pos, std::vector<T>* v) {
+  std::uint64_t n = 0;
+  if (report.size() - *pos < sizeof n) return false;
+  std::memcpy(&n, report.data() + *pos, sizeof n);
+  *pos += sizeof n;
+  if (n > (report.size() - *pos) / sizeof(T)) return false;
+  v->resize(static_cast<size_t>(n));
+  std::memcpy(static_cast<void*>(v->data()), report.data() + *pos, static_cast<size_t>(n) * sizeof(T));
+  *pos += static_cast<size_t>(n) * sizeof(T);
+  return true;
+}
+
+// TetGen in a child process (child_process.h): a crash inside it (TetGen 1.5 can end in a
+// segmentation fault when memory runs out part-way, and its internal assertions abort) becomes a
+// MeshError instead of ending the program. Falls back to running in this process when no child
+// can be started.
+VolumeMesh run_tetgen_isolated(const Context& ctx, const TetgenOptions& options,
+                               std::vector<int>* point_node) {
+  const ChildOutcome child = run_in_child(
+      [&](int fd) { return report_mesh(fd, ctx, options, point_node != nullptr); });
+  if (!child.started) return run_tetgen(ctx, options, point_node);
+  if (child.signal != 0) {
+    fail(ctx, "TetGen crashed (" + signal_name(child.signal) +
+                  "); TetGen does this when it runs out of memory part-way or on nearly "
+                  "degenerate geometry; close other programs, use a coarser mesh preset, or "
+                  "change the geometry slightly");
+  }
+  const std::string& report = child.output;
+  if (child.exit_code == 0 && !report.empty() && report[0] == kErrorReport) {
+    throw MeshError(report.substr(1));
+  }
+  VolumeMesh mesh;
+  mesh.nodes_per_element = 4;
+  mesh.nodes_per_face = 3;
+  std::vector<int> nodes_of_points;
+  size_t pos = 1;
+  const bool ok = child.exit_code == 0 && !report.empty() && report[0] == kMeshReport &&
+                  read_vector(report, &pos, &mesh.nodes) &&
+                  read_vector(report, &pos, &mesh.elements) &&
+                  read_vector(report, &pos, &mesh.element_region) &&
+                  read_vector(report, &pos, &mesh.faces) &&
+                  read_vector(report, &pos, &mesh.face_marker) &&
+                  read_vector(report, &pos, &nodes_of_points) && pos == report.size() &&
+                  mesh.elements.size() == 4 * mesh.element_region.size() &&
+                  mesh.faces.size() == 3 * mesh.face_marker.size();
+  if (!ok) {
+    fail(ctx, "TetGen's process ended without a complete result (exit code " +
+                  std::to_string(child.exit_code) + ", " + std::to_string(report.size()) +
+                  " bytes)");
+  }
+  if (point_node) *point_node = std::move(nodes_of_points);
+  return mesh;
+}
+
+}  // namespace
+
+VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
+  check_options(options);
+  const Context ctx{plc, options.stage};
+  check_plc(ctx);
+  VolumeMesh linear = run_tetgen_isolated(ctx, options, point_node);
   if (!options.second_order) return linear;
   return make_second_order(linear);
 }

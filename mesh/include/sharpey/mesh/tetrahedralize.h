@@ -55,7 +55,9 @@ struct TetgenOptions {
 // Throws InputError for malformed options, MeshError for a malformed PLC (index out of range,
 // degenerate triangle, marker count, missing or invalid seeds) and when TetGen fails (the message
 // names the stage, TetGen's reason, e.g. self-intersecting facets, and the input size), and when an
-// element lies in no seeded region.
+// element lies in no seeded region. TetGen runs in a forked child process (child_process.h), so a
+// crash or failed assertion inside TetGen also ends in a MeshError rather than ending the program
+// (in this process when no child can be started).
 VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options,
                           std::vector<int>* point_node = nullptr);
 
