@@ -215,11 +215,14 @@ void CaseSession::set_study(std::shared_ptr<const analysis::Study> study) {
     const int h = study->healthy_index();
     if (h >= 0 && static_cast<size_t>(h) < results_.size()) keep = results_.size();
   }
+  const bool grown = study && study == study_;
+  const int was = current_;
   study_ = std::move(study);
   stale_ = false;
   current_ = std::clamp(current_, 0, study_ ? static_cast<int>(study_->solutions().size()) - 1 : 0);
   evaluate(false, keep);
-  emit current_changed(current_);
+  // A grown study keeps the level on display: results_changed has already said what changed.
+  if (!grown || current_ != was) emit current_changed(current_);
 }
 
 void CaseSession::set_current(int index) {
