@@ -280,5 +280,50 @@ TEST_F(MainWindowTest, ABadCaseFileShowsTheLibraryMessage) {
   EXPECT_EQ(g_window->session().results().size(), 4u);  // the open case stays
 }
 
+// Waits for the window's next solve to end; true when it finished.
+bool wait_for_solve() {
+  bool done = false, failed = false;
+  const auto a = QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
+  const auto b = QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
+  const bool ended = QTest::qWaitFor([&]() { return done || failed; }, 600000);
+  QObject::disconnect(a);
+  QObject::disconnect(b);
+  return ended && done;
+}
+
+// These two solve again: defined last, so the tests above see the sample as first solved.
+TEST_F(MainWindowTest, ReopeningWhileSolvingDropsTheOldSolveAndSolvesTheNewCase) {
+  CaseSession& session = g_window->session();
+  g_window->solve();
+  ASSERT_TRUE(g_window->solving());
+  // The first level of this solve arrives; then the same file is opened again.
+  const analysis::Study* before = session.study();
+  ASSERT_TRUE(QTest::qWaitFor([&]() { return session.study() != before || !g_window->solving(); }, 600000));
+  ASSERT_TRUE(g_window->solving()) << "the solve ended before the test could reopen";
+  const analysis::Study* dropped = session.study();
+  bool old_levels_after_reopen = false;
+  const auto watch = QObject::connect(&session, &CaseSession::results_changed, [&]() {
+    if (session.study() == dropped) old_levels_after_reopen = true;
+  });
+  ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path()));
+  EXPECT_TRUE(session.results().empty());  // the new case shows nothing until its first level
+  ASSERT_TRUE(wait_for_solve()) << g_window->last_error().toStdString();
+  QObject::disconnect(watch);
+  EXPECT_FALSE(old_levels_after_reopen);
+  EXPECT_NE(session.study(), dropped);
+  EXPECT_EQ(session.results().size(), 4u);
+  EXPECT_FALSE(session.geometry_stale());
+}
+
+TEST_F(MainWindowTest, AGeometryEditDuringTheSolveLeavesTheResultsStale) {
+  CaseSession& session = g_window->session();
+  g_window->solve();
+  ASSERT_TRUE(g_window->solving());
+  session.set_pdl_width(0.25);  // while the levels are being solved
+  ASSERT_TRUE(wait_for_solve()) << g_window->last_error().toStdString();
+  EXPECT_EQ(session.results().size(), 4u);
+  EXPECT_TRUE(session.geometry_stale()) << "results of the old width shown as current";
+}
+
 }  // namespace
 }  // namespace sharpey::app

@@ -101,6 +101,7 @@ void CaseSession::adopt(analysis::CaseSpec spec) {
   pending_ = false;
   reference_pending_ = false;
   stale_ = true;
+  ++geometry_version_;
   error_.clear();
   flush_timer_.stop();
   emit case_replaced();
@@ -115,6 +116,7 @@ void CaseSession::modified() {
 void CaseSession::geometry_edit() {
   modified();
   stale_ = true;
+  ++geometry_version_;
   emit geometry_changed();
 }
 
@@ -207,7 +209,7 @@ void CaseSession::set_levels(const ScenarioList& levels) {
 
 bool CaseSession::set_compared(int level, bool on) { return levels_.set_compared(level, on); }
 
-void CaseSession::set_study(std::shared_ptr<const analysis::Study> study) {
+void CaseSession::set_study(std::shared_ptr<const analysis::Study> study, std::optional<int> solved_geometry) {
   // The same study grown by some levels (solved one by one): the levels already evaluated under
   // the current load keep their results when their healthy reference was already there.
   size_t keep = 0;
@@ -218,7 +220,7 @@ void CaseSession::set_study(std::shared_ptr<const analysis::Study> study) {
   const bool grown = study && study == study_;
   const int was = current_;
   study_ = std::move(study);
-  stale_ = false;
+  stale_ = solved_geometry && *solved_geometry != geometry_version_;
   current_ = std::clamp(current_, 0, study_ ? static_cast<int>(study_->solutions().size()) - 1 : 0);
   evaluate(false, keep);
   // A grown study keeps the level on display: results_changed has already said what changed.

@@ -73,13 +73,17 @@ class CaseSession : public QObject {
   bool set_compared(int level, bool on);
   // True when the case geometry differs from the solved study (or nothing is solved yet).
   bool geometry_stale() const { return stale_; }
+  // Counts geometry edits and case replacements (new, open, recover).
+  int geometry_version() const { return geometry_version_; }
 
   // ---- results ----
   // Takes a study solved from this case's geometry (from SolveJob) and evaluates it. The study may
   // hold only the levels solved so far (SolveJob::study()); call again with it each time it grows:
   // results() then has one entry per solved level, and equivalent forces stay -1 until the
   // healthy level is solved.
-  void set_study(std::shared_ptr<const analysis::Study> study);
+  // `solved_geometry`: geometry_version() when the solve started; when the geometry was edited
+  // since, the results are shown but marked stale.
+  void set_study(std::shared_ptr<const analysis::Study> study, std::optional<int> solved_geometry = std::nullopt);
   const analysis::Study* study() const { return study_.get(); }
   const std::vector<analysis::ScenarioResult>& results() const { return results_; }
   int current() const { return current_; }
@@ -120,6 +124,7 @@ class CaseSession : public QObject {
   LoadControls load_;
   ScenarioList levels_;
   bool stale_ = true;
+  int geometry_version_ = 0;
   std::shared_ptr<const analysis::Study> study_;
   std::vector<analysis::ScenarioResult> results_;
   int current_ = 0;

@@ -86,14 +86,16 @@ MainWindow::MainWindow(const MainWindowOptions& options)
   // Each bone level is shown as soon as it is solved; the level selector and the comparison list
   // the solved ones.
   connect(job_.get(), &SolveJob::level_solved, this, [this](int index, int count) {
-    session_->set_study(job_->study());
+    if (discard_job_) return;
+    session_->set_study(job_->study(), solve_geometry_);
     if (index + 1 < count)
       status_->setText(QStringLiteral("%1 of %2 bone levels shown; the others follow.").arg(index + 1).arg(count));
   });
   connect(job_.get(), &SolveJob::finished, this, [this]() {
+    if (end_discarded_job()) return;
     set_solving_ui(false);
     const auto study = job_->take_result();
-    if (study && session_->study() != study.get()) session_->set_study(study);
+    if (study && session_->study() != study.get()) session_->set_study(study, solve_geometry_);
     status_->setText(QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size()));
     emit solve_finished();
   });
@@ -106,11 +108,13 @@ MainWindow::MainWindow(const MainWindowOptions& options)
         .arg(study->spec().scenarios.size());
   };
   connect(job_.get(), &SolveJob::cancelled, this, [this, partial_note]() {
+    if (end_discarded_job()) return;
     set_solving_ui(false);
     status_->setText(QStringLiteral("Solve cancelled; ") + partial_note());
     emit solve_failed(QStringLiteral("cancelled"));
   });
   connect(job_.get(), &SolveJob::failed, this, [this, partial_note](const QString& kind, const QString& message) {
+    if (end_discarded_job()) return;
     set_solving_ui(false);
     status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note());
     show_error(QStringLiteral("Could not mesh and solve the case"),
@@ -359,6 +363,11 @@ void MainWindow::build_menus() {
 void MainWindow::connect_session() {
   CaseSession* s = session_.get();
   connect(s, &CaseSession::case_replaced, this, [this]() {
+    // A solve still running is of the old case: stop it and drop what it still delivers.
+    if (solving()) {
+      job_->cancel();
+      discard_job_ = true;
+    }
     case_panel_->reload();
     load_panel_->set_controls(session_->load_controls());
     result_view_->clear();
@@ -596,12 +605,29 @@ void MainWindow::closeEvent(QCloseEvent* event) {
 bool MainWindow::solving() const { return job_->running(); }
 
 void MainWindow::solve() {
-  if (solving()) return;
+  if (solving()) {
+    // The solve of a replaced case is stopping: this one starts when it has.
+    if (discard_job_) solve_again_ = true;
+    return;
+  }
   analysis::CaseSpec spec = session_->spec();
   spec.scenarios = session_->levels().scenarios();
+  solve_geometry_ = session_->geometry_version();
   if (!job_->start(spec)) return;
   set_solving_ui(true);
   status_->setText(QStringLiteral("Meshing and solving\u2026"));
+}
+
+bool MainWindow::end_discarded_job() {
+  if (!discard_job_) return false;
+  discard_job_ = false;
+  job_->take_result();
+  set_solving_ui(false);
+  if (solve_again_) {
+    solve_again_ = false;
+    solve();
+  }
+  return true;
 }
 
 void MainWindow::cancel_solve() {

@@ -125,6 +125,9 @@ class MainWindow : public QMainWindow {
                                   QMessageBox::StandardButtons buttons, QMessageBox::StandardButton fallback);
   QString force_text() const;
   void set_solving_ui(bool on);
+  // True (and the job's levels dropped, and a solve asked for meanwhile started) when the job that
+  // just ended belonged to a replaced case.
+  bool end_discarded_job();
   void apply_pending_load(bool interactive);
   void remember_recent(const QString& path);
 
@@ -156,6 +159,9 @@ class MainWindow : public QMainWindow {
   bool comparison_dirty_ = true;
   std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
   bool load_queued_ = false;
+  bool discard_job_ = false;  // the running solve is of a case since replaced: its levels are dropped
+  bool solve_again_ = false;  // solve() was asked for while such a solve was stopping
+  int solve_geometry_ = 0;    // the session's geometry_version() when the running solve started
 };
 
 // Folder of the bundled sample cases (SHARPEY_SAMPLES_DIR, the installed share folder, or the
