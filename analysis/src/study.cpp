@@ -27,6 +27,7 @@ void require_scenarios(const CaseSpec& spec) {
 // memory stays at one model being meshed plus the solved ones). Progress is reported from the
 // calling thread only.
 struct StudySolver::Ahead {
+  int index = 0;  // the scenario being meshed
   std::future<mesh::ToothModel> model;
 };
 
@@ -64,9 +65,13 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
   const auto overall = [&progress, n, k](const std::string& stage, double fraction) {
     if (progress) progress(stage, (k + fraction) / n);
   };
+  // A model meshed ahead for another scenario (the last call stopped while solving, before this
+  // scenario was done) is dropped: its destructor waits for the mesher.
+  if (ahead_ && ahead_->index != k) ahead_.reset();
   if (!ahead_) {
     if (cancelled()) throw Cancelled();
     ahead_ = std::make_unique<Ahead>();
+    ahead_->index = k;
     ahead_->model = start_meshing(k);
   }
   const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
@@ -79,6 +84,7 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
   if (cancelled()) throw Cancelled();
   if (k + 1 < n) {
     ahead_ = std::make_unique<Ahead>();
+    ahead_->index = k + 1;
     ahead_->model = start_meshing(k + 1);
   }
   const ProgressCallback local = [&](const std::string& stage, double fraction) {

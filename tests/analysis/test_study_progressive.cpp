@@ -208,6 +208,15 @@ TEST(LevelByLevelCalls, CancelBetweenAndDuringLevels) {
   // The solved level stays usable after the cancel.
   const ScenarioResult r = evaluate(*first, tipping_load(), spec.thresholds, nullptr);
   EXPECT_GT(r.pressure_max_compression_kpa, 0);
+  // Going on after the cancel solves the second level (not the third, meshed ahead meanwhile).
+  cancel = false;
+  const auto second = solver.solve_next();
+  ASSERT_TRUE(second);
+  EXPECT_EQ(second->scenario().name, spec.scenarios[1].name);
+  EXPECT_EQ(solver.solved_count(), 2);
+  const ScenarioSolution alone(spec, 1, {}, nullptr);
+  expect_same_result(evaluate(*second, tipping_load(), spec.thresholds, nullptr),
+                     evaluate(alone, tipping_load(), spec.thresholds, nullptr));
 }
 
 }  // namespace

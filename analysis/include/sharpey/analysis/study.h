@@ -252,7 +252,8 @@ class StudySolver {
   // Meshes (or takes the model meshed ahead) and solves the next scenario. progress(stage,
   // fraction): the stage prefixed "scenario k/n (name): " and the share of the whole case, as
   // Study's constructor reports it ("done", 1.0 after the last scenario). Throws InputError when
-  // done(), and otherwise as Study's constructor (Cancelled when *cancel becomes true).
+  // done(), and otherwise as Study's constructor (Cancelled when *cancel becomes true). After a
+  // throw the same scenario is next: calling again (e.g. with *cancel reset) solves it anew.
   std::unique_ptr<ScenarioSolution> solve_next(const ProgressCallback& progress = {});
 
  private:
