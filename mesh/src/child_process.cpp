@@ -8,6 +8,7 @@
 #include <cerrno>
 #include <csignal>
 #include <cstring>
+#include <mutex>
 #include <string>
 
 namespace sharpey::mesh {
@@ -38,6 +39,11 @@ std::string signal_name(int signal) {
   }
 }
 
+std::shared_mutex& fork_mutex() {
+  static std::shared_mutex mutex;
+  return mutex;
+}
+
 ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
   ChildOutcome outcome;
   int fds[2];
@@ -45,7 +51,11 @@ ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
     outcome.error = std::string("pipe() failed: ") + std::strerror(errno);
     return outcome;
   }
-  const pid_t pid = ::fork();
+  pid_t pid;
+  {
+    const std::unique_lock<std::shared_mutex> no_blas_call_running(fork_mutex());
+    pid = ::fork();
+  }
   if (pid < 0) {
     outcome.error = std::string("fork() failed: ") + std::strerror(errno);
     ::close(fds[0]);

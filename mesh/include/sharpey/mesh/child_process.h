@@ -5,6 +5,7 @@
 #pragma once
 
 #include <functional>
+#include <shared_mutex>
 #include <string>
 
 namespace sharpey::mesh {
@@ -24,6 +25,13 @@ struct ChildOutcome {
 // exists in the child, so `work` must not wait on other threads or locks they may hold (glibc's
 // malloc and stdio are safe across fork).
 ChildOutcome run_in_child(const std::function<int(int fd)>& work);
+
+// Guards fork() against threaded BLAS calls in other threads. OpenBLAS (its pthread build, Debian's
+// default) registers a pthread_atfork handler that shuts its thread pool down before every fork;
+// if another thread is inside a threaded BLAS call at that moment, the call or the fork can hang.
+// Code that calls BLAS (CHOLMOD's factorisation and solves, fem/solver.cpp) holds a shared lock for
+// the call; run_in_child holds the exclusive lock for the fork() itself only.
+std::shared_mutex& fork_mutex();
 
 // Writes all `size` bytes to `fd`, retrying after interruptions and partial writes; false on error.
 bool write_all(int fd, const void* data, size_t size);
