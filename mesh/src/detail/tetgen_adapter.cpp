@@ -372,7 +372,10 @@ bool read_vector(const std::string& report, size_t* pos, std::vector<T>* v) {
   *pos += sizeof n;
   if (n > (report.size() - *pos) / sizeof(T)) return false;
   v->resize(static_cast<size_t>(n));
-  std::memcpy(static_cast<void*>(v->data()), report.data() + *pos, static_cast<size_t>(n) * sizeof(T));
+  if (n > 0) {  // an empty vector's data() may be null, which memcpy must not get
+    std::memcpy(static_cast<void*>(v->data()), report.data() + *pos,
+                static_cast<size_t>(n) * sizeof(T));
+  }
   *pos += static_cast<size_t>(n) * sizeof(T);
   return true;
 }
