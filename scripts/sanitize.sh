@@ -31,7 +31,9 @@ if [ ! -f "$build/build.ninja" ]; then
     -DSHARPEY_SANITIZE=ON -DSHARPEY_BUILD_APP=OFF -DSHARPEY_WERROR=OFF >/dev/null
 fi
 # Build only what runs: sharpey-batch (started by the batch tests) and the test executables (their
-# ctest names are their target names), not the benchmarks.
+# ctest names are their target names), not the benchmarks. Configure again first, so test files
+# added since the last build are listed too.
+cmake "$build" >/dev/null
 mapfile -t tests < <(ctest --test-dir "$build" -N "$@" | sed -n 's/^ *Test *#[0-9]*: *//p')
 if [ ${#tests[@]} -eq 0 ]; then
   echo "sharpey: no test matches: $*" >&2
