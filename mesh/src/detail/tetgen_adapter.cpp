@@ -15,6 +15,7 @@
 #include <cmath>
 #include <cstdint>
 #include <cstring>
+#include <exception>
 #include <iomanip>
 #include <limits>
 #include <new>
@@ -68,8 +69,12 @@ std::string tetgen_reason(int code) {
   }
 }
 
+std::string failure_text(const Context& ctx, const std::string& what) {
+  return ctx.stage + ": " + what + " (input: " + size_text(ctx.plc) + ")";
+}
+
 [[noreturn]] void fail(const Context& ctx, const std::string& what) {
-  throw MeshError(ctx.stage + ": " + what + " (input: " + size_text(ctx.plc) + ")");
+  throw MeshError(failure_text(ctx, what));
 }
 
 void check_options(const TetgenOptions& o) {
@@ -357,8 +362,11 @@ int report_mesh(int fd, const Context& ctx, const TetgenOptions& options, bool w
                     write_vector(fd, mesh.faces) && write_vector(fd, mesh.face_marker) &&
                     write_vector(fd, point_node);
     return ok ? 0 : 1;
-  } catch (const MeshError& e) {
-    const std::string what = e.what();
+  } catch (const std::exception& e) {
+    // MeshError as it is; out of memory outside TetGen's own checks (converting its output) as
+    // TetGen's out-of-memory failure.
+    const bool memory = dynamic_cast<const std::bad_alloc*>(&e) != nullptr;
+    const std::string what = memory ? failure_text(ctx, tetgen_reason(1)) : std::string(e.what());
     return write_all(fd, &kErrorReport, 1) && write_all(fd, what.data(), what.size()) ? 0 : 1;
   }
 }
