@@ -1,8 +1,10 @@
 #include "sharpey/mesh/child_process.h"
 
+#include <fcntl.h>
+#include <sys/prctl.h>
+#include <sys/syscall.h>
 #include <sys/types.h>
 #include <sys/wait.h>
-#include <fcntl.h>
 #include <unistd.h>
 
 #include <cerrno>
@@ -51,6 +53,7 @@ ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
     outcome.error = std::string("pipe() failed: ") + std::strerror(errno);
     return outcome;
   }
+  const pid_t parent = ::getpid();
   pid_t pid;
   {
     const std::unique_lock<std::shared_mutex> no_blas_call_running(fork_mutex());
@@ -64,6 +67,12 @@ ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
   }
   if (pid == 0) {
     ::close(fds[0]);
+    // The child ends with the parent (killed, or stopped by Ctrl-C): no orphan keeps meshing.
+    ::prctl(PR_SET_PDEATHSIG, SIGKILL);
+    if (::getppid() != parent) {
+      ::syscall(SYS_exit_group, 125);
+      ::_exit(125);  // not reached
+    }
     // A crash ends the child by its signal, for the parent to report: no handler installed by
     // the program or a sanitizer runtime turns it into something else.
     for (const int sig : {SIGSEGV, SIGBUS, SIGFPE, SIGILL, SIGABRT}) std::signal(sig, SIG_DFL);
@@ -73,7 +82,11 @@ ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
     } catch (...) {
       code = 126;
     }
-    ::_exit(code);
+    // The exit system call itself, not _exit(): sanitizer runtimes intercept _exit() to run
+    // their exit-time checks, which need locks another thread of the parent may have held at
+    // the fork.
+    ::syscall(SYS_exit_group, code);
+    ::_exit(code);  // not reached
   }
   outcome.started = true;
   ::close(fds[1]);

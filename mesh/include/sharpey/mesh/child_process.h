@@ -19,8 +19,10 @@ struct ChildOutcome {
 };
 
 // Runs `work(fd)` in a child made by fork(); the work writes its result to `fd` (write_all) and
-// returns an exit code (0 to 125). The child never returns into the caller's code: it ends with
-// _exit() after `work`, and an exception escaping `work` ends it with code 126. The parent reads
+// returns an exit code (0 to 124). The child never returns into the caller's code: it ends with
+// the exit system call after `work`, and an exception escaping `work` ends it with code 126; it
+// is killed when the thread that started it ends (Linux PR_SET_PDEATHSIG), so it never outlives
+// the program. The parent reads
 // everything written, waits for the child and returns how it ended. Only the calling thread
 // exists in the child, so `work` must not wait on other threads or locks they may hold (glibc's
 // malloc and stdio are safe across fork).
