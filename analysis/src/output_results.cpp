@@ -157,6 +157,15 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
   j["apex_displacement_vector_um"] = vec(r.apex_displacement_um);
   j["rotation_deg"] = vec(r.rotation_deg);
   j["rigid_fit_rms_um"] = number(r.rigid_fit_rms_um);
+  j["linear_range"] = {
+      {"strain_limit", number(kLinearRangeStrainLimit)},
+      {"strain_limit_source",
+       "bilinear PDL fits change slope near 7.5 % strain (from memory: Poppe, Bourauel, Jaeger "
+       "2002, J Orofac Orthop 63:358)"},
+      {"max_abs_principal_strain", number(r.max_abs_principal_strain)},
+      {"beyond", r.beyond_linear_range},
+      {"volume_beyond_percent", number(r.volume_beyond_linear_range_percent)},
+      {"note", beyond_linear_range_text(r)}};
   j["equivalent_force"] = {{"same_peak_g", optional_force(r.equivalent_force_peak_g)},
                            {"same_p95_g", optional_force(r.equivalent_force_p95_g)},
                            {"attachment_area_rule_g", optional_force(r.equivalent_force_area_rule_g)},

@@ -100,6 +100,7 @@ std::string reading(const CaseSpec& spec, const ScenarioResult& r, bool is_refer
       << fixed(r.equivalent_force_peak_g, 0) << " g (same 95th percentile: "
       << fixed(r.equivalent_force_p95_g, 0) << " g; attachment-area rule: "
       << fixed(r.equivalent_force_area_rule_g, 0) << " g).";
+  if (r.beyond_linear_range) s << " " << beyond_linear_range_text(r);
   return s.str();
 }
 
@@ -165,6 +166,10 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
       {"area > limit (mm^2)", [](const ScenarioResult& r) { return fixed(r.area_above_limit_mm2, 2); }},
       {"max principal strain (%)",
        [](const ScenarioResult& r) { return fixed(100.0 * r.max_principal_strain, 3); }},
+      {"max |principal strain| (%)",
+       [](const ScenarioResult& r) { return fixed(100.0 * r.max_abs_principal_strain, 3); }},
+      {"PDL vol. > linear range (%)",
+       [](const ScenarioResult& r) { return fixed(r.volume_beyond_linear_range_percent, 2); }},
       {"crown tip displacement (um)",
        [](const ScenarioResult& r) { return fixed(r.crown_tip_displacement_um.norm(), 2); }},
       {"apex displacement (um)",

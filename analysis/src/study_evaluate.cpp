@@ -5,6 +5,7 @@
 #include "sharpey/analysis/detail/equivalent_force.h"
 #include "sharpey/analysis/detail/evaluation.h"
 #include "sharpey/analysis/detail/load_resolution.h"
+#include "sharpey/analysis/detail/pdl_regions.h"
 #include "sharpey/analysis/detail/rigid_motion.h"
 #include "sharpey/analysis/detail/root_map.h"
 #include "sharpey/analysis/detail/root_surface.h"
@@ -66,25 +67,29 @@ PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadS
                            pdl_crest_edge_band(solution));
 }
 
+// Cells of the root map inside the edge band: the nodal band indicator interpolated like the
+// pressure, at least one half.
+std::vector<char> root_map_edge_band(const ScenarioSolution& solution, const std::vector<char>& band) {
+  Eigen::VectorXd indicator(static_cast<Eigen::Index>(band.size()));
+  for (size_t i = 0; i < band.size(); ++i) indicator(static_cast<Eigen::Index>(i)) = band[i];
+  const RootMap map = solution.root_map_sampler().sample(indicator);
+  std::vector<char> cells(map.pressure_kpa.size(), 0);
+  for (size_t i = 0; i < cells.size(); ++i) cells[i] = map.pressure_kpa[i] >= 0.5 ? 1 : 0;
+  return cells;
+}
+
 }  // namespace
 
-// 1 for the PDL nodes (order of ScenarioSolution::pdl_nodes()) that lie less than one PDL width
-// (the crest width of the case) below the attachment level at their angle: the band next to the
-// PDL's free edge. Where the free top of the ligament meets the root and the socket wall, the
+// The band next to the PDL's free surface (the top of the ligament at the crest and along an
+// angular defect's walls). Where that free surface meets the root and the socket wall, the
 // linear-elastic stresses are singular (a bonded corner of a nearly incompressible layer), so
 // nodal maxima there grow without bound as the mesh is refined (docs/analyses.md, "Peaks and the
 // crest edge"). The reported maxima leave the band out; the band's own peak is reported apart.
-std::vector<char> pdl_crest_edge_band(const ScenarioSolution& solution) {
-  const mesh::ToothModel& model = solution.model();
-  const double depth = model.spec.pdl.crest_width_mm;
-  const std::vector<int>& nodes = solution.pdl_nodes();
-  std::vector<char> band(nodes.size(), 0);
-  for (size_t i = 0; i < nodes.size(); ++i) {
-    const Eigen::Vector3d& x = model.mesh.nodes[static_cast<size_t>(nodes[i])];
-    const double level = mesh::attachment_level_z_mm(model.spec, std::atan2(x.y(), x.x()));
-    band[i] = x.z() > level - depth ? 1 : 0;
-  }
-  return band;
+// Measured in 3D rather than straight down from the crest, so that a defect's steep walls get a
+// band of the same width as the crest (issue found on an angular defect: a vertical measure left
+// a band of a few hundredths of a millimetre along the walls and the peaks did not converge).
+const std::vector<char>& pdl_crest_edge_band(const ScenarioSolution& solution) {
+  return solution.pdl_edge_band();
 }
 
 namespace detail {
@@ -115,9 +120,9 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
 
   const Eigen::VectorXd u = solution.basis().displacement(r.load.force_n, r.load.moment_nmm);
   r.displacement_mm = Eigen::Map<const Eigen::Matrix3Xd>(u.data(), 3, u.size() / 3);
-  r.rigid_fit_rms_um =
-      1000.0 * detail::fit_rigid_motion(solution.model().mesh.nodes, u, solution.tooth_nodes())
-                   .rms_residual_mm;
+  r.rigid_fit_rms_um = 1000.0 * detail::fit_rigid_motion(solution.model().mesh.nodes, u,
+                                                         solution.embedded_root_nodes())
+                                    .rms_residual_mm;
 
   // PDL fields per node.
   const fem::RegionField field = solution.basis().region_field(r.load.force_n, r.load.moment_nmm);
@@ -127,13 +132,16 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   r.max_principal_strain_field.resize(static_cast<size_t>(n));
   r.equivalent_strain_field.resize(static_cast<size_t>(n));
   r.von_mises_kpa.resize(static_cast<size_t>(n));
+  std::vector<double> strain_magnitude(static_cast<size_t>(n));
   for (Eigen::Index i = 0; i < n; ++i) {
     const auto k = static_cast<size_t>(i);
-    r.max_principal_strain_field[k] = fem::principal_strains(field.strain.col(i))(0);
+    const Eigen::Vector3d principal = fem::principal_strains(field.strain.col(i));
+    r.max_principal_strain_field[k] = principal(0);
+    strain_magnitude[k] = std::max(std::abs(principal(0)), std::abs(principal(2)));
     r.equivalent_strain_field[k] = fem::equivalent_strain(field.strain.col(i));
     r.von_mises_kpa[k] = 1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
   }
-  const std::vector<char> band = pdl_crest_edge_band(solution);
+  const std::vector<char>& band = pdl_crest_edge_band(solution);
   if (n > 0) {
     double edge_peak = 0;
     max_outside_band(p, band, &edge_peak);
@@ -142,6 +150,10 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     r.max_principal_strain = max_outside_band(r.max_principal_strain_field, band);
     r.max_equivalent_strain = max_outside_band(r.equivalent_strain_field, band);
     r.max_von_mises_kpa = max_outside_band(r.von_mises_kpa, band);
+    r.max_abs_principal_strain = max_outside_band(strain_magnitude, band);
+    r.beyond_linear_range = r.max_abs_principal_strain > kLinearRangeStrainLimit;
+    r.volume_beyond_linear_range_percent = solution.pdl_elements().volume_percent_above(
+        strain_magnitude, kLinearRangeStrainLimit, band);
   }
   const detail::RootSurfaceSampler& surface = solution.root_surface();
   const Eigen::VectorXd sampled = surface.sample(p);
@@ -172,6 +184,7 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
         force_g, r.attachment_area_mm2, healthy->attachment_area_mm2());
   }
   r.root_map = solution.root_map_sampler().sample(p);
+  r.root_map.edge_band = root_map_edge_band(solution, band);
   return r;
 }
 

@@ -4,6 +4,7 @@
 
 #include "sharpey/analysis/detail/centre_of_resistance.h"
 #include "sharpey/analysis/detail/load_resolution.h"
+#include "sharpey/analysis/detail/pdl_regions.h"
 #include "sharpey/analysis/detail/rigid_motion.h"
 #include "sharpey/analysis/detail/root_map.h"
 #include "sharpey/analysis/detail/root_surface.h"
@@ -125,17 +126,15 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   check_cancel(cancel);
   report(progress, "post-processing", 0.9);
 
-  for (int e = 0; e < m.n_elements(); ++e) {
-    if (m.element_region[static_cast<size_t>(e)] != mesh::kTooth) continue;
-    tooth_nodes_.insert(tooth_nodes_.end(), m.element(e), m.element(e) + m.nodes_per_element);
-  }
-  std::sort(tooth_nodes_.begin(), tooth_nodes_.end());
-  tooth_nodes_.erase(std::unique(tooth_nodes_.begin(), tooth_nodes_.end()), tooth_nodes_.end());
+  embedded_root_nodes_ = detail::embedded_root_nodes(model_);
+  edge_band_ = detail::free_edge_band(model_, pdl_nodes());
+  pdl_elements_ = std::make_unique<detail::PdlElementTable>(m, pdl_nodes());
 
   load_context_ = std::make_unique<detail::LoadContext>();
   detail::LoadContext& c = *load_context_;
   c.response =
-      detail::rigid_response(m.nodes, basis_->unit_displacements(), tooth_nodes_, g.bracket_center);
+      detail::rigid_response(m.nodes, basis_->unit_displacements(), embedded_root_nodes_,
+                             g.bracket_center);
   c.cres_x_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitX());
   c.cres_y_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitY());
   c.crown_tip_z_mm = g.crown_tip.z();

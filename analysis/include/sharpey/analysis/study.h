@@ -21,12 +21,18 @@ namespace sharpey::analysis {
 namespace detail {
 struct LoadContext;
 struct RigidResponse;
+struct PdlElementTable;
 class RootSurfaceSampler;
 class RootMapSampler;
 }  // namespace detail
 
 // progress(stage, fraction in [0, 1]): a short stage name and the share of the work done.
 using ProgressCallback = std::function<void(const std::string& stage, double fraction)>;
+
+// Strain up to which the linear-elastic ligament is taken as valid: published bilinear fits of
+// the PDL change slope at about 7.5 % strain (from memory: Poppe, Bourauel, Jaeger 2002, J Orofac
+// Orthop 63:358; check-values.md sections 1 and 12). Dimensionless.
+constexpr double kLinearRangeStrainLimit = 0.075;
 
 // Centre of resistance for forces along one direction (labiolingual x or mesiodistal y): the point
 // on the long axis where a force along that direction translates the tooth without rotating it
@@ -83,7 +89,15 @@ class ScenarioSolution {
   const CentreOfResistance& cres_labiolingual() const { return cres_x_; }
   const CentreOfResistance& cres_mesiodistal() const { return cres_y_; }
   const std::vector<int>& pdl_nodes() const;  // global node ids of the PDL region
-  const std::vector<int>& tooth_nodes() const { return tooth_nodes_; }  // used by the rigid fit
+  // Global node ids of the embedded root: tooth nodes below the attachment level at their angle
+  // around the long axis (below the crest, and below the defect floor inside an angular defect).
+  // The tooth's rigid motion (centre of resistance, centre of rotation, displacements) is fitted
+  // to these nodes only, so crown bending does not move the centre of resistance.
+  const std::vector<int>& embedded_root_nodes() const { return embedded_root_nodes_; }
+  // 1 for the PDL nodes (order of pdl_nodes()) closer than one PDL width (the crest width) to the
+  // ligament's free surface (mesh::kPdlCrest faces: its top at the crest and along the walls of
+  // an angular defect), measured in 3D; see pdl_crest_edge_band().
+  const std::vector<char>& pdl_edge_band() const { return edge_band_; }
   // Root surface (tooth/PDL interface) area integrated on the mesh, mm^2.
   double attachment_area_mm2() const;
 
@@ -92,6 +106,7 @@ class ScenarioSolution {
   const detail::RigidResponse& rigid_response() const;
   const detail::RootSurfaceSampler& root_surface() const { return *root_surface_; }
   const detail::RootMapSampler& root_map_sampler() const { return *root_map_; }
+  const detail::PdlElementTable& pdl_elements() const { return *pdl_elements_; }
 
  private:
   void solve(const CaseSpec& spec, const ProgressCallback& progress,
@@ -104,10 +119,12 @@ class ScenarioSolution {
   fem::SolverStatistics solver_statistics_;
   std::unique_ptr<fem::UnitLoadBasis> basis_;
   CentreOfResistance cres_x_, cres_y_;
-  std::vector<int> tooth_nodes_;
+  std::vector<int> embedded_root_nodes_;
+  std::vector<char> edge_band_;
   std::unique_ptr<detail::LoadContext> load_context_;
   std::unique_ptr<detail::RootSurfaceSampler> root_surface_;
   std::unique_ptr<detail::RootMapSampler> root_map_;
+  std::unique_ptr<detail::PdlElementTable> pdl_elements_;
 };
 
 // A force system resolved to a force and a couple at the bracket centre.
@@ -137,6 +154,10 @@ struct RootMap {
   int n_angle = 0, n_depth = 0;
   double depth_min_mm = 0, depth_max_mm = 0;
   std::vector<double> pressure_kpa;  // n_depth rows * n_angle columns, row-major
+  // 1 for the cells in the band next to the ligament's free surface (pdl_crest_edge_band(): the
+  // band indicator interpolated to the cell is at least one half), where the pressure is
+  // mesh-dependent; same layout as pressure_kpa. Empty when not computed.
+  std::vector<char> edge_band;
 };
 
 struct ScenarioResult {
@@ -167,11 +188,22 @@ struct ScenarioResult {
   // Over the PDL nodes outside the edge band, like the pressure peaks.
   double max_principal_strain = 0, max_equivalent_strain = 0;
   double max_von_mises_kpa = 0;
-  // Of the tooth's fitted rigid motion at the crown tip and the apex, micrometres.
+  // Validity of the linear-elastic ligament. Published bilinear fits of the ligament change slope
+  // at about 7.5 % strain (kLinearRangeStrainLimit); beyond it the linear model's stresses are
+  // indicative only. max_abs_principal_strain: the largest principal strain magnitude
+  // (tension or compression) over the PDL nodes outside the edge band; beyond_linear_range when it
+  // exceeds the limit; the share of the PDL volume (elements outside the edge band whose mean
+  // nodal principal strain magnitude exceeds the limit) in percent of the whole PDL volume.
+  double max_abs_principal_strain = 0;
+  bool beyond_linear_range = false;
+  double volume_beyond_linear_range_percent = 0;
+  // Of the embedded root's fitted rigid motion (ScenarioSolution::embedded_root_nodes()) at the
+  // crown tip and the apex, micrometres: crown bending is not included.
   Eigen::Vector3d crown_tip_displacement_um = Eigen::Vector3d::Zero();
   Eigen::Vector3d apex_displacement_um = Eigen::Vector3d::Zero();
-  Eigen::Vector3d rotation_deg = Eigen::Vector3d::Zero();  // rigid-body rotation of the tooth
-  double rigid_fit_rms_um = 0;  // misfit of the rigid motion over the tooth nodes (tooth bending)
+  Eigen::Vector3d rotation_deg = Eigen::Vector3d::Zero();  // rigid-body rotation of the root
+  // Misfit of the rigid motion over the embedded root's nodes (root bending), micrometres.
+  double rigid_fit_rms_um = 0;
   // Same direction and moment-to-force ratio; -1 when no healthy reference scenario exists.
   double equivalent_force_peak_g = -1;
   double equivalent_force_p95_g = -1;
@@ -184,10 +216,11 @@ struct ScenarioResult {
   RootMap root_map;
 };
 
-// 1 for the PDL nodes (order of ScenarioSolution::pdl_nodes()) less than one PDL width (the crest
-// width) below the attachment level at their angle: the band next to the ligament's free edge
-// that the reported maxima leave out (ScenarioResult::pressure_max_compression_kpa).
-std::vector<char> pdl_crest_edge_band(const ScenarioSolution& solution);
+// 1 for the PDL nodes (order of ScenarioSolution::pdl_nodes()) closer than one PDL width (the
+// crest width) to the ligament's free surface, in 3D (the top of the ligament at the crest and
+// along an angular defect's walls): the band next to the free edge that the reported maxima leave
+// out (ScenarioResult::pressure_max_compression_kpa). Computed once per scenario.
+const std::vector<char>& pdl_crest_edge_band(const ScenarioSolution& solution);
 
 // Evaluates one scenario under `load`. `healthy` (may be null) is the reference for the
 // equivalent force. No new solve: superposition of the unit cases.
@@ -266,5 +299,10 @@ class StudySolver {
 
 // The caution every output carries.
 const std::string& caution_text();
+
+// The flag every output shows beside a scenario whose ligament strain leaves the linear range
+// (ScenarioResult::beyond_linear_range): "Beyond the linear range: ... pressures indicative only."
+// with the strain reached and the volume share; empty when the scenario is within the range.
+std::string beyond_linear_range_text(const ScenarioResult& result);
 
 }  // namespace sharpey::analysis
