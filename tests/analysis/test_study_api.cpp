@@ -2,6 +2,8 @@
 // progress, consistency with a direct solve, and the bookkeeping of the reported quantities.
 #include <gtest/gtest.h>
 
+#include <cstdio>
+
 #include <cmath>
 #include <memory>
 
@@ -104,8 +106,18 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
     p_max = std::max(p_max, p);
   }
   EXPECT_NEAR(r.pressure_max_compression_kpa, p_max, 1e-9 * p_max);
-  // The crown tip's displacement from the root's rigid fit against the field at the nearest tooth
-  // node (the crown's own bending is a small part of it).
+  // The crown tip's displacement is the embedded root's rigid motion carried to the tip: the same
+  // fit of the direct solve's field gives the same value (two computations: superposed unit-case
+  // fits against one fit of the combined field; exact by linearity, round-off tolerance).
+  const detail::RigidMotion direct_fit =
+      detail::fit_rigid_motion(m.nodes, u, s.embedded_root_nodes());
+  const Eigen::Vector3d tip_rigid_um = 1000.0 * direct_fit.displacement_at(s.model().geometry.crown_tip);
+  EXPECT_NEAR((r.crown_tip_displacement_um - tip_rigid_um).norm(), 0,
+              1e-6 * r.crown_tip_displacement_um.norm());
+  // Against the field at the nearest tooth node: the crown's own bending (not in the rigid motion)
+  // and the node's distance from the tip make up the difference. Observed here: 6.5 % of the
+  // tip's displacement; bound 15 % (observed, a regression guard: a wrong fit set, e.g. the crown
+  // only, or a sign error gives tens of percent).
   int nearest = -1;
   double best = 1e300;
   for (int e = 0; e < m.n_elements(); ++e) {
@@ -120,9 +132,13 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
     }
   }
   const Eigen::Vector3d tip_node_um = 1000.0 * u.segment<3>(3 * nearest);
-  EXPECT_NEAR((r.crown_tip_displacement_um - tip_node_um).norm(), 0,
-              0.05 * r.crown_tip_displacement_um.norm() +
-                  1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
+  const double bending = (r.crown_tip_displacement_um - tip_node_um).norm();
+  std::printf("crown tip: rigid motion of the root %.4f um, nearest node (%.3f mm away) %.4f um, "
+              "difference %.1f %%\n",
+              r.crown_tip_displacement_um.norm(), best, tip_node_um.norm(),
+              100 * bending / r.crown_tip_displacement_um.norm());
+  EXPECT_LT(bending, 0.15 * r.crown_tip_displacement_um.norm() +
+                         1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
 }
 
 // The tooth is nearly rigid: the fitted rigid motion explains the tooth's displacement.
