@@ -403,6 +403,7 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   Eigen::MatrixXd U = prescribed.replicate(1, m);
   if (m == 0) return U;
   if (!F.allFinite()) throw InputError("f", "the load vector contains a non-finite value");
+  ++stats.n_solves;
   const Eigen::VectorXd K_prescribed = K * prescribed;
   std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
   if (nf > 0) {

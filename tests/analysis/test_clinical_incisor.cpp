@@ -24,16 +24,19 @@ class IncisorBoneLoss : public ::testing::Test {
 };
 std::unique_ptr<Study> IncisorBoneLoss::study_;
 
-// source: Poppe, Bourauel, Jaeger 2002, J Orofac Orthop 63:358, and review figures (check-values.md
-// section 7, pub): CRes of a healthy single-rooted tooth 33 to 42 % of the embedded root apical to
-// the crest; accepted here 30 to 45 %.
+// Healthy CRes 33 to 42 % of the embedded root apical to the crest, both force directions.
+// Bound: published range, not widened. The range is common practice (the figure orthodontic texts
+// quote for a single-rooted tooth; no single source read here); its upper end matches source:
+// Poppe, Bourauel, Jaeger 2002, J Orofac Orthop 63:358 (about 42 % of the alveolar height;
+// check-values.md section 7). Measured 38.1 % (labiolingual) and 37.7 % (mesiodistal) on 2026-12-02
+// with the whole-tooth rigid fit.
 TEST_F(IncisorBoneLoss, HealthyCentreOfResistance) {
   const ScenarioSolution& h = *study_->solutions()[0];
   for (const CentreOfResistance* c : {&h.cres_labiolingual(), &h.cres_mesiodistal()}) {
     std::cout << "healthy CRes " << c->from_crest_mm << " mm below the crest, "
               << 100 * c->fraction_embedded << " % of the embedded root\n";
-    EXPECT_GE(c->fraction_embedded, 0.30);
-    EXPECT_LE(c->fraction_embedded, 0.45);
+    EXPECT_GE(c->fraction_embedded, 0.33);                       // published (see above)
+    EXPECT_LE(c->fraction_embedded, 0.42);                       // published (see above)
     EXPECT_NEAR(c->from_cej_mm - c->from_crest_mm, 1.5, 1e-12);  // healthy crest 1.5 mm below CEJ
   }
 }
@@ -42,16 +45,11 @@ TEST_F(IncisorBoneLoss, HealthyCentreOfResistance) {
 // secondary copy): "Bone loss causes center of resistance movement toward the apex, but its
 // relative distance to the alveolar crest decreases at the same time." Checked as stated: with
 // every step of loss the CRes lies further below the CEJ and at a smaller fraction of the
-// remaining embedded root, for both force directions.
-// Acceptance 2 adds a bound: the fraction stays within 5 points of the healthy one (Geramy 2000;
-// Poppe et al. 2002, check-values.md section 7: "a similar fraction"). Those studies load the
-// incisor labiolingually (from memory), and labiolingually the bound holds (4.5 points at 6 mm).
-// Mesiodistally the fraction falls 5.9 points at 6 mm, the same on the coarse, standard and fine
-// presets: the wider mesiodistal section with the same taper profile (a thin-layer estimate over
-// the exact outline agrees, test_study_cres_outline.cpp). The taper (tooth.dimensions.
-// root_taper_fullness, default 1.6) is pinned only by the root's published area, and the drift
-// follows it (docs/analyses.md section 8.2). Bounded here at 7 points mesiodistally: it does NOT
-// meet the 5-point bound, and the docs say so.
+// remaining embedded root, for both force directions. No bound on how far the fraction falls:
+// none is published (an earlier 5-point bound was recalled from memory and is withdrawn). How far
+// it falls is set by the root's outline; that the finite-element drift stays within 1.5 points of
+// the thin-layer estimate over the same outline (derived) is asserted in
+// test_study_cres_outline.cpp (IncisorTaperProfile: default materials, 6 mm loss).
 TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
   const auto& s = study_->solutions();
   for (size_t k = 1; k < s.size(); ++k) {
@@ -62,17 +60,24 @@ TEST_F(IncisorBoneLoss, CentreOfResistanceMovesApically) {
       const auto& healthy = dir == 0 ? s[0]->cres_labiolingual() : s[0]->cres_mesiodistal();
       std::cout << s[k]->scenario().name << (dir == 0 ? " x" : " y") << ": CRes " << cur.from_cej_mm
                 << " mm below the CEJ, " << 100 * cur.fraction_embedded
-                << " % of the remaining embedded root\n";
-      EXPECT_GT(cur.from_cej_mm, prev.from_cej_mm);
-      EXPECT_LT(cur.fraction_embedded, prev.fraction_embedded);
-      EXPECT_NEAR(cur.fraction_embedded, healthy.fraction_embedded, dir == 0 ? 0.05 : 0.07);
+                << " % of the remaining embedded root ("
+                << 100 * (cur.fraction_embedded - healthy.fraction_embedded)
+                << " points from healthy)\n";
+      EXPECT_GT(cur.from_cej_mm, prev.from_cej_mm);              // source: Geramy 2000
+      EXPECT_LT(cur.fraction_embedded, prev.fraction_embedded);  // source: Geramy 2000
     }
   }
 }
 
-// source: Geramy 2000 (check-values.md section 7 and 8, pub): same force, more loss: the peak
-// compressive pressure and the moment-to-force ratio for translation rise, the equivalent force
-// falls. Checked for a tipping force and for translation.
+// Same force, more loss. Each trend with its source:
+//  - the peak and 95th-percentile compressive pressure rise: source: Geramy 2002, Eur J Orthod
+//    24:21 (check-values.md section 8: PDL stress rises several-fold with 8 mm of loss for
+//    tipping);
+//  - the moment-to-force ratio for translation rises: derived from the CRes moving apically
+//    (source: Geramy 2000, Am J Orthod Dentofacial Orthop 117:399; check-values.md section 7);
+//  - the equivalent force and the attachment area fall: common practice (reduce the force with the
+//    lost attachment, check-values.md section 8); the equivalent force is derived from the peaks.
+// Checked for a tipping force and for translation.
 TEST_F(IncisorBoneLoss, MoreLossMorePressure) {
   for (const auto preset : {MovementPreset::kUncontrolledTipping, MovementPreset::kTranslation}) {
     SCOPED_TRACE(to_string(preset));
@@ -138,18 +143,27 @@ TEST_F(IncisorBoneLoss, LinearScalingAndEquivalentForce) {
 }
 
 // Acceptance 6: a 100 g translation of the healthy incisor gives a peak compression in the kPa
-// range. source: Moga et al. 2023, Int J Environ Res Public Health 20:1889 (check-values.md
-// section 8, pub): an intact lower second premolar keeps 0.6 to 1.2 N below 16 kPa, so about 1 N
-// (100 g) should give some kPa to a few tens of kPa, not Pa or MPa.
+// range. Bound: widened, an order-of-magnitude check. source: Moga et al. 2023, Int J Environ Res
+// Public Health 20:1889 (check-values.md section 8, pub): an intact lower second premolar keeps
+// 0.6 to 1.2 N below 16 kPa, i.e. (taking the range's ends as the force at 16 kPa) 13 to 27 kPa per
+// newton at the peak. That is another tooth, movement mix and model, and this incisor's 100 g
+// translation gives 8.9 kPa (measured 2026-12-02), under that range; so the bound is 1 to 100
+// kPa, about a decade under the published level and four times over it (widened: different tooth
+// and model; it tells kPa from Pa or MPa, i.e. a units or scaling error, and nothing finer). The
+// premolar of the study itself is compared in test_clinical_premolar.cpp.
 TEST_F(IncisorBoneLoss, TranslationPressureIsInTheKilopascalRange) {
   const std::vector<ScenarioResult> r =
       study_->evaluate(lingual_g(100, MovementPreset::kTranslation));
   std::cout << "100 g translation, healthy: peak compression " << r[0].pressure_max_compression_kpa
             << " kPa, p95 " << r[0].pressure_p95_compression_kpa << " kPa, peak tension "
             << r[0].pressure_max_tension_kpa << " kPa\n";
-  EXPECT_GT(r[0].pressure_max_compression_kpa, 1.0);
-  EXPECT_LT(r[0].pressure_max_compression_kpa, 100.0);
-  EXPECT_GT(r[0].pressure_p95_compression_kpa, 0.5);
+  EXPECT_GT(r[0].pressure_max_compression_kpa, 1.0);    // widened (see above)
+  EXPECT_LT(r[0].pressure_max_compression_kpa, 100.0);  // widened (see above)
+  // Translation loads the ligament nearly evenly: for a rigid cylinder in a thin layer the
+  // pressure goes as cos(angle) round the root, so the 95th percentile is 0.99 of the peak
+  // (derived). Widened to 0.5 for the tapered root and the crest; measured 8.3 / 8.9 kPa = 0.93 on
+  // 2026-12-02. Catches a peak that runs away from the bulk of the ligament.
+  EXPECT_GT(r[0].pressure_p95_compression_kpa, 0.5 * r[0].pressure_max_compression_kpa);
   EXPECT_LE(r[0].pressure_p95_compression_kpa, r[0].pressure_max_compression_kpa);
 }
 

@@ -2,6 +2,12 @@
 // the peak PDL pressure hardly depends on the PDL modulus while the tooth's displacement scales
 // as 1/E (check-values.md section 1, consequence of the published constants: PDL 0.05 to 0.7 MPa
 // against dentine 18.6 GPa and bone 1.37 to 13.7 GPa; derived).
+// The derivation says "nearly" without a number: the 10 % bound below is the project's acceptance
+// criterion (docs/analyses.md section 8.3), neither published nor derived. Measured on 2026-12-02
+// (coarse preset; spread = (largest - smallest) / largest): peak 1.6 % (tipping) and 6.4 %
+// (translation), 95th percentile 0.1 % and 1.1 %, displacement x E 4.5 % and 3.9 %. Kept at 10 %
+// rather than fitted closer: the peak depends on the band left out at the crest, which is being
+// redefined.
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -39,9 +45,9 @@ TEST(PdlModulus, PressureNearlyIndependentDisplacementAsInverse) {
   };
   for (size_t k = 0; k < presets.size(); ++k) {
     SCOPED_TRACE(to_string(presets[k]));
-    EXPECT_LT(spread(peak[k]), 0.10);  // acceptance: less than 10 %
-    EXPECT_LT(spread(p95[k]), 0.10);
-    EXPECT_LT(spread(tip_times_e[k]), 0.10);  // displacement x E constant: u ~ 1/E
+    EXPECT_LT(spread(peak[k]), 0.10);         // project acceptance: less than 10 % (see above)
+    EXPECT_LT(spread(p95[k]), 0.10);          // project acceptance
+    EXPECT_LT(spread(tip_times_e[k]), 0.10);  // project acceptance; displacement x E: u ~ 1/E
   }
 }
 

@@ -5,10 +5,17 @@
 // translation and rotation.
 // Here: the mandibular second premolar of the handbook, healthy and with 4 mm horizontal loss,
 // each movement at 1 N; the force that brings the peak compression to 16 kPa is 16 kPa divided by
-// the peak per newton (the model is linear). Their model differs from this one (geometry,
-// materials, loading, where the peak is read), so this is an order-of-magnitude check: each force
-// within a factor of 3 of the published range, and lower with loss for every movement. The
-// standard-preset figures are recorded in docs/analyses.md section 8.4.
+// the peak per newton (the model is linear). Two kinds of assertion:
+//  - lower with loss for every movement: published (the same source's trend);
+//  - each force within a factor of 3 of the published range: widened. Their model differs from
+//    this one (geometry, materials, loading, where the peak is read), and the published ranges
+//    are given for the three movements together, while this model separates them. Measured on
+//    2026-12-02 (coarse preset, this test): healthy tipping 0.24 N, 2.5 times under the range's
+//    lower end, and translation with loss 0.79 N, 2.0 times over its upper end (standard preset:
+//    0.28 and 0.85 N, 2.1 times each); so the published range itself fails, and the factor 3 is
+//    only an order-of-magnitude check. It catches a pressure off by a units or scaling error, not
+//    a modelling difference.
+// The standard-preset figures are recorded in docs/analyses.md section 8.4.
 #include <gtest/gtest.h>
 
 #include <cstdio>
@@ -28,7 +35,7 @@ CaseSpec premolar_case() {
   return spec;
 }
 
-TEST(PremolarPressureLevel, ForceAtTheLimitIsInThePublishedRange) {
+TEST(PremolarPressureLevel, ForceAtTheLimitFallsWithLossAndIsNearThePublishedRange) {
   const Study study(premolar_case());
   const double limit_kpa = default_thresholds().limit.value_kpa;
   ASSERT_EQ(limit_kpa, 16.0);
@@ -42,15 +49,16 @@ TEST(PremolarPressureLevel, ForceAtTheLimitIsInThePublishedRange) {
     ASSERT_EQ(r.size(), 2u);
     const double healthy_n = limit_kpa / r[0].pressure_max_compression_kpa;
     const double loss_n = limit_kpa / r[1].pressure_max_compression_kpa;
-    std::printf("%s: peak %.2f / %.2f kPa per N (healthy / 4 mm loss); force at 16 kPa %.2f / "
-                "%.2f N (published 0.6 to 1.2 / 0.2 to 0.4 N)\n",
-                to_string(preset).c_str(), r[0].pressure_max_compression_kpa,
-                r[1].pressure_max_compression_kpa, healthy_n, loss_n);
-    EXPECT_GT(healthy_n, 0.6 / 3);
-    EXPECT_LT(healthy_n, 1.2 * 3);
-    EXPECT_GT(loss_n, 0.2 / 3);
-    EXPECT_LT(loss_n, 0.4 * 3);
-    EXPECT_LT(loss_n, healthy_n);
+    std::printf(
+        "%s: peak %.2f / %.2f kPa per N (healthy / 4 mm loss); force at 16 kPa %.2f / "
+        "%.2f N (published 0.6 to 1.2 / 0.2 to 0.4 N)\n",
+        to_string(preset).c_str(), r[0].pressure_max_compression_kpa,
+        r[1].pressure_max_compression_kpa, healthy_n, loss_n);
+    EXPECT_GT(healthy_n, 0.6 / 3);  // widened: published 0.6 N, factor 3 (see above)
+    EXPECT_LT(healthy_n, 1.2 * 3);  // widened: published 1.2 N, factor 3
+    EXPECT_GT(loss_n, 0.2 / 3);     // widened: published 0.2 N, factor 3
+    EXPECT_LT(loss_n, 0.4 * 3);     // widened: published 0.4 N, factor 3
+    EXPECT_LT(loss_n, healthy_n);   // published trend (Moga et al. 2023)
   }
 }
 

@@ -182,9 +182,11 @@ TEST(LoadResolution, TippingAndRootMovementPlaceTheCentreOfRotation) {
   EXPECT_GT(tr.couple_nmm.y(), 0);
 }
 
-// source: Naegerl et al. 1991 (check-values.md section 9, pub): the distance from the CRes to the
-// line of force times the distance from the CRes to the centre of rotation is constant for a
-// tooth; derived here for the rigid root on springs.
+// source: Naegerl H, Burstone CJ, Becker B, Kubein-Meesenburg D, 1991, "Centers of rotation with
+// transverse forces: an experimental study", Am J Orthod Dentofacial Orthop 99:337-345 (measured
+// on a physical model of an upper canine; check-values.md section 9, pub): the distance from the
+// CRes to the line of force times the distance from the CRes to the centre of rotation is constant
+// for a tooth; derived here for the rigid root on springs.
 TEST(LoadResolution, CentreOfRotationProductIsConstant) {
   const LoadContext c = context_for(cylinder_bed());
   double product = 0;

@@ -8,9 +8,11 @@
 //     elements (a linear field).
 //  2. Free lateral edges: the pressure peaks at the centre and falls to zero at the free edge. No
 //     closed form at nu = 0.49 (derived approximations assume full incompressibility), so the
-//     10-node result on the test mesh must match a twice finer 10-node mesh within 3 % (the
+//     10-node result on the test mesh is compared with a twice finer 10-node mesh (the
 //     reference); the 4-node result is printed beside it for docs/verification.md and must be off
-//     by more than the 10-node one (that is the point of the check).
+//     by more than the 10-node one (that is the point of the check). The differences are
+//     discretisation errors of fixed meshes, deterministic up to round-off; each tolerance is
+//     about 3 times the difference measured on 2026-12-02 (docs/verification.md section 6).
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
@@ -132,13 +134,14 @@ TEST(Locking, FreeEdgedLayerQuadraticAgreesWithRefinedReference) {
       std::abs(linear.centre_pressure_kpa / reference.centre_pressure_kpa - 1.0);
   RecordProperty("quadratic_pressure_error", std::to_string(quadratic_error));
   RecordProperty("linear_pressure_error", std::to_string(linear_error));
-  EXPECT_LT(quadratic_error, 0.03);
-  EXPECT_LT(std::abs(quadratic.force_n / reference.force_n - 1.0), 0.03);
-  EXPECT_LT(profile_error(quadratic), 0.03);
+  EXPECT_LT(quadratic_error, 0.005);  // measured 0.15 %; about 3x
+  EXPECT_LT(std::abs(quadratic.force_n / reference.force_n - 1.0),
+            0.025);                           // measured 0.76 %; about 3x
+  EXPECT_LT(profile_error(quadratic), 0.03);  // measured 1.05 %; about 3x
   EXPECT_GT(linear_error, quadratic_error);
   EXPECT_GT(profile_error(linear), profile_error(quadratic));
-  EXPECT_GT(std::abs(linear.force_n / reference.force_n - 1.0),
-            0.03);  // the 4-node layer is too stiff
+  // The 4-node layer is too stiff: measured +15.9 %, more than the 10-node force tolerance.
+  EXPECT_GT(std::abs(linear.force_n / reference.force_n - 1.0), 0.025);
   RecordProperty("quadratic_profile_error", std::to_string(profile_error(quadratic)));
   RecordProperty("linear_profile_error", std::to_string(profile_error(linear)));
   // The free edges make the squeeze much softer than full confinement: a plausibility bound.

@@ -1,6 +1,10 @@
 // NAFEMS benchmark LE10 "thick plate pressure" (source: NAFEMS, The Standard NAFEMS Benchmarks,
 // 1990, test LE10; set-up as restated in public verification reports, check-values.md section 10
-// item 4). Target: sigma_yy = -5.38 MPa at D = (2, 0, 0.6), accepted within 3 %.
+// item 4). Target: sigma_yy = -5.38 MPa at D = (2, 0, 0.6).
+// Tolerances: the error is the discretisation error of each fixed mesh, deterministic up to
+// round-off, so each tolerance sits a little above the error measured on 2026-12-02 (printed by
+// the test, docs/verification.md section 5). The target itself is given to 3 digits: -5.38 stands
+// for anything from -5.375 to -5.385, +-0.093 %, so no tolerance can be tighter than about 0.1 %.
 //
 // Geometry (lengths in m in the benchmark; used here as mm numerically, which leaves stresses in
 // MPa unchanged for this linear problem): a quarter of a plate between the ellipses
@@ -86,21 +90,41 @@ double sigma_yy_at_d(int n_radial, int n_circumferential, int n_thickness, int n
 }
 
 TEST(NafemsLe10, SigmaYyAtPointD) {
-  // Two refinements of the graded grid (radial x circumferential x thickness); both accepted.
-  const int levels[][3] = {{6, 12, 4}, {12, 24, 6}};
-  for (const auto& l : levels) {
-    const double value = sigma_yy_at_d(l[0], l[1], l[2], 10);
+  // Two refinements of the graded grid (radial x circumferential x thickness).
+  struct Level {
+    int n_radial, n_circumferential, n_thickness;
+    double tolerance;
+  };
+  const Level levels[] = {
+      // Measured -1.07 %; 1.5 %: the discretisation error plus 0.4 % for the target's rounding
+      // (0.093 %) and round-off.
+      {6, 12, 4, 0.015},
+      // Measured -0.21 %; 0.5 % (2.4x): the measured error plus the target's rounding (0.093 %)
+      // with a margin for round-off; the rounding alone is half the measured error, so a bound
+      // much closer to 0.21 % would test the target's last digit, not the solver.
+      {12, 24, 6, 0.005},
+  };
+  double previous_error = 1.0;
+  for (const Level& l : levels) {
+    const double value = sigma_yy_at_d(l.n_radial, l.n_circumferential, l.n_thickness, 10);
     const double error = value / kTarget - 1.0;
-    std::cout << "[nafems le10 10-node " << l[0] << "x" << l[1] << "x" << l[2]
-              << "] sigma_yy(D) = " << value << " MPa, error vs -5.38: " << 100.0 * error << " %\n";
-    RecordProperty("sigma_yy_D_mpa_" + std::to_string(l[0]), std::to_string(value));
-    EXPECT_LT(std::abs(error), 0.03) << l[0] << " x " << l[1] << " x " << l[2];
+    std::cout << "[nafems le10 10-node " << l.n_radial << "x" << l.n_circumferential << "x"
+              << l.n_thickness << "] sigma_yy(D) = " << value
+              << " MPa, error vs -5.38: " << 100.0 * error << " % (tolerance "
+              << 100.0 * l.tolerance << " %)\n";
+    RecordProperty("sigma_yy_D_mpa_" + std::to_string(l.n_radial), std::to_string(value));
+    EXPECT_LT(std::abs(error), l.tolerance)
+        << l.n_radial << " x " << l.n_circumferential << " x " << l.n_thickness;
+    // Refinement brings the value closer to the target (derived: convergence of the method).
+    EXPECT_LT(std::abs(error), std::abs(previous_error)) << "no gain from refinement";
+    previous_error = error;
   }
 }
 
 TEST(NafemsLe10, LinearElementsAreFarOffOnTheSameMesh) {
-  // For docs/verification.md: 4-node tetrahedra are stiff in bending. Asserted: the 4-node error is
-  // larger than the 10-node acceptance bound on the finer graded mesh (a property, not a target).
+  // For docs/verification.md: 4-node tetrahedra are stiff in bending. Asserted: the 4-node error
+  // (measured -15.2 %) is larger than 3 %, twice the coarser 10-node mesh's tolerance, on the
+  // finer graded mesh (a property, not a target).
   const double value = sigma_yy_at_d(12, 24, 6, 4);
   std::cout << "[nafems le10 4-node 12x24x6] sigma_yy(D) = " << value
             << " MPa, error vs -5.38: " << 100.0 * (value / kTarget - 1.0) << " %\n";

@@ -1,7 +1,8 @@
 // Rigid cylinder bonded inside an annular elastic sleeve whose outside is held fixed: the idealised
 // tooth root in its ligament. Inner radius a, outer radius b, length L, shear modulus G.
 //  - Axial push-out (antiplane shear, u_z = w(r) only): displacement = F ln(b/a) / (2 pi G L)
-//    (source: standard elasticity exercise; check-values.md section 10 item 1).
+//    (derived: the antiplane-shear solution w(r) = delta ln(b/r) / ln(b/a) integrated over the
+//    core's surface; check-values.md section 10 item 1).
 //  - Twist about the axis (u_theta(r) only): angle = T (1/a^2 - 1/b^2) / (4 pi G L)
 //    (derived; check-values.md section 10 item 2).
 // The rigid core is modelled by prescribing the inner surface's rigid translation or rotation; the
@@ -14,6 +15,11 @@
 // (u_x = u_y = 0, u_z free), which the exact field satisfies, so the exact solution of the 3D model
 // is the plane one for any L. In the twist case the exact field leaves the ends traction free, so
 // the ends are free.
+// Tolerances: the errors below are the discretisation errors of fixed meshes (the exact fields are
+// logarithmic, not quadratic), deterministic up to round-off, which is orders of magnitude smaller;
+// each tolerance is about 3 times the error measured on 2026-12-02 (printed by the test,
+// docs/verification.md section 4), so a change of element, quadrature, assembly or reaction
+// recovery that makes the result worse by that much fails.
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
@@ -91,9 +97,10 @@ TEST_P(Sleeve, AxialPushOut) {
             << " N, displacement from the formula " << exact_delta << " mm vs prescribed " << delta
             << " mm: relative error " << error << "\n";
   RecordProperty("relative_error", std::to_string(error));
-  EXPECT_LT(error, 0.02);
+  // Measured 7.2e-7 (nu 0.30) and 7.3e-7 (nu 0.49); tolerance about 3x.
+  EXPECT_LT(error, 2.5e-6);
 
-  // Interior field: w(r) = delta ln(b/r) / ln(b/a) (same source) at every node.
+  // Interior field: w(r) = delta ln(b/r) / ln(b/a) (derived, as above) at every node.
   double field_error = 0;
   for (int n = 0; n < m.n_nodes(); ++n) {
     const Eigen::Vector3d& x = m.nodes[static_cast<size_t>(n)];
@@ -102,7 +109,8 @@ TEST_P(Sleeve, AxialPushOut) {
   }
   std::cout << "[sleeve axial nu=" << GetParam() << "] max nodal |w - exact| / delta "
             << field_error << "\n";
-  EXPECT_LT(field_error, 0.02);
+  // Measured 1.1e-4 (nu 0.30) and 7.3e-5 (nu 0.49); tolerance about 3x the larger.
+  EXPECT_LT(field_error, 3.5e-4);
 }
 
 TEST_P(Sleeve, Twist) {
@@ -136,7 +144,9 @@ TEST_P(Sleeve, Twist) {
             << " N.mm, angle from the formula " << exact_angle << " rad vs prescribed " << angle
             << " rad: relative error " << error << "\n";
   RecordProperty("relative_error", std::to_string(error));
-  EXPECT_LT(error, 0.02);
+  // Measured 3.2e-7 (nu 0.30) and 3.2e-6 (nu 0.49: the nearly incompressible layer's discrete
+  // field is less exactly volume preserving); tolerance about 3x each.
+  EXPECT_LT(error, GetParam() < 0.4 ? 1e-6 : 1e-5);
 }
 
 TEST_P(Sleeve, FreeEndsApproachThePlaneSolutionAsTheSleeveLengthens) {

@@ -51,6 +51,9 @@ struct SolverStatistics {
   double min_pivot_ratio = 0;         // min over k of L_kk^2 / A_kk (1 for a diagonal matrix)
   std::string requested_ordering;     // SolverOptions::ordering
   int n_threads_assembly = 0;
+  // Calls of solve() that went through the factor (one per call, whatever the number of
+  // right-hand sides): lets a test prove that a result needed no new solve.
+  int n_solves = 0;
 };
 
 // Assembles, eliminates the constraints and factorises once (CHOLMOD supernodal Cholesky);
