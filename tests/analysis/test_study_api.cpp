@@ -2,9 +2,8 @@
 // progress, consistency with a direct solve, and the bookkeeping of the reported quantities.
 #include <gtest/gtest.h>
 
-#include <cstdio>
-
 #include <cmath>
+#include <cstdio>
 #include <memory>
 
 #include "sharpey/analysis/detail/rigid_motion.h"
@@ -111,7 +110,8 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
   // fits against one fit of the combined field; exact by linearity, round-off tolerance).
   const detail::RigidMotion direct_fit =
       detail::fit_rigid_motion(m.nodes, u, s.embedded_root_nodes());
-  const Eigen::Vector3d tip_rigid_um = 1000.0 * direct_fit.displacement_at(s.model().geometry.crown_tip);
+  const Eigen::Vector3d tip_rigid_um =
+      1000.0 * direct_fit.displacement_at(s.model().geometry.crown_tip);
   EXPECT_NEAR((r.crown_tip_displacement_um - tip_rigid_um).norm(), 0,
               1e-6 * r.crown_tip_displacement_um.norm());
   // Against the field at the nearest tooth node: the crown's own bending (not in the rigid motion)
@@ -133,10 +133,11 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
   }
   const Eigen::Vector3d tip_node_um = 1000.0 * u.segment<3>(3 * nearest);
   const double bending = (r.crown_tip_displacement_um - tip_node_um).norm();
-  std::printf("crown tip: rigid motion of the root %.4f um, nearest node (%.3f mm away) %.4f um, "
-              "difference %.1f %%\n",
-              r.crown_tip_displacement_um.norm(), best, tip_node_um.norm(),
-              100 * bending / r.crown_tip_displacement_um.norm());
+  std::printf(
+      "crown tip: rigid motion of the root %.4f um, nearest node (%.3f mm away) %.4f um, "
+      "difference %.1f %%\n",
+      r.crown_tip_displacement_um.norm(), best, tip_node_um.norm(),
+      100 * bending / r.crown_tip_displacement_um.norm());
   EXPECT_LT(bending, 0.15 * r.crown_tip_displacement_um.norm() +
                          1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
 }
