@@ -142,14 +142,17 @@ TEST_F(StudyOnCoarseIncisor, AgreesWithADirectSolve) {
                          1000.0 * best * r.rotation_deg.norm() * M_PI / 180);
 }
 
-// The tooth is nearly rigid: the fitted rigid motion explains the tooth's displacement.
+// The embedded root is nearly rigid: the fitted rigid motion explains its displacement.
 TEST_F(StudyOnCoarseIncisor, ToothMovesRigidly) {
   for (const auto& s : study_->solutions()) {
     const ScenarioResult r = evaluate(*s, lingual_g(100, MovementPreset::kUncontrolledTipping),
                                       default_thresholds(), nullptr);
     EXPECT_LT(r.rigid_fit_rms_um, 0.05 * r.crown_tip_displacement_um.norm());
-    EXPECT_GT(r.crown_tip_displacement_um.x(), -1e3);
     EXPECT_LT(r.crown_tip_displacement_um.x(), 0);  // lingual force: crown moves lingually
+    // Derived: a single force tips the root about a centre of rotation apical to the CRes (which
+    // lies in the root's cervical half), so the crown tip, further from that centre, moves more
+    // than the apex.
+    EXPECT_GT(std::abs(r.crown_tip_displacement_um.x()), std::abs(r.apex_displacement_um.x()));
     EXPECT_GT(r.apex_displacement_um.x(), 0);       // tipping about a point below the CRes
     EXPECT_LT(r.rotation_deg.y(), 0);  // crown lingual, apex labial: negative rotation about y
   }
