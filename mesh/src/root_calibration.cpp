@@ -1,5 +1,6 @@
 // root_taper_fullness_for_area(): the root taper fullness that gives an anatomical root a
 // prescribed surface area (the calibration procedure of the tooth library's per-tooth values).
+#include <cmath>
 #include <sstream>
 
 #include "sharpey/error.h"
@@ -32,16 +33,31 @@ double root_taper_fullness_for_area(const ModelSpec& spec, double root_area_mm2)
          "length)";
     throw InputError(key, m.str());
   }
-  // The area grows monotonically with the fullness (each section widens): bisection.
-  while (hi - lo > 1e-6) {
-    const double mid = 0.5 * (lo + hi);
-    if (area_at(mid) < root_area_mm2) {
-      lo = mid;
+  // The area grows monotonically and smoothly with the fullness (each section widens): regula
+  // falsi with the Illinois modification keeps a bracket [lo, hi] and converges superlinearly
+  // (about 8 evaluations instead of bisection's 22 for the same 1e-6).
+  double f_lo = area_lo - root_area_mm2, f_hi = area_hi - root_area_mm2;
+  int side = 0;
+  double m = lo;
+  for (int it = 0; it < 100 && hi - lo > 1e-6; ++it) {
+    m = (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
+    const double f = area_at(m) - root_area_mm2;
+    if (f == 0) return m;
+    if (f < 0) {
+      lo = m;
+      f_lo = f;
+      if (side == -1) f_hi *= 0.5;
+      side = -1;
     } else {
-      hi = mid;
+      hi = m;
+      f_hi = f;
+      if (side == 1) f_lo *= 0.5;
+      side = 1;
     }
+    // Stop once the area is met to round-off (the bracket itself may stay wide on one side).
+    if (std::abs(f) < 1e-9 * root_area_mm2) return m;
   }
-  return 0.5 * (lo + hi);
+  return m;
 }
 
 }  // namespace sharpey::mesh

@@ -243,8 +243,9 @@ ModelGeometry model_geometry(const ModelSpec& spec);
 // Root calibration: the root_taper_fullness in [kMinRootTaperFullness, kMaxRootTaperFullness] at
 // which the anatomical root of spec (spec.tooth.dimensions' cervical widths and root length; their
 // fullness is ignored) has the whole-root surface area root_area_mm2 (CEJ to apex, as
-// model_geometry().root_area_mm2, which grows with the fullness). Bisection to 1e-6 in the
-// fullness, about 25 evaluations of model_geometry(). Throws InputError (key
+// model_geometry().root_area_mm2, which grows with the fullness). Regula falsi (Illinois) on a
+// bracket, to 1e-6 in the fullness or 1e-9 relative in the area, about 10 evaluations of
+// model_geometry(). Throws InputError (key
 // tooth.dimensions.root_taper_fullness) naming the reachable areas when root_area_mm2 lies
 // outside them, and for idealised roots.
 double root_taper_fullness_for_area(const ModelSpec& spec, double root_area_mm2);
