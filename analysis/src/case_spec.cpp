@@ -299,11 +299,13 @@ std::vector<SourcedValue> value_sources(const CaseSpec& spec) {
         handbook.cej_curvature_mesial_mm, "mm", dims_source);
     add("tooth.dimensions.cej_curvature_distal_mm", d.cej_curvature_distal_mm,
         handbook.cej_curvature_distal_mm, "mm", dims_source);
-    add("tooth.dimensions.root_taper_fullness", d.root_taper_fullness,
-        handbook.root_taper_fullness, "",
-        "not a handbook value: 1.6 gives the maxillary central incisor a root area of 204 mm^2, "
-        "Jepsen 1963 (from memory); its CBCT area 208.5 mm^2 (Limsiriwong 2019, Chiang Mai Dent J, "
-        "published) needs about 1.8");
+    add("tooth.dimensions.root_taper_fullness", d.root_taper_fullness, handbook.root_taper_fullness,
+        "",
+        "not a handbook value: calibrated per tooth so that the root area (CEJ to apex) equals "
+        "Jepsen 1963's " +
+            std::to_string(std::lround(mesh::root_calibration_area_mm2(spec.model.tooth.type))) +
+            " mm^2 for this tooth (from memory); validated against published CBCT and "
+            "extracted-tooth areas (docs/analyses.md, Root calibration)");
   }
   out.push_back({"gram_force_in_newton", kNewtonPerGram, "N",
                  "definition of the gram-force (standard gravity 9.80665 m/s^2)"});

@@ -311,7 +311,7 @@ const BadCase kBadCases[] = {
      "{\"width_profile_mm\": {\"crest\": 2, \"mid_root\": 0.14, \"apex\": 0.19}}", "0.1 to 0.4 mm",
      "pdl.width_profile_mm.crest"},
     {"root_too_short", "tooth.dimensions.root_length_mm", "2", "human single-rooted teeth"},
-    {"root_taper_too_full", "tooth.dimensions.root_taper_fullness", "4", "1.0 to 2.5"},
+    {"root_taper_too_full", "tooth.dimensions.root_taper_fullness", "4.5", "1.0 to 4.0"},
     {"cortical_thicker_than_plate", "bone.cortical_thickness_mm", "2.5", "plate"},
     {"bracket_off_crown", "bracket.height_mm", "30", "off the crown"},
     {"mesh_edge_too_small", "mesh.pdl_edge_mm", "0.01", "PDL edge length"},

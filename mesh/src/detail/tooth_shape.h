@@ -11,8 +11,8 @@
 //
 // Anatomical root: a = A rho(u), b = B rho(u), z = -L + L u^2 with u = s + 1 and
 // rho(u) = sqrt(1 - (1 - u^2)^m) (A, B the cervical half-widths, L the root length,
-// m = dimensions.root_taper_fullness, default 1.6: a full, bullet-like taper with a rounded apex
-// whose radius of curvature is A^2 m / (2 L)).
+// m = dimensions.root_taper_fullness, calibrated per tooth, 1.19 to 3.75: a full, bullet-like
+// taper with a rounded apex whose radius of curvature is A^2 m / (2 L)).
 // Anatomical crown: half-widths rise from the cervix to the height of contour (labiolingual) and
 // to the contact areas (mesiodistal) with smoothstep blends, then an elliptical cap closes the
 // crown at the incisal edge / cusp tip / occlusal outline (proportions per tooth class).

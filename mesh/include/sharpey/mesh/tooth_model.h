@@ -46,14 +46,23 @@ struct ToothDimensions {
   // Shape of the root's taper along its length (dimensionless exponent m of rho below): 1 gives a
   // paraboloid-like root, larger values a fuller root that keeps its width longer and tapers in
   // its apical part. Not a handbook value: the handbook gives the cervical widths and the length
-  // only. The default 1.6 gives the maxillary central incisor a root area of 204 mm^2, Jepsen's
-  // 1963 figure (from memory); its CBCT area of 208.5 mm^2 (Limsiriwong 2019, published) needs
-  // about 1.8 (check-values.md section 4; docs/analyses.md section 8.2).
+  // only. handbook_dimensions() sets it per tooth, calibrated so that the root area matches
+  // Jepsen's 1963 figure for that tooth (from memory; root_calibration_area_mm2(),
+  // root_taper_fullness_for_area(), docs/analyses.md "Root calibration"). The member default 1.6
+  // is the maxillary central incisor's calibrated value.
   double root_taper_fullness = 1.6;
 };
+// Allowed range of ToothDimensions::root_taper_fullness.
+constexpr double kMinRootTaperFullness = 1.0;
+constexpr double kMaxRootTaperFullness = 4.0;
 ToothDimensions handbook_dimensions(ToothType type);
 // "pub (secondary copy)" or "mem" as in check-values.md, with the source named.
 std::string handbook_status(ToothType type);
+// The root surface area, mm^2 (CEJ to apex), that handbook_dimensions(type).root_taper_fullness was
+// calibrated to: Jepsen 1963, from memory (check-values.md section 4; the only set covering all
+// ten teeth). Published measurements of other studies are kept apart for validation
+// (tests/mesh/test_root_validation.cpp).
+double root_calibration_area_mm2(ToothType type);
 
 // Idealised roots for verification: bodies of revolution about the long axis with circular
 // cross-sections of radius r(h) at height h above the apex (the root's lowest point, at
@@ -72,11 +81,12 @@ enum class IdealRoot { kNone, kCylinder, kCone, kParaboloid };
 
 // Anatomical teeth: horizontal elliptical cross-sections. Root half-widths (cervix_labiolingual/2,
 // cervix_mesiodistal/2) times rho(u) = sqrt(1 - (1 - u^2)^m), u^2 = height above the apex /
-// root length, m = dimensions.root_taper_fullness (default 1.6): a full taper with a rounded apex. Crown: from the cervical ellipse to the
-// labiolingual height of contour and the mesiodistal contact areas, closed by an elliptical cap
-// (incisal edge, cusp or occlusal outline; proportions per tooth class). The CEJ is modelled as
-// the plane z = 0: the CEJ curvature values are carried in ToothDimensions (and validated) but
-// not used by the geometry; the alveolar crest is level (not scalloped between teeth).
+// root length, m = dimensions.root_taper_fullness (calibrated per tooth, 1.19 to 3.75): a full
+// taper with a rounded apex. Crown: from the cervical ellipse to the labiolingual height of contour
+// and the mesiodistal contact areas, closed by an elliptical cap (incisal edge, cusp or occlusal
+// outline; proportions per tooth class). The CEJ is modelled as the plane z = 0: the CEJ curvature
+// values are carried in ToothDimensions (and validated) but not used by the geometry; the alveolar
+// crest is level (not scalloped between teeth).
 struct ToothSpec {
   ToothType type = ToothType::kMaxillaryCentralIncisor;
   ToothDimensions dimensions = handbook_dimensions(ToothType::kMaxillaryCentralIncisor);
@@ -229,6 +239,16 @@ void validate(const ModelSpec& spec);
 // The geometry facts of build_tooth_model() from the parametric definition alone, without
 // meshing (validates first; a few tens of milliseconds).
 ModelGeometry model_geometry(const ModelSpec& spec);
+
+// Root calibration: the root_taper_fullness in [kMinRootTaperFullness, kMaxRootTaperFullness] at
+// which the anatomical root of spec (spec.tooth.dimensions' cervical widths and root length; their
+// fullness is ignored) has the whole-root surface area root_area_mm2 (CEJ to apex, as
+// model_geometry().root_area_mm2, which grows with the fullness). Regula falsi (Illinois) on a
+// bracket, to 1e-6 in the fullness or 1e-9 relative in the area, about 10 evaluations of
+// model_geometry(). Throws InputError (key
+// tooth.dimensions.root_taper_fullness) naming the reachable areas when root_area_mm2 lies
+// outside them, and for idealised roots.
+double root_taper_fullness_for_area(const ModelSpec& spec, double root_area_mm2);
 
 // Builds the geometry and meshes it with TetGen. Throws InputError for impossible geometry and
 // MeshError (naming the stage and parameters) when TetGen fails. Never prints.
