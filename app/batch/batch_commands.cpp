@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <chrono>
 #include <cstdlib>
-#include <fstream>
 #include <thread>
 #include <iostream>
 #include <memory>
@@ -29,19 +28,9 @@ void stop_if_interrupted() {
   if (interrupted()) throw Cancelled();
 }
 
-std::string read_text(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in)
-    throw InputError("file", "cannot open the case file \"" + path +
-                                 "\"; check the path and that the file is readable");
-  std::ostringstream text;
-  text << in.rdbuf();
-  return text.str();
-}
-
 // The case file's text with the command-line overrides applied.
 std::string case_text(const CommonOptions& options) {
-  std::string text = read_text(options.case_path);
+  std::string text = analysis::read_case_text(options.case_path);
   if (!options.mesh_preset.empty()) {
     analysis::parse_case(text, options.case_path);  // report the file's own errors first
     text = analysis::set_case_value(text, "mesh.preset", options.mesh_preset);
