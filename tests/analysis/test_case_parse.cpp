@@ -304,6 +304,15 @@ const BadCase kBadCases[] = {
     {"pdl_width_and_profile", "pdl.width_profile_mm",
      "{\"crest\": 0.2, \"mid_root\": 0.2, \"apex\": 0.2}", "not both"},
     {"ideal_root_shape", "tooth.idealised_root.shape", "\"cube\"", "paraboloid"},
+    // Control characters in names and labels (they end up in CSV comment lines, headings and
+    // file names): refused with the character and its place.
+    {"label_line_feed", "label", "\"first line\\n# second line\"", "U+000A (line feed) at byte 11"},
+    {"label_nul", "label", "\"a\\u0000b\"", "U+0000 (NUL) at byte 2"},
+    {"scenario_name_carriage_return", "scenarios[1].name", "\"loss\\r\"", "U+000D"},
+    {"scenario_name_escape", "scenarios[1].name", "\"\\u001b[31mred\"", "U+001B"},
+    {"scenario_name_c1_control", "scenarios[1].name", "\"a\\u0085b\"", "U+0085"},
+    {"threshold_source_tab", "thresholds.limit.source", "\"a\\tb\"", "U+0009 (tab)"},
+    {"notes_nul", "notes", "\"line one\\nline two\\u0000\"", "only line feeds and tabs"},
     // Numbers beyond the double range (nlohmann refuses them itself): named by their key path.
     {"number_overflow", "", "{\"load\": {\"unit\": \"g\", \"magnitude\": 1e400}}", "too large",
      "load.magnitude"},
@@ -416,6 +425,14 @@ TEST(CaseParse, ReadCaseTextRefusesFilesAboveTheSizeLimit) {
   const std::string good = folder / "case.json";
   std::ofstream(good) << base_case().dump();
   EXPECT_EQ(load_case(good).label, "Invented test case");
+}
+
+TEST(CaseParse, NotesMayHoldLineBreaksAndTabs) {
+  Json j = base_case();
+  j["notes"] = "first line\n\tsecond line";
+  j["label"] = "Invented, with \"quotes\" and \xc3\xa9";  // printable non-ASCII is fine
+  const CaseSpec spec = parse_case(j.dump());
+  EXPECT_EQ(spec.notes, "first line\n\tsecond line");
 }
 
 TEST(CaseParse, ValidateCaseChecksACaseBuiltInCode) {

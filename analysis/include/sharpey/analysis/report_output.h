@@ -119,7 +119,8 @@ void write_scenario_vtu(const ScenarioSolution& solution, const ScenarioResult& 
                         const std::string& model_path, const std::string& pdl_path);
 
 // CSV helpers (exposed for tests): a number with 6 significant digits ("" for NaN), and a field
-// quoted when it holds a comma, quote or line break.
+// quoted as RFC 4180 says when it holds a comma, quote or line break (quotes doubled), or starts
+// with '#' (our comment lines).
 std::string csv_number(double value);
 std::string csv_field(const std::string& text);
 
