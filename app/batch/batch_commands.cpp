@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cstdlib>
+#include <filesystem>
 #include <thread>
 #include <iostream>
 #include <memory>
@@ -28,8 +29,29 @@ void stop_if_interrupted() {
   if (interrupted()) throw Cancelled();
 }
 
+// Refuses an --out that cannot be right before any work: an empty path, or a folder holding the
+// case file (the output folder is replaced as a whole, so the case would be lost).
+void check_out_dir(const CommonOptions& options) {
+  if (options.out_dir.empty())
+    throw InputError("--out", "--out is empty; give the output folder, e.g. --out out/incisor");
+  namespace fs = std::filesystem;
+  std::error_code ec;
+  const fs::path case_path = fs::weakly_canonical(options.case_path, ec);
+  if (ec) return;  // reading the case reports it
+  const fs::path out = fs::weakly_canonical(options.out_dir, ec);
+  if (ec) return;
+  const std::string out_text = out.string() + "/", case_string = case_path.string();
+  if (case_string.compare(0, out_text.size(), out_text) == 0)
+    throw InputError("--out", "--out \"" + options.out_dir + "\" holds the case file \"" +
+                                  options.case_path +
+                                  "\"; the output folder is replaced as a whole by each run, so "
+                                  "give a folder that does not contain the case, e.g. --out " +
+                                  (out / "results").string());
+}
+
 // The case file's text with the command-line overrides applied.
 std::string case_text(const CommonOptions& options) {
+  check_out_dir(options);
   std::string text = analysis::read_case_text(options.case_path);
   if (!options.mesh_preset.empty()) {
     analysis::parse_case(text, options.case_path);  // report the file's own errors first

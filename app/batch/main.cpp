@@ -39,7 +39,8 @@ Exit codes:
      while meshing (try --mesh-preset coarse)
   4  solver failure: the finite-element system could not be assembled, factorised or
      solved, also when memory ran out doing so (try --mesh-preset coarse)
-  5  output failure: a result file could not be written
+  5  output failure: a result file could not be written, or --out is a folder of
+     other files (an output folder is replaced as a whole)
   6  interrupted (Ctrl-C, SIGINT or SIGTERM); nothing partial is left in the output folder
 
 Output folders are written all at once: files appear in --out only when complete.

@@ -21,7 +21,8 @@ struct BadRun {
   // The case file: "" = the valid coarse case; otherwise "path=value" applied to it (JSON value),
   // or "raw:" followed by the whole text.
   const char* case_change;
-  std::vector<std::string> args;  // CASE and OUT stand for the case file and the output folder
+  // CASE and OUT stand for the case file and the output folder, DIR for the case file's folder
+  std::vector<std::string> args;
   int exit_code;
   const char* fragment;  // expected in stderr
 };
@@ -66,7 +67,8 @@ TEST_P(BatchBadInput, ExitsWithTheCodeNamesTheKeyWritesNothing) {
   write_file(case_path, case_text(b.case_change));
   const std::string out = folder / "out";
   std::vector<std::string> args;
-  for (const std::string& a : b.args) args.push_back(a == "CASE" ? case_path : a == "OUT" ? out : a);
+  for (const std::string& a : b.args)
+    args.push_back(a == "CASE" ? case_path : a == "OUT" ? out : a == "DIR" ? folder.path() : a);
   const ProcessResult r = run_batch(args, 120);
   EXPECT_EQ(r.exit_code, b.exit_code) << "stderr: " << r.err;
   EXPECT_NE(r.err.find(b.fragment), std::string::npos)
@@ -114,6 +116,10 @@ const BadRun kBadRuns[] = {
      "ultra"},
     {"number_overflow", "raw:{\"load\": {\"magnitude\": 1e400}}", kRun, 2,
      "bad input (key load.magnitude)"},
+    {"empty_out", "", {"run", "CASE", "--out", ""}, 2, "--out is empty"},
+    {"out_holds_the_case", "", {"run", "CASE", "--out", "DIR"}, 2, "holds the case file"},
+    {"out_holds_the_case_sweep", "",
+     {"sweep", "CASE", "--out", "DIR", "--vary", "load.magnitude=50"}, 2, "holds the case file"},
     {"out_is_a_file", "", {"run", "CASE", "--out", "CASE"}, 5, "is not a folder"},
 };
 

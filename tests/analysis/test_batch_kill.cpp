@@ -4,9 +4,10 @@
 #include <gtest/gtest.h>
 #include <signal.h>
 
-#include <nlohmann/json.hpp>
-
+#include <algorithm>
 #include <chrono>
+#include <filesystem>
+#include <nlohmann/json.hpp>
 #include <string>
 #include <thread>
 
@@ -72,7 +73,8 @@ TEST_P(KillAfter, OutputFolderHoldsOnlyCompleteFilesOrNothing) {
 
 INSTANTIATE_TEST_SUITE_P(Batch, KillAfter, ::testing::Values(0.05, 0.5, 2.0, 6.0),
                          [](const ::testing::TestParamInfo<double>& p) {
-                           return "after_" + std::to_string(static_cast<int>(p.param * 1000)) + "_ms";
+                           return "after_" + std::to_string(static_cast<int>(p.param * 1000)) +
+                                  "_ms";
                          });
 
 TEST(BatchKill, KillWhileWritingKeepsTheOlderFolderIntact) {
@@ -91,13 +93,85 @@ TEST(BatchKill, KillWhileWritingKeepsTheOlderFolderIntact) {
   EXPECT_EQ(list_folder(out), std::vector<std::string>{"results.json"});
   EXPECT_EQ(read_file(out + "/results.json"), "{\"older\": true}\n");
   // The half-filled staging folder sits beside the output, hidden, and the next run for the same
-  // folder removes it (the mesh command is the quickest such run).
+  // folder removes it (the mesh command is the quickest such run); that run replaces the folder
+  // as a whole, so the older run's file goes too.
   ASSERT_EQ(staging_folders(folder.path(), "out").size(), 1u);
   const ProcessResult next = run_batch({"mesh", case_path, "--out", out, "--quiet"});
   ASSERT_EQ(next.exit_code, 0) << next.err;
   EXPECT_TRUE(staging_folders(folder.path(), "out").empty());
-  EXPECT_EQ(read_file(out + "/results.json"), "{\"older\": true}\n");  // not the mesh's business
+  EXPECT_FALSE(exists(out + "/results.json"));
+  EXPECT_TRUE(exists(out + "/mesh_statistics.json"));
   expect_only_complete_files(out);
+}
+
+// The names a successful run lists on stdout ("sharpey-batch: wrote N files to DIR: a b c").
+std::vector<std::string> announced_files(const std::string& out) {
+  std::vector<std::string> names;
+  const size_t colon = out.find(": ", out.find(" files to "));
+  std::string name;
+  for (char c : out.substr(colon + 2) + " ") {
+    if (c == ' ' || c == '\n') {
+      if (!name.empty()) names.push_back(name);
+      name.clear();
+    } else {
+      name += c;
+    }
+  }
+  std::sort(names.begin(), names.end());
+  return names;
+}
+
+// Replacing a folder of an earlier 3-scenario run by a 1-scenario run, killed at the two points of
+// the swap through the library's test hook (no timing): before the swap the folder is the earlier
+// run untouched, after it the new run complete; never a mix. The next run cleans up.
+TEST(BatchKill, ReplacingAnEarlierRunNeverMixesTheTwo) {
+  TempFolder folder("batch-kill-swap");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string out = folder / "out";
+  std::filesystem::create_directories(out);
+  const std::vector<std::string> earlier = {"results.json", "s1_healthy_model.vtu",
+                                            "s2_2_mm_loss_model.vtu", "s3_4_mm_loss_root_map.csv"};
+  for (const std::string& name : earlier) write_file(out + "/" + name, "earlier run\n");
+
+  const ProcessResult before = ChildProcess(batch_binary(), {"run", case_path, "--out", out},
+                                            {"SHARPEY_TEST_KILL_OUTPUT_AT=before-swap"})
+                                   .wait();
+  ASSERT_EQ(before.signal, SIGKILL) << before.err;
+  EXPECT_EQ(list_folder(out), earlier);
+  for (const std::string& name : earlier) EXPECT_EQ(read_file(out + "/" + name), "earlier run\n");
+
+  const ProcessResult after = ChildProcess(batch_binary(), {"run", case_path, "--out", out},
+                                           {"SHARPEY_TEST_KILL_OUTPUT_AT=after-swap"})
+                                  .wait();
+  ASSERT_EQ(after.signal, SIGKILL) << after.err;
+  const std::vector<std::string> swapped = list_folder(out);
+  for (const char* name : {"s2_2_mm_loss_model.vtu", "s3_4_mm_loss_root_map.csv"})
+    EXPECT_EQ(std::count(swapped.begin(), swapped.end(), name), 0) << name << " of the earlier run";
+  EXPECT_NE(read_file(out + "/results.json"), "earlier run\n");
+  expect_only_complete_files(out);
+
+  const ProcessResult next = run_batch({"run", case_path, "--out", out, "--quiet"});
+  ASSERT_EQ(next.exit_code, 0) << next.err;
+  EXPECT_EQ(list_folder(out), announced_files(next.out));
+  EXPECT_EQ(swapped, list_folder(out)) << "the killed run had written the same files";
+  // Staging folders of the killed runs (one holding the earlier run after the swap) are gone.
+  EXPECT_TRUE(staging_folders(folder.path(), "out").empty());
+  EXPECT_EQ(list_folder(folder.path()), (std::vector<std::string>{"case.json", "out"}));
+}
+
+// An existing folder that is not an earlier run's output is refused, not replaced.
+TEST(BatchKill, AFolderOfOtherFilesIsNotReplaced) {
+  TempFolder folder("batch-foreign-out");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string out = folder / "out";
+  std::filesystem::create_directories(out + "/photos");
+  write_file(out + "/notes.txt", "mine\n");
+  const ProcessResult r = run_batch({"mesh", case_path, "--out", out, "--quiet"});
+  EXPECT_EQ(r.exit_code, 5) << r.err;
+  EXPECT_NE(r.err.find("which is not a file of an earlier run"), std::string::npos) << r.err;
+  EXPECT_EQ(list_folder(out), (std::vector<std::string>{"notes.txt", "photos"}));
 }
 
 TEST(BatchKill, InterruptWhileWritingExitsSixAndLeavesNothing) {
