@@ -172,15 +172,43 @@ void check_scenarios(const CaseSpec& spec) {
   }
 }
 
+// The largest horizontal_loss_percent (to 0.1 %) mesh::validate accepts for `model`, found by
+// bisection on the check itself so the answer follows whatever limit the mesher sets.
+double max_loss_percent(mesh::ModelSpec model) {
+  const double root_mm = root_length_mm(model.tooth);
+  double accepted = 0, refused = 100;
+  for (int i = 0; i < 30; ++i) {
+    const double mid = 0.5 * (accepted + refused);
+    model.loss.horizontal_mm = mid / 100.0 * root_mm;
+    try {
+      mesh::validate(model);
+      accepted = mid;
+    } catch (const InputError& e) {
+      (e.key() == "loss.horizontal_mm" ? refused : accepted) = mid;
+    }
+  }
+  return std::floor(accepted * 10) / 10;
+}
+
 void run_mesh_validate(const CaseSpec& spec, const mesh::ModelSpec& model, int scenario) {
   try {
     mesh::validate(model);
   } catch (const InputError& e) {
     const std::string path = case_keys::model_key_to_path(e.key(), spec, scenario);
     std::string message = e.what();
-    if (scenario >= 0)
-      message =
-          "scenario \"" + spec.scenarios[static_cast<size_t>(scenario)].name + "\": " + message;
+    const Scenario* s = scenario >= 0 ? &spec.scenarios[static_cast<size_t>(scenario)] : nullptr;
+    if (s && s->horizontal_loss_percent >= 0 && e.key() == "loss.horizontal_mm") {
+      // The case gives the loss in percent: answer in percent, not in the mesher's millimetres.
+      const double root_mm = root_length_mm(model.tooth);
+      const double embedded_mm = root_mm - model.bone.crest_below_cej_mm - model.loss.horizontal_mm;
+      message = num(s->horizontal_loss_percent) + " % bone loss (" + num(model.loss.horizontal_mm) +
+                " mm of the " + num(root_mm) + " mm root) " +
+                (embedded_mm > 0 ? "leaves only " + num(embedded_mm) +
+                                       " mm of root in the bone, too little for the model"
+                                 : std::string("leaves no root in the bone")) +
+                "; use at most " + num(max_loss_percent(model)) + " %";
+    }
+    if (s) message = "scenario \"" + s->name + "\": " + message;
     throw InputError(path, path + ": " + message);
   }
 }

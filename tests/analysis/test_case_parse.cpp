@@ -324,6 +324,13 @@ const BadCase kBadCases[] = {
     // Impossible geometry, found by mesh::validate and reported under the case-file key.
     {"loss_beyond_root", "scenarios[1].horizontal_loss_mm", "14", "leaves no embedded root"},
     {"loss_negative", "scenarios[1].horizontal_loss_mm", "-1", "0 mm"},
+    // Given in percent, answered in percent. derived: the incisor's handbook root is 13 mm and the
+    // healthy crest 1.5 mm below the CEJ; 85 % is 11.05 mm of loss, leaving 0.45 mm in the bone;
+    // with at least 1.5 mm embedded (mesh/src/model_validate.cpp) the limit is 10 / 13 = 76.9 %.
+    {"percent_leaves_too_little_root", "scenarios[1]", "{\"horizontal_loss_percent\": 85}",
+     "85 % bone loss (11.05 mm of the 13 mm root) leaves only 0.45 mm of root in the bone, too "
+     "little for the model; use at most 76.9 %",
+     "scenarios[1].horizontal_loss_percent"},
     {"defect_too_deep", "scenarios[1].angular_defect",
      "{\"surface\": \"mesial\", \"depth_mm\": 11}", "deeper than the remaining root",
      "scenarios[1].angular_defect.depth_mm"},
