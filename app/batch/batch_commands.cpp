@@ -80,7 +80,7 @@ void pause_after_write() {
 mesh::ToothModel build_model(const CaseSpec& spec, int i) {
   const mesh::ModelSpec model = analysis::scenario_model(spec, i);
   try {
-    return mesh::build_tooth_model(model);
+    return mesh::build_tooth_model(model, interrupt_flag());
   } catch (const std::bad_alloc&) {
     throw MeshError("meshing scenario '" + spec.scenarios[static_cast<size_t>(i)].name +
                     "' ran out of memory (" + mesh::to_string(model.sizing.preset) +

@@ -3,9 +3,12 @@
 // up, and the staging left by a SIGKILL is removed by the next run for the same folder.
 #include <gtest/gtest.h>
 #include <signal.h>
+#include <sys/stat.h>
 
 #include <algorithm>
+#include <cerrno>
 #include <chrono>
+#include <cstdio>
 #include <filesystem>
 #include <nlohmann/json.hpp>
 #include <string>
@@ -199,6 +202,53 @@ TEST(BatchKill, TerminateDuringTheSolveExitsSixAndLeavesNothing) {
   const ProcessResult r = child.wait(300);
   EXPECT_EQ(r.exit_code, 6) << r.err;
   EXPECT_EQ(list_folder(folder.path()), std::vector<std::string>{"case.json"});
+}
+
+// Ctrl-C while meshing: the mesher (SHARPEY_MESHER) is a program that never finishes and writes
+// its process id once it runs. SIGINT to sharpey-batch stops it: exit code 6, the mesher process
+// killed and reaped, nothing written. No timing assertion: the test waits for each event.
+TEST(BatchKill, InterruptWhileMeshingStopsTheMesher) {
+  TempFolder folder("batch-int-mesher");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string marker = folder / "mesher.pid", script = folder / "mesher.sh";
+  write_file(script, "#!/bin/sh\necho $$ > '" + marker + ".tmp'\nmv '" + marker + ".tmp' '" +
+                         marker + "'\nexec sleep 100000\n");
+  ASSERT_EQ(::chmod(script.c_str(), 0755), 0);
+  const std::string out = folder / "out";
+  ChildProcess child(batch_binary(), {"mesh", case_path, "--out", out},
+                     {"SHARPEY_MESHER=" + script});
+  while (!exists(marker)) std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  const pid_t mesher = static_cast<pid_t>(std::stol(read_file(marker)));
+  const auto interrupted_at = std::chrono::steady_clock::now();
+  child.send(SIGINT);
+  const ProcessResult r = child.wait(300);
+  // A figure, not a check (no timed tests): how long the command took to stop.
+  std::printf(
+      "SIGINT to exit while meshing: %.0f ms\n",
+      std::chrono::duration<double, std::milli>(std::chrono::steady_clock::now() - interrupted_at)
+          .count());
+  EXPECT_EQ(r.exit_code, 6) << r.err;
+  EXPECT_NE(r.err.find("interrupted"), std::string::npos) << r.err;
+  EXPECT_TRUE(::kill(mesher, 0) != 0 && errno == ESRCH) << "the mesher process is still there";
+  EXPECT_FALSE(exists(out));
+}
+
+// A mesher that crashes (SHARPEY_MESHER: a program that ends itself with SIGSEGV, as TetGen does
+// when memory runs out part-way) is a mesher failure naming the signal, not a crash of the command.
+TEST(BatchKill, ACrashingMesherIsAMesherFailure) {
+  TempFolder folder("batch-mesher-crash");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const std::string script = folder / "mesher.sh";
+  write_file(script, "#!/bin/sh\nkill -SEGV $$\n");
+  ASSERT_EQ(::chmod(script.c_str(), 0755), 0);
+  const ProcessResult r = ChildProcess(batch_binary(), {"mesh", case_path, "--out", folder / "out"},
+                                       {"SHARPEY_MESHER=" + script})
+                              .wait(300);
+  EXPECT_EQ(r.exit_code, 3) << r.err;
+  EXPECT_NE(r.err.find("TetGen crashed (SIGSEGV"), std::string::npos) << r.err;
+  EXPECT_FALSE(exists(folder / "out"));
 }
 
 }  // namespace
