@@ -87,4 +87,9 @@ if [ ${#found[@]} -gt 0 ]; then
   done
   [ "$status" -ne 0 ] || status=1
 fi
+# The case-file fuzzer for its fixed budget (scripts/fuzz.sh, clang-14 libFuzzer): on a full run,
+# or on a subset when SHARPEY_FUZZ_SECONDS is set.
+if [ $# -eq 0 ] || [ -n "${SHARPEY_FUZZ_SECONDS:-}" ]; then
+  "$SHARPEY_ROOT/scripts/fuzz.sh" || status=1
+fi
 exit "$status"

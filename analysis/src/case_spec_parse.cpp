@@ -1,11 +1,15 @@
 // Reading a case file: JSON text -> CaseSpec. Every object is read through Fields, which knows
 // the keys the schema allows at that place, so a misspelt key is reported with the closest known
 // one. Range checks follow in validate_case (case_spec_validate.cpp).
-#include <nlohmann/json.hpp>
+#include <fcntl.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include <algorithm>
+#include <cerrno>
 #include <cmath>
-#include <fstream>
+#include <cstring>
+#include <nlohmann/json.hpp>
 #include <set>
 #include <sstream>
 #include <string>
@@ -52,7 +56,8 @@ size_t edit_distance(const std::string& a, const std::string& b) {
 class Fields {
  public:
   Fields(const Json& object, std::string path) : object_(object), path_(std::move(path)) {
-    if (!object_.is_object()) type_error(path_.empty() ? "(top level)" : path_, "an object", object_);
+    if (!object_.is_object())
+      type_error(path_.empty() ? "(top level)" : path_, "an object", object_);
   }
 
   std::string path_of(const std::string& key) const {
@@ -106,8 +111,8 @@ class Fields {
   }
 
   [[noreturn]] void missing(const std::string& key, const std::string& example) const {
-    throw InputError(path_of(key), path_of(key) + " is missing; add it, e.g. \"" + key +
-                                       "\": " + example);
+    throw InputError(path_of(key),
+                     path_of(key) + " is missing; add it, e.g. \"" + key + "\": " + example);
   }
 
   // Throws for the first key the schema does not know here, suggesting the closest known key.
@@ -158,24 +163,112 @@ std::pair<int, int> line_column(const std::string& text, size_t byte) {
   return {line, column};
 }
 
+// Refuses text nested deeper than kMaxCaseNestingDepth before nlohmann sees it: the schema needs
+// four levels, and printing a value nested 100 000 deep for a message overflows the stack.
+void check_nesting(const std::string& text) {
+  int depth = 0;
+  bool in_string = false, escaped = false;
+  for (size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (in_string) {
+      if (escaped)
+        escaped = false;
+      else if (c == '\\')
+        escaped = true;
+      else if (c == '"')
+        in_string = false;
+      continue;
+    }
+    if (c == '"') {
+      in_string = true;
+    } else if (c == '{' || c == '[') {
+      if (++depth > kMaxCaseNestingDepth) {
+        const auto [line, column] = line_column(text, i + 1);
+        const std::string where =
+            "line " + std::to_string(line) + ", column " + std::to_string(column);
+        throw InputError(where, "brackets nested deeper than " +
+                                    std::to_string(kMaxCaseNestingDepth) + " levels at " + where +
+                                    "; a case file needs at most 5 levels of { } and [ ]; check "
+                                    "for brackets that are opened but never closed");
+      }
+    } else if (c == '}' || c == ']') {
+      --depth;
+    }
+  }
+}
+
+// The key path the parser is at ("load.magnitude", "scenarios[1].name"), followed through the
+// parser's callback events so a value nlohmann rejects itself can be named.
+class ParsePath {
+ public:
+  void on_event(Json::parse_event_t event, const Json& parsed) {
+    switch (event) {
+      case Json::parse_event_t::object_start:
+        levels_.push_back({false, "", 0});
+        break;
+      case Json::parse_event_t::array_start:
+        levels_.push_back({true, "", 0});
+        break;
+      case Json::parse_event_t::key:
+        if (!levels_.empty()) levels_.back().key = parsed.get<std::string>();
+        break;
+      case Json::parse_event_t::object_end:
+      case Json::parse_event_t::array_end:
+        if (!levels_.empty()) levels_.pop_back();
+        next_element();
+        break;
+      case Json::parse_event_t::value:
+        next_element();
+        break;
+    }
+  }
+  std::string text() const {
+    std::string path;
+    for (const Level& l : levels_) {
+      if (l.array)
+        path += "[" + std::to_string(l.index) + "]";
+      else if (!l.key.empty())
+        path += (path.empty() ? "" : ".") + l.key;
+    }
+    return path.empty() ? "(top level)" : path;
+  }
+
+ private:
+  struct Level {
+    bool array;
+    std::string key;
+    size_t index;
+  };
+  void next_element() {
+    if (!levels_.empty() && levels_.back().array) ++levels_.back().index;
+  }
+  std::vector<Level> levels_;
+};
+
 Json parse_json(const std::string& text) {
+  check_nesting(text);
   // Duplicate keys: nlohmann keeps the last one silently; a case file with two values for the
   // same key is ambiguous, so reject it.
   std::vector<std::set<std::string>> open_objects;
   std::string duplicate;
+  ParsePath at;
   const Json::parser_callback_t callback = [&](int /*depth*/, Json::parse_event_t event,
                                                Json& parsed) {
+    at.on_event(event, parsed);
     switch (event) {
-      case Json::parse_event_t::object_start: open_objects.emplace_back(); break;
+      case Json::parse_event_t::object_start:
+        open_objects.emplace_back();
+        break;
       case Json::parse_event_t::object_end:
         if (!open_objects.empty()) open_objects.pop_back();
         break;
       case Json::parse_event_t::key:
-        if (!open_objects.empty() && !open_objects.back().insert(parsed.get<std::string>()).second &&
-            duplicate.empty())
+        if (!open_objects.empty() &&
+            !open_objects.back().insert(parsed.get<std::string>()).second && duplicate.empty())
           duplicate = parsed.get<std::string>();
         break;
-      default: break;
+      default:
+        break;
     }
     return true;
   };
@@ -185,6 +278,17 @@ Json parse_json(const std::string& text) {
       throw InputError(duplicate, "key \"" + duplicate +
                                       "\" appears twice in the same object; keep one of them");
     return root;
+  } catch (const nlohmann::json::out_of_range& e) {
+    // nlohmann's only out_of_range while parsing: a number beyond the double range (1e400).
+    const std::string what = e.what();
+    const size_t open = what.find('\''), close = what.rfind('\'');
+    const std::string number =
+        open != std::string::npos && close > open ? what.substr(open + 1, close - open - 1) : "";
+    const std::string key = at.text();
+    throw InputError(key, key + " = " + number +
+                              " is too large for a number (the limit is about 1.8e308); give "
+                              "the value in the range docs/case-format.md lists for " +
+                              key);
   } catch (const nlohmann::json::parse_error& e) {
     const auto [line, column] = line_column(text, e.byte);
     std::string what = e.what();
@@ -248,10 +352,11 @@ void read_tooth(Fields t, CaseSpec& spec) {
     } else if (shape == "paraboloid") {
       tooth.ideal_root = mesh::IdealRoot::kParaboloid;
     } else {
-      throw InputError(r.path_of("shape"),
-                       r.path_of("shape") + " = \"" + shape +
-                           "\" is not an idealised root; use \"cylinder\", \"cone\" or "
-                           "\"paraboloid\" (or remove tooth.idealised_root for an anatomical root)");
+      throw InputError(
+          r.path_of("shape"),
+          r.path_of("shape") + " = \"" + shape +
+              "\" is not an idealised root; use \"cylinder\", \"cone\" or "
+              "\"paraboloid\" (or remove tooth.idealised_root for an anatomical root)");
     }
     tooth.ideal_radius_mm = r.number("radius_at_crest_mm", tooth.ideal_radius_mm);
     tooth.ideal_length_mm = r.number("root_length_mm", tooth.ideal_length_mm);
@@ -338,8 +443,8 @@ std::string default_scenario_name(const Scenario& s) {
     name = format_number(s.loss.horizontal_mm) + " mm loss";
   if (s.loss.defect_depth_mm > 0) {
     if (!name.empty()) name += " + ";
-    name += format_number(s.loss.defect_depth_mm) + " mm " + mesh::to_string(s.loss.defect_surface) +
-            " defect";
+    name += format_number(s.loss.defect_depth_mm) + " mm " +
+            mesh::to_string(s.loss.defect_surface) + " defect";
   }
   return name.empty() ? "healthy" : name;
 }
@@ -445,8 +550,10 @@ void read_load(Fields l, CaseSpec& spec) {
                                        std::sin(elevation * deg));
       load.direction_name.clear();
     } else {
-      type_error(path, "a name (\"lingual\", ...), a vector [x, y, z] or angles {\"azimuth_deg\", "
-                 "\"elevation_deg\"}", *d);
+      type_error(path,
+                 "a name (\"lingual\", ...), a vector [x, y, z] or angles {\"azimuth_deg\", "
+                 "\"elevation_deg\"}",
+                 *d);
     }
   }
 
@@ -464,8 +571,9 @@ void read_load(Fields l, CaseSpec& spec) {
     Fields c = l.object("couple");
     const bool has_moment = c.has("moment"), has_ratio = c.has("moment_to_force_mm");
     if (has_moment == has_ratio)
-      throw InputError(c.path(), c.path() + " needs exactly one of \"moment\" ([x, y, z] with "
-                                            "\"unit\") or \"moment_to_force_mm\"");
+      throw InputError(c.path(), c.path() +
+                                     " needs exactly one of \"moment\" ([x, y, z] with "
+                                     "\"unit\") or \"moment_to_force_mm\"");
     if (has_moment) {
       const Eigen::Vector3d m = read_vector(*c.find("moment"), c.path_of("moment"));
       const std::string unit_name = c.string("unit", "N.mm");
@@ -552,16 +660,52 @@ CaseSpec parse_case(const std::string& json_text, const std::string& origin) {
   }
 }
 
-CaseSpec load_case(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in)
-    throw InputError("file", "cannot open the case file \"" + path +
-                                 "\"; check the path and that the file is readable");
-  std::ostringstream text;
-  text << in.rdbuf();
-  if (in.bad())
-    throw InputError("file", "cannot read the case file \"" + path + "\"; check the file");
-  return parse_case(text.str(), path);
+std::string read_case_text(const std::string& path) {
+  // O_NONBLOCK: opening a FIFO without a writer must not block before it is refused below.
+  const int fd = ::open(path.c_str(), O_RDONLY | O_NONBLOCK | O_CLOEXEC);
+  if (fd < 0)
+    throw InputError("file", "cannot open the case file \"" + path + "\" (" + std::strerror(errno) +
+                                 "); check the path and that the file is readable");
+  struct FdCloser {
+    int fd;
+    ~FdCloser() { ::close(fd); }
+  } closer{fd};
+  struct stat info {};
+  if (::fstat(fd, &info) != 0)
+    throw InputError("file", "cannot examine the case file \"" + path + "\" (" +
+                                 std::strerror(errno) + "); check the file");
+  if (!S_ISREG(info.st_mode))
+    throw InputError("file", "the case file \"" + path + "\" is not a regular file (" +
+                                 (S_ISDIR(info.st_mode)    ? "a folder"
+                                  : S_ISFIFO(info.st_mode) ? "a pipe"
+                                  : S_ISCHR(info.st_mode)  ? "a character device"
+                                                           : "a special file") +
+                                 "); give the path of a .json case file");
+  const auto too_large = [&path](long long n_bytes) {
+    return InputError("file", "the case file \"" + path + "\" holds " + std::to_string(n_bytes) +
+                                  " bytes, more than the limit of " +
+                                  std::to_string(kMaxCaseFileBytes) +
+                                  " bytes; a case file is a few kilobytes of JSON: check that "
+                                  "this is the right file");
+  };
+  if (info.st_size > static_cast<off_t>(kMaxCaseFileBytes)) throw too_large(info.st_size);
+  std::string text;
+  char buffer[65536];
+  for (;;) {
+    const ssize_t n = ::read(fd, buffer, sizeof buffer);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      throw InputError("file", "cannot read the case file \"" + path + "\" (" +
+                                   std::strerror(errno) + "); check the file");
+    }
+    if (n == 0) break;
+    text.append(buffer, static_cast<size_t>(n));
+    // The file may grow while it is read: stop at the limit all the same.
+    if (text.size() > kMaxCaseFileBytes) throw too_large(static_cast<long long>(text.size()));
+  }
+  return text;
 }
+
+CaseSpec load_case(const std::string& path) { return parse_case(read_case_text(path), path); }
 
 }  // namespace sharpey::analysis

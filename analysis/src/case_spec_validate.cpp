@@ -1,6 +1,7 @@
 // Range checks of a CaseSpec, keys named by their case-file path. The geometry of every scenario
 // goes through mesh::validate as well, its keys translated to case-file paths.
 #include <cmath>
+#include <cstdio>
 #include <set>
 #include <sstream>
 #include <string>
@@ -16,7 +17,7 @@ namespace {
 // Plausibility bounds (not clinical advice): they catch unit mistakes such as newtons typed as
 // grams-force or kPa typed as MPa.
 constexpr double kMaxForceN = 2000 * 0.00980665;  // 2000 g
-constexpr double kMaxMomentNmm = 200.0;          // about 20000 g.mm
+constexpr double kMaxMomentNmm = 200.0;           // about 20000 g.mm
 constexpr double kMaxRatioMm = 30.0;
 constexpr double kMaxThresholdKpa = 1000.0;
 constexpr int kMaxScenarios = 12;
@@ -30,6 +31,35 @@ std::string num(double v) {
 [[noreturn]] void out_of_range(const std::string& key, const std::string& value,
                                const std::string& allowed, const std::string& fix) {
   throw InputError(key, key + " = " + value + " is out of range: " + allowed + "; " + fix);
+}
+
+// Names, labels and sources are written into comment lines of CSV files, table headings and file
+// names: a line break there splits a line (a reader then takes the wrong line for the header), a
+// NUL or escape ends up as a raw byte. Refuses C0 controls, DEL and the UTF-8 encoded C1 controls
+// (U+0080 to U+009F); `line_breaks_allowed` lets free text (notes) keep line feeds and tabs.
+void check_text(const std::string& text, const std::string& key, bool line_breaks_allowed) {
+  for (size_t i = 0; i < text.size(); ++i) {
+    const unsigned char c = static_cast<unsigned char>(text[i]);
+    const bool c1 = c == 0xC2 && i + 1 < text.size() &&
+                    static_cast<unsigned char>(text[i + 1]) >= 0x80 &&
+                    static_cast<unsigned char>(text[i + 1]) <= 0x9F;
+    if (!(c < 0x20 || c == 0x7F || c1)) continue;
+    if (line_breaks_allowed && (c == '\n' || c == '\t')) continue;
+    const unsigned code = c1 ? static_cast<unsigned char>(text[i + 1]) : c;
+    char shown_code[8];
+    std::snprintf(shown_code, sizeof shown_code, "U+%04X", code);
+    const char* what = c == '\n'   ? " (line feed)"
+                       : c == '\r' ? " (carriage return)"
+                       : c == '\t' ? " (tab)"
+                       : c == 0    ? " (NUL)"
+                                   : "";
+    throw InputError(
+        key, key + " holds the control character " + shown_code + what + " at byte " +
+                 std::to_string(i + 1) + "; " +
+                 (line_breaks_allowed ? "only line feeds and tabs are allowed here: remove it"
+                                      : "it must be one line of printable text: remove it or "
+                                        "replace it with a space"));
+  }
 }
 
 void check_material(const fem::Material& m, const std::string& key, const std::string& typical) {
@@ -48,9 +78,11 @@ void check_threshold(const Threshold& t, const std::string& key) {
     out_of_range(key + ".value_kpa", num(t.value_kpa) + " kPa",
                  "allowed 0 < value <= " + num(kMaxThresholdKpa) + " kPa",
                  "give the pressure in kPa (1 kPa = 7.5 mmHg)");
+  check_text(t.source, key + ".source", false);
   if (t.source.empty())
-    throw InputError(key + ".source", key + ".source is empty; say where the threshold comes from "
-                                            "(a citation, or \"own choice\")");
+    throw InputError(key + ".source", key +
+                                          ".source is empty; say where the threshold comes from "
+                                          "(a citation, or \"own choice\")");
 }
 
 void check_load(const CaseSpec& spec) {
@@ -86,8 +118,8 @@ void check_load(const CaseSpec& spec) {
   if (load.couple == CoupleKind::kMoment) {
     const double m = load.moment_nmm.norm();
     if (!(std::isfinite(m) && m <= kMaxMomentNmm))
-      out_of_range("load.couple.moment", num(m) + " N.mm", "allowed up to " + num(kMaxMomentNmm) +
-                       " N.mm (about 20000 g.mm)",
+      out_of_range("load.couple.moment", num(m) + " N.mm",
+                   "allowed up to " + num(kMaxMomentNmm) + " N.mm (about 20000 g.mm)",
                    "check the moment and load.couple.unit (\"N.mm\", \"cN.mm\" or \"g.mm\")");
   }
   if (load.couple == CoupleKind::kRatio) {
@@ -116,8 +148,10 @@ void check_scenarios(const CaseSpec& spec) {
     const Scenario& s = spec.scenarios[static_cast<size_t>(i)];
     const std::string key = "scenarios[" + std::to_string(i) + "]";
     if (s.name.empty())
-      throw InputError(key + ".name", key + ".name is empty; give the scenario a short name such "
-                                            "as \"4 mm loss\" (or leave the key out)");
+      throw InputError(key + ".name", key +
+                                          ".name is empty; give the scenario a short name such "
+                                          "as \"4 mm loss\" (or leave the key out)");
+    check_text(s.name, key + ".name", false);
     if (s.name.size() > 80)
       out_of_range(key + ".name", "\"" + s.name.substr(0, 20) + "...\"", "at most 80 characters",
                    "shorten the name");
@@ -138,14 +172,43 @@ void check_scenarios(const CaseSpec& spec) {
   }
 }
 
+// The largest horizontal_loss_percent (to 0.1 %) mesh::validate accepts for `model`, found by
+// bisection on the check itself so the answer follows whatever limit the mesher sets.
+double max_loss_percent(mesh::ModelSpec model) {
+  const double root_mm = root_length_mm(model.tooth);
+  double accepted = 0, refused = 100;
+  for (int i = 0; i < 30; ++i) {
+    const double mid = 0.5 * (accepted + refused);
+    model.loss.horizontal_mm = mid / 100.0 * root_mm;
+    try {
+      mesh::validate(model);
+      accepted = mid;
+    } catch (const InputError& e) {
+      (e.key() == "loss.horizontal_mm" ? refused : accepted) = mid;
+    }
+  }
+  return std::floor(accepted * 10) / 10;
+}
+
 void run_mesh_validate(const CaseSpec& spec, const mesh::ModelSpec& model, int scenario) {
   try {
     mesh::validate(model);
   } catch (const InputError& e) {
     const std::string path = case_keys::model_key_to_path(e.key(), spec, scenario);
     std::string message = e.what();
-    if (scenario >= 0)
-      message = "scenario \"" + spec.scenarios[static_cast<size_t>(scenario)].name + "\": " + message;
+    const Scenario* s = scenario >= 0 ? &spec.scenarios[static_cast<size_t>(scenario)] : nullptr;
+    if (s && s->horizontal_loss_percent >= 0 && e.key() == "loss.horizontal_mm") {
+      // The case gives the loss in percent: answer in percent, not in the mesher's millimetres.
+      const double root_mm = root_length_mm(model.tooth);
+      const double embedded_mm = root_mm - model.bone.crest_below_cej_mm - model.loss.horizontal_mm;
+      message = num(s->horizontal_loss_percent) + " % bone loss (" + num(model.loss.horizontal_mm) +
+                " mm of the " + num(root_mm) + " mm root) " +
+                (embedded_mm > 0 ? "leaves only " + num(embedded_mm) +
+                                       " mm of root in the bone, too little for the model"
+                                 : std::string("leaves no root in the bone")) +
+                "; use at most " + num(max_loss_percent(model)) + " %";
+    }
+    if (s) message = "scenario \"" + s->name + "\": " + message;
     throw InputError(path, path + ": " + message);
   }
 }
@@ -170,7 +233,8 @@ std::string model_key_to_path(const std::string& key, const CaseSpec& spec, int 
 
   if (is("loss.horizontal_mm") || is("horizontal_mm"))
     return prefix + (percent ? "horizontal_loss_percent" : "horizontal_loss_mm");
-  if (is("loss.defect_depth_mm") || is("defect_depth_mm")) return prefix + "angular_defect.depth_mm";
+  if (is("loss.defect_depth_mm") || is("defect_depth_mm"))
+    return prefix + "angular_defect.depth_mm";
   if (is("loss.defect_width_deg") || is("defect_width_deg"))
     return prefix + "angular_defect.width_deg";
   if (is("loss.defect_surface") || is("defect_surface")) return prefix + "angular_defect.surface";
@@ -178,7 +242,8 @@ std::string model_key_to_path(const std::string& key, const CaseSpec& spec, int 
 
   if (is("tooth.ideal_radius_mm") || is("ideal_radius_mm"))
     return "tooth.idealised_root.radius_at_crest_mm";
-  if (is("tooth.ideal_length_mm") || is("ideal_length_mm")) return "tooth.idealised_root.root_length_mm";
+  if (is("tooth.ideal_length_mm") || is("ideal_length_mm"))
+    return "tooth.idealised_root.root_length_mm";
   for (const auto& d : kDimensionKeys) {
     const std::string name = d.key;
     if (is(name) || is("tooth.dimensions." + name) || is("dimensions." + name) ||
@@ -189,7 +254,8 @@ std::string model_key_to_path(const std::string& key, const CaseSpec& spec, int 
       {"crest_width_mm", "crest"}, {"mid_width_mm", "mid_root"}, {"apex_width_mm", "apex"}};
   for (const auto& [field, name] : pdl)
     if (is(field) || is(std::string("pdl.") + field))
-      return uniform_pdl ? std::string("pdl.width_mm") : std::string("pdl.width_profile_mm.") + name;
+      return uniform_pdl ? std::string("pdl.width_mm")
+                         : std::string("pdl.width_profile_mm.") + name;
   for (const auto& b : kBoneKeys)
     if (is(b.key) || is(std::string("bone.") + b.key)) return std::string("bone.") + b.key;
   const char* bracket[] = {"height_mm", "width_mm", "length_mm"};
@@ -210,20 +276,21 @@ void validate_case(const CaseSpec& spec) {
     out_of_range("schema_version", std::to_string(spec.schema_version),
                  "this program reads version " + std::to_string(kCaseSchemaVersion),
                  "write the case with the current schema");
+  check_text(spec.label, "label", false);
+  check_text(spec.notes, "notes", true);
   check_material(spec.tooth_material, "tooth.material", "dentin about 18600 MPa");
   check_material(spec.pdl_material, "pdl.material", "the PDL is usually 0.05 to 0.7 MPa");
-  check_material(spec.cortical_material, "bone.cortical_material",
-                 "cortical bone about 13700 MPa");
+  check_material(spec.cortical_material, "bone.cortical_material", "cortical bone about 13700 MPa");
   check_material(spec.cancellous_material, "bone.cancellous_material",
                  "cancellous bone about 1370 MPa");
   check_threshold(spec.thresholds.capillary, "thresholds.capillary");
   check_threshold(spec.thresholds.limit, "thresholds.limit");
   if (!(spec.thresholds.capillary.value_kpa < spec.thresholds.limit.value_kpa))
-    out_of_range("thresholds.limit.value_kpa", num(spec.thresholds.limit.value_kpa) + " kPa",
-                 "must exceed the capillary threshold " +
-                     num(spec.thresholds.capillary.value_kpa) + " kPa",
-                 "the physiological limit (default 16 kPa) lies above capillary pressure "
-                 "(default 4.7 kPa)");
+    out_of_range(
+        "thresholds.limit.value_kpa", num(spec.thresholds.limit.value_kpa) + " kPa",
+        "must exceed the capillary threshold " + num(spec.thresholds.capillary.value_kpa) + " kPa",
+        "the physiological limit (default 16 kPa) lies above capillary pressure "
+        "(default 4.7 kPa)");
   // Mesh sizes, tooth dimensions, PDL widths, bone and bracket: mesh::validate below.
   check_scenarios(spec);
   check_load(spec);

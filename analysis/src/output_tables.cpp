@@ -73,7 +73,11 @@ std::string csv_number(double value) {
 }
 
 std::string csv_field(const std::string& text) {
-  if (text.find_first_of(",\"\n\r") == std::string::npos) return text;
+  // RFC 4180 section 2: a field holding a comma, quote or line break is enclosed in quotes, its
+  // quotes doubled. A field starting with '#' is quoted too, so readers that skip our '#'
+  // comment lines cannot mistake a row for one.
+  if (text.find_first_of(",\"\n\r") == std::string::npos && (text.empty() || text[0] != '#'))
+    return text;
   std::string quoted = "\"";
   for (char c : text) {
     if (c == '"') quoted += '"';

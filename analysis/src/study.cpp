@@ -51,7 +51,7 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     mesh::ModelSpec m = spec_.model;
     const Scenario& scenario = spec_.scenarios[static_cast<size_t>(k)];
     m.loss = scenario.loss;
-    return detail::build_scenario_model(m, scenario.name);
+    return detail::build_scenario_model(m, scenario.name, cancel_);
   };
   // No second thread to be had (thread or memory limits): mesh on this thread when get() asks.
   const auto start_meshing = [&build](int k) {

@@ -3,6 +3,7 @@
 // batch command's exit codes, the app's dialogs) tell the two apart like any other failure.
 #pragma once
 
+#include <atomic>
 #include <string>
 
 #include "sharpey/mesh/tooth_model.h"
@@ -12,7 +13,8 @@ namespace sharpey::analysis::detail {
 // mesh::build_tooth_model(model); std::bad_alloc from any allocation on the way (surfaces, TetGen,
 // the second-order nodes) becomes a MeshError naming the scenario, the mesh sizes and the fix.
 // TetGen's own out-of-memory code already arrives as a MeshError and passes through unchanged.
-mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario);
+mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario,
+                                      const std::atomic<bool>* cancel = nullptr);
 
 // Message of the SolverError thrown when an allocation fails while the scenario's model (n_nodes
 // nodes, n_elements elements) is assembled, factorised, solved or post-processed.

@@ -33,9 +33,10 @@ constexpr const char* kLessMemory =
 
 }  // namespace
 
-mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario) {
+mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario,
+                                      const std::atomic<bool>* cancel) {
   try {
-    return mesh::build_tooth_model(model);
+    return mesh::build_tooth_model(model, cancel);
   } catch (const std::bad_alloc&) {
     throw MeshError("meshing scenario '" + scenario + "' ran out of memory (" +
                     sizes_text(model.sizing) + "); " + kLessMemory);
@@ -87,7 +88,7 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index,
     : scenario_(checked_scenario(spec, scenario_index)) {
   check_cancel(cancel);
   report(progress, "mesh", 0.0);
-  model_ = detail::build_scenario_model(model_of(spec, scenario_index), scenario_.name);
+  model_ = detail::build_scenario_model(model_of(spec, scenario_index), scenario_.name, cancel);
   solve(spec, progress, cancel, options);
 }
 

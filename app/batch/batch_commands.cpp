@@ -3,13 +3,14 @@
 #include <algorithm>
 #include <chrono>
 #include <cstdlib>
-#include <fstream>
-#include <thread>
+#include <filesystem>
 #include <iostream>
 #include <memory>
 #include <new>
 #include <sstream>
+#include <thread>
 
+#include "failure.h"
 #include "interrupt.h"
 #include "progress.h"
 #include "sharpey/analysis/case_spec.h"
@@ -29,19 +30,30 @@ void stop_if_interrupted() {
   if (interrupted()) throw Cancelled();
 }
 
-std::string read_text(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in)
-    throw InputError("file", "cannot open the case file \"" + path +
-                                 "\"; check the path and that the file is readable");
-  std::ostringstream text;
-  text << in.rdbuf();
-  return text.str();
+// Refuses an --out that cannot be right before any work: an empty path, or a folder holding the
+// case file (the output folder is replaced as a whole, so the case would be lost).
+void check_out_dir(const CommonOptions& options) {
+  if (options.out_dir.empty())
+    throw InputError("--out", "--out is empty; give the output folder, e.g. --out out/incisor");
+  namespace fs = std::filesystem;
+  std::error_code ec;
+  const fs::path case_path = fs::weakly_canonical(options.case_path, ec);
+  if (ec) return;  // reading the case reports it
+  const fs::path out = fs::weakly_canonical(options.out_dir, ec);
+  if (ec) return;
+  const std::string out_text = out.string() + "/", case_string = case_path.string();
+  if (case_string.compare(0, out_text.size(), out_text) == 0)
+    throw InputError("--out", "--out \"" + options.out_dir + "\" holds the case file \"" +
+                                  options.case_path +
+                                  "\"; the output folder is replaced as a whole by each run, so "
+                                  "give a folder that does not contain the case, e.g. --out " +
+                                  (out / "results").string());
 }
 
 // The case file's text with the command-line overrides applied.
 std::string case_text(const CommonOptions& options) {
-  std::string text = read_text(options.case_path);
+  check_out_dir(options);
+  std::string text = analysis::read_case_text(options.case_path);
   if (!options.mesh_preset.empty()) {
     analysis::parse_case(text, options.case_path);  // report the file's own errors first
     text = analysis::set_case_value(text, "mesh.preset", options.mesh_preset);
@@ -68,7 +80,7 @@ void pause_after_write() {
 mesh::ToothModel build_model(const CaseSpec& spec, int i) {
   const mesh::ModelSpec model = analysis::scenario_model(spec, i);
   try {
-    return mesh::build_tooth_model(model);
+    return mesh::build_tooth_model(model, interrupt_flag());
   } catch (const std::bad_alloc&) {
     throw MeshError("meshing scenario '" + spec.scenarios[static_cast<size_t>(i)].name +
                     "' ran out of memory (" + mesh::to_string(model.sizing.preset) +
@@ -89,16 +101,20 @@ void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
   const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
   analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
-  progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") +
-                ", " + mesh::to_string(spec.model.sizing.preset) + " mesh");
-  const analysis::Study study(
-      spec, [&progress](const std::string& stage, double f) { progress.report(stage, f); },
-      interrupt_flag());
+  progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") + ", " +
+                mesh::to_string(spec.model.sizing.preset) + " mesh");
+  const analysis::Study study = in_model_stage([&] {
+    return analysis::Study(
+        spec, [&progress](const std::string& stage, double f) { progress.report(stage, f); },
+        interrupt_flag());
+  });
   stop_if_interrupted();
   progress.report("evaluating the force system", 0.0);
-  const std::vector<analysis::ScenarioResult> results = study.evaluate(spec.load);
+  const std::vector<analysis::ScenarioResult> results =
+      in_model_stage([&] { return study.evaluate(spec.load); });
   progress.report("measuring the meshes", 0.0);
-  std::vector<analysis::ScenarioFacts> facts = analysis::scenario_facts(study, true);
+  std::vector<analysis::ScenarioFacts> facts =
+      in_model_stage([&] { return analysis::scenario_facts(study, true); });
   stop_if_interrupted();
 
   std::vector<std::string> written;
@@ -109,8 +125,10 @@ void run_command(const CommonOptions& options) {
     f.pdl_vtu = stem + "_pdl.vtu";
     f.root_map_csv = stem + "_root_map.csv";
     progress.report("writing " + stem + " files", 0.0);
-    analysis::write_scenario_vtu(*study.solutions()[i], results[i], out.path(f.model_vtu),
-                                 out.path(f.pdl_vtu));
+    in_output_stage([&] {
+      analysis::write_scenario_vtu(*study.solutions()[i], results[i], out.path(f.model_vtu),
+                                   out.path(f.pdl_vtu));
+    });
     pause_after_write();
     analysis::write_file_atomic(out.path(f.root_map_csv), analysis::root_map_csv(spec, results[i]));
     written.insert(written.end(), {f.model_vtu, f.pdl_vtu, f.root_map_csv});
@@ -118,7 +136,8 @@ void run_command(const CommonOptions& options) {
     stop_if_interrupted();
   }
   progress.report("writing the summaries", 0.0);
-  analysis::write_file_atomic(out.path("results.json"), analysis::results_json(spec, results, facts));
+  analysis::write_file_atomic(out.path("results.json"),
+                              analysis::results_json(spec, results, facts));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
   analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
   analysis::save_case(spec, out.path("case.json"));
@@ -148,15 +167,16 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
   // Keys that leave the model unchanged vary fastest, so consecutive combinations reuse one
   // solved Study (a new force system or threshold costs milliseconds, a new model a full solve).
   std::stable_partition(variations.begin(), variations.end(), [](const auto& v) {
-    return v.key.rfind("load.", 0) != 0 && v.key.rfind("thresholds.", 0) != 0 &&
-           v.key != "label" && v.key != "notes";
+    return v.key.rfind("load.", 0) != 0 && v.key.rfind("thresholds.", 0) != 0 && v.key != "label" &&
+           v.key != "notes";
   });
   size_t n_combinations = 1;
   for (const auto& v : variations) {
     n_combinations *= v.values.size();
     if (n_combinations > 1000)
-      throw InputError("--vary", "the --vary options give more than 1000 combinations; vary fewer "
-                                 "keys or values, or split the sweep");
+      throw InputError("--vary",
+                       "the --vary options give more than 1000 combinations; vary fewer "
+                       "keys or values, or split the sweep");
   }
 
   // Build and check every combination before any solve, so a bad value fails at once.
@@ -206,21 +226,24 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
         "combination " + std::to_string(c + 1) + " of " + std::to_string(combinations.size());
     if (!study || model != study_model) {
       study.reset();
-      study = std::make_unique<analysis::Study>(
-          spec,
-          [&progress, &prefix](const std::string& stage, double f) {
-            progress.report(prefix + ": " + stage, f);
-          },
-          interrupt_flag());
+      study = in_model_stage([&] {
+        return std::make_unique<analysis::Study>(
+            spec,
+            [&progress, &prefix](const std::string& stage, double f) {
+              progress.report(prefix + ": " + stage, f);
+            },
+            interrupt_flag());
+      });
       study_model = model;
       ++n_solves;
     }
     stop_if_interrupted();
     const auto& solutions = study->solutions();
-    const analysis::ScenarioSolution* healthy = solutions[static_cast<size_t>(study->healthy_index())].get();
+    const analysis::ScenarioSolution* healthy =
+        solutions[static_cast<size_t>(study->healthy_index())].get();
     for (const auto& solution : solutions) {
-      const analysis::ScenarioResult r =
-          analysis::evaluate(*solution, spec.load, spec.thresholds, healthy);
+      const analysis::ScenarioResult r = in_model_stage(
+          [&] { return analysis::evaluate(*solution, spec.load, spec.thresholds, healthy); });
       table.add(static_cast<int>(c + 1), combinations[c].values, r);
     }
   }
@@ -246,15 +269,18 @@ void mesh_command(const CommonOptions& options) {
                         " (" + name + ")",
                     static_cast<double>(i) / static_cast<double>(n));
     stop_if_interrupted();
-    const mesh::ToothModel model = build_model(spec, static_cast<int>(i));
+    const mesh::ToothModel model =
+        in_model_stage([&] { return build_model(spec, static_cast<int>(i)); });
     stop_if_interrupted();
     analysis::ScenarioFacts f;
     f.geometry = model.geometry;
-    f.mesh = mesh::measure(model.mesh);
+    f.mesh = in_model_stage([&] { return mesh::measure(model.mesh); });
     const std::string stem = analysis::scenario_file_stem(static_cast<int>(i), name);
     f.model_vtu = stem + "_mesh.vtu";
-    mesh::write_vtu(out.path(f.model_vtu), model.mesh);
-    mesh::write_boundary_vtu(out.path(stem + "_boundary.vtu"), model.mesh);
+    in_output_stage([&] {
+      mesh::write_vtu(out.path(f.model_vtu), model.mesh);
+      mesh::write_boundary_vtu(out.path(stem + "_boundary.vtu"), model.mesh);
+    });
     written.insert(written.end(), {f.model_vtu, stem + "_boundary.vtu"});
     facts.push_back(std::move(f));
   }

@@ -1,7 +1,6 @@
 // sharpey-batch: headless runs of Sharpey case files (run, sweep, mesh). Exit codes in
 // exit_codes.h, documented in --help and docs/case-format.md.
 #include <CLI/CLI.hpp>
-
 #include <cstdio>
 #include <cstdlib>
 #include <exception>
@@ -11,6 +10,7 @@
 
 #include "batch_commands.h"
 #include "exit_codes.h"
+#include "failure.h"
 #include "interrupt.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
@@ -36,10 +36,12 @@ Exit codes:
   2  bad input or usage: the case file or an option is malformed or out of range
      (the message names the key, the value and the fix)
   3  mesher failure: the tooth model could not be meshed, also when memory ran out
-     while meshing (try --mesh-preset coarse)
+     while meshing (try --mesh-preset coarse) or the meshed model is faulty (the PDL
+     does not cover the root, the tooth's rigid motion cannot be fitted)
   4  solver failure: the finite-element system could not be assembled, factorised or
      solved, also when memory ran out doing so (try --mesh-preset coarse)
-  5  output failure: a result file could not be written
+  5  output failure: a result file could not be written, or --out is a folder of
+     other files (an output folder is replaced as a whole)
   6  interrupted (Ctrl-C, SIGINT or SIGTERM); nothing partial is left in the output folder
 
 Output folders are written all at once: files appear in --out only when complete.
@@ -49,16 +51,6 @@ int fail(int code, const std::string& kind, const std::string& message) {
   std::cerr << "sharpey-batch: " << kind << ": " << message << '\n';
   return code;
 }
-
-// What to try after a mesher or solver failure (the library's message says what failed).
-constexpr const char* kMeshHint =
-    "sharpey-batch: what to do: if memory ran out, mesh coarser (--mesh-preset coarse, or larger "
-    "mesh.pdl_edge_mm / mesh.bone_edge_mm in the case file); otherwise change the geometry values "
-    "the message names (tooth dimensions, PDL width, bone loss) slightly\n";
-constexpr const char* kSolverHint =
-    "sharpey-batch: what to do: if memory ran out, mesh coarser (--mesh-preset coarse) or run "
-    "fewer scenarios at a time; if the system is singular or not positive definite, check the "
-    "materials and the bone geometry of the case\n";
 
 // Last resort for an exception that escapes where it cannot be caught (a worker thread, a
 // destructor): a message and exit code 1 instead of std::abort's core dump. Output folders are
@@ -104,12 +96,14 @@ int main(int argc, char** argv) {
     sub->add_flag("--quiet,-q", options.quiet, "no progress lines on stderr");
   };
   CLI::App* run = app.add_subcommand(
-      "run", "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
-             "case.json and per scenario the model and PDL .vtu and the root-map CSV");
+      "run",
+      "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
+      "case.json and per scenario the model and PDL .vtu and the root-map CSV");
   add_common(run);
   CLI::App* sweep = app.add_subcommand(
-      "sweep", "full-factorial sweep over case keys; write sweep.csv (one row per combination "
-               "and scenario)");
+      "sweep",
+      "full-factorial sweep over case keys; write sweep.csv (one row per combination "
+      "and scenario)");
   add_common(sweep);
   sweep
       ->add_option("--vary", vary,
@@ -123,8 +117,9 @@ int main(int argc, char** argv) {
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
     if (command != "run" && command != "sweep" && command != "mesh")
-      return fail(kBadInput, "usage", "unknown command \"" + command +
-                                          "\"; use run, sweep or mesh (see sharpey-batch --help)");
+      return fail(
+          kBadInput, "usage",
+          "unknown command \"" + command + "\"; use run, sweep or mesh (see sharpey-batch --help)");
   }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
@@ -141,32 +136,10 @@ int main(int argc, char** argv) {
     if (sweep->parsed()) sweep_command(options, vary);
     if (mesh_cmd->parsed()) mesh_command(options);
     return kOk;
-  } catch (const Cancelled&) {
-    return fail(kInterrupted, "interrupted", "stopped before finishing; no output was written");
-  } catch (const InputError& e) {
-    return fail(kBadInput, "bad input (key " + e.key() + ")", e.what());
-  } catch (const MeshError& e) {
-    fail(kMeshFailure, "mesher failure", e.what());
-    std::cerr << kMeshHint;
-    return kMeshFailure;
-  } catch (const SolverError& e) {
-    fail(kSolverFailure, "solver failure", e.what());
-    std::cerr << kSolverHint;
-    return kSolverFailure;
-  } catch (const analysis::OutputError& e) {
-    return fail(kOutputFailure, "output failure", e.what());
-  } catch (const std::filesystem::filesystem_error& e) {
-    return fail(kOutputFailure, "output failure", e.what());
-  } catch (const Error& e) {
-    // Other library data errors: the .vtu writer reports I/O failures this way.
-    return fail(kOutputFailure, "error", e.what());
-  } catch (const std::bad_alloc&) {
-    // Meshing and solving report running out of memory as mesher (3) or solver (4) failures;
-    // this is an allocation elsewhere (reading, evaluating, writing).
-    return fail(kInternalError, "internal error",
-                "out of memory outside meshing and solving; try a coarser mesh preset "
-                "(--mesh-preset coarse) or fewer scenarios");
-  } catch (const std::exception& e) {
-    return fail(kInternalError, "internal error", e.what());
+  } catch (...) {
+    const Failure f = describe_failure(std::current_exception());
+    fail(f.exit_code, f.kind, f.message);
+    if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
+    return f.exit_code;
   }
 }

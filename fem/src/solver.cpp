@@ -7,7 +7,6 @@
 #include <map>
 #include <mutex>
 #include <set>
-#include <shared_mutex>
 #include <sstream>
 #include <string>
 #include <utility>
@@ -15,7 +14,6 @@
 #include "detail/kinematics.h"
 #include "sharpey/error.h"
 #include "sharpey/fem/solver.h"
-#include "sharpey/mesh/child_process.h"
 
 namespace sharpey::fem {
 namespace {
@@ -341,11 +339,7 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
 
   t0 = Clock::now();
   int ok;
-  {
-    // Threaded BLAS inside: no fork meanwhile (mesh::fork_mutex explains why).
-    const std::shared_lock<std::shared_mutex> blas_call(mesh::fork_mutex());
-    ok = cholmod_l_factorize(A, L, &common);
-  }
+  ok = cholmod_l_factorize(A, L, &common);
   stats.factorise_s = seconds_since(t0);
   const int status = common.status;
   cholmod_l_free_sparse(&A, &common);
@@ -421,11 +415,7 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
       }
       rhs_norm[static_cast<size_t>(j)] = std::sqrt(norm2);
     }
-    cholmod_dense* X;
-    {
-      const std::shared_lock<std::shared_mutex> blas_call(mesh::fork_mutex());  // as above
-      X = cholmod_l_solve(CHOLMOD_A, L, B, &common);
-    }
+    cholmod_dense* X = cholmod_l_solve(CHOLMOD_A, L, B, &common);
     cholmod_l_free_dense(&B, &common);
     if (!X || common.status < CHOLMOD_OK) {
       if (X) cholmod_l_free_dense(&X, &common);

@@ -1,17 +1,20 @@
 #include "sharpey/mesh/child_process.h"
 
 #include <fcntl.h>
-#include <sys/prctl.h>
-#include <sys/syscall.h>
-#include <sys/types.h>
+#include <poll.h>
+#include <spawn.h>
+#include <sys/socket.h>
+#include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
 #include <cerrno>
 #include <csignal>
+#include <cstdlib>
 #include <cstring>
-#include <mutex>
 #include <string>
+
+extern char** environ;  // POSIX: the environment of this process
 
 namespace sharpey::mesh {
 
@@ -31,84 +34,132 @@ bool write_all(int fd, const void* data, size_t size) {
 
 std::string signal_name(int signal) {
   switch (signal) {
-    case SIGSEGV: return "SIGSEGV (segmentation fault)";
-    case SIGABRT: return "SIGABRT (failed assertion or abort)";
-    case SIGBUS: return "SIGBUS (bus error)";
-    case SIGFPE: return "SIGFPE (arithmetic error)";
-    case SIGILL: return "SIGILL (illegal instruction)";
-    case SIGKILL: return "SIGKILL (killed, e.g. by the out-of-memory killer)";
-    default: return "signal " + std::to_string(signal);
+    case SIGSEGV:
+      return "SIGSEGV (segmentation fault)";
+    case SIGABRT:
+      return "SIGABRT (failed assertion or abort)";
+    case SIGBUS:
+      return "SIGBUS (bus error)";
+    case SIGFPE:
+      return "SIGFPE (arithmetic error)";
+    case SIGILL:
+      return "SIGILL (illegal instruction)";
+    case SIGKILL:
+      return "SIGKILL (killed, e.g. by the out-of-memory killer)";
+    default:
+      return "signal " + std::to_string(signal);
   }
 }
 
-std::shared_mutex& fork_mutex() {
-  static std::shared_mutex mutex;
-  return mutex;
+std::string mesher_executable() {
+  if (const char* path = std::getenv("SHARPEY_MESHER"); path && *path) return path;
+  char self[4096];
+  const ssize_t n = ::readlink("/proc/self/exe", self, sizeof self - 1);
+  if (n > 0) {
+    std::string beside(self, static_cast<size_t>(n));
+    beside = beside.substr(0, beside.rfind('/') + 1) + "sharpey-mesher";
+    if (::access(beside.c_str(), X_OK) == 0) return beside;
+  }
+  return SHARPEY_MESHER_BUILD_PATH;
 }
 
-ChildOutcome run_in_child(const std::function<int(int fd)>& work) {
-  ChildOutcome outcome;
-  int fds[2];
-  if (::pipe2(fds, O_CLOEXEC) != 0) {
-    outcome.error = std::string("pipe() failed: ") + std::strerror(errno);
-    return outcome;
-  }
-  const pid_t parent = ::getpid();
-  pid_t pid;
-  {
-    const std::unique_lock<std::shared_mutex> no_blas_call_running(fork_mutex());
-    pid = ::fork();
-  }
-  if (pid < 0) {
-    outcome.error = std::string("fork() failed: ") + std::strerror(errno);
-    ::close(fds[0]);
-    ::close(fds[1]);
-    return outcome;
-  }
-  if (pid == 0) {
-    ::close(fds[0]);
-    // The child ends with the parent (killed, or stopped by Ctrl-C): no orphan keeps meshing.
-    ::prctl(PR_SET_PDEATHSIG, SIGKILL);
-    if (::getppid() != parent) {
-      ::syscall(SYS_exit_group, 125);
-      ::_exit(125);  // not reached
-    }
-    // A crash ends the child by its signal, for the parent to report: no handler installed by
-    // the program or a sanitizer runtime turns it into something else.
-    for (const int sig : {SIGSEGV, SIGBUS, SIGFPE, SIGILL, SIGABRT}) std::signal(sig, SIG_DFL);
-    int code = 126;
-    try {
-      code = work(fds[1]);
-    } catch (...) {
-      code = 126;
-    }
-    // The exit system call itself, not _exit(): sanitizer runtimes intercept _exit() to run
-    // their exit-time checks, which need locks another thread of the parent may have held at
-    // the fork.
-    ::syscall(SYS_exit_group, code);
-    ::_exit(code);  // not reached
-  }
-  outcome.started = true;
-  ::close(fds[1]);
-  char buffer[1 << 16];
-  for (;;) {
-    const ssize_t n = ::read(fds[0], buffer, sizeof buffer);
-    if (n > 0) {
-      outcome.output.append(buffer, static_cast<size_t>(n));
-    } else if (n == 0 || errno != EINTR) {
-      break;
-    }
-  }
-  ::close(fds[0]);
+namespace {
+
+// Reaps `pid`, retrying after interruptions; fills exit_code / signal.
+void reap(pid_t pid, ChildOutcome* outcome) {
   int status = 0;
   while (::waitpid(pid, &status, 0) < 0) {
-    if (errno != EINTR) {
-      outcome.error = std::string("waitpid() failed: ") + std::strerror(errno);
-      return outcome;
+    if (errno != EINTR) return;
+  }
+  if (WIFEXITED(status)) outcome->exit_code = WEXITSTATUS(status);
+  if (WIFSIGNALED(status)) outcome->signal = WTERMSIG(status);
+}
+
+}  // namespace
+
+ChildOutcome run_program(const std::string& program, const std::vector<std::string>& args,
+                         const std::string& input, const std::atomic<bool>* cancel) {
+  ChildOutcome outcome;
+  // One socket pair carries both directions (the child's stdin and stdout): send() with
+  // MSG_NOSIGNAL reports a child that died before reading its input as EPIPE, not as a SIGPIPE
+  // that would end this program.
+  int fds[2];
+  if (::socketpair(AF_UNIX, SOCK_STREAM | SOCK_CLOEXEC, 0, fds) != 0) {
+    outcome.error = std::string("socketpair() failed: ") + std::strerror(errno);
+    return outcome;
+  }
+  posix_spawn_file_actions_t actions;
+  posix_spawnattr_t attributes;
+  posix_spawn_file_actions_init(&actions);
+  posix_spawn_file_actions_adddup2(&actions, fds[1], STDIN_FILENO);
+  posix_spawn_file_actions_adddup2(&actions, fds[1], STDOUT_FILENO);
+  posix_spawnattr_init(&attributes);
+  sigset_t none, defaults;
+  sigemptyset(&none);
+  sigemptyset(&defaults);
+  for (const int sig : {SIGINT, SIGTERM, SIGPIPE, SIGHUP}) sigaddset(&defaults, sig);
+  posix_spawnattr_setsigmask(&attributes, &none);
+  posix_spawnattr_setsigdefault(&attributes, &defaults);
+  posix_spawnattr_setpgroup(&attributes, 0);
+  posix_spawnattr_setflags(&attributes,
+                           POSIX_SPAWN_SETSIGMASK | POSIX_SPAWN_SETSIGDEF | POSIX_SPAWN_SETPGROUP);
+  std::vector<std::string> argv_text = {program};
+  argv_text.insert(argv_text.end(), args.begin(), args.end());
+  std::vector<char*> argv;
+  for (std::string& a : argv_text) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  pid_t pid = -1;
+  const int spawn_error =
+      ::posix_spawn(&pid, program.c_str(), &actions, &attributes, argv.data(), environ);
+  posix_spawn_file_actions_destroy(&actions);
+  posix_spawnattr_destroy(&attributes);
+  ::close(fds[1]);
+  if (spawn_error != 0) {
+    ::close(fds[0]);
+    outcome.error = "cannot start \"" + program + "\": " + std::strerror(spawn_error);
+    return outcome;
+  }
+  outcome.started = true;
+  outcome.pid = pid;
+
+  const int fd = fds[0];
+  size_t written = 0;
+  bool input_open = true;
+  char buffer[1 << 16];
+  for (;;) {
+    if (cancel != nullptr && cancel->load()) {
+      ::kill(pid, SIGKILL);
+      outcome.cancelled = true;
+      break;
+    }
+    if (input_open && written == input.size()) {
+      ::shutdown(fd, SHUT_WR);  // the child reads to the end of its input
+      input_open = false;
+    }
+    pollfd p{fd, static_cast<short>(POLLIN | (input_open ? POLLOUT : 0)), 0};
+    const int ready = ::poll(&p, 1, 50);  // 50 ms: the longest a cancel request waits
+    if (ready < 0 && errno != EINTR) break;
+    if (ready <= 0) continue;
+    if (input_open && (p.revents & POLLOUT)) {
+      const ssize_t n =
+          ::send(fd, input.data() + written, input.size() - written, MSG_NOSIGNAL | MSG_DONTWAIT);
+      if (n > 0) {
+        written += static_cast<size_t>(n);
+      } else if (n < 0 && errno != EINTR && errno != EAGAIN) {
+        input_open = false;  // the child stopped reading (it ended); its outcome tells why
+      }
+    }
+    if (p.revents & (POLLIN | POLLHUP | POLLERR)) {
+      const ssize_t n = ::recv(fd, buffer, sizeof buffer, MSG_DONTWAIT);
+      if (n > 0) {
+        outcome.output.append(buffer, static_cast<size_t>(n));
+      } else if (n == 0 || (errno != EINTR && errno != EAGAIN)) {
+        break;  // the child closed its end: it has ended (or is ending)
+      }
     }
   }
-  if (WIFEXITED(status)) outcome.exit_code = WEXITSTATUS(status);
-  if (WIFSIGNALED(status)) outcome.signal = WTERMSIG(status);
+  ::close(fd);
+  reap(pid, &outcome);
   return outcome;
 }
 

@@ -83,7 +83,7 @@ Plc ModelMesher::make_plc(std::vector<int>* plc_to_point) const {
   return plc;
 }
 
-VolumeMesh ModelMesher::build_linear() {
+VolumeMesh ModelMesher::build_linear(const std::atomic<bool>* cancel) {
   build_tooth_surface();
   build_pdl_layer();
   build_bone();
@@ -93,6 +93,7 @@ VolumeMesh ModelMesher::build_linear() {
   TetgenOptions options;
   options.preserve_surface = true;
   options.second_order = false;
+  options.cancel = cancel;
   const VolumeMesh tet = tetrahedralize(plc, options);
 
   VolumeMesh mesh;
@@ -241,13 +242,13 @@ int straighten_folded(VolumeMesh* mesh, double min_ratio) {
 }  // namespace
 }  // namespace detail
 
-ToothModel build_tooth_model(const ModelSpec& spec) {
+ToothModel build_tooth_model(const ModelSpec& spec, const std::atomic<bool>* cancel) {
   validate(spec);
   const detail::ModelFrame frame(spec);
   detail::ModelMesher mesher(frame);
   VolumeMesh linear;
   try {
-    linear = mesher.build_linear();
+    linear = mesher.build_linear(cancel);
   } catch (const MeshError& e) {
     throw MeshError(std::string(e.what()) + " [" + detail::describe(spec) + "]");
   }

@@ -1,9 +1,11 @@
 // sharpey-batch on bad input: every malformed case file or option exits with its documented code
 // and a message naming the key, and leaves no output behind.
 #include <gtest/gtest.h>
+#include <sys/stat.h>
 
 #include <nlohmann/json.hpp>
 
+#include <filesystem>
 #include <string>
 #include <vector>
 
@@ -19,7 +21,8 @@ struct BadRun {
   // The case file: "" = the valid coarse case; otherwise "path=value" applied to it (JSON value),
   // or "raw:" followed by the whole text.
   const char* case_change;
-  std::vector<std::string> args;  // CASE and OUT stand for the case file and the output folder
+  // CASE and OUT stand for the case file and the output folder, DIR for the case file's folder
+  std::vector<std::string> args;
   int exit_code;
   const char* fragment;  // expected in stderr
 };
@@ -64,7 +67,8 @@ TEST_P(BatchBadInput, ExitsWithTheCodeNamesTheKeyWritesNothing) {
   write_file(case_path, case_text(b.case_change));
   const std::string out = folder / "out";
   std::vector<std::string> args;
-  for (const std::string& a : b.args) args.push_back(a == "CASE" ? case_path : a == "OUT" ? out : a);
+  for (const std::string& a : b.args)
+    args.push_back(a == "CASE" ? case_path : a == "OUT" ? out : a == "DIR" ? folder.path() : a);
   const ProcessResult r = run_batch(args, 120);
   EXPECT_EQ(r.exit_code, b.exit_code) << "stderr: " << r.err;
   EXPECT_NE(r.err.find(b.fragment), std::string::npos)
@@ -110,6 +114,12 @@ const BadRun kBadRuns[] = {
     {"unknown_subcommand", "", {"solve", "CASE", "--out", "OUT"}, 2, "unknown command \"solve\""},
     {"bad_preset_option", "", {"run", "CASE", "--out", "OUT", "--mesh-preset", "ultra"}, 2,
      "ultra"},
+    {"number_overflow", "raw:{\"load\": {\"magnitude\": 1e400}}", kRun, 2,
+     "bad input (key load.magnitude)"},
+    {"empty_out", "", {"run", "CASE", "--out", ""}, 2, "--out is empty"},
+    {"out_holds_the_case", "", {"run", "CASE", "--out", "DIR"}, 2, "holds the case file"},
+    {"out_holds_the_case_sweep", "",
+     {"sweep", "CASE", "--out", "DIR", "--vary", "load.magnitude=50"}, 2, "holds the case file"},
     {"out_is_a_file", "", {"run", "CASE", "--out", "CASE"}, 5, "is not a folder"},
 };
 
@@ -117,6 +127,27 @@ INSTANTIATE_TEST_SUITE_P(Batch, BatchBadInput, ::testing::ValuesIn(kBadRuns),
                          [](const ::testing::TestParamInfo<BadRun>& p) {
                            return std::string(p.param.name);
                          });
+
+// Bounded input: cases that crashed (deep nesting), hung (a FIFO without a writer; even SIGTERM
+// did not end it) or exhausted memory (/dev/zero) are refused with exit code 2.
+TEST(BatchBoundedInput, HostileCaseFilesExitWithBadInput) {
+  TempFolder folder("batch-bounded");
+  const std::string deep = folder / "deep.json", fifo = folder / "case.fifo";
+  write_file(deep, "{\"notes\": " + std::string(100000, '[') + std::string(100000, ']') + "}");
+  ASSERT_EQ(::mkfifo(fifo.c_str(), 0600), 0);
+  const std::pair<std::string, const char*> cases[] = {
+      {deep, "nested deeper than 64 levels"},
+      {fifo, "is not a regular file (a pipe)"},
+      {"/dev/zero", "is not a regular file (a character device)"},
+  };
+  for (const auto& [path, fragment] : cases) {
+    SCOPED_TRACE(path);
+    const ProcessResult r = run_batch({"run", path, "--out", folder / "out"}, 120);
+    EXPECT_EQ(r.exit_code, 2) << r.err;
+    EXPECT_NE(r.err.find(fragment), std::string::npos) << r.err;
+  }
+  EXPECT_FALSE(std::filesystem::exists(folder / "out"));
+}
 
 TEST(BatchCli, HelpListsExamplesAndExitCodes) {
   const ProcessResult r = run_batch({"--help"}, 60);

@@ -100,21 +100,29 @@ TEST(StagedFolderTest, NewFolderAppearsOnlyAtCommit) {
   EXPECT_EQ(test::list_folder(parent.path()), std::vector<std::string>{"out"});
 }
 
-TEST(StagedFolderTest, ExistingFolderGetsFilesReplacedOthersKept) {
+TEST(StagedFolderTest, ExistingFolderIsReplacedAsAWhole) {
   test::TempFolder parent("staged-existing");
   const std::string out = parent / "out";
   std::filesystem::create_directories(out);
   test::write_file(out + "/one.txt", "old");
-  test::write_file(out + "/mine.txt", "keep");
+  test::write_file(out + "/s3_older_run.csv", "old");
   {
     StagedFolder staged(out);
     write_file_atomic(staged.path("one.txt"), "new");
     EXPECT_EQ(test::read_file(out + "/one.txt"), "old");
     staged.commit();
   }
+  EXPECT_EQ(test::list_folder(out), std::vector<std::string>{"one.txt"});
   EXPECT_EQ(test::read_file(out + "/one.txt"), "new");
-  EXPECT_EQ(test::read_file(out + "/mine.txt"), "keep");
   EXPECT_EQ(test::list_folder(parent.path()), std::vector<std::string>{"out"});
+}
+
+TEST(StagedFolderTest, AFolderHoldingOtherThingsIsNotReplaced) {
+  test::TempFolder parent("staged-foreign");
+  const std::string out = parent / "out";
+  std::filesystem::create_directories(out + "/sub");
+  EXPECT_THROW(StagedFolder{out}, OutputError);
+  EXPECT_TRUE(test::exists(out + "/sub"));
 }
 
 TEST(StagedFolderTest, AbandonedRunLeavesNothing) {

@@ -1,11 +1,14 @@
 // Case-file reading: defaults, units, directions, bone-loss conversion, and a table of malformed
 // cases, each rejected with an InputError naming the key path, the value and a fix.
 #include <gtest/gtest.h>
-
-#include <nlohmann/json.hpp>
+#include <stdlib.h>
+#include <sys/stat.h>
 
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <nlohmann/json.hpp>
 #include <string>
 
 #include "sharpey/analysis/case_spec.h"
@@ -65,8 +68,8 @@ TEST(CaseParse, ForceUnitsConvertToNewton) {
 
 TEST(CaseParse, DirectionsByNameVectorAndAngles) {
   const std::pair<const char*, Eigen::Vector3d> named[] = {
-      {"labial", Eigen::Vector3d::UnitX()},     {"lingual", -Eigen::Vector3d::UnitX()},
-      {"mesial", Eigen::Vector3d::UnitY()},     {"distal", -Eigen::Vector3d::UnitY()},
+      {"labial", Eigen::Vector3d::UnitX()},    {"lingual", -Eigen::Vector3d::UnitX()},
+      {"mesial", Eigen::Vector3d::UnitY()},    {"distal", -Eigen::Vector3d::UnitY()},
       {"extrusive", Eigen::Vector3d::UnitZ()}, {"intrusive", -Eigen::Vector3d::UnitZ()}};
   for (const auto& [name, v] : named) {
     SCOPED_TRACE(name);
@@ -124,7 +127,8 @@ TEST(CaseParse, PercentBoneLossUsesTheRootLength) {
 
 TEST(CaseParse, AngularDefectAndHourglassProfile) {
   Json j = base_case();
-  j["scenarios"][1]["angular_defect"] = {{"surface", "distal"}, {"depth_mm", 2.5}, {"width_deg", 80}};
+  j["scenarios"][1]["angular_defect"] = {
+      {"surface", "distal"}, {"depth_mm", 2.5}, {"width_deg", 80}};
   j["pdl"] = {{"width_profile_mm", {{"crest", 0.2}, {"mid_root", 0.14}, {"apex", 0.19}}}};
   const CaseSpec spec = parse_case(j.dump());
   EXPECT_EQ(spec.scenarios[1].loss.defect_surface, mesh::ToothSurface::kDistal);
@@ -300,9 +304,33 @@ const BadCase kBadCases[] = {
     {"pdl_width_and_profile", "pdl.width_profile_mm",
      "{\"crest\": 0.2, \"mid_root\": 0.2, \"apex\": 0.2}", "not both"},
     {"ideal_root_shape", "tooth.idealised_root.shape", "\"cube\"", "paraboloid"},
+    // Control characters in names and labels (they end up in CSV comment lines, headings and
+    // file names): refused with the character and its place.
+    {"label_line_feed", "label", "\"first line\\n# second line\"", "U+000A (line feed) at byte 11"},
+    {"label_nul", "label", "\"a\\u0000b\"", "U+0000 (NUL) at byte 2"},
+    {"scenario_name_carriage_return", "scenarios[1].name", "\"loss\\r\"", "U+000D"},
+    {"scenario_name_escape", "scenarios[1].name", "\"\\u001b[31mred\"", "U+001B"},
+    {"scenario_name_c1_control", "scenarios[1].name", "\"a\\u0085b\"", "U+0085"},
+    {"threshold_source_tab", "thresholds.limit.source", "\"a\\tb\"", "U+0009 (tab)"},
+    {"notes_nul", "notes", "\"line one\\nline two\\u0000\"", "only line feeds and tabs"},
+    // Numbers beyond the double range (nlohmann refuses them itself): named by their key path.
+    {"number_overflow", "", "{\"load\": {\"unit\": \"g\", \"magnitude\": 1e400}}", "too large",
+     "load.magnitude"},
+    {"number_overflow_in_array", "",
+     "{\"scenarios\": [{\"name\": \"a\"}, {\"horizontal_loss_mm\": -1e400}]}", "-1e400",
+     "scenarios[1].horizontal_loss_mm"},
+    {"number_overflow_in_vector", "", "{\"load\": {\"direction\": [0, 1e999, 0]}}", "too large",
+     "load.direction[1]"},
     // Impossible geometry, found by mesh::validate and reported under the case-file key.
     {"loss_beyond_root", "scenarios[1].horizontal_loss_mm", "14", "leaves no embedded root"},
     {"loss_negative", "scenarios[1].horizontal_loss_mm", "-1", "0 mm"},
+    // Given in percent, answered in percent. derived: the incisor's handbook root is 13 mm and the
+    // healthy crest 1.5 mm below the CEJ; 85 % is 11.05 mm of loss, leaving 0.45 mm in the bone;
+    // with at least 1.5 mm embedded (mesh/src/model_validate.cpp) the limit is 10 / 13 = 76.9 %.
+    {"percent_leaves_too_little_root", "scenarios[1]", "{\"horizontal_loss_percent\": 85}",
+     "85 % bone loss (11.05 mm of the 13 mm root) leaves only 0.45 mm of root in the bone, too "
+     "little for the model; use at most 76.9 %",
+     "scenarios[1].horizontal_loss_percent"},
     {"defect_too_deep", "scenarios[1].angular_defect",
      "{\"surface\": \"mesial\", \"depth_mm\": 11}", "deeper than the remaining root",
      "scenarios[1].angular_defect.depth_mm"},
@@ -333,6 +361,85 @@ TEST(CaseParse, LoadCaseNamesAMissingFile) {
     EXPECT_EQ(e.key(), "file");
     EXPECT_NE(std::string(e.what()).find("/nonexistent/folder/case.json"), std::string::npos);
   }
+}
+
+// Bounded input: nesting depth, file size and file type are checked before anything is parsed or
+// read, so a hostile file ends in an InputError rather than a crash, a hang or memory exhaustion.
+TEST(CaseParse, DeepNestingIsRefusedWithItsPosition) {
+  // 100 000 levels crashed the message formatting (stack overflow) before the limit.
+  const std::string deep =
+      "{\"label\": " + std::string(100000, '[') + std::string(100000, ']') + "}";
+  try {
+    parse_case(deep, "deep.json");
+    FAIL() << "accepted a case nested 100000 levels deep";
+  } catch (const InputError& e) {
+    // derived: '{' is level 1 and the first '[' (column 11) level 2, so level 65 is the 64th '['
+    // at column 74.
+    EXPECT_EQ(e.key(), "line 1, column 74") << e.what();
+    EXPECT_NE(std::string(e.what()).find("nested deeper than 64 levels"), std::string::npos)
+        << e.what();
+  }
+  // Brackets inside strings do not count.
+  Json j = base_case();
+  j["notes"] = std::string(1000, '[');
+  EXPECT_NO_THROW(parse_case(j.dump()));
+}
+
+class CaseFileFolder {
+ public:
+  CaseFileFolder() {
+    char pattern[] = "/tmp/sharpey-case-read-XXXXXX";
+    path_ = ::mkdtemp(pattern);
+  }
+  ~CaseFileFolder() { std::filesystem::remove_all(path_); }
+  std::string operator/(const std::string& name) const { return path_ + "/" + name; }
+
+ private:
+  std::string path_;
+};
+
+std::string refusal(const std::string& path) {
+  try {
+    read_case_text(path);
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "file");
+    EXPECT_NE(std::string(e.what()).find(path), std::string::npos) << e.what();
+    return e.what();
+  }
+  ADD_FAILURE() << "read " << path;
+  return "";
+}
+
+TEST(CaseParse, ReadCaseTextRefusesNonRegularFiles) {
+  CaseFileFolder folder;
+  // A FIFO without a writer: opening it for reading blocked forever before the check.
+  const std::string fifo = folder / "case.fifo";
+  ASSERT_EQ(::mkfifo(fifo.c_str(), 0600), 0);
+  EXPECT_NE(refusal(fifo).find("not a regular file (a pipe)"), std::string::npos);
+  // /dev/zero never ends: reading it exhausted memory.
+  EXPECT_NE(refusal("/dev/zero").find("(a character device)"), std::string::npos);
+  EXPECT_NE(refusal(folder / "").find("(a folder)"), std::string::npos);
+}
+
+TEST(CaseParse, ReadCaseTextRefusesFilesAboveTheSizeLimit) {
+  CaseFileFolder folder;
+  const std::string at_limit = folder / "at_limit.json", above = folder / "above.json";
+  std::ofstream(at_limit) << std::string(kMaxCaseFileBytes, ' ');
+  std::ofstream(above) << std::string(kMaxCaseFileBytes + 1, ' ');
+  EXPECT_EQ(read_case_text(at_limit).size(), kMaxCaseFileBytes);
+  EXPECT_NE(refusal(above).find("holds 1048577 bytes, more than the limit of 1048576"),
+            std::string::npos);
+  const std::string good = folder / "case.json";
+  std::ofstream(good) << base_case().dump();
+  EXPECT_EQ(load_case(good).label, "Invented test case");
+}
+
+TEST(CaseParse, NotesMayHoldLineBreaksAndTabs) {
+  Json j = base_case();
+  j["notes"] = "first line\n\tsecond line";
+  j["label"] = "Invented, with \"quotes\" and \xc3\xa9";  // printable non-ASCII is fine
+  const CaseSpec spec = parse_case(j.dump());
+  EXPECT_EQ(spec.notes, "first line\n\tsecond line");
 }
 
 TEST(CaseParse, ValidateCaseChecksACaseBuiltInCode) {

@@ -6,6 +6,7 @@
 
 #include <Eigen/Core>
 #include <array>
+#include <atomic>
 #include <unordered_map>
 #include <vector>
 
@@ -57,7 +58,7 @@ class ModelMesher {
   explicit ModelMesher(const ModelFrame& frame);
 
   // Builds everything and returns the linear mesh; `pdl_hole` etc. are internal.
-  VolumeMesh build_linear();
+  VolumeMesh build_linear(const std::atomic<bool>* cancel);  // cancel: see TetgenOptions
   const PointSet& points() const { return points_; }
 
  private:

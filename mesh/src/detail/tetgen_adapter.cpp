@@ -4,14 +4,17 @@
 // (1 out of memory, 2 internal error, 3 self-intersection, 4 tiny feature, 5 close facets,
 // 10 input error); they are mapped to MeshError here. TetGen's own assertions and crashes cannot
 // be caught, so the PLC is checked for the mistakes that would reach them (indices, degenerate
-// triangles, non-finite coordinates) before TetGen sees it, and TetGen runs in a child process
-// (child_process.h): if it crashes all the same, the caller gets a MeshError, not a dead program.
+// triangles, non-finite coordinates) before TetGen sees it, and TetGen runs in the separate mesher
+// executable (child_process.h, mesher_protocol.h): if it crashes all the same, the caller gets a
+// MeshError, not a dead program, and a cancel request kills it at once.
 #include <tetgen.h>
+#include <unistd.h>
 
 #include <Eigen/Geometry>
 
 #include <algorithm>
 #include <array>
+#include <cerrno>
 #include <cmath>
 #include <cstdint>
 #include <cstring>
@@ -24,6 +27,7 @@
 #include <unordered_map>
 #include <vector>
 
+#include "mesher_protocol.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/child_process.h"
 #include "sharpey/mesh/reference_tetrahedron.h"
@@ -342,9 +346,9 @@ VolumeMesh run_tetgen(const Context& ctx, const TetgenOptions& options,
   return convert_output(ctx, out, point_node);
 }
 
-// The child's report on its pipe: 'E' and the MeshError message, or 'M', the counts and the
-// linear mesh's arrays (4-node elements, 3-node faces) and point_node, as raw bytes (the parent is
-// the same program, so the layout matches).
+// The mesher's report on its standard output: 'E' and the MeshError message, or 'M', the counts
+// and the linear mesh's arrays (4-node elements, 3-node faces) and point_node, as raw bytes (the
+// mesher is built from the same sources in the same build, so the layout matches).
 constexpr char kMeshReport = 'M', kErrorReport = 'E';
 
 template <class T>
@@ -371,7 +375,7 @@ int report_mesh(int fd, const Context& ctx, const TetgenOptions& options, bool w
   }
 }
 
-// Reads one vector written by write_vector at `pos`; false if the report is too short.
+// Reads one vector written by write_vector at `pos`; false if the text is too short.
 template <class T>
 bool read_vector(const std::string& report, size_t* pos, std::vector<T>* v) {
   std::uint64_t n = 0;
@@ -388,20 +392,98 @@ bool read_vector(const std::string& report, size_t* pos, std::vector<T>* v) {
   return true;
 }
 
-// TetGen in a child process (child_process.h): a crash inside it (TetGen 1.5 can end in a
+template <class T>
+void append_value(std::string* out, const T& value) {
+  out->append(reinterpret_cast<const char*>(&value), sizeof value);
+}
+template <class T>
+void append_vector(std::string* out, const std::vector<T>& v) {
+  append_value(out, static_cast<std::uint64_t>(v.size()));
+  out->append(reinterpret_cast<const char*>(v.data()), v.size() * sizeof(T));
+}
+template <class T>
+bool read_value(const std::string& in, size_t* pos, T* value) {
+  if (in.size() - *pos < sizeof(T)) return false;
+  std::memcpy(static_cast<void*>(value), in.data() + *pos, sizeof(T));
+  *pos += sizeof(T);
+  return true;
+}
+
+// The mesher's input on its standard input: a tag, the PLC and the options as plain data (region
+// seeds field by field, so no padding bytes are sent).
+constexpr std::uint64_t kInputTag = 0x31687365'4d796870ull;  // "phyMesh1", any fixed value
+
+std::string serialise_input(const Plc& plc, const TetgenOptions& options, bool want_point_node) {
+  std::string out;
+  append_value(&out, kInputTag);
+  append_vector(&out, plc.points);
+  append_vector(&out, plc.triangles);
+  append_vector(&out, plc.triangle_marker);
+  std::vector<Eigen::Vector3d> seed_points;
+  std::vector<int> seed_regions;
+  std::vector<double> seed_volumes;
+  for (const Plc::RegionSeed& r : plc.regions) {
+    seed_points.push_back(r.point);
+    seed_regions.push_back(r.region);
+    seed_volumes.push_back(r.max_volume_mm3);
+  }
+  append_vector(&out, seed_points);
+  append_vector(&out, seed_regions);
+  append_vector(&out, seed_volumes);
+  append_vector(&out, plc.holes);
+  append_value(&out, options.radius_edge_ratio);
+  append_value(&out, options.min_dihedral_deg);
+  append_value(&out, options.max_volume_mm3);
+  append_value(&out, static_cast<std::uint8_t>(options.preserve_surface));
+  append_value(&out, static_cast<std::uint8_t>(want_point_node));
+  append_vector(&out, std::vector<char>(options.stage.begin(), options.stage.end()));
+  return out;
+}
+
+bool parse_input(const std::string& in, Plc* plc, TetgenOptions* options, bool* want_point_node) {
+  size_t pos = 0;
+  std::uint64_t tag = 0;
+  std::vector<Eigen::Vector3d> seed_points;
+  std::vector<int> seed_regions;
+  std::vector<double> seed_volumes;
+  std::uint8_t preserve = 0, want = 0;
+  std::vector<char> stage;
+  const bool ok =
+      read_value(in, &pos, &tag) && tag == kInputTag && read_vector(in, &pos, &plc->points) &&
+      read_vector(in, &pos, &plc->triangles) && read_vector(in, &pos, &plc->triangle_marker) &&
+      read_vector(in, &pos, &seed_points) && read_vector(in, &pos, &seed_regions) &&
+      read_vector(in, &pos, &seed_volumes) && read_vector(in, &pos, &plc->holes) &&
+      read_value(in, &pos, &options->radius_edge_ratio) &&
+      read_value(in, &pos, &options->min_dihedral_deg) &&
+      read_value(in, &pos, &options->max_volume_mm3) && read_value(in, &pos, &preserve) &&
+      read_value(in, &pos, &want) && read_vector(in, &pos, &stage) && pos == in.size() &&
+      seed_points.size() == seed_regions.size() && seed_points.size() == seed_volumes.size();
+  if (!ok) return false;
+  for (size_t i = 0; i < seed_points.size(); ++i)
+    plc->regions.push_back({seed_points[i], seed_regions[i], seed_volumes[i]});
+  options->preserve_surface = preserve != 0;
+  options->second_order = false;  // the caller converts
+  options->stage.assign(stage.begin(), stage.end());
+  *want_point_node = want != 0;
+  return true;
+}
+
+// TetGen in the mesher process (child_process.h): a crash inside it (TetGen 1.5 can end in a
 // segmentation fault when memory runs out part-way, and its internal assertions abort) becomes a
-// MeshError instead of ending the program. Falls back to running in this process when no child
-// can be started.
+// MeshError instead of ending the program; options.cancel kills it. No in-process fallback: a
+// mesher that cannot be started is a MeshError saying where it was looked for.
 VolumeMesh run_tetgen_isolated(const Context& ctx, const TetgenOptions& options,
                                std::vector<int>* point_node) {
-#if defined(__SANITIZE_ADDRESS__) || defined(__SANITIZE_THREAD__)
-  // GCC 12's sanitizer allocator is not locked around fork(): a child forked while another
-  // thread allocates can hang inside it (seen in the sanitizer run). Sanitizer builds mesh here.
-  return run_tetgen(ctx, options, point_node);
-#endif
-  const ChildOutcome child = run_in_child(
-      [&](int fd) { return report_mesh(fd, ctx, options, point_node != nullptr); });
-  if (!child.started) return run_tetgen(ctx, options, point_node);
+  const std::string program = mesher_executable();
+  const ChildOutcome child =
+      run_program(program, {std::to_string(::getpid())},
+                  serialise_input(ctx.plc, options, point_node != nullptr), options.cancel);
+  if (child.cancelled) throw Cancelled();
+  if (!child.started) {
+    fail(ctx, "the mesher program could not be started (" + child.error +
+                  "); it is built as sharpey-mesher beside the libraries; set SHARPEY_MESHER to "
+                  "its path");
+  }
   if (child.signal != 0) {
     fail(ctx, "TetGen crashed (" + signal_name(child.signal) +
                   "); TetGen does this when it runs out of memory part-way or on nearly "
@@ -427,7 +509,7 @@ VolumeMesh run_tetgen_isolated(const Context& ctx, const TetgenOptions& options,
                   mesh.elements.size() == 4 * mesh.element_region.size() &&
                   mesh.faces.size() == 3 * mesh.face_marker.size();
   if (!ok) {
-    fail(ctx, "TetGen's process ended without a complete result (exit code " +
+    fail(ctx, "the mesher process " + program + " ended without a complete result (exit code " +
                   std::to_string(child.exit_code) + ", " + std::to_string(report.size()) +
                   " bytes)");
   }
@@ -436,6 +518,31 @@ VolumeMesh run_tetgen_isolated(const Context& ctx, const TetgenOptions& options,
 }
 
 }  // namespace
+
+namespace detail {
+
+int run_mesher(int in_fd, int out_fd) {
+  std::string input;
+  char buffer[1 << 16];
+  for (;;) {
+    const ssize_t n = ::read(in_fd, buffer, sizeof buffer);
+    if (n > 0) {
+      input.append(buffer, static_cast<size_t>(n));
+    } else if (n == 0) {
+      break;
+    } else if (errno != EINTR) {
+      return 2;
+    }
+  }
+  Plc plc;
+  TetgenOptions options;
+  bool want_point_node = false;
+  if (!parse_input(input, &plc, &options, &want_point_node)) return 2;
+  const Context ctx{plc, options.stage};
+  return report_mesh(out_fd, ctx, options, want_point_node);
+}
+
+}  // namespace detail
 
 VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
   check_options(options);

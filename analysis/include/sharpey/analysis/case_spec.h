@@ -3,6 +3,7 @@
 #pragma once
 
 #include <Eigen/Core>
+#include <cstddef>
 #include <string>
 #include <vector>
 
@@ -103,6 +104,15 @@ inline bool operator!=(const CaseSpec& a, const CaseSpec& b) { return !(a == b);
 // Geometry is checked with mesh::validate for every scenario (key prefixed "scenarios[i].").
 CaseSpec parse_case(const std::string& json_text, const std::string& origin = "case");
 CaseSpec load_case(const std::string& path);  // InputError (key "file") if unreadable
+
+// Limits on a case file: its size (a case is a few kilobytes) and how deeply brackets nest (the
+// schema needs four levels). parse_case refuses deeper nesting, read_case_text larger files.
+constexpr size_t kMaxCaseFileBytes = 1 << 20;
+constexpr int kMaxCaseNestingDepth = 64;
+// The text of the case file at `path`. Throws InputError (key "file") when it cannot be read, is
+// not a regular file (a folder, a FIFO, a device such as /dev/zero: refused without blocking) or
+// holds more than kMaxCaseFileBytes.
+std::string read_case_text(const std::string& path);
 std::string case_to_json(const CaseSpec& spec);  // round-trips through parse_case
 // Writes atomically (temporary file, then rename). Throws Error naming the path on failure.
 void save_case(const CaseSpec& spec, const std::string& path);

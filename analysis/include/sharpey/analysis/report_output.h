@@ -27,11 +27,15 @@ void write_file_atomic(const std::string& path, const std::string& content);
 
 // An output folder filled all at once. Files are written into a staging folder beside `folder`
 // (".<name>.partial-<pid>" in the same parent, so renames stay on one file system); commit() then
-// renames the staging folder to `folder` when it does not exist yet (one atomic step), or moves
-// each staged file into it. A run that is killed leaves `folder` untouched: no partial file ever
-// appears in it. Destroying an uncommitted StagedFolder removes the staging folder. Staging
+// renames the staging folder to `folder` when it does not exist yet, or swaps the two folders in
+// one step (renameat2 RENAME_EXCHANGE) and removes the old one. `folder` therefore always holds
+// one complete run: the earlier one or the new one, never a mix, even if the process is killed.
+// An existing `folder` is only replaced when it holds nothing but regular .json, .csv, .txt and
+// .vtu files (an earlier run); anything else is an OutputError, checked by the constructor and
+// again by commit(). Destroying an uncommitted StagedFolder removes the staging folder. Staging
 // folders left by killed runs (their process gone) are removed by the next StagedFolder for the
-// same folder. Throws OutputError.
+// same folder. Throws OutputError. Testing aid: SHARPEY_TEST_KILL_OUTPUT_AT=before-swap or
+// after-swap makes commit() kill its own process with SIGKILL at that point.
 class StagedFolder {
  public:
   explicit StagedFolder(const std::string& folder);
@@ -119,7 +123,8 @@ void write_scenario_vtu(const ScenarioSolution& solution, const ScenarioResult& 
                         const std::string& model_path, const std::string& pdl_path);
 
 // CSV helpers (exposed for tests): a number with 6 significant digits ("" for NaN), and a field
-// quoted when it holds a comma, quote or line break.
+// quoted as RFC 4180 says when it holds a comma, quote or line break (quotes doubled), or starts
+// with '#' (our comment lines).
 std::string csv_number(double value);
 std::string csv_field(const std::string& text);
 

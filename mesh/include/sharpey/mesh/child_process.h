@@ -1,39 +1,44 @@
-// Running a piece of work in a forked copy of this process, so that a crash inside third-party
-// code (a segmentation fault or a failed assertion in TetGen) ends the copy, not the program: the
-// caller gets the copy's output, or how it ended, and can report the failure. tetrahedralize()
-// runs TetGen this way.
+// Running another program as a child process, so that a crash inside third-party code (a
+// segmentation fault or a failed assertion in TetGen) ends the child, not this program, and so a
+// cancel request can stop it at once. tetrahedralize() runs TetGen this way, in the small mesher
+// executable `sharpey-mesher` (mesh/tools/mesher_main.cpp). The child is started with posix_spawn:
+// this process is never forked, so no lock is needed around threads (BLAS, OpenMP, Qt) that run
+// meanwhile.
 #pragma once
 
-#include <functional>
-#include <shared_mutex>
+#include <sys/types.h>
+
+#include <atomic>
 #include <string>
+#include <vector>
 
 namespace sharpey::mesh {
 
 struct ChildOutcome {
-  bool started = false;  // false: fork() or pipe() failed (nothing ran); see `error`
-  int exit_code = -1;    // the work's return value when it ended normally, else -1
-  int signal = 0;        // the signal that ended the copy (SIGSEGV, SIGABRT, ...), else 0
-  std::string output;    // every byte the work wrote to its file descriptor
-  std::string error;     // why nothing ran (when !started)
+  bool started = false;    // false: the program could not be started (nothing ran); see `error`
+  bool cancelled = false;  // the cancel flag was seen: the child was killed (SIGKILL) and reaped
+  pid_t pid = -1;          // the child's process id (reaped when run_program returns)
+  int exit_code = -1;      // its exit code when it ended normally, else -1
+  int signal = 0;          // the signal that ended it (SIGSEGV, SIGABRT, SIGKILL, ...), else 0
+  std::string output;      // every byte it wrote to its standard output
+  std::string error;       // why it could not be started or followed (when !started)
 };
 
-// Runs `work(fd)` in a child made by fork(); the work writes its result to `fd` (write_all) and
-// returns an exit code (0 to 124). The child never returns into the caller's code: it ends with
-// the exit system call after `work`, and an exception escaping `work` ends it with code 126; it
-// is killed when the thread that started it ends (Linux PR_SET_PDEATHSIG), so it never outlives
-// the program. The parent reads
-// everything written, waits for the child and returns how it ended. Only the calling thread
-// exists in the child, so `work` must not wait on other threads or locks they may hold (glibc's
-// malloc and stdio are safe across fork).
-ChildOutcome run_in_child(const std::function<int(int fd)>& work);
+// Runs `program` (a path) with `args` (argv[1...]) by posix_spawn, in a process group of its own
+// (so a terminal's Ctrl-C reaches this program, which decides), with SIGINT, SIGTERM and SIGPIPE
+// at their default action and no signal blocked. Writes `input` to the child's standard input,
+// collects its standard output, and waits for it; stderr is shared with this program. While it
+// waits it polls `cancel` (may be null) every 50 ms: once set, the child is killed with SIGKILL,
+// reaped, and the outcome says `cancelled`. Never throws for the child's failures; the caller
+// reads the outcome.
+ChildOutcome run_program(const std::string& program, const std::vector<std::string>& args,
+                         const std::string& input, const std::atomic<bool>* cancel);
 
-// Guards fork() against threaded BLAS calls in other threads. OpenBLAS (its pthread build, Debian's
-// default) registers a pthread_atfork handler that shuts its thread pool down before every fork;
-// if another thread is inside a threaded BLAS call at that moment, the call or the fork can hang.
-// Code that calls BLAS (CHOLMOD's factorisation and solves, fem/solver.cpp) holds a shared lock for
-// the call; run_in_child holds the exclusive lock for the fork() itself only.
-std::shared_mutex& fork_mutex();
+// Path of the mesher executable `sharpey-mesher`: the environment variable SHARPEY_MESHER when set
+// (non-empty); otherwise `sharpey-mesher` in the folder of the running program (/proc/self/exe),
+// when it exists there (an installed layout); otherwise the path it was built at in this build
+// tree (so sharpey, sharpey-batch and every test find it wherever they are built).
+std::string mesher_executable();
 
 // Writes all `size` bytes to `fd`, retrying after interruptions and partial writes; false on error.
 bool write_all(int fd, const void* data, size_t size);

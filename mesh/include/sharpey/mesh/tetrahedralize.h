@@ -4,6 +4,7 @@
 
 #include <Eigen/Core>
 #include <array>
+#include <atomic>
 #include <string>
 #include <vector>
 
@@ -36,6 +37,8 @@ struct TetgenOptions {
                                    // projection (second_order.h)
   std::string stage = "tetrahedralising the PLC";  // names the step in error messages, e.g.
                                                     // "tetrahedralising the tooth/PDL/bone model"
+  const std::atomic<bool>* cancel = nullptr;  // when set while TetGen runs: its process is killed
+                                              // within 50 ms and tetrahedralize throws Cancelled
 };
 
 // Tetrahedralises `plc` with TetGen ("p", quality "q<ratio>/<angle>", region attributes "A",
@@ -55,9 +58,10 @@ struct TetgenOptions {
 // Throws InputError for malformed options, MeshError for a malformed PLC (index out of range,
 // degenerate triangle, marker count, missing or invalid seeds) and when TetGen fails (the message
 // names the stage, TetGen's reason, e.g. self-intersecting facets, and the input size), and when an
-// element lies in no seeded region. TetGen runs in a forked child process (child_process.h), so a
-// crash or failed assertion inside TetGen also ends in a MeshError rather than ending the program
-// (in this process when no child can be started).
+// element lies in no seeded region. TetGen runs in the separate mesher executable sharpey-mesher
+// (child_process.h), so a crash or failed assertion inside TetGen also ends in a MeshError rather
+// than ending the program; a mesher that cannot be started is a MeshError too (there is no
+// in-process fallback). Throws Cancelled when options.cancel is set while TetGen runs.
 VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options,
                           std::vector<int>* point_node = nullptr);
 

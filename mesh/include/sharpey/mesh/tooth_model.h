@@ -6,6 +6,7 @@
 #pragma once
 
 #include <Eigen/Core>
+#include <atomic>
 #include <string>
 #include <vector>
 
@@ -260,6 +261,7 @@ double root_taper_fullness_for_area(const ModelSpec& spec, double root_area_mm2)
 // structured layer (sizes().pdl_layers tetrahedra across, each prism split into three), with the
 // same nodes as the tooth and bone on its two surfaces; 10-node elements have their midside nodes
 // on the exact root and socket surfaces (and on the crown), elsewhere at edge midpoints.
-ToothModel build_tooth_model(const ModelSpec& spec);
+// `cancel` (may be null): when set while TetGen runs, its process is killed and Cancelled thrown.
+ToothModel build_tooth_model(const ModelSpec& spec, const std::atomic<bool>* cancel = nullptr);
 
 }  // namespace sharpey::mesh

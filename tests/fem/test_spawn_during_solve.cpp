@@ -1,11 +1,12 @@
-// The mesher forks (TetGen runs in a child process, mesh/child_process.h) on a second thread while
-// the solver factorises on the first. OpenBLAS shuts its thread pool down in a pthread_atfork
-// handler, and a fork during a threaded BLAS call hung the program every time in a probe on this
-// machine (dgemm in one thread, fork in a loop in another). mesh::fork_mutex keeps the two apart.
-// This test does what the Study does, many times over: factorisations and solves of the coarse
-// incisor on one thread, forks in a loop on another. It must finish (a watchdog ends the process
-// with a failure after 10 minutes instead of letting a deadlock run into ctest's limit) with the
-// same displacement every time (derived: the same system solved again).
+// The mesher runs as a separate program started with posix_spawn (mesh/child_process.h) on a
+// second thread while the solver factorises on the first. With fork() this needed a lock between
+// fem and mesh (OpenBLAS shuts its thread pool down in a pthread_atfork handler, and a fork during
+// a threaded BLAS call hung the program in a probe on this machine); posix_spawn runs no atfork
+// handler, and the lock is gone. This test does what the Study does, many times over:
+// factorisations and solves of the coarse incisor on one thread, programs started in a loop on
+// another. It must finish (a watchdog ends the process with a failure after 10 minutes instead of
+// letting a deadlock run into ctest's limit) with the same displacement every time (derived: the
+// same system solved again).
 #include <gtest/gtest.h>
 
 #include <atomic>
@@ -23,7 +24,7 @@
 namespace sharpey::fem {
 namespace {
 
-TEST(ForkDuringSolve, FactorisationsAndForksOnTwoThreadsNeitherHangNorChangeTheResult) {
+TEST(SpawnDuringSolve, FactorisationsAndSpawnsOnTwoThreadsNeitherHangNorChangeTheResult) {
   // Deadlock watchdog, not a speed check: the whole test takes seconds.
   std::mutex watch_mutex;
   std::condition_variable watch;
@@ -31,7 +32,7 @@ TEST(ForkDuringSolve, FactorisationsAndForksOnTwoThreadsNeitherHangNorChangeTheR
   std::thread watchdog([&] {
     std::unique_lock<std::mutex> lock(watch_mutex);
     if (!watch.wait_for(lock, std::chrono::minutes(10), [&] { return finished; })) {
-      std::fprintf(stderr, "ForkDuringSolve: no progress in 10 minutes (deadlock)\n");
+      std::fprintf(stderr, "SpawnDuringSolve: no progress in 10 minutes (deadlock)\n");
       std::_Exit(1);
     }
   });
@@ -49,11 +50,11 @@ TEST(ForkDuringSolve, FactorisationsAndForksOnTwoThreadsNeitherHangNorChangeTheR
                                        Eigen::Vector3d::Zero(), model.geometry.bracket_center);
 
   std::atomic<bool> solving{true};
-  std::atomic<int> forks{0};
-  std::thread forker([&] {
+  std::atomic<int> spawns{0};
+  std::thread spawner([&] {
     while (solving) {
-      const mesh::ChildOutcome c = mesh::run_in_child([](int) { return 0; });
-      if (c.started && c.exit_code == 0) ++forks;
+      const mesh::ChildOutcome c = mesh::run_program("/bin/true", {}, "", nullptr);
+      if (c.started && c.exit_code == 0) ++spawns;
     }
   });
   Eigen::VectorXd first;
@@ -64,15 +65,15 @@ TEST(ForkDuringSolve, FactorisationsAndForksOnTwoThreadsNeitherHangNorChangeTheR
     EXPECT_LT((u - first).norm(), 1e-12 * first.norm()) << "round " << round;
   }
   solving = false;
-  forker.join();
+  spawner.join();
   {
     const std::lock_guard<std::mutex> lock(watch_mutex);
     finished = true;
   }
   watch.notify_one();
   watchdog.join();
-  std::printf("%d forks during 4 factorisations and solves\n", forks.load());
-  EXPECT_GT(forks.load(), 0);
+  std::printf("%d programs started during 4 factorisations and solves\n", spawns.load());
+  EXPECT_GT(spawns.load(), 0);
 }
 
 }  // namespace
