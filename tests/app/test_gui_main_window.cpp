@@ -9,6 +9,8 @@
 #include <QDoubleSpinBox>
 #include <QFile>
 #include <QLabel>
+#include <QLineEdit>
+#include <QSlider>
 #include <QRegularExpression>
 #include <QProcess>
 #include <QStandardPaths>
@@ -150,6 +152,58 @@ TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
   magnitude->setValue(before);
   QApplication::processEvents();
   EXPECT_NEAR(bar->range().max, peak, 1e-9 * peak);
+}
+
+// Issue 12, point 1: a refused force leaves the field, the slider and the results on the force
+// system they showed; the message goes once a valid force is applied.
+TEST_F(MainWindowTest, ARefusedForceKeepsControlsAndResultsTogether) {
+  CaseSession& session = g_window->session();
+  LoadPanel* panel = g_window->load_panel();
+  QDoubleSpinBox* magnitude = panel->magnitude_box();
+  const double before = magnitude->value();
+  const int slider_before = panel->magnitude_slider()->value();
+  const double peak = session.current_result()->pressure_max_compression_kpa;
+  const double force_n = session.current_result()->load.force_n.norm();
+  // The force the results were computed for, in the panel's unit (derived: the unit conversion).
+  auto shown_force = [&]() {
+    return analysis::from_newton(session.current_result()->load.force_n.norm(), session.load_controls().unit);
+  };
+  magnitude->setValue(0);  // refused: the case-file rules want a force above 0
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(magnitude->value(), before);
+  EXPECT_EQ(panel->magnitude_slider()->value(), slider_before);
+  EXPECT_DOUBLE_EQ(session.load_controls().magnitude, before);
+  EXPECT_DOUBLE_EQ(session.current_result()->pressure_max_compression_kpa, peak);
+  EXPECT_DOUBLE_EQ(session.current_result()->load.force_n.norm(), force_n);
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  EXPECT_TRUE(g_window->status_label()->text().contains(QStringLiteral("not applied")))
+      << g_window->status_label()->text().toStdString();
+  // Typed "-50" and Enter: whatever the field makes of it, field, session and results agree.
+  QLineEdit* field = magnitude->findChild<QLineEdit*>();
+  ASSERT_NE(field, nullptr);
+  field->selectAll();
+  QTest::keyClicks(field, QStringLiteral("-50"));
+  QTest::keyClick(field, Qt::Key_Return);
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.load_controls().magnitude, magnitude->value());
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  EXPECT_GT(magnitude->value(), 0);
+  // The slider dragged to 0 (released there): refused alike.
+  panel->magnitude_slider()->setValue(0);
+  QApplication::processEvents();
+  EXPECT_GT(session.load_controls().magnitude, 0);
+  EXPECT_EQ(panel->magnitude_slider()->value(),
+            slider_from_magnitude(session.load_controls().magnitude, session.load_controls().unit));
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  // A valid force (another than the one shown): applied, and the message about the refused one goes.
+  magnitude->setValue(magnitude->value() + 10);
+  QApplication::processEvents();
+  EXPECT_FALSE(g_window->status_label()->text().contains(QStringLiteral("not applied")))
+      << g_window->status_label()->text().toStdString();
+  magnitude->setValue(before);
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.current_result()->pressure_max_compression_kpa, peak);
+  EXPECT_NEAR(shown_force(), before, 1e-9 * before);
 }
 
 TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {

@@ -391,6 +391,14 @@ void MainWindow::connect_session() {
   });
   connect(s, &CaseSession::evaluation_failed, this, [this](const QString& message) {
     status_->setText(QStringLiteral("Force system not applied: ") + message);
+    load_error_shown_ = true;
+    last_error_ = message;
+  });
+  // A refused force: the panel shows again the force system the results are for.
+  connect(s, &CaseSession::load_refused, this, [this](const QString& message) {
+    load_panel_->set_controls(session_->load_controls());
+    status_->setText(QStringLiteral("Force system not applied, %1 still shown: %2").arg(force_text(), message));
+    load_error_shown_ = true;
     last_error_ = message;
   });
 }
@@ -429,6 +437,11 @@ QString MainWindow::force_text() const {
 
 void MainWindow::refresh_results(bool interactive) {
   load_summary_->setText(describe(session_->load_controls()));
+  // An accepted force system replaces the message about a refused one.
+  if (load_error_shown_) {
+    load_error_shown_ = false;
+    status_->setText(QStringLiteral("Force system applied: %1.").arg(force_text()));
+  }
   const analysis::ScenarioResult* r = session_->current_result();
   const analysis::ScenarioSolution* s = session_->current_solution();
   if (!r || !s) return;

@@ -90,6 +90,7 @@ class MainWindow : public QMainWindow {
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
+  QLabel* status_label() const { return status_; }
   QComboBox* level_box() const { return scenario_box_; }  // the bone-level selector
   void show_view(ViewKind which);
   // Opens the case panel (true) or the force-system panel (false) on the left.
@@ -157,6 +158,7 @@ class MainWindow : public QMainWindow {
   int prompts_ = 0;
   QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
   bool comparison_dirty_ = true;
+  bool load_error_shown_ = false;  // the status bar shows why a force system was refused
   std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
   bool load_queued_ = false;
   bool discard_job_ = false;  // the running solve is of a case since replaced: its levels are dropped
