@@ -1,6 +1,7 @@
 // Colour maps, colour scales and threshold iso-lines (no display needed).
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 
 #include "core/colour_map.h"
@@ -61,6 +62,20 @@ TEST(ColourScale, UnsignedQuantitiesSpanTheirRange) {
   // A constant field still gets a usable scale.
   const ColourScale flat(Quantity::kVonMises, {3.0, 3.0});
   EXPECT_GT(flat.colour_range().max, flat.colour_range().min);
+}
+
+TEST(Ranges, TheRangeShownLeavesTheCrestEdgeBandOut) {
+  const std::vector<double> values = {1.0, 46.6, -2.0, 28.4, -9.0, 3.0};
+  const std::vector<char> band = {0, 1, 0, 0, 1};  // the last value has no flag: outside
+  const ValueRange shown = finite_range(values, band, false);
+  EXPECT_DOUBLE_EQ(shown.min, -2.0);
+  EXPECT_DOUBLE_EQ(shown.max, 28.4);
+  const ValueRange in_band = finite_range(values, band, true);
+  EXPECT_DOUBLE_EQ(in_band.min, -9.0);
+  EXPECT_DOUBLE_EQ(in_band.max, 46.6);
+  const ValueRange none = finite_range(values, std::vector<char>(6, 1), false);
+  EXPECT_DOUBLE_EQ(none.min, 0.0);
+  EXPECT_DOUBLE_EQ(none.max, 0.0);
 }
 
 TEST(Ranges, IgnoreMissingValues) {
@@ -155,6 +170,12 @@ TEST(AxisTicks, RoundStepsInsideTheRange) {
   EXPECT_TRUE(nice_ticks(1, 1).empty());
   EXPECT_TRUE(nice_ticks(0, NAN).empty());
 }
+
+}  // namespace
+}  // namespace sharpey::app
+
+namespace sharpey::app {
+namespace {
 
 }  // namespace
 }  // namespace sharpey::app

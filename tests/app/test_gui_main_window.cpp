@@ -28,6 +28,7 @@
 #include "view/load_panel.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
+#include "view/root_map_view.h"
 #include "view/vtk_view.h"
 
 namespace sharpey::app {
@@ -129,11 +130,14 @@ TEST_F(MainWindowTest, TheHealthyLevelIsShownWhileTheOthersAreSolved) {
 TEST_F(MainWindowTest, ColourBarSpansTheComputedPressureRange) {
   const analysis::ScenarioResult* r = g_window->session().current_result();
   ASSERT_NE(r, nullptr);
-  const auto [lo, hi] = std::minmax_element(r->pressure_kpa.begin(), r->pressure_kpa.end());
+  // Issue 12, point 2: the bar's ends are the key numbers (derived: both are taken over the PDL
+  // outside the crest edge band), and the root map uses the same scale.
   const ColourBar* bar = g_window->result_view()->colour_bar();
-  EXPECT_DOUBLE_EQ(bar->range().min, *lo);
-  EXPECT_DOUBLE_EQ(bar->range().max, *hi);
+  EXPECT_DOUBLE_EQ(bar->range().min, -r->pressure_max_tension_kpa);
+  EXPECT_DOUBLE_EQ(bar->range().max, r->pressure_max_compression_kpa);
   EXPECT_EQ(bar->unit(), "kPa");
+  EXPECT_DOUBLE_EQ(g_window->root_map()->range().max, r->pressure_max_compression_kpa);
+  EXPECT_DOUBLE_EQ(g_window->root_map()->range().min, -r->pressure_max_tension_kpa);
 }
 
 TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {

@@ -73,6 +73,18 @@ ValueRange finite_range(const std::vector<double>& values) {
   return r;
 }
 
+ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band) {
+  ValueRange r{std::numeric_limits<double>::infinity(), -std::numeric_limits<double>::infinity()};
+  for (size_t i = 0; i < values.size(); ++i) {
+    const bool inside = i < band.size() && band[i] != 0;
+    if (inside != in_band || !std::isfinite(values[i])) continue;
+    r.min = std::min(r.min, values[i]);
+    r.max = std::max(r.max, values[i]);
+  }
+  if (!r.valid()) return {0, 0};
+  return r;
+}
+
 ValueRange merge(const ValueRange& a, const ValueRange& b) {
   return {std::min(a.min, b.min), std::max(a.max, b.max)};
 }

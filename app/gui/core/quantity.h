@@ -34,6 +34,15 @@ struct ValueRange {
 };
 // Smallest and largest finite value; {0, 0} for no finite values.
 ValueRange finite_range(const std::vector<double>& values);
+// The same over part of the PDL nodes: those with band[i] == 0 (in_band false) or band[i] != 0
+// (in_band true); nodes past the end of `band` count as outside it. {0, 0} when none is finite.
+//
+// "The range shown" has one definition for every quantity and every view: the range over the
+// PDL nodes outside the crest edge band (analysis::pdl_crest_edge_band), the nodes the key
+// numbers (peak compression and tension, max. principal strain, von Mises) are taken over, so
+// the colour bar's ends are those numbers. The band, where the linear-elastic stresses are
+// singular and grow with mesh refinement, is shown clamped to the scale and marked apart.
+ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band);
 ValueRange merge(const ValueRange& a, const ValueRange& b);
 
 }  // namespace sharpey::app

@@ -37,6 +37,18 @@ void ColourBar::set_marks(const std::vector<BarMark>& marks) {
   update();
 }
 
+void ColourBar::clear() {
+  has_scale_ = false;
+  marks_.clear();
+  note_.clear();
+  update();
+}
+
+void ColourBar::set_note(const QString& note) {
+  note_ = note;
+  update();
+}
+
 void ColourBar::paintEvent(QPaintEvent*) {
   QPainter painter(this);
   painter.fillRect(rect(), palette().window());
@@ -45,7 +57,22 @@ void ColourBar::paintEvent(QPaintEvent*) {
 
 void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   if (!has_scale_) return;
-  draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
+  if (note_.isEmpty()) {
+    draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
+    return;
+  }
+  painter.save();
+  QFont small = painter.font();
+  small.setPointSizeF(std::max(6.0, small.pointSizeF() * 0.85));
+  painter.setFont(small);
+  const QRect room(area.left() + 4, area.top(), area.width() - 8, area.height());
+  const QRect needed = QFontMetrics(small).boundingRect(room, Qt::TextWordWrap, note_);
+  const QRect note_rect(room.left(), area.bottom() - needed.height() - 4, room.width(), needed.height() + 2);
+  painter.setPen(palette().windowText().color());
+  painter.drawText(note_rect, Qt::AlignLeft | Qt::AlignTop | Qt::TextWordWrap, note_);
+  painter.restore();
+  draw(painter, QRect(area.left(), area.top(), area.width(), note_rect.top() - area.top() - 6), scale_, title_,
+       unit_, marks_, palette().windowText().color());
 }
 
 QImage ColourBar::beside(const QImage& picture, const QColor& background) const {

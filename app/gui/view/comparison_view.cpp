@@ -82,6 +82,7 @@ void ComparisonView::clear() {
   cells_.clear();
   shown_.clear();
   last_session_ = nullptr;
+  bar_->clear();
   table_ = ScenarioTable{};
   table_widget_->clear();
   table_widget_->setRowCount(0);
@@ -128,14 +129,18 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
     link_cameras();
   }
   shown_ = wanted;
-  // One scale over every shown scenario.
-  ValueRange range{0, 0};
+  // One scale over every shown scenario, each range shown as the 3D view defines it
+  // (core/quantity.h: outside the crest edge band).
+  ValueRange range{0, 0}, band{0, 0};
   bool first = true;
   for (int i : wanted) {
     const auto* s = session.solution(i);
     if (!s) continue;
-    const ValueRange r = finite_range(quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes()));
+    const std::vector<double> values = quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes());
+    const std::vector<char> in_band = analysis::pdl_crest_edge_band(*s);
+    const ValueRange r = finite_range(values, in_band, false), b = finite_range(values, in_band, true);
     range = first ? r : merge(range, r);
+    band = first ? b : merge(band, b);
     first = false;
   }
   for (size_t k = 0; k < wanted.size(); ++k) {
@@ -152,6 +157,7 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
   const ColourScale scale(quantity_, range);
   bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
   bar_->set_marks(threshold_marks(session.spec().thresholds, quantity_));
+  bar_->set_note(band_note(range, band, unit_label(quantity_)));
 
   table_ = make_table(results);
   plot_->set_table(table_);

@@ -449,7 +449,10 @@ void MainWindow::refresh_results(bool interactive) {
   result_view_->show_result(*s, *r, t, force_text());
   findings_->show_result(*r, t, session_->geometry_stale(), session_->reference_pending());
   load_panel_->set_resolved(r);
-  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)));
+  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
+  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
+  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
+                     &pressure_range);
   if (!interactive) {
     refresh_scenario_choice();
     comparison_dirty_ = true;

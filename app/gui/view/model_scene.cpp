@@ -61,6 +61,8 @@ constexpr double kCancellousColour[3] = {0.85, 0.79, 0.66};
 constexpr double kForceColour[3] = {0.98, 0.78, 0.12};
 constexpr double kCresColour[3] = {1.0, 1.0, 1.0};
 constexpr double kCrotColour[3] = {0.30, 0.90, 0.95};
+
+constexpr double kBandLineColour[3] = {0.50, 0.27, 0.72};  // violet: apart from both maps' hues
 constexpr double kBoneOpacity = 0.22;
 
 // One actor with its polydata.
@@ -184,7 +186,8 @@ struct ModelScene::Impl {
   vtkSmartPointer<vtkLookupTable> lut = vtkSmartPointer<vtkLookupTable>::New();
   vtkSmartPointer<vtkPlane> clip = vtkSmartPointer<vtkPlane>::New();
   std::vector<double> field;  // per PDL node
-  Part iso_capillary, iso_limit;
+  Part iso_capillary, iso_limit, band_line;
+  int n_band = 0;
   double iso_level[2] = {0, 0};
   bool iso_visible = false;
   int n_iso = 0;
@@ -278,6 +281,7 @@ struct ModelScene::Impl {
   void apply_pixel_scale(double scale) {
     iso_capillary.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.0 * scale)));
     iso_limit.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 3.5 * scale)));
+    band_line.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.5 * scale)));
     // Labels on opposite sides of their markers, which often sit close together.
     auto offset = [scale](vtkBillboardTextActor3D* t, int x, int y) {
       t->SetDisplayOffset(static_cast<int>(std::lround(x * scale)), static_cast<int>(std::lround(y * scale)));
@@ -304,7 +308,8 @@ struct ModelScene::Impl {
       s.cortical_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
       s.cancellous_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
     }
-    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit}) {
+    band_line.actor->SetVisibility(has_model && n_band > 0);
+    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit, &band_line}) {
       p->mapper->RemoveAllClippingPlanes();
       if (cut) p->mapper->AddClippingPlane(clip);
     }
@@ -360,7 +365,8 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   const Rgb cap = capillary_line_colour(), lim = limit_line_colour();
   d.iso_capillary.solid(cap.data());
   d.iso_limit.solid(lim.data());
-  for (Part* p : {&d.iso_capillary, &d.iso_limit}) {
+  d.band_line.solid(kBandLineColour);
+  for (Part* p : {&d.iso_capillary, &d.iso_limit, &d.band_line}) {
     p->actor->GetProperty()->LightingOff();
     scene->AddActor(p->actor);
   }
@@ -452,6 +458,7 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   d.has_model = true;
   d.field.clear();
   d.glyph_key.clear();
+  d.n_band = 0;
   d.apply_visibility();
 }
 
@@ -480,6 +487,22 @@ void ModelScene::set_field(const std::vector<double>& pdl_values, const ColourSc
   d.update_iso_lines();
   d.timings.iso_lines_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
 }
+
+void ModelScene::set_band(const std::vector<char>& band) {
+  Impl& d = *impl_;
+  std::vector<double> flag(d.pdl_surface.nodes.size(), 0.0);
+  for (size_t i = 0; i < flag.size(); ++i) {
+    const int node = d.pdl_surface.nodes[i];
+    const int k = node >= 0 && node < static_cast<int>(d.pdl_index.size()) ? d.pdl_index[static_cast<size_t>(node)] : -1;
+    flag[i] = k >= 0 && k < static_cast<int>(band.size()) && band[static_cast<size_t>(k)] ? 1.0 : 0.0;
+  }
+  const std::vector<Segment3> segments = triangle_iso_lines(d.pdl_points, d.pdl_surface.triangles, flag, 0.5);
+  d.n_band = static_cast<int>(segments.size());
+  fill_segments(d.band_line.data, segments);
+  d.apply_visibility();
+}
+
+int ModelScene::n_band_segments() const { return impl_->n_band; }
 
 void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
   Impl& d = *impl_;

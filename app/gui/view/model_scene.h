@@ -55,6 +55,10 @@ class ModelScene {
 
   // Colours the PDL: one value per PDL node (pdl_nodes order) in the scale's unit.
   void set_field(const std::vector<double>& pdl_values, const ColourScale& scale);
+  // Marks the crest edge band (analysis::pdl_crest_edge_band: one flag per PDL node, pdl_nodes
+  // order) by a line on the PDL surface along its lower edge. Call after set_model.
+  void set_band(const std::vector<char>& band);
+  int n_band_segments() const;
   // Iso-lines at the two thresholds (values in the field's unit); hidden when !visible.
   void set_iso_levels(double capillary, double limit, bool visible);
   // Force arrow, couple, CRes and CRot of a result; `force_text` labels the arrow.

@@ -236,7 +236,10 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.paragraph(QStringLiteral("Root map: the root surface unrolled, angle around the root against depth below "
                                 "the CEJ."));
     RootMapView map;
-    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)));
+    // The range shown (core/quantity.h) for pressure is the key numbers' span: peak tension to
+    // peak compression outside the crest edge band.
+    const ValueRange shown{-r.pressure_max_tension_kpa, r.pressure_max_compression_kpa};
+    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
     const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
     paint_scaled(painter, font, body, pg.y, map_height,
                  [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });

@@ -8,6 +8,7 @@
 #include <QToolButton>
 #include <QVBoxLayout>
 
+#include "core/units.h"
 #include "view/colour_bar.h"
 #include "view/vtk_view.h"
 
@@ -20,6 +21,15 @@ std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Qua
   return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()),
            Qt::DashLine, 2.0},
           {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+}
+
+QString band_note(const ValueRange& shown, const ValueRange& band, const QString& unit) {
+  const bool beyond = band.max > shown.max || band.min < shown.min;
+  if (!beyond) return QStringLiteral("Crest edge band (above the violet line): within the scale.");
+  const int decimals = readable_decimals(std::max(std::abs(band.min), std::abs(band.max)));
+  return QStringLiteral("Crest edge band (above the violet line): %1 to %2, drawn at the scale's "
+                        "ends; left out of the key numbers.")
+      .arg(with_unit(band.min, unit, decimals), with_unit(band.max, unit, decimals));
 }
 
 ViewOptionBoxes add_view_options(QHBoxLayout* row, QObject* context, const ViewOptionHandlers& on) {
@@ -168,6 +178,9 @@ void ResultView::reset_camera() {
 
 void ResultView::clear() {
   solution_ = nullptr;
+  band_.clear();
+  range_ = band_range_ = ValueRange{};
+  bar_->clear();
   scene_->clear();
   view_->update();
 }
@@ -179,6 +192,8 @@ void ResultView::show_result(const analysis::ScenarioSolution& solution,
   if (&solution != solution_) {
     solution_ = &solution;
     scene_->set_model(solution.model().mesh, solution.pdl_nodes(), solution.model().geometry);
+    band_ = analysis::pdl_crest_edge_band(solution);
+    scene_->set_band(band_);
     if (!camera_set_) {
       scene_->reset_camera();
       camera_set_ = true;
@@ -194,14 +209,17 @@ void ResultView::show_result(const analysis::ScenarioSolution& solution,
 void ResultView::refresh() {
   if (!solution_) return;
   const std::vector<double> values = quantity_values(result_, quantity_, solution_->pdl_nodes());
-  range_ = finite_range(values);
+  range_ = finite_range(values, band_, false);
+  band_range_ = finite_range(values, band_, true);
   const ColourScale scale(quantity_, fixed_range_ ? *fixed_range_ : range_);
+
   scene_->set_field(values, scale);
   const bool lines = has_threshold_lines(quantity_);
   scene_->set_iso_levels(thresholds_.capillary.value_kpa, thresholds_.limit.value_kpa, lines);
   scene_->set_load_glyphs(result_, force_text_);
   bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
   bar_->set_marks(threshold_marks(thresholds_, quantity_));
+  bar_->set_note(band_note(scale.range(), band_range_, unit_label(quantity_)));
   view_->update();
 }
 

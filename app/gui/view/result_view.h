@@ -30,6 +30,10 @@ bool has_threshold_lines(Quantity q);
 // without threshold lines).
 std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q);
 
+// The colour bar's note on the crest edge band: its range when it goes beyond the scale shown
+// (the band is drawn clamped to the scale's ends and bounded by a line in the 3D view).
+QString band_note(const ValueRange& shown, const ValueRange& band, const QString& unit);
+
 // The display options row the 3D view and the comparison share: "Colour by" with the quantity,
 // then the bone style and the section. Each box calls its handler with the value chosen.
 struct ViewOptionBoxes {
@@ -78,8 +82,12 @@ class ResultView : public QWidget {
   ModelScene* scene() const { return scene_.get(); }
   // The view with its colour bar, as shown.
   QImage grab_image();
-  // The range of the last shown field (data range), in the quantity's unit.
+  // The range shown (core/quantity.h: over the PDL nodes outside the crest edge band), in the
+  // quantity's unit, and the range over the band's nodes (drawn clamped to the scale).
   const ValueRange& shown_range() const { return range_; }
+  const ValueRange& band_range() const { return band_range_; }
+  // analysis::pdl_crest_edge_band of the solution shown (one flag per PDL node).
+  const std::vector<char>& band() const { return band_; }
   // Read-out of the shown quantity at VTK display point (x, y) (see ModelScene::readout_at).
   HoverReadout readout_at(int x, int y);
 
@@ -105,7 +113,8 @@ class ResultView : public QWidget {
   analysis::Thresholds thresholds_;
   QString force_text_;
   std::optional<ValueRange> fixed_range_;
-  ValueRange range_;
+  ValueRange range_, band_range_;
+  std::vector<char> band_;  // analysis::pdl_crest_edge_band of the solution shown
   bool camera_set_ = false;
   // The hover read-out picks at most every 40 ms, at the newest mouse position.
   QTimer hover_timer_;
