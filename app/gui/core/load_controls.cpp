@@ -105,8 +105,8 @@ std::vector<analysis::MovementPreset> panel_presets() {
 
 void LoadControls::set_unit(analysis::ForceUnit new_unit) {
   if (new_unit == unit) return;
-  magnitude = convert_force(magnitude, unit, new_unit);
-  for (int i = 0; i < 3; ++i) moment(i) = convert_force(moment(i), unit, new_unit);
+  magnitude = analysis::convert_force(magnitude, unit, new_unit);
+  for (int i = 0; i < 3; ++i) moment(i) = analysis::convert_force(moment(i), unit, new_unit);
   unit = new_unit;
 }
 
@@ -128,7 +128,7 @@ Eigen::Vector3d LoadControls::direction_vector() const {
   return app::direction_vector(direction);
 }
 
-double LoadControls::force_n() const { return force_to_newton(magnitude, unit); }
+double LoadControls::force_n() const { return analysis::to_newton(magnitude, unit); }
 
 analysis::LoadSpec to_load_spec(const LoadControls& c) {
   analysis::LoadSpec load;
@@ -138,7 +138,7 @@ analysis::LoadSpec to_load_spec(const LoadControls& c) {
   load.bracket_height_mm = c.at_pad_centre ? -1.0 : c.bracket_height_mm;
   load.couple = c.couple;
   load.moment_nmm = Eigen::Vector3d::Zero();
-  for (int i = 0; i < 3; ++i) load.moment_nmm(i) = moment_to_nmm(c.moment(i), c.unit);
+  for (int i = 0; i < 3; ++i) load.moment_nmm(i) = analysis::moment_to_nmm(c.moment(i), c.unit);
   load.moment_to_force_mm = c.moment_to_force_mm;
   load.preset = c.preset;
   return load;
@@ -158,7 +158,7 @@ LoadControls from_load_spec(const analysis::LoadSpec& load) {
   c.at_pad_centre = load.bracket_height_mm < 0;
   c.bracket_height_mm = c.at_pad_centre ? 0.0 : load.bracket_height_mm;
   c.couple = load.couple;
-  for (int i = 0; i < 3; ++i) c.moment(i) = moment_from_nmm(load.moment_nmm(i), load.unit);
+  for (int i = 0; i < 3; ++i) c.moment(i) = analysis::moment_from_nmm(load.moment_nmm(i), load.unit);
   c.moment_to_force_mm = load.moment_to_force_mm;
   c.preset = load.preset;
   return c;

@@ -222,7 +222,8 @@ void LoadPanel::set_resolved(const analysis::ScenarioResult* r) {
     return;
   }
   const auto& l = r->load;
-  const double f_g = force_from_newton(l.force_n.norm(), analysis::ForceUnit::kGram);
+  const double f_g = analysis::from_newton(
+l.force_n.norm(), analysis::ForceUnit::kGram);
   resolved_->setText(
       QStringLiteral("At the bracket (%1): force %2 (%3), couple (%4, %5, %6) N\u00b7mm, M/F %7")
           .arg(QString::fromStdString(r->name))
