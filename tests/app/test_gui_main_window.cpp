@@ -8,12 +8,14 @@
 #include <QDir>
 #include <QDoubleSpinBox>
 #include <QFile>
+
 #include <QLabel>
 #include <QLineEdit>
 #include <QSlider>
 #include <QRegularExpression>
 #include <QProcess>
 #include <QStandardPaths>
+
 #include <QTemporaryDir>
 #include <QTest>
 #include <algorithm>
@@ -23,6 +25,7 @@
 #include "core/colour_map.h"
 #include "support/image_checks.h"
 #include "support/solved_sample.h"
+
 #include "view/colour_bar.h"
 #include "view/comparison_view.h"
 #include "view/load_panel.h"
@@ -208,6 +211,35 @@ TEST_F(MainWindowTest, ARefusedForceKeepsControlsAndResultsTogether) {
   QApplication::processEvents();
   EXPECT_DOUBLE_EQ(session.current_result()->pressure_max_compression_kpa, peak);
   EXPECT_NEAR(shown_force(), before, 1e-9 * before);
+}
+
+// Issue 12, point 4: the summary at the bracket follows a changed point of application, in the
+// chosen force unit.
+TEST_F(MainWindowTest, TheSummaryAtTheBracketFollowsThePointOfApplication) {
+  CaseSession& session = g_window->session();
+  const LoadControls start = session.load_controls();
+  ASSERT_EQ(start.unit, analysis::ForceUnit::kGram);
+  const QString at_bracket = g_window->load_panel()->resolved_text();
+  LoadControls moved = start;
+  moved.at_pad_centre = false;
+  moved.bracket_height_mm = 2.0;
+  moved.preset = analysis::MovementPreset::kNone;
+  g_window->load_panel()->set_controls(moved);
+  g_window->set_load(moved, false);
+  QApplication::processEvents();
+  const QString text = g_window->load_panel()->resolved_text();
+  EXPECT_NE(text, at_bracket);
+  EXPECT_TRUE(text.contains(QStringLiteral("applied 2.0\u2009mm above the CEJ"))) << text.toStdString();
+  EXPECT_TRUE(text.contains(QString::fromUtf8("g\u00b7mm about the mesiodistal axis"))) << text.toStdString();
+  // A lingual force 2 mm above the CEJ, below the bracket centre, turns about the mesiodistal axis
+  // there: that moment is not 0 (derived: r x F with r along the long axis).
+  const analysis::ScenarioResult* r = session.current_result();
+  EXPECT_GT(std::abs(r->load.moment_nmm.y()), 0.05 * r->load.force_n.norm());
+  EXPECT_NEAR(r->load.application_point.z(), 2.0, 1e-9);
+  g_window->load_panel()->set_controls(start);
+  g_window->set_load(start, false);
+  QApplication::processEvents();
+  EXPECT_EQ(g_window->load_panel()->resolved_text(), at_bracket);
 }
 
 TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {

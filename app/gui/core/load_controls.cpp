@@ -208,4 +208,22 @@ QString describe(const LoadControls& c) {
   return text;
 }
 
+QString describe_resolved(const analysis::ScenarioResult& r, analysis::ForceUnit unit) {
+  const analysis::ResolvedLoad& l = r.load;
+  const int decimals = force_decimals(unit);
+  const QString force = with_unit(analysis::from_newton(l.force_n.norm(), unit), force_unit_label(unit), decimals);
+  auto moment = [&](const Eigen::Vector3d& m_nmm) {
+    const QString u = moment_unit_label(unit);
+    auto c = [&](double v) { return with_unit(analysis::moment_from_nmm(v, unit), u, decimals); };
+    return QStringLiteral("%1 about the labiolingual axis, %2 about the mesiodistal axis, %3 about the long axis")
+        .arg(c(m_nmm.x()), c(m_nmm.y()), c(m_nmm.z()));
+  };
+  return QStringLiteral("At the bracket (%1): force %2 (%3), applied %4 above the CEJ.\n"
+                        "Moment about the bracket centre (force and couple): %5.\n"
+                        "Couple alone: %6; its moment-to-force ratio %7.")
+      .arg(QString::fromStdString(r.name), force, with_unit(l.force_n.norm(), QStringLiteral("N"), 3),
+           with_unit(l.application_point.z(), QStringLiteral("mm"), 1), moment(l.moment_nmm), moment(l.couple_nmm),
+           with_unit(l.moment_to_force_mm, QStringLiteral("mm"), 1));
+}
+
 }  // namespace sharpey::app

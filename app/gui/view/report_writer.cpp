@@ -145,7 +145,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   writer.setPageSize(QPageSize(QPageSize::A4));
   writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
   writer.setResolution(300);
-  writer.setTitle(QStringLiteral("Sharpey report: ") + QString::fromStdString(spec.label));
+  // The force system as set, beside the case label (which may name an older one).
+  writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)").arg(QString::fromStdString(spec.label), describe(in.load)));
   writer.setCreator(QStringLiteral("Sharpey"));
   QPainter painter;
   if (!painter.begin(&writer)) {
@@ -189,16 +190,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.paragraph(describe_case(spec));
     pg.heading(QStringLiteral("Force system"));
     pg.paragraph(describe(in.load) + '.');
-    pg.paragraph(QStringLiteral("Resolved at the bracket for %1: force (%2, %3, %4) N, couple (%5, %6, %7) N\u00b7mm, "
-                                "moment-to-force ratio %8.")
-                     .arg(QString::fromStdString(r.name))
-                     .arg(r.load.force_n.x(), 0, 'f', 3)
-                     .arg(r.load.force_n.y(), 0, 'f', 3)
-                     .arg(r.load.force_n.z(), 0, 'f', 3)
-                     .arg(r.load.couple_nmm.x(), 0, 'f', 1)
-                     .arg(r.load.couple_nmm.y(), 0, 'f', 1)
-                     .arg(r.load.couple_nmm.z(), 0, 'f', 1)
-                     .arg(with_unit(r.load.moment_to_force_mm, QStringLiteral("mm"), 1)));
+    pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
     pg.heading(QStringLiteral("Thresholds and their sources"));
     pg.rows({{QStringLiteral("capillary pressure"),
               with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
