@@ -15,7 +15,7 @@
 #include <QRegularExpression>
 #include <QProcess>
 #include <QStandardPaths>
-
+#include <QTableWidget>
 #include <QTemporaryDir>
 #include <QTest>
 #include <algorithm>
@@ -25,7 +25,7 @@
 #include "core/colour_map.h"
 #include "support/image_checks.h"
 #include "support/solved_sample.h"
-
+#include "view/case_panel.h"
 #include "view/colour_bar.h"
 #include "view/comparison_view.h"
 #include "view/load_panel.h"
@@ -379,6 +379,40 @@ bool wait_for_solve() {
   QObject::disconnect(a);
   QObject::disconnect(b);
   return ended && done;
+}
+
+// Issue 12, points 4 and 5, at the widget level: a bone loss typed into the case panel's table is
+// checked on entry with the case-file rules; a refused one changes nothing, an accepted one
+// renames a generated level name.
+TEST_F(MainWindowTest, TheCasePanelChecksABoneLossOnEntry) {
+  CaseSession& session = g_window->session();
+  g_window->show_case_panel(true);
+  QApplication::processEvents();
+  QTableWidget* table = g_window->case_panel()->levels_table();
+  ASSERT_EQ(table->rowCount(), 4);
+  ASSERT_EQ(session.levels().at(3).name, "6 mm loss");
+  const bool stale_before = session.geometry_stale();
+  // 15 mm: more than the incisor's root (about 13 mm, source: the tooth library's handbook
+  // dimensions) can lose; refused at once, not a minute later by the mesher.
+  table->item(3, 2)->setText(QStringLiteral("15"));
+  QApplication::processEvents();
+  EXPECT_TRUE(g_window->last_error().contains(QStringLiteral("scenarios[3]"))) << g_window->last_error().toStdString();
+  EXPECT_DOUBLE_EQ(session.levels().at(3).loss.horizontal_mm, 6.0);
+  EXPECT_EQ(table->item(3, 2)->text().toDouble(), 6.0);
+  EXPECT_EQ(session.geometry_stale(), stale_before);
+  EXPECT_EQ(session.results().size(), 4u);  // nothing solved is thrown away
+  // 5 mm: accepted; the generated name follows the value.
+  table->item(3, 2)->setText(QStringLiteral("5"));
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.levels().at(3).loss.horizontal_mm, 5.0);
+  EXPECT_EQ(session.levels().at(3).name, "5 mm loss");
+  EXPECT_EQ(table->item(3, 1)->text(), QStringLiteral("5 mm loss"));
+  EXPECT_TRUE(session.geometry_stale());
+  // Back as it was.
+  table->item(3, 2)->setText(QStringLiteral("6"));
+  QApplication::processEvents();
+  EXPECT_EQ(session.levels().at(3).name, "6 mm loss");
+  g_window->show_case_panel(false);
 }
 
 // These two solve again: defined last, so the tests above see the sample as first solved.

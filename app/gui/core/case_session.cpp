@@ -214,11 +214,13 @@ void CaseSession::set_defect(int level, double depth_mm, mesh::ToothSurface surf
   edited.set_loss(level, loss);
   analysis::CaseSpec check = spec_with_load();
   check.scenarios = edited.scenarios();
-  analysis::validate_case(check);  // throws before any change (depth, width and geometry checks)
-  set_levels(edited);
+  set_levels(edited);  // throws before any change (depth, width and geometry checks)
 }
 
 void CaseSession::set_levels(const ScenarioList& levels) {
+  analysis::CaseSpec check = spec_with_load();
+  check.scenarios = levels.scenarios();
+  analysis::validate_case(check);  // throws before any change: the case-file rules, on entry
   levels_ = levels;
   spec_.scenarios = levels_.scenarios();
   geometry_edit();

@@ -71,6 +71,9 @@ class CaseSession : public QObject {
   void set_defect(int level, double depth_mm, mesh::ToothSurface surface, double width_deg);
   const ScenarioList& levels() const { return levels_; }
   // Replaces the bone-level list (names and losses); the comparison choice is kept when possible.
+  // Checks the case with the new levels first (analysis::validate_case, the rules of a case file,
+  // e.g. a loss the root cannot take) and throws InputError naming the level's key; the levels
+  // are unchanged then.
   void set_levels(const ScenarioList& levels);
   // Comparison choice only: no geometry change.
   bool set_compared(int level, bool on);

@@ -100,23 +100,25 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     emit solve_finished();
   });
   // Levels solved before a cancel or a failure stay shown.
-  auto partial_note = [this]() {
+  auto partial_note = [this](bool failed) {
     const auto study = job_->take_result();
     if (!study) return QStringLiteral("the previous results (if any) are still shown.");
-    return QStringLiteral("%1 of %2 bone levels solved and shown; solve again (F5) for the rest.")
+    return QStringLiteral("%1 of %2 bone levels solved and shown; %3")
         .arg(study->solutions().size())
-        .arg(study->spec().scenarios.size());
+        .arg(study->spec().scenarios.size())
+        .arg(failed ? QStringLiteral("correct the level the message names before solving again.")
+                    : QStringLiteral("solve again (F5) for the rest."));
   };
   connect(job_.get(), &SolveJob::cancelled, this, [this, partial_note]() {
     if (end_discarded_job()) return;
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve cancelled; ") + partial_note());
+    status_->setText(QStringLiteral("Solve cancelled; ") + partial_note(false));
     emit solve_failed(QStringLiteral("cancelled"));
   });
   connect(job_.get(), &SolveJob::failed, this, [this, partial_note](const QString& kind, const QString& message) {
     if (end_discarded_job()) return;
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note());
+    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note(true));
     show_error(QStringLiteral("Could not mesh and solve the case"),
                QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
     emit solve_failed(message);
@@ -244,6 +246,7 @@ void MainWindow::build_layout() {
   });
   connect(load_panel_, &LoadPanel::changed, this, &MainWindow::set_load);
   connect(case_panel_, &CasePanel::solve_requested, this, &MainWindow::solve);
+  connect(case_panel_, &CasePanel::edit_refused, this, &MainWindow::show_error);
   connect(case_panel_, &CasePanel::comparison_changed, this, [this]() {
     comparison_dirty_ = true;
     refresh_comparison();
