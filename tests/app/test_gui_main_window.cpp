@@ -8,7 +8,8 @@
 #include <QDir>
 #include <QDoubleSpinBox>
 #include <QFile>
-
+#include <QFileInfo>
+#include <QProcessEnvironment>
 #include <QLabel>
 #include <QLineEdit>
 #include <QSlider>
@@ -300,6 +301,43 @@ TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
   QApplication::processEvents();
 }
 
+// Issue 12, point 11: saves and exports start in the documents folder, never the samples'.
+TEST_F(MainWindowTest, SavesAndExportsStartInTheDocumentsFolder) {
+  const QString documents = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
+  const QString samples = QFileInfo(testing::incisor_sample_path()).absolutePath();
+  for (const QString& name : {QStringLiteral("case.json"), QStringLiteral("x_report.pdf"), QString()}) {
+    const QString path = g_window->suggested_path(name);
+    EXPECT_FALSE(path.startsWith(samples)) << path.toStdString();
+    EXPECT_TRUE(path.startsWith(documents.isEmpty() ? QDir::homePath() : documents)) << path.toStdString();
+  }
+  // The case file's name is kept, in the documents folder.
+  EXPECT_EQ(g_window->file_stem(), QFileInfo(testing::incisor_sample_path()).completeBaseName());
+}
+
+// Issue 12, point 11: `sharpey --help` works without a display (it used to abort with 134), and
+// without one the app says what to do instead of aborting.
+TEST(Command, HelpWorksWithoutADisplay) {
+  const QString program = QStringLiteral(SHARPEY_BINARY_DIR "/app/gui/sharpey");
+  ASSERT_TRUE(QFileInfo::exists(program)) << program.toStdString();
+  QProcessEnvironment env = QProcessEnvironment::systemEnvironment();
+  for (const char* name : {"DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"}) env.remove(QString::fromLatin1(name));
+  auto run_without_display = [&](const QStringList& args, QString* out, QString* err) {
+    QProcess p;
+    p.setProcessEnvironment(env);
+    p.start(program, args);
+    EXPECT_TRUE(p.waitForFinished(60000));
+    *out = QString::fromUtf8(p.readAllStandardOutput());
+    *err = QString::fromUtf8(p.readAllStandardError());
+    return p.exitStatus() == QProcess::NormalExit ? p.exitCode() : -1;
+  };
+  QString out, err;
+  EXPECT_EQ(run_without_display({QStringLiteral("--help")}, &out, &err), 0) << err.toStdString();
+  EXPECT_TRUE(out.contains(QStringLiteral("--mesh"))) << out.toStdString();
+  EXPECT_TRUE(out.contains(QStringLiteral("--screenshots")));
+  EXPECT_EQ(run_without_display({}, &out, &err), 3);
+  EXPECT_TRUE(err.contains(QStringLiteral("sharpey-batch"))) << err.toStdString();
+}
+
 TEST_F(MainWindowTest, PdfReportHasItsPagesTheCautionAndTheSources) {
   const QString pdf = g_dir->filePath("report.pdf");
   ASSERT_TRUE(g_window->export_report(pdf)) << g_window->last_error().toStdString();
@@ -447,6 +485,22 @@ TEST_F(MainWindowTest, AGeometryEditDuringTheSolveLeavesTheResultsStale) {
   ASSERT_TRUE(wait_for_solve()) << g_window->last_error().toStdString();
   EXPECT_EQ(session.results().size(), 4u);
   EXPECT_TRUE(session.geometry_stale()) << "results of the old width shown as current";
+}
+
+// Issue 12, point 11: File > New leaves nothing of the old case on screen, the colour bars too.
+// Last: it replaces the sample.
+TEST_F(MainWindowTest, NewCaseClearsTheColourBars) {
+  g_window->show_view(ViewKind::kComparison);
+  QApplication::processEvents();
+  EXPECT_TRUE(g_window->result_view()->colour_bar()->has_scale());
+  EXPECT_TRUE(g_window->comparison()->shared_bar()->has_scale());
+  g_window->new_case();
+  QApplication::processEvents();
+  EXPECT_FALSE(g_window->result_view()->colour_bar()->has_scale());
+  EXPECT_FALSE(g_window->comparison()->shared_bar()->has_scale());
+  EXPECT_TRUE(g_window->result_view()->colour_bar()->note().isEmpty());
+  EXPECT_FALSE(g_window->root_map()->has_map());
+  g_window->show_view(ViewKind::k3D);
 }
 
 }  // namespace

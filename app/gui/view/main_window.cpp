@@ -281,7 +281,8 @@ void MainWindow::build_menus() {
   QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this, [this]() { save(); });
   save_action->setShortcut(QKeySequence::Save);
   QAction* save_as_action = file->addAction(QStringLiteral("Save &as\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"), session_->document().path(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"),
+                                                      suggested_path(file_stem() + QStringLiteral(".json")),
                                                       QStringLiteral("Sharpey cases (*.json)"));
     if (!path.isEmpty()) save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
   });
@@ -293,18 +294,21 @@ void MainWindow::build_menus() {
     const ViewKind which = tabs_->currentIndex() == 1 ? ViewKind::kRootMap
                            : tabs_->currentIndex() == 2 ? ViewKind::kComparison
                                                         : ViewKind::k3D;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"),
+                                                      suggested_path(file_stem() + QStringLiteral(".png")),
                                                       QStringLiteral("PNG images (*.png)"));
     if (!path.isEmpty()) export_image(path.endsWith(QStringLiteral(".png")) ? path : path + QStringLiteral(".png"), which);
   });
   QAction* report_action = exports->addAction(make_icon(IconKind::kReport), QStringLiteral("&PDF report\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"),
+                                                      suggested_path(file_stem() + QStringLiteral("_report.pdf")),
                                                       QStringLiteral("PDF documents (*.pdf)"));
     if (!path.isEmpty()) export_report(path.endsWith(QStringLiteral(".pdf")) ? path : path + QStringLiteral(".pdf"));
   });
   QAction* data_action = exports->addAction(make_icon(IconKind::kExportData),
                                             QStringLiteral("&Results as CSV, JSON and VTU\u2026"), this, [this]() {
-    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"));
+    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"),
+                                                             suggested_path(QString()));
     if (!folder.isEmpty()) export_data(folder);
   });
   file->addSeparator();
@@ -488,6 +492,17 @@ void MainWindow::show_view(ViewKind which) {
 // ---------------------------------------------------------------------------------------------
 // Files
 
+QString MainWindow::suggested_path(const QString& file_name) const {
+  QString folder = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
+  if (folder.isEmpty()) folder = QDir::homePath();
+  return file_name.isEmpty() ? folder : QDir(folder).filePath(file_name);
+}
+
+QString MainWindow::file_stem() const {
+  const QString path = session_->document().path();
+  return path.isEmpty() ? QStringLiteral("sharpey_case") : QFileInfo(path).completeBaseName();
+}
+
 void MainWindow::refresh_title() { setWindowTitle(session_->document().window_title()); }
 
 void MainWindow::refresh_recent_menu() {
@@ -535,7 +550,8 @@ bool MainWindow::open_case(const QString& path) {
 bool MainWindow::save() {
   if (session_->document().save_needs_path()) {
     if (!options_.dialogs) return false;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"),
+                                                      suggested_path(file_stem() + QStringLiteral(".json")),
                                                       QStringLiteral("Sharpey cases (*.json)"));
     if (path.isEmpty()) return false;
     return save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));

@@ -73,6 +73,12 @@ class MainWindow : public QMainWindow {
   void cancel_solve();
   bool solving() const;
 
+  // Where a save or export dialog starts: `file_name` in the user's documents folder, never the
+  // folder of the bundled samples (a reflexive save must not overwrite a shipped sample).
+  QString suggested_path(const QString& file_name) const;
+  // File name stem for saves and exports: the case file's, else "sharpey_case".
+  QString file_stem() const;
+
   // ---- exports ----
   QImage view_image(ViewKind which);
   bool export_image(const QString& path, ViewKind which);
