@@ -177,5 +177,33 @@ TEST(AxisTicks, RoundStepsInsideTheRange) {
 namespace sharpey::app {
 namespace {
 
+// Issue 12, point 12: the views' background is the app's own (warm umber), not a slate blue-grey,
+// and every label stays readable on it.
+TEST(ViewColours, TheBackgroundIsWarmAndNotSlate) {
+  const Rgb slate = {84 / 255.0, 90 / 255.0, 106 / 255.0};  // the look to stay away from (issue 12)
+  for (const Rgb& c : {view_background_bottom(), view_background_top()}) {
+    EXPECT_GT(c[0], c[2] + 0.02) << "red above blue: a warm hue";
+    double distance = 0;
+    for (int k = 0; k < 3; ++k) distance = std::max(distance, std::abs(c[k] - slate[k]));
+    EXPECT_GT(distance, 0.08);
+  }
+}
+
+TEST(ViewColours, LabelsAndColourMapsStandOutFromTheBackground) {
+  for (const Rgb& background : {view_background_bottom(), view_background_top()}) {
+    const Rgb box = blend(label_box_colour(), label_box_opacity(), background);
+    for (const Rgb& text : {force_label_colour(), cres_label_colour(), crot_label_colour()}) {
+      // source: WCAG 2.1 success criterion 1.4.3, 4.5:1 for normal text.
+      EXPECT_GE(contrast_ratio(text, box), 4.5);
+    }
+    // source: WCAG 2.1 success criterion 1.4.11, 3:1 for graphical objects: the maps' light
+    // middle and the tooth-coloured end against the background.
+    EXPECT_GE(contrast_ratio(diverging_colour(0.0), background), 3.0);
+    EXPECT_GE(contrast_ratio(sequential_colour(1.0), background), 3.0);
+  }
+  // derived: white on black is 21:1.
+  EXPECT_NEAR(contrast_ratio({1, 1, 1}, {0, 0, 0}), 21.0, 1e-9);
+}
+
 }  // namespace
 }  // namespace sharpey::app

@@ -58,10 +58,9 @@ namespace {
 constexpr double kToothColour[3] = {0.93, 0.90, 0.82};
 constexpr double kCorticalColour[3] = {0.74, 0.70, 0.62};
 constexpr double kCancellousColour[3] = {0.85, 0.79, 0.66};
-constexpr double kForceColour[3] = {0.98, 0.78, 0.12};
-constexpr double kCresColour[3] = {1.0, 1.0, 1.0};
-constexpr double kCrotColour[3] = {0.30, 0.90, 0.95};
-
+const Rgb kForceColour = force_label_colour();
+const Rgb kCresColour = cres_label_colour();
+const Rgb kCrotColour = crot_label_colour();
 constexpr double kBandLineColour[3] = {0.50, 0.27, 0.72};  // violet: apart from both maps' hues
 constexpr double kBoneOpacity = 0.22;
 
@@ -336,9 +335,11 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   d.overlay = overlay;
   // Lines lying on surfaces (iso-lines) win over the surfaces.
   vtkMapper::SetResolveCoincidentTopologyToPolygonOffset();
+  // The app's own background (core/colour_map.h): warm umber, darker at the bottom.
   scene->GradientBackgroundOn();
-  scene->SetBackground(0.16, 0.18, 0.22);
-  scene->SetBackground2(0.33, 0.36, 0.42);
+  const Rgb bottom = view_background_bottom(), top = view_background_top();
+  scene->SetBackground(bottom[0], bottom[1], bottom[2]);
+  scene->SetBackground2(top[0], top[1], top[2]);
   scene->SetMaximumNumberOfPeels(6);
   scene->SetOcclusionRatio(0.05);
 
@@ -371,17 +372,18 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
     scene->AddActor(p->actor);
   }
 
-  d.arrow.solid(kForceColour);
-  d.couple_arc.solid(kForceColour);
-  d.couple_head.solid(kForceColour);
-  d.cres.solid(kCresColour);
-  d.crot.solid(kCrotColour);
+  d.arrow.solid(kForceColour.data());
+  d.couple_arc.solid(kForceColour.data());
+  d.couple_head.solid(kForceColour.data());
+  d.cres.solid(kCresColour.data());
+  d.crot.solid(kCrotColour.data());
   for (Part* p : {&d.arrow, &d.couple_arc, &d.couple_head, &d.cres, &d.crot}) overlay->AddActor(p->actor);
-  auto style_label = [&](vtkBillboardTextActor3D* t, const double rgb[3]) {
+  auto style_label = [&](vtkBillboardTextActor3D* t, const Rgb& rgb) {
+    const Rgb box = label_box_colour();
     t->GetTextProperty()->SetFontSize(15);
     t->GetTextProperty()->SetColor(rgb[0], rgb[1], rgb[2]);
-    t->GetTextProperty()->SetBackgroundColor(0.05, 0.05, 0.08);
-    t->GetTextProperty()->SetBackgroundOpacity(0.65);
+    t->GetTextProperty()->SetBackgroundColor(box[0], box[1], box[2]);
+    t->GetTextProperty()->SetBackgroundOpacity(label_box_opacity());
     t->GetTextProperty()->BoldOn();
     overlay->AddActor(t);
   };
