@@ -106,6 +106,41 @@ TEST_F(ResultViewTest, TheRangeShownIsTheKeyNumbersForEveryQuantityAndTheBandIsM
   EXPECT_GT(violet, 50);
 }
 
+// Issue 12, point 6: preset views, a labelled orientation marker, and a start on the loaded side.
+TEST_F(ResultViewTest, PresetViewsAndTheOrientationMarker) {
+  const analysis::ScenarioResult r = evaluate(100);  // the sample's lingual force
+  ASSERT_LT(r.load.force_n.x(), 0);
+  EXPECT_EQ(loaded_side(r.load.force_n), ViewSide::kLingual);
+  view_ = std::make_unique<ResultView>();  // a fresh view: its first camera
+  view_->resize(900, 650);
+  view_->show();
+  ASSERT_TRUE(QTest::qWaitForWindowExposed(view_.get()));
+  show(r);
+  Eigen::Vector3d right, up;
+  view_->scene()->screen_axes(&right, &up);
+  // Looking from the lingual side (toward +x): the labial direction points away from the reader,
+  // so it has little share of the screen; the crown is up (derived: the camera basis).
+  double position[3];
+  view_->vtk_view()->camera()->GetPosition(position);
+  EXPECT_LT(position[0], 0) << "the camera is on the lingual side";
+  EXPECT_GT(up.z(), 0.8);
+  for (ViewSide side : all_view_sides()) {
+    SCOPED_TRACE(label(side).toStdString());
+    view_->look_from(side);
+    view_->scene()->screen_axes(&right, &up);
+    const Eigen::Vector3d toward_reader = right.cross(up);
+    EXPECT_NEAR(toward_reader.dot(view_direction(side)), 1.0, 1e-9);
+  }
+  view_->look_from(ViewSide::kLabial);
+  // The marker is drawn in the lower left of the exported frame (white labels on a dark disc).
+  const QImage bare = view_->vtk_view()->grabFramebuffer();
+  const QImage marked = view_->grab_image();
+  const QRect corner(0, bare.height() - 150, 170, 150);
+  auto light = [](const QColor& c) { return c.lightness() > 200; };
+  EXPECT_GT(count_pixels(marked.copy(corner), light), count_pixels(bare.copy(corner), light) + 30);
+  testing::keep_image(marked, "test_result_view_marker");
+}
+
 TEST_F(ResultViewTest, DoublingTheForceDoublesTheDisplayedPeak) {
   show(evaluate(100));
   const ValueRange single = view_->colour_bar()->range();

@@ -52,6 +52,41 @@ QString label(SectionPlane plane) {
   return {};
 }
 
+std::vector<ViewSide> all_view_sides() {
+  return {ViewSide::kLabial, ViewSide::kLingual, ViewSide::kMesial, ViewSide::kDistal, ViewSide::kOcclusal};
+}
+
+QString label(ViewSide side) {
+  switch (side) {
+    case ViewSide::kLabial: return QStringLiteral("labial");
+    case ViewSide::kLingual: return QStringLiteral("lingual");
+    case ViewSide::kMesial: return QStringLiteral("mesial");
+    case ViewSide::kDistal: return QStringLiteral("distal");
+    case ViewSide::kOcclusal: return QStringLiteral("occlusal");
+  }
+  return {};
+}
+
+Eigen::Vector3d view_direction(ViewSide side) {
+  switch (side) {
+    case ViewSide::kLabial: return Eigen::Vector3d::UnitX();
+    case ViewSide::kLingual: return -Eigen::Vector3d::UnitX();
+    case ViewSide::kMesial: return Eigen::Vector3d::UnitY();
+    case ViewSide::kDistal: return -Eigen::Vector3d::UnitY();
+    case ViewSide::kOcclusal: return Eigen::Vector3d::UnitZ();
+  }
+  return Eigen::Vector3d::UnitX();
+}
+
+ViewSide loaded_side(const Eigen::Vector3d& force_n) {
+  const double n = force_n.norm();
+  if (!(n > 0)) return ViewSide::kLabial;
+  const Eigen::Vector3d f = force_n / n;
+  if (std::abs(f.z()) > std::max(std::abs(f.x()), std::abs(f.y()))) return ViewSide::kOcclusal;
+  if (std::abs(f.x()) >= std::abs(f.y())) return f.x() > 0 ? ViewSide::kLabial : ViewSide::kLingual;
+  return f.y() > 0 ? ViewSide::kMesial : ViewSide::kDistal;
+}
+
 namespace {
 
 // Colours of the scene (the app's own choice).
@@ -698,6 +733,44 @@ void ModelScene::reset_camera() {
   const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
   camera->SetPosition(view.x() * distance, view.y() * distance, mid_z + view.z() * distance);
   d.scene->ResetCameraClippingRange();
+}
+
+void ModelScene::look_from(ViewSide side, bool oblique) {
+  Impl& d = *impl_;
+  vtkCamera* camera = d.scene->GetActiveCamera();
+  const double mid_z = 0.5 * (d.geometry.crown_tip.z() + d.geometry.apex.z());
+  const double height = d.geometry.crown_tip.z() - d.geometry.apex.z();
+  const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
+  Eigen::Vector3d v = view_direction(side);
+  if (oblique && side != ViewSide::kOcclusal) {
+    // Turned a little aside (toward mesial; from a proximal side toward the other face), for depth.
+    const Eigen::Vector3d aside =
+        side == ViewSide::kMesial   ? Eigen::Vector3d(-Eigen::Vector3d::UnitX())
+        : side == ViewSide::kDistal ? Eigen::Vector3d(Eigen::Vector3d::UnitX())
+                                    : Eigen::Vector3d(Eigen::Vector3d::UnitY());
+    v = (v + 0.45 * aside + 0.3 * Eigen::Vector3d::UnitZ()).normalized();
+  }
+  camera->SetFocalPoint(0, 0, mid_z);
+  camera->SetPosition(v.x() * distance, v.y() * distance, mid_z + v.z() * distance);
+  if (side == ViewSide::kOcclusal) {
+    camera->SetViewUp(1, 0, 0);
+  } else {
+    camera->SetViewUp(0, 0, 1);
+  }
+  camera->SetViewAngle(30);
+  d.scene->ResetCameraClippingRange();
+}
+
+void ModelScene::screen_axes(Eigen::Vector3d* right, Eigen::Vector3d* up) const {
+  vtkCamera* camera = impl_->scene->GetActiveCamera();
+  double d[3], u[3];
+  camera->GetDirectionOfProjection(d);
+  camera->GetViewUp(u);
+  const Eigen::Vector3d dir(d[0], d[1], d[2]);
+  Eigen::Vector3d view_up(u[0], u[1], u[2]);
+  view_up = (view_up - view_up.dot(dir) * dir).normalized();
+  *right = dir.cross(view_up).normalized();
+  *up = view_up;
 }
 
 int ModelScene::n_coloured_points() const {

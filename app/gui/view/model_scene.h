@@ -31,6 +31,18 @@ enum class SectionPlane {
 QString label(BoneStyle style);
 QString label(SectionPlane plane);
 
+// Preset views: the side of the tooth the camera looks at.
+enum class ViewSide { kLabial, kLingual, kMesial, kDistal, kOcclusal };
+std::vector<ViewSide> all_view_sides();
+QString label(ViewSide side);  // "labial", ...
+// Unit vector from the tooth toward the camera for `side` (tooth coordinates: x labial, y mesial,
+// z crown).
+Eigen::Vector3d view_direction(ViewSide side);
+// The side a force system loads most: the side the force points to, so that the compressed
+// ligament at the crest faces the reader (lingual for a lingual force); occlusal for an intrusive
+// or extrusive force along the long axis.
+ViewSide loaded_side(const Eigen::Vector3d& force_n);
+
 // Where the last load change spent its time in the scene (CPU side, before the render), ms.
 struct SceneTimings {
   double scalars_ms = 0;    // colour field written into the PDL (and the section on display)
@@ -82,6 +94,12 @@ class ModelScene {
 
   // Frames the model, looking from labial and a little mesial and occlusal (or at the cut face).
   void reset_camera();
+  // Frames the model as seen from `side` (straight on, crown up; occlusal: labial up). `oblique`:
+  // turned a little aside (toward mesial; from a proximal side, toward lingual or labial) and
+  // toward occlusal, for depth.
+  void look_from(ViewSide side, bool oblique = false);
+  // Camera basis in tooth coordinates: screen right and screen up (unit vectors).
+  void screen_axes(Eigen::Vector3d* right, Eigen::Vector3d* up) const;
 
   // For tests and benchmarks.
   int n_coloured_points() const;

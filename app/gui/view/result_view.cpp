@@ -4,9 +4,12 @@
 #include <QComboBox>
 #include <QHBoxLayout>
 #include <QLabel>
+#include <QFontMetricsF>
 #include <QPainter>
 #include <QToolButton>
 #include <QVBoxLayout>
+#include <algorithm>
+#include <cmath>
 
 #include "core/units.h"
 #include "view/colour_bar.h"
@@ -91,8 +94,14 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
                                          "centre of rotation (CRot)"));
   auto* reset = new QToolButton;
   reset->setText(QStringLiteral("Reset view"));
+  view_box_ = new QComboBox;
+  view_box_->addItem(QStringLiteral("view from\u2026"), -1);
+  for (ViewSide side : all_view_sides()) view_box_->addItem(label(side), static_cast<int>(side));
+  view_box_->setToolTip(QStringLiteral("Look at the tooth from one side"));
+
   opt->addWidget(glyphs_box_);
   opt->addStretch(1);
+  opt->addWidget(view_box_);
   opt->addWidget(reset);
   outer->addWidget(options_);
 
@@ -113,6 +122,13 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     view_->update();
   });
   connect(reset, &QToolButton::clicked, this, &ResultView::reset_camera);
+
+  connect(view_box_, &QComboBox::activated, this, [this]() {
+    const int side = view_box_->currentData().toInt();
+    if (side >= 0) look_from(static_cast<ViewSide>(side));
+    view_box_->setCurrentIndex(0);
+  });
+  view_->set_decoration([this](QPainter& painter, const QSize& size) { draw_marker(painter, size); });
   // Fewer triangles while the mouse turns the view; full detail for the still frame.
   connect(view_, &VtkView::interaction_started, this, [this]() {
     set_interacting(true);
@@ -195,7 +211,8 @@ void ResultView::show_result(const analysis::ScenarioSolution& solution,
     band_ = analysis::pdl_crest_edge_band(solution);
     scene_->set_band(band_);
     if (!camera_set_) {
-      scene_->reset_camera();
+      // Start on the side the force loads (the compressed crest faces the reader).
+      scene_->look_from(loaded_side(result.load.force_n), true);
       camera_set_ = true;
     }
   }
@@ -223,8 +240,66 @@ void ResultView::refresh() {
   view_->update();
 }
 
+void ResultView::look_from(ViewSide side) {
+  scene_->look_from(side);
+  view_->update();
+}
+
+void ResultView::draw_marker(QPainter& painter, const QSize& size) const {
+  if (!solution_) return;
+  // A small compass in the lower left: the tooth's directions as seen now.
+  Eigen::Vector3d right, up;
+  scene_->screen_axes(&right, &up);
+  const double radius = std::clamp(std::min(size.width(), size.height()) * 0.09, 34.0, 60.0);
+  // Room for a label on either side of the disc.
+  const QPointF centre(radius + 56, size.height() - radius - 24);
+  painter.save();
+  painter.setRenderHint(QPainter::Antialiasing, true);
+  const Rgb box = label_box_colour();
+  QColor disc = to_qcolor(box);
+  disc.setAlphaF(static_cast<float>(label_box_opacity()));
+  painter.setPen(Qt::NoPen);
+  painter.setBrush(disc);
+  painter.drawEllipse(centre, radius + 16, radius + 16);
+  QFont font = painter.font();
+  font.setPointSizeF(std::max(7.0, font.pointSizeF() * 0.85));
+  painter.setFont(font);
+  const QFontMetricsF fm(font);
+  struct Arm {
+    Eigen::Vector3d axis;
+    const char* name;
+    bool main;  // drawn as a full arm; the others only as a label at the tip
+  };
+  const Arm arms[] = {{Eigen::Vector3d::UnitX(), "labial", true},   {-Eigen::Vector3d::UnitX(), "lingual", false},
+                      {Eigen::Vector3d::UnitY(), "mesial", true},   {-Eigen::Vector3d::UnitY(), "distal", false},
+                      {Eigen::Vector3d::UnitZ(), "crown", true}};
+  const QColor ink = to_qcolor(cres_label_colour());
+  for (const Arm& a : arms) {
+    const QPointF tip = centre + QPointF(a.axis.dot(right), -a.axis.dot(up)) * radius;
+    if (a.main) {
+      painter.setPen(QPen(ink, 2));
+      painter.drawLine(centre, tip);
+    }
+    const QString text = QString::fromLatin1(a.name);
+    const QSizeF t = fm.size(Qt::TextSingleLine, text);
+    const QPointF away = tip - centre;
+    const double len = std::hypot(away.x(), away.y());
+    // A direction pointing at or away from the reader has no room on screen: no label.
+    if (len < 0.3 * radius) continue;
+    const QPointF at = len > 1 ? tip + away / len * (0.5 * t.width() * std::abs(away.x() / len) + 4) : tip;
+    painter.setPen(a.main ? ink : ink.darker(130));
+    painter.drawText(QRectF(at.x() - t.width() / 2, at.y() - t.height() / 2, t.width(), t.height()), Qt::AlignCenter,
+                     text);
+  }
+  painter.restore();
+}
+
 QImage ResultView::grab_image() {
-  const QImage scene = view_->grabFramebuffer();
+  QImage scene = view_->grabFramebuffer();
+  if (!scene.isNull()) {
+    QPainter painter(&scene);
+    draw_marker(painter, scene.size());
+  }
   if (!bar_->isVisible()) return scene;
   return bar_->beside(scene, palette().window().color());
 }

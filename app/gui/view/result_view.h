@@ -19,6 +19,7 @@
 class QCheckBox;
 class QComboBox;
 class QHBoxLayout;
+class QPainter;
 
 namespace sharpey::app {
 
@@ -68,6 +69,11 @@ class ResultView : public QWidget {
   void set_bone_style(BoneStyle style);
   void set_section(SectionPlane plane);
   void reset_camera();
+  // Preset view: the tooth seen from one side (also the "view from" box of the options row).
+  void look_from(ViewSide side);
+  // The orientation marker (labial / lingual / mesial / distal / crown as seen now) drawn into a
+  // frame of `size` pixels; also drawn over the view and into grab_image().
+  void draw_marker(QPainter& painter, const QSize& size) const;
   // Quick drawing while the view turns or a load slider moves: no see-through bone, half the
   // resolution (ModelScene::set_interacting, VtkView::set_quick). Off: full frame.
   void set_interacting(bool on);
@@ -106,6 +112,8 @@ class ResultView : public QWidget {
   QComboBox* bone_box_ = nullptr;
   QComboBox* section_box_ = nullptr;
   QCheckBox* glyphs_box_ = nullptr;
+  QComboBox* view_box_ = nullptr;
+
   std::unique_ptr<ModelScene> scene_;
   Quantity quantity_ = Quantity::kPressure;
   const analysis::ScenarioSolution* solution_ = nullptr;
