@@ -277,6 +277,35 @@ TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {
   QApplication::processEvents();
 }
 
+// Issue 12, point 7: in the comparison, a scale per level (the healthy level keeps its own range)
+// or one anchored to the limit.
+TEST_F(MainWindowTest, TheComparisonOffersPerLevelAndLimitAnchoredScales) {
+  g_window->show_view(ViewKind::kComparison);
+  QApplication::processEvents();
+  ComparisonView* comparison = g_window->comparison();
+  ASSERT_GE(comparison->n_views(), 2);
+  const auto& results = g_window->session().results();
+  comparison->set_scale_mode(ScaleMode::kPerLevel);
+  QApplication::processEvents();
+  for (int i = 0; i < comparison->n_views(); ++i) {
+    SCOPED_TRACE(i);
+    EXPECT_TRUE(comparison->view(i)->colour_bar()->isVisible());
+    const std::string name = results[static_cast<size_t>(i)].name;
+    EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max,
+                     results[static_cast<size_t>(i)].pressure_max_compression_kpa) << name;
+  }
+  EXPECT_FALSE(comparison->shared_bar()->isVisible());
+  comparison->set_scale_mode(ScaleMode::kThresholds);
+  QApplication::processEvents();
+  const double limit = g_window->session().spec().thresholds.limit.value_kpa;
+  EXPECT_TRUE(comparison->shared_bar()->isVisible());
+  EXPECT_DOUBLE_EQ(comparison->shared_bar()->range().max, limit);
+  for (int i = 0; i < comparison->n_views(); ++i) EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max, limit);
+  comparison->set_scale_mode(ScaleMode::kShown);
+  g_window->show_view(ViewKind::k3D);
+  QApplication::processEvents();
+}
+
 TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
   CaseSession& session = g_window->session();
   const LoadControls start = session.load_controls();

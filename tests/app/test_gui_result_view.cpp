@@ -141,6 +141,47 @@ TEST_F(ResultViewTest, PresetViewsAndTheOrientationMarker) {
   testing::keep_image(marked, "test_result_view_marker");
 }
 
+// Issue 12, point 7: a fixed scale and one anchored to the limit, so 50 g looks paler than 100 g.
+TEST_F(ResultViewTest, FixedAndLimitAnchoredScalesShowAWeakerForcePaler) {
+  const analysis::ScenarioResult r100 = evaluate(100), r50 = evaluate(50);
+  const double limit = study_->spec().thresholds.limit.value_kpa;
+  // Compression colour on screen: the compression side of the map darkens with pressure (its
+  // lightness falls away from zero, tested in test_core_colour_and_iso), so sum the darkness of
+  // the clearly red pixels (red well above blue: not the ivory tooth, the bone or the background).
+  auto redness = [&]() {
+    const QImage image = view_->vtk_view()->grabFramebuffer();
+    double sum = 0;
+    for (int y = 0; y < image.height(); ++y)
+      for (int x = 0; x < image.width(); ++x) {
+        const QColor c = image.pixelColor(x, y);
+        if (c.red() > c.blue() + 50) sum += 255 - c.lightness();
+      }
+    return sum;
+  };
+  show(r100);
+  view_->set_scale_mode(ScaleMode::kThresholds);
+  EXPECT_DOUBLE_EQ(view_->colour_bar()->range().min, -limit);
+  EXPECT_DOUBLE_EQ(view_->colour_bar()->range().max, limit);
+  const double red_100 = redness();
+  show(r50);
+  EXPECT_DOUBLE_EQ(view_->colour_bar()->range().max, limit);
+  const double red_50 = redness();
+  // Half the force, half the pressure (derived: linearity): visibly paler, by a margin well above
+  // rendering noise.
+  EXPECT_GT(red_100, 1.3 * red_50);
+  // Fixed: the range on screen when chosen stays when the force changes.
+  show(r100);
+  view_->set_scale_mode(ScaleMode::kShown);
+  const ValueRange at_100 = view_->colour_bar()->range();
+  view_->set_scale_mode(ScaleMode::kFixed);
+  show(r50);
+  EXPECT_DOUBLE_EQ(view_->colour_bar()->range().max, at_100.max);
+  EXPECT_DOUBLE_EQ(view_->colour_bar()->range().min, at_100.min);
+  // The range shown follows the force again.
+  view_->set_scale_mode(ScaleMode::kShown);
+  EXPECT_NEAR(view_->colour_bar()->range().max, r50.pressure_max_compression_kpa, 1e-12 * limit);
+}
+
 TEST_F(ResultViewTest, DoublingTheForceDoublesTheDisplayedPeak) {
   show(evaluate(100));
   const ValueRange single = view_->colour_bar()->range();

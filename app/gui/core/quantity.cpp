@@ -89,4 +89,27 @@ ValueRange merge(const ValueRange& a, const ValueRange& b) {
   return {std::min(a.min, b.min), std::max(a.max, b.max)};
 }
 
+QString label(ScaleMode mode) {
+  switch (mode) {
+    case ScaleMode::kShown: return QStringLiteral("scale: range shown");
+    case ScaleMode::kFixed: return QStringLiteral("scale: fixed at the current range");
+    case ScaleMode::kThresholds: return QStringLiteral("scale: anchored to the limit");
+    case ScaleMode::kPerLevel: return QStringLiteral("scale: each level its own");
+  }
+  return {};
+}
+
+ValueRange scale_range(ScaleMode mode, Quantity q, const ValueRange& shown, const ValueRange& fixed,
+                       double limit_kpa) {
+  switch (mode) {
+    case ScaleMode::kFixed: return fixed;
+    case ScaleMode::kThresholds:
+      if (q == Quantity::kPressure && limit_kpa > 0) return {-limit_kpa, limit_kpa};
+      return shown;
+    case ScaleMode::kShown:
+    case ScaleMode::kPerLevel: break;
+  }
+  return shown;
+}
+
 }  // namespace sharpey::app

@@ -45,4 +45,19 @@ ValueRange finite_range(const std::vector<double>& values);
 ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band);
 ValueRange merge(const ValueRange& a, const ValueRange& b);
 
+// How the colour scale's range is chosen.
+enum class ScaleMode {
+  kShown,       // the range shown (above): follows the force
+  kFixed,       // a range kept from the moment it was chosen: 50 g looks paler than 100 g
+  kThresholds,  // pressure: -limit to +limit, so colours mean the same pressure in every view and
+                // every bone level (full compression colour at the physiological limit); other
+                // quantities have no threshold and keep the range shown
+  kPerLevel,    // comparison only: every bone level on its own range shown
+};
+QString label(ScaleMode mode);
+// The range the colours are spread over for `mode`: `shown` for kShown and kPerLevel, `fixed` for
+// kFixed, [-limit_kpa, limit_kpa] for pressure under kThresholds.
+ValueRange scale_range(ScaleMode mode, Quantity q, const ValueRange& shown, const ValueRange& fixed,
+                       double limit_kpa);
+
 }  // namespace sharpey::app

@@ -98,8 +98,13 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   view_box_->addItem(QStringLiteral("view from\u2026"), -1);
   for (ViewSide side : all_view_sides()) view_box_->addItem(label(side), static_cast<int>(side));
   view_box_->setToolTip(QStringLiteral("Look at the tooth from one side"));
-
+  scale_box_ = new QComboBox;
+  for (ScaleMode m : {ScaleMode::kShown, ScaleMode::kFixed, ScaleMode::kThresholds})
+    scale_box_->addItem(label(m), static_cast<int>(m));
+  scale_box_->setToolTip(QStringLiteral("Range of the colours: the range shown follows the force; a fixed range "
+                                        "or one anchored to the physiological limit lets weaker forces look paler"));
   opt->addWidget(glyphs_box_);
+  opt->addWidget(scale_box_);
   opt->addStretch(1);
   opt->addWidget(view_box_);
   opt->addWidget(reset);
@@ -122,7 +127,8 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     view_->update();
   });
   connect(reset, &QToolButton::clicked, this, &ResultView::reset_camera);
-
+  connect(scale_box_, &QComboBox::currentIndexChanged, this,
+          [this]() { set_scale_mode(static_cast<ScaleMode>(scale_box_->currentData().toInt())); });
   connect(view_box_, &QComboBox::activated, this, [this]() {
     const int side = view_box_->currentData().toInt();
     if (side >= 0) look_from(static_cast<ViewSide>(side));
@@ -173,10 +179,20 @@ void ResultView::set_bar_visible(bool visible) { bar_->setVisible(visible); }
 void ResultView::set_quantity(Quantity q) {
   if (q == quantity_) return;
   quantity_ = q;
+  refreeze_ = scale_mode_ == ScaleMode::kFixed;  // a fixed range belongs to one quantity
   const int index = quantity_box_->findData(static_cast<int>(q));
   if (quantity_box_->currentIndex() != index) quantity_box_->setCurrentIndex(index);
   refresh();
   emit quantity_changed(q);
+}
+
+void ResultView::set_scale_mode(ScaleMode mode) {
+  // Fixed: the colours keep the range on screen now.
+  if (mode == ScaleMode::kFixed) frozen_ = scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
+  scale_mode_ = mode;
+  const int index = scale_box_->findData(static_cast<int>(mode));
+  if (index >= 0 && scale_box_->currentIndex() != index) scale_box_->setCurrentIndex(index);
+  refresh();
 }
 
 void ResultView::set_bone_style(BoneStyle style) {
@@ -228,8 +244,12 @@ void ResultView::refresh() {
   const std::vector<double> values = quantity_values(result_, quantity_, solution_->pdl_nodes());
   range_ = finite_range(values, band_, false);
   band_range_ = finite_range(values, band_, true);
-  const ColourScale scale(quantity_, fixed_range_ ? *fixed_range_ : range_);
-
+  if (refreeze_) {
+    frozen_ = range_;
+    refreeze_ = false;
+  }
+  const ValueRange own = scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
+  const ColourScale scale(quantity_, fixed_range_ ? *fixed_range_ : own);
   scene_->set_field(values, scale);
   const bool lines = has_threshold_lines(quantity_);
   scene_->set_iso_levels(thresholds_.capillary.value_kpa, thresholds_.limit.value_kpa, lines);

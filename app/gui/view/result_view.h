@@ -67,6 +67,9 @@ class ResultView : public QWidget {
   Quantity quantity() const { return quantity_; }
   void set_quantity(Quantity q);
   void set_bone_style(BoneStyle style);
+  // How the colour range is chosen (core/quantity.h; kPerLevel is the comparison's).
+  void set_scale_mode(ScaleMode mode);
+  ScaleMode scale_mode() const { return scale_mode_; }
   void set_section(SectionPlane plane);
   void reset_camera();
   // Preset view: the tooth seen from one side (also the "view from" box of the options row).
@@ -113,7 +116,10 @@ class ResultView : public QWidget {
   QComboBox* section_box_ = nullptr;
   QCheckBox* glyphs_box_ = nullptr;
   QComboBox* view_box_ = nullptr;
-
+  QComboBox* scale_box_ = nullptr;
+  ScaleMode scale_mode_ = ScaleMode::kShown;
+  ValueRange frozen_;       // the kept range of ScaleMode::kFixed
+  bool refreeze_ = false;   // the quantity changed under kFixed: keep the new quantity's range
   std::unique_ptr<ModelScene> scene_;
   Quantity quantity_ = Quantity::kPressure;
   const analysis::ScenarioSolution* solution_ = nullptr;
