@@ -405,6 +405,28 @@ TEST_F(MainWindowTest, ImagesAndDataExports) {
   EXPECT_TRUE(csv.readLine().startsWith("#"));  // the caution line first
 }
 
+// Issue 12, point 9: an exported PNG carries a caption (drawn under the view and stored as its
+// Description text): case label, bone level, force system, quantity and the caution.
+TEST_F(MainWindowTest, ExportedImagesCarryACaption) {
+  const QString png = g_dir->filePath(QStringLiteral("captioned.png"));
+  ASSERT_TRUE(g_window->export_image(png, ViewKind::k3D));
+  const QImage image(png);
+  const QImage bare = g_window->view_image(ViewKind::k3D);
+  EXPECT_EQ(image.width(), bare.width());
+  EXPECT_GT(image.height(), bare.height() + 40) << "room for the caption";
+  const QString caption = image.text(QStringLiteral("Description"));
+  const CaseSession& session = g_window->session();
+  EXPECT_TRUE(caption.contains(QString::fromStdString(session.spec().label))) << caption.toStdString();
+  EXPECT_TRUE(caption.contains(QStringLiteral("bone level: ") + QString::fromStdString(session.current_result()->name)));
+  EXPECT_TRUE(caption.contains(describe(session.load_controls())));
+  EXPECT_TRUE(caption.contains(QStringLiteral("hydrostatic pressure (kPa)")));
+  EXPECT_TRUE(caption.contains(QString::fromStdString(analysis::caution_text())));
+  testing::keep_image(image, "test_captioned_png");
+  // The caption strip is drawn: dark text pixels below the view.
+  const QImage strip = image.copy(0, bare.height(), image.width(), image.height() - bare.height());
+  EXPECT_GT(count_pixels(strip, [](const QColor& c) { return c.lightness() < 90; }), 200);
+}
+
 TEST_F(MainWindowTest, UnsavedChangesArePromptedAndAutosaved) {
   const int prompts = g_window->prompts_shown();
   LoadControls c = g_window->session().load_controls();

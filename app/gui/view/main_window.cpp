@@ -13,6 +13,7 @@
 #include <QLabel>
 #include <QMenu>
 #include <QMenuBar>
+#include <QPainter>
 #include <QProgressBar>
 #include <QScrollArea>
 #include <QSettings>
@@ -700,8 +701,46 @@ QImage MainWindow::view_image(ViewKind which) {
   return {};
 }
 
+QString MainWindow::image_caption(ViewKind which) const {
+  const analysis::ScenarioResult* r = session_->current_result();
+  QString level;
+  if (which == ViewKind::kComparison) {
+    QStringList names;
+    for (const auto& result : session_->results()) names << QString::fromStdString(result.name);
+    level = QStringLiteral("bone levels compared: ") + names.join(QStringLiteral(", "));
+  } else {
+    level = QStringLiteral("bone level: ") + (r ? QString::fromStdString(r->name) : QStringLiteral("none solved"));
+  }
+  const Quantity q = which == ViewKind::kRootMap      ? Quantity::kPressure
+                     : which == ViewKind::kComparison ? comparison_->quantity()
+                                                      : result_view_->quantity();
+  return QStringLiteral("%1\n%2; force system: %3; colours: %4 (%5).\n%6")
+      .arg(QString::fromStdString(session_->spec().label), level, describe(session_->load_controls()), label(q),
+           unit_label(q), QString::fromStdString(analysis::caution_text()));
+}
+
+QImage MainWindow::captioned(const QImage& picture, const QString& caption) const {
+  // The caption under the picture, wrapped to its width, on the window's background.
+  QFont font = this->font();
+  const QFontMetrics fm(font);
+  const int margin = 8;
+  const QRect room(margin, 0, std::max(200, picture.width() - 2 * margin), 100000);
+  const QRect needed = fm.boundingRect(room, Qt::TextWordWrap, caption);
+  QImage out(picture.width(), picture.height() + needed.height() + 2 * margin, QImage::Format_RGB32);
+  out.fill(palette().window().color());
+  QPainter p(&out);
+  p.drawImage(0, 0, picture);
+  p.setFont(font);
+  p.setPen(palette().windowText().color());
+  p.drawText(QRect(margin, picture.height() + margin, room.width(), needed.height()), Qt::TextWordWrap, caption);
+  p.end();
+  out.setText(QStringLiteral("Description"), caption);
+  return out;
+}
+
 bool MainWindow::export_image(const QString& path, ViewKind which) {
-  const QImage image = view_image(which);
+  const QImage view = view_image(which);
+  const QImage image = view.isNull() ? view : captioned(view, image_caption(which));
   if (image.isNull() || !image.save(path, "PNG")) {
     show_error(QStringLiteral("Could not export the image"),
                QStringLiteral("Writing %1 failed (no permission, or the folder does not exist).").arg(path));

@@ -81,7 +81,10 @@ class MainWindow : public QMainWindow {
 
   // ---- exports ----
   QImage view_image(ViewKind which);
+  // The PNG carries a caption under the view (and as its "Description" text): the case label, the
+  // bone level, the force system, the quantity and the caution.
   bool export_image(const QString& path, ViewKind which);
+  QString image_caption(ViewKind which) const;
   bool export_report(const QString& path);
   bool export_data(const QString& folder);
 
@@ -118,6 +121,7 @@ class MainWindow : public QMainWindow {
 
  private:
   void build_menus();
+  QImage captioned(const QImage& picture, const QString& caption) const;
   void build_layout();
   void connect_session();
   void refresh_results(bool interactive);

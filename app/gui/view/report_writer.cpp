@@ -94,16 +94,33 @@ struct Page {
   }
 };
 
+// The footer's font and height: the caution (wrapped to the page width) above the page number line.
+QFont footer_font(const QFont& body) {
+  QFont f = body;
+  f.setPointSizeF(body.pointSizeF() * 0.8);
+  return f;
+}
+
+int footer_height(QPainter& p, const QRect& page) {
+  const QFont saved = p.font();
+  p.setFont(footer_font(saved));
+  const int h = p.fontMetrics().height();
+  const QRect caution = p.boundingRect(QRect(page.left(), 0, page.width(), 100000), Qt::TextWordWrap | Qt::AlignLeft,
+                                       QString::fromStdString(analysis::caution_text()));
+  p.setFont(saved);
+  return caution.height() + 2 * h;  // a third of a line above, the caution, the page number line
+}
+
 void footer(QPainter& p, const QRect& page, int number, const QString& case_file) {
   const QFont saved = p.font();
-  QFont f = saved;
-  f.setPointSizeF(saved.pointSizeF() * 0.8);
-  p.setFont(f);
+  const int total = footer_height(p, page);
+  p.setFont(footer_font(saved));
   const int h = p.fontMetrics().height();
-  const QRect box(page.left(), page.bottom() - 3 * h, page.width(), 3 * h);
+  const QRect box(page.left(), page.bottom() - total, page.width(), total);
   p.setPen(QColor(90, 90, 90));
   p.drawLine(box.topLeft(), box.topRight());
-  p.drawText(box.adjusted(0, h / 3, 0, 0), Qt::TextWordWrap | Qt::AlignLeft,
+  // The caution whole, then the page number on its own line under it.
+  p.drawText(QRect(page.left(), box.top() + h / 3, page.width(), total - h - h / 3), Qt::TextWordWrap | Qt::AlignLeft,
              QString::fromStdString(analysis::caution_text()));
   p.drawText(QRect(page.left(), page.bottom() - h, page.width(), h), Qt::AlignRight,
              QStringLiteral("Sharpey report, %1, page %2 of %3").arg(case_file).arg(number).arg(kReportPages));
@@ -158,7 +175,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   painter.setFont(font);
   const QRect page = painter.viewport();
   const int line = painter.fontMetrics().height();
-  const QRect body(page.left(), page.top(), page.width(), page.height() - 4 * line);
+  // The body ends half a line above the footer, whatever the caution's length.
+  const QRect body(page.left(), page.top(), page.width(), page.height() - footer_height(painter, page) - line / 2);
   int pages = 0;
 
   // ---- page 1: case, force system, thresholds, verdict, key numbers ----
@@ -265,6 +283,10 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
       pg.y += line;
     }
     pg.y += line;
+    // A reading for every bone level, not only the one on display.
+    pg.heading(QStringLiteral("Reading per bone level"));
+    for (const analysis::ScenarioResult& level : results)
+      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") + judge(level, spec.thresholds).detail);
     TrendPlot plot;
     plot.set_table(table);
     const int plot_height = body.bottom() - pg.y;
