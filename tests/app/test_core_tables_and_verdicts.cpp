@@ -5,7 +5,7 @@
 
 #include "core/quantity.h"
 #include "core/scenario_table.h"
-
+#include "core/help_text.h"
 #include "core/verdict.h"
 #include "sharpey/analysis/report_output.h"
 
@@ -122,6 +122,22 @@ TEST(Verdicts, TheAppAndTheBatchSummaryReadTheSameVerdict) {
   EXPECT_EQ(above.detail.toStdString(),
             "Peak compression 18.2 kPa, above the 16.0 kPa physiological limit over 3.0 mm\u00b2 (2 % of the "
             "attachment).");
+}
+
+// Issue 12, point 10: the help page explains every quantity named in the issue, with the case's
+// thresholds, their sources and the caution.
+TEST(Help, ThePageExplainsEveryQuantity) {
+  analysis::Thresholds t = thresholds();
+  t.capillary.source = "capillary source & co";
+  const QString html = help_html(t);
+  for (const char* term : {"hydrostatic pressure", "principal strain", "von Mises stress", "equivalent force",
+                           "area rule", "95th percentile", "CRes", "CRot", "M/F"}) {
+    EXPECT_TRUE(help_terms().contains(QString::fromLatin1(term))) << term;
+    EXPECT_TRUE(html.contains(QStringLiteral("<b>%1</b>").arg(QString::fromLatin1(term)))) << term;
+  }
+  EXPECT_TRUE(html.contains(QStringLiteral("capillary source &amp; co")));
+  EXPECT_TRUE(html.contains(QStringLiteral("16.0 kPa")));
+  EXPECT_TRUE(html.contains(QString::fromStdString(analysis::caution_text()).toHtmlEscaped()));
 }
 
 TEST(Quantity, ValuesFollowThePdlNodeOrderInDisplayUnits) {

@@ -5,6 +5,7 @@
 #include <QCloseEvent>
 #include <QComboBox>
 #include <QCoreApplication>
+#include <QDialog>
 #include <QDir>
 #include <QFileDialog>
 #include <QFileInfo>
@@ -21,6 +22,7 @@
 #include <QStandardPaths>
 #include <QStatusBar>
 #include <QTabWidget>
+#include <QTextBrowser>
 #include <QTimer>
 #include <QToolBar>
 #include <QToolBox>
@@ -30,6 +32,7 @@
 #include "core/autosave_store.h"
 #include "core/case_session.h"
 #include "core/document_state.h"
+#include "core/help_text.h"
 #include "core/solve_job.h"
 #include "core/units.h"
 #include "sharpey/analysis/report_output.h"
@@ -328,6 +331,17 @@ void MainWindow::build_menus() {
       ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
 
   QMenu* help = menuBar()->addMenu(QStringLiteral("&Help"));
+  help->addAction(QStringLiteral("&What the numbers mean"), this, [this]() {
+    auto* dialog = new QDialog(this);
+    dialog->setAttribute(Qt::WA_DeleteOnClose);
+    dialog->setWindowTitle(QStringLiteral("What the numbers mean"));
+    auto* layout = new QVBoxLayout(dialog);
+    auto* text = new QTextBrowser;
+    text->setHtml(help_html(session_->spec().thresholds));
+    layout->addWidget(text);
+    dialog->resize(640, 720);
+    dialog->show();
+  });
   help->addAction(QStringLiteral("&Reading the results"), this, [this]() {
     QMessageBox::information(
         this, QStringLiteral("Reading the results"),
