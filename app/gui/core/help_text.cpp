@@ -13,9 +13,12 @@ struct Entry {
 // Our own wording; each paragraph says what the number is, where it is taken and how to read it.
 const Entry kEntries[] = {
     {"hydrostatic pressure",
-     "The average squeeze on a small piece of ligament from all sides, in kilopascals (kPa). The app "
-     "counts squeezing (compression) as positive and pulling apart (tension) as negative. Compression "
-     "in the ligament can narrow its blood vessels, which is why it is compared with the thresholds "
+     "The average squeeze on a small piece of ligament from all sides, in kilopascals (kPa). The "
+     "app "
+     "counts squeezing (compression) as positive and pulling apart (tension) as negative. "
+     "Compression "
+     "in the ligament can narrow its blood vessels, which is why it is compared with the "
+     "thresholds "
      "below."},
     {"principal strain",
      "How much a small piece of ligament is stretched along the direction in which it stretches "
@@ -39,18 +42,21 @@ const Entry kEntries[] = {
      "it does not depend on a single point of the model, so it changes little when the mesh is "
      "refined."},
     {"CRes",
-     "Centre of resistance: the point on the long axis where a force moves the tooth bodily, without "
+     "Centre of resistance: the point on the long axis where a force moves the tooth bodily, "
+     "without "
      "tipping. It is given as a distance below the bone crest and as a share of the root held in "
      "bone; it moves toward the apex as bone is lost."},
     {"CRot",
      "Centre of rotation: the point about which the tooth turns under the force system applied. "
      "Far away means the tooth moves almost bodily; at the CRes would mean pure rotation."},
     {"M/F",
-     "Moment-to-force ratio, in millimetres: the couple applied at the bracket divided by the force. "
+     "Moment-to-force ratio, in millimetres: the couple applied at the bracket divided by the "
+     "force. "
      "The ratio needed for a bodily movement is shown beside the one applied; less gives tipping, "
      "more moves the root ahead of the crown."},
     {"crest edge band",
-     "The strip of ligament just below the bone crest, one ligament width deep. Where the free edge "
+     "The strip of ligament just below the bone crest, one ligament width deep. Where the free "
+     "edge "
      "of the ligament meets root and bone, an elastic model gives values that keep rising as the "
      "mesh gets finer, so the key numbers and the colour bar's ends leave this strip out. The 3D "
      "view marks it with a violet line; its own range is written under the colour bar."},
@@ -66,18 +72,27 @@ QStringList help_terms() {
 QString help_html(const analysis::Thresholds& t) {
   QString html = QStringLiteral("<h2>What the numbers mean</h2>");
   for (const Entry& e : kEntries)
-    html += QStringLiteral("<p><b>%1</b>: %2</p>").arg(QString::fromLatin1(e.term), QString::fromLatin1(e.words));
+    html += QStringLiteral("<p><b>%1</b>: %2</p>")
+                .arg(QString::fromLatin1(e.term), QString::fromLatin1(e.words));
   html += QStringLiteral(
-              "<h3>The two thresholds</h3><p><b>Capillary pressure</b> (%1 kPa in this case): about the "
-              "blood pressure in the smallest vessels of the ligament; compression above it may close them "
-              "locally. Where the figure comes from: %2.</p><p><b>Physiological limit</b> (%3 kPa in this "
-              "case): the compression above which the case takes the ligament to be at risk of damage. Where the "
-              "figure comes from: %4.</p><p>The reading for each bone level names the threshold passed and "
-              "the root area above it, e.g. \"above the 16.0 kPa physiological limit over 4.2 mm\u00b2\".</p>")
+              "<h3>The two thresholds</h3><p><b>Capillary pressure</b> (%1 kPa in this case): "
+              "about the "
+              "blood pressure in the smallest vessels of the ligament; compression above it may "
+              "close them "
+              "locally. Where the figure comes from: %2.</p><p><b>Physiological limit</b> (%3 kPa "
+              "in this "
+              "case): the compression above which the case takes the ligament to be at risk of "
+              "damage. Where the "
+              "figure comes from: %4.</p><p>The reading for each bone level names the threshold "
+              "passed and "
+              "the root area above it, e.g. \"above the 16.0 kPa physiological limit over 4.2 "
+              "mm\u00b2\".</p>")
               .arg(QString::number(t.capillary.value_kpa, 'f', 1),
                    QString::fromStdString(t.capillary.source).toHtmlEscaped(),
-                   QString::number(t.limit.value_kpa, 'f', 1), QString::fromStdString(t.limit.source).toHtmlEscaped());
-  html += QStringLiteral("<p><i>%1</i></p>").arg(QString::fromStdString(analysis::caution_text()).toHtmlEscaped());
+                   QString::number(t.limit.value_kpa, 'f', 1),
+                   QString::fromStdString(t.limit.source).toHtmlEscaped());
+  html += QStringLiteral("<p><i>%1</i></p>")
+              .arg(QString::fromStdString(analysis::caution_text()).toHtmlEscaped());
   return html;
 }
 
