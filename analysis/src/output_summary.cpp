@@ -6,6 +6,7 @@
 #include <sstream>
 
 #include "sharpey/analysis/report_output.h"
+#include "sharpey/analysis/verdict.h"
 
 namespace sharpey::analysis {
 
@@ -82,14 +83,16 @@ std::string reading(const CaseSpec& spec, const ScenarioResult& r, bool is_refer
   auto share = [attachment](double area) {
     return attachment > 0 ? fixed(100.0 * area / attachment, 1) + " % of the attachment" : "";
   };
+  // The rule is the one of every output (verdict.h).
+  const PressureLevel level = pressure_verdict(r, spec.thresholds).level;
   std::ostringstream s;
   s << r.name << ": peak compression " << fixed(peak, 2) << " kPa ";
-  if (peak > limit)
+  if (level == PressureLevel::kAboveLimit)
     s << "is above the physiological limit (" << fixed(limit, 1) << " kPa) over "
       << fixed(r.area_above_limit_mm2, 2) << " mm^2 (" << share(r.area_above_limit_mm2)
       << ") and above capillary pressure over " << fixed(r.area_above_capillary_mm2, 2) << " mm^2 ("
       << share(r.area_above_capillary_mm2) << ").";
-  else if (peak > capillary)
+  else if (level == PressureLevel::kAboveCapillary)
     s << "is above capillary pressure (" << fixed(capillary, 1) << " kPa) over "
       << fixed(r.area_above_capillary_mm2, 2) << " mm^2 (" << share(r.area_above_capillary_mm2)
       << ") and stays below the physiological limit (" << fixed(limit, 1) << " kPa).";

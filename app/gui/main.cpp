@@ -1,7 +1,9 @@
 // sharpey: the desktop application.
-// Usage: sharpey [CASE.json] [--mesh coarse|standard|fine] [--screenshots DIR]
+// Usage: sharpey [CASE.json] [--mesh coarse|standard|fine] [--screenshots DIR]; sharpey --help
+// needs no display.
 #include <QApplication>
 #include <QCommandLineParser>
+#include <QCoreApplication>
 #include <QDir>
 #include <QEventLoop>
 #include <QMouseEvent>
@@ -58,10 +60,52 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   window.export_report(dir.filePath(QStringLiteral("report.pdf")));
 }
 
+// The command line, the same for the display-free first pass and the application.
+struct CommandLine {
+  QCommandLineOption mesh{{QStringLiteral("m"), QStringLiteral("mesh")},
+                          QStringLiteral("Override the case's mesh preset: coarse, standard or fine."),
+                          QStringLiteral("preset")};
+  QCommandLineOption screenshots{QStringLiteral("screenshots"),
+                                 QStringLiteral("Solve, write a PNG of every view and the PDF report to DIR, "
+                                                "then quit."),
+                                 QStringLiteral("DIR")};
+  void configure(QCommandLineParser& parser) const {
+    parser.setApplicationDescription(QStringLiteral(
+        "Sharpey: periodontal-ligament stress and strain under an orthodontic force system.\n"
+        "Model estimates, not prescriptions; clinical judgement and local regulations prevail.\n"
+        "Without a display, use sharpey-batch for the same results as files."));
+    parser.addHelpOption();
+    parser.addPositionalArgument(QStringLiteral("case"), QStringLiteral("Case file (JSON) to open and solve."));
+    parser.addOption(mesh);
+    parser.addOption(screenshots);
+  }
+};
+
+// True when Qt can open a window: a display, or a platform plugin chosen by the user.
+bool display_available() {
+  return !qEnvironmentVariableIsEmpty("DISPLAY") || !qEnvironmentVariableIsEmpty("WAYLAND_DISPLAY") ||
+         !qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM");
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
   sharpey::fem::use_fast_blas_kernels(argv);
+  const CommandLine line;
+  {
+    // --help and argument errors first, with no display needed (QApplication aborts without one).
+    QCoreApplication probe(argc, argv);
+    QCoreApplication::setApplicationName(QStringLiteral("sharpey"));
+    QCommandLineParser parser;
+    line.configure(parser);
+    parser.process(probe);  // prints the help (exit 0) or the error (exit 1)
+    if (!display_available()) {
+      std::fprintf(stderr,
+                   "sharpey: no display found (DISPLAY and WAYLAND_DISPLAY are empty). Start it from a desktop "
+                   "session, or use sharpey-batch to write the results as files.\n");
+      return 3;
+    }
+  }
   sharpey::app::VtkView::set_default_surface_format();
   QApplication app(argc, argv);
   QApplication::setApplicationName(QStringLiteral("sharpey"));
@@ -69,21 +113,10 @@ int main(int argc, char** argv) {
   QApplication::setApplicationDisplayName(QStringLiteral("Sharpey"));
 
   QCommandLineParser parser;
-  parser.setApplicationDescription(QStringLiteral(
-      "Sharpey: periodontal-ligament stress and strain under an orthodontic force system.\n"
-      "Model estimates, not prescriptions; clinical judgement and local regulations prevail."));
-  parser.addHelpOption();
-  parser.addPositionalArgument(QStringLiteral("case"), QStringLiteral("Case file (JSON) to open and solve."));
-  QCommandLineOption mesh({QStringLiteral("m"), QStringLiteral("mesh")},
-                          QStringLiteral("Override the case's mesh preset: coarse, standard or fine."),
-                          QStringLiteral("preset"));
-  QCommandLineOption screenshots(QStringLiteral("screenshots"),
-                                 QStringLiteral("Solve, write a PNG of every view and the PDF report to DIR, "
-                                                "then quit."),
-                                 QStringLiteral("DIR"));
-  parser.addOption(mesh);
-  parser.addOption(screenshots);
+  line.configure(parser);
   parser.process(app);
+  const QCommandLineOption& mesh = line.mesh;
+  const QCommandLineOption& screenshots = line.screenshots;
 
   sharpey::app::MainWindowOptions options;
   if (parser.isSet(mesh)) {

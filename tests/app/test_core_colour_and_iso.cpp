@@ -1,6 +1,7 @@
 // Colour maps, colour scales and threshold iso-lines (no display needed).
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 
 #include "core/colour_map.h"
@@ -61,6 +62,20 @@ TEST(ColourScale, UnsignedQuantitiesSpanTheirRange) {
   // A constant field still gets a usable scale.
   const ColourScale flat(Quantity::kVonMises, {3.0, 3.0});
   EXPECT_GT(flat.colour_range().max, flat.colour_range().min);
+}
+
+TEST(Ranges, TheRangeShownLeavesTheCrestEdgeBandOut) {
+  const std::vector<double> values = {1.0, 46.6, -2.0, 28.4, -9.0, 3.0};
+  const std::vector<char> band = {0, 1, 0, 0, 1};  // the last value has no flag: outside
+  const ValueRange shown = finite_range(values, band, false);
+  EXPECT_DOUBLE_EQ(shown.min, -2.0);
+  EXPECT_DOUBLE_EQ(shown.max, 28.4);
+  const ValueRange in_band = finite_range(values, band, true);
+  EXPECT_DOUBLE_EQ(in_band.min, -9.0);
+  EXPECT_DOUBLE_EQ(in_band.max, 46.6);
+  const ValueRange none = finite_range(values, std::vector<char>(6, 1), false);
+  EXPECT_DOUBLE_EQ(none.min, 0.0);
+  EXPECT_DOUBLE_EQ(none.max, 0.0);
 }
 
 TEST(Ranges, IgnoreMissingValues) {
@@ -154,6 +169,40 @@ TEST(AxisTicks, RoundStepsInsideTheRange) {
   EXPECT_EQ(tick_label(20, 5), "20");
   EXPECT_TRUE(nice_ticks(1, 1).empty());
   EXPECT_TRUE(nice_ticks(0, NAN).empty());
+}
+
+}  // namespace
+}  // namespace sharpey::app
+
+namespace sharpey::app {
+namespace {
+
+// Issue 12, point 12: the views' background is the app's own (warm umber), not a slate blue-grey,
+// and every label stays readable on it.
+TEST(ViewColours, TheBackgroundIsWarmAndNotSlate) {
+  const Rgb slate = {84 / 255.0, 90 / 255.0, 106 / 255.0};  // the look to stay away from (issue 12)
+  for (const Rgb& c : {view_background_bottom(), view_background_top()}) {
+    EXPECT_GT(c[0], c[2] + 0.02) << "red above blue: a warm hue";
+    double distance = 0;
+    for (int k = 0; k < 3; ++k) distance = std::max(distance, std::abs(c[k] - slate[k]));
+    EXPECT_GT(distance, 0.08);
+  }
+}
+
+TEST(ViewColours, LabelsAndColourMapsStandOutFromTheBackground) {
+  for (const Rgb& background : {view_background_bottom(), view_background_top()}) {
+    const Rgb box = blend(label_box_colour(), label_box_opacity(), background);
+    for (const Rgb& text : {force_label_colour(), cres_label_colour(), crot_label_colour()}) {
+      // source: WCAG 2.1 success criterion 1.4.3, 4.5:1 for normal text.
+      EXPECT_GE(contrast_ratio(text, box), 4.5);
+    }
+    // source: WCAG 2.1 success criterion 1.4.11, 3:1 for graphical objects: the maps' light
+    // middle and the tooth-coloured end against the background.
+    EXPECT_GE(contrast_ratio(diverging_colour(0.0), background), 3.0);
+    EXPECT_GE(contrast_ratio(sequential_colour(1.0), background), 3.0);
+  }
+  // derived: white on black is 21:1.
+  EXPECT_NEAR(contrast_ratio({1, 1, 1}, {0, 0, 0}), 21.0, 1e-9);
 }
 
 }  // namespace

@@ -67,6 +67,36 @@ TEST(ScenarioList, RemoveKeepsIndicesConsistent) {
   EXPECT_THROW(list.remove(0), InputError);  // the last one stays
 }
 
+// Issue 12, point 4: a generated level name follows an edited loss, a chosen one stays.
+TEST(ScenarioList, GeneratedNamesFollowTheLossChosenNamesStay) {
+  analysis::Scenario healthy, six, own;
+  healthy.name = "healthy";
+  six.name = "6 mm loss";  // the samples' style
+  six.loss.horizontal_mm = 6;
+  own.name = "patient's worst site";
+  own.loss.horizontal_mm = 4;
+  ScenarioList list({healthy, six, own});
+  mesh::BoneLoss five;
+  five.horizontal_mm = 5;
+  list.set_loss(1, five);
+  EXPECT_EQ(list.at(1).name, "5 mm loss");
+  list.set_loss(2, five);
+  EXPECT_EQ(list.at(2).name, "patient's worst site");
+  mesh::BoneLoss some;
+  some.horizontal_mm = 1.5;
+  list.set_loss(0, some);
+  EXPECT_EQ(list.at(0).name, "1.5 mm loss");
+  const int added = list.add(2.0);  // "2.0 mm loss", the app's own style
+  mesh::BoneLoss three;
+  three.horizontal_mm = 3;
+  list.set_loss(added, three);
+  EXPECT_EQ(list.at(added).name, "3.0 mm loss");
+  // Never onto another level's name: "3.0 mm loss" is taken, so level 0 keeps its own.
+  list.set_loss(0, three);
+  EXPECT_EQ(list.at(0).name, "1.5 mm loss");
+  EXPECT_DOUBLE_EQ(list.at(0).loss.horizontal_mm, 3.0);
+}
+
 TEST(ScenarioList, DefaultNames) {
   EXPECT_EQ(ScenarioList::default_name(0), "healthy");
   EXPECT_EQ(ScenarioList::default_name(2.5), "2.5 mm loss");

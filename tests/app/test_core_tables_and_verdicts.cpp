@@ -5,7 +5,9 @@
 
 #include "core/quantity.h"
 #include "core/scenario_table.h"
+#include "core/help_text.h"
 #include "core/verdict.h"
+#include "sharpey/analysis/report_output.h"
 
 namespace sharpey::app {
 namespace {
@@ -87,7 +89,56 @@ INSTANTIATE_TEST_SUITE_P(Levels, Verdicts,
                                            VerdictCase{4.69, 0, 0, VerdictLevel::kBelowCapillary},
                                            VerdictCase{4.8, 0.3, 0, VerdictLevel::kAboveCapillary},
                                            VerdictCase{15.9, 20, 0, VerdictLevel::kAboveCapillary},
-                                           VerdictCase{16.5, 40, 2.0, VerdictLevel::kAboveLimit}));
+                                           VerdictCase{16.5, 40, 2.0, VerdictLevel::kAboveLimit},
+                                           // At a threshold is not above it (strict rule), and
+                                           // the level follows the peak even where the sampled
+                                           // area is 0 (a peak at one node).
+                                           VerdictCase{4.7, 0, 0, VerdictLevel::kBelowCapillary},
+                                           VerdictCase{16.0, 30, 0, VerdictLevel::kAboveCapillary},
+                                           VerdictCase{16.2, 30, 0, VerdictLevel::kAboveLimit}));
+
+// Issue 12, point 3: the app's verdict, the batch summary and the library are one rule.
+TEST(Verdicts, TheAppAndTheBatchSummaryReadTheSameVerdict) {
+  analysis::CaseSpec spec;
+  spec.thresholds = thresholds();
+  const struct {
+    double peak;
+    const char* summary_words;  // as summary.txt writes the level
+  } cases[] = {{4.7, "stays below capillary pressure"},
+               {9.0, "is above capillary pressure"},
+               {16.0, "is above capillary pressure"},
+               {18.2, "is above the physiological limit"}};
+  for (const auto& c : cases) {
+    SCOPED_TRACE(c.peak);
+    const analysis::ScenarioResult r = result("level", 0, c.peak, 12.0, 3.0);
+    const Verdict app = judge(r, spec.thresholds);
+    EXPECT_EQ(app.level, analysis::pressure_verdict(r, spec.thresholds).level);
+    const std::string summary = analysis::summary_text(spec, {r});
+    EXPECT_NE(summary.find(c.summary_words), std::string::npos) << summary;
+    EXPECT_EQ(app.headline.toLower().toStdString(), analysis::short_label(app.level));
+  }
+  // The words are factual: threshold, area and share (derived: 3.0 / 200 mm^2 = 2 %).
+  const Verdict above = judge(result("level", 0, 18.2, 12.0, 3.0), spec.thresholds);
+  EXPECT_EQ(above.detail.toStdString(),
+            "Peak compression 18.2 kPa, above the 16.0 kPa physiological limit over 3.0 mm\u00b2 (2 % of the "
+            "attachment).");
+}
+
+// Issue 12, point 10: the help page explains every quantity named in the issue, with the case's
+// thresholds, their sources and the caution.
+TEST(Help, ThePageExplainsEveryQuantity) {
+  analysis::Thresholds t = thresholds();
+  t.capillary.source = "capillary source & co";
+  const QString html = help_html(t);
+  for (const char* term : {"hydrostatic pressure", "principal strain", "von Mises stress", "equivalent force",
+                           "area rule", "95th percentile", "CRes", "CRot", "M/F"}) {
+    EXPECT_TRUE(help_terms().contains(QString::fromLatin1(term))) << term;
+    EXPECT_TRUE(html.contains(QStringLiteral("<b>%1</b>").arg(QString::fromLatin1(term)))) << term;
+  }
+  EXPECT_TRUE(html.contains(QStringLiteral("capillary source &amp; co")));
+  EXPECT_TRUE(html.contains(QStringLiteral("16.0 kPa")));
+  EXPECT_TRUE(html.contains(QString::fromStdString(analysis::caution_text()).toHtmlEscaped()));
+}
 
 TEST(Quantity, ValuesFollowThePdlNodeOrderInDisplayUnits) {
   analysis::ScenarioResult r;

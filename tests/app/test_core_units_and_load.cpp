@@ -16,9 +16,9 @@ const ForceUnit kUnits[] = {ForceUnit::kGram, ForceUnit::kCentinewton, ForceUnit
 
 TEST(Units, GramForceIsStandardGravityTimesOneGram) {
   // source: standard gravity g_n = 9.80665 m/s^2 (3rd CGPM, 1901), so 1 gf = 0.00980665 N.
-  EXPECT_DOUBLE_EQ(force_to_newton(100.0, ForceUnit::kGram), 0.980665);
-  EXPECT_DOUBLE_EQ(force_to_newton(250.0, ForceUnit::kCentinewton), 2.5);
-  EXPECT_DOUBLE_EQ(force_to_newton(1.25, ForceUnit::kNewton), 1.25);
+  EXPECT_DOUBLE_EQ(analysis::to_newton(100.0, ForceUnit::kGram), 0.980665);
+  EXPECT_DOUBLE_EQ(analysis::to_newton(250.0, ForceUnit::kCentinewton), 2.5);
+  EXPECT_DOUBLE_EQ(analysis::to_newton(1.25, ForceUnit::kNewton), 1.25);
 }
 
 class UnitPair : public ::testing::TestWithParam<std::tuple<ForceUnit, ForceUnit>> {};
@@ -27,22 +27,19 @@ TEST_P(UnitPair, ConversionRoundTripsAndKeepsTheForce) {
   const auto [from, to] = GetParam();
   for (double v : {0.0, 0.37, 1.0, 42.0, 480.0}) {
     SCOPED_TRACE(v);
-    const double converted = convert_force(v, from, to);
-    EXPECT_NEAR(force_to_newton(converted, to), force_to_newton(v, from), 1e-12 * (1 + v));
-    EXPECT_NEAR(convert_force(converted, to, from), v, 1e-12 * (1 + v));
+    const double converted = analysis::convert_force(v, from, to);
+    EXPECT_NEAR(analysis::to_newton(converted, to), analysis::to_newton(v, from), 1e-12 * (1 + v));
+    EXPECT_NEAR(analysis::convert_force(converted, to, from), v, 1e-12 * (1 + v));
   }
 }
 INSTANTIATE_TEST_SUITE_P(AllPairs, UnitPair,
                          ::testing::Combine(::testing::ValuesIn(kUnits), ::testing::ValuesIn(kUnits)));
 
-TEST(Units, AgreesWithTheAnalysisLibrary) {
-  // Two independent implementations of the same rule must agree.
+TEST(Units, LabelsAreTheCaseFileUnits) {
   for (ForceUnit u : kUnits) {
-    for (double v : {0.5, 10.0, 123.4}) {
-      EXPECT_NEAR(force_to_newton(v, u), analysis::to_newton(v, u), 1e-12) << analysis::to_string(u);
-      EXPECT_NEAR(force_from_newton(v, u), analysis::from_newton(v, u), 1e-9) << analysis::to_string(u);
-    }
     EXPECT_EQ(force_unit_label(u).toStdString(), analysis::to_string(u));
+    // The moment unit is the force unit times mm (derived), as the library names it.
+    EXPECT_EQ(analysis::moment_unit(u), analysis::to_string(u) + ".mm");
   }
 }
 
@@ -109,7 +106,7 @@ TEST(LoadControls, ChangingTheUnitKeepsTheLoad) {
   for (ForceUnit u : {ForceUnit::kNewton, ForceUnit::kCentinewton, ForceUnit::kGram}) {
     c.set_unit(u);
     const analysis::LoadSpec after = to_load_spec(c);
-    EXPECT_NEAR(force_to_newton(after.magnitude, after.unit), force_to_newton(before.magnitude, before.unit),
+    EXPECT_NEAR(analysis::to_newton(after.magnitude, after.unit), analysis::to_newton(before.magnitude, before.unit),
                 1e-12);
     EXPECT_LT((after.moment_nmm - before.moment_nmm).norm(), 1e-12);
   }
@@ -127,7 +124,7 @@ TEST_P(LoadRoundTrip, PanelToLoadSpecAndBack) {
   const LoadControls& c = GetParam().controls;
   const analysis::LoadSpec load = to_load_spec(c);
   EXPECT_NEAR(load.direction.norm(), 1.0, 1e-12);
-  EXPECT_NEAR(force_to_newton(load.magnitude, load.unit), c.force_n(), 1e-15);
+  EXPECT_NEAR(analysis::to_newton(load.magnitude, load.unit), c.force_n(), 1e-15);
   EXPECT_EQ(load.bracket_height_mm < 0, c.at_pad_centre);
   const LoadControls back = from_load_spec(load);
   EXPECT_EQ(back.direction, c.direction);

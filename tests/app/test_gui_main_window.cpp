@@ -8,10 +8,15 @@
 #include <QDir>
 #include <QDoubleSpinBox>
 #include <QFile>
+#include <QFileInfo>
+#include <QProcessEnvironment>
 #include <QLabel>
+#include <QLineEdit>
+#include <QSlider>
 #include <QRegularExpression>
 #include <QProcess>
 #include <QStandardPaths>
+#include <QTableWidget>
 #include <QTemporaryDir>
 #include <QTest>
 #include <algorithm>
@@ -21,11 +26,13 @@
 #include "core/colour_map.h"
 #include "support/image_checks.h"
 #include "support/solved_sample.h"
+#include "view/case_panel.h"
 #include "view/colour_bar.h"
 #include "view/comparison_view.h"
 #include "view/load_panel.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
+#include "view/root_map_view.h"
 #include "view/vtk_view.h"
 
 namespace sharpey::app {
@@ -127,11 +134,14 @@ TEST_F(MainWindowTest, TheHealthyLevelIsShownWhileTheOthersAreSolved) {
 TEST_F(MainWindowTest, ColourBarSpansTheComputedPressureRange) {
   const analysis::ScenarioResult* r = g_window->session().current_result();
   ASSERT_NE(r, nullptr);
-  const auto [lo, hi] = std::minmax_element(r->pressure_kpa.begin(), r->pressure_kpa.end());
+  // Issue 12, point 2: the bar's ends are the key numbers (derived: both are taken over the PDL
+  // outside the crest edge band), and the root map uses the same scale.
   const ColourBar* bar = g_window->result_view()->colour_bar();
-  EXPECT_DOUBLE_EQ(bar->range().min, *lo);
-  EXPECT_DOUBLE_EQ(bar->range().max, *hi);
+  EXPECT_DOUBLE_EQ(bar->range().min, -r->pressure_max_tension_kpa);
+  EXPECT_DOUBLE_EQ(bar->range().max, r->pressure_max_compression_kpa);
   EXPECT_EQ(bar->unit(), "kPa");
+  EXPECT_DOUBLE_EQ(g_window->root_map()->range().max, r->pressure_max_compression_kpa);
+  EXPECT_DOUBLE_EQ(g_window->root_map()->range().min, -r->pressure_max_tension_kpa);
 }
 
 TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
@@ -150,6 +160,87 @@ TEST_F(MainWindowTest, DoublingTheForceInThePanelDoublesTheDisplayedPeak) {
   magnitude->setValue(before);
   QApplication::processEvents();
   EXPECT_NEAR(bar->range().max, peak, 1e-9 * peak);
+}
+
+// Issue 12, point 1: a refused force leaves the field, the slider and the results on the force
+// system they showed; the message goes once a valid force is applied.
+TEST_F(MainWindowTest, ARefusedForceKeepsControlsAndResultsTogether) {
+  CaseSession& session = g_window->session();
+  LoadPanel* panel = g_window->load_panel();
+  QDoubleSpinBox* magnitude = panel->magnitude_box();
+  const double before = magnitude->value();
+  const int slider_before = panel->magnitude_slider()->value();
+  const double peak = session.current_result()->pressure_max_compression_kpa;
+  const double force_n = session.current_result()->load.force_n.norm();
+  // The force the results were computed for, in the panel's unit (derived: the unit conversion).
+  auto shown_force = [&]() {
+    return analysis::from_newton(session.current_result()->load.force_n.norm(), session.load_controls().unit);
+  };
+  magnitude->setValue(0);  // refused: the case-file rules want a force above 0
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(magnitude->value(), before);
+  EXPECT_EQ(panel->magnitude_slider()->value(), slider_before);
+  EXPECT_DOUBLE_EQ(session.load_controls().magnitude, before);
+  EXPECT_DOUBLE_EQ(session.current_result()->pressure_max_compression_kpa, peak);
+  EXPECT_DOUBLE_EQ(session.current_result()->load.force_n.norm(), force_n);
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  EXPECT_TRUE(g_window->status_label()->text().contains(QStringLiteral("not applied")))
+      << g_window->status_label()->text().toStdString();
+  // Typed "-50" and Enter: whatever the field makes of it, field, session and results agree.
+  QLineEdit* field = magnitude->findChild<QLineEdit*>();
+  ASSERT_NE(field, nullptr);
+  field->selectAll();
+  QTest::keyClicks(field, QStringLiteral("-50"));
+  QTest::keyClick(field, Qt::Key_Return);
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.load_controls().magnitude, magnitude->value());
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  EXPECT_GT(magnitude->value(), 0);
+  // The slider dragged to 0 (released there): refused alike.
+  panel->magnitude_slider()->setValue(0);
+  QApplication::processEvents();
+  EXPECT_GT(session.load_controls().magnitude, 0);
+  EXPECT_EQ(panel->magnitude_slider()->value(),
+            slider_from_magnitude(session.load_controls().magnitude, session.load_controls().unit));
+  EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
+  // A valid force (another than the one shown): applied, and the message about the refused one goes.
+  magnitude->setValue(magnitude->value() + 10);
+  QApplication::processEvents();
+  EXPECT_FALSE(g_window->status_label()->text().contains(QStringLiteral("not applied")))
+      << g_window->status_label()->text().toStdString();
+  magnitude->setValue(before);
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.current_result()->pressure_max_compression_kpa, peak);
+  EXPECT_NEAR(shown_force(), before, 1e-9 * before);
+}
+
+// Issue 12, point 4: the summary at the bracket follows a changed point of application, in the
+// chosen force unit.
+TEST_F(MainWindowTest, TheSummaryAtTheBracketFollowsThePointOfApplication) {
+  CaseSession& session = g_window->session();
+  const LoadControls start = session.load_controls();
+  ASSERT_EQ(start.unit, analysis::ForceUnit::kGram);
+  const QString at_bracket = g_window->load_panel()->resolved_text();
+  LoadControls moved = start;
+  moved.at_pad_centre = false;
+  moved.bracket_height_mm = 2.0;
+  moved.preset = analysis::MovementPreset::kNone;
+  g_window->load_panel()->set_controls(moved);
+  g_window->set_load(moved, false);
+  QApplication::processEvents();
+  const QString text = g_window->load_panel()->resolved_text();
+  EXPECT_NE(text, at_bracket);
+  EXPECT_TRUE(text.contains(QStringLiteral("applied 2.0\u2009mm above the CEJ"))) << text.toStdString();
+  EXPECT_TRUE(text.contains(QString::fromUtf8("g\u00b7mm about the mesiodistal axis"))) << text.toStdString();
+  // A lingual force 2 mm above the CEJ, below the bracket centre, turns about the mesiodistal axis
+  // there: that moment is not 0 (derived: r x F with r along the long axis).
+  const analysis::ScenarioResult* r = session.current_result();
+  EXPECT_GT(std::abs(r->load.moment_nmm.y()), 0.05 * r->load.force_n.norm());
+  EXPECT_NEAR(r->load.application_point.z(), 2.0, 1e-9);
+  g_window->load_panel()->set_controls(start);
+  g_window->set_load(start, false);
+  QApplication::processEvents();
+  EXPECT_EQ(g_window->load_panel()->resolved_text(), at_bracket);
 }
 
 TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {
@@ -186,6 +277,35 @@ TEST_F(MainWindowTest, TheTwoOptionRowsOfferTheSameChoicesAndActOnTheirViews) {
   QApplication::processEvents();
 }
 
+// Issue 12, point 7: in the comparison, a scale per level (the healthy level keeps its own range)
+// or one anchored to the limit.
+TEST_F(MainWindowTest, TheComparisonOffersPerLevelAndLimitAnchoredScales) {
+  g_window->show_view(ViewKind::kComparison);
+  QApplication::processEvents();
+  ComparisonView* comparison = g_window->comparison();
+  ASSERT_GE(comparison->n_views(), 2);
+  const auto& results = g_window->session().results();
+  comparison->set_scale_mode(ScaleMode::kPerLevel);
+  QApplication::processEvents();
+  for (int i = 0; i < comparison->n_views(); ++i) {
+    SCOPED_TRACE(i);
+    EXPECT_TRUE(comparison->view(i)->colour_bar()->isVisible());
+    const std::string name = results[static_cast<size_t>(i)].name;
+    EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max,
+                     results[static_cast<size_t>(i)].pressure_max_compression_kpa) << name;
+  }
+  EXPECT_FALSE(comparison->shared_bar()->isVisible());
+  comparison->set_scale_mode(ScaleMode::kThresholds);
+  QApplication::processEvents();
+  const double limit = g_window->session().spec().thresholds.limit.value_kpa;
+  EXPECT_TRUE(comparison->shared_bar()->isVisible());
+  EXPECT_DOUBLE_EQ(comparison->shared_bar()->range().max, limit);
+  for (int i = 0; i < comparison->n_views(); ++i) EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max, limit);
+  comparison->set_scale_mode(ScaleMode::kShown);
+  g_window->show_view(ViewKind::k3D);
+  QApplication::processEvents();
+}
+
 TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
   CaseSession& session = g_window->session();
   const LoadControls start = session.load_controls();
@@ -208,6 +328,43 @@ TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
   EXPECT_EQ(session.load_controls().magnitude, start.magnitude);
   QObject::disconnect(counter);
   QApplication::processEvents();
+}
+
+// Issue 12, point 11: saves and exports start in the documents folder, never the samples'.
+TEST_F(MainWindowTest, SavesAndExportsStartInTheDocumentsFolder) {
+  const QString documents = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
+  const QString samples = QFileInfo(testing::incisor_sample_path()).absolutePath();
+  for (const QString& name : {QStringLiteral("case.json"), QStringLiteral("x_report.pdf"), QString()}) {
+    const QString path = g_window->suggested_path(name);
+    EXPECT_FALSE(path.startsWith(samples)) << path.toStdString();
+    EXPECT_TRUE(path.startsWith(documents.isEmpty() ? QDir::homePath() : documents)) << path.toStdString();
+  }
+  // The case file's name is kept, in the documents folder.
+  EXPECT_EQ(g_window->file_stem(), QFileInfo(testing::incisor_sample_path()).completeBaseName());
+}
+
+// Issue 12, point 11: `sharpey --help` works without a display (it used to abort with 134), and
+// without one the app says what to do instead of aborting.
+TEST(Command, HelpWorksWithoutADisplay) {
+  const QString program = QStringLiteral(SHARPEY_BINARY_DIR "/app/gui/sharpey");
+  ASSERT_TRUE(QFileInfo::exists(program)) << program.toStdString();
+  QProcessEnvironment env = QProcessEnvironment::systemEnvironment();
+  for (const char* name : {"DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"}) env.remove(QString::fromLatin1(name));
+  auto run_without_display = [&](const QStringList& args, QString* out, QString* err) {
+    QProcess p;
+    p.setProcessEnvironment(env);
+    p.start(program, args);
+    EXPECT_TRUE(p.waitForFinished(60000));
+    *out = QString::fromUtf8(p.readAllStandardOutput());
+    *err = QString::fromUtf8(p.readAllStandardError());
+    return p.exitStatus() == QProcess::NormalExit ? p.exitCode() : -1;
+  };
+  QString out, err;
+  EXPECT_EQ(run_without_display({QStringLiteral("--help")}, &out, &err), 0) << err.toStdString();
+  EXPECT_TRUE(out.contains(QStringLiteral("--mesh"))) << out.toStdString();
+  EXPECT_TRUE(out.contains(QStringLiteral("--screenshots")));
+  EXPECT_EQ(run_without_display({}, &out, &err), 3);
+  EXPECT_TRUE(err.contains(QStringLiteral("sharpey-batch"))) << err.toStdString();
 }
 
 TEST_F(MainWindowTest, PdfReportHasItsPagesTheCautionAndTheSources) {
@@ -246,6 +403,28 @@ TEST_F(MainWindowTest, ImagesAndDataExports) {
   QFile csv(dir.filePath("summary.csv"));
   ASSERT_TRUE(csv.open(QIODevice::ReadOnly));
   EXPECT_TRUE(csv.readLine().startsWith("#"));  // the caution line first
+}
+
+// Issue 12, point 9: an exported PNG carries a caption (drawn under the view and stored as its
+// Description text): case label, bone level, force system, quantity and the caution.
+TEST_F(MainWindowTest, ExportedImagesCarryACaption) {
+  const QString png = g_dir->filePath(QStringLiteral("captioned.png"));
+  ASSERT_TRUE(g_window->export_image(png, ViewKind::k3D));
+  const QImage image(png);
+  const QImage bare = g_window->view_image(ViewKind::k3D);
+  EXPECT_EQ(image.width(), bare.width());
+  EXPECT_GT(image.height(), bare.height() + 40) << "room for the caption";
+  const QString caption = image.text(QStringLiteral("Description"));
+  const CaseSession& session = g_window->session();
+  EXPECT_TRUE(caption.contains(QString::fromStdString(session.spec().label))) << caption.toStdString();
+  EXPECT_TRUE(caption.contains(QStringLiteral("bone level: ") + QString::fromStdString(session.current_result()->name)));
+  EXPECT_TRUE(caption.contains(describe(session.load_controls())));
+  EXPECT_TRUE(caption.contains(QStringLiteral("hydrostatic pressure (kPa)")));
+  EXPECT_TRUE(caption.contains(QString::fromStdString(analysis::caution_text())));
+  testing::keep_image(image, "test_captioned_png");
+  // The caption strip is drawn: dark text pixels below the view.
+  const QImage strip = image.copy(0, bare.height(), image.width(), image.height() - bare.height());
+  EXPECT_GT(count_pixels(strip, [](const QColor& c) { return c.lightness() < 90; }), 200);
 }
 
 TEST_F(MainWindowTest, UnsavedChangesArePromptedAndAutosaved) {
@@ -291,6 +470,40 @@ bool wait_for_solve() {
   return ended && done;
 }
 
+// Issue 12, points 4 and 5, at the widget level: a bone loss typed into the case panel's table is
+// checked on entry with the case-file rules; a refused one changes nothing, an accepted one
+// renames a generated level name.
+TEST_F(MainWindowTest, TheCasePanelChecksABoneLossOnEntry) {
+  CaseSession& session = g_window->session();
+  g_window->show_case_panel(true);
+  QApplication::processEvents();
+  QTableWidget* table = g_window->case_panel()->levels_table();
+  ASSERT_EQ(table->rowCount(), 4);
+  ASSERT_EQ(session.levels().at(3).name, "6 mm loss");
+  const bool stale_before = session.geometry_stale();
+  // 15 mm: more than the incisor's root (about 13 mm, source: the tooth library's handbook
+  // dimensions) can lose; refused at once, not a minute later by the mesher.
+  table->item(3, 2)->setText(QStringLiteral("15"));
+  QApplication::processEvents();
+  EXPECT_TRUE(g_window->last_error().contains(QStringLiteral("scenarios[3]"))) << g_window->last_error().toStdString();
+  EXPECT_DOUBLE_EQ(session.levels().at(3).loss.horizontal_mm, 6.0);
+  EXPECT_EQ(table->item(3, 2)->text().toDouble(), 6.0);
+  EXPECT_EQ(session.geometry_stale(), stale_before);
+  EXPECT_EQ(session.results().size(), 4u);  // nothing solved is thrown away
+  // 5 mm: accepted; the generated name follows the value.
+  table->item(3, 2)->setText(QStringLiteral("5"));
+  QApplication::processEvents();
+  EXPECT_DOUBLE_EQ(session.levels().at(3).loss.horizontal_mm, 5.0);
+  EXPECT_EQ(session.levels().at(3).name, "5 mm loss");
+  EXPECT_EQ(table->item(3, 1)->text(), QStringLiteral("5 mm loss"));
+  EXPECT_TRUE(session.geometry_stale());
+  // Back as it was.
+  table->item(3, 2)->setText(QStringLiteral("6"));
+  QApplication::processEvents();
+  EXPECT_EQ(session.levels().at(3).name, "6 mm loss");
+  g_window->show_case_panel(false);
+}
+
 // These two solve again: defined last, so the tests above see the sample as first solved.
 TEST_F(MainWindowTest, ReopeningWhileSolvingDropsTheOldSolveAndSolvesTheNewCase) {
   CaseSession& session = g_window->session();
@@ -323,6 +536,22 @@ TEST_F(MainWindowTest, AGeometryEditDuringTheSolveLeavesTheResultsStale) {
   ASSERT_TRUE(wait_for_solve()) << g_window->last_error().toStdString();
   EXPECT_EQ(session.results().size(), 4u);
   EXPECT_TRUE(session.geometry_stale()) << "results of the old width shown as current";
+}
+
+// Issue 12, point 11: File > New leaves nothing of the old case on screen, the colour bars too.
+// Last: it replaces the sample.
+TEST_F(MainWindowTest, NewCaseClearsTheColourBars) {
+  g_window->show_view(ViewKind::kComparison);
+  QApplication::processEvents();
+  EXPECT_TRUE(g_window->result_view()->colour_bar()->has_scale());
+  EXPECT_TRUE(g_window->comparison()->shared_bar()->has_scale());
+  g_window->new_case();
+  QApplication::processEvents();
+  EXPECT_FALSE(g_window->result_view()->colour_bar()->has_scale());
+  EXPECT_FALSE(g_window->comparison()->shared_bar()->has_scale());
+  EXPECT_TRUE(g_window->result_view()->colour_bar()->note().isEmpty());
+  EXPECT_FALSE(g_window->root_map()->has_map());
+  g_window->show_view(ViewKind::k3D);
 }
 
 }  // namespace

@@ -212,12 +212,17 @@ TEST_F(SolvedCase, AZeroForceIsRefusedWithAMessageAndResultsStay) {
   session.set_study(g_study);
   const double peak = session.results()[0].pressure_max_compression_kpa;
   QString message;
-  QObject::connect(&session, &CaseSession::evaluation_failed, [&](const QString& m) { message = m; });
-  LoadControls c = session.load_controls();
+  QObject::connect(&session, &CaseSession::load_refused, [&](const QString& m) { message = m; });
+  const LoadControls before = session.load_controls();
+  LoadControls c = before;
   c.magnitude = 0;
   session.set_load(c);
   EXPECT_FALSE(message.isEmpty());
+  EXPECT_TRUE(message.contains(QStringLiteral("load.magnitude"))) << message.toStdString();
   EXPECT_DOUBLE_EQ(session.results()[0].pressure_max_compression_kpa, peak);
+  // The refused force is not kept: the controls are those of the results (issue 12, point 1).
+  EXPECT_DOUBLE_EQ(session.load_controls().magnitude, before.magnitude);
+  EXPECT_DOUBLE_EQ(session.spec().load.magnitude, before.magnitude);
 }
 
 TEST(CaseSession, GeometryEditsMarkResultsStale) {

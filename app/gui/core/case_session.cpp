@@ -121,15 +121,32 @@ void CaseSession::geometry_edit() {
 }
 
 void CaseSession::set_load(const LoadControls& controls, bool interactive) {
+  // A refused force system (e.g. a zero force) leaves the load, the case and the results as they
+  // were, so the controls can be put back and never disagree with what is shown.
+  const LoadControls previous_controls = load_;
+  const analysis::LoadSpec previous_spec = spec_.load;
   load_ = controls;
-  const analysis::LoadSpec load = to_load_spec(controls);
-  spec_.load = load;
+  spec_.load = to_load_spec(controls);
   // The case file names the direction ("lingual") when it is one of the named ones.
   spec_.load.direction_name = controls.direction == DirectionChoice::kAngles
                                   ? std::string()
                                   : label(controls.direction).toStdString();
-  modified();
-  evaluate(interactive);
+  QString refused;
+  try {
+    analysis::validate_case(spec_with_load());  // the case-file rules, also before any solve
+  } catch (const InputError& e) {
+    // Only the load's own rules decide here; other keys are checked where they are edited.
+    if (e.key().rfind("load", 0) == 0) refused = QString::fromStdString(e.what());
+  }
+  if (refused.isEmpty() && evaluate(interactive)) {
+    modified();
+    return;
+  }
+  if (refused.isEmpty()) refused = error_;
+  load_ = previous_controls;
+  spec_.load = previous_spec;
+  error_ = refused;
+  emit load_refused(error_);
 }
 
 void CaseSession::set_thresholds(double capillary_kpa, double limit_kpa) {
@@ -197,11 +214,13 @@ void CaseSession::set_defect(int level, double depth_mm, mesh::ToothSurface surf
   edited.set_loss(level, loss);
   analysis::CaseSpec check = spec_with_load();
   check.scenarios = edited.scenarios();
-  analysis::validate_case(check);  // throws before any change (depth, width and geometry checks)
-  set_levels(edited);
+  set_levels(edited);  // throws before any change (depth, width and geometry checks)
 }
 
 void CaseSession::set_levels(const ScenarioList& levels) {
+  analysis::CaseSpec check = spec_with_load();
+  check.scenarios = levels.scenarios();
+  analysis::validate_case(check);  // throws before any change: the case-file rules, on entry
   levels_ = levels;
   spec_.scenarios = levels_.scenarios();
   geometry_edit();
@@ -247,8 +266,11 @@ const analysis::ScenarioSolution* CaseSession::solution(int index) const {
 
 const analysis::ScenarioSolution* CaseSession::current_solution() const { return solution(current_); }
 
-void CaseSession::evaluate(bool interactive, size_t keep) {
-  if (!study_) return;
+bool CaseSession::evaluate(bool interactive, size_t keep) {
+  if (!study_) {
+    error_.clear();
+    return true;
+  }
   const auto& solutions = study_->solutions();
   const int h = study_->healthy_index();
   const analysis::ScenarioSolution* healthy = h >= 0 ? solutions[static_cast<size_t>(h)].get() : nullptr;
@@ -281,9 +303,10 @@ void CaseSession::evaluate(bool interactive, size_t keep) {
     // An unusable load (e.g. zero force): keep the last results and say why.
     error_ = QString::fromStdString(e.what());
     emit evaluation_failed(error_);
-    return;
+    return false;
   }
   emit results_changed(interactive);
+  return true;
 }
 
 void CaseSession::flush() {

@@ -51,6 +51,9 @@ class CaseSession : public QObject {
   // ---- edits ----
   const LoadControls& load_controls() const { return load_; }
   // interactive: a slider is moving; only the scenario on display is evaluated now.
+  // A force system the case-file rules or the evaluation refuse (e.g. a zero force) changes
+  // nothing: load_controls(), the case and the results stay as they were, load_refused() says why
+  // (evaluation_error() keeps the message until the next accepted load).
   void set_load(const LoadControls& controls, bool interactive = false);
   void set_thresholds(double capillary_kpa, double limit_kpa);
   void set_label(const QString& label);
@@ -68,6 +71,9 @@ class CaseSession : public QObject {
   void set_defect(int level, double depth_mm, mesh::ToothSurface surface, double width_deg);
   const ScenarioList& levels() const { return levels_; }
   // Replaces the bone-level list (names and losses); the comparison choice is kept when possible.
+  // Checks the case with the new levels first (analysis::validate_case, the rules of a case file,
+  // e.g. a loss the root cannot take) and throws InputError naming the level's key; the levels
+  // are unchanged then.
   void set_levels(const ScenarioList& levels);
   // Comparison choice only: no geometry change.
   bool set_compared(int level, bool on);
@@ -110,13 +116,16 @@ class CaseSession : public QObject {
   void results_changed(bool interactive);
   void current_changed(int index);
   void evaluation_failed(const QString& message);
+  // set_load refused a force system; load_controls() is the one still shown.
+  void load_refused(const QString& message);
 
  private:
   void adopt(analysis::CaseSpec spec);
   void modified();
   void geometry_edit();
   // keep: the first `keep` results are current (a grown study); only the others are evaluated.
-  void evaluate(bool interactive, size_t keep = 0);
+  // False (and evaluation_failed) when the library refused the load; the results then stay.
+  bool evaluate(bool interactive, size_t keep = 0);
   analysis::CaseSpec spec_with_load() const;
 
   analysis::CaseSpec spec_;

@@ -92,3 +92,25 @@ double relative_luminance(const Rgb& c) {
 }
 
 }  // namespace sharpey::app
+
+namespace sharpey::app {
+
+double contrast_ratio(const Rgb& a, const Rgb& b) {
+  const double la = relative_luminance(a), lb = relative_luminance(b);
+  return (std::max(la, lb) + 0.05) / (std::min(la, lb) + 0.05);
+}
+
+Rgb blend(const Rgb& over, double alpha, const Rgb& under) {
+  return {alpha * over[0] + (1 - alpha) * under[0], alpha * over[1] + (1 - alpha) * under[1],
+          alpha * over[2] + (1 - alpha) * under[2]};
+}
+
+Rgb view_background_bottom() { return {0.105, 0.090, 0.075}; }
+Rgb view_background_top() { return {0.290, 0.255, 0.205}; }
+Rgb force_label_colour() { return {0.98, 0.78, 0.12}; }
+Rgb cres_label_colour() { return {1.0, 1.0, 1.0}; }
+Rgb crot_label_colour() { return {0.30, 0.90, 0.95}; }
+Rgb label_box_colour() { return {0.06, 0.05, 0.04}; }
+double label_box_opacity() { return 0.7; }
+
+}  // namespace sharpey::app

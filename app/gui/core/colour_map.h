@@ -46,5 +46,21 @@ Rgb no_data_colour();
 
 // Relative luminance (sRGB, WCAG definition), used by a test to check lightness is monotone.
 double relative_luminance(const Rgb& c);
+// Contrast ratio of two colours (WCAG definition: (L1 + 0.05) / (L2 + 0.05), lighter first).
+double contrast_ratio(const Rgb& a, const Rgb& b);
+// `over` with opacity `alpha` blended on `under`.
+Rgb blend(const Rgb& over, double alpha, const Rgb& under);
+
+// Background of the 3D and comparison views, the app's own design: a warm umber gradient from
+// dark at the bottom to a lighter walnut at the top, dark enough for the ivory tooth, the
+// see-through bone and both colour maps' light middles to stand out.
+Rgb view_background_bottom();
+Rgb view_background_top();
+// The 3D labels: text colours and the box behind them (colour, opacity).
+Rgb force_label_colour();
+Rgb cres_label_colour();
+Rgb crot_label_colour();
+Rgb label_box_colour();
+double label_box_opacity();
 
 }  // namespace sharpey::app

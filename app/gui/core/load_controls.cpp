@@ -105,8 +105,8 @@ std::vector<analysis::MovementPreset> panel_presets() {
 
 void LoadControls::set_unit(analysis::ForceUnit new_unit) {
   if (new_unit == unit) return;
-  magnitude = convert_force(magnitude, unit, new_unit);
-  for (int i = 0; i < 3; ++i) moment(i) = convert_force(moment(i), unit, new_unit);
+  magnitude = analysis::convert_force(magnitude, unit, new_unit);
+  for (int i = 0; i < 3; ++i) moment(i) = analysis::convert_force(moment(i), unit, new_unit);
   unit = new_unit;
 }
 
@@ -128,7 +128,7 @@ Eigen::Vector3d LoadControls::direction_vector() const {
   return app::direction_vector(direction);
 }
 
-double LoadControls::force_n() const { return force_to_newton(magnitude, unit); }
+double LoadControls::force_n() const { return analysis::to_newton(magnitude, unit); }
 
 analysis::LoadSpec to_load_spec(const LoadControls& c) {
   analysis::LoadSpec load;
@@ -138,7 +138,7 @@ analysis::LoadSpec to_load_spec(const LoadControls& c) {
   load.bracket_height_mm = c.at_pad_centre ? -1.0 : c.bracket_height_mm;
   load.couple = c.couple;
   load.moment_nmm = Eigen::Vector3d::Zero();
-  for (int i = 0; i < 3; ++i) load.moment_nmm(i) = moment_to_nmm(c.moment(i), c.unit);
+  for (int i = 0; i < 3; ++i) load.moment_nmm(i) = analysis::moment_to_nmm(c.moment(i), c.unit);
   load.moment_to_force_mm = c.moment_to_force_mm;
   load.preset = c.preset;
   return load;
@@ -158,7 +158,7 @@ LoadControls from_load_spec(const analysis::LoadSpec& load) {
   c.at_pad_centre = load.bracket_height_mm < 0;
   c.bracket_height_mm = c.at_pad_centre ? 0.0 : load.bracket_height_mm;
   c.couple = load.couple;
-  for (int i = 0; i < 3; ++i) c.moment(i) = moment_from_nmm(load.moment_nmm(i), load.unit);
+  for (int i = 0; i < 3; ++i) c.moment(i) = analysis::moment_from_nmm(load.moment_nmm(i), load.unit);
   c.moment_to_force_mm = load.moment_to_force_mm;
   c.preset = load.preset;
   return c;
@@ -206,6 +206,24 @@ QString describe(const LoadControls& c) {
                 .arg(moment_unit_label(c.unit));
   }
   return text;
+}
+
+QString describe_resolved(const analysis::ScenarioResult& r, analysis::ForceUnit unit) {
+  const analysis::ResolvedLoad& l = r.load;
+  const int decimals = force_decimals(unit);
+  const QString force = with_unit(analysis::from_newton(l.force_n.norm(), unit), force_unit_label(unit), decimals);
+  auto moment = [&](const Eigen::Vector3d& m_nmm) {
+    const QString u = moment_unit_label(unit);
+    auto c = [&](double v) { return with_unit(analysis::moment_from_nmm(v, unit), u, decimals); };
+    return QStringLiteral("%1 about the labiolingual axis, %2 about the mesiodistal axis, %3 about the long axis")
+        .arg(c(m_nmm.x()), c(m_nmm.y()), c(m_nmm.z()));
+  };
+  return QStringLiteral("At the bracket (%1): force %2 (%3), applied %4 above the CEJ.\n"
+                        "Moment about the bracket centre (force and couple): %5.\n"
+                        "Couple alone: %6; its moment-to-force ratio %7.")
+      .arg(QString::fromStdString(r.name), force, with_unit(l.force_n.norm(), QStringLiteral("N"), 3),
+           with_unit(l.application_point.z(), QStringLiteral("mm"), 1), moment(l.moment_nmm), moment(l.couple_nmm),
+           with_unit(l.moment_to_force_mm, QStringLiteral("mm"), 1));
 }
 
 }  // namespace sharpey::app

@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/analysis/study.h"
 
 namespace sharpey::app {
 
@@ -68,5 +69,11 @@ double magnitude_from_slider(int position, analysis::ForceUnit unit);
 // One-line description of the force system for titles and reports, e.g.
 // "100 g lingual at the bracket centre, translation preset".
 QString describe(const LoadControls& controls);
+
+// The force system a result was evaluated under, as resolved at the bracket, in `unit` (forces in
+// g, cN or N, moments in that unit times mm with each component named by the axis it turns about):
+// the point of application, the moment about the bracket centre (force and couple), the couple
+// alone and its moment-to-force ratio. Three sentences, separated by line breaks.
+QString describe_resolved(const analysis::ScenarioResult& result, analysis::ForceUnit unit);
 
 }  // namespace sharpey::app

@@ -73,8 +73,43 @@ ValueRange finite_range(const std::vector<double>& values) {
   return r;
 }
 
+ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band) {
+  ValueRange r{std::numeric_limits<double>::infinity(), -std::numeric_limits<double>::infinity()};
+  for (size_t i = 0; i < values.size(); ++i) {
+    const bool inside = i < band.size() && band[i] != 0;
+    if (inside != in_band || !std::isfinite(values[i])) continue;
+    r.min = std::min(r.min, values[i]);
+    r.max = std::max(r.max, values[i]);
+  }
+  if (!r.valid()) return {0, 0};
+  return r;
+}
+
 ValueRange merge(const ValueRange& a, const ValueRange& b) {
   return {std::min(a.min, b.min), std::max(a.max, b.max)};
+}
+
+QString label(ScaleMode mode) {
+  switch (mode) {
+    case ScaleMode::kShown: return QStringLiteral("scale: range shown");
+    case ScaleMode::kFixed: return QStringLiteral("scale: fixed at the current range");
+    case ScaleMode::kThresholds: return QStringLiteral("scale: anchored to the limit");
+    case ScaleMode::kPerLevel: return QStringLiteral("scale: each level its own");
+  }
+  return {};
+}
+
+ValueRange scale_range(ScaleMode mode, Quantity q, const ValueRange& shown, const ValueRange& fixed,
+                       double limit_kpa) {
+  switch (mode) {
+    case ScaleMode::kFixed: return fixed;
+    case ScaleMode::kThresholds:
+      if (q == Quantity::kPressure && limit_kpa > 0) return {-limit_kpa, limit_kpa};
+      return shown;
+    case ScaleMode::kShown:
+    case ScaleMode::kPerLevel: break;
+  }
+  return shown;
 }
 
 }  // namespace sharpey::app

@@ -75,7 +75,22 @@ void ScenarioList::rename(int i, const QString& name) {
 
 void ScenarioList::set_loss(int i, const mesh::BoneLoss& loss) {
   assert(i >= 0 && i < size() && "scenario index out of range");
-  scenarios_[static_cast<size_t>(i)].loss = loss;
+  analysis::Scenario& s = scenarios_[static_cast<size_t>(i)];
+  // A name generated from the loss ("healthy", "6 mm loss" or "6.0 mm loss") follows the new
+  // value in the same style; a name the user chose stays. No rename onto another level's name.
+  const double was = s.loss.horizontal_mm;
+  const QString name = QString::fromStdString(s.name);
+  auto compact = [](double mm) {
+    return mm <= 0 ? QStringLiteral("healthy") : QStringLiteral("%1 mm loss").arg(QString::number(mm, 'g', 6));
+  };
+  QString renamed;
+  if (name == default_name(was)) renamed = default_name(loss.horizontal_mm);
+  else if (name == compact(was)) renamed = compact(loss.horizontal_mm);
+  s.loss = loss;
+  if (renamed.isEmpty() || renamed == name) return;
+  for (const analysis::Scenario& other : scenarios_)
+    if (&other != &s && QString::fromStdString(other.name) == renamed) return;
+  s.name = renamed.toStdString();
 }
 
 void ScenarioList::set_current(int i) {

@@ -27,6 +27,8 @@ class ScenarioList {
   // Removes scenario i; the last scenario cannot be removed (InputError).
   void remove(int i);
   void rename(int i, const QString& name);  // InputError for an empty or duplicate name
+  // Sets the loss of scenario i; a generated name ("6 mm loss") follows the new value, a name the
+  // user chose stays.
   void set_loss(int i, const mesh::BoneLoss& loss);
 
   // Scenario on display in the 3D view and the root map.

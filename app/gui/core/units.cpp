@@ -4,33 +4,6 @@
 
 namespace sharpey::app {
 
-double force_to_newton(double value, analysis::ForceUnit unit) {
-  switch (unit) {
-    case analysis::ForceUnit::kGram: return value * kNewtonPerGramForce;
-    case analysis::ForceUnit::kCentinewton: return value * 0.01;
-    case analysis::ForceUnit::kNewton: return value;
-  }
-  return value;
-}
-
-double force_from_newton(double value_n, analysis::ForceUnit unit) {
-  switch (unit) {
-    case analysis::ForceUnit::kGram: return value_n / kNewtonPerGramForce;
-    case analysis::ForceUnit::kCentinewton: return value_n * 100.0;
-    case analysis::ForceUnit::kNewton: return value_n;
-  }
-  return value_n;
-}
-
-double convert_force(double value, analysis::ForceUnit from, analysis::ForceUnit to) {
-  return from == to ? value : force_from_newton(force_to_newton(value, from), to);
-}
-
-double moment_to_nmm(double value, analysis::ForceUnit unit) { return force_to_newton(value, unit); }
-double moment_from_nmm(double value_nmm, analysis::ForceUnit unit) {
-  return force_from_newton(value_nmm, unit);
-}
-
 QString force_unit_label(analysis::ForceUnit unit) {
   switch (unit) {
     case analysis::ForceUnit::kGram: return QStringLiteral("g");

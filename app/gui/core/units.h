@@ -5,22 +5,12 @@
 #include <QString>
 
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/analysis/verdict.h"
 
 namespace sharpey::app {
 
-// 1 gram-force in newtons (standard gravity).
-inline constexpr double kNewtonPerGramForce = 0.00980665;
-
-// Force in newtons from a value in `unit` and back (same rule as analysis::to_newton, kept here so
-// the panel can convert while the user types; a test checks both agree).
-double force_to_newton(double value, analysis::ForceUnit unit);
-double force_from_newton(double value_n, analysis::ForceUnit unit);
-// Converts a force value between display units.
-double convert_force(double value, analysis::ForceUnit from, analysis::ForceUnit to);
-
-// Moments are shown in the force unit times mm (g.mm, cN.mm, N.mm).
-double moment_to_nmm(double value, analysis::ForceUnit unit);
-double moment_from_nmm(double value_nmm, analysis::ForceUnit unit);
+// Force and moment conversions are the analysis library's (analysis::to_newton, from_newton,
+// convert_force, moment_to_nmm, moment_from_nmm in case_spec.h and verdict.h).
 
 QString force_unit_label(analysis::ForceUnit unit);   // "g", "cN", "N"
 QString moment_unit_label(analysis::ForceUnit unit);  // "g·mm", "cN·mm", "N·mm"

@@ -1,28 +1,25 @@
-// A plain-language verdict on the PDL pressure of one scenario against the two thresholds.
-// Wording is the app's own; the numbers come from analysis::ScenarioResult.
+// The pressure verdict of one scenario as the app words it. The rule and the sentence are the
+// analysis library's (analysis::pressure_verdict, analysis::verdict_words), shared with the batch
+// summary and the PDF report.
 #pragma once
 
 #include <QString>
 
-#include "sharpey/analysis/study.h"
+#include "sharpey/analysis/verdict.h"
 
 namespace sharpey::app {
 
-enum class VerdictLevel {
-  kBelowCapillary,  // peak compression under the capillary threshold
-  kAboveCapillary,  // some of the root above capillary pressure, none above the limit
-  kAboveLimit,      // some of the root above the physiological limit
-};
+using VerdictLevel = analysis::PressureLevel;
 
 struct Verdict {
   VerdictLevel level = VerdictLevel::kBelowCapillary;
-  QString headline;  // a few words
-  QString detail;    // one or two sentences with the numbers and their units
+  QString headline;  // a few words ("Above capillary pressure")
+  QString detail;    // the library's sentence with the numbers and their units
 };
 
 Verdict judge(const analysis::ScenarioResult& result, const analysis::Thresholds& thresholds);
 
-// Short name of a level for tables ("below capillary", ...).
-QString short_label(VerdictLevel level);
+// Short name of a level for tables ("below capillary pressure", ...): analysis::short_label.
+QString level_label(VerdictLevel level);
 
 }  // namespace sharpey::app

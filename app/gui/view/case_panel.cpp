@@ -8,7 +8,6 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
-#include <QMessageBox>
 #include <QPushButton>
 #include <QTableWidget>
 #include <QVBoxLayout>
@@ -187,11 +186,11 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     ScenarioList list = session_->levels();
     try {
       list.add(new_loss_->value());
+      session_->set_levels(list);  // the case-file rules, checked on entry
     } catch (const InputError& e) {
-      QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+      emit edit_refused(QStringLiteral("Bone level"), QString::fromStdString(e.what()));
       return;
     }
-    session_->set_levels(list);
     reload_levels();
   });
   connect(remove, &QPushButton::clicked, this, [this]() {
@@ -200,11 +199,11 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     ScenarioList list = session_->levels();
     try {
       list.remove(row);
+      session_->set_levels(list);
     } catch (const InputError& e) {
-      QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+      emit edit_refused(QStringLiteral("Bone level"), QString::fromStdString(e.what()));
       return;
     }
-    session_->set_levels(list);
     reload_levels();
   });
   connect(levels_, &QTableWidget::itemChanged, this, [this](QTableWidgetItem* item) {
@@ -212,8 +211,8 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     if (item->column() == 3) return;
     if (item->column() == 0) {
       if (!session_->set_compared(item->row(), item->checkState() == Qt::Checked)) {
-        QMessageBox::information(this, QStringLiteral("Compare"),
-                                 QStringLiteral("At most four bone levels can be compared at once."));
+        emit edit_refused(QStringLiteral("Compare"),
+                          QStringLiteral("At most four bone levels can be compared at once."));
       }
       reload_levels();
       emit comparison_changed();
@@ -256,7 +255,7 @@ void CasePanel::defect_edited() {
                          static_cast<mesh::ToothSurface>(defect_surface_->currentData().toInt()),
                          defect_width_->value());
   } catch (const InputError& e) {
-    QMessageBox::warning(this, QStringLiteral("Angular defect"), QString::fromStdString(e.what()));
+    emit edit_refused(QStringLiteral("Angular defect"), QString::fromStdString(e.what()));
   }
   reload_levels();
   if (levels_->currentRow() != row && row < levels_->rowCount()) levels_->setCurrentCell(row, 1);
@@ -269,7 +268,7 @@ void CasePanel::material_edited(int i) {
   try {
     session_->set_material(part, fem::Material{modulus_[i]->value(), poisson_[i]->value()});
   } catch (const InputError& e) {
-    QMessageBox::warning(this, QStringLiteral("Material"), QString::fromStdString(e.what()));
+    emit edit_refused(QStringLiteral("Material"), QString::fromStdString(e.what()));
     updating_ = true;
     modulus_[i]->setValue(session_->material(part).young_modulus_mpa);
     poisson_[i]->setValue(session_->material(part).poisson_ratio);
@@ -341,12 +340,13 @@ void CasePanel::levels_edited() {
         list.set_loss(i, l);
       }
     }
+    session_->set_levels(list);  // the case-file rules (e.g. a loss the root cannot take), on entry
   } catch (const InputError& e) {
-    QMessageBox::warning(this, QStringLiteral("Bone level"), QString::fromStdString(e.what()));
+    emit edit_refused(QStringLiteral("Bone level"), QString::fromStdString(e.what()));
     reload_levels();
     return;
   }
-  session_->set_levels(list);
+  reload_levels();  // names generated from the loss follow it
 }
 
 void CasePanel::set_stale(bool stale, bool solving) {

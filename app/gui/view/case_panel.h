@@ -28,10 +28,13 @@ class CasePanel : public QWidget {
   // Shows whether the results match the case geometry.
   void set_stale(bool stale, bool solving);
   QPushButton* solve_button() const { return solve_; }
+  QTableWidget* levels_table() const { return levels_; }
 
  signals:
   void solve_requested();
   void comparison_changed();
+  // An edit was refused (the case is unchanged): what and why, for the window to show.
+  void edit_refused(const QString& title, const QString& message);
 
  private:
   void reload_levels();

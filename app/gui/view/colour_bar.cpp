@@ -15,6 +15,18 @@ namespace sharpey::app {
 
 namespace {
 constexpr int kLeader = 8;  // px between a threshold name and the bar, for its leader line
+
+// `font` made smaller by `factor`, in the unit it is given in: a pixel-sized font (the PDF report
+// paints with one) has no point size, and giving it one (6 pt at 300 dpi) made the labels huge.
+QFont smaller(const QFont& font, double factor) {
+  QFont out = font;
+  if (font.pointSizeF() > 0) {
+    out.setPointSizeF(std::max(6.0, font.pointSizeF() * factor));
+  } else if (font.pixelSize() > 0) {
+    out.setPixelSize(std::max(6, static_cast<int>(std::lround(font.pixelSize() * factor))));
+  }
+  return out;
+}
 }  // namespace
 
 QColor to_qcolor(const Rgb& rgb) { return QColor::fromRgbF(static_cast<float>(rgb[0]), static_cast<float>(rgb[1]), static_cast<float>(rgb[2])); }
@@ -37,6 +49,18 @@ void ColourBar::set_marks(const std::vector<BarMark>& marks) {
   update();
 }
 
+void ColourBar::clear() {
+  has_scale_ = false;
+  marks_.clear();
+  note_.clear();
+  update();
+}
+
+void ColourBar::set_note(const QString& note) {
+  note_ = note;
+  update();
+}
+
 void ColourBar::paintEvent(QPaintEvent*) {
   QPainter painter(this);
   painter.fillRect(rect(), palette().window());
@@ -45,7 +69,21 @@ void ColourBar::paintEvent(QPaintEvent*) {
 
 void ColourBar::paint_into(QPainter& painter, const QRect& area) const {
   if (!has_scale_) return;
-  draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
+  if (note_.isEmpty()) {
+    draw(painter, area, scale_, title_, unit_, marks_, palette().windowText().color());
+    return;
+  }
+  painter.save();
+  const QFont small = smaller(painter.font(), 0.85);
+  painter.setFont(small);
+  const QRect room(area.left() + 4, area.top(), area.width() - 8, area.height());
+  const QRect needed = QFontMetrics(small).boundingRect(room, Qt::TextWordWrap, note_);
+  const QRect note_rect(room.left(), area.bottom() - needed.height() - 4, room.width(), needed.height() + 2);
+  painter.setPen(palette().windowText().color());
+  painter.drawText(note_rect, Qt::AlignLeft | Qt::AlignTop | Qt::TextWordWrap, note_);
+  painter.restore();
+  draw(painter, QRect(area.left(), area.top(), area.width(), note_rect.top() - area.top() - 6), scale_, title_,
+       unit_, marks_, palette().windowText().color());
 }
 
 QImage ColourBar::beside(const QImage& picture, const QColor& background) const {
@@ -108,14 +146,14 @@ void ColourBar::draw(QPainter& painter, const QRect& area, const ColourScale& sc
                      Qt::AlignLeft | Qt::AlignVCenter, tick_label(v, step));
   }
   // Extremes, written inside the frame ends.
-  QFont small = painter.font();
-  small.setPointSizeF(std::max(6.0, small.pointSizeF() * 0.85));
-  painter.setFont(small);
+  const QFont base = painter.font();
+  painter.setFont(smaller(base, 0.85));
   painter.setPen(text);
   painter.drawText(QRect(area.left(), bar.top() - line - 2, area.width(), line), Qt::AlignHCenter,
                    QStringLiteral("max %1").arg(r.max, 0, 'f', 1));
   painter.drawText(QRect(area.left(), bar.bottom() + 2, area.width(), line), Qt::AlignHCenter,
                    QStringLiteral("min %1").arg(r.min, 0, 'f', 1));
+  painter.setFont(base);  // the names were measured in this font
   // Threshold marks across the bar; their names left of it (tick values are right of it). Each
   // name sits just above its line; names that would overlap (thresholds close together on a wide
   // range) are moved apart, kept beside the bar, and joined to their line by a leader.

@@ -27,6 +27,12 @@ class ColourBar : public QWidget {
   explicit ColourBar(QWidget* parent = nullptr);
   void set_scale(const ColourScale& scale, const QString& title, const QString& unit);
   void set_marks(const std::vector<BarMark>& marks);
+  // No scale: the bar is blank (nothing solved).
+  void clear();
+  bool has_scale() const { return has_scale_; }
+  // A short note under the bar (e.g. on the crest edge band); empty: none.
+  void set_note(const QString& note);
+  const QString& note() const { return note_; }
   // The range shown (the scale's data range).
   const ValueRange& range() const { return scale_.range(); }
   const QString& unit() const { return unit_; }
@@ -49,6 +55,7 @@ class ColourBar : public QWidget {
   ColourScale scale_;
   QString title_, unit_;
   std::vector<BarMark> marks_;
+  QString note_;
   bool has_scale_ = false;
 };
 

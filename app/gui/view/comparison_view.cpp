@@ -37,7 +37,18 @@ ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
   quantity_box_ = boxes.quantity;
   bone_box_ = boxes.bone;
   section_box_ = boxes.section;
-  note_ = new QLabel(QStringLiteral("One colour scale for all; cameras move together."));
+  scale_box_ = new QComboBox;
+  for (ScaleMode m : {ScaleMode::kShown, ScaleMode::kThresholds, ScaleMode::kPerLevel})
+    scale_box_->addItem(m == ScaleMode::kShown ? QStringLiteral("scale: shared range shown") : label(m),
+                        static_cast<int>(m));
+  scale_box_->setToolTip(QStringLiteral("One range for every level, one anchored to the physiological limit, or "
+                                        "each level on its own range (a healthy level is not washed out)"));
+  connect(scale_box_, &QComboBox::currentIndexChanged, this, [this]() {
+    scale_mode_ = static_cast<ScaleMode>(scale_box_->currentData().toInt());
+    if (last_session_) show_session(*last_session_, last_force_text_);
+  });
+  options->addWidget(scale_box_);
+  note_ = new QLabel(QStringLiteral("Cameras move together."));
   note_->setStyleSheet(QStringLiteral("color: #555;"));
   options->addSpacing(12);
   options->addWidget(note_, 1);
@@ -82,6 +93,7 @@ void ComparisonView::clear() {
   cells_.clear();
   shown_.clear();
   last_session_ = nullptr;
+  bar_->clear();
   table_ = ScenarioTable{};
   table_widget_->clear();
   table_widget_->setRowCount(0);
@@ -128,30 +140,41 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
     link_cameras();
   }
   shown_ = wanted;
-  // One scale over every shown scenario.
-  ValueRange range{0, 0};
+  // One scale over every shown scenario, each range shown as the 3D view defines it
+  // (core/quantity.h: outside the crest edge band).
+  ValueRange range{0, 0}, band{0, 0};
   bool first = true;
   for (int i : wanted) {
     const auto* s = session.solution(i);
     if (!s) continue;
-    const ValueRange r = finite_range(quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes()));
+    const std::vector<double> values = quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes());
+    const std::vector<char> in_band = analysis::pdl_crest_edge_band(*s);
+    const ValueRange r = finite_range(values, in_band, false), b = finite_range(values, in_band, true);
     range = first ? r : merge(range, r);
+    band = first ? b : merge(band, b);
     first = false;
   }
+  const double limit_kpa = session.spec().thresholds.limit.value_kpa;
+  const bool per_level = scale_mode_ == ScaleMode::kPerLevel;
+  range = scale_range(scale_mode_, quantity_, range, range, limit_kpa);
   for (size_t k = 0; k < wanted.size(); ++k) {
     const int i = wanted[k];
     const auto* s = session.solution(i);
     if (!s) continue;
+    cells_[k].view->set_bar_visible(per_level);
     const auto& r = results[static_cast<size_t>(i)];
     cells_[k].title->setText(QStringLiteral("%1  \u2013  peak compression %2 kPa")
                                  .arg(QString::fromStdString(r.name))
                                  .arg(r.pressure_max_compression_kpa, 0, 'f', 1));
     cells_[k].view->set_quantity(quantity_);
-    cells_[k].view->show_result(*s, r, session.spec().thresholds, force_text, range);
+    cells_[k].view->show_result(*s, r, session.spec().thresholds, force_text,
+                                per_level ? std::nullopt : std::optional<ValueRange>(range));
   }
+  bar_->setVisible(!per_level);  // per level: each cell shows its own bar
   const ColourScale scale(quantity_, range);
   bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
   bar_->set_marks(threshold_marks(session.spec().thresholds, quantity_));
+  bar_->set_note(band_note(range, band, unit_label(quantity_)));
 
   table_ = make_table(results);
   plot_->set_table(table_);
@@ -187,7 +210,13 @@ void ComparisonView::link_cameras() {
     for (size_t a = 1; a < cells_.size(); ++a) cells_[a].view->vtk_view()->copy_camera_from(cells_[0].view->vtk_view()->camera());
 }
 
+void ComparisonView::set_scale_mode(ScaleMode mode) {
+  scale_box_->setCurrentIndex(scale_box_->findData(static_cast<int>(mode)));
+}
+
 QImage ComparisonView::grab_views() {
+  // Per level, every cell carries its own bar.
+  if (!bar_->isVisible() && scale_mode_ == ScaleMode::kPerLevel) return grid_host_->grab().toImage();
   return bar_->beside(grid_host_->grab().toImage(), palette().window().color());
 }
 

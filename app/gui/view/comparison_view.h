@@ -34,6 +34,10 @@ class ComparisonView : public QWidget {
   void show_session(const CaseSession& session, const QString& force_text);
   void clear();
 
+  Quantity quantity() const { return quantity_; }
+  // How the cells' colour range is chosen: shared (kShown), anchored to the limit, or per level.
+  void set_scale_mode(ScaleMode mode);
+  ScaleMode scale_mode() const { return scale_mode_; }
   int n_views() const { return static_cast<int>(cells_.size()); }
   ResultView* view(int i) const;
   ColourBar* shared_bar() const { return bar_; }
@@ -64,6 +68,8 @@ class ComparisonView : public QWidget {
   QTableWidget* table_widget_ = nullptr;
   ScenarioTable table_;
   Quantity quantity_ = Quantity::kPressure;
+  QComboBox* scale_box_ = nullptr;
+  ScaleMode scale_mode_ = ScaleMode::kShown;
   bool syncing_ = false;
   const CaseSession* last_session_ = nullptr;
   QString last_force_text_;

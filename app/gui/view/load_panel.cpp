@@ -221,17 +221,9 @@ void LoadPanel::set_resolved(const analysis::ScenarioResult* r) {
     resolved_->setText(QStringLiteral("Resolved at the bracket: not solved yet."));
     return;
   }
-  const auto& l = r->load;
-  const double f_g = force_from_newton(l.force_n.norm(), analysis::ForceUnit::kGram);
-  resolved_->setText(
-      QStringLiteral("At the bracket (%1): force %2 (%3), couple (%4, %5, %6) N\u00b7mm, M/F %7")
-          .arg(QString::fromStdString(r->name))
-          .arg(with_unit(f_g, QStringLiteral("g"), 0))
-          .arg(with_unit(l.force_n.norm(), QStringLiteral("N"), 3))
-          .arg(l.couple_nmm.x(), 0, 'f', 1)
-          .arg(l.couple_nmm.y(), 0, 'f', 1)
-          .arg(l.couple_nmm.z(), 0, 'f', 1)
-          .arg(with_unit(l.moment_to_force_mm, QStringLiteral("mm"), 1)));
+  resolved_->setText(describe_resolved(*r, controls_.unit));
 }
+
+QString LoadPanel::resolved_text() const { return resolved_->text(); }
 
 }  // namespace sharpey::app

@@ -25,7 +25,10 @@ class LoadPanel : public QWidget {
   void set_controls(const LoadControls& controls);
   const LoadControls& controls() const { return controls_; }
   // The force system the library resolved (shown under the controls).
+  // In the panel's force unit; the point of application and the moment about the bracket centre
+  // follow the force system (a force above the bracket gives a moment there).
   void set_resolved(const analysis::ScenarioResult* result);
+  QString resolved_text() const;
 
   // For tests: the magnitude slider.
   QSlider* magnitude_slider() const { return slider_; }

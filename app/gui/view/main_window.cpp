@@ -5,6 +5,7 @@
 #include <QCloseEvent>
 #include <QComboBox>
 #include <QCoreApplication>
+#include <QDialog>
 #include <QDir>
 #include <QFileDialog>
 #include <QFileInfo>
@@ -13,6 +14,7 @@
 #include <QLabel>
 #include <QMenu>
 #include <QMenuBar>
+#include <QPainter>
 #include <QProgressBar>
 #include <QScrollArea>
 #include <QSettings>
@@ -20,6 +22,7 @@
 #include <QStandardPaths>
 #include <QStatusBar>
 #include <QTabWidget>
+#include <QTextBrowser>
 #include <QTimer>
 #include <QToolBar>
 #include <QToolBox>
@@ -29,6 +32,7 @@
 #include "core/autosave_store.h"
 #include "core/case_session.h"
 #include "core/document_state.h"
+#include "core/help_text.h"
 #include "core/solve_job.h"
 #include "core/units.h"
 #include "sharpey/analysis/report_output.h"
@@ -100,23 +104,25 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     emit solve_finished();
   });
   // Levels solved before a cancel or a failure stay shown.
-  auto partial_note = [this]() {
+  auto partial_note = [this](bool failed) {
     const auto study = job_->take_result();
     if (!study) return QStringLiteral("the previous results (if any) are still shown.");
-    return QStringLiteral("%1 of %2 bone levels solved and shown; solve again (F5) for the rest.")
+    return QStringLiteral("%1 of %2 bone levels solved and shown; %3")
         .arg(study->solutions().size())
-        .arg(study->spec().scenarios.size());
+        .arg(study->spec().scenarios.size())
+        .arg(failed ? QStringLiteral("correct the level the message names before solving again.")
+                    : QStringLiteral("solve again (F5) for the rest."));
   };
   connect(job_.get(), &SolveJob::cancelled, this, [this, partial_note]() {
     if (end_discarded_job()) return;
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve cancelled; ") + partial_note());
+    status_->setText(QStringLiteral("Solve cancelled; ") + partial_note(false));
     emit solve_failed(QStringLiteral("cancelled"));
   });
   connect(job_.get(), &SolveJob::failed, this, [this, partial_note](const QString& kind, const QString& message) {
     if (end_discarded_job()) return;
     set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note());
+    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note(true));
     show_error(QStringLiteral("Could not mesh and solve the case"),
                QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
     emit solve_failed(message);
@@ -244,6 +250,7 @@ void MainWindow::build_layout() {
   });
   connect(load_panel_, &LoadPanel::changed, this, &MainWindow::set_load);
   connect(case_panel_, &CasePanel::solve_requested, this, &MainWindow::solve);
+  connect(case_panel_, &CasePanel::edit_refused, this, &MainWindow::show_error);
   connect(case_panel_, &CasePanel::comparison_changed, this, [this]() {
     comparison_dirty_ = true;
     refresh_comparison();
@@ -278,7 +285,8 @@ void MainWindow::build_menus() {
   QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this, [this]() { save(); });
   save_action->setShortcut(QKeySequence::Save);
   QAction* save_as_action = file->addAction(QStringLiteral("Save &as\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"), session_->document().path(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"),
+                                                      suggested_path(file_stem() + QStringLiteral(".json")),
                                                       QStringLiteral("Sharpey cases (*.json)"));
     if (!path.isEmpty()) save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
   });
@@ -290,18 +298,21 @@ void MainWindow::build_menus() {
     const ViewKind which = tabs_->currentIndex() == 1 ? ViewKind::kRootMap
                            : tabs_->currentIndex() == 2 ? ViewKind::kComparison
                                                         : ViewKind::k3D;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"),
+                                                      suggested_path(file_stem() + QStringLiteral(".png")),
                                                       QStringLiteral("PNG images (*.png)"));
     if (!path.isEmpty()) export_image(path.endsWith(QStringLiteral(".png")) ? path : path + QStringLiteral(".png"), which);
   });
   QAction* report_action = exports->addAction(make_icon(IconKind::kReport), QStringLiteral("&PDF report\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"),
+                                                      suggested_path(file_stem() + QStringLiteral("_report.pdf")),
                                                       QStringLiteral("PDF documents (*.pdf)"));
     if (!path.isEmpty()) export_report(path.endsWith(QStringLiteral(".pdf")) ? path : path + QStringLiteral(".pdf"));
   });
   QAction* data_action = exports->addAction(make_icon(IconKind::kExportData),
                                             QStringLiteral("&Results as CSV, JSON and VTU\u2026"), this, [this]() {
-    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"));
+    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"),
+                                                             suggested_path(QString()));
     if (!folder.isEmpty()) export_data(folder);
   });
   file->addSeparator();
@@ -320,6 +331,17 @@ void MainWindow::build_menus() {
       ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
 
   QMenu* help = menuBar()->addMenu(QStringLiteral("&Help"));
+  help->addAction(QStringLiteral("&What the numbers mean"), this, [this]() {
+    auto* dialog = new QDialog(this);
+    dialog->setAttribute(Qt::WA_DeleteOnClose);
+    dialog->setWindowTitle(QStringLiteral("What the numbers mean"));
+    auto* layout = new QVBoxLayout(dialog);
+    auto* text = new QTextBrowser;
+    text->setHtml(help_html(session_->spec().thresholds));
+    layout->addWidget(text);
+    dialog->resize(640, 720);
+    dialog->show();
+  });
   help->addAction(QStringLiteral("&Reading the results"), this, [this]() {
     QMessageBox::information(
         this, QStringLiteral("Reading the results"),
@@ -391,6 +413,14 @@ void MainWindow::connect_session() {
   });
   connect(s, &CaseSession::evaluation_failed, this, [this](const QString& message) {
     status_->setText(QStringLiteral("Force system not applied: ") + message);
+    load_error_shown_ = true;
+    last_error_ = message;
+  });
+  // A refused force: the panel shows again the force system the results are for.
+  connect(s, &CaseSession::load_refused, this, [this](const QString& message) {
+    load_panel_->set_controls(session_->load_controls());
+    status_->setText(QStringLiteral("Force system not applied, %1 still shown: %2").arg(force_text(), message));
+    load_error_shown_ = true;
     last_error_ = message;
   });
 }
@@ -429,6 +459,11 @@ QString MainWindow::force_text() const {
 
 void MainWindow::refresh_results(bool interactive) {
   load_summary_->setText(describe(session_->load_controls()));
+  // An accepted force system replaces the message about a refused one.
+  if (load_error_shown_) {
+    load_error_shown_ = false;
+    status_->setText(QStringLiteral("Force system applied: %1.").arg(force_text()));
+  }
   const analysis::ScenarioResult* r = session_->current_result();
   const analysis::ScenarioSolution* s = session_->current_solution();
   if (!r || !s) return;
@@ -436,7 +471,10 @@ void MainWindow::refresh_results(bool interactive) {
   result_view_->show_result(*s, *r, t, force_text());
   findings_->show_result(*r, t, session_->geometry_stale(), session_->reference_pending());
   load_panel_->set_resolved(r);
-  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)));
+  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
+  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
+  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
+                     &pressure_range);
   if (!interactive) {
     refresh_scenario_choice();
     comparison_dirty_ = true;
@@ -468,6 +506,17 @@ void MainWindow::show_view(ViewKind which) {
 
 // ---------------------------------------------------------------------------------------------
 // Files
+
+QString MainWindow::suggested_path(const QString& file_name) const {
+  QString folder = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
+  if (folder.isEmpty()) folder = QDir::homePath();
+  return file_name.isEmpty() ? folder : QDir(folder).filePath(file_name);
+}
+
+QString MainWindow::file_stem() const {
+  const QString path = session_->document().path();
+  return path.isEmpty() ? QStringLiteral("sharpey_case") : QFileInfo(path).completeBaseName();
+}
 
 void MainWindow::refresh_title() { setWindowTitle(session_->document().window_title()); }
 
@@ -516,7 +565,8 @@ bool MainWindow::open_case(const QString& path) {
 bool MainWindow::save() {
   if (session_->document().save_needs_path()) {
     if (!options_.dialogs) return false;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"), QString(),
+    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"),
+                                                      suggested_path(file_stem() + QStringLiteral(".json")),
                                                       QStringLiteral("Sharpey cases (*.json)"));
     if (path.isEmpty()) return false;
     return save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
@@ -665,8 +715,46 @@ QImage MainWindow::view_image(ViewKind which) {
   return {};
 }
 
+QString MainWindow::image_caption(ViewKind which) const {
+  const analysis::ScenarioResult* r = session_->current_result();
+  QString level;
+  if (which == ViewKind::kComparison) {
+    QStringList names;
+    for (const auto& result : session_->results()) names << QString::fromStdString(result.name);
+    level = QStringLiteral("bone levels compared: ") + names.join(QStringLiteral(", "));
+  } else {
+    level = QStringLiteral("bone level: ") + (r ? QString::fromStdString(r->name) : QStringLiteral("none solved"));
+  }
+  const Quantity q = which == ViewKind::kRootMap      ? Quantity::kPressure
+                     : which == ViewKind::kComparison ? comparison_->quantity()
+                                                      : result_view_->quantity();
+  return QStringLiteral("%1\n%2; force system: %3; colours: %4 (%5).\n%6")
+      .arg(QString::fromStdString(session_->spec().label), level, describe(session_->load_controls()), label(q),
+           unit_label(q), QString::fromStdString(analysis::caution_text()));
+}
+
+QImage MainWindow::captioned(const QImage& picture, const QString& caption) const {
+  // The caption under the picture, wrapped to its width, on the window's background.
+  QFont font = this->font();
+  const QFontMetrics fm(font);
+  const int margin = 8;
+  const QRect room(margin, 0, std::max(200, picture.width() - 2 * margin), 100000);
+  const QRect needed = fm.boundingRect(room, Qt::TextWordWrap, caption);
+  QImage out(picture.width(), picture.height() + needed.height() + 2 * margin, QImage::Format_RGB32);
+  out.fill(palette().window().color());
+  QPainter p(&out);
+  p.drawImage(0, 0, picture);
+  p.setFont(font);
+  p.setPen(palette().windowText().color());
+  p.drawText(QRect(margin, picture.height() + margin, room.width(), needed.height()), Qt::TextWordWrap, caption);
+  p.end();
+  out.setText(QStringLiteral("Description"), caption);
+  return out;
+}
+
 bool MainWindow::export_image(const QString& path, ViewKind which) {
-  const QImage image = view_image(which);
+  const QImage view = view_image(which);
+  const QImage image = view.isNull() ? view : captioned(view, image_caption(which));
   if (image.isNull() || !image.save(path, "PNG")) {
     show_error(QStringLiteral("Could not export the image"),
                QStringLiteral("Writing %1 failed (no permission, or the folder does not exist).").arg(path));

@@ -73,9 +73,18 @@ class MainWindow : public QMainWindow {
   void cancel_solve();
   bool solving() const;
 
+  // Where a save or export dialog starts: `file_name` in the user's documents folder, never the
+  // folder of the bundled samples (a reflexive save must not overwrite a shipped sample).
+  QString suggested_path(const QString& file_name) const;
+  // File name stem for saves and exports: the case file's, else "sharpey_case".
+  QString file_stem() const;
+
   // ---- exports ----
   QImage view_image(ViewKind which);
+  // The PNG carries a caption under the view (and as its "Description" text): the case label, the
+  // bone level, the force system, the quantity and the caution.
   bool export_image(const QString& path, ViewKind which);
+  QString image_caption(ViewKind which) const;
   bool export_report(const QString& path);
   bool export_data(const QString& folder);
 
@@ -90,6 +99,7 @@ class MainWindow : public QMainWindow {
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
+  QLabel* status_label() const { return status_; }
   QComboBox* level_box() const { return scenario_box_; }  // the bone-level selector
   void show_view(ViewKind which);
   // Opens the case panel (true) or the force-system panel (false) on the left.
@@ -111,6 +121,7 @@ class MainWindow : public QMainWindow {
 
  private:
   void build_menus();
+  QImage captioned(const QImage& picture, const QString& caption) const;
   void build_layout();
   void connect_session();
   void refresh_results(bool interactive);
@@ -157,6 +168,7 @@ class MainWindow : public QMainWindow {
   int prompts_ = 0;
   QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
   bool comparison_dirty_ = true;
+  bool load_error_shown_ = false;  // the status bar shows why a force system was refused
   std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
   bool load_queued_ = false;
   bool discard_job_ = false;  // the running solve is of a case since replaced: its levels are dropped

@@ -52,15 +52,51 @@ QString label(SectionPlane plane) {
   return {};
 }
 
+std::vector<ViewSide> all_view_sides() {
+  return {ViewSide::kLabial, ViewSide::kLingual, ViewSide::kMesial, ViewSide::kDistal, ViewSide::kOcclusal};
+}
+
+QString label(ViewSide side) {
+  switch (side) {
+    case ViewSide::kLabial: return QStringLiteral("labial");
+    case ViewSide::kLingual: return QStringLiteral("lingual");
+    case ViewSide::kMesial: return QStringLiteral("mesial");
+    case ViewSide::kDistal: return QStringLiteral("distal");
+    case ViewSide::kOcclusal: return QStringLiteral("occlusal");
+  }
+  return {};
+}
+
+Eigen::Vector3d view_direction(ViewSide side) {
+  switch (side) {
+    case ViewSide::kLabial: return Eigen::Vector3d::UnitX();
+    case ViewSide::kLingual: return -Eigen::Vector3d::UnitX();
+    case ViewSide::kMesial: return Eigen::Vector3d::UnitY();
+    case ViewSide::kDistal: return -Eigen::Vector3d::UnitY();
+    case ViewSide::kOcclusal: return Eigen::Vector3d::UnitZ();
+  }
+  return Eigen::Vector3d::UnitX();
+}
+
+ViewSide loaded_side(const Eigen::Vector3d& force_n) {
+  const double n = force_n.norm();
+  if (!(n > 0)) return ViewSide::kLabial;
+  const Eigen::Vector3d f = force_n / n;
+  if (std::abs(f.z()) > std::max(std::abs(f.x()), std::abs(f.y()))) return ViewSide::kOcclusal;
+  if (std::abs(f.x()) >= std::abs(f.y())) return f.x() > 0 ? ViewSide::kLabial : ViewSide::kLingual;
+  return f.y() > 0 ? ViewSide::kMesial : ViewSide::kDistal;
+}
+
 namespace {
 
 // Colours of the scene (the app's own choice).
 constexpr double kToothColour[3] = {0.93, 0.90, 0.82};
 constexpr double kCorticalColour[3] = {0.74, 0.70, 0.62};
 constexpr double kCancellousColour[3] = {0.85, 0.79, 0.66};
-constexpr double kForceColour[3] = {0.98, 0.78, 0.12};
-constexpr double kCresColour[3] = {1.0, 1.0, 1.0};
-constexpr double kCrotColour[3] = {0.30, 0.90, 0.95};
+const Rgb kForceColour = force_label_colour();
+const Rgb kCresColour = cres_label_colour();
+const Rgb kCrotColour = crot_label_colour();
+constexpr double kBandLineColour[3] = {0.50, 0.27, 0.72};  // violet: apart from both maps' hues
 constexpr double kBoneOpacity = 0.22;
 
 // One actor with its polydata.
@@ -184,7 +220,8 @@ struct ModelScene::Impl {
   vtkSmartPointer<vtkLookupTable> lut = vtkSmartPointer<vtkLookupTable>::New();
   vtkSmartPointer<vtkPlane> clip = vtkSmartPointer<vtkPlane>::New();
   std::vector<double> field;  // per PDL node
-  Part iso_capillary, iso_limit;
+  Part iso_capillary, iso_limit, band_line;
+  int n_band = 0;
   double iso_level[2] = {0, 0};
   bool iso_visible = false;
   int n_iso = 0;
@@ -278,6 +315,7 @@ struct ModelScene::Impl {
   void apply_pixel_scale(double scale) {
     iso_capillary.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.0 * scale)));
     iso_limit.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 3.5 * scale)));
+    band_line.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.5 * scale)));
     // Labels on opposite sides of their markers, which often sit close together.
     auto offset = [scale](vtkBillboardTextActor3D* t, int x, int y) {
       t->SetDisplayOffset(static_cast<int>(std::lround(x * scale)), static_cast<int>(std::lround(y * scale)));
@@ -304,7 +342,8 @@ struct ModelScene::Impl {
       s.cortical_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
       s.cancellous_part.actor->SetVisibility(on && bone_style != BoneStyle::kHidden);
     }
-    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit}) {
+    band_line.actor->SetVisibility(has_model && n_band > 0);
+    for (Part* p : {&tooth, &pdl, &bone, &iso_capillary, &iso_limit, &band_line}) {
       p->mapper->RemoveAllClippingPlanes();
       if (cut) p->mapper->AddClippingPlane(clip);
     }
@@ -331,9 +370,11 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   d.overlay = overlay;
   // Lines lying on surfaces (iso-lines) win over the surfaces.
   vtkMapper::SetResolveCoincidentTopologyToPolygonOffset();
+  // The app's own background (core/colour_map.h): warm umber, darker at the bottom.
   scene->GradientBackgroundOn();
-  scene->SetBackground(0.16, 0.18, 0.22);
-  scene->SetBackground2(0.33, 0.36, 0.42);
+  const Rgb bottom = view_background_bottom(), top = view_background_top();
+  scene->SetBackground(bottom[0], bottom[1], bottom[2]);
+  scene->SetBackground2(top[0], top[1], top[2]);
   scene->SetMaximumNumberOfPeels(6);
   scene->SetOcclusionRatio(0.05);
 
@@ -360,22 +401,24 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   const Rgb cap = capillary_line_colour(), lim = limit_line_colour();
   d.iso_capillary.solid(cap.data());
   d.iso_limit.solid(lim.data());
-  for (Part* p : {&d.iso_capillary, &d.iso_limit}) {
+  d.band_line.solid(kBandLineColour);
+  for (Part* p : {&d.iso_capillary, &d.iso_limit, &d.band_line}) {
     p->actor->GetProperty()->LightingOff();
     scene->AddActor(p->actor);
   }
 
-  d.arrow.solid(kForceColour);
-  d.couple_arc.solid(kForceColour);
-  d.couple_head.solid(kForceColour);
-  d.cres.solid(kCresColour);
-  d.crot.solid(kCrotColour);
+  d.arrow.solid(kForceColour.data());
+  d.couple_arc.solid(kForceColour.data());
+  d.couple_head.solid(kForceColour.data());
+  d.cres.solid(kCresColour.data());
+  d.crot.solid(kCrotColour.data());
   for (Part* p : {&d.arrow, &d.couple_arc, &d.couple_head, &d.cres, &d.crot}) overlay->AddActor(p->actor);
-  auto style_label = [&](vtkBillboardTextActor3D* t, const double rgb[3]) {
+  auto style_label = [&](vtkBillboardTextActor3D* t, const Rgb& rgb) {
+    const Rgb box = label_box_colour();
     t->GetTextProperty()->SetFontSize(15);
     t->GetTextProperty()->SetColor(rgb[0], rgb[1], rgb[2]);
-    t->GetTextProperty()->SetBackgroundColor(0.05, 0.05, 0.08);
-    t->GetTextProperty()->SetBackgroundOpacity(0.65);
+    t->GetTextProperty()->SetBackgroundColor(box[0], box[1], box[2]);
+    t->GetTextProperty()->SetBackgroundOpacity(label_box_opacity());
     t->GetTextProperty()->BoldOn();
     overlay->AddActor(t);
   };
@@ -452,6 +495,7 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   d.has_model = true;
   d.field.clear();
   d.glyph_key.clear();
+  d.n_band = 0;
   d.apply_visibility();
 }
 
@@ -480,6 +524,22 @@ void ModelScene::set_field(const std::vector<double>& pdl_values, const ColourSc
   d.update_iso_lines();
   d.timings.iso_lines_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
 }
+
+void ModelScene::set_band(const std::vector<char>& band) {
+  Impl& d = *impl_;
+  std::vector<double> flag(d.pdl_surface.nodes.size(), 0.0);
+  for (size_t i = 0; i < flag.size(); ++i) {
+    const int node = d.pdl_surface.nodes[i];
+    const int k = node >= 0 && node < static_cast<int>(d.pdl_index.size()) ? d.pdl_index[static_cast<size_t>(node)] : -1;
+    flag[i] = k >= 0 && k < static_cast<int>(band.size()) && band[static_cast<size_t>(k)] ? 1.0 : 0.0;
+  }
+  const std::vector<Segment3> segments = triangle_iso_lines(d.pdl_points, d.pdl_surface.triangles, flag, 0.5);
+  d.n_band = static_cast<int>(segments.size());
+  fill_segments(d.band_line.data, segments);
+  d.apply_visibility();
+}
+
+int ModelScene::n_band_segments() const { return impl_->n_band; }
 
 void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
   Impl& d = *impl_;
@@ -673,6 +733,44 @@ void ModelScene::reset_camera() {
   const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
   camera->SetPosition(view.x() * distance, view.y() * distance, mid_z + view.z() * distance);
   d.scene->ResetCameraClippingRange();
+}
+
+void ModelScene::look_from(ViewSide side, bool oblique) {
+  Impl& d = *impl_;
+  vtkCamera* camera = d.scene->GetActiveCamera();
+  const double mid_z = 0.5 * (d.geometry.crown_tip.z() + d.geometry.apex.z());
+  const double height = d.geometry.crown_tip.z() - d.geometry.apex.z();
+  const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
+  Eigen::Vector3d v = view_direction(side);
+  if (oblique && side != ViewSide::kOcclusal) {
+    // Turned a little aside (toward mesial; from a proximal side toward the other face), for depth.
+    const Eigen::Vector3d aside =
+        side == ViewSide::kMesial   ? Eigen::Vector3d(-Eigen::Vector3d::UnitX())
+        : side == ViewSide::kDistal ? Eigen::Vector3d(Eigen::Vector3d::UnitX())
+                                    : Eigen::Vector3d(Eigen::Vector3d::UnitY());
+    v = (v + 0.45 * aside + 0.3 * Eigen::Vector3d::UnitZ()).normalized();
+  }
+  camera->SetFocalPoint(0, 0, mid_z);
+  camera->SetPosition(v.x() * distance, v.y() * distance, mid_z + v.z() * distance);
+  if (side == ViewSide::kOcclusal) {
+    camera->SetViewUp(1, 0, 0);
+  } else {
+    camera->SetViewUp(0, 0, 1);
+  }
+  camera->SetViewAngle(30);
+  d.scene->ResetCameraClippingRange();
+}
+
+void ModelScene::screen_axes(Eigen::Vector3d* right, Eigen::Vector3d* up) const {
+  vtkCamera* camera = impl_->scene->GetActiveCamera();
+  double d[3], u[3];
+  camera->GetDirectionOfProjection(d);
+  camera->GetViewUp(u);
+  const Eigen::Vector3d dir(d[0], d[1], d[2]);
+  Eigen::Vector3d view_up(u[0], u[1], u[2]);
+  view_up = (view_up - view_up.dot(dir) * dir).normalized();
+  *right = dir.cross(view_up).normalized();
+  *up = view_up;
 }
 
 int ModelScene::n_coloured_points() const {

@@ -31,6 +31,18 @@ enum class SectionPlane {
 QString label(BoneStyle style);
 QString label(SectionPlane plane);
 
+// Preset views: the side of the tooth the camera looks at.
+enum class ViewSide { kLabial, kLingual, kMesial, kDistal, kOcclusal };
+std::vector<ViewSide> all_view_sides();
+QString label(ViewSide side);  // "labial", ...
+// Unit vector from the tooth toward the camera for `side` (tooth coordinates: x labial, y mesial,
+// z crown).
+Eigen::Vector3d view_direction(ViewSide side);
+// The side a force system loads most: the side the force points to, so that the compressed
+// ligament at the crest faces the reader (lingual for a lingual force); occlusal for an intrusive
+// or extrusive force along the long axis.
+ViewSide loaded_side(const Eigen::Vector3d& force_n);
+
 // Where the last load change spent its time in the scene (CPU side, before the render), ms.
 struct SceneTimings {
   double scalars_ms = 0;    // colour field written into the PDL (and the section on display)
@@ -55,6 +67,10 @@ class ModelScene {
 
   // Colours the PDL: one value per PDL node (pdl_nodes order) in the scale's unit.
   void set_field(const std::vector<double>& pdl_values, const ColourScale& scale);
+  // Marks the crest edge band (analysis::pdl_crest_edge_band: one flag per PDL node, pdl_nodes
+  // order) by a line on the PDL surface along its lower edge. Call after set_model.
+  void set_band(const std::vector<char>& band);
+  int n_band_segments() const;
   // Iso-lines at the two thresholds (values in the field's unit); hidden when !visible.
   void set_iso_levels(double capillary, double limit, bool visible);
   // Force arrow, couple, CRes and CRot of a result; `force_text` labels the arrow.
@@ -78,6 +94,12 @@ class ModelScene {
 
   // Frames the model, looking from labial and a little mesial and occlusal (or at the cut face).
   void reset_camera();
+  // Frames the model as seen from `side` (straight on, crown up; occlusal: labial up). `oblique`:
+  // turned a little aside (toward mesial; from a proximal side, toward lingual or labial) and
+  // toward occlusal, for depth.
+  void look_from(ViewSide side, bool oblique = false);
+  // Camera basis in tooth coordinates: screen right and screen up (unit vectors).
+  void screen_axes(Eigen::Vector3d* right, Eigen::Vector3d* up) const;
 
   // For tests and benchmarks.
   int n_coloured_points() const;

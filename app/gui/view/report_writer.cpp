@@ -94,16 +94,33 @@ struct Page {
   }
 };
 
+// The footer's font and height: the caution (wrapped to the page width) above the page number line.
+QFont footer_font(const QFont& body) {
+  QFont f = body;
+  f.setPointSizeF(body.pointSizeF() * 0.8);
+  return f;
+}
+
+int footer_height(QPainter& p, const QRect& page) {
+  const QFont saved = p.font();
+  p.setFont(footer_font(saved));
+  const int h = p.fontMetrics().height();
+  const QRect caution = p.boundingRect(QRect(page.left(), 0, page.width(), 100000), Qt::TextWordWrap | Qt::AlignLeft,
+                                       QString::fromStdString(analysis::caution_text()));
+  p.setFont(saved);
+  return caution.height() + 2 * h;  // a third of a line above, the caution, the page number line
+}
+
 void footer(QPainter& p, const QRect& page, int number, const QString& case_file) {
   const QFont saved = p.font();
-  QFont f = saved;
-  f.setPointSizeF(saved.pointSizeF() * 0.8);
-  p.setFont(f);
+  const int total = footer_height(p, page);
+  p.setFont(footer_font(saved));
   const int h = p.fontMetrics().height();
-  const QRect box(page.left(), page.bottom() - 3 * h, page.width(), 3 * h);
+  const QRect box(page.left(), page.bottom() - total, page.width(), total);
   p.setPen(QColor(90, 90, 90));
   p.drawLine(box.topLeft(), box.topRight());
-  p.drawText(box.adjusted(0, h / 3, 0, 0), Qt::TextWordWrap | Qt::AlignLeft,
+  // The caution whole, then the page number on its own line under it.
+  p.drawText(QRect(page.left(), box.top() + h / 3, page.width(), total - h - h / 3), Qt::TextWordWrap | Qt::AlignLeft,
              QString::fromStdString(analysis::caution_text()));
   p.drawText(QRect(page.left(), page.bottom() - h, page.width(), h), Qt::AlignRight,
              QStringLiteral("Sharpey report, %1, page %2 of %3").arg(case_file).arg(number).arg(kReportPages));
@@ -145,7 +162,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   writer.setPageSize(QPageSize(QPageSize::A4));
   writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
   writer.setResolution(300);
-  writer.setTitle(QStringLiteral("Sharpey report: ") + QString::fromStdString(spec.label));
+  // The force system as set, beside the case label (which may name an older one).
+  writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)").arg(QString::fromStdString(spec.label), describe(in.load)));
   writer.setCreator(QStringLiteral("Sharpey"));
   QPainter painter;
   if (!painter.begin(&writer)) {
@@ -157,7 +175,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   painter.setFont(font);
   const QRect page = painter.viewport();
   const int line = painter.fontMetrics().height();
-  const QRect body(page.left(), page.top(), page.width(), page.height() - 4 * line);
+  // The body ends half a line above the footer, whatever the caution's length.
+  const QRect body(page.left(), page.top(), page.width(), page.height() - footer_height(painter, page) - line / 2);
   int pages = 0;
 
   // ---- page 1: case, force system, thresholds, verdict, key numbers ----
@@ -189,16 +208,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.paragraph(describe_case(spec));
     pg.heading(QStringLiteral("Force system"));
     pg.paragraph(describe(in.load) + '.');
-    pg.paragraph(QStringLiteral("Resolved at the bracket for %1: force (%2, %3, %4) N, couple (%5, %6, %7) N\u00b7mm, "
-                                "moment-to-force ratio %8.")
-                     .arg(QString::fromStdString(r.name))
-                     .arg(r.load.force_n.x(), 0, 'f', 3)
-                     .arg(r.load.force_n.y(), 0, 'f', 3)
-                     .arg(r.load.force_n.z(), 0, 'f', 3)
-                     .arg(r.load.couple_nmm.x(), 0, 'f', 1)
-                     .arg(r.load.couple_nmm.y(), 0, 'f', 1)
-                     .arg(r.load.couple_nmm.z(), 0, 'f', 1)
-                     .arg(with_unit(r.load.moment_to_force_mm, QStringLiteral("mm"), 1)));
+    pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
     pg.heading(QStringLiteral("Thresholds and their sources"));
     pg.rows({{QStringLiteral("capillary pressure"),
               with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
@@ -236,7 +246,10 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.paragraph(QStringLiteral("Root map: the root surface unrolled, angle around the root against depth below "
                                 "the CEJ."));
     RootMapView map;
-    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)));
+    // The range shown (core/quantity.h) for pressure is the key numbers' span: peak tension to
+    // peak compression outside the crest edge band.
+    const ValueRange shown{-r.pressure_max_tension_kpa, r.pressure_max_compression_kpa};
+    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
     const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
     paint_scaled(painter, font, body, pg.y, map_height,
                  [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
@@ -270,6 +283,10 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
       pg.y += line;
     }
     pg.y += line;
+    // A reading for every bone level, not only the one on display.
+    pg.heading(QStringLiteral("Reading per bone level"));
+    for (const analysis::ScenarioResult& level : results)
+      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") + judge(level, spec.thresholds).detail);
     TrendPlot plot;
     plot.set_table(table);
     const int plot_height = body.bottom() - pg.y;

@@ -19,6 +19,7 @@
 class QCheckBox;
 class QComboBox;
 class QHBoxLayout;
+class QPainter;
 
 namespace sharpey::app {
 
@@ -29,6 +30,10 @@ bool has_threshold_lines(Quantity q);
 // The colour bar's capillary and limit marks, drawn like their iso-lines (none for a quantity
 // without threshold lines).
 std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q);
+
+// The colour bar's note on the crest edge band: its range when it goes beyond the scale shown
+// (the band is drawn clamped to the scale's ends and bounded by a line in the 3D view).
+QString band_note(const ValueRange& shown, const ValueRange& band, const QString& unit);
 
 // The display options row the 3D view and the comparison share: "Colour by" with the quantity,
 // then the bone style and the section. Each box calls its handler with the value chosen.
@@ -62,8 +67,16 @@ class ResultView : public QWidget {
   Quantity quantity() const { return quantity_; }
   void set_quantity(Quantity q);
   void set_bone_style(BoneStyle style);
+  // How the colour range is chosen (core/quantity.h; kPerLevel is the comparison's).
+  void set_scale_mode(ScaleMode mode);
+  ScaleMode scale_mode() const { return scale_mode_; }
   void set_section(SectionPlane plane);
   void reset_camera();
+  // Preset view: the tooth seen from one side (also the "view from" box of the options row).
+  void look_from(ViewSide side);
+  // The orientation marker (labial / lingual / mesial / distal / crown as seen now) drawn into a
+  // frame of `size` pixels; also drawn over the view and into grab_image().
+  void draw_marker(QPainter& painter, const QSize& size) const;
   // Quick drawing while the view turns or a load slider moves: no see-through bone, half the
   // resolution (ModelScene::set_interacting, VtkView::set_quick). Off: full frame.
   void set_interacting(bool on);
@@ -78,8 +91,12 @@ class ResultView : public QWidget {
   ModelScene* scene() const { return scene_.get(); }
   // The view with its colour bar, as shown.
   QImage grab_image();
-  // The range of the last shown field (data range), in the quantity's unit.
+  // The range shown (core/quantity.h: over the PDL nodes outside the crest edge band), in the
+  // quantity's unit, and the range over the band's nodes (drawn clamped to the scale).
   const ValueRange& shown_range() const { return range_; }
+  const ValueRange& band_range() const { return band_range_; }
+  // analysis::pdl_crest_edge_band of the solution shown (one flag per PDL node).
+  const std::vector<char>& band() const { return band_; }
   // Read-out of the shown quantity at VTK display point (x, y) (see ModelScene::readout_at).
   HoverReadout readout_at(int x, int y);
 
@@ -98,6 +115,11 @@ class ResultView : public QWidget {
   QComboBox* bone_box_ = nullptr;
   QComboBox* section_box_ = nullptr;
   QCheckBox* glyphs_box_ = nullptr;
+  QComboBox* view_box_ = nullptr;
+  QComboBox* scale_box_ = nullptr;
+  ScaleMode scale_mode_ = ScaleMode::kShown;
+  ValueRange frozen_;       // the kept range of ScaleMode::kFixed
+  bool refreeze_ = false;   // the quantity changed under kFixed: keep the new quantity's range
   std::unique_ptr<ModelScene> scene_;
   Quantity quantity_ = Quantity::kPressure;
   const analysis::ScenarioSolution* solution_ = nullptr;
@@ -105,7 +127,8 @@ class ResultView : public QWidget {
   analysis::Thresholds thresholds_;
   QString force_text_;
   std::optional<ValueRange> fixed_range_;
-  ValueRange range_;
+  ValueRange range_, band_range_;
+  std::vector<char> band_;  // analysis::pdl_crest_edge_band of the solution shown
   bool camera_set_ = false;
   // The hover read-out picks at most every 40 ms, at the newest mouse position.
   QTimer hover_timer_;

@@ -3,6 +3,7 @@
 #include <QImage>
 #include <QMouseEvent>
 #include <QPainter>
+#include <algorithm>
 #include <cmath>
 
 #include "core/axis_ticks.h"
@@ -74,7 +75,10 @@ void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
     painter.restore();
     return;
   }
-  const int bar_width = 110;
+  // Room for the colour bar as ColourBar::draw lays it out with this font: the longest threshold
+  // name and its leader, the bar (20 px), then the tick labels; a fixed width clipped the labels.
+  const int bar_width = std::max(110, fm.horizontalAdvance(QStringLiteral("capillary")) + 8 + 12 + 20 + 6 +
+                                          fm.horizontalAdvance(QStringLiteral("-000.0")) + 6);
   const QRect title_rect(area.left() + 8, area.top() + 4, area.width() - 16, line + 4);
   QFont title_font = painter.font();
   title_font.setBold(true);

@@ -198,11 +198,17 @@ void VtkView::paintEvent(QPaintEvent*) {
   if (quick_) {
     painter.setRenderHint(QPainter::SmoothPixmapTransform, true);
     painter.drawImage(rect(), frame_);
-    return;
+  } else {
+    QImage shown = frame_;
+    shown.setDevicePixelRatio(devicePixelRatioF());
+    painter.drawImage(QPointF(0, 0), shown);
   }
-  QImage shown = frame_;
-  shown.setDevicePixelRatio(devicePixelRatioF());
-  painter.drawImage(QPointF(0, 0), shown);
+  if (decoration_) decoration_(painter, size());
+}
+
+void VtkView::set_decoration(std::function<void(QPainter&, const QSize&)> draw) {
+  decoration_ = std::move(draw);
+  update();
 }
 
 void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_data) {

@@ -13,11 +13,13 @@
 
 #include <QImage>
 #include <QWidget>
+#include <functional>
 #include <memory>
 #include <vtkNew.h>
 #include <vtkSmartPointer.h>
 
 class QOffscreenSurface;
+class QPainter;
 class QOpenGLContext;
 class QOpenGLFramebufferObject;
 
@@ -45,6 +47,11 @@ class VtkView : public QWidget {
   vtkRenderer* overlay() const;
   vtkCamera* camera() const;
   vtkGenericOpenGLRenderWindow* render_window() const;
+
+  // Drawn over every frame shown (and over grabbed frames by the caller's choice): `draw` gets a
+  // painter on the widget and the widget's size in pixels. Empty: nothing.
+  void set_decoration(std::function<void(QPainter&, const QSize&)> draw);
+  const std::function<void(QPainter&, const QSize&)>& decoration() const { return decoration_; }
 
   // Copies position, focal point, view-up and view angle from `other` (for linked views).
   void copy_camera_from(vtkCamera* other);
@@ -123,6 +130,7 @@ class VtkView : public QWidget {
   int base_dpi_ = 72;            // the render window's DPI for full frames
   double rendered_scale_ = 1.0;  // pixel scale of the last frame
   int frames_ = 0;
+  std::function<void(QPainter&, const QSize&)> decoration_;
 };
 
 }  // namespace sharpey::app
