@@ -110,7 +110,10 @@ void FindingsPanel::show_result(const analysis::ScenarioResult& r, const analysi
   badge_->setText(v.headline);
   badge_->setStyleSheet(QStringLiteral("background: %1; color: white; font-weight: bold; border-radius: 4px;")
                             .arg(back.name()));
-  detail_->setText(v.detail);
+  // A scenario whose ligament strain leaves the linear range says so beside the verdict.
+  detail_->setText(r.beyond_linear_range
+                       ? v.detail + QStringLiteral("\n\n") + QString::fromStdString(analysis::beyond_linear_range_text(r))
+                       : v.detail);
   stale_->setVisible(stale);
   int row = 0;
   for (const auto& [name, value] : key_number_rows(r, reference_pending)) {

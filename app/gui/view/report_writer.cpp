@@ -230,6 +230,9 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     painter.setPen(Qt::black);
     pg.y = badge.bottom() + line / 2;
     pg.paragraph(v.detail);
+    if (r.beyond_linear_range) {
+      pg.paragraph(QString::fromStdString(analysis::beyond_linear_range_text(r)), QColor(120, 60, 0), true);
+    }
     pg.rows(key_number_rows(r), body.width() / 3);
     footer(painter, page, ++pages, in.case_file);
   }
@@ -286,7 +289,10 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     // A reading for every bone level, not only the one on display.
     pg.heading(QStringLiteral("Reading per bone level"));
     for (const analysis::ScenarioResult& level : results)
-      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") + judge(level, spec.thresholds).detail);
+      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") + judge(level, spec.thresholds).detail +
+                   (level.beyond_linear_range
+                        ? QStringLiteral(" ") + QString::fromStdString(analysis::beyond_linear_range_text(level))
+                        : QString()));
     TrendPlot plot;
     plot.set_table(table);
     const int plot_height = body.bottom() - pg.y;
