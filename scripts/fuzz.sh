@@ -23,12 +23,12 @@ sources=(
 )
 flags=(-std=c++17 -O1 -g -fno-omit-frame-pointer -fsanitize=address,undefined
   -fno-sanitize-recover=all -I"$SHARPEY_ROOT/analysis/include" -I"$SHARPEY_ROOT/fem/include"
-  -I"$SHARPEY_ROOT/mesh/include" -isystem /usr/include/eigen3)
+  -I"$SHARPEY_ROOT/mesh/include" -I"$SHARPEY_ROOT/core/include" -isystem /usr/include/eigen3)
 objects=()
 for src in "${sources[@]}" tests/fuzz/fuzz_case_parse.cpp; do
   obj="$build/objects/$(echo "$src" | tr / _).o"
   if [ ! -f "$obj" ] || [ "$SHARPEY_ROOT/$src" -nt "$obj" ] ||
-    [ -n "$(find "$SHARPEY_ROOT/analysis/include" "$SHARPEY_ROOT/mesh/include" \
+    [ -n "$(find "$SHARPEY_ROOT/analysis/include" "$SHARPEY_ROOT/mesh/include" "$SHARPEY_ROOT/core/include" \
       "$SHARPEY_ROOT/analysis/src" "$SHARPEY_ROOT/mesh/src" -name '*.h' -newer "$obj")" ]; then
     clang++-14 "${flags[@]}" -fsanitize=fuzzer-no-link -c "$SHARPEY_ROOT/$src" -o "$obj"
   fi

@@ -6,6 +6,7 @@
 #include <string>
 
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::analysis::case_keys {
 
@@ -43,10 +44,14 @@ inline constexpr BoneKey kBoneKeys[] = {
 // tooth.idealised_root.shape
 inline const char* ideal_root_name(mesh::IdealRoot r) {
   switch (r) {
-    case mesh::IdealRoot::kCylinder: return "cylinder";
-    case mesh::IdealRoot::kCone: return "cone";
-    case mesh::IdealRoot::kParaboloid: return "paraboloid";
-    case mesh::IdealRoot::kNone: break;
+    case mesh::IdealRoot::kCylinder:
+      return "cylinder";
+    case mesh::IdealRoot::kCone:
+      return "cone";
+    case mesh::IdealRoot::kParaboloid:
+      return "paraboloid";
+    case mesh::IdealRoot::kNone:
+      break;
   }
   return "none";
 }
@@ -56,8 +61,11 @@ struct MomentUnit {
   const char* name;
   double nmm_per_unit;
 };
-inline constexpr MomentUnit kMomentUnits[] = {
-    {"N.mm", 1.0}, {"Nmm", 1.0}, {"cN.mm", 0.01}, {"g.mm", 0.00980665}, {"gf.mm", 0.00980665}};
+inline constexpr MomentUnit kMomentUnits[] = {{"N.mm", 1.0},
+                                              {"Nmm", 1.0},
+                                              {"cN.mm", 0.01},
+                                              {"g.mm", sharpey::core::kNewtonsPerGramForce},
+                                              {"gf.mm", sharpey::core::kNewtonsPerGramForce}};
 
 // Case-file path of a key reported by mesh::validate (a ModelSpec field path such as
 // "pdl.crest_width_mm" or "loss.horizontal_mm"). `scenario` >= 0 prefixes bone-loss keys with

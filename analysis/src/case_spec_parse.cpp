@@ -17,6 +17,7 @@
 
 #include "case_spec_keys.h"
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis {
@@ -544,7 +545,7 @@ void read_load(Fields l, CaseSpec& spec) {
                              "(x-y) plane, +90 extrusive, -90 intrusive");
       if (!std::isfinite(azimuth))
         throw InputError(a.path_of("azimuth_deg"), a.path_of("azimuth_deg") + " is not finite");
-      const double deg = 3.14159265358979323846 / 180.0;
+      const double deg = sharpey::core::kRadiansPerDegree;
       load.direction = Eigen::Vector3d(std::cos(elevation * deg) * std::cos(azimuth * deg),
                                        std::cos(elevation * deg) * std::sin(azimuth * deg),
                                        std::sin(elevation * deg));

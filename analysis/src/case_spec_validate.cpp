@@ -8,6 +8,7 @@
 
 #include "case_spec_keys.h"
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis {
@@ -16,8 +17,8 @@ namespace {
 
 // Plausibility bounds (not clinical advice): they catch unit mistakes such as newtons typed as
 // grams-force or kPa typed as MPa.
-constexpr double kMaxForceN = 2000 * 0.00980665;  // 2000 g
-constexpr double kMaxMomentNmm = 200.0;           // about 20000 g.mm
+constexpr double kMaxForceN = 2000 * sharpey::core::kNewtonsPerGramForce;  // 2000 g
+constexpr double kMaxMomentNmm = 200.0;                                    // about 20000 g.mm
 constexpr double kMaxRatioMm = 30.0;
 constexpr double kMaxThresholdKpa = 1000.0;
 constexpr int kMaxScenarios = 12;

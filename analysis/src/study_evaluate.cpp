@@ -10,11 +10,12 @@
 #include "sharpey/analysis/detail/root_map.h"
 #include "sharpey/analysis/detail/root_surface.h"
 #include "sharpey/analysis/study.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::analysis {
 namespace {
 
-constexpr double kRadToDeg = 180.0 / 3.14159265358979323846;
+constexpr double kRadToDeg = sharpey::core::kDegreesPerRadian;
 constexpr double kP95AreaShare = 0.05;  // the 95th percentile: level exceeded on 5 % of the area
 
 // Hydrostatic pressure (kPa, compression positive) per PDL node under a resolved load.
@@ -34,7 +35,8 @@ double at(const std::vector<double>& v, size_t i) { return v[i]; }
 // Largest value of `v` over the nodes outside the edge band (over all nodes when the band holds
 // every node); `band_peak` receives the largest value inside the band (or -inf).
 template <typename Values>
-double max_outside_band(const Values& v, const std::vector<char>& band, double* band_peak = nullptr) {
+double max_outside_band(const Values& v, const std::vector<char>& band,
+                        double* band_peak = nullptr) {
   double outside = -std::numeric_limits<double>::infinity();
   double inside = -std::numeric_limits<double>::infinity();
   for (size_t i = 0; i < band.size(); ++i) {
@@ -69,7 +71,8 @@ PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadS
 
 // Cells of the root map inside the edge band: the nodal band indicator interpolated like the
 // pressure, at least one half.
-std::vector<char> root_map_edge_band(const ScenarioSolution& solution, const std::vector<char>& band) {
+std::vector<char> root_map_edge_band(const ScenarioSolution& solution,
+                                     const std::vector<char>& band) {
   Eigen::VectorXd indicator(static_cast<Eigen::Index>(band.size()));
   for (size_t i = 0; i < band.size(); ++i) indicator(static_cast<Eigen::Index>(i)) = band[i];
   const RootMap map = solution.root_map_sampler().sample(indicator);

@@ -5,13 +5,14 @@
 #include <unordered_map>
 
 #include "sharpey/analysis/detail/root_map.h"
+#include "sharpey/core/constants.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::analysis::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr double kPoleRadiusMm = 1e-6;  // a corner this close to the axis has no angle
 
 }  // namespace
@@ -103,7 +104,7 @@ RootMapSampler::RootMapSampler(const mesh::VolumeMesh& mesh, int marker,
               det;
           const double tol = 1e-9;
           if (xi < -tol || eta < -tol || xi + eta > 1 + tol) continue;
-          const Eigen::VectorXd N = mesh::tri_shape(k, Eigen::Vector2d(xi, eta));
+          const Eigen::VectorXd N = core::tri_shape(k, Eigen::Vector2d(xi, eta));
           for (int a = 0; a < k; ++a) {
             if (N(a) != 0.0) triplets.emplace_back(static_cast<int>(cell), entries[a], N(a));
           }

@@ -5,8 +5,8 @@
 #include <unordered_map>
 
 #include "sharpey/analysis/detail/root_surface.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::analysis::detail {
 double triangle_fraction_above(double a, double b, double c, double level) {
@@ -69,7 +69,7 @@ RootSurfaceSampler::RootSurfaceSampler(const mesh::VolumeMesh& mesh, int marker,
     }
     const int base = n_sub;
     for (const auto& r : ref) {
-      const Eigen::VectorXd N = mesh::tri_shape(k, Eigen::Vector2d(r[0], r[1]));
+      const Eigen::VectorXd N = core::tri_shape(k, Eigen::Vector2d(r[0], r[1]));
       for (int a = 0; a < k; ++a) {
         if (N(a) != 0.0) triplets.emplace_back(n_sub, entries[a], N(a));
       }
@@ -82,7 +82,7 @@ RootSurfaceSampler::RootSurfaceSampler(const mesh::VolumeMesh& mesh, int marker,
       const double eta = (ref[static_cast<size_t>(t[0])][1] + ref[static_cast<size_t>(t[1])][1] +
                           ref[static_cast<size_t>(t[2])][1]) /
                          3;
-      const Eigen::MatrixXd G = mesh::tri_shape_gradient(k, Eigen::Vector2d(xi, eta));
+      const Eigen::MatrixXd G = core::tri_shape_gradient(k, Eigen::Vector2d(xi, eta));
       Eigen::Vector3d gx = Eigen::Vector3d::Zero(), gy = Eigen::Vector3d::Zero();
       for (int a = 0; a < k; ++a) {
         gx += G(a, 0) * mesh.nodes[static_cast<size_t>(nodes[a])];
@@ -138,7 +138,10 @@ double RootSurfaceSampler::level_exceeded_on(const Eigen::VectorXd& sampled,
     for (const Straddling& t : active) {
       area += t.area_mm2 * triangle_fraction_above(t.a, t.b, t.c, mid);
     }
-    if (area > target) lo = mid; else hi = mid;
+    if (area > target)
+      lo = mid;
+    else
+      hi = mid;
     size_t kept = 0;
     for (const Straddling& t : active) {
       const double t_min = std::min({t.a, t.b, t.c}), t_max = std::max({t.a, t.b, t.c});

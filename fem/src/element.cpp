@@ -69,9 +69,9 @@ bool element_is_straight(const mesh::VolumeMesh& mesh, int e) {
   return detail::is_straight<10>(detail::element_coordinates<10>(mesh, e));
 }
 
-mesh::QuadratureRule stiffness_quadrature(const mesh::VolumeMesh& mesh, int e) {
-  if (mesh.nodes_per_element == 4) return mesh::tet_quadrature(1);
-  return mesh::tet_quadrature(
+core::QuadratureRule stiffness_quadrature(const mesh::VolumeMesh& mesh, int e) {
+  if (mesh.nodes_per_element == 4) return core::tet_quadrature(1);
+  return core::tet_quadrature(
       detail::stiffness_degree<10>(detail::element_coordinates<10>(mesh, e)));
 }
 
@@ -87,7 +87,7 @@ Eigen::MatrixXd stiffness_of(const mesh::VolumeMesh& mesh, int e, const Matrix6d
 template <int K>
 Eigen::MatrixXd b_of(const mesh::VolumeMesh& mesh, int e, const Eigen::Vector3d& p, double* det) {
   const detail::NodeCoords<K> X = detail::element_coordinates<K>(mesh, e);
-  const detail::ShapeGradient<K> dN = mesh::tet_shape_gradient(K, p);
+  const detail::ShapeGradient<K> dN = core::tet_shape_gradient(K, p);
   detail::ShapeGradient<K> G = detail::ShapeGradient<K>::Zero();
   const double d = detail::physical_gradient<K>(X, dN, &G);
   if (det) *det = d;

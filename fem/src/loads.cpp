@@ -1,3 +1,5 @@
+#include "sharpey/fem/loads.h"
+
 #include <Eigen/Dense>
 #include <cmath>
 #include <sstream>
@@ -5,9 +7,8 @@
 #include <vector>
 
 #include "detail/kinematics.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/loads.h"
-#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::fem {
 namespace {
@@ -23,12 +24,12 @@ struct FaceIntegrals {
 FaceIntegrals integrate_faces(const mesh::VolumeMesh& m, int marker) {
   detail::validate_mesh(m);
   const int n = m.n_nodes(), k = m.nodes_per_face;
-  const mesh::TriangleQuadrature rule = mesh::tri_quadrature(5);
+  const core::TriangleQuadrature rule = core::tri_quadrature(5);
   std::vector<Eigen::VectorXd> N;
   std::vector<Eigen::MatrixXd> dN;
   for (const Eigen::Vector2d& p : rule.points) {
-    N.push_back(mesh::tri_shape(k, p));
-    dN.push_back(mesh::tri_shape_gradient(k, p));
+    N.push_back(core::tri_shape(k, p));
+    dN.push_back(core::tri_shape_gradient(k, p));
   }
   FaceIntegrals out;
   out.area = Eigen::VectorXd::Zero(n);
@@ -87,8 +88,8 @@ Eigen::VectorXd pressure_load(const mesh::VolumeMesh& mesh, int marker, double p
   return -pressure_mpa * fi.vector_area;
 }
 
-Eigen::VectorXd patch_load(const mesh::VolumeMesh& mesh, int marker,
-                           const Eigen::Vector3d& force_n, const Eigen::Vector3d& moment_nmm,
+Eigen::VectorXd patch_load(const mesh::VolumeMesh& mesh, int marker, const Eigen::Vector3d& force_n,
+                           const Eigen::Vector3d& moment_nmm,
                            const Eigen::Vector3d& reference_point) {
   const FaceIntegrals fi = integrate_faces(mesh, marker);
   double area = 0;

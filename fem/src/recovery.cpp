@@ -37,7 +37,7 @@ const RecoveryTable<K>& recovery_table() {
       Eigen::Matrix4d A;  // A(q, j) = L_j(point q)
       for (int q = 0; q < 4; ++q) A.row(q) = barycentric(t.points->points[static_cast<size_t>(q)]).transpose();
       Eigen::Matrix<double, K, 4> at_nodes;
-      for (int a = 0; a < K; ++a) at_nodes.row(a) = barycentric(mesh::tet_node_reference(a)).transpose();
+      for (int a = 0; a < K; ++a) at_nodes.row(a) = barycentric(core::tet_node_reference(a)).transpose();
       t.to_nodes = at_nodes * A.inverse();
     }
     return t;
@@ -160,7 +160,7 @@ void element_quadrature_stress(const mesh::VolumeMesh& mesh, int e, const Matrix
                                Eigen::Matrix<double, 6, Eigen::Dynamic>* stress_mpa,
                                Eigen::Matrix3Xd* points_mm) {
   const int k = mesh.nodes_per_element;
-  const mesh::QuadratureRule rule = mesh::tet_quadrature(k == 10 ? 2 : 1);
+  const core::QuadratureRule rule = core::tet_quadrature(k == 10 ? 2 : 1);
   const int n_q = static_cast<int>(rule.points.size());
   Eigen::VectorXd ue(3 * k);
   const int* en = mesh.element(e);
@@ -176,7 +176,7 @@ void element_quadrature_stress(const mesh::VolumeMesh& mesh, int e, const Matrix
       stress_mpa->col(q) = D * (B * ue);
     }
     if (points_mm) {
-      const Eigen::VectorXd N = mesh::tet_shape(k, p);
+      const Eigen::VectorXd N = core::tet_shape(k, p);
       Eigen::Vector3d x = Eigen::Vector3d::Zero();
       for (int a = 0; a < k; ++a) x += N(a) * mesh.nodes[static_cast<size_t>(en[a])];
       points_mm->col(q) = x;

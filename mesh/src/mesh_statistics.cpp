@@ -1,21 +1,21 @@
 // measure(): counts, curved volumes and areas, element quality and PDL width of a mesh.
 #include "sharpey/mesh/mesh_statistics.h"
 
+#include <Eigen/Geometry>
 #include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
 
-#include <Eigen/Geometry>
-
+#include "sharpey/core/constants.h"
+#include "sharpey/core/reference_tetrahedron.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
-#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::mesh {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 void check_mesh(const VolumeMesh& m) {
   const std::string stage = "measuring the mesh: ";
@@ -45,13 +45,13 @@ void vertex_quality(const Eigen::Vector3d x[4], double* min_dihedral, double* ma
   // Outward normals of the faces opposite each vertex (orientation-independent via the sign fix).
   Eigen::Vector3d n[4];
   for (int f = 0; f < 4; ++f) {
-    const auto& t = kTetFaces[static_cast<size_t>(f)];
+    const auto& t = core::kTetFaces[static_cast<size_t>(f)];
     n[f] = (x[t[1]] - x[t[0]]).cross(x[t[2]] - x[t[0]]);
     if (n[f].dot(x[f] - x[t[0]]) > 0) n[f] = -n[f];
     n[f].normalize();
   }
   *min_dihedral = 180, *max_dihedral = 0;
-  for (const auto& e : kTetEdges) {
+  for (const auto& e : core::kTetEdges) {
     // The two faces containing edge (e0, e1) are those opposite the other two vertices.
     int others[2], m = 0;
     for (int v = 0; v < 4; ++v)
@@ -64,9 +64,9 @@ void vertex_quality(const Eigen::Vector3d x[4], double* min_dihedral, double* ma
   const Eigen::Vector3d a = x[1] - x[0], b = x[2] - x[0], c = x[3] - x[0];
   const double six_v = a.dot(b.cross(c));
   double shortest = std::numeric_limits<double>::max();
-  for (const auto& e : kTetEdges) shortest = std::min(shortest, (x[e[1]] - x[e[0]]).norm());
-  const Eigen::Vector3d num = a.squaredNorm() * b.cross(c) + b.squaredNorm() * c.cross(a) +
-                              c.squaredNorm() * a.cross(b);
+  for (const auto& e : core::kTetEdges) shortest = std::min(shortest, (x[e[1]] - x[e[0]]).norm());
+  const Eigen::Vector3d num =
+      a.squaredNorm() * b.cross(c) + b.squaredNorm() * c.cross(a) + c.squaredNorm() * a.cross(b);
   const double circumradius = num.norm() / (2.0 * std::abs(six_v));
   *radius_edge = six_v == 0 || shortest == 0 ? std::numeric_limits<double>::infinity()
                                              : circumradius / shortest;
@@ -76,12 +76,13 @@ void vertex_quality(const Eigen::Vector3d x[4], double* min_dihedral, double* ma
 // the loop).
 template <int K>
 void measure_elements(const VolumeMesh& m, MeshStatistics& s) {
-  const QuadratureRule rule = tet_quadrature(K == 10 ? 5 : 1);
+  const core::QuadratureRule rule = core::tet_quadrature(K == 10 ? 5 : 1);
   using Gradient = Eigen::Matrix<double, K, 3>;
   std::vector<Gradient> g_qp, g_nodes;
-  for (const auto& p : rule.points) g_qp.push_back(tet_shape_gradient(K, p));
+  for (const auto& p : rule.points) g_qp.push_back(core::tet_shape_gradient(K, p));
   if (K == 10) {  // for 4-node elements det J is constant: the quadrature point suffices
-    for (int i = 0; i < K; ++i) g_nodes.push_back(tet_shape_gradient(K, tet_node_reference(i)));
+    for (int i = 0; i < K; ++i)
+      g_nodes.push_back(core::tet_shape_gradient(K, core::tet_node_reference(i)));
   }
   s.min_jacobian_ratio = s.n_elements > 0 ? std::numeric_limits<double>::max() : 0.0;
   s.min_dihedral_deg = s.n_elements > 0 ? 180.0 : 0.0;
@@ -126,9 +127,9 @@ void measure_elements(const VolumeMesh& m, MeshStatistics& s) {
 // Area per marker of K-node faces: the integral of |x_u x x_v| over the reference triangle.
 template <int K>
 void measure_faces(const VolumeMesh& m, MeshStatistics& s) {
-  const TriangleQuadrature rule = tri_quadrature(K == 6 ? 5 : 1);
+  const core::TriangleQuadrature rule = core::tri_quadrature(K == 6 ? 5 : 1);
   std::vector<Eigen::Matrix<double, K, 2>> g;
-  for (const auto& p : rule.points) g.push_back(tri_shape_gradient(K, p));
+  for (const auto& p : rule.points) g.push_back(core::tri_shape_gradient(K, p));
   Eigen::Matrix<double, 3, K> Y;
   for (int f = 0; f < s.n_faces; ++f) {
     const int* fa = m.face(f);

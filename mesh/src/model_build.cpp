@@ -11,8 +11,8 @@
 #include <unordered_set>
 
 #include "detail/model_mesher.h"
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/second_order.h"
 
 namespace sharpey::mesh {
@@ -123,7 +123,7 @@ VolumeMesh ModelMesher::build_linear(const std::atomic<bool>* cancel) {
   element_faces.reserve(static_cast<size_t>(mesh.n_elements()) * 4);
   for (int e = 0; e < mesh.n_elements(); ++e) {
     const int* t = mesh.element(e);
-    for (const auto& f : kTetFaces) element_faces.emplace(t[f[0]], t[f[1]], t[f[2]]);
+    for (const auto& f : core::kTetFaces) element_faces.emplace(t[f[0]], t[f[1]], t[f[2]]);
   }
   int n_missing = 0;
   for (const Facet& f : facets_) {
@@ -145,7 +145,7 @@ VolumeMesh ModelMesher::build_linear(const std::atomic<bool>* cancel) {
   }
   std::unordered_set<TriangleKey, TriangleKeyHash> pdl_faces;
   for (const auto& t : pdl_tets_) {
-    for (const auto& lf : kTetFaces) {
+    for (const auto& lf : core::kTetFaces) {
       if (!pdl_faces.emplace(t[lf[0]], t[lf[1]], t[lf[2]]).second) continue;
       for (int k : lf) mesh.faces.push_back(t[k]);
       mesh.face_marker.push_back(kPdlHelperMarker);
@@ -200,8 +200,10 @@ double jacobian_ratio(const VolumeMesh& mesh, int e, const std::vector<Eigen::Ma
 // until every element's Jacobian ratio is at least `min_ratio`. Returns the number of moves.
 int straighten_folded(VolumeMesh* mesh, double min_ratio) {
   std::vector<Eigen::MatrixXd> grads;
-  for (int k = 0; k < 10; ++k) grads.push_back(tet_shape_gradient(10, tet_node_reference(k)));
-  for (const Eigen::Vector3d& p : tet_quadrature(2).points) grads.push_back(tet_shape_gradient(10, p));
+  for (int k = 0; k < 10; ++k)
+    grads.push_back(core::tet_shape_gradient(10, core::tet_node_reference(k)));
+  for (const Eigen::Vector3d& p : core::tet_quadrature(2).points)
+    grads.push_back(core::tet_shape_gradient(10, p));
   std::vector<int> suspects(mesh->n_elements());
   for (int e = 0; e < mesh->n_elements(); ++e) suspects[e] = e;
   int n_moves = 0;
@@ -218,7 +220,7 @@ int straighten_folded(VolumeMesh* mesh, double min_ratio) {
         const int m = t[4 + k];
         if (!moved.insert(m).second) continue;
         const Eigen::Vector3d mid =
-            0.5 * (mesh->nodes[t[kTetEdges[k][0]]] + mesh->nodes[t[kTetEdges[k][1]]]);
+            0.5 * (mesh->nodes[t[core::kTetEdges[k][0]]] + mesh->nodes[t[core::kTetEdges[k][1]]]);
         if ((mesh->nodes[m] - mid).squaredNorm() == 0) continue;
         mesh->nodes[m] = mid + keep * (mesh->nodes[m] - mid);
         ++n_moves;
@@ -292,8 +294,9 @@ ToothModel build_tooth_model(const ModelSpec& spec, const std::atomic<bool>* can
     if (ia == lookup.end() || ib == lookup.end()) return 0.5 * (a + b);
     const detail::PointInfo& pa = points.info()[ia->second];
     const detail::PointInfo& pb = points.info()[ib->second];
-    const bool tooth = pa.kind == detail::PointKind::kTooth && pb.kind == detail::PointKind::kTooth &&
-                       (has(kRootSurface) || has(kExposedRoot) || has(kCrownSurface) || has(kBracketPad));
+    const bool tooth =
+        pa.kind == detail::PointKind::kTooth && pb.kind == detail::PointKind::kTooth &&
+        (has(kRootSurface) || has(kExposedRoot) || has(kCrownSurface) || has(kBracketPad));
     const bool socket = pa.kind == detail::PointKind::kSocket &&
                         pb.kind == detail::PointKind::kSocket && has(kSocketSurface);
     if (!(tooth || socket || has(detail::kPdlHelperMarker))) return 0.5 * (a + b);

@@ -5,11 +5,12 @@
 #include <functional>
 
 #include "detail/model_frame.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::mesh::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr double kFdStep = 1e-6;  // central differences on the (theta, s) parameters
 
 // Integrates f(s) over [s0, s1] with `panels` Gauss-Legendre panels of `order` points.
@@ -53,7 +54,8 @@ double integrate_band(int n_theta, const LineRule& rule, const std::vector<doubl
     for (size_t c = 0; c + 1 < cuts.size(); ++c) {
       const double lo = cuts[c], hi = cuts[c + 1];
       double inner = 0;
-      for (size_t k = 0; k < rule.x.size(); ++k) inner += rule.w[k] * f(theta, lo + (hi - lo) * rule.x[k]);
+      for (size_t k = 0; k < rule.x.size(); ++k)
+        inner += rule.w[k] * f(theta, lo + (hi - lo) * rule.x[k]);
       total += inner * (hi - lo);
     }
   }
@@ -141,10 +143,12 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     return x.dot(xt.cross(xs)) / 3.0;
   };
   const double s_cap = shape.s_of_z(shape.crown_body_top());
-  g.tooth_volume_mm3 = integrate_band(n_theta, rule, knots, apex, cej, flux) +
-                       integrate_band(n_theta, rule, knots, cej, [&](double) { return s_cap; }, flux) +
-                       integrate_band(n_theta, rule, knots, [&](double) { return s_cap; },
-                                      [](double) { return 1.0; }, flux);
+  g.tooth_volume_mm3 =
+      integrate_band(n_theta, rule, knots, apex, cej, flux) +
+      integrate_band(
+          n_theta, rule, knots, cej, [&](double) { return s_cap; }, flux) +
+      integrate_band(
+          n_theta, rule, knots, [&](double) { return s_cap; }, [](double) { return 1.0; }, flux);
 
   // PDL: the map (theta, s, t) -> root point + t w n, t in [0, 1]; its Jacobian is quadratic in t.
   std::vector<double> tx, tw;
@@ -177,11 +181,10 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
                         const std::function<double(double)>& ring_s) {
     const double y0 = frame.y_distal(), y1 = frame.y_mesial();
     const double rect_area = (x1 - x0) * (y1 - y0);
-    const double top = defect ? integrate_rectangle(x0, x1, y0, y1, 0.1,
-                                                    [&](double x, double y) {
-                                                      return frame.bone_top(x, y);
-                                                    })
-                              : frame.crest_z() * rect_area;
+    const double top =
+        defect ? integrate_rectangle(x0, x1, y0, y1, 0.1,
+                                     [&](double x, double y) { return frame.bone_top(x, y); })
+               : frame.crest_z() * rect_area;
     // Opening: inside it the top is crest - depth * weight(polar angle); integrate over the
     // star-shaped region bounded by the ring, in the ring's parameter theta.
     double open_area = 0, open_weighted = 0;
@@ -201,8 +204,7 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
         frame.crest_z() * open_area - frame.spec().loss.defect_depth_mm * open_weighted;
     const double socket = integrate_band(n_theta, rule, knots, apex, ring_s, socket_z_flux);
     return (top - top_offset * rect_area) - (open_top - top_offset * open_area) -
-           frame.z_base() * (rect_area - open_area) - socket -
-           frame.z_base() * open_area;
+           frame.z_base() * (rect_area - open_area) - socket - frame.z_base() * open_area;
   };
   g.bone_volume_mm3 = block_part(frame.x_lingual(), frame.x_labial(), 0.0, crest);
   g.cancellous_volume_mm3 =

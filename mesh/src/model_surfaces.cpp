@@ -10,12 +10,13 @@
 #include <limits>
 
 #include "detail/model_mesher.h"
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
 namespace sharpey::mesh::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr double kMergeTolerance = 1e-9;  // mm
 constexpr double kCell = 1e-6;            // mm, hash cell of PointSet
 
@@ -49,7 +50,8 @@ std::vector<double> ring_arcs(const ToothShape& shape, double arc0, double arc1,
   for (int k = 1; k < n; ++k) {
     const double target = cumulative.back() * k / n;
     const int j = static_cast<int>(std::upper_bound(cumulative.begin(), cumulative.end(), target) -
-                                   cumulative.begin()) - 1;
+                                   cumulative.begin()) -
+                  1;
     const double f = (target - cumulative[j]) / (cumulative[j + 1] - cumulative[j]);
     arcs.push_back(arc0 + (j + f) * step);
   }
@@ -67,14 +69,16 @@ std::vector<double> crest_graded_fractions(double length, double d_start, double
   std::vector<double> cumulative(n_samples + 1, 0.0);
   for (int j = 0; j < n_samples; ++j) {
     const double d = d_start + (j + 0.5) * length / n_samples;
-    cumulative[j + 1] = cumulative[j] + (length / n_samples) / std::min(h_max, h_crest + (g - 1) * d);
+    cumulative[j + 1] =
+        cumulative[j] + (length / n_samples) / std::min(h_max, h_crest + (g - 1) * d);
   }
   const int n = std::max(1, static_cast<int>(std::lround(cumulative.back())));
   std::vector<double> t;
   for (int k = 1; k < n; ++k) {
     const double target = cumulative.back() * k / n;
     const int j = static_cast<int>(std::upper_bound(cumulative.begin(), cumulative.end(), target) -
-                                   cumulative.begin()) - 1;
+                                   cumulative.begin()) -
+                  1;
     t.push_back((j + (target - cumulative[j]) / (cumulative[j + 1] - cumulative[j])) / n_samples);
   }
   t.push_back(1.0);
@@ -169,14 +173,15 @@ void ModelMesher::build_tooth_surface() {
   {
     const double t_crown = 0.5 * h_crown;
     const std::vector<double> a1 = ring_arcs(shape, arc_tip, arc_hi, h_crown, t_crown);
-    for (size_t k = 0; k + 1 < a1.size(); ++k) specs.push_back(common(shape.s_of_arc(a1[k]), false));
+    for (size_t k = 0; k + 1 < a1.size(); ++k)
+      specs.push_back(common(shape.s_of_arc(a1[k]), false));
     specs.push_back(common(s_pad_hi, true));
     const std::vector<double> a2 = ring_arcs(shape, arc_hi, arc_lo, h_crown, t_crown);
     for (size_t k = 0; k + 1 < a2.size(); ++k) specs.push_back(common(shape.s_of_arc(a2[k]), true));
     specs.push_back(common(s_pad_lo, true));
     const std::vector<double> a3 = ring_arcs(shape, arc_lo, arc_cej, h_crown, t_crown);
     for (size_t k = 0; k + 1 < a3.size(); ++k) specs.push_back(common(shape.s_of_arc(a3[k]), true));
-  specs.push_back(common(0.0, true));
+    specs.push_back(common(0.0, true));
   }
   const int pad_hi_ring = [&] {
     for (size_t r = 0; r < specs.size(); ++r)
@@ -197,8 +202,7 @@ void ModelMesher::build_tooth_surface() {
   // overestimated the peak by 9 % against the fine preset). The first interval is 0.6 PDL
   // widths at the crest per layer of elements across the PDL, growing by about 35 % per ring.
   const PdlSpec& pdl_spec = frame_.spec().pdl;
-  const double h_crest =
-      std::min(h, 0.6 * pdl_spec.crest_width_mm / frame_.sizes().pdl_layers);
+  const double h_crest = std::min(h, 0.6 * pdl_spec.crest_width_mm / frame_.sizes().pdl_layers);
   auto band = [&](const std::vector<double>& arc_from, const std::vector<double>& arc_to,
                   const std::vector<double>* s_last, const std::vector<double>& t,
                   bool last_common) {
@@ -210,8 +214,9 @@ void ModelMesher::build_tooth_surface() {
       } else {
         r.s.resize(N);
         for (int i = 0; i < N; ++i) {
-          r.s[i] = (k == n && s_last) ? (*s_last)[i]
-                                       : shape.s_of_arc(arc_from[i] + (arc_to[i] - arc_from[i]) * t[k - 1]);
+          r.s[i] = (k == n && s_last)
+                       ? (*s_last)[i]
+                       : shape.s_of_arc(arc_from[i] + (arc_to[i] - arc_from[i]) * t[k - 1]);
         }
       }
       specs.push_back(r);
@@ -285,7 +290,8 @@ void ModelMesher::build_tooth_surface() {
     }
     for (int i = 0; i < spec.count; ++i) {
       const double theta = 2 * kPi * i / spec.count;
-      const double s = spec.s.size() == 1 ? spec.s[0] : spec.s[static_cast<size_t>(i) * N / spec.count];
+      const double s =
+          spec.s.size() == 1 ? spec.s[0] : spec.s[static_cast<size_t>(i) * N / spec.count];
       rings_[r].push_back(points_.add(shape.point(theta, s), {PointKind::kTooth, theta, s}));
     }
   }
@@ -351,7 +357,8 @@ void ModelMesher::build_pdl_layer() {
       for (int k = 1; k <= n_layers; ++k) {
         const double f = static_cast<double>(k) / n_layers;
         const PointKind kind = k == n_layers ? PointKind::kSocket : PointKind::kPdlLayer;
-        layer_[k][p] = points_.add(frame_.pdl_point(theta, info.s, f), {kind, info.theta, info.s, f});
+        layer_[k][p] =
+            points_.add(frame_.pdl_point(theta, info.s, f), {kind, info.theta, info.s, f});
       }
     }
   }
@@ -371,11 +378,11 @@ void ModelMesher::build_pdl_layer() {
     }
     add_facet(layer_[n_layers][t[0]], layer_[n_layers][t[1]], layer_[n_layers][t[2]],
               kSocketSurface, true, true);
-
   }
   const auto& x = points_.points();
   for (auto& tet : pdl_tets_) {
-    const double v = (x[tet[1]] - x[tet[0]]).dot((x[tet[2]] - x[tet[0]]).cross(x[tet[3]] - x[tet[0]]));
+    const double v =
+        (x[tet[1]] - x[tet[0]]).dot((x[tet[2]] - x[tet[0]]).cross(x[tet[3]] - x[tet[0]]));
     if (v < 0) std::swap(tet[1], tet[2]);
   }
 
@@ -389,8 +396,9 @@ void ModelMesher::build_pdl_layer() {
     Eigen::Vector3d xt, xs;
     shape.frame(info.theta, info.s, nullptr, &xt, &xs);
     for (int k = 0; k < n_layers; ++k) {
-      for (const auto& tri : {std::array<int, 3>{layer_[k][lo], layer_[k][hi], layer_[k + 1][hi]},
-                              std::array<int, 3>{layer_[k][lo], layer_[k + 1][hi], layer_[k + 1][lo]}}) {
+      for (const auto& tri :
+           {std::array<int, 3>{layer_[k][lo], layer_[k][hi], layer_[k + 1][hi]},
+            std::array<int, 3>{layer_[k][lo], layer_[k + 1][hi], layer_[k + 1][lo]}}) {
         Facet f{tri, kPdlCrest, false, true};
         orient(&f, xs);
         facets_.push_back(f);

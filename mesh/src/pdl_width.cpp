@@ -1,5 +1,6 @@
 // PDL width: nearest-point distance from root-surface nodes to the socket surface, with a
 // bounding-volume hierarchy over the socket triangles.
+#include <Eigen/Dense>
 #include <algorithm>
 #include <array>
 #include <cmath>
@@ -9,20 +10,18 @@
 #include <utility>
 #include <vector>
 
-#include <Eigen/Dense>
-
+#include "detail/triangle_tree.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/mesh_statistics.h"
-#include "sharpey/mesh/reference_triangle.h"
-#include "detail/triangle_tree.h"
 
 namespace sharpey::mesh {
 namespace {
 
-using Eigen::Vector2d;
-using Eigen::Vector3d;
 using detail::SearchTriangle;
 using detail::TriangleTree;
+using Eigen::Vector2d;
+using Eigen::Vector3d;
 
 // 63-bit Morton code of p inside `box` (21 bits per axis).
 std::uint64_t morton_code(const Vector3d& p, const Eigen::AlignedBox3d& box) {
@@ -59,13 +58,13 @@ Vector3d refine_on_patch(const VolumeMesh& m, int face, const Vector3d& p, Vecto
   Vector3d best = start;
   double best_d = (start - p).squaredNorm();
   for (int it = 0; it < 4; ++it) {
-    const Vector3d x = X * tri_shape(6, uv);
-    const Eigen::Matrix<double, 3, 2> J = X * tri_shape_gradient(6, uv);
+    const Vector3d x = X * core::tri_shape(6, uv);
+    const Eigen::Matrix<double, 3, 2> J = X * core::tri_shape_gradient(6, uv);
     const Eigen::Matrix2d A = J.transpose() * J;
     const Vector2d step = A.ldlt().solve(-J.transpose() * (x - p));
     if (!step.allFinite()) break;
     uv = clamp_to_triangle(uv + step);
-    const Vector3d y = X * tri_shape(6, uv);
+    const Vector3d y = X * core::tri_shape(6, uv);
     const double d = (y - p).squaredNorm();
     if (d >= best_d) break;
     best = y;
@@ -76,7 +75,8 @@ Vector3d refine_on_patch(const VolumeMesh& m, int face, const Vector3d& p, Vecto
 
 }  // namespace
 
-std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& m, int root_marker, int socket_marker) {
+std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& m, int root_marker,
+                                              int socket_marker) {
   const int k = m.nodes_per_face;
   if ((k != 3 && k != 6) || m.faces.size() != m.face_marker.size() * static_cast<size_t>(k)) {
     throw MeshError("measuring the PDL width: faces must have 3 or 6 nodes and one marker each");
@@ -105,7 +105,7 @@ std::vector<PdlWidthSample> pdl_width_samples(const VolumeMesh& m, int root_mark
       for (int c = 0; c < 3; ++c) {
         const int local = k == 6 ? kSub[s][c] : c;
         t.x[static_cast<size_t>(c)] = m.nodes[static_cast<size_t>(nodes[local])];
-        t.ref[static_cast<size_t>(c)] = tri_node_reference(local);
+        t.ref[static_cast<size_t>(c)] = core::tri_node_reference(local);
       }
       tris.push_back(t);
     }

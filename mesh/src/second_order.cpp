@@ -7,22 +7,26 @@
 #include <unordered_map>
 #include <utility>
 
+#include "sharpey/core/reference_tetrahedron.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
-#include "sharpey/mesh/reference_triangle.h"
 
 namespace sharpey::mesh {
 namespace {
 
 void check_linear(const VolumeMesh& m) {
   if (m.nodes_per_element != 4 || m.nodes_per_face != 3) {
-    throw MeshError("converting to a quadratic mesh: the input must have 4-node elements and 3-node "
-                    "faces, it has " + std::to_string(m.nodes_per_element) + "-node elements and " +
-                    std::to_string(m.nodes_per_face) + "-node faces");
+    throw MeshError(
+        "converting to a quadratic mesh: the input must have 4-node elements and 3-node "
+        "faces, it has " +
+        std::to_string(m.nodes_per_element) + "-node elements and " +
+        std::to_string(m.nodes_per_face) + "-node faces");
   }
-  if (m.elements.size() != m.element_region.size() * 4 || m.faces.size() != m.face_marker.size() * 3) {
-    throw MeshError("converting to a quadratic mesh: connectivity and region/marker arrays differ "
-                    "in length");
+  if (m.elements.size() != m.element_region.size() * 4 ||
+      m.faces.size() != m.face_marker.size() * 3) {
+    throw MeshError(
+        "converting to a quadratic mesh: connectivity and region/marker arrays differ "
+        "in length");
   }
   const int n = m.n_nodes();
   auto valid = [n](int v) { return v >= 0 && v < n; };
@@ -65,7 +69,8 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
   const int n_faces = linear.n_faces();
 
   EdgeNumbering edges(n_vertices);
-  edges.reserve(static_cast<size_t>(n_elements) * 7 / 5 + static_cast<size_t>(n_faces) * 3 / 2 + 16);
+  edges.reserve(static_cast<size_t>(n_elements) * 7 / 5 + static_cast<size_t>(n_faces) * 3 / 2 +
+                16);
   VolumeMesh q;
   q.nodes_per_element = 10;
   q.nodes_per_face = 6;
@@ -79,7 +84,8 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
     const int* t = linear.element(e);
     int* out = q.elements.data() + static_cast<size_t>(e) * 10;
     for (int k = 0; k < 4; ++k) out[k] = t[k];
-    for (int k = 0; k < 6; ++k) out[4 + k] = n_vertices + edges.id(t[kTetEdges[k][0]], t[kTetEdges[k][1]]);
+    for (int k = 0; k < 6; ++k)
+      out[4 + k] = n_vertices + edges.id(t[core::kTetEdges[k][0]], t[core::kTetEdges[k][1]]);
   }
   std::vector<std::pair<int, int>> edge_marker;  // (edge id, marker) for edges on faces
   edge_marker.reserve(static_cast<size_t>(n_faces) * 3);
@@ -88,7 +94,7 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
     int* out = q.faces.data() + static_cast<size_t>(f) * 6;
     for (int k = 0; k < 3; ++k) out[k] = tri[k];
     for (int k = 0; k < 3; ++k) {
-      const int edge = edges.id(tri[kTriEdges[k][0]], tri[kTriEdges[k][1]]);
+      const int edge = edges.id(tri[core::kTriEdges[k][0]], tri[core::kTriEdges[k][1]]);
       out[3 + k] = n_vertices + edge;
       edge_marker.emplace_back(edge, linear.face_marker[static_cast<size_t>(f)]);
     }
@@ -101,7 +107,8 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
   q.nodes.resize(static_cast<size_t>(n_vertices) + ends.size());
   for (size_t k = 0; k < ends.size(); ++k) {
     q.nodes[static_cast<size_t>(n_vertices) + k] =
-        0.5 * (linear.nodes[static_cast<size_t>(ends[k][0])] + linear.nodes[static_cast<size_t>(ends[k][1])]);
+        0.5 * (linear.nodes[static_cast<size_t>(ends[k][0])] +
+               linear.nodes[static_cast<size_t>(ends[k][1])]);
   }
   if (project) {
     std::vector<int> markers;
@@ -113,7 +120,8 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
       }
       const auto& ab = ends[static_cast<size_t>(edge)];
       q.nodes[static_cast<size_t>(n_vertices + edge)] =
-          project(markers, linear.nodes[static_cast<size_t>(ab[0])], linear.nodes[static_cast<size_t>(ab[1])]);
+          project(markers, linear.nodes[static_cast<size_t>(ab[0])],
+                  linear.nodes[static_cast<size_t>(ab[1])]);
     }
   }
   return q;
@@ -122,9 +130,9 @@ VolumeMesh make_second_order(const VolumeMesh& linear, const MidsideProjection& 
 VolumeMesh make_first_order(const VolumeMesh& mesh) {
   if (mesh.nodes_per_element == 4 && mesh.nodes_per_face == 3) return mesh;
   if (mesh.nodes_per_element != 10 || mesh.nodes_per_face != 6) {
-    throw MeshError("converting to a linear mesh: expected 10-node elements and 6-node faces, got " +
-                    std::to_string(mesh.nodes_per_element) + " and " +
-                    std::to_string(mesh.nodes_per_face));
+    throw MeshError(
+        "converting to a linear mesh: expected 10-node elements and 6-node faces, got " +
+        std::to_string(mesh.nodes_per_element) + " and " + std::to_string(mesh.nodes_per_face));
   }
   const int n = mesh.n_nodes();
   std::vector<int> new_index(static_cast<size_t>(n), -1);
@@ -150,11 +158,13 @@ VolumeMesh make_first_order(const VolumeMesh& mesh) {
   lin.face_marker = mesh.face_marker;
   lin.elements.reserve(static_cast<size_t>(mesh.n_elements()) * 4);
   for (int e = 0; e < mesh.n_elements(); ++e) {
-    for (int k = 0; k < 4; ++k) lin.elements.push_back(new_index[static_cast<size_t>(mesh.element(e)[k])]);
+    for (int k = 0; k < 4; ++k)
+      lin.elements.push_back(new_index[static_cast<size_t>(mesh.element(e)[k])]);
   }
   lin.faces.reserve(static_cast<size_t>(mesh.n_faces()) * 3);
   for (int f = 0; f < mesh.n_faces(); ++f) {
-    for (int k = 0; k < 3; ++k) lin.faces.push_back(new_index[static_cast<size_t>(mesh.face(f)[k])]);
+    for (int k = 0; k < 3; ++k)
+      lin.faces.push_back(new_index[static_cast<size_t>(mesh.face(f)[k])]);
   }
   return lin;
 }

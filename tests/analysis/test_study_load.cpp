@@ -8,12 +8,13 @@
 
 #include "sharpey/analysis/detail/centre_of_resistance.h"
 #include "sharpey/analysis/detail/load_resolution.h"
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 Eigen::Matrix3d cross_matrix(const Eigen::Vector3d& r) {
   Eigen::Matrix3d m;

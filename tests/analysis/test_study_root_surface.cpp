@@ -8,12 +8,13 @@
 
 #include "sharpey/analysis/detail/root_map.h"
 #include "sharpey/analysis/detail/root_surface.h"
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr int kMarker = 1;
 
 // Quadratic triangles on the surface of revolution radius rho(z) for z from z_top down to

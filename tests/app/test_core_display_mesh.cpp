@@ -8,7 +8,7 @@
 #include <tuple>
 
 #include "core/display_mesh.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/core/reference_tetrahedron.h"
 
 namespace sharpey::app {
 namespace {
@@ -39,7 +39,8 @@ mesh::VolumeMesh box_mesh(int nx, int ny, int nz, bool quadratic, int split_x = 
     for (int j = 0; j < ny; ++j)
       for (int i = 0; i < nx; ++i) {
         int corner[8];
-        for (int c = 0; c < 8; ++c) corner[c] = id(i + (c & 1), j + ((c >> 1) & 1), k + ((c >> 2) & 1));
+        for (int c = 0; c < 8; ++c)
+          corner[c] = id(i + (c & 1), j + ((c >> 1) & 1), k + ((c >> 2) & 1));
         for (const auto& t : kKuhn) {
           int v[4] = {corner[t[0]], corner[t[1]], corner[t[2]], corner[t[3]]};
           const Eigen::Vector3d& p0 = m.nodes[static_cast<size_t>(v[0])];
@@ -49,7 +50,7 @@ mesh::VolumeMesh box_mesh(int nx, int ny, int nz, bool quadratic, int split_x = 
           if (volume < 0) std::swap(v[1], v[2]);
           for (int a : v) m.elements.push_back(a);
           if (quadratic)
-            for (const auto& e : mesh::kTetEdges) m.elements.push_back(midside(v[e[0]], v[e[1]]));
+            for (const auto& e : core::kTetEdges) m.elements.push_back(midside(v[e[0]], v[e[1]]));
           m.element_region.push_back(i < split_x ? 1 : 2);
         }
       }
@@ -65,7 +66,8 @@ std::vector<Eigen::Vector3d> surface_points(const mesh::VolumeMesh& m, const Dis
 std::vector<Eigen::Vector3d> section_points(const mesh::VolumeMesh& m, const DisplaySection& s) {
   std::vector<Eigen::Vector3d> p;
   for (const EdgePoint& e : s.points)
-    p.push_back(interpolate(e, m.nodes[static_cast<size_t>(e.a)], m.nodes[static_cast<size_t>(e.b)]));
+    p.push_back(
+        interpolate(e, m.nodes[static_cast<size_t>(e.a)], m.nodes[static_cast<size_t>(e.b)]));
   return p;
 }
 
@@ -90,7 +92,8 @@ TEST_P(BoxBoundary, ClosedOutwardAndOfTheRightArea) {
   // Closed: every edge is used by exactly two triangles.
   std::map<std::pair<int, int>, int> uses;
   for (const auto& t : s.triangles)
-    for (int k = 0; k < 3; ++k) ++uses[std::minmax(t[static_cast<size_t>(k)], t[static_cast<size_t>((k + 1) % 3)])];
+    for (int k = 0; k < 3; ++k)
+      ++uses[std::minmax(t[static_cast<size_t>(k)], t[static_cast<size_t>((k + 1) % 3)])];
   for (const auto& [edge, count] : uses) EXPECT_EQ(count, 2);
 }
 INSTANTIATE_TEST_SUITE_P(LinearAndQuadratic, BoxBoundary, ::testing::Bool());
@@ -117,12 +120,14 @@ TEST_P(VisibleBoundary, LeavesOutTheFacesACoveringRegionHides) {
   const auto points = surface_points(m, left);
   for (const auto& t : left.triangles) {
     bool all_on_interface = true;
-    for (int k : t) all_on_interface = all_on_interface && points[static_cast<size_t>(k)].x() == 1.0;
+    for (int k : t)
+      all_on_interface = all_on_interface && points[static_cast<size_t>(k)].x() == 1.0;
     interface_face = interface_face || all_on_interface;
   }
   EXPECT_FALSE(interface_face);
   // Nothing covering: the whole boundary, same triangles as region_boundary.
-  EXPECT_EQ(visible_boundary(m, {1}, {}).triangles.size(), region_boundary(m, {1}).triangles.size());
+  EXPECT_EQ(visible_boundary(m, {1}, {}).triangles.size(),
+            region_boundary(m, {1}).triangles.size());
 }
 INSTANTIATE_TEST_SUITE_P(LinearAndQuadratic, VisibleBoundary, ::testing::Bool());
 
@@ -137,9 +142,11 @@ TEST_P(BoxSection, PlaneSectionsHaveTheExactArea) {
   // 3 * 2 * sqrt(1 + 0.2^2) (derived; the plane stays inside 0 < z < 2).
   const Eigen::Vector3d normal(-0.2, 0, 1);
   const DisplaySection oblique = plane_section(m, {1, 2}, {1.5, 0, 1}, normal);
-  EXPECT_NEAR(total_area(section_points(m, oblique), oblique.triangles), 6.0 * std::sqrt(1.04), 1e-12);
+  EXPECT_NEAR(total_area(section_points(m, oblique), oblique.triangles), 6.0 * std::sqrt(1.04),
+              1e-12);
   // Section points lie on the plane.
-  for (const auto& q : section_points(m, oblique)) EXPECT_NEAR(normal.normalized().dot(q - Eigen::Vector3d(1.5, 0, 1)), 0, 1e-12);
+  for (const auto& q : section_points(m, oblique))
+    EXPECT_NEAR(normal.normalized().dot(q - Eigen::Vector3d(1.5, 0, 1)), 0, 1e-12);
   // Only the chosen regions are cut.
   const mesh::VolumeMesh split = box_mesh(3, 2, 2, GetParam(), 1);
   const DisplaySection part = plane_section(split, {2}, {1.5, 1, 1}, {0, 0, 1});
@@ -155,7 +162,8 @@ TEST(Section, LinearFieldIsInterpolatedExactly) {
   const auto p = section_points(m, s);
   for (size_t i = 0; i < p.size(); ++i) {
     const EdgePoint& e = s.points[i];
-    const double v = interpolate(e, f(m.nodes[static_cast<size_t>(e.a)]), f(m.nodes[static_cast<size_t>(e.b)]));
+    const double v =
+        interpolate(e, f(m.nodes[static_cast<size_t>(e.a)]), f(m.nodes[static_cast<size_t>(e.b)]));
     EXPECT_NEAR(v, f(p[i]), 1e-12);
   }
 }

@@ -8,6 +8,7 @@
 #include <random>
 
 #include "core/hover_readout.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::app {
 namespace {
@@ -24,10 +25,11 @@ TEST(HoverSide, AnglesFollowTheToothFrame) {
     double angle;
     const char* side;
   };
-  for (const Case& c : {Case{0, "labial"}, Case{22, "labial"}, Case{23, "mesiolabial"}, Case{45, "mesiolabial"},
-                        Case{90, "mesial"}, Case{135, "mesiolingual"}, Case{180, "lingual"},
-                        Case{-180, "lingual"}, Case{-135, "distolingual"}, Case{-90, "distal"},
-                        Case{270, "distal"}, Case{-45, "distolabial"}, Case{359, "labial"}, Case{-720, "labial"}}) {
+  for (const Case& c :
+       {Case{0, "labial"}, Case{22, "labial"}, Case{23, "mesiolabial"}, Case{45, "mesiolabial"},
+        Case{90, "mesial"}, Case{135, "mesiolingual"}, Case{180, "lingual"}, Case{-180, "lingual"},
+        Case{-135, "distolingual"}, Case{-90, "distal"}, Case{270, "distal"},
+        Case{-45, "distolabial"}, Case{359, "labial"}, Case{-720, "labial"}}) {
     SCOPED_TRACE(c.angle);
     EXPECT_EQ(side_name(c.angle), QString::fromLatin1(c.side));
   }
@@ -38,7 +40,8 @@ TEST(HoverSurface, LinearFieldIsReproducedExactlyOnEveryTriangle) {
   // a flat triangle reproduces it exactly at any point inside (derived).
   std::vector<Eigen::Vector3d> points;
   for (int i = 0; i <= 4; ++i)
-    for (int j = 0; j <= 1; ++j) points.emplace_back(1.0 + 0.1 * j, 0.5 * i, -2.0 - 0.7 * i + 0.2 * j);
+    for (int j = 0; j <= 1; ++j)
+      points.emplace_back(1.0 + 0.1 * j, 0.5 * i, -2.0 - 0.7 * i + 0.2 * j);
   std::vector<std::array<int, 3>> triangles;
   for (int i = 0; i < 4; ++i) {
     triangles.push_back({2 * i, 2 * i + 1, 2 * i + 3});
@@ -58,13 +61,14 @@ TEST(HoverSurface, LinearFieldIsReproducedExactlyOnEveryTriangle) {
       }
       const auto& tri = triangles[static_cast<size_t>(t)];
       const Eigen::Vector3d p = (1 - a - b) * points[static_cast<size_t>(tri[0])] +
-                                a * points[static_cast<size_t>(tri[1])] + b * points[static_cast<size_t>(tri[2])];
+                                a * points[static_cast<size_t>(tri[1])] +
+                                b * points[static_cast<size_t>(tri[2])];
       EXPECT_NEAR(value_on_triangle(points, triangles, values, t, p), f(p), 1e-12);
       const HoverReadout r = surface_readout(points, triangles, values, Quantity::kPressure, t, p);
       ASSERT_TRUE(r.has_position && r.has_value);
       EXPECT_NEAR(r.value, f(p), 1e-12);
       EXPECT_NEAR(r.depth_mm, -p.z(), 1e-12);
-      EXPECT_NEAR(r.angle_deg, std::atan2(p.y(), p.x()) * 180 / 3.14159265358979323846, 1e-9);
+      EXPECT_NEAR(r.angle_deg, std::atan2(p.y(), p.x()) * 180 / sharpey::core::kPi, 1e-9);
     }
   }
 }
@@ -89,12 +93,14 @@ TEST(HoverSurface, PicksOffTheTriangleAreClampedAndBadInputGivesNoValue) {
   EXPECT_TRUE(std::isnan(value_on_triangle(points, triangles, {0, kNan, 20}, 0, {0.2, 0.2, -1})));
   const std::vector<Eigen::Vector3d> flat = {{0, 0, 0}, {1, 0, 0}, {2, 0, 0}};
   EXPECT_TRUE(std::isnan(value_on_triangle(flat, triangles, values, 0, {1, 0, 0})));
-  const HoverReadout miss = surface_readout(points, triangles, values, Quantity::kPressure, -1, {0, 0, -1});
+  const HoverReadout miss =
+      surface_readout(points, triangles, values, Quantity::kPressure, -1, {0, 0, -1});
   EXPECT_FALSE(miss.has_position);
   EXPECT_TRUE(describe(miss).isEmpty());
 }
 
-// A root map whose cell (row i, column j) holds 100 i + j; row 0 without ligament (above the crest).
+// A root map whose cell (row i, column j) holds 100 i + j; row 0 without ligament (above the
+// crest).
 analysis::RootMap numbered_map() {
   analysis::RootMap m;
   m.n_angle = 36;

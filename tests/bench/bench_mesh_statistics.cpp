@@ -3,13 +3,14 @@
 #include <Eigen/Geometry>
 #include <algorithm>
 #include <array>
-#include <ctime>
 #include <cmath>
 #include <cstdio>
+#include <ctime>
 #include <map>
 #include <utility>
 #include <vector>
 
+#include "sharpey/core/constants.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/second_order.h"
 
@@ -24,10 +25,10 @@ void add_sphere(VolumeMesh& m, double radius, int levels, int marker) {
                                     {0, -1, t}, {0, 1, t}, {0, -1, -t}, {0, 1, -t},
                                     {t, 0, -1}, {t, 0, 1}, {-t, 0, -1}, {-t, 0, 1}};
   for (auto& x : p) x.normalize();
-  std::vector<std::array<int, 3>> f = {
-      {0, 11, 5}, {0, 5, 1},  {0, 1, 7},   {0, 7, 10}, {0, 10, 11}, {1, 5, 9}, {5, 11, 4},
-      {11, 10, 2}, {10, 7, 6}, {7, 1, 8},  {3, 9, 4},  {3, 4, 2},   {3, 2, 6}, {3, 6, 8},
-      {3, 8, 9},  {4, 9, 5},  {2, 4, 11}, {6, 2, 10}, {8, 6, 7},   {9, 8, 1}};
+  std::vector<std::array<int, 3>> f = {{0, 11, 5}, {0, 5, 1},  {0, 1, 7},   {0, 7, 10}, {0, 10, 11},
+                                       {1, 5, 9},  {5, 11, 4}, {11, 10, 2}, {10, 7, 6}, {7, 1, 8},
+                                       {3, 9, 4},  {3, 4, 2},  {3, 2, 6},   {3, 6, 8},  {3, 8, 9},
+                                       {4, 9, 5},  {2, 4, 11}, {6, 2, 10},  {8, 6, 7},  {9, 8, 1}};
   for (int l = 0; l < levels; ++l) {
     std::map<std::pair<int, int>, int> mid;
     auto midpoint = [&](int a, int b) {
@@ -40,7 +41,8 @@ void add_sphere(VolumeMesh& m, double radius, int levels, int marker) {
     };
     std::vector<std::array<int, 3>> next;
     for (const auto& tri : f) {
-      const int a = midpoint(tri[0], tri[1]), b = midpoint(tri[1], tri[2]), c = midpoint(tri[2], tri[0]);
+      const int a = midpoint(tri[0], tri[1]), b = midpoint(tri[1], tri[2]),
+                c = midpoint(tri[2], tri[0]);
       next.push_back({tri[0], a, c});
       next.push_back({tri[1], b, a});
       next.push_back({tri[2], c, b});
@@ -94,6 +96,7 @@ int main() {
   timer = Timer();
   const MeshStatistics s = measure(q);
   std::printf("measure() on the curved faces: %.3f s CPU, root area %.4f mm^2 (exact %.4f)\n",
-              timer.seconds(), s.area_per_marker_mm2.at(kRootSurface), 4 * 3.14159265358979323846 * 9.0);
+              timer.seconds(), s.area_per_marker_mm2.at(kRootSurface),
+              4 * sharpey::core::kPi * 9.0);
   return 0;
 }

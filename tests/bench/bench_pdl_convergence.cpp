@@ -18,9 +18,10 @@
 #include <string>
 #include <vector>
 
+#include "sharpey/core/constants.h"
+#include "sharpey/fem/blas_kernels.h"
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
-#include "sharpey/fem/blas_kernels.h"
 
 namespace {
 
@@ -49,8 +50,8 @@ int run(int argc, char** argv) {
       spec.sizing.pdl_layers = std::atoi(argv[++i]);
     } else if (std::strcmp(argv[i], "--ordering") == 0 && has_value) {
       const std::string o = argv[++i];
-      options.ordering = o == "metis" ? fem::Ordering::kMetis
-                         : o == "amd" ? fem::Ordering::kAmd
+      options.ordering = o == "metis"    ? fem::Ordering::kMetis
+                         : o == "amd"    ? fem::Ordering::kAmd
                          : o == "nesdis" ? fem::Ordering::kNesdis
                                          : fem::Ordering::kMetisNodes;
     } else if (std::strcmp(argv[i], "--mesh-only") == 0) {
@@ -60,7 +61,8 @@ int run(int argc, char** argv) {
     } else {
       std::fprintf(stderr,
                    "usage: bench_pdl_convergence [--preset coarse|standard|fine] [--pdl-edge MM] "
-                   "[--bone-edge MM] [--layers N] [--ordering metis|amd|nesdis|metis-nodes] [--top K] [--mesh-only]\n");
+                   "[--bone-edge MM] [--layers N] [--ordering metis|amd|nesdis|metis-nodes] [--top "
+                   "K] [--mesh-only]\n");
       return 2;
     }
   }
@@ -82,8 +84,7 @@ int run(int argc, char** argv) {
                                         {mesh::kCorticalBone, {13700.0, 0.30}},
                                         {mesh::kCancellousBone, {1370.0, 0.30}}};
   t0 = std::chrono::steady_clock::now();
-  const fem::LinearElasticSolver solver(m, materials, fem::fix_faces(m, mesh::kFixedBone),
-                                        options);
+  const fem::LinearElasticSolver solver(m, materials, fem::fix_faces(m, mesh::kFixedBone), options);
   const double t_factor = seconds_since(t0);
   const Eigen::VectorXd u = solver.solve(fem::patch_load(
       m, mesh::kBracketPad, Eigen::Vector3d(-1, 0, 0), Eigen::Vector3d::Zero(), g.bracket_center));
@@ -111,12 +112,14 @@ int run(int argc, char** argv) {
   std::printf("sizes: pdl_edge %.3f mm, bone_edge %.3f mm, tooth_edge %.3f mm, %d PDL layer(s)\n",
               sizes.pdl_edge_mm, sizes.bone_edge_mm, sizes.tooth_edge_mm, sizes.pdl_layers);
   const fem::SolverStatistics& st = solver.statistics();
-  std::printf("dofs %d, elements %d, factor nonzeros %lld, mesh %.2f s, assemble+factorise %.2f s "
-              "(analyse %.2f s, factorise %.2f s, %.1f GFlop, %s)\n",
-              st.n_dofs, m.n_elements(), st.factor_nonzeros, t_mesh, t_factor, st.analyse_s,
-              st.factorise_s, st.factorisation_gflop, st.ordering.c_str());
+  std::printf(
+      "dofs %d, elements %d, factor nonzeros %lld, mesh %.2f s, assemble+factorise %.2f s "
+      "(analyse %.2f s, factorise %.2f s, %.1f GFlop, %s)\n",
+      st.n_dofs, m.n_elements(), st.factor_nonzeros, t_mesh, t_factor, st.analyse_s, st.factorise_s,
+      st.factorisation_gflop, st.ordering.c_str());
   {
-    std::vector<std::vector<char>> in_region(5, std::vector<char>(static_cast<size_t>(m.n_nodes()), 0));
+    std::vector<std::vector<char>> in_region(
+        5, std::vector<char>(static_cast<size_t>(m.n_nodes()), 0));
     std::vector<int> elements(5, 0);
     for (int e = 0; e < m.n_elements(); ++e) {
       const int r = std::clamp(m.element_region[static_cast<size_t>(e)], 0, 4);
@@ -145,15 +148,16 @@ int run(int argc, char** argv) {
     }
     if (x.z() < level - 0.3) peak_below_03 = std::max(peak_below_03, p[i]);
   }
-  std::printf("peak more than %.2f mm below the attachment level %.4f kPa (more than 0.3 mm: "
-              "%.4f kPa); peak in the edge band %.4f kPa\n",
-              band, peak_below, peak_below_03, peak_edge);
+  std::printf(
+      "peak more than %.2f mm below the attachment level %.4f kPa (more than 0.3 mm: "
+      "%.4f kPa); peak in the edge band %.4f kPa\n",
+      band, peak_below, peak_below_03, peak_edge);
   std::printf("crest z %.3f mm; peak %.4f kPa, 95th percentile %.4f kPa, crown tip %.5e mm\n",
               g.crest_z_mm, p[order[0]], p95, tip_mm);
   std::printf("highest nodal pressures (kPa; z below the CEJ; angle from labial toward mesial):\n");
   for (int k = 0; k < top && k < static_cast<int>(order.size()); ++k) {
     const Eigen::Vector3d& x = m.nodes[static_cast<size_t>(pdl.nodes[order[k]])];
-    const double angle = std::atan2(x.y(), x.x()) * 180.0 / 3.14159265358979323846;
+    const double angle = std::atan2(x.y(), x.x()) * 180.0 / sharpey::core::kPi;
     std::printf("  %9.4f  z %7.3f  angle %7.1f deg  r %.3f mm\n", p[order[k]], x.z(), angle,
                 std::hypot(x.x(), x.y()));
   }

@@ -23,7 +23,7 @@ mesh::VolumeMesh single_element(int k, const Eigen::Vector3d& a, const Eigen::Ve
   m.nodes_per_element = k;
   m.nodes_per_face = k == 10 ? 6 : 3;
   if (k == 10) {
-    for (const auto& e : mesh::kTetEdges) m.nodes.push_back(0.5 * (m.nodes[e[0]] + m.nodes[e[1]]));
+    for (const auto& e : core::kTetEdges) m.nodes.push_back(0.5 * (m.nodes[e[0]] + m.nodes[e[1]]));
   }
   for (int i = 0; i < k; ++i) m.elements.push_back(i);
   m.element_region = {1};
@@ -193,7 +193,7 @@ TEST(ElementStiffness, QuadraticFieldEnergyExactOnStraightElement) {
   const double energy = u.dot(element_stiffness(m, 0, D) * u);
   const Eigen::Matrix3d E = (Eigen::Matrix3d() << m.nodes[1] - m.nodes[0], m.nodes[2] - m.nodes[0],
                              m.nodes[3] - m.nodes[0]).finished();
-  const mesh::QuadratureRule rule = mesh::tet_quadrature(5);
+  const core::QuadratureRule rule = core::tet_quadrature(5);
   double expected = 0;
   for (size_t q = 0; q < rule.points.size(); ++q) {
     const Eigen::Vector3d x = m.nodes[0] + E * rule.points[q];

@@ -8,7 +8,7 @@
 #include <cmath>
 #include <map>
 
-#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/core/reference_tetrahedron.h"
 #include "support/grid_mesh.h"
 
 namespace sharpey::testing {
@@ -16,10 +16,10 @@ namespace {
 
 // Volume of element e by the degree-5 rule (exact for straight elements, accurate for curved ones).
 double element_volume(const mesh::VolumeMesh& m, int e) {
-  const mesh::QuadratureRule q = mesh::tet_quadrature(5);
+  const core::QuadratureRule q = core::tet_quadrature(5);
   double v = 0;
   for (size_t p = 0; p < q.points.size(); ++p) {
-    const Eigen::MatrixXd G = mesh::tet_shape_gradient(m.nodes_per_element, q.points[p]);
+    const Eigen::MatrixXd G = core::tet_shape_gradient(m.nodes_per_element, q.points[p]);
     Eigen::Matrix3d J = Eigen::Matrix3d::Zero();
     for (int i = 0; i < m.nodes_per_element; ++i)
       J += m.nodes[static_cast<size_t>(m.element(e)[i])] * G.row(i);
@@ -39,7 +39,7 @@ double total_volume(const mesh::VolumeMesh& m) {
 void expect_conforming(const mesh::VolumeMesh& m) {
   std::map<std::array<int, 3>, int> count;
   for (int e = 0; e < m.n_elements(); ++e) {
-    for (const auto& f : mesh::kTetFaces) {
+    for (const auto& f : core::kTetFaces) {
       std::array<int, 3> key = {m.element(e)[f[0]], m.element(e)[f[1]], m.element(e)[f[2]]};
       std::sort(key.begin(), key.end());
       ++count[key];
@@ -157,8 +157,8 @@ TEST_P(GridMesh, JitterKeepsBoundaryAndValidity) {
       for (int s = 0; s < 6; ++s) {
         const int* en = m.element(e);
         const Eigen::Vector3d mid =
-            0.5 * (m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][0]])] +
-                   m.nodes[static_cast<size_t>(en[mesh::kTetEdges[static_cast<size_t>(s)][1]])]);
+            0.5 * (m.nodes[static_cast<size_t>(en[core::kTetEdges[static_cast<size_t>(s)][0]])] +
+                   m.nodes[static_cast<size_t>(en[core::kTetEdges[static_cast<size_t>(s)][1]])]);
         EXPECT_LT((m.nodes[static_cast<size_t>(en[4 + s])] - mid).norm(), 1e-15);
       }
     }

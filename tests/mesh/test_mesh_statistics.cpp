@@ -3,12 +3,12 @@
 // spheres, and the tree search against brute force. Expected values are derived.
 #include <gtest/gtest.h>
 
+#include <Eigen/Geometry>
 #include <algorithm>
 #include <cmath>
 #include <random>
 
-#include <Eigen/Geometry>
-
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/second_order.h"
@@ -18,7 +18,7 @@
 namespace sharpey::mesh {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 VolumeMesh box_mesh(bool quadratic) {
   Plc plc;
@@ -42,7 +42,8 @@ TEST_P(BoxStatistics, ExactVolumeAndAreasAndStraightJacobian) {
   EXPECT_NEAR(s.volume_per_region_mm3.at(4), 6.0, 1e-12);  // derived: 2 x 1 x 3
   EXPECT_NEAR(s.total_volume_mm3, 6.0, 1e-12);
   const double areas[6] = {3, 3, 6, 6, 2, 2};  // derived: x sides 1x3, y sides 2x3, z sides 2x1
-  for (int side = 0; side < 6; ++side) EXPECT_NEAR(s.area_per_marker_mm2.at(11 + side), areas[side], 1e-12);
+  for (int side = 0; side < 6; ++side)
+    EXPECT_NEAR(s.area_per_marker_mm2.at(11 + side), areas[side], 1e-12);
   EXPECT_NEAR(s.min_jacobian_ratio, 1.0, 1e-12);  // straight elements: constant det J
   EXPECT_EQ(s.n_inverted_elements, 0);
   EXPECT_GT(s.min_dihedral_deg, 0.0);
@@ -69,19 +70,21 @@ VolumeMesh single_tet(const Eigen::Vector3d& a, const Eigen::Vector3d& b, const 
 
 TEST(MeshStatistics, RegularTetrahedronQuality) {
   const double s3 = std::sqrt(3.0);
-  const VolumeMesh m = single_tet({0, 0, 0}, {1, 0, 0}, {0.5, s3 / 2, 0},
-                                  {0.5, s3 / 6, std::sqrt(2.0 / 3.0)});
+  const VolumeMesh m =
+      single_tet({0, 0, 0}, {1, 0, 0}, {0.5, s3 / 2, 0}, {0.5, s3 / 6, std::sqrt(2.0 / 3.0)});
   const MeshStatistics s = measure(m);
   const double dihedral = std::acos(1.0 / 3.0) * 180.0 / kPi;  // derived: 70.53 deg
   EXPECT_NEAR(s.min_dihedral_deg, dihedral, 1e-9);
   EXPECT_NEAR(s.max_dihedral_deg, dihedral, 1e-9);
   EXPECT_NEAR(s.max_radius_edge_ratio, std::sqrt(6.0) / 4.0, 1e-12);  // derived: R = a sqrt(6)/4
-  EXPECT_NEAR(s.total_volume_mm3, 1.0 / (6.0 * std::sqrt(2.0)), 1e-14);  // derived: a^3 / (6 sqrt 2)
+  EXPECT_NEAR(s.total_volume_mm3, 1.0 / (6.0 * std::sqrt(2.0)),
+              1e-14);  // derived: a^3 / (6 sqrt 2)
 }
 
 TEST(MeshStatistics, RightCornerTetrahedronQuality) {
   const MeshStatistics s = measure(single_tet({0, 0, 0}, {1, 0, 0}, {0, 1, 0}, {0, 0, 1}));
-  EXPECT_NEAR(s.min_dihedral_deg, std::acos(1.0 / std::sqrt(3.0)) * 180.0 / kPi, 1e-9);  // derived: 54.74
+  EXPECT_NEAR(s.min_dihedral_deg, std::acos(1.0 / std::sqrt(3.0)) * 180.0 / kPi,
+              1e-9);  // derived: 54.74
   EXPECT_NEAR(s.max_dihedral_deg, 90.0, 1e-9);
   // derived: circumcentre (1/2, 1/2, 1/2), R = sqrt(3)/2, shortest edge 1
   EXPECT_NEAR(s.max_radius_edge_ratio, std::sqrt(3.0) / 2.0, 1e-12);
@@ -149,16 +152,19 @@ TEST(PdlWidth, ConcentricSpheresGiveTheGap) {
   EXPECT_NEAR(s.pdl_width_mean_mm, 0.2, 0.002);  // derived: r_out - r_in, within 1 %
   EXPECT_NEAR(s.pdl_width_min_mm, 0.2, 0.002);
   EXPECT_NEAR(s.pdl_width_max_mm, 0.2, 0.002);
-  EXPECT_NEAR(s.area_per_marker_mm2.at(kRootSurface), 4 * kPi * r_in * r_in, 1e-3 * 4 * kPi * r_in * r_in);
-  EXPECT_NEAR(s.volume_per_region_mm3.at(kPdl), 4.0 / 3.0 * kPi * (std::pow(r_out, 3) - std::pow(r_in, 3)),
+  EXPECT_NEAR(s.area_per_marker_mm2.at(kRootSurface), 4 * kPi * r_in * r_in,
+              1e-3 * 4 * kPi * r_in * r_in);
+  EXPECT_NEAR(s.volume_per_region_mm3.at(kPdl),
+              4.0 / 3.0 * kPi * (std::pow(r_out, 3) - std::pow(r_in, 3)),
               1e-3 * s.volume_per_region_mm3.at(kPdl));
   EXPECT_GT(s.min_jacobian_ratio, 0.0);
   // The curved ball and sphere: derived 4/3 pi r^3 and 4 pi r^2.
   const double ball = 4.0 / 3.0 * kPi * std::pow(r_in, 3), socket_area = 4 * kPi * r_out * r_out;
   const double ball_error = std::abs(s.volume_per_region_mm3.at(kTooth) - ball) / ball;
-  const double area_error = std::abs(s.area_per_marker_mm2.at(kSocketSurface) - socket_area) / socket_area;
-  std::printf("curved ball volume relative error %.2e, sphere area relative error %.2e\n", ball_error,
-              area_error);
+  const double area_error =
+      std::abs(s.area_per_marker_mm2.at(kSocketSurface) - socket_area) / socket_area;
+  std::printf("curved ball volume relative error %.2e, sphere area relative error %.2e\n",
+              ball_error, area_error);
   EXPECT_LT(ball_error, 1e-4);
   EXPECT_LT(area_error, 1e-4);
 
@@ -181,7 +187,8 @@ TEST(PdlWidth, LinearFacesUnderestimateByAtMostTheSagitta) {
   for (int f = 0; f < m.n_faces(); ++f) {
     for (int k = 0; k < 3; ++k) {
       longest = std::max(longest, (m.nodes[static_cast<size_t>(m.face(f)[k])] -
-                                   m.nodes[static_cast<size_t>(m.face(f)[(k + 1) % 3])]).norm());
+                                   m.nodes[static_cast<size_t>(m.face(f)[(k + 1) % 3])])
+                                      .norm());
     }
   }
   // derived: a flat triangle inscribed in the sphere lies at most R - sqrt(R^2 - rc^2) inside it,
@@ -220,7 +227,8 @@ TEST(PdlWidth, TreeSearchAgreesWithBruteForce) {
   auto add_triangle = [&](int marker, double size) {
     const Eigen::Vector3d c(u(rng), u(rng), u(rng));
     const int base = m.n_nodes();
-    for (int k = 0; k < 3; ++k) m.nodes.push_back(c + size * Eigen::Vector3d(u(rng), u(rng), u(rng)));
+    for (int k = 0; k < 3; ++k)
+      m.nodes.push_back(c + size * Eigen::Vector3d(u(rng), u(rng), u(rng)));
     for (int k = 0; k < 3; ++k) m.faces.push_back(base + k);
     m.face_marker.push_back(marker);
   };
@@ -234,7 +242,8 @@ TEST(PdlWidth, TreeSearchAgreesWithBruteForce) {
       if (m.face_marker[static_cast<size_t>(f)] != 2) continue;
       const int* t = m.face(f);
       best = std::min(best, brute_distance(w.root_point, m.nodes[static_cast<size_t>(t[0])],
-                                           m.nodes[static_cast<size_t>(t[1])], m.nodes[static_cast<size_t>(t[2])]));
+                                           m.nodes[static_cast<size_t>(t[1])],
+                                           m.nodes[static_cast<size_t>(t[2])]));
     }
     EXPECT_NEAR(w.width_mm, best, 1e-12) << "node " << w.node;
   }

@@ -6,13 +6,14 @@
 #include <Eigen/Geometry>
 #include <cmath>
 
+#include "sharpey/core/constants.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/tooth_model.h"
 
 namespace sharpey::mesh {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 // Highest vertex of the root-surface (attachment) faces whose polar angle lies within `tol` of
 // `angle`; over all angles when tol >= pi.
@@ -42,14 +43,16 @@ TEST(BoneLoss, HorizontalLossMovesTheCrestAndShrinksTheAttachment) {
     EXPECT_NEAR(model.geometry.crest_z_mm, crest, 1e-12);
     EXPECT_NEAR(attachment_top(model.mesh, 0, kPi), crest, 1e-9);
     const double area = s.area_per_marker_mm2.at(kRootSurface);
-    EXPECT_NEAR(area, model.geometry.attachment_area_mm2, 0.02 * model.geometry.attachment_area_mm2);
+    EXPECT_NEAR(area, model.geometry.attachment_area_mm2,
+                0.02 * model.geometry.attachment_area_mm2);
     EXPECT_LT(area, previous);
     previous = area;
     // The bone top (free bone faces) lies at the crest or within the PDL's slant below it.
     double bone_top = -1e300;
     for (int f = 0; f < model.mesh.n_faces(); ++f)
       if (model.mesh.face_marker[f] == kFreeBone)
-        for (int k = 0; k < 3; ++k) bone_top = std::max(bone_top, model.mesh.nodes[model.mesh.face(f)[k]].z());
+        for (int k = 0; k < 3; ++k)
+          bone_top = std::max(bone_top, model.mesh.nodes[model.mesh.face(f)[k]].z());
     EXPECT_NEAR(bone_top, crest, 1e-9);
     EXPECT_EQ(s.n_inverted_elements, 0);
   }
@@ -94,8 +97,9 @@ TEST_P(AngularDefect, DepthIsOnTheNamedSide) {
   EXPECT_EQ(s.n_inverted_elements, 0);
   EXPECT_NEAR(s.area_per_marker_mm2.at(kRootSurface), model.geometry.attachment_area_mm2,
               0.02 * model.geometry.attachment_area_mm2);
-  EXPECT_NEAR(s.volume_per_region_mm3.at(kCorticalBone) + s.volume_per_region_mm3.at(kCancellousBone),
-              model.geometry.bone_volume_mm3, 0.01 * model.geometry.bone_volume_mm3);
+  EXPECT_NEAR(
+      s.volume_per_region_mm3.at(kCorticalBone) + s.volume_per_region_mm3.at(kCancellousBone),
+      model.geometry.bone_volume_mm3, 0.01 * model.geometry.bone_volume_mm3);
 }
 
 INSTANTIATE_TEST_SUITE_P(Surfaces, AngularDefect,
@@ -129,7 +133,9 @@ TEST_P(EveryTooth, MeshesHealthyAndWithLoss) {
 }
 
 INSTANTIATE_TEST_SUITE_P(Library, EveryTooth, ::testing::ValuesIn(all_tooth_types()),
-                         [](const ::testing::TestParamInfo<ToothType>& p) { return to_string(p.param); });
+                         [](const ::testing::TestParamInfo<ToothType>& p) {
+                           return to_string(p.param);
+                         });
 
 }  // namespace
 }  // namespace sharpey::mesh

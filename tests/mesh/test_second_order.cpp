@@ -7,9 +7,10 @@
 #include <map>
 #include <set>
 
+#include "sharpey/core/constants.h"
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/mesh_statistics.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
 #include "support/plc_shapes.h"
@@ -17,7 +18,7 @@
 namespace sharpey::mesh {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 TetgenOptions linear_options() {
   TetgenOptions o;
@@ -54,7 +55,8 @@ std::array<int, 3> sorted3(int a, int b, int c) {
 std::set<int> face_nodes6(const int* el, const std::array<int, 3>& lf) {
   std::set<int> s = {el[lf[0]], el[lf[1]], el[lf[2]]};
   for (int k = 0; k < 6; ++k) {
-    const int a = kTetEdges[static_cast<size_t>(k)][0], b = kTetEdges[static_cast<size_t>(k)][1];
+    const int a = core::kTetEdges[static_cast<size_t>(k)][0],
+              b = core::kTetEdges[static_cast<size_t>(k)][1];
     const bool on_face = std::count(lf.begin(), lf.end(), a) && std::count(lf.begin(), lf.end(), b);
     if (on_face) s.insert(el[4 + k]);
   }
@@ -74,7 +76,7 @@ TEST(SecondOrder, ConformingWithOneNodePerEdge) {
   // Node count = vertices + distinct edges (counted independently here).
   std::set<std::pair<int, int>> edges;
   for (int e = 0; e < lin.n_elements(); ++e) {
-    for (const auto& ed : kTetEdges) {
+    for (const auto& ed : core::kTetEdges) {
       const int a = lin.element(e)[ed[0]], b = lin.element(e)[ed[1]];
       edges.emplace(std::min(a, b), std::max(a, b));
     }
@@ -86,7 +88,8 @@ TEST(SecondOrder, ConformingWithOneNodePerEdge) {
   for (int e = 0; e < q.n_elements(); ++e) {
     const int* el = q.element(e);
     for (int v = 0; v < 4; ++v) EXPECT_EQ(el[v], lin.element(e)[v]);
-    for (const auto& lf : kTetFaces) seen[sorted3(el[lf[0]], el[lf[1]], el[lf[2]])].push_back(face_nodes6(el, lf));
+    for (const auto& lf : core::kTetFaces)
+      seen[sorted3(el[lf[0]], el[lf[1]], el[lf[2]])].push_back(face_nodes6(el, lf));
   }
   int n_interior = 0;
   for (const auto& [key, sides] : seen) {
@@ -103,9 +106,12 @@ TEST(SecondOrder, ConformingWithOneNodePerEdge) {
     const auto it = seen.find(sorted3(fa[0], fa[1], fa[2]));
     ASSERT_NE(it, seen.end());
     EXPECT_EQ(std::set<int>(fa, fa + 6), it->second.front());
-    const Eigen::Vector3d mid01 = 0.5 * (q.nodes[static_cast<size_t>(fa[0])] + q.nodes[static_cast<size_t>(fa[1])]);
-    const Eigen::Vector3d mid12 = 0.5 * (q.nodes[static_cast<size_t>(fa[1])] + q.nodes[static_cast<size_t>(fa[2])]);
-    const Eigen::Vector3d mid02 = 0.5 * (q.nodes[static_cast<size_t>(fa[0])] + q.nodes[static_cast<size_t>(fa[2])]);
+    const Eigen::Vector3d mid01 =
+        0.5 * (q.nodes[static_cast<size_t>(fa[0])] + q.nodes[static_cast<size_t>(fa[1])]);
+    const Eigen::Vector3d mid12 =
+        0.5 * (q.nodes[static_cast<size_t>(fa[1])] + q.nodes[static_cast<size_t>(fa[2])]);
+    const Eigen::Vector3d mid02 =
+        0.5 * (q.nodes[static_cast<size_t>(fa[0])] + q.nodes[static_cast<size_t>(fa[2])]);
     EXPECT_EQ(q.nodes[static_cast<size_t>(fa[3])], mid01);
     EXPECT_EQ(q.nodes[static_cast<size_t>(fa[4])], mid12);
     EXPECT_EQ(q.nodes[static_cast<size_t>(fa[5])], mid02);
@@ -129,14 +135,16 @@ TEST(SecondOrder, ProjectionPutsMidsideNodesOnTheSphere) {
   const VolumeMesh lin = ball(r, 2);
   int n_calls = 0;
   const VolumeMesh q = make_second_order(
-      lin, [&](const std::vector<int>& markers, const Eigen::Vector3d& a, const Eigen::Vector3d& b) {
+      lin,
+      [&](const std::vector<int>& markers, const Eigen::Vector3d& a, const Eigen::Vector3d& b) {
         ++n_calls;
         EXPECT_EQ(markers, std::vector<int>{1});
         return Eigen::Vector3d(r * (a + b).normalized());
       });
   EXPECT_EQ(n_calls, 3 * lin.n_faces() / 2);  // derived: closed surface, each edge on two faces
   for (int f = 0; f < q.n_faces(); ++f) {
-    for (int k = 0; k < 6; ++k) EXPECT_NEAR(q.nodes[static_cast<size_t>(q.face(f)[k])].norm(), r, 1e-13);
+    for (int k = 0; k < 6; ++k)
+      EXPECT_NEAR(q.nodes[static_cast<size_t>(q.face(f)[k])].norm(), r, 1e-13);
   }
   // Interior edges keep the midpoint.
   std::set<int> surface_nodes(q.faces.begin(), q.faces.end());
@@ -144,8 +152,9 @@ TEST(SecondOrder, ProjectionPutsMidsideNodesOnTheSphere) {
     const int* el = q.element(e);
     for (int k = 0; k < 6; ++k) {
       if (surface_nodes.count(el[4 + k])) continue;
-      const Eigen::Vector3d mid = 0.5 * (q.nodes[static_cast<size_t>(el[kTetEdges[static_cast<size_t>(k)][0]])] +
-                                         q.nodes[static_cast<size_t>(el[kTetEdges[static_cast<size_t>(k)][1]])]);
+      const Eigen::Vector3d mid =
+          0.5 * (q.nodes[static_cast<size_t>(el[core::kTetEdges[static_cast<size_t>(k)][0]])] +
+                 q.nodes[static_cast<size_t>(el[core::kTetEdges[static_cast<size_t>(k)][1]])]);
       EXPECT_EQ(q.nodes[static_cast<size_t>(el[4 + k])], mid);
     }
   }

@@ -6,8 +6,8 @@
 #include <map>
 #include <set>
 
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/tetrahedralize.h"
 #include "support/plc_shapes.h"
 
@@ -32,7 +32,8 @@ TetgenOptions linear_options() {
 
 std::map<int, double> volume_per_region(const VolumeMesh& m) {
   std::map<int, double> v;
-  for (int e = 0; e < m.n_elements(); ++e) v[m.element_region[static_cast<size_t>(e)]] += tet_volume(m.nodes, m.element(e));
+  for (int e = 0; e < m.n_elements(); ++e)
+    v[m.element_region[static_cast<size_t>(e)]] += tet_volume(m.nodes, m.element(e));
   return v;
 }
 
@@ -40,7 +41,7 @@ std::map<int, double> volume_per_region(const VolumeMesh& m) {
 std::set<std::array<int, 3>> boundary_faces(const VolumeMesh& m) {
   std::map<std::array<int, 3>, int> count;
   for (int e = 0; e < m.n_elements(); ++e) {
-    for (const auto& lf : kTetFaces) {
+    for (const auto& lf : core::kTetFaces) {
       std::array<int, 3> f = {m.element(e)[lf[0]], m.element(e)[lf[1]], m.element(e)[lf[2]]};
       std::sort(f.begin(), f.end());
       ++count[f];
@@ -119,7 +120,8 @@ TEST(Tetrahedralize, RegionVolumeBoundIsHonoured) {
   const double bound = 0.002;
   const VolumeMesh m = tetrahedralize(unit_cube(bound), linear_options());
   double max_v = 0;
-  for (int e = 0; e < m.n_elements(); ++e) max_v = std::max(max_v, tet_volume(m.nodes, m.element(e)));
+  for (int e = 0; e < m.n_elements(); ++e)
+    max_v = std::max(max_v, tet_volume(m.nodes, m.element(e)));
   EXPECT_LE(max_v, bound * (1 + 1e-9));
   EXPECT_GE(m.n_elements(), static_cast<int>(1.0 / bound));  // derived: volume / bound
   EXPECT_NEAR(volume_per_region(m)[7], 1.0, 1e-12);
@@ -129,7 +131,8 @@ TEST(Tetrahedralize, GlobalVolumeBoundIsHonoured) {
   TetgenOptions o = linear_options();
   o.max_volume_mm3 = 0.005;
   const VolumeMesh m = tetrahedralize(unit_cube(), o);
-  for (int e = 0; e < m.n_elements(); ++e) EXPECT_LE(tet_volume(m.nodes, m.element(e)), 0.005 * (1 + 1e-9));
+  for (int e = 0; e < m.n_elements(); ++e)
+    EXPECT_LE(tet_volume(m.nodes, m.element(e)), 0.005 * (1 + 1e-9));
 }
 
 TEST(Tetrahedralize, CubeWithCavity) {
@@ -199,8 +202,8 @@ TEST(Tetrahedralize, SecondOrderOutputHasStraightMidsideNodes) {
   for (int e = 0; e < m.n_elements(); ++e) {
     const int* t = m.element(e);
     for (int k = 0; k < 6; ++k) {
-      const Eigen::Vector3d mid =
-          0.5 * (m.nodes[static_cast<size_t>(t[kTetEdges[k][0]])] + m.nodes[static_cast<size_t>(t[kTetEdges[k][1]])]);
+      const Eigen::Vector3d mid = 0.5 * (m.nodes[static_cast<size_t>(t[core::kTetEdges[k][0]])] +
+                                         m.nodes[static_cast<size_t>(t[core::kTetEdges[k][1]])]);
       EXPECT_LT((m.nodes[static_cast<size_t>(t[4 + k])] - mid).norm(), 1e-15);
     }
   }

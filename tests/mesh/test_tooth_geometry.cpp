@@ -7,13 +7,14 @@
 #include <cmath>
 #include <string>
 
+#include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/tooth_model.h"
 
 namespace sharpey::mesh {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 
 ModelSpec ideal(IdealRoot root) {
   ModelSpec s;
@@ -42,8 +43,8 @@ TEST(ToothGeometry, CylinderRootAreaAndVolumeMatchClosedForm) {
   const double R = 3, L = 12, c = R / 3, Lc = s.tooth.dimensions.crown_length_mm;
   // source: derived (cylinder plus half-ellipsoid of height R/3)
   const double area = 2 * kPi * R * (L - c) + half_oblate_area(R, c);
-  const double volume = kPi * R * R * (L - c) + 2.0 / 3.0 * kPi * R * R * c +
-                        cylinder_crown_volume(R, Lc);
+  const double volume =
+      kPi * R * R * (L - c) + 2.0 / 3.0 * kPi * R * R * c + cylinder_crown_volume(R, Lc);
   EXPECT_NEAR(g.root_area_mm2, area, 1e-5 * area);
   EXPECT_NEAR(g.tooth_volume_mm3, volume, 1e-5 * volume);
   // Bone loss leaves the straight part: attachment = root area - 2 pi R (crest depth).
@@ -67,10 +68,10 @@ TEST(ToothGeometry, ParaboloidRootAreaAndVolumeMatchClosedForm) {
   const double r_top = std::sqrt(k2 * L);
   // source: derived (paraboloid of revolution r^2 = k^2 h: volume pi k^2 L^2 / 2, lateral area
   // pi r / (6 L^2) ((r^2 + 4 L^2)^1.5 - r^3))
-  const double area = kPi * r_top / (6 * L * L) * (std::pow(r_top * r_top + 4 * L * L, 1.5) -
-                                                   std::pow(r_top, 3));
-  const double volume = kPi * k2 * L * L / 2 +
-                        cylinder_crown_volume(r_top, s.tooth.dimensions.crown_length_mm);
+  const double area =
+      kPi * r_top / (6 * L * L) * (std::pow(r_top * r_top + 4 * L * L, 1.5) - std::pow(r_top, 3));
+  const double volume =
+      kPi * k2 * L * L / 2 + cylinder_crown_volume(r_top, s.tooth.dimensions.crown_length_mm);
   EXPECT_NEAR(g.root_area_mm2, area, 1e-5 * area);
   EXPECT_NEAR(g.tooth_volume_mm3, volume, 1e-5 * volume);
   EXPECT_NEAR(root_section(s, -s.bone.crest_below_cej_mm).labiolingual_half_mm, R, 1e-9);
@@ -93,14 +94,16 @@ TEST(ToothGeometry, ConeRootWithRoundedTipMatchesClosedForm) {
   const double volume = kPi * cap * cap * (3 * rho - cap) / 3 +
                         kPi * k * k * (std::pow(h_top, 3) - std::pow(h_t, 3)) / 3 +
                         cylinder_crown_volume(k * h_top, s.tooth.dimensions.crown_length_mm);
-  const double area = 2 * kPi * rho * cap + kPi * k * std::sqrt(1 + k * k) * (h_top * h_top - h_t * h_t);
+  const double area =
+      2 * kPi * rho * cap + kPi * k * std::sqrt(1 + k * k) * (h_top * h_top - h_t * h_t);
   EXPECT_NEAR(g.tooth_volume_mm3, volume, 1e-5 * volume);
   EXPECT_NEAR(g.root_area_mm2, area, 1e-5 * area);
   // r(d) = R (1 - d / (L_e + delta)) at depth d below the crest (derived).
   const double embedded = L - cb;
   for (double d : {0.0, 2.0, 5.0, 9.0}) {
     SCOPED_TRACE("depth below crest " + std::to_string(d));
-    EXPECT_NEAR(root_section(s, -cb - d).mesiodistal_half_mm, R * (1 - d / (embedded + delta)), 1e-9);
+    EXPECT_NEAR(root_section(s, -cb - d).mesiodistal_half_mm, R * (1 - d / (embedded + delta)),
+                1e-9);
   }
 }
 
@@ -115,8 +118,8 @@ TEST(ToothGeometry, AttachmentAreaFallsWithHorizontalLoss) {
     EXPECT_LT(g.attachment_area_mm2, previous);
     EXPECT_NEAR(g.root_area_mm2, root, 1e-9 * root);  // the tooth does not change
     EXPECT_NEAR(g.crest_z_mm, -(s.bone.crest_below_cej_mm + loss), 1e-12);
-    EXPECT_NEAR(g.embedded_length_mm, s.tooth.dimensions.root_length_mm - s.bone.crest_below_cej_mm - loss,
-                1e-9);
+    EXPECT_NEAR(g.embedded_length_mm,
+                s.tooth.dimensions.root_length_mm - s.bone.crest_below_cej_mm - loss, 1e-9);
     previous = g.attachment_area_mm2;
   }
 }

@@ -6,7 +6,7 @@
 #include <cstdint>
 #include <unordered_map>
 
-#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/core/reference_tetrahedron.h"
 
 namespace sharpey::app {
 
@@ -19,7 +19,7 @@ bool in_group(int region, const std::vector<int>& regions) {
 // Local index of the midside node on the edge between local vertices a and b.
 int midside(int a, int b) {
   for (int e = 0; e < 6; ++e) {
-    const auto& edge = mesh::kTetEdges[static_cast<size_t>(e)];
+    const auto& edge = core::kTetEdges[static_cast<size_t>(e)];
     if ((edge[0] == a && edge[1] == b) || (edge[0] == b && edge[1] == a)) return 4 + e;
   }
   return -1;
@@ -61,7 +61,7 @@ DisplaySurface visible_boundary(const mesh::VolumeMesh& mesh, const std::vector<
     if (!mine && !in_group(region, covering)) continue;
     const int* n = mesh.element(e);
     for (int f = 0; f < 4; ++f) {
-      const auto& tri = mesh::kTetFaces[static_cast<size_t>(f)];
+      const auto& tri = core::kTetFaces[static_cast<size_t>(f)];
       std::array<int, 3> key = {n[tri[0]], n[tri[1]], n[tri[2]]};
       std::sort(key.begin(), key.end());
       // face < 0 marks a face of a covering element.
@@ -80,7 +80,7 @@ DisplaySurface visible_boundary(const mesh::VolumeMesh& mesh, const std::vector<
     // On the boundary of the group and not hidden: exactly one face there, the group's own.
     if (j - i == 1 && faces[i].face >= 0) {
       const int* n = mesh.element(faces[i].element);
-      const auto& tri = mesh::kTetFaces[static_cast<size_t>(faces[i].face)];
+      const auto& tri = core::kTetFaces[static_cast<size_t>(faces[i].face)];
       const int a = compact(n[tri[0]]), b = compact(n[tri[1]]), c = compact(n[tri[2]]);
       if (split) {
         const int ab = compact(n[midside(tri[0], tri[1])]);
@@ -124,11 +124,15 @@ DisplaySection plane_section(const mesh::VolumeMesh& mesh, const std::vector<int
     int above[4], below[4], n_above = 0, n_below = 0;
     for (int i = 0; i < 4; ++i) {
       d[i] = distance(v[static_cast<size_t>(i)]);
-      if (d[i] >= 0) above[n_above++] = i;
-      else below[n_below++] = i;
+      if (d[i] >= 0)
+        above[n_above++] = i;
+      else
+        below[n_below++] = i;
     }
     if (n_above == 0 || n_below == 0) return;
-    auto p = [&](int i, int j) { return edge_point(v[static_cast<size_t>(i)], v[static_cast<size_t>(j)], d[i], d[j]); };
+    auto p = [&](int i, int j) {
+      return edge_point(v[static_cast<size_t>(i)], v[static_cast<size_t>(j)], d[i], d[j]);
+    };
     if (n_above == 1 || n_below == 1) {
       const int lone = n_above == 1 ? above[0] : below[0];
       const int* others = n_above == 1 ? below : above;
@@ -196,7 +200,9 @@ double total_area(const std::vector<Eigen::Vector3d>& points,
   double area = 0;
   for (const auto& t : triangles) {
     const Eigen::Vector3d& a = points[static_cast<size_t>(t[0])];
-    area += 0.5 * (points[static_cast<size_t>(t[1])] - a).cross(points[static_cast<size_t>(t[2])] - a).norm();
+    area +=
+        0.5 *
+        (points[static_cast<size_t>(t[1])] - a).cross(points[static_cast<size_t>(t[2])] - a).norm();
   }
   return area;
 }

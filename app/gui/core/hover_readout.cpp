@@ -6,12 +6,13 @@
 #include <limits>
 
 #include "core/units.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::app {
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr double kNan = std::numeric_limits<double>::quiet_NaN();
 
 // Angle wrapped into [0, 360).
@@ -37,11 +38,13 @@ QString side_name(double angle_deg) {
 
 double value_on_triangle(const std::vector<Eigen::Vector3d>& points,
                          const std::vector<std::array<int, 3>>& triangles,
-                         const std::vector<double>& values, int triangle, const Eigen::Vector3d& p) {
+                         const std::vector<double>& values, int triangle,
+                         const Eigen::Vector3d& p) {
   if (triangle < 0 || triangle >= static_cast<int>(triangles.size())) return kNan;
   const std::array<int, 3>& t = triangles[static_cast<size_t>(triangle)];
   for (int k : t)
-    if (k < 0 || k >= static_cast<int>(points.size()) || k >= static_cast<int>(values.size())) return kNan;
+    if (k < 0 || k >= static_cast<int>(points.size()) || k >= static_cast<int>(values.size()))
+      return kNan;
   const Eigen::Vector3d& a = points[static_cast<size_t>(t[0])];
   const Eigen::Vector3d e1 = points[static_cast<size_t>(t[1])] - a;
   const Eigen::Vector3d e2 = points[static_cast<size_t>(t[2])] - a;
@@ -85,11 +88,13 @@ double root_map_sample(const analysis::RootMap& m, double x, double y) {
   auto at = [&](int row, int col) {
     col = ((col % m.n_angle) + m.n_angle) % m.n_angle;
     row = std::clamp(row, 0, m.n_depth - 1);
-    return m.pressure_kpa[static_cast<size_t>(row) * static_cast<size_t>(m.n_angle) + static_cast<size_t>(col)];
+    return m.pressure_kpa[static_cast<size_t>(row) * static_cast<size_t>(m.n_angle) +
+                          static_cast<size_t>(col)];
   };
   const int c0 = static_cast<int>(std::floor(x)), r0 = static_cast<int>(std::floor(y));
   const double fx = x - c0, fy = y - r0;
-  const double v00 = at(r0, c0), v01 = at(r0, c0 + 1), v10 = at(r0 + 1, c0), v11 = at(r0 + 1, c0 + 1);
+  const double v00 = at(r0, c0), v01 = at(r0, c0 + 1), v10 = at(r0 + 1, c0),
+               v11 = at(r0 + 1, c0 + 1);
   if (std::isfinite(v00) && std::isfinite(v01) && std::isfinite(v10) && std::isfinite(v11))
     return (1 - fy) * ((1 - fx) * v00 + fx * v01) + fy * ((1 - fx) * v10 + fx * v11);
   return at(static_cast<int>(std::lround(y)), static_cast<int>(std::lround(x)));
@@ -101,7 +106,8 @@ HoverReadout root_map_readout(const analysis::RootMap& map, double angle_deg, do
   const double span = map.depth_max_mm - map.depth_min_mm;
   if (map.n_angle <= 0 || map.n_depth <= 0 || !(span > 0) || !std::isfinite(angle_deg) ||
       !(depth_mm >= map.depth_min_mm && depth_mm <= map.depth_max_mm) ||
-      map.pressure_kpa.size() != static_cast<size_t>(map.n_angle) * static_cast<size_t>(map.n_depth))
+      map.pressure_kpa.size() !=
+          static_cast<size_t>(map.n_angle) * static_cast<size_t>(map.n_depth))
     return r;
   r.has_position = true;
   const double a = wrap_360(angle_deg);
@@ -116,11 +122,13 @@ HoverReadout root_map_readout(const analysis::RootMap& map, double angle_deg, do
 
 QString describe(const HoverReadout& r) {
   if (!r.has_position) return {};
-  const QString where = QStringLiteral("%1 below the CEJ, %2 (%3\u00b0)")
-                            .arg(with_unit(r.depth_mm, QStringLiteral("mm"), 1), side_name(r.angle_deg))
-                            .arg(std::lround(r.angle_deg));
+  const QString where =
+      QStringLiteral("%1 below the CEJ, %2 (%3\u00b0)")
+          .arg(with_unit(r.depth_mm, QStringLiteral("mm"), 1), side_name(r.angle_deg))
+          .arg(std::lround(r.angle_deg));
   if (!r.has_value) return QStringLiteral("no ligament | ") + where;
-  return label(r.quantity) + ' ' + with_unit(r.value, unit_label(r.quantity), readable_decimals(r.value)) +
+  return label(r.quantity) + ' ' +
+         with_unit(r.value, unit_label(r.quantity), readable_decimals(r.value)) +
          QStringLiteral(" | ") + where;
 }
 

@@ -4,42 +4,57 @@
 #include <cmath>
 
 #include "core/units.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::app {
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr double kDeg = kPi / 180.0;
 }  // namespace
 
 std::vector<DirectionChoice> all_direction_choices() {
-  return {DirectionChoice::kLabial,    DirectionChoice::kLingual,   DirectionChoice::kMesial,
-          DirectionChoice::kDistal,    DirectionChoice::kIntrusive, DirectionChoice::kExtrusive,
+  return {DirectionChoice::kLabial, DirectionChoice::kLingual,   DirectionChoice::kMesial,
+          DirectionChoice::kDistal, DirectionChoice::kIntrusive, DirectionChoice::kExtrusive,
           DirectionChoice::kAngles};
 }
 
 QString label(DirectionChoice choice) {
   switch (choice) {
-    case DirectionChoice::kLabial: return QStringLiteral("labial");
-    case DirectionChoice::kLingual: return QStringLiteral("lingual");
-    case DirectionChoice::kMesial: return QStringLiteral("mesial");
-    case DirectionChoice::kDistal: return QStringLiteral("distal");
-    case DirectionChoice::kIntrusive: return QStringLiteral("intrusive");
-    case DirectionChoice::kExtrusive: return QStringLiteral("extrusive");
-    case DirectionChoice::kAngles: return QStringLiteral("free angles");
+    case DirectionChoice::kLabial:
+      return QStringLiteral("labial");
+    case DirectionChoice::kLingual:
+      return QStringLiteral("lingual");
+    case DirectionChoice::kMesial:
+      return QStringLiteral("mesial");
+    case DirectionChoice::kDistal:
+      return QStringLiteral("distal");
+    case DirectionChoice::kIntrusive:
+      return QStringLiteral("intrusive");
+    case DirectionChoice::kExtrusive:
+      return QStringLiteral("extrusive");
+    case DirectionChoice::kAngles:
+      return QStringLiteral("free angles");
   }
   return {};
 }
 
 Eigen::Vector3d direction_vector(DirectionChoice choice) {
   switch (choice) {
-    case DirectionChoice::kLabial: return Eigen::Vector3d::UnitX();
-    case DirectionChoice::kLingual: return -Eigen::Vector3d::UnitX();
-    case DirectionChoice::kMesial: return Eigen::Vector3d::UnitY();
-    case DirectionChoice::kDistal: return -Eigen::Vector3d::UnitY();
-    case DirectionChoice::kIntrusive: return -Eigen::Vector3d::UnitZ();
-    case DirectionChoice::kExtrusive: return Eigen::Vector3d::UnitZ();
-    case DirectionChoice::kAngles: break;
+    case DirectionChoice::kLabial:
+      return Eigen::Vector3d::UnitX();
+    case DirectionChoice::kLingual:
+      return -Eigen::Vector3d::UnitX();
+    case DirectionChoice::kMesial:
+      return Eigen::Vector3d::UnitY();
+    case DirectionChoice::kDistal:
+      return -Eigen::Vector3d::UnitY();
+    case DirectionChoice::kIntrusive:
+      return -Eigen::Vector3d::UnitZ();
+    case DirectionChoice::kExtrusive:
+      return Eigen::Vector3d::UnitZ();
+    case DirectionChoice::kAngles:
+      break;
   }
   return Eigen::Vector3d::Zero();
 }
@@ -76,23 +91,34 @@ void angles_from_direction(const Eigen::Vector3d& direction, double* azimuth_deg
 QString label(analysis::MovementPreset preset) {
   using P = analysis::MovementPreset;
   switch (preset) {
-    case P::kNone: return QStringLiteral("none (couple as set)");
-    case P::kUncontrolledTipping: return QStringLiteral("uncontrolled tipping");
-    case P::kControlledTipping: return QStringLiteral("controlled tipping");
-    case P::kTranslation: return QStringLiteral("translation (bodily)");
-    case P::kRootMovement: return QStringLiteral("root movement");
-    case P::kIntrusion: return QStringLiteral("intrusion");
-    case P::kExtrusion: return QStringLiteral("extrusion");
-    case P::kRotation: return QStringLiteral("rotation about the long axis");
+    case P::kNone:
+      return QStringLiteral("none (couple as set)");
+    case P::kUncontrolledTipping:
+      return QStringLiteral("uncontrolled tipping");
+    case P::kControlledTipping:
+      return QStringLiteral("controlled tipping");
+    case P::kTranslation:
+      return QStringLiteral("translation (bodily)");
+    case P::kRootMovement:
+      return QStringLiteral("root movement");
+    case P::kIntrusion:
+      return QStringLiteral("intrusion");
+    case P::kExtrusion:
+      return QStringLiteral("extrusion");
+    case P::kRotation:
+      return QStringLiteral("rotation about the long axis");
   }
   return {};
 }
 
 QString label(analysis::CoupleKind kind) {
   switch (kind) {
-    case analysis::CoupleKind::kNone: return QStringLiteral("no couple");
-    case analysis::CoupleKind::kMoment: return QStringLiteral("moment");
-    case analysis::CoupleKind::kRatio: return QStringLiteral("moment-to-force ratio");
+    case analysis::CoupleKind::kNone:
+      return QStringLiteral("no couple");
+    case analysis::CoupleKind::kMoment:
+      return QStringLiteral("moment");
+    case analysis::CoupleKind::kRatio:
+      return QStringLiteral("moment-to-force ratio");
   }
   return {};
 }
@@ -124,7 +150,8 @@ void LoadControls::set_angles(double azimuth, double elevation) {
 }
 
 Eigen::Vector3d LoadControls::direction_vector() const {
-  if (direction == DirectionChoice::kAngles) return direction_from_angles(azimuth_deg, elevation_deg);
+  if (direction == DirectionChoice::kAngles)
+    return direction_from_angles(azimuth_deg, elevation_deg);
   return app::direction_vector(direction);
 }
 
@@ -158,7 +185,8 @@ LoadControls from_load_spec(const analysis::LoadSpec& load) {
   c.at_pad_centre = load.bracket_height_mm < 0;
   c.bracket_height_mm = c.at_pad_centre ? 0.0 : load.bracket_height_mm;
   c.couple = load.couple;
-  for (int i = 0; i < 3; ++i) c.moment(i) = analysis::moment_from_nmm(load.moment_nmm(i), load.unit);
+  for (int i = 0; i < 3; ++i)
+    c.moment(i) = analysis::moment_from_nmm(load.moment_nmm(i), load.unit);
   c.moment_to_force_mm = load.moment_to_force_mm;
   c.preset = load.preset;
   return c;
@@ -166,9 +194,12 @@ LoadControls from_load_spec(const analysis::LoadSpec& load) {
 
 double slider_max(analysis::ForceUnit unit) {
   switch (unit) {
-    case analysis::ForceUnit::kGram: return 500.0;
-    case analysis::ForceUnit::kCentinewton: return 500.0;
-    case analysis::ForceUnit::kNewton: return 5.0;
+    case analysis::ForceUnit::kGram:
+      return 500.0;
+    case analysis::ForceUnit::kCentinewton:
+      return 500.0;
+    case analysis::ForceUnit::kNewton:
+      return 5.0;
   }
   return 500.0;
 }
@@ -197,7 +228,8 @@ QString describe(const LoadControls& c) {
   if (c.preset != analysis::MovementPreset::kNone) {
     text += QStringLiteral(", %1 preset").arg(label(c.preset));
   } else if (c.couple == analysis::CoupleKind::kRatio) {
-    text += QStringLiteral(", M/F %1").arg(with_unit(c.moment_to_force_mm, QStringLiteral("mm"), 1));
+    text +=
+        QStringLiteral(", M/F %1").arg(with_unit(c.moment_to_force_mm, QStringLiteral("mm"), 1));
   } else if (c.couple == analysis::CoupleKind::kMoment) {
     text += QStringLiteral(", couple (%1, %2, %3) %4")
                 .arg(c.moment.x(), 0, 'f', 0)
@@ -211,19 +243,24 @@ QString describe(const LoadControls& c) {
 QString describe_resolved(const analysis::ScenarioResult& r, analysis::ForceUnit unit) {
   const analysis::ResolvedLoad& l = r.load;
   const int decimals = force_decimals(unit);
-  const QString force = with_unit(analysis::from_newton(l.force_n.norm(), unit), force_unit_label(unit), decimals);
+  const QString force =
+      with_unit(analysis::from_newton(l.force_n.norm(), unit), force_unit_label(unit), decimals);
   auto moment = [&](const Eigen::Vector3d& m_nmm) {
     const QString u = moment_unit_label(unit);
     auto c = [&](double v) { return with_unit(analysis::moment_from_nmm(v, unit), u, decimals); };
-    return QStringLiteral("%1 about the labiolingual axis, %2 about the mesiodistal axis, %3 about the long axis")
+    return QStringLiteral(
+               "%1 about the labiolingual axis, %2 about the mesiodistal axis, %3 about the long "
+               "axis")
         .arg(c(m_nmm.x()), c(m_nmm.y()), c(m_nmm.z()));
   };
-  return QStringLiteral("At the bracket (%1): force %2 (%3), applied %4 above the CEJ.\n"
-                        "Moment about the bracket centre (force and couple): %5.\n"
-                        "Couple alone: %6; its moment-to-force ratio %7.")
-      .arg(QString::fromStdString(r.name), force, with_unit(l.force_n.norm(), QStringLiteral("N"), 3),
-           with_unit(l.application_point.z(), QStringLiteral("mm"), 1), moment(l.moment_nmm), moment(l.couple_nmm),
-           with_unit(l.moment_to_force_mm, QStringLiteral("mm"), 1));
+  return QStringLiteral(
+             "At the bracket (%1): force %2 (%3), applied %4 above the CEJ.\n"
+             "Moment about the bracket centre (force and couple): %5.\n"
+             "Couple alone: %6; its moment-to-force ratio %7.")
+      .arg(QString::fromStdString(r.name), force,
+           with_unit(l.force_n.norm(), QStringLiteral("N"), 3),
+           with_unit(l.application_point.z(), QStringLiteral("mm"), 1), moment(l.moment_nmm),
+           moment(l.couple_nmm), with_unit(l.moment_to_force_mm, QStringLiteral("mm"), 1));
 }
 
 }  // namespace sharpey::app

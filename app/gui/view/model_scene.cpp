@@ -1,12 +1,11 @@
 #include "view/model_scene.h"
 
-#include <Eigen/Geometry>
 #include <vtkActor.h>
 #include <vtkArrowSource.h>
 #include <vtkBillboardTextActor3D.h>
 #include <vtkCamera.h>
-#include <vtkCellPicker.h>
 #include <vtkCellArray.h>
+#include <vtkCellPicker.h>
 #include <vtkConeSource.h>
 #include <vtkFloatArray.h>
 #include <vtkLookupTable.h>
@@ -25,55 +24,74 @@
 #include <vtkTransformPolyDataFilter.h>
 #include <vtkTubeFilter.h>
 
+#include <Eigen/Geometry>
 #include <QElapsedTimer>
 #include <algorithm>
 #include <cmath>
 
 #include "core/display_mesh.h"
 #include "sharpey/analysis/report_output.h"
+#include "sharpey/core/constants.h"
 
 namespace sharpey::app {
 
 QString label(BoneStyle style) {
   switch (style) {
-    case BoneStyle::kTranslucent: return QStringLiteral("bone see-through");
-    case BoneStyle::kOpaque: return QStringLiteral("bone solid");
-    case BoneStyle::kHidden: return QStringLiteral("bone hidden");
+    case BoneStyle::kTranslucent:
+      return QStringLiteral("bone see-through");
+    case BoneStyle::kOpaque:
+      return QStringLiteral("bone solid");
+    case BoneStyle::kHidden:
+      return QStringLiteral("bone hidden");
   }
   return {};
 }
 
 QString label(SectionPlane plane) {
   switch (plane) {
-    case SectionPlane::kNone: return QStringLiteral("no section");
-    case SectionPlane::kLabiolingual: return QStringLiteral("labiolingual section");
-    case SectionPlane::kMesiodistal: return QStringLiteral("mesiodistal section");
+    case SectionPlane::kNone:
+      return QStringLiteral("no section");
+    case SectionPlane::kLabiolingual:
+      return QStringLiteral("labiolingual section");
+    case SectionPlane::kMesiodistal:
+      return QStringLiteral("mesiodistal section");
   }
   return {};
 }
 
 std::vector<ViewSide> all_view_sides() {
-  return {ViewSide::kLabial, ViewSide::kLingual, ViewSide::kMesial, ViewSide::kDistal, ViewSide::kOcclusal};
+  return {ViewSide::kLabial, ViewSide::kLingual, ViewSide::kMesial, ViewSide::kDistal,
+          ViewSide::kOcclusal};
 }
 
 QString label(ViewSide side) {
   switch (side) {
-    case ViewSide::kLabial: return QStringLiteral("labial");
-    case ViewSide::kLingual: return QStringLiteral("lingual");
-    case ViewSide::kMesial: return QStringLiteral("mesial");
-    case ViewSide::kDistal: return QStringLiteral("distal");
-    case ViewSide::kOcclusal: return QStringLiteral("occlusal");
+    case ViewSide::kLabial:
+      return QStringLiteral("labial");
+    case ViewSide::kLingual:
+      return QStringLiteral("lingual");
+    case ViewSide::kMesial:
+      return QStringLiteral("mesial");
+    case ViewSide::kDistal:
+      return QStringLiteral("distal");
+    case ViewSide::kOcclusal:
+      return QStringLiteral("occlusal");
   }
   return {};
 }
 
 Eigen::Vector3d view_direction(ViewSide side) {
   switch (side) {
-    case ViewSide::kLabial: return Eigen::Vector3d::UnitX();
-    case ViewSide::kLingual: return -Eigen::Vector3d::UnitX();
-    case ViewSide::kMesial: return Eigen::Vector3d::UnitY();
-    case ViewSide::kDistal: return -Eigen::Vector3d::UnitY();
-    case ViewSide::kOcclusal: return Eigen::Vector3d::UnitZ();
+    case ViewSide::kLabial:
+      return Eigen::Vector3d::UnitX();
+    case ViewSide::kLingual:
+      return -Eigen::Vector3d::UnitX();
+    case ViewSide::kMesial:
+      return Eigen::Vector3d::UnitY();
+    case ViewSide::kDistal:
+      return -Eigen::Vector3d::UnitY();
+    case ViewSide::kOcclusal:
+      return Eigen::Vector3d::UnitZ();
   }
   return Eigen::Vector3d::UnitX();
 }
@@ -124,14 +142,16 @@ void fill_triangles(vtkPolyData* data, const std::vector<Eigen::Vector3d>& point
   for (size_t i = 0; i < points.size(); ++i)
     p->SetPoint(static_cast<vtkIdType>(i), points[i].x(), points[i].y(), points[i].z());
   vtkNew<vtkCellArray> polys;
-  polys->AllocateExact(static_cast<vtkIdType>(triangles.size()), static_cast<vtkIdType>(3 * triangles.size()));
+  polys->AllocateExact(static_cast<vtkIdType>(triangles.size()),
+                       static_cast<vtkIdType>(3 * triangles.size()));
   std::vector<Eigen::Vector3d> n(normals ? points.size() : 0, Eigen::Vector3d::Zero());
   for (const auto& t : triangles) {
     const vtkIdType ids[3] = {t[0], t[1], t[2]};
     polys->InsertNextCell(3, ids);
     if (normals) {
       const Eigen::Vector3d& a = points[static_cast<size_t>(t[0])];
-      const Eigen::Vector3d w = (points[static_cast<size_t>(t[1])] - a).cross(points[static_cast<size_t>(t[2])] - a);
+      const Eigen::Vector3d w =
+          (points[static_cast<size_t>(t[1])] - a).cross(points[static_cast<size_t>(t[2])] - a);
       for (int k = 0; k < 3; ++k) n[static_cast<size_t>(t[static_cast<size_t>(k)])] += w;
     }
   }
@@ -144,7 +164,8 @@ void fill_triangles(vtkPolyData* data, const std::vector<Eigen::Vector3d>& point
     na->SetNumberOfComponents(3);
     na->SetNumberOfTuples(static_cast<vtkIdType>(points.size()));
     for (size_t i = 0; i < n.size(); ++i) {
-      const Eigen::Vector3d u = n[i].norm() > 0 ? Eigen::Vector3d(n[i].normalized()) : Eigen::Vector3d::UnitZ();
+      const Eigen::Vector3d u =
+          n[i].norm() > 0 ? Eigen::Vector3d(n[i].normalized()) : Eigen::Vector3d::UnitZ();
       na->SetTuple3(static_cast<vtkIdType>(i), u.x(), u.y(), u.z());
     }
     data->GetPointData()->SetNormals(na);
@@ -157,7 +178,8 @@ void fill_segments(vtkPolyData* data, const std::vector<Segment3>& segments) {
   p->SetDataTypeToFloat();
   p->SetNumberOfPoints(static_cast<vtkIdType>(2 * segments.size()));
   vtkNew<vtkCellArray> lines;
-  lines->AllocateExact(static_cast<vtkIdType>(segments.size()), static_cast<vtkIdType>(2 * segments.size()));
+  lines->AllocateExact(static_cast<vtkIdType>(segments.size()),
+                       static_cast<vtkIdType>(2 * segments.size()));
   for (size_t i = 0; i < segments.size(); ++i) {
     const auto& [a, b] = segments[i];
     const vtkIdType ia = static_cast<vtkIdType>(2 * i), ib = ia + 1;
@@ -173,10 +195,11 @@ void fill_segments(vtkPolyData* data, const std::vector<Segment3>& segments) {
 }
 
 // Matrix mapping the unit x axis to `direction` * length, placed at `origin`.
-vtkSmartPointer<vtkTransform> frame_along(const Eigen::Vector3d& origin, const Eigen::Vector3d& direction,
-                                          double length) {
+vtkSmartPointer<vtkTransform> frame_along(const Eigen::Vector3d& origin,
+                                          const Eigen::Vector3d& direction, double length) {
   const Eigen::Vector3d x = direction.normalized();
-  Eigen::Vector3d helper = std::abs(x.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
+  Eigen::Vector3d helper =
+      std::abs(x.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
   const Eigen::Vector3d y = helper.cross(x).normalized();
   const Eigen::Vector3d z = x.cross(y);
   vtkNew<vtkMatrix4x4> m;
@@ -226,9 +249,12 @@ struct ModelScene::Impl {
   bool iso_visible = false;
   int n_iso = 0;
   Part arrow, couple_arc, couple_head, cres, crot;
-  vtkSmartPointer<vtkBillboardTextActor3D> arrow_label = vtkSmartPointer<vtkBillboardTextActor3D>::New();
-  vtkSmartPointer<vtkBillboardTextActor3D> cres_label = vtkSmartPointer<vtkBillboardTextActor3D>::New();
-  vtkSmartPointer<vtkBillboardTextActor3D> crot_label = vtkSmartPointer<vtkBillboardTextActor3D>::New();
+  vtkSmartPointer<vtkBillboardTextActor3D> arrow_label =
+      vtkSmartPointer<vtkBillboardTextActor3D>::New();
+  vtkSmartPointer<vtkBillboardTextActor3D> cres_label =
+      vtkSmartPointer<vtkBillboardTextActor3D>::New();
+  vtkSmartPointer<vtkBillboardTextActor3D> crot_label =
+      vtkSmartPointer<vtkBillboardTextActor3D>::New();
   bool glyphs_visible = true;
   bool crot_shown = false, couple_shown = false;
   // What the glyph geometry was built from; a load change that keeps it (a new magnitude only)
@@ -245,7 +271,9 @@ struct ModelScene::Impl {
   }
 
   double field_at(int node) const {
-    const int i = node >= 0 && node < static_cast<int>(pdl_index.size()) ? pdl_index[static_cast<size_t>(node)] : -1;
+    const int i = node >= 0 && node < static_cast<int>(pdl_index.size())
+                      ? pdl_index[static_cast<size_t>(node)]
+                      : -1;
     return i >= 0 && i < static_cast<int>(field.size()) ? field[static_cast<size_t>(i)] : NAN;
   }
 
@@ -289,7 +317,8 @@ struct ModelScene::Impl {
 
   std::vector<double> section_values(const DisplaySection& s) const {
     std::vector<double> v(s.points.size());
-    for (size_t i = 0; i < v.size(); ++i) v[i] = interpolate(s.points[i], field_at(s.points[i].a), field_at(s.points[i].b));
+    for (size_t i = 0; i < v.size(); ++i)
+      v[i] = interpolate(s.points[i], field_at(s.points[i].a), field_at(s.points[i].b));
     return v;
   }
 
@@ -299,9 +328,11 @@ struct ModelScene::Impl {
     for (int k = 0; k < 2; ++k) {
       std::vector<Segment3> segments;
       if (iso_visible && has_model && !field.empty()) {
-        segments = triangle_iso_lines(pdl_points, pdl_surface.triangles, surface_values(), iso_level[k]);
+        segments =
+            triangle_iso_lines(pdl_points, pdl_surface.triangles, surface_values(), iso_level[k]);
         if (SectionParts* s = active_section()) {
-          const auto more = triangle_iso_lines(s->pdl_points, s->pdl.triangles, section_values(s->pdl), iso_level[k]);
+          const auto more = triangle_iso_lines(s->pdl_points, s->pdl.triangles,
+                                               section_values(s->pdl), iso_level[k]);
           segments.insert(segments.end(), more.begin(), more.end());
         }
       }
@@ -313,12 +344,14 @@ struct ModelScene::Impl {
 
   // Sizes in pixels, for frames of `scale` frame pixels per screen pixel (VtkView::pixel_scale).
   void apply_pixel_scale(double scale) {
-    iso_capillary.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.0 * scale)));
+    iso_capillary.actor->GetProperty()->SetLineWidth(
+        static_cast<float>(std::max(1.0, 2.0 * scale)));
     iso_limit.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 3.5 * scale)));
     band_line.actor->GetProperty()->SetLineWidth(static_cast<float>(std::max(1.0, 2.5 * scale)));
     // Labels on opposite sides of their markers, which often sit close together.
     auto offset = [scale](vtkBillboardTextActor3D* t, int x, int y) {
-      t->SetDisplayOffset(static_cast<int>(std::lround(x * scale)), static_cast<int>(std::lround(y * scale)));
+      t->SetDisplayOffset(static_cast<int>(std::lround(x * scale)),
+                          static_cast<int>(std::lround(y * scale)));
     };
     offset(cres_label, -62, 6);
     offset(crot_label, 18, -18);
@@ -330,7 +363,8 @@ struct ModelScene::Impl {
     // Software OpenGL spends its time per pixel, not per triangle: the see-through bone, blended
     // over most of the view, costs about as much as the rest of the scene. It is left out while
     // the view turns and drawn again for the still frame.
-    bone.actor->SetVisibility(has_model && bone_style != BoneStyle::kHidden && !(see_through && interacting));
+    bone.actor->SetVisibility(has_model && bone_style != BoneStyle::kHidden &&
+                              !(see_through && interacting));
     bone.actor->GetProperty()->SetOpacity(see_through ? kBoneOpacity : 1.0);
     tooth.actor->SetVisibility(has_model);
     pdl.actor->SetVisibility(has_model);
@@ -412,7 +446,8 @@ ModelScene::ModelScene(vtkRenderer* scene, vtkRenderer* overlay) : impl_(std::ma
   d.couple_head.solid(kForceColour.data());
   d.cres.solid(kCresColour.data());
   d.crot.solid(kCrotColour.data());
-  for (Part* p : {&d.arrow, &d.couple_arc, &d.couple_head, &d.cres, &d.crot}) overlay->AddActor(p->actor);
+  for (Part* p : {&d.arrow, &d.couple_arc, &d.couple_head, &d.cres, &d.crot})
+    overlay->AddActor(p->actor);
   auto style_label = [&](vtkBillboardTextActor3D* t, const Rgb& rgb) {
     const Rgb box = label_box_colour();
     t->GetTextProperty()->SetFontSize(15);
@@ -451,7 +486,8 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   Impl& d = *impl_;
   d.geometry = geometry;
   d.pdl_index.assign(static_cast<size_t>(mesh.n_nodes()), -1);
-  for (size_t i = 0; i < pdl_nodes.size(); ++i) d.pdl_index[static_cast<size_t>(pdl_nodes[i])] = static_cast<int>(i);
+  for (size_t i = 0; i < pdl_nodes.size(); ++i)
+    d.pdl_index[static_cast<size_t>(pdl_nodes[i])] = static_cast<int>(i);
   auto points_of = [&](const std::vector<int>& nodes) {
     std::vector<Eigen::Vector3d> p;
     p.reserve(nodes.size());
@@ -470,7 +506,8 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
   const DisplaySurface bone = visible_boundary(mesh, bone_regions, {mesh::kPdl});
   fill_triangles(d.bone.data, points_of(bone.nodes), bone.triangles, true);
   for (Part* p : {&d.tooth, &d.pdl, &d.bone}) p->scalars = nullptr;
-  d.n_triangles = static_cast<int>(tooth.triangles.size() + d.pdl_surface.triangles.size() + bone.triangles.size());
+  d.n_triangles = static_cast<int>(tooth.triangles.size() + d.pdl_surface.triangles.size() +
+                                   bone.triangles.size());
 
   const Eigen::Vector3d normals[2] = {Eigen::Vector3d::UnitY(), Eigen::Vector3d::UnitX()};
   for (int k = 0; k < 2; ++k) {
@@ -479,18 +516,21 @@ void ModelScene::set_model(const mesh::VolumeMesh& mesh, const std::vector<int>&
       std::vector<Eigen::Vector3d> p;
       p.reserve(sec.points.size());
       for (const EdgePoint& e : sec.points)
-        p.push_back(interpolate(e, mesh.nodes[static_cast<size_t>(e.a)], mesh.nodes[static_cast<size_t>(e.b)]));
+        p.push_back(interpolate(e, mesh.nodes[static_cast<size_t>(e.a)],
+                                mesh.nodes[static_cast<size_t>(e.b)]));
       return p;
     };
     s.tooth = plane_section(mesh, {mesh::kTooth}, Eigen::Vector3d::Zero(), normals[k]);
     s.pdl = plane_section(mesh, {mesh::kPdl}, Eigen::Vector3d::Zero(), normals[k]);
     s.cortical = plane_section(mesh, {mesh::kCorticalBone}, Eigen::Vector3d::Zero(), normals[k]);
-    s.cancellous = plane_section(mesh, {mesh::kCancellousBone}, Eigen::Vector3d::Zero(), normals[k]);
+    s.cancellous =
+        plane_section(mesh, {mesh::kCancellousBone}, Eigen::Vector3d::Zero(), normals[k]);
     s.pdl_points = section_points(s.pdl);
     fill_triangles(s.tooth_part.data, section_points(s.tooth), s.tooth.triangles, false);
     fill_triangles(s.pdl_part.data, s.pdl_points, s.pdl.triangles, false);
     fill_triangles(s.cortical_part.data, section_points(s.cortical), s.cortical.triangles, false);
-    fill_triangles(s.cancellous_part.data, section_points(s.cancellous), s.cancellous.triangles, false);
+    fill_triangles(s.cancellous_part.data, section_points(s.cancellous), s.cancellous.triangles,
+                   false);
   }
   d.has_model = true;
   d.field.clear();
@@ -530,10 +570,14 @@ void ModelScene::set_band(const std::vector<char>& band) {
   std::vector<double> flag(d.pdl_surface.nodes.size(), 0.0);
   for (size_t i = 0; i < flag.size(); ++i) {
     const int node = d.pdl_surface.nodes[i];
-    const int k = node >= 0 && node < static_cast<int>(d.pdl_index.size()) ? d.pdl_index[static_cast<size_t>(node)] : -1;
-    flag[i] = k >= 0 && k < static_cast<int>(band.size()) && band[static_cast<size_t>(k)] ? 1.0 : 0.0;
+    const int k = node >= 0 && node < static_cast<int>(d.pdl_index.size())
+                      ? d.pdl_index[static_cast<size_t>(node)]
+                      : -1;
+    flag[i] =
+        k >= 0 && k < static_cast<int>(band.size()) && band[static_cast<size_t>(k)] ? 1.0 : 0.0;
   }
-  const std::vector<Segment3> segments = triangle_iso_lines(d.pdl_points, d.pdl_surface.triangles, flag, 0.5);
+  const std::vector<Segment3> segments =
+      triangle_iso_lines(d.pdl_points, d.pdl_surface.triangles, flag, 0.5);
   d.n_band = static_cast<int>(segments.size());
   fill_segments(d.band_line.data, segments);
   d.apply_visibility();
@@ -551,7 +595,8 @@ void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
   d.update_iso_lines();
 }
 
-void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const QString& force_text) {
+void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result,
+                                 const QString& force_text) {
   Impl& d = *impl_;
   QElapsedTimer timer;
   timer.start();
@@ -604,13 +649,14 @@ void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result, const Q
   d.couple_shown = m > 1e-9;
   if (d.couple_shown) {
     const Eigen::Vector3d axis = load.couple_nmm / m;
-    Eigen::Vector3d helper = std::abs(axis.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
+    Eigen::Vector3d helper =
+        std::abs(axis.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
     const Eigen::Vector3d u = helper.cross(axis).normalized();
     const Eigen::Vector3d v = axis.cross(u);
     const Eigen::Vector3d centre = load.application_point + 2.5 * d.geometry.bracket_normal;
     const double radius = 3.0;
     const int n = 48;
-    const double sweep = 1.5 * 3.14159265358979323846;
+    const double sweep = 1.5 * sharpey::core::kPi;
     std::vector<Segment3> segments;
     Eigen::Vector3d previous = centre + radius * u;
     for (int i = 1; i <= n; ++i) {
@@ -710,9 +756,11 @@ HoverReadout ModelScene::readout_at(double x, double y, Quantity quantity) {
   const Eigen::Vector3d p(q[0], q[1], q[2]);
   const int cell = static_cast<int>(picker->GetCellId());
   if (hit == d.pdl.actor)
-    return surface_readout(d.pdl_points, d.pdl_surface.triangles, d.surface_values(), quantity, cell, p);
+    return surface_readout(d.pdl_points, d.pdl_surface.triangles, d.surface_values(), quantity,
+                           cell, p);
   if (s && hit == s->pdl_part.actor)
-    return surface_readout(s->pdl_points, s->pdl.triangles, d.section_values(s->pdl), quantity, cell, p);
+    return surface_readout(s->pdl_points, s->pdl.triangles, d.section_values(s->pdl), quantity,
+                           cell, p);
   return {};
 }
 
@@ -730,7 +778,8 @@ void ModelScene::reset_camera() {
   camera->SetViewAngle(30);
   // Frame the tooth (crown tip to apex) with some margin rather than the whole bone block.
   const double height = d.geometry.crown_tip.z() - d.geometry.apex.z();
-  const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
+  const double distance =
+      (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * sharpey::core::kRadiansPerDegree);
   camera->SetPosition(view.x() * distance, view.y() * distance, mid_z + view.z() * distance);
   d.scene->ResetCameraClippingRange();
 }
@@ -740,7 +789,8 @@ void ModelScene::look_from(ViewSide side, bool oblique) {
   vtkCamera* camera = d.scene->GetActiveCamera();
   const double mid_z = 0.5 * (d.geometry.crown_tip.z() + d.geometry.apex.z());
   const double height = d.geometry.crown_tip.z() - d.geometry.apex.z();
-  const double distance = (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * 3.14159265358979323846 / 180.0);
+  const double distance =
+      (height > 0 ? 0.62 * height : 15.0) / std::tan(15.0 * sharpey::core::kRadiansPerDegree);
   Eigen::Vector3d v = view_direction(side);
   if (oblique && side != ViewSide::kOcclusal) {
     // Turned a little aside (toward mesial; from a proximal side toward the other face), for depth.

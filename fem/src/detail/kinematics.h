@@ -9,7 +9,7 @@
 #include <string>
 #include <vector>
 
-#include "sharpey/mesh/reference_tetrahedron.h"
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/mesh/volume_mesh.h"
 
 namespace sharpey::fem::detail {
@@ -33,13 +33,13 @@ struct ReferenceTable {
 };
 
 template <int K>
-ReferenceTable<K> make_reference_table(const mesh::QuadratureRule& rule) {
+ReferenceTable<K> make_reference_table(const core::QuadratureRule& rule) {
   ReferenceTable<K> t;
   t.points = rule.points;
   t.weights = rule.weights;
   for (const Eigen::Vector3d& p : rule.points) {
-    t.shape.push_back(mesh::tet_shape(K, p));
-    t.gradient.push_back(mesh::tet_shape_gradient(K, p));
+    t.shape.push_back(core::tet_shape(K, p));
+    t.gradient.push_back(core::tet_shape_gradient(K, p));
   }
   return t;
 }
@@ -47,9 +47,9 @@ ReferenceTable<K> make_reference_table(const mesh::QuadratureRule& rule) {
 // Table of the tetrahedral rule of `degree` (1, 2 or 5), built once (thread-safe static init).
 template <int K>
 const ReferenceTable<K>& reference_table(int degree) {
-  static const ReferenceTable<K> t1 = make_reference_table<K>(mesh::tet_quadrature(1));
-  static const ReferenceTable<K> t2 = make_reference_table<K>(mesh::tet_quadrature(2));
-  static const ReferenceTable<K> t5 = make_reference_table<K>(mesh::tet_quadrature(5));
+  static const ReferenceTable<K> t1 = make_reference_table<K>(core::tet_quadrature(1));
+  static const ReferenceTable<K> t2 = make_reference_table<K>(core::tet_quadrature(2));
+  static const ReferenceTable<K> t5 = make_reference_table<K>(core::tet_quadrature(5));
   return degree <= 1 ? t1 : (degree == 2 ? t2 : t5);
 }
 
@@ -70,7 +70,7 @@ bool is_straight(const NodeCoords<K>& X) {
     return true;
   } else {
     for (int k = 0; k < 6; ++k) {
-      const Eigen::Vector3d a = X.col(mesh::kTetEdges[k][0]), b = X.col(mesh::kTetEdges[k][1]);
+      const Eigen::Vector3d a = X.col(core::kTetEdges[k][0]), b = X.col(core::kTetEdges[k][1]);
       if ((X.col(4 + k) - 0.5 * (a + b)).norm() > kStraightTolerance * (b - a).norm()) return false;
     }
     return true;
@@ -115,8 +115,8 @@ void fill_b(const ShapeGradient<K>& G, BMatrix<K>* B) {
   }
 }
 
-// Element stiffness in Ke (3K x 3K). Returns the element index-free status: the smallest det(J) over
-// the quadrature points (the caller throws when it is not positive).
+// Element stiffness in Ke (3K x 3K). Returns the element index-free status: the smallest det(J)
+// over the quadrature points (the caller throws when it is not positive).
 template <int K>
 double element_stiffness_fixed(const NodeCoords<K>& X, const Eigen::Matrix<double, 6, 6>& D,
                                ElementMatrix<K>* Ke) {
@@ -138,9 +138,10 @@ double element_stiffness_fixed(const NodeCoords<K>& X, const Eigen::Matrix<doubl
 }
 
 // Isotropic kernel used by the assembly: per quadrature point and node pair (a, b),
-// K_ab(i, j) += w det(J) [lambda g_a,i g_b,j + mu g_a,j g_b,i + mu (g_a . g_b) delta_ij], computed for
-// b >= a and mirrored. Same result as element_stiffness_fixed with the isotropic D, with about a
-// quarter of the work (B is half zeros). Returns the smallest det(J) like element_stiffness_fixed.
+// K_ab(i, j) += w det(J) [lambda g_a,i g_b,j + mu g_a,j g_b,i + mu (g_a . g_b) delta_ij], computed
+// for b >= a and mirrored. Same result as element_stiffness_fixed with the isotropic D, with about
+// a quarter of the work (B is half zeros). Returns the smallest det(J) like
+// element_stiffness_fixed.
 template <int K>
 double element_stiffness_isotropic(const NodeCoords<K>& X, double lambda, double mu,
                                    ElementMatrix<K>* Ke) {

@@ -4,10 +4,12 @@
 #include <cmath>
 #include <limits>
 
+#include "sharpey/core/constants.h"
+
 namespace sharpey::mesh::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr int kOutlineSamples = 720;
 
 double surface_angle(ToothSurface s) {

@@ -11,7 +11,6 @@
 #include <unistd.h>
 
 #include <Eigen/Geometry>
-
 #include <algorithm>
 #include <array>
 #include <cerrno>
@@ -28,9 +27,9 @@
 #include <vector>
 
 #include "mesher_protocol.h"
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/child_process.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
 #include "tetgen_terminate.h"
@@ -145,8 +144,9 @@ std::string switches(const Plc& plc, const TetgenOptions& o) {
   s << std::setprecision(12);
   s << "pzQA";  // PLC, zero-based indices, quiet, region attributes
   if (o.radius_edge_ratio > 0) s << "q" << o.radius_edge_ratio << "/" << o.min_dihedral_deg;
-  const bool region_bounds = std::any_of(plc.regions.begin(), plc.regions.end(),
-                                         [](const Plc::RegionSeed& r) { return r.max_volume_mm3 > 0; });
+  const bool region_bounds =
+      std::any_of(plc.regions.begin(), plc.regions.end(),
+                  [](const Plc::RegionSeed& r) { return r.max_volume_mm3 > 0; });
   if (region_bounds) s << "a";
   if (o.max_volume_mm3 > 0) s << "a" << o.max_volume_mm3;
   if (o.preserve_surface) s << "Y";
@@ -215,7 +215,8 @@ double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
 // face markers and face orientation.
 VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<int>* point_node) {
   const Plc& plc = ctx.plc;
-  if (out.numberoftetrahedra <= 0) fail(ctx, "TetGen produced no elements (is the surface closed?)");
+  if (out.numberoftetrahedra <= 0)
+    fail(ctx, "TetGen produced no elements (is the surface closed?)");
   if (out.numberofcorners != 4) fail(ctx, "TetGen returned elements that are not 4-node");
   if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
     fail(ctx, "TetGen returned no region attributes");
@@ -258,10 +259,11 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
   int n_unseeded = 0;
   for (int e = 0; e < n_tets; ++e) {
     int* t = mesh.elements.data() + 4 * static_cast<size_t>(e);
-    for (int k = 0; k < 4; ++k) t[k] = new_index[static_cast<size_t>(out.tetrahedronlist[4 * e + k])];
+    for (int k = 0; k < 4; ++k)
+      t[k] = new_index[static_cast<size_t>(out.tetrahedronlist[4 * e + k])];
     if (signed_volume(mesh.nodes, t) < 0) std::swap(t[1], t[2]);
-    const double attr = out.tetrahedronattributelist[static_cast<size_t>(e) *
-                                                     out.numberoftetrahedronattributes];
+    const double attr =
+        out.tetrahedronattributelist[static_cast<size_t>(e) * out.numberoftetrahedronattributes];
     const int region = static_cast<int>(std::lround(attr));
     if (!std::binary_search(seeded.begin(), seeded.end(), region)) ++n_unseeded;
     mesh.element_region[static_cast<size_t>(e)] = region;
@@ -300,7 +302,7 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
   for (int e = 0; e < n_tets; ++e) {
     const int* t = mesh.element(e);
     const int region = mesh.element_region[static_cast<size_t>(e)];
-    for (const auto& lf : kTetFaces) {  // outward for positive volume
+    for (const auto& lf : core::kTetFaces) {  // outward for positive volume
       const auto it = face_of_key.find(FaceKey(t[lf[0]], t[lf[1]], t[lf[2]]));
       if (it == face_of_key.end()) continue;
       const auto f = static_cast<size_t>(it->second);
@@ -499,15 +501,13 @@ VolumeMesh run_tetgen_isolated(const Context& ctx, const TetgenOptions& options,
   mesh.nodes_per_face = 3;
   std::vector<int> nodes_of_points;
   size_t pos = 1;
-  const bool ok = child.exit_code == 0 && !report.empty() && report[0] == kMeshReport &&
-                  read_vector(report, &pos, &mesh.nodes) &&
-                  read_vector(report, &pos, &mesh.elements) &&
-                  read_vector(report, &pos, &mesh.element_region) &&
-                  read_vector(report, &pos, &mesh.faces) &&
-                  read_vector(report, &pos, &mesh.face_marker) &&
-                  read_vector(report, &pos, &nodes_of_points) && pos == report.size() &&
-                  mesh.elements.size() == 4 * mesh.element_region.size() &&
-                  mesh.faces.size() == 3 * mesh.face_marker.size();
+  const bool ok =
+      child.exit_code == 0 && !report.empty() && report[0] == kMeshReport &&
+      read_vector(report, &pos, &mesh.nodes) && read_vector(report, &pos, &mesh.elements) &&
+      read_vector(report, &pos, &mesh.element_region) && read_vector(report, &pos, &mesh.faces) &&
+      read_vector(report, &pos, &mesh.face_marker) && read_vector(report, &pos, &nodes_of_points) &&
+      pos == report.size() && mesh.elements.size() == 4 * mesh.element_region.size() &&
+      mesh.faces.size() == 3 * mesh.face_marker.size();
   if (!ok) {
     fail(ctx, "the mesher process " + program + " ended without a complete result (exit code " +
                   std::to_string(child.exit_code) + ", " + std::to_string(report.size()) +
@@ -544,7 +544,8 @@ int run_mesher(int in_fd, int out_fd) {
 
 }  // namespace detail
 
-VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options, std::vector<int>* point_node) {
+VolumeMesh tetrahedralize(const Plc& plc, const TetgenOptions& options,
+                          std::vector<int>* point_node) {
   check_options(options);
   const Context ctx{plc, options.stage};
   check_plc(ctx);

@@ -4,10 +4,12 @@
 #include <algorithm>
 #include <cmath>
 
+#include "sharpey/core/constants.h"
+
 namespace sharpey::mesh::detail {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+using sharpey::core::kPi;
 constexpr int kArcIntervals = 8192;
 
 template <class T>
@@ -188,9 +190,7 @@ Section<T> ToothShape::eval(const T& s) const {
   return crown_section(s);
 }
 
-Section<double> ToothShape::section(double s) const {
-  return eval(std::clamp(s, -1.0, 1.0));
-}
+Section<double> ToothShape::section(double s) const { return eval(std::clamp(s, -1.0, 1.0)); }
 Section<Dual2> ToothShape::section(const Dual2& s) const { return eval(s); }
 
 Eigen::Vector3d ToothShape::point(double theta, double s) const {

@@ -4,11 +4,13 @@
 #include <cmath>
 #include <vector>
 
+#include "sharpey/core/constants.h"
+
 namespace sharpey::test {
 
 CresFractions thin_layer_fractions(const mesh::ModelSpec& model, const fem::Material& pdl,
                                    double crest_z, double apex_z) {
-  constexpr double kPi = 3.14159265358979323846;
+  using sharpey::core::kPi;
   const double E = pdl.young_modulus_mpa, nu = pdl.poisson_ratio;
   const double mu = E / (2 * (1 + nu)), lambda = E * nu / ((1 + nu) * (1 - 2 * nu));
   const double k_n = lambda + 2 * mu, k_s = mu;  // per unit area times the (uniform) width
@@ -36,8 +38,8 @@ CresFractions thin_layer_fractions(const mesh::ModelSpec& model, const fem::Mate
       const double area = cross.norm() * (2 * kPi / n_theta) * dz;
       const Eigen::Vector3d N = cross.normalized();
       const Eigen::Vector3d p(am * c, bm * s, zm);
-      const Eigen::Matrix3d k =
-          area * (k_n * N * N.transpose() + k_s * (Eigen::Matrix3d::Identity() - N * N.transpose()));
+      const Eigen::Matrix3d k = area * (k_n * N * N.transpose() +
+                                        k_s * (Eigen::Matrix3d::Identity() - N * N.transpose()));
       Eigen::Matrix3d P;  // u(p) = t + w x p = t - [p]x w
       P << 0, -p.z(), p.y(), p.z(), 0, -p.x(), -p.y(), p.x(), 0;
       Eigen::Matrix<double, 3, 6> B;

@@ -1,5 +1,5 @@
 // Helpers of the fem verification tests, computed independently of the fem library from the
-// shape functions and quadrature rules of sharpey/mesh/reference_tetrahedron.h: constraint sets,
+// shape functions and quadrature rules of sharpey/core/reference_tetrahedron.h: constraint sets,
 // consistent body-force loads, interpolation, and L2 / H1 error norms against exact fields.
 // Header-only on purpose: only the verification tests that include it link against the solver.
 #pragma once
@@ -13,8 +13,8 @@
 #include <utility>
 #include <vector>
 
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/fem/elasticity.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/volume_mesh.h"
 
 namespace sharpey::testing {
@@ -93,8 +93,8 @@ struct ElementPoint {
 inline ElementPoint element_point(const mesh::VolumeMesh& m, int e, const Eigen::Vector3d& p) {
   const int k = m.nodes_per_element;
   ElementPoint q;
-  q.N = mesh::tet_shape(k, p);
-  const Eigen::MatrixXd G = mesh::tet_shape_gradient(k, p);
+  q.N = core::tet_shape(k, p);
+  const Eigen::MatrixXd G = core::tet_shape_gradient(k, p);
   Eigen::Matrix3d J = Eigen::Matrix3d::Zero();  // J(i, j) = dx_i / dxi_j
   q.x.setZero();
   for (int a = 0; a < k; ++a) {
@@ -109,7 +109,7 @@ inline ElementPoint element_point(const mesh::VolumeMesh& m, int e, const Eigen:
 
 // Consistent nodal forces f_a = integral(N_a b dV) of a body force b (N/mm^3), degree-5 rule.
 inline Eigen::VectorXd body_force_load(const mesh::VolumeMesh& m, const VectorField& b) {
-  const mesh::QuadratureRule rule = mesh::tet_quadrature(5);
+  const core::QuadratureRule rule = core::tet_quadrature(5);
   Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
   for (int e = 0; e < m.n_elements(); ++e) {
     for (size_t p = 0; p < rule.points.size(); ++p) {
@@ -144,7 +144,7 @@ struct ErrorNorms {
 };
 inline ErrorNorms relative_errors(const mesh::VolumeMesh& m, const Eigen::VectorXd& u_h,
                                   const VectorField& u, const GradientField& grad_u) {
-  const mesh::QuadratureRule rule = mesh::tet_quadrature(5);
+  const core::QuadratureRule rule = core::tet_quadrature(5);
   double e0 = 0, n0 = 0, e1 = 0, n1 = 0;
   for (int e = 0; e < m.n_elements(); ++e) {
     for (size_t p = 0; p < rule.points.size(); ++p) {

@@ -10,8 +10,8 @@
 #include <utility>
 #include <vector>
 
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 
 namespace sharpey::testing {
 namespace {
@@ -21,7 +21,7 @@ using Index3 = std::array<int, 3>;  // position on the half-spacing grid: 2 * (c
 // det(dx/dxi) of element e at reference point p.
 double jacobian_determinant(const mesh::VolumeMesh& m, int e, const Eigen::Vector3d& p) {
   const int k = m.nodes_per_element;
-  const Eigen::MatrixXd G = mesh::tet_shape_gradient(k, p);  // k x 3
+  const Eigen::MatrixXd G = core::tet_shape_gradient(k, p);  // k x 3
   Eigen::Matrix3d J = Eigen::Matrix3d::Zero();
   const int* en = m.element(e);
   for (int i = 0; i < k; ++i) J += m.nodes[static_cast<size_t>(en[i])] * G.row(i);
@@ -34,7 +34,7 @@ double min_jacobian(const mesh::VolumeMesh& m, int e) {
   double d = jacobian_determinant(m, e, Eigen::Vector3d(0.25, 0.25, 0.25));
   if (m.nodes_per_element == 10) {
     for (int i = 0; i < 10; ++i)
-      d = std::min(d, jacobian_determinant(m, e, mesh::tet_node_reference(i)));
+      d = std::min(d, jacobian_determinant(m, e, core::tet_node_reference(i)));
   }
   return d;
 }
@@ -106,14 +106,14 @@ mesh::VolumeMesh grid_mesh(int nx, int ny, int nz, int nodes_per_element, const 
           if ((x(1) - x(0)).cross(x(2) - x(0)).dot(x(3) - x(0)) < 0) std::swap(v[1], v[2]);
           for (int a = 0; a < 4; ++a) m.elements.push_back(id[flat(v[a])]);
           if (quadratic) {
-            for (const auto& edge : mesh::kTetEdges) {
+            for (const auto& edge : core::kTetEdges) {
               m.elements.push_back(id[flat(midpoint(v[edge[0]], v[edge[1]]))]);
             }
           }
           m.element_region.push_back(region);
 
           // Element faces lying on a side of the cube are boundary faces.
-          for (const auto& f : mesh::kTetFaces) {
+          for (const auto& f : core::kTetFaces) {
             for (int axis = 0; axis < 3; ++axis) {
               for (int side = 0; side < 2; ++side) {
                 const int level = side ? 2 * n_cells[axis] : 0;
@@ -148,7 +148,7 @@ void jitter_nodes(mesh::VolumeMesh& m, double fraction, unsigned seed) {
   std::map<std::array<int, 3>, int> face_count;
   for (int e = 0; e < m.n_elements(); ++e) {
     const int* en = m.element(e);
-    for (const auto& f : mesh::kTetFaces) {
+    for (const auto& f : core::kTetFaces) {
       std::array<int, 3> key = {en[f[0]], en[f[1]], en[f[2]]};
       std::sort(key.begin(), key.end());
       ++face_count[key];
@@ -171,7 +171,7 @@ void jitter_nodes(mesh::VolumeMesh& m, double fraction, unsigned seed) {
       elements_of[static_cast<size_t>(en[a])].push_back(e);
       is_vertex[static_cast<size_t>(en[a])] = 1;
     }
-    for (const auto& edge : mesh::kTetEdges) {
+    for (const auto& edge : core::kTetEdges) {
       const int a = en[edge[0]], b = en[edge[1]];
       const double h = (m.nodes[static_cast<size_t>(a)] - m.nodes[static_cast<size_t>(b)]).norm();
       spacing[static_cast<size_t>(a)] = std::min(spacing[static_cast<size_t>(a)], h);
@@ -185,8 +185,8 @@ void jitter_nodes(mesh::VolumeMesh& m, double fraction, unsigned seed) {
     for (int e = 0; e < m.n_elements(); ++e) {
       const int* en = m.element(e);
       for (int s = 0; s < 6; ++s) {
-        const int a = en[mesh::kTetEdges[static_cast<size_t>(s)][0]];
-        const int b = en[mesh::kTetEdges[static_cast<size_t>(s)][1]];
+        const int a = en[core::kTetEdges[static_cast<size_t>(s)][0]];
+        const int b = en[core::kTetEdges[static_cast<size_t>(s)][1]];
         midsides_of[static_cast<size_t>(a)].emplace_back(en[4 + s], b);
         midsides_of[static_cast<size_t>(b)].emplace_back(en[4 + s], a);
       }

@@ -28,7 +28,7 @@ using PointMap = std::function<Eigen::Vector3d(const Eigen::Vector3d&)>;
 using RegionOf = std::function<int(const Eigen::Vector3d&)>;
 
 // nx, ny, nz >= 1 cells per direction; nodes_per_element 4 or 10 (VTK order, see
-// sharpey/mesh/reference_tetrahedron.h). `map` sends unit coordinates to physical ones (mm);
+// sharpey/core/reference_tetrahedron.h). `map` sends unit coordinates to physical ones (mm);
 // empty = identity. Every element is oriented to positive volume (judged from its mapped vertices),
 // so a map that reverses orientation is fine. Boundary faces (3 or 6 nodes) on the six sides carry
 // GridSide markers with outward right-hand normals. element_region = region_of(cell centre in unit

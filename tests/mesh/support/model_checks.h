@@ -2,17 +2,17 @@
 // normals. Header-only; used by tests/mesh/test_model_*.cpp.
 #pragma once
 
+#include <gtest/gtest.h>
+
 #include <Eigen/Geometry>
 #include <algorithm>
 #include <array>
 #include <map>
 #include <vector>
 
-#include <gtest/gtest.h>
-
+#include "sharpey/core/reference_tetrahedron.h"
+#include "sharpey/core/reference_triangle.h"
 #include "sharpey/mesh/mesh_statistics.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
-#include "sharpey/mesh/reference_triangle.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "sharpey/mesh/volume_mesh.h"
 
@@ -59,7 +59,7 @@ inline std::map<Triple, std::vector<FaceUse>> element_faces(const VolumeMesh& m)
   for (int e = 0; e < m.n_elements(); ++e) {
     const int* t = m.element(e);
     for (int f = 0; f < 4; ++f) {
-      const auto& lf = kTetFaces[f];
+      const auto& lf = core::kTetFaces[f];
       faces[sorted_triple(t[lf[0]], t[lf[1]], t[lf[2]])].push_back({e, f});
     }
   }
@@ -67,15 +67,15 @@ inline std::map<Triple, std::vector<FaceUse>> element_faces(const VolumeMesh& m)
 }
 
 // The six nodes (3 vertices, 3 midside) of local face f of element e, in the face's own VTK order
-// (vertices as in kTetFaces, then midside nodes on its edges (0,1) (1,2) (0,2)).
+// (vertices as in core::kTetFaces, then midside nodes on its edges (0,1) (1,2) (0,2)).
 inline std::array<int, 6> face_nodes(const VolumeMesh& m, int e, int f) {
   const int* t = m.element(e);
-  const auto& lf = kTetFaces[f];
+  const auto& lf = core::kTetFaces[f];
   std::array<int, 6> n{t[lf[0]], t[lf[1]], t[lf[2]], -1, -1, -1};
   if (m.nodes_per_element == 10) {
     auto midside = [&](int a, int b) {
       for (int k = 0; k < 6; ++k) {
-        const int p = kTetEdges[k][0], q = kTetEdges[k][1];
+        const int p = core::kTetEdges[k][0], q = core::kTetEdges[k][1];
         if ((p == a && q == b) || (p == b && q == a)) return t[4 + k];
       }
       return -1;
@@ -98,10 +98,10 @@ inline double element_volume(const VolumeMesh& m, int e) {
   const int k = m.nodes_per_element;
   Eigen::MatrixXd x(3, k);
   for (int i = 0; i < k; ++i) x.col(i) = m.nodes[m.element(e)[i]];
-  const QuadratureRule q = tet_quadrature(5);
+  const core::QuadratureRule q = core::tet_quadrature(5);
   double v = 0;
   for (size_t i = 0; i < q.points.size(); ++i)
-    v += q.weights[i] * (x * tet_shape_gradient(k, q.points[i])).determinant();
+    v += q.weights[i] * (x * core::tet_shape_gradient(k, q.points[i])).determinant();
   return v;
 }
 
@@ -110,11 +110,11 @@ inline double element_volume(const VolumeMesh& m, int e) {
 inline double face_flux(const VolumeMesh& m, const int* nodes, int n_nodes) {
   Eigen::MatrixXd x(3, n_nodes);
   for (int i = 0; i < n_nodes; ++i) x.col(i) = m.nodes[nodes[i]];
-  const TriangleQuadrature q = tri_quadrature(5);
+  const core::TriangleQuadrature q = core::tri_quadrature(5);
   double flux = 0;
   for (size_t i = 0; i < q.points.size(); ++i) {
-    const Eigen::Vector3d p = x * tri_shape(n_nodes, q.points[i]);
-    const Eigen::MatrixXd d = x * tri_shape_gradient(n_nodes, q.points[i]);
+    const Eigen::Vector3d p = x * core::tri_shape(n_nodes, q.points[i]);
+    const Eigen::MatrixXd d = x * core::tri_shape_gradient(n_nodes, q.points[i]);
     flux += q.weights[i] * p.dot(Eigen::Vector3d(d.col(0)).cross(Eigen::Vector3d(d.col(1)))) / 3;
   }
   return flux;

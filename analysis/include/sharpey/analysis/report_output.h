@@ -14,11 +14,8 @@
 
 namespace sharpey::analysis {
 
-// A report file could not be written (disk full, no permission, missing folder).
-class OutputError : public Error {
- public:
-  using Error::Error;
-};
+// A report file could not be written (sharpey/error.h); also known by its former name here.
+using sharpey::OutputError;
 
 // Writes `content` to `path` through a temporary file in the same folder and a rename, so `path`
 // is either absent, its old content or the complete new content, even if the process is killed.

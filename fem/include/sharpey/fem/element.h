@@ -4,8 +4,8 @@
 
 #include <Eigen/Core>
 
+#include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/fem/material.h"
-#include "sharpey/mesh/reference_tetrahedron.h"
 #include "sharpey/mesh/volume_mesh.h"
 
 namespace sharpey::fem {
@@ -15,9 +15,9 @@ namespace sharpey::fem {
 // constant Jacobian.
 bool element_is_straight(const mesh::VolumeMesh& mesh, int e);
 
-// Quadrature rule used for the stiffness of element e: 1 point (4-node, exact), the 4-point degree-2
-// rule (straight 10-node, exact), the 14-point degree-5 rule (curved 10-node).
-mesh::QuadratureRule stiffness_quadrature(const mesh::VolumeMesh& mesh, int e);
+// Quadrature rule used for the stiffness of element e: 1 point (4-node, exact), the 4-point
+// degree-2 rule (straight 10-node, exact), the 14-point degree-5 rule (curved 10-node).
+core::QuadratureRule stiffness_quadrature(const mesh::VolumeMesh& mesh, int e);
 
 // Element stiffness (3k x 3k, N/mm, k = 4 or 10, dof order node-major x y z) of element `e` of
 // `mesh`: sum over quadrature points of w det(J) B^T D B. D: 6 x 6, MPa.

@@ -11,14 +11,14 @@
 #include <array>
 #include <vector>
 
-namespace sharpey::mesh {
+namespace sharpey::core {
 
 // Vertex pairs of the six edges, in midside-node order (node 4 + k lies on kTetEdges[k]).
 inline constexpr std::array<std::array<int, 2>, 6> kTetEdges = {
     {{0, 1}, {1, 2}, {0, 2}, {0, 3}, {1, 3}, {2, 3}}};
 
-// The four faces as vertex triples, numbered by the opposite vertex (face i lies opposite vertex i),
-// ordered so the right-hand normal points out of the tetrahedron when its volume is positive.
+// The four faces as vertex triples, numbered by the opposite vertex (face i lies opposite vertex
+// i), ordered so the right-hand normal points out of the tetrahedron when its volume is positive.
 inline constexpr std::array<std::array<int, 3>, 4> kTetFaces = {
     {{1, 2, 3}, {0, 3, 2}, {0, 1, 3}, {0, 2, 1}}};
 
@@ -67,10 +67,10 @@ struct QuadratureRule {
 };
 
 // Symmetric rules with positive weights, exact for polynomials up to `degree`:
-// degree 1 (1 point), 2 (4 points), 5 (14 points). Any other degree <= 5 returns the next exact rule.
-// source: the 4-point and 14-point rules are the standard symmetric tetrahedral rules (e.g. Keast
-// 1986, Comput Methods Appl Mech Eng 55:339; Walkington's tables); values from memory, verified by
-// the monomial-exactness test in tests/mesh.
+// degree 1 (1 point), 2 (4 points), 5 (14 points). Any other degree <= 5 returns the next exact
+// rule. source: the 4-point and 14-point rules are the standard symmetric tetrahedral rules (e.g.
+// Keast 1986, Comput Methods Appl Mech Eng 55:339; Walkington's tables); values from memory,
+// verified by the monomial-exactness test in tests/mesh.
 inline QuadratureRule tet_quadrature(int degree) {
   QuadratureRule q;
   auto add_a3b = [&q](double a, double w) {  // 4 points: (a, a, a) permuted with b = 1 - 3a
@@ -100,4 +100,4 @@ inline QuadratureRule tet_quadrature(int degree) {
   return q;
 }
 
-}  // namespace sharpey::mesh
+}  // namespace sharpey::core

@@ -8,7 +8,7 @@
 #include <cmath>
 #include <vector>
 
-namespace sharpey::mesh {
+namespace sharpey::core {
 
 // Vertex pairs of the three edges, in midside-node order (node 3 + k lies on kTriEdges[k]).
 inline constexpr std::array<std::array<int, 2>, 3> kTriEdges = {{{0, 1}, {1, 2}, {0, 2}}};
@@ -87,4 +87,4 @@ inline TriangleQuadrature tri_quadrature(int degree) {
   return q;
 }
 
-}  // namespace sharpey::mesh
+}  // namespace sharpey::core

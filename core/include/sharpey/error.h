@@ -21,8 +21,7 @@ class Error : public std::runtime_error {
 // parameter (a case-file path such as "scenarios[2].bone_loss_mm" or a struct field name).
 class InputError : public Error {
  public:
-  InputError(std::string key, const std::string& message)
-      : Error(message), key_(std::move(key)) {}
+  InputError(std::string key, const std::string& message) : Error(message), key_(std::move(key)) {}
   const std::string& key() const { return key_; }
 
  private:
@@ -38,6 +37,12 @@ class MeshError : public Error {
 // The linear system could not be factorised or solved (singular, unconstrained, not positive
 // definite, residual too large).
 class SolverError : public Error {
+ public:
+  using Error::Error;
+};
+
+// A report file could not be written (disk full, no permission, missing folder).
+class OutputError : public Error {
  public:
   using Error::Error;
 };
