@@ -15,7 +15,7 @@
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -75,7 +75,7 @@ int fail(int code, const std::string& kind, const std::string& message) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   CLI::App app{
       "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
       "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +

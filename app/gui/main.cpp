@@ -15,7 +15,7 @@
 #include "view/result_view.h"
 #include "view/root_map_view.h"
 #include "view/vtk_view.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -90,7 +90,7 @@ bool display_available() {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   const CommandLine line;
   {
     // --help and argument errors first, with no display needed (QApplication aborts without one).

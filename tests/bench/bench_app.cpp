@@ -29,7 +29,7 @@
 #include "view/model_scene.h"
 #include "view/result_view.h"
 #include "view/vtk_view.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 using namespace sharpey;
 
@@ -145,7 +145,7 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset)
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   app::VtkView::set_default_surface_format();
   QApplication qt(argc, argv);
   QString path = QStringLiteral(SHARPEY_SOURCE_DIR "/samples/maxillary_central_incisor_bone_loss.json");

@@ -19,7 +19,7 @@
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -80,7 +80,7 @@ double seconds(std::chrono::steady_clock::time_point t0) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   std::setvbuf(stdout, nullptr, _IOLBF, 0);  // line-buffered even into a file
   std::vector<double> volumes;
   bool factorise = true;

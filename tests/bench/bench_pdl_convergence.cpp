@@ -19,7 +19,7 @@
 #include <vector>
 
 #include "sharpey/core/constants.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
 
@@ -167,7 +167,7 @@ int run(int argc, char** argv) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   try {
     return run(argc, argv);
   } catch (const std::exception& e) {

@@ -35,7 +35,7 @@
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "support/grid_mesh.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -222,7 +222,7 @@ BenchCase tooth_case(mesh::MeshPreset preset) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   bool grids = true, teeth = true, quick = false;
   std::vector<mesh::MeshPreset> presets = {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard,
                                            mesh::MeshPreset::kFine};
@@ -256,7 +256,7 @@ int main(int argc, char** argv) {
               "load average %s\n",
               std::thread::hardware_concurrency(),
               std::getenv("OMP_NUM_THREADS") ? std::getenv("OMP_NUM_THREADS") : "(unset)",
-              sharpey::fem::blas_core_name().c_str(), load_average().c_str());
+              sharpey::startup::blas_core_name().c_str(), load_average().c_str());
   print_header();
   try {
     if (grids) {

@@ -17,7 +17,7 @@
 
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -51,7 +51,7 @@ struct StageTimer {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   using namespace sharpey;
   // Default: the sample beside this source file (the build passes absolute source paths).
   const std::string source = __FILE__;

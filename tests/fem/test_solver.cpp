@@ -9,8 +9,8 @@
 #include <vector>
 
 #include "sharpey/error.h"
-#include "sharpey/fem/blas_kernels.h"
 #include "sharpey/fem/elasticity.h"
+#include "sharpey/startup/blas_kernels.h"
 #include "support/grid_mesh.h"
 
 namespace sharpey::fem {
@@ -66,14 +66,16 @@ TEST(Solver, SparseCholeskyEqualsDenseSolve) {
       prescribed(3 * d.node + d.component) = d.value_mm;
     }
     std::vector<int> free_dofs;
-    for (int i = 0; i < n; ++i) if (!fixed[static_cast<size_t>(i)]) free_dofs.push_back(i);
+    for (int i = 0; i < n; ++i)
+      if (!fixed[static_cast<size_t>(i)]) free_dofs.push_back(i);
     const int nf = static_cast<int>(free_dofs.size());
     Eigen::MatrixXd Kff(nf, nf);
     Eigen::VectorXd b(nf);
     const Eigen::VectorXd Kp = K * prescribed;
     for (int i = 0; i < nf; ++i) {
       b(i) = f(free_dofs[static_cast<size_t>(i)]) - Kp(free_dofs[static_cast<size_t>(i)]);
-      for (int j = 0; j < nf; ++j) Kff(i, j) = K(free_dofs[static_cast<size_t>(i)], free_dofs[static_cast<size_t>(j)]);
+      for (int j = 0; j < nf; ++j)
+        Kff(i, j) = K(free_dofs[static_cast<size_t>(i)], free_dofs[static_cast<size_t>(j)]);
     }
     const Eigen::VectorXd uf = Kff.llt().solve(b);
     Eigen::VectorXd expected = prescribed;
@@ -106,7 +108,8 @@ TEST(Solver, ManyRightHandSidesEqualSingleSolves) {
 TEST(Solver, EveryOrderingGivesTheSameSolution) {
   const mesh::VolumeMesh m = small_mesh(10);
   const Eigen::VectorXd f = some_load(m.n_nodes(), 5u);
-  const Eigen::VectorXd reference = LinearElasticSolver(m, kMaterials, mixed_constraints(m)).solve(f);
+  const Eigen::VectorXd reference =
+      LinearElasticSolver(m, kMaterials, mixed_constraints(m)).solve(f);
   for (Ordering o : {Ordering::kAuto, Ordering::kAmd, Ordering::kMetis, Ordering::kNesdis,
                      Ordering::kMetisNodes}) {
     SolverOptions options;
@@ -126,7 +129,8 @@ TEST(Solver, PrescribedRigidTranslationMovesEveryNode) {
   const Eigen::Vector3d t(0.01, -0.02, 0.005);
   std::vector<DofConstraint> c;
   for (int side = 1; side <= 6; ++side) {
-    for (const DofConstraint& d : fix_faces(m, side)) c.push_back({d.node, d.component, t(d.component)});
+    for (const DofConstraint& d : fix_faces(m, side))
+      c.push_back({d.node, d.component, t(d.component)});
   }
   const LinearElasticSolver solver(m, kMaterials, c);
   const Eigen::VectorXd zero = Eigen::VectorXd::Zero(3 * m.n_nodes());
@@ -222,6 +226,8 @@ namespace {
 // derived: the kernel choice only ever replaces OpenBLAS's fallback, and only with a kernel set
 // the processor supports (checked by the compiler's cpu feature test).
 TEST(BlasKernels, OnlyTheFallbackIsReplaced) {
+  using startup::better_blas_core;
+  using startup::blas_core_name;
   EXPECT_EQ(better_blas_core("SkylakeX"), "");
   EXPECT_EQ(better_blas_core("Haswell"), "");
   EXPECT_EQ(better_blas_core(""), "");  // not OpenBLAS

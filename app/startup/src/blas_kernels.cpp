@@ -1,11 +1,11 @@
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 #include <dlfcn.h>
 #include <unistd.h>
 
 #include <cstdlib>
 
-namespace sharpey::fem {
+namespace sharpey::startup {
 
 std::string blas_core_name() {
   // Looked up at run time: the program links the reference BLAS interface (libblas.so.3), which
@@ -46,4 +46,4 @@ void use_fast_blas_kernels(char** argv) {
   // Still here: the re-execution failed; carry on with the kernels OpenBLAS chose.
 }
 
-}  // namespace sharpey::fem
+}  // namespace sharpey::startup

@@ -10,7 +10,7 @@
 
 #include <string>
 
-namespace sharpey::fem {
+namespace sharpey::startup {
 
 // The kernel set the loaded OpenBLAS uses (openblas_get_corename), or "" when the BLAS in use is
 // not OpenBLAS.
@@ -31,4 +31,4 @@ std::string better_blas_core(const std::string& current_core);
 // with the SkylakeX kernels and 1.2e-10 with the Prescott ones, the same displacement checksum.
 void use_fast_blas_kernels(char** argv);
 
-}  // namespace sharpey::fem
+}  // namespace sharpey::startup
