@@ -7,6 +7,7 @@
 #include <sstream>
 #include <stdexcept>
 
+#include "sharpey/core/check.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
@@ -223,8 +224,9 @@ double root_length_mm(const mesh::ToothSpec& tooth) {
 }
 
 mesh::ModelSpec scenario_model(const CaseSpec& spec, int scenario_index) {
-  if (scenario_index < 0 || scenario_index >= static_cast<int>(spec.scenarios.size()))
-    throw std::out_of_range("scenario_model: scenario index out of range");
+  SHARPEY_ASSERT(
+      scenario_index >= 0 && scenario_index < static_cast<int>(spec.scenarios.size()),
+      "scenario_model: scenario index " + std::to_string(scenario_index) + " out of range");
   mesh::ModelSpec model = spec.model;
   model.loss = spec.scenarios[static_cast<size_t>(scenario_index)].loss;
   return model;

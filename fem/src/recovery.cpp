@@ -1,3 +1,5 @@
+#include "sharpey/fem/recovery.h"
+
 #include <omp.h>
 
 #include <Eigen/Eigenvalues>
@@ -6,9 +8,9 @@
 #include <string>
 
 #include "detail/kinematics.h"
+#include "sharpey/core/check.h"
 #include "sharpey/error.h"
 #include "sharpey/fem/element.h"
-#include "sharpey/fem/recovery.h"
 
 namespace sharpey::fem {
 namespace {
@@ -35,9 +37,11 @@ const RecoveryTable<K>& recovery_table() {
         return Eigen::Vector4d(1.0 - p.x() - p.y() - p.z(), p.x(), p.y(), p.z());
       };
       Eigen::Matrix4d A;  // A(q, j) = L_j(point q)
-      for (int q = 0; q < 4; ++q) A.row(q) = barycentric(t.points->points[static_cast<size_t>(q)]).transpose();
+      for (int q = 0; q < 4; ++q)
+        A.row(q) = barycentric(t.points->points[static_cast<size_t>(q)]).transpose();
       Eigen::Matrix<double, K, 4> at_nodes;
-      for (int a = 0; a < K; ++a) at_nodes.row(a) = barycentric(core::tet_node_reference(a)).transpose();
+      for (int a = 0; a < K; ++a)
+        at_nodes.row(a) = barycentric(core::tet_node_reference(a)).transpose();
       t.to_nodes = at_nodes * A.inverse();
     }
     return t;
@@ -71,7 +75,8 @@ void recover_fixed(const mesh::VolumeMesh& m, const std::vector<int>& elements,
       const detail::NodeCoords<K> X = detail::element_coordinates<K>(m, e);
       for (int a = 0; a < K; ++a) ue.middleRows(3 * a, 3) = U.middleRows(3 * en[a], 3);
       for (int q = 0; q < Q; ++q) {
-        const double det = detail::physical_gradient<K>(X, table.points->gradient[static_cast<size_t>(q)], &G);
+        const double det =
+            detail::physical_gradient<K>(X, table.points->gradient[static_cast<size_t>(q)], &G);
         if (!(det > 0)) {
 #pragma omp critical(sharpey_fem_recovery_error)
           if (!inverted) {
@@ -86,13 +91,15 @@ void recover_fixed(const mesh::VolumeMesh& m, const std::vector<int>& elements,
       }
       for (int a = 0; a < K; ++a) {
         node_strain.setZero();
-        for (int q = 0; q < Q; ++q) node_strain += table.to_nodes(a, q) * strain_q.middleRows(6 * q, 6);
+        for (int q = 0; q < Q; ++q)
+          node_strain += table.to_nodes(a, q) * strain_q.middleRows(6 * q, 6);
         const int l = local_of[static_cast<size_t>(en[a])];
         for (long j = 0; j < m_fields; ++j) acc.block(6 * j, l, 6, 1) += node_strain.col(j);
       }
     }
   }
-  if (inverted) throw MeshError(detail::inverted_element_message(m, inverted_element, inverted_det));
+  if (inverted)
+    throw MeshError(detail::inverted_element_message(m, inverted_element, inverted_det));
   *strain_sum = Eigen::MatrixXd::Zero(6 * m_fields, n_local);
   for (const auto& p : partial) *strain_sum += p;
   *count = Eigen::VectorXi::Zero(n_local);
@@ -108,17 +115,16 @@ std::vector<RegionField> recover_region(const mesh::VolumeMesh& mesh,
                                         const MaterialTable& materials, const Eigen::MatrixXd& U,
                                         int region) {
   detail::validate_mesh(mesh);
-  if (U.rows() != 3 * mesh.n_nodes()) {
-    throw std::invalid_argument("recover_region: the displacement has " + std::to_string(U.rows()) +
-                                " rows, the mesh " + std::to_string(3 * mesh.n_nodes()) + " dofs");
-  }
+  SHARPEY_ASSERT(U.rows() == 3 * mesh.n_nodes(), "recover_region: the displacement has " +
+                                                     std::to_string(U.rows()) + " rows, the mesh " +
+                                                     std::to_string(3 * mesh.n_nodes()) + " dofs");
   std::vector<int> elements;
   for (int e = 0; e < mesh.n_elements(); ++e) {
     if (mesh.element_region[static_cast<size_t>(e)] == region) elements.push_back(e);
   }
   if (elements.empty()) {
-    throw InputError("region", "no element of the mesh belongs to region " + std::to_string(region) +
-                                   "; pick a region the mesh has");
+    throw InputError("region", "no element of the mesh belongs to region " +
+                                   std::to_string(region) + "; pick a region the mesh has");
   }
   const Matrix6d D = elasticity_matrix(material_of(materials, region));
   const int k = mesh.nodes_per_element;
@@ -127,7 +133,8 @@ std::vector<RegionField> recover_region(const mesh::VolumeMesh& mesh,
   std::sort(nodes.begin(), nodes.end());
   nodes.erase(std::unique(nodes.begin(), nodes.end()), nodes.end());
   std::vector<int> local_of(static_cast<size_t>(mesh.n_nodes()), -1);
-  for (size_t i = 0; i < nodes.size(); ++i) local_of[static_cast<size_t>(nodes[i])] = static_cast<int>(i);
+  for (size_t i = 0; i < nodes.size(); ++i)
+    local_of[static_cast<size_t>(nodes[i])] = static_cast<int>(i);
   const int n_local = static_cast<int>(nodes.size());
 
   Eigen::MatrixXd strain_sum;
@@ -219,8 +226,8 @@ double equivalent_strain(const Vector6d& e) {
   const double mean = (e(0) + e(1) + e(2)) / 3.0;
   const double d0 = e(0) - mean, d1 = e(1) - mean, d2 = e(2) - mean;
   // e_dev : e_dev with tensor shear (eps_ij = gamma_ij / 2), off-diagonal terms counted twice.
-  const double contraction = d0 * d0 + d1 * d1 + d2 * d2 +
-                             0.5 * (e(3) * e(3) + e(4) * e(4) + e(5) * e(5));
+  const double contraction =
+      d0 * d0 + d1 * d1 + d2 * d2 + 0.5 * (e(3) * e(3) + e(4) * e(4) + e(5) * e(5));
   return std::sqrt(2.0 / 3.0 * contraction);
 }
 

@@ -1,4 +1,6 @@
 // CHOLMOD is included here only (its headers stay out of the public interface).
+#include "sharpey/fem/solver.h"
+
 #include <cholmod.h>
 
 #include <algorithm>
@@ -11,9 +13,10 @@
 #include <string>
 #include <utility>
 
+#include "detail/cholmod_handles.h"
 #include "detail/kinematics.h"
+#include "sharpey/core/check.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/solver.h"
 
 namespace sharpey::fem {
 namespace {
@@ -42,17 +45,24 @@ std::string cholmod_status_text(int status) {
 
 std::string ordering_name(int ordering) {
   switch (ordering) {
-    case CHOLMOD_NATURAL: return "natural";
-    case CHOLMOD_GIVEN: return "given";
-    case CHOLMOD_AMD: return "amd";
-    case CHOLMOD_METIS: return "metis";
-    case CHOLMOD_NESDIS: return "nesdis";
-    case CHOLMOD_COLAMD: return "colamd";
-    case CHOLMOD_POSTORDERED: return "natural (postordered)";
-    default: return "unknown (" + std::to_string(ordering) + ")";
+    case CHOLMOD_NATURAL:
+      return "natural";
+    case CHOLMOD_GIVEN:
+      return "given";
+    case CHOLMOD_AMD:
+      return "amd";
+    case CHOLMOD_METIS:
+      return "metis";
+    case CHOLMOD_NESDIS:
+      return "nesdis";
+    case CHOLMOD_COLAMD:
+      return "colamd";
+    case CHOLMOD_POSTORDERED:
+      return "natural (postordered)";
+    default:
+      return "unknown (" + std::to_string(ordering) + ")";
   }
 }
-
 
 // Quiet, supernodal, with the requested fill-reducing ordering.
 void configure(cholmod_common* common, Ordering ordering) {
@@ -74,8 +84,9 @@ void configure(cholmod_common* common, Ordering ordering) {
     case Ordering::kNesdis:
       common->nmethods = 1;
       common->method[0].ordering =
-          ordering == Ordering::kAmd ? CHOLMOD_AMD
-                                     : (ordering == Ordering::kMetis ? CHOLMOD_METIS : CHOLMOD_NESDIS);
+          ordering == Ordering::kAmd
+              ? CHOLMOD_AMD
+              : (ordering == Ordering::kMetis ? CHOLMOD_METIS : CHOLMOD_NESDIS);
       common->postorder = 1;
       break;
   }
@@ -85,7 +96,8 @@ void configure(cholmod_common* common, Ordering ordering) {
 // diagonal (free order). Throws SolverError when CHOLMOD cannot allocate it.
 cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
                                  const std::vector<int>& free_dofs, const std::vector<int>& free_of,
-                                 cholmod_common* common, std::vector<double>* diagonal, long* n_nonzeros) {
+                                 cholmod_common* common, std::vector<double>* diagonal,
+                                 long* n_nonzeros) {
   const long nf = static_cast<long>(free_dofs.size());
   long nnz = 0;
   for (long j = 0; j < nf; ++j) {
@@ -95,11 +107,12 @@ cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
       if (free_of[static_cast<size_t>(it.row())] >= 0) ++nnz;
     }
   }
-  cholmod_sparse* A = cholmod_l_allocate_sparse(static_cast<size_t>(nf), static_cast<size_t>(nf),
-                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_REAL,
-                                                common);
+  cholmod_sparse* A =
+      cholmod_l_allocate_sparse(static_cast<size_t>(nf), static_cast<size_t>(nf),
+                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_REAL, common);
   if (!A) {
-    throw SolverError("could not allocate the stiffness matrix: " + cholmod_status_text(common->status));
+    throw SolverError("could not allocate the stiffness matrix: " +
+                      cholmod_status_text(common->status));
   }
   diagonal->assign(static_cast<size_t>(nf), 0.0);
   long* Ap = static_cast<long*>(A->p);
@@ -123,7 +136,6 @@ cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
   *n_nonzeros = nnz;
   return A;
 }
-
 
 // METIS nested dissection of the graph whose vertices are the nodes with free dofs (two nodes
 // adjacent when any of their dofs couple in A), expanded to the dofs: a node's free dofs stay
@@ -158,9 +170,10 @@ std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
     c.erase(std::unique(c.begin(), c.end()), c.end());
     nnz += static_cast<long>(c.size());
   }
-  cholmod_sparse* G = cholmod_l_allocate_sparse(static_cast<size_t>(nn), static_cast<size_t>(nn),
-                                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_PATTERN,
-                                                common);
+  const detail::SparsePtr G(
+      cholmod_l_allocate_sparse(static_cast<size_t>(nn), static_cast<size_t>(nn),
+                                static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_PATTERN, common),
+      {common});
   if (!G) return {};
   long* Gp = static_cast<long*>(G->p);
   long* Gi = static_cast<long*>(G->i);
@@ -171,14 +184,12 @@ std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
   }
   Gp[nn] = q;
   std::vector<SuiteSparse_long> node_perm(static_cast<size_t>(nn));
-  const int ok = cholmod_l_metis(G, nullptr, 0, 0, node_perm.data(), common);
-  cholmod_l_free_sparse(&G, common);
-  if (!ok) return {};
+  if (!cholmod_l_metis(G.get(), nullptr, 0, 0, node_perm.data(), common)) return {};
   std::vector<SuiteSparse_long> perm;
   perm.reserve(static_cast<size_t>(nf));
   for (SuiteSparse_long c : node_perm) {
-    for (long j = first_col[static_cast<size_t>(c)];
-         j < nf && node_of[static_cast<size_t>(j)] == c; ++j) {
+    for (long j = first_col[static_cast<size_t>(c)]; j < nf && node_of[static_cast<size_t>(j)] == c;
+         ++j) {
       perm.push_back(j);
     }
   }
@@ -197,11 +208,16 @@ cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Or
 
 std::string to_string(Ordering ordering) {
   switch (ordering) {
-    case Ordering::kAuto: return "auto";
-    case Ordering::kAmd: return "amd";
-    case Ordering::kMetis: return "metis";
-    case Ordering::kNesdis: return "nesdis";
-    case Ordering::kMetisNodes: return "metis-nodes";
+    case Ordering::kAuto:
+      return "auto";
+    case Ordering::kAmd:
+      return "amd";
+    case Ordering::kMetis:
+      return "metis";
+    case Ordering::kNesdis:
+      return "nesdis";
+    case Ordering::kMetisNodes:
+      return "metis-nodes";
   }
   return "unknown";
 }
@@ -209,22 +225,14 @@ std::string to_string(Ordering ordering) {
 struct LinearElasticSolver::Impl {
   SolverOptions options;
   SolverStatistics stats;
-  Eigen::SparseMatrix<double> K;        // full, 3n x 3n
+  Eigen::SparseMatrix<double> K;  // full, 3n x 3n
   std::vector<DofConstraint> constraints;
   int n_nodes = 0;
-  std::vector<int> free_dofs;           // free index -> global dof
-  Eigen::VectorXd prescribed;           // 3n: constrained values, zero elsewhere
-  cholmod_common common{};
-  cholmod_factor* L = nullptr;
-  bool started = false;
+  std::vector<int> free_dofs;    // free index -> global dof
+  Eigen::VectorXd prescribed;    // 3n: constrained values, zero elsewhere
+  detail::CholmodCommon common;  // before L: destroyed after it
+  detail::FactorPtr L;
   mutable std::mutex mutex;
-
-  ~Impl() {
-    if (started) {
-      if (L) cholmod_l_free_factor(&L, &common);
-      cholmod_l_finish(&common);
-    }
-  }
 
   void set_constraints(const mesh::VolumeMesh& mesh);
   void factorise(const mesh::VolumeMesh& mesh);
@@ -246,13 +254,13 @@ void LinearElasticSolver::Impl::set_constraints(const mesh::VolumeMesh& mesh) {
                                           std::to_string(n_nodes - 1) + " of this mesh");
     }
     if (c.component < 0 || c.component > 2) {
-      throw InputError(key + ".component",
-                       "constraint " + std::to_string(i) + " has component " +
-                           std::to_string(c.component) + "; use 0, 1 or 2 for x, y or z");
+      throw InputError(key + ".component", "constraint " + std::to_string(i) + " has component " +
+                                               std::to_string(c.component) +
+                                               "; use 0, 1 or 2 for x, y or z");
     }
     if (!std::isfinite(c.value_mm)) {
-      throw InputError(key + ".value_mm", "constraint " + std::to_string(i) +
-                                              " prescribes a non-finite displacement");
+      throw InputError(key + ".value_mm",
+                       "constraint " + std::to_string(i) + " prescribes a non-finite displacement");
     }
     const int dof = 3 * c.node + c.component;
     if (is_fixed[static_cast<size_t>(dof)] && prescribed(dof) != c.value_mm) {
@@ -313,38 +321,37 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   const long nf = static_cast<long>(free_dofs.size());
   if (nf == 0) return;  // everything prescribed: nothing to solve
   std::vector<int> free_of(static_cast<size_t>(3 * n_nodes), -1);
-  for (long i = 0; i < nf; ++i) free_of[static_cast<size_t>(free_dofs[static_cast<size_t>(i)])] = static_cast<int>(i);
+  for (long i = 0; i < nf; ++i)
+    free_of[static_cast<size_t>(free_dofs[static_cast<size_t>(i)])] = static_cast<int>(i);
 
-  cholmod_l_start(&common);
-  started = true;
-  configure(&common, options.ordering);
+  configure(common.get(), options.ordering);
 
   std::vector<double> diagonal;
   long nnz = 0;
-  cholmod_sparse* A = free_block_upper(K, free_dofs, free_of, &common, &diagonal, &nnz);
+  detail::SparsePtr A =
+      detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
   stats.n_nonzeros = nnz;
 
   auto t0 = Clock::now();
-  L = analyse(A, free_dofs, options.ordering, &common);
+  L = detail::own(analyse(A.get(), free_dofs, options.ordering, common.get()), common);
   stats.analyse_s = seconds_since(t0);
-  if (!L || common.status < CHOLMOD_OK) {
-    const std::string why = cholmod_status_text(common.status);
-    cholmod_l_free_sparse(&A, &common);
-    throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " + why);
+  if (!L || common->status < CHOLMOD_OK) {
+    throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " +
+                      cholmod_status_text(common->status));
   }
   stats.ordering = options.ordering == Ordering::kMetisNodes ? std::string("metis-nodes")
-                                                              : ordering_name(L->ordering);
-  stats.factorisation_gflop = common.fl / 1e9;
-  stats.factor_nonzeros = static_cast<long long>(common.lnz);
+                                                             : ordering_name(L->ordering);
+  stats.factorisation_gflop = common->fl / 1e9;
+  stats.factor_nonzeros = static_cast<long long>(common->lnz);
 
   t0 = Clock::now();
-  int ok;
-  ok = cholmod_l_factorize(A, L, &common);
+  const int ok = cholmod_l_factorize(A.get(), L.get(), common.get());
   stats.factorise_s = seconds_since(t0);
-  const int status = common.status;
-  cholmod_l_free_sparse(&A, &common);
+  const int status = common->status;
+  A.reset();  // the factor is all that is kept
   if (!ok || status < CHOLMOD_OK) {
-    throw SolverError("the factorisation of the stiffness matrix failed: " + cholmod_status_text(status));
+    throw SolverError("the factorisation of the stiffness matrix failed: " +
+                      cholmod_status_text(status));
   }
   if (status == CHOLMOD_NOT_POSDEF || L->minor < L->n) {
     throw_not_positive_definite(mesh, static_cast<long>(std::min<size_t>(L->minor, L->n - 1)), -1);
@@ -386,11 +393,9 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
 
 Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   const int n_dofs = 3 * n_nodes;
-  if (F.rows() != n_dofs) {
-    throw std::invalid_argument("LinearElasticSolver::solve: the load has " +
-                                std::to_string(F.rows()) + " rows, the model " +
-                                std::to_string(n_dofs) + " degrees of freedom");
-  }
+  SHARPEY_ASSERT(F.rows() == n_dofs, "LinearElasticSolver::solve: the load has " +
+                                         std::to_string(F.rows()) + " rows, the model " +
+                                         std::to_string(n_dofs) + " degrees of freedom");
   const long m = F.cols();
   const long nf = static_cast<long>(free_dofs.size());
   const auto t0 = Clock::now();
@@ -401,9 +406,14 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   const Eigen::VectorXd K_prescribed = K * prescribed;
   std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
   if (nf > 0) {
-    cholmod_dense* B = cholmod_l_allocate_dense(static_cast<size_t>(nf), static_cast<size_t>(m),
-                                                static_cast<size_t>(nf), CHOLMOD_REAL, &common);
-    if (!B) throw SolverError("could not allocate the right-hand sides: " + cholmod_status_text(common.status));
+    detail::DensePtr B =
+        detail::own(cholmod_l_allocate_dense(static_cast<size_t>(nf), static_cast<size_t>(m),
+                                             static_cast<size_t>(nf), CHOLMOD_REAL, common.get()),
+                    common);
+    if (!B) {
+      throw SolverError("could not allocate the right-hand sides: " +
+                        cholmod_status_text(common->status));
+    }
     double* Bx = static_cast<double*>(B->x);
     for (long j = 0; j < m; ++j) {
       double norm2 = 0;
@@ -415,24 +425,24 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
       }
       rhs_norm[static_cast<size_t>(j)] = std::sqrt(norm2);
     }
-    cholmod_dense* X = cholmod_l_solve(CHOLMOD_A, L, B, &common);
-    cholmod_l_free_dense(&B, &common);
-    if (!X || common.status < CHOLMOD_OK) {
-      if (X) cholmod_l_free_dense(&X, &common);
-      throw SolverError("the triangular solves failed: " + cholmod_status_text(common.status));
+    const detail::DensePtr X =
+        detail::own(cholmod_l_solve(CHOLMOD_A, L.get(), B.get(), common.get()), common);
+    B.reset();
+    if (!X || common->status < CHOLMOD_OK) {
+      throw SolverError("the triangular solves failed: " + cholmod_status_text(common->status));
     }
     const double* Xx = static_cast<const double*>(X->x);
     for (long j = 0; j < m; ++j) {
       for (long i = 0; i < nf; ++i) U(free_dofs[static_cast<size_t>(i)], j) = Xx[i + j * nf];
     }
-    cholmod_l_free_dense(&X, &common);
   }
   // Relative residual over the free dofs, the worst of the columns.
   const Eigen::MatrixXd R = K * U - F;
   double worst = 0;
   for (long j = 0; j < m; ++j) {
     double norm2 = 0;
-    for (long i = 0; i < nf; ++i) norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
+    for (long i = 0; i < nf; ++i)
+      norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
     const double bn = rhs_norm[static_cast<size_t>(j)];
     const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
     worst = std::max(worst, rel);
@@ -441,7 +451,8 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   stats.last_solve_s = seconds_since(t0);
   if (!(worst <= options.max_relative_residual)) {
     std::ostringstream s;
-    s << "the solution's relative residual " << worst << " exceeds " << options.max_relative_residual
+    s << "the solution's relative residual " << worst << " exceeds "
+      << options.max_relative_residual
       << ": the stiffness matrix is too ill-conditioned (material moduli many orders of magnitude "
          "apart, or badly shaped elements); check the materials and the mesh quality";
     throw SolverError(s.str());
@@ -492,14 +503,14 @@ Eigen::MatrixXd LinearElasticSolver::solve(const Eigen::MatrixXd& F) const {
 
 Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
                                                const Eigen::VectorXd& f) const {
-  if (u.size() != impl_->K.rows() || f.size() != impl_->K.rows()) {
-    throw std::invalid_argument("LinearElasticSolver::reactions: u and f need 3n entries");
-  }
+  SHARPEY_ASSERT(u.size() == impl_->K.rows() && f.size() == impl_->K.rows(),
+                 "LinearElasticSolver::reactions: u and f need 3n entries");
   return impl_->K * u - f;
 }
 
 OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
-                                   const std::vector<DofConstraint>& constraints, Ordering ordering) {
+                                   const std::vector<DofConstraint>& constraints,
+                                   Ordering ordering) {
   const int n_dofs = static_cast<int>(K.rows());
   std::vector<int> free_of(static_cast<size_t>(n_dofs), 0);
   for (const DofConstraint& c : constraints) {
@@ -517,34 +528,27 @@ OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
     free_of[static_cast<size_t>(d)] = static_cast<int>(free_dofs.size());
     free_dofs.push_back(d);
   }
-  cholmod_common common;
-  cholmod_l_start(&common);
-  configure(&common, ordering);
+  detail::CholmodCommon common;
+  configure(common.get(), ordering);
   OrderingEstimate out;
-  cholmod_sparse* A = nullptr;
-  try {
-    std::vector<double> diagonal;
-    long nnz = 0;
-    A = free_block_upper(K, free_dofs, free_of, &common, &diagonal, &nnz);
-  } catch (...) {
-    cholmod_l_finish(&common);
-    throw;
-  }
+  std::vector<double> diagonal;
+  long nnz = 0;
+  const detail::SparsePtr A =
+      detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
   const auto t0 = Clock::now();
-  cholmod_factor* L = analyse(A, free_dofs, ordering, &common);
+  const detail::FactorPtr L =
+      detail::own(analyse(A.get(), free_dofs, ordering, common.get()), common);
   out.analyse_s = seconds_since(t0);
-  const int status = common.status;
+  const int status = common->status;
   if (L) {
-    out.ordering = ordering == Ordering::kMetisNodes ? std::string("metis-nodes")
-                                                     : ordering_name(L->ordering);
-    out.factorisation_gflop = common.fl / 1e9;
-    out.factor_nonzeros = static_cast<long long>(common.lnz);
-    cholmod_l_free_factor(&L, &common);
+    out.ordering =
+        ordering == Ordering::kMetisNodes ? std::string("metis-nodes") : ordering_name(L->ordering);
+    out.factorisation_gflop = common->fl / 1e9;
+    out.factor_nonzeros = static_cast<long long>(common->lnz);
   }
-  cholmod_l_free_sparse(&A, &common);
-  cholmod_l_finish(&common);
   if (out.ordering.empty() || status < CHOLMOD_OK) {
-    throw SolverError("the analysis (fill-reducing ordering) failed: " + cholmod_status_text(status));
+    throw SolverError("the analysis (fill-reducing ordering) failed: " +
+                      cholmod_status_text(status));
   }
   return out;
 }

@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "sharpey/core/check.h"
 #include "sharpey/error.h"
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/startup/blas_kernels.h"
@@ -211,7 +212,7 @@ TEST(Solver, WrongLoadSizeIsRejected) {
   const mesh::VolumeMesh m = small_mesh(4);
   const LinearElasticSolver solver(m, kMaterials, fix_faces(m, testing::kZetaMin));
   const Eigen::VectorXd short_load = Eigen::VectorXd::Zero(5);
-  EXPECT_THROW(solver.solve(short_load), std::invalid_argument);
+  EXPECT_THROW(solver.solve(short_load), ProgrammingError);
   Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * m.n_nodes());
   f(4) = std::nan("");
   EXPECT_THROW(solver.solve(f), InputError);
