@@ -25,6 +25,7 @@
 #include "sharpey/error.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/vtu_writer.h"
+#include "solver_threads.h"
 #include "sweep_checkpoint.h"
 
 namespace sharpey::batch {
@@ -337,6 +338,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
                  plural(left.size(), "model").c_str(), world.size(),
                  plural(combinations.size(), "combination").c_str());
   world.begin_independent_work();
+  set_solver_threads(sweep.threads);
 
   StudyProgress study_progress(options.quiet || !world.root(), n_models, n_resumed, world.size());
   int n_saved = 0;

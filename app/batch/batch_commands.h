@@ -24,6 +24,7 @@ void run_command(const CommonOptions& options);
 struct SweepOptions {
   std::vector<std::string> vary;  // "KEY=V1,V2,..." options
   std::string design_path;        // study design file (JSON), or empty
+  int threads = 1;                // threads per model solve (see solver_threads.h)
 };
 
 // The most combinations one sweep takes. Every combination is read and checked as a case before

@@ -115,6 +115,11 @@ int main(int argc, char** argv) {
                    "study design (JSON): teeth x bone levels x movements x forces x materials, "
                    "see docs/case-format.md")
       ->check(CLI::ExistingFile);
+  sweep
+      ->add_option("--threads", sweep_options.threads,
+                   "threads per model solve (default 1: the same sweep.csv however the sweep is "
+                   "started; use mpirun -n CORES to use every core)")
+      ->check(CLI::Range(1, 1024));
   CLI::App* mesh_cmd = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
   add_common(mesh_cmd);
