@@ -195,11 +195,24 @@ std::string factor_text(const std::vector<analysis::CaseVariation>& variations) 
   return text;
 }
 
-}  // namespace
+// One combination of a sweep: its values of the varied keys and its checked case.
+struct Combination {
+  std::vector<std::string> values;
+  CaseSpec spec;
+};
 
-void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
-  // Stage lines of a model being solved come from rank 0 only; the study line covers all ranks.
-  Progress progress(options.quiet || !world.root());
+struct SweepPlan {
+  CaseSpec base;                          // the base case (with the design applied)
+  std::vector<std::string> keys;          // varied keys, model keys first
+  std::vector<Combination> combinations;  // in table order
+  // Model m is combinations [model_begin[m], model_begin[m + 1]); one more entry than models.
+  std::vector<size_t> model_begin;
+};
+
+// Reads the case, the design and the --vary options and expands them into the checked
+// combinations, grouped into models. The same on every rank.
+SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
+  SweepPlan plan;
   std::string base_text = case_text(options);
   std::vector<analysis::CaseVariation> variations;
   if (!sweep.design_path.empty()) {
@@ -209,7 +222,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     base_text = analysis::apply_study_design(base_text, design);
     variations = design.variations;
   }
-  const CaseSpec base = analysis::parse_case(
+  plan.base = analysis::parse_case(
       base_text, sweep.design_path.empty() ? options.case_path
                                            : options.case_path + " with " + sweep.design_path);
 
@@ -245,11 +258,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
   }
 
   // Build and check every combination before any solve, so a bad value fails at once.
-  struct Combination {
-    std::vector<std::string> values;
-    CaseSpec spec;
-  };
-  std::vector<Combination> combinations;
+  std::vector<Combination>& combinations = plan.combinations;
   std::vector<size_t> digit(variations.size(), 0);
   for (size_t c = 0; c < n_combinations; ++c) {
     Combination combo;
@@ -276,7 +285,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
   }
 
   // Models: runs of consecutive combinations with the same model (the unit of work, solved once).
-  std::vector<size_t> model_begin;
+  std::vector<size_t>& model_begin = plan.model_begin;
   {
     CaseSpec previous;
     for (size_t c = 0; c < combinations.size(); ++c) {
@@ -286,20 +295,29 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     }
     model_begin.push_back(combinations.size());
   }
-  const int n_models = static_cast<int>(model_begin.size()) - 1;
-  std::vector<std::string> keys;
-  for (const auto& v : variations) keys.push_back(v.key);
+  for (const auto& v : variations) plan.keys.push_back(v.key);
+  return plan;
+}
 
-  // Rank 0 owns the output folder: it checks it, reads the checkpoints of an earlier run of the
-  // same sweep and tells the other ranks which models are left.
+}  // namespace
+
+void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
+  // Stage lines of a model being solved come from rank 0 only; the study line covers all ranks.
+  Progress progress(options.quiet || !world.root());
+  // Every rank plans the sweep itself; rank 0 also checks the output folder and reads the
+  // checkpoints of an earlier run of the same sweep. Then all agree: a failure anywhere stops
+  // every rank, reported once (by rank 0 when it failed too, else by the rank that failed).
+  SweepPlan plan;
   std::unique_ptr<analysis::StagedFolder> out;
   std::unique_ptr<SweepCheckpoint> checkpoint;
   std::map<int, std::string> rows_of_model;
-  if (world.root()) {
-    try {
+  std::exception_ptr failure;
+  try {
+    plan = plan_sweep(options, sweep);
+    if (world.root()) {
       std::vector<std::vector<std::string>> values;
       std::vector<std::string> case_json;
-      for (const Combination& c : combinations) {
+      for (const Combination& c : plan.combinations) {
         values.push_back(c.values);
         case_json.push_back(analysis::case_to_json(c.spec));
       }
@@ -311,17 +329,27 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
         throw analysis::OutputError("cannot create the output folder \"" + options.out_dir +
                                     "\" for the sweep's checkpoints: " + ec.message());
       checkpoint = std::make_unique<SweepCheckpoint>(
-          options.out_dir, sweep_fingerprint(keys, values, case_json), n_models);
+          options.out_dir, sweep_fingerprint(plan.keys, values, case_json),
+          static_cast<int>(plan.model_begin.size()) - 1);
       rows_of_model = checkpoint->load();
-    } catch (...) {
-      world.broadcast(describe_failure(std::current_exception()).exit_code);
-      throw;
     }
-    world.broadcast(0);
-  } else {
-    const int status = world.broadcast(0);
-    if (status != 0) throw StoppedByRoot{status};
+  } catch (...) {
+    failure = std::current_exception();
   }
+  const int my_code = failure ? describe_failure(failure).exit_code : 0;
+  const int worst = world.max_over_ranks(my_code);
+  const int root_code = world.broadcast(my_code);
+  if (failure) {
+    if (!world.root() && root_code == 0) world.begin_independent_work();  // say it, end the job
+    if (world.root() || root_code == 0) std::rethrow_exception(failure);
+  }
+  if (worst != 0) throw StoppedByRoot{root_code != 0 ? root_code : worst};
+
+  const CaseSpec& base = plan.base;
+  const std::vector<std::string>& keys = plan.keys;
+  const std::vector<Combination>& combinations = plan.combinations;
+  const std::vector<size_t>& model_begin = plan.model_begin;
+  const int n_models = static_cast<int>(model_begin.size()) - 1;
   std::string done(static_cast<size_t>(n_models), '0');
   for (const auto& [m, rows] : rows_of_model) done[static_cast<size_t>(m)] = '1';
   done = world.broadcast(done);

@@ -127,14 +127,17 @@ int main(int argc, char** argv) {
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
     if (command != "run" && command != "sweep" && command != "mesh")
-      return fail(
-          kBadInput, "usage",
-          "unknown command \"" + command + "\"; use run, sweep or mesh (see sharpey-batch --help)");
+      return launcher_rank() != 0
+                 ? kBadInput
+                 : fail(kBadInput, "usage",
+                        "unknown command \"" + command +
+                            "\"; use run, sweep or mesh (see sharpey-batch --help)");
   }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
+    if (launcher_rank() != 0) return e.get_exit_code() == 0 ? kOk : kBadInput;  // rank 0 says it
     const int shown = app.exit(e);
     return shown == 0 ? kOk : kBadInput;
   }

@@ -33,6 +33,12 @@ bool started_by_mpi_launcher() {
          is_set("PMI_SIZE");
 }
 
+int launcher_rank() {
+  for (const char* name : {"OMPI_COMM_WORLD_RANK", "PMIX_RANK", "PMI_RANK"})
+    if (is_set(name)) return std::atoi(std::getenv(name));
+  return 0;
+}
+
 MpiWorld::MpiWorld(bool distributed, int* argc, char*** argv) {
   if (!distributed) return;
   int provided = 0;
@@ -63,6 +69,12 @@ MpiWorld::~MpiWorld() {
 int MpiWorld::broadcast(int value) const {
   if (size_ > 1) MPI_Bcast(&value, 1, MPI_INT, 0, MPI_COMM_WORLD);
   return value;
+}
+
+int MpiWorld::max_over_ranks(int value) const {
+  int result = value;
+  if (size_ > 1) MPI_Allreduce(&value, &result, 1, MPI_INT, MPI_MAX, MPI_COMM_WORLD);
+  return result;
 }
 
 std::string MpiWorld::broadcast(const std::string& text) const {

@@ -15,6 +15,9 @@ namespace sharpey::batch {
 // True when the environment says an MPI launcher started this process (variables set by Open
 // MPI's mpirun, PMIx or PMI, as srun sets them).
 bool started_by_mpi_launcher();
+// This process's rank as the launcher's environment gives it (0 when not started by one), for
+// messages printed before MPI is initialised (command-line errors: said once, by rank 0).
+int launcher_rank();
 
 // Thrown on ranks other than 0 when rank 0 stopped before the distributed work began (bad output
 // folder, unreadable checkpoint): rank 0 reports it; the others end quietly with its exit code.
@@ -38,6 +41,8 @@ class MpiWorld {
   // Rank 0's value of `value` on every rank (a no-op on one rank).
   int broadcast(int value) const;
   std::string broadcast(const std::string& text) const;
+  // The largest `value` of all ranks, on every rank (collective).
+  int max_over_ranks(int value) const;
 
   // A finished piece of work: `index` and its text, sent by a rank other than 0 to rank 0 without
   // waiting (the send completes in the background; the text is kept until then).
