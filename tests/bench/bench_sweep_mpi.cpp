@@ -101,10 +101,13 @@ int main(int argc, char** argv) {
                   "rotation"], "forces": [50, 100, 150], "force_unit": "g"})";
   const int n_models = n_teeth * 9, n_rows = n_models * 15;
   const std::string batch = SHARPEY_BINARY_DIR "/app/batch/sharpey-batch";
+  // A "model" here is one bone level of one tooth meshed and solved; the sweep's own lines count
+  // its units of work, one tooth with all its bone levels (n_teeth of them).
   std::printf(
       "design: %d teeth x 9 bone levels x 5 movements x 3 forces, coarse preset: %d "
-      "models, %d rows; load average %.1f\n",
-      n_teeth, n_models, n_rows, load_average());
+      "models (bone levels meshed and solved; the sweep deals them out as %d units of 9), "
+      "%d rows; load average %.1f\n",
+      n_teeth, n_models, n_teeth, n_rows, load_average());
 
   double wall[2] = {0, 0};
   for (int pass = 0; pass < 2; ++pass) {
