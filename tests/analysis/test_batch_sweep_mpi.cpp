@@ -129,16 +129,17 @@ TEST(SweepMpi, KilledRunResumesAndSolvesOnlyTheRest) {
   EXPECT_EQ(list_folder(out), (std::vector<std::string>{"sweep.csv", "sweep_case.json"}));
 }
 
-TEST(SweepMpi, RunKilledOnTwoRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoints) {
+TEST(SweepMpi, RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoints) {
   TempFolder folder("sweep-restart-mpi");
   const std::string case_path = folder / "case.json";
   write_file(case_path, coarse_case_json(1));
   const ProcessResult whole = run_batch(sweep_args(case_path, folder / "whole"));
   ASSERT_EQ(whole.exit_code, 0) << whole.err;
 
+  // Three ranks for three models: one each; rank 0 kills the job after saving two of them.
   const std::string out = folder / "out";
   const ProcessResult k =
-      run_mpi(2, sweep_args(case_path, out), {"SHARPEY_TEST_KILL_AFTER_MODELS=2"});
+      run_mpi(3, sweep_args(case_path, out), {"SHARPEY_TEST_KILL_AFTER_MODELS=2"});
   EXPECT_NE(k.exit_code, 0) << k.err;
   ASSERT_EQ(count_checkpoints(out), 2u) << k.err;
 
