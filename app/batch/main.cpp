@@ -175,6 +175,12 @@ int main(int argc, char** argv) {
                                      : std::string();
       fail(f.exit_code, f.kind + rank, f.message);
       if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
+      if (sweep->parsed() && world->independent())
+        std::cerr << "sharpey-batch: the models finished so far are kept as checkpoints in "
+                  << options.out_dir
+                  << (f.exit_code == kInterrupted
+                          ? "; run the same command again to resume\n"
+                          : "; once the cause is fixed, the same command resumes from them\n");
     }
     if (alone) world->abort(f.exit_code);
     return f.exit_code;
