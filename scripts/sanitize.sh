@@ -28,6 +28,7 @@ left_out=(
   # restart test on one process (SweepMpi.KilledRunResumesAndSolvesOnlyTheRest) does run.
   'SweepMpi.TwoRanksWriteTheSingleProcessFileOfADesign'
   'SweepMpi.RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoints'
+  'SweepMpi.BadInputOnSeveralRanksIsSaidOnceAndRunStaysOneProcess'
 )
 
 # -O2 keeps Eigen's kernels fast enough; -g1 gives file:line in the traces; no NDEBUG, so Eigen's

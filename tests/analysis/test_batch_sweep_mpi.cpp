@@ -83,6 +83,13 @@ TEST(SweepMpi, TwoRanksWriteTheSingleProcessFileOfADesign) {
   // Rank 0 prints the stages of the models it solves: model 1 only, so rank 1 solved model 2.
   EXPECT_NE(two.err.find("model 1 of 2 (combination 1 of 8)"), std::string::npos) << two.err;
   EXPECT_EQ(two.err.find("model 2 of 2 (combination 5 of 8)"), std::string::npos) << two.err;
+  // Progress for the whole study, with an estimate of the time left while models remain.
+  const size_t first_done = two.err.find("study: 1 of 2 models done, 2 ranks, ");
+  ASSERT_NE(first_done, std::string::npos) << two.err;
+  const std::string first_line =
+      two.err.substr(first_done, two.err.find('\n', first_done) - first_done);
+  EXPECT_NE(first_line.find("models/min, about "), std::string::npos) << first_line;
+  EXPECT_NE(first_line.find(" left"), std::string::npos) << first_line;
   EXPECT_NE(two.err.find("study: 2 of 2 models done, 2 ranks"), std::string::npos) << two.err;
   EXPECT_EQ(read_file(folder / "two/sweep.csv"), single);  // byte for byte
   EXPECT_EQ(list_folder(folder / "two"),
@@ -160,6 +167,29 @@ TEST(SweepMpi, RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoin
             std::string::npos)
       << resumed.err;
   EXPECT_EQ(read_file(out + "/sweep.csv"), read_file(folder / "whole/sweep.csv"));
+}
+
+size_t count(const std::string& text, const std::string& what) {
+  size_t n = 0;
+  for (size_t at = text.find(what); at != std::string::npos; at = text.find(what, at + 1)) ++n;
+  return n;
+}
+
+TEST(SweepMpi, BadInputOnSeveralRanksIsSaidOnceAndRunStaysOneProcess) {
+  TempFolder folder("sweep-mpi-bad");
+  const std::string case_path = folder / "case.json", design = folder / "design.json";
+  write_file(case_path, coarse_case_json(1));
+  write_file(design, R"({"teeth": ["maxillary_canine"], "movements": ["sideways"]})");
+  const ProcessResult bad =
+      run_mpi(2, {"sweep", case_path, "--design", design, "--out", folder / "out"});
+  EXPECT_EQ(bad.exit_code, 2) << bad.err;
+  EXPECT_EQ(count(bad.err, "movement \"sideways\" is unknown"), 1u) << bad.err;
+  EXPECT_FALSE(exists(folder / "out"));
+
+  const ProcessResult run = run_mpi(2, {"run", case_path, "--out", folder / "run"});
+  EXPECT_EQ(run.exit_code, 2) << run.err;
+  EXPECT_EQ(count(run.err, "only sweep runs over several MPI ranks"), 1u) << run.err;
+  EXPECT_FALSE(exists(folder / "run"));
 }
 
 }  // namespace
