@@ -321,6 +321,10 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
         values.push_back(c.values);
         case_json.push_back(analysis::case_to_json(c.spec));
       }
+      // The thread count changes the last digits (solver_threads.h): rows of another count are
+      // another sweep's.
+      std::vector<std::string> with_threads = plan.keys;
+      with_threads.push_back("--threads=" + std::to_string(sweep.threads));
       SweepCheckpoint::remove_stale_temporaries(options.out_dir);
       out = std::make_unique<analysis::StagedFolder>(options.out_dir);  // checks the path
       std::error_code ec;
@@ -329,7 +333,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
         throw analysis::OutputError("cannot create the output folder \"" + options.out_dir +
                                     "\" for the sweep's checkpoints: " + ec.message());
       checkpoint = std::make_unique<SweepCheckpoint>(
-          options.out_dir, sweep_fingerprint(plan.keys, values, case_json),
+          options.out_dir, sweep_fingerprint(with_threads, values, case_json),
           static_cast<int>(plan.model_begin.size()) - 1);
       rows_of_model = checkpoint->load();
     }

@@ -36,8 +36,9 @@ class SweepCheckpoint {
   int n_models_;
 };
 
-// 16 hex digits identifying a sweep: FNV-1a (64 bit) over the varied keys and, per combination,
-// its values and its whole case (as written by case_to_json).
+// 16 hex digits identifying a sweep: FNV-1a (64 bit) over `keys` (the varied keys, and anything
+// else that changes the rows, such as the thread count) and, per combination, its values and its
+// whole case (as written by case_to_json).
 std::string sweep_fingerprint(const std::vector<std::string>& keys,
                               const std::vector<std::vector<std::string>>& values,
                               const std::vector<std::string>& case_json);
