@@ -107,7 +107,7 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
     throw InputError("design", origin +
                                    ": not a JSON object; a design looks like {\"teeth\": "
                                    "[\"maxillary_canine\"], \"bone_levels_mm\": [0, 2, 4], "
-                                   "\"forces\": [50, 100]} (docs/case-format.md, Study designs)");
+                                   "\"forces\": [50, 100]} (docs/sweeps.md, Study designs)");
   for (auto it = root.begin(); it != root.end(); ++it)
     if (std::find(std::begin(kKnownKeys), std::end(kKnownKeys), it.key()) == std::end(kKnownKeys))
       bad(it.key(), origin, "unknown key \"" + it.key() + "\"; a design knows " + known_keys());

@@ -113,7 +113,7 @@ int main(int argc, char** argv) {
   sweep
       ->add_option("--design", sweep_options.design_path,
                    "study design (JSON): teeth x bone levels x movements x forces x materials, "
-                   "see docs/case-format.md")
+                   "see docs/sweeps.md")
       ->check(CLI::ExistingFile);
   sweep
       ->add_option("--threads", sweep_options.threads,

@@ -1,6 +1,6 @@
 // A study design: the factors of a published-style finite-element series (teeth x bone levels x
 // movements x forces x materials) in a small JSON file, expanded by the batch `sweep` into case
-// variations on top of a base case. Format in docs/case-format.md ("Study designs").
+// variations on top of a base case. Format in docs/sweeps.md ("Study designs").
 #pragma once
 
 #include <string>
@@ -26,8 +26,8 @@ struct StudyDesign {
 // teeth (tooth types), bone_levels_mm (distinct horizontal losses >= 0, each becomes a scenario),
 // movements (movement names), forces (magnitudes > 0), force_unit, materials (object: a material
 // key such as "pdl.material.young_modulus_mpa" -> array of values), also_vary (object: any other
-// case key -> array of values). Throws InputError naming the key (prefixed "design."), the value
-// and the fix; `origin` names the file in messages.
+// case key -> array of values); see docs/sweeps.md. Throws InputError naming the key (prefixed
+// "design."), the value and the fix; `origin` names the file in messages.
 StudyDesign parse_study_design(const std::string& json_text, const std::string& origin = "design");
 
 // `case_text` (a case file's JSON) with the design's bone levels as its scenario list and its
