@@ -22,6 +22,13 @@ left_out=(
   # AddressSanitizer reserves terabytes of address space for its shadow memory at start-up and
   # cannot start at all under such a limit.
   '*BatchOutOfMemory.*'
+  # Start sharpey-batch under mpirun: Open MPI's runtime (mpirun, its daemon, the PMIx client in
+  # each rank) is not built with the sanitizers and its start-up allocations would be reported as
+  # leaks outside our code; not yet run under the sanitizers (no verified suppression list). The
+  # restart test on one process (SweepMpi.KilledRunResumesAndSolvesOnlyTheRest) does run.
+  'SweepMpi.TwoRanksWriteTheSingleProcessFileOfADesign'
+  'SweepMpi.RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoints'
+  'SweepMpi.BadInputOnSeveralRanksIsSaidOnceAndRunStaysOneProcess'
 )
 
 # -O2 keeps Eigen's kernels fast enough; -g1 gives file:line in the traces; no NDEBUG, so Eigen's

@@ -47,7 +47,9 @@ const std::vector<Column>& result_columns() {
       {"equivalent_force_area_rule_g",
        [](const ScenarioResult& r) { return nan_if_missing(r.equivalent_force_area_rule_g); }},
       {"force_g",
-       [](const ScenarioResult& r) { return from_newton(r.load.force_n.norm(), ForceUnit::kGram); }},
+       [](const ScenarioResult& r) {
+         return from_newton(r.load.force_n.norm(), ForceUnit::kGram);
+       }},
       {"moment_to_force_mm", [](const ScenarioResult& r) { return r.load.moment_to_force_mm; }},
   };
   return columns;
@@ -129,8 +131,8 @@ std::string root_map_csv(const CaseSpec& spec, const ScenarioResult& result) {
   const RootMap& map = result.root_map;
   std::ostringstream out;
   out << caution_line();
-  out << "# " << (spec.label.empty() ? "(no label)" : spec.label) << "; scenario "
-      << result.name << "\n";
+  out << "# " << (spec.label.empty() ? "(no label)" : spec.label) << "; scenario " << result.name
+      << "\n";
   out << "# PDL hydrostatic pressure in kPa (compression positive) on the unwrapped root surface: "
          "rows = depth below the CEJ (mm, cell centre), columns = angle around the root (deg, "
          "cell centre; 0 labial, 90 mesial, 180 lingual, 270 distal); empty = no PDL\n";
@@ -142,7 +144,8 @@ std::string root_map_csv(const CaseSpec& spec, const ScenarioResult& result) {
   for (int i = 0; i < map.n_depth; ++i) {
     out << csv_number(map.depth_min_mm + (i + 0.5) * d_depth);
     for (int j = 0; j < map.n_angle; ++j) {
-      const size_t k = static_cast<size_t>(i) * static_cast<size_t>(map.n_angle) + static_cast<size_t>(j);
+      const size_t k =
+          static_cast<size_t>(i) * static_cast<size_t>(map.n_angle) + static_cast<size_t>(j);
       out << ',' << (k < map.pressure_kpa.size() ? csv_number(map.pressure_kpa[k]) : "");
     }
     out << '\n';
@@ -156,7 +159,8 @@ void SweepTable::add(int combination, const std::vector<std::string>& values,
                      const ScenarioResult& result) {
   std::ostringstream row;
   row << combination;
-  for (size_t i = 0; i < keys_.size(); ++i) row << ',' << csv_field(i < values.size() ? values[i] : "");
+  for (size_t i = 0; i < keys_.size(); ++i)
+    row << ',' << csv_field(i < values.size() ? values[i] : "");
   row << ',' << csv_field(result.name);
   append_result_columns(row, result);
   rows_.push_back(row.str());
@@ -173,8 +177,24 @@ std::string SweepTable::csv() const {
   std::ostringstream header;
   append_result_header(header);
   out << header.str() << '\n';
-  for (const std::string& r : rows_) out << r << '\n';
+  out << rows_text();
   return out.str();
+}
+
+std::string SweepTable::rows_text() const {
+  std::string out;
+  for (const std::string& r : rows_) out += r + '\n';
+  return out;
+}
+
+void SweepTable::add_rows_text(const std::string& rows) {
+  size_t begin = 0;
+  while (begin < rows.size()) {
+    const size_t end = rows.find('\n', begin);
+    if (end == std::string::npos) throw Error("sweep rows do not end in a line break");
+    rows_.push_back(rows.substr(begin, end - begin));
+    begin = end + 1;
+  }
 }
 
 }  // namespace sharpey::analysis

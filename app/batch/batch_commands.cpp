@@ -1,10 +1,14 @@
 #include "batch_commands.h"
 
+#include <signal.h>
+
 #include <algorithm>
 #include <chrono>
+#include <cstdio>
 #include <cstdlib>
 #include <filesystem>
 #include <iostream>
+#include <map>
 #include <memory>
 #include <new>
 #include <sstream>
@@ -12,13 +16,17 @@
 
 #include "failure.h"
 #include "interrupt.h"
+#include "mpi_world.h"
 #include "progress.h"
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
+#include "sharpey/analysis/study_design.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/vtu_writer.h"
+#include "solver_threads.h"
+#include "sweep_checkpoint.h"
 
 namespace sharpey::batch {
 
@@ -148,43 +156,109 @@ void run_command(const CommonOptions& options) {
   announce(options.out_dir, written);
 }
 
-void sweep_command(const CommonOptions& options, const std::vector<std::string>& vary) {
-  Progress progress(options.quiet);
-  const std::string base_text = case_text(options);
-  const CaseSpec base = analysis::parse_case(base_text, options.case_path);
+namespace {
 
+// The model a combination solves: its case without what only changes the evaluation.
+CaseSpec model_of(const CaseSpec& spec) {
+  CaseSpec model = spec;
+  model.load = analysis::LoadSpec();
+  model.thresholds = analysis::default_thresholds();
+  model.label.clear();
+  model.notes.clear();
+  return model;
+}
+
+bool changes_model(const std::string& key) {
+  return key.rfind("load.", 0) != 0 && key.rfind("thresholds.", 0) != 0 && key != "label" &&
+         key != "notes";
+}
+
+// Testing aid: SHARPEY_TEST_KILL_AFTER_MODELS=<k> makes rank 0 kill its own process (SIGKILL, as
+// a scheduler or the machine would) right after the k-th checkpoint of this run is saved, so the
+// restart tests stop a sweep at a known point (tests/analysis/test_batch_sweep_mpi.cpp).
+void kill_if_test_asks(int n_saved) {
+  static const long kill_after = [] {
+    const char* value = std::getenv("SHARPEY_TEST_KILL_AFTER_MODELS");
+    return value ? std::strtol(value, nullptr, 10) : 0L;
+  }();
+  if (kill_after > 0 && n_saved >= kill_after) {
+    std::fflush(nullptr);
+    ::raise(SIGKILL);
+  }
+}
+
+// "tooth.type 10 x load.movement 5 x load.magnitude 3".
+std::string factor_text(const std::vector<analysis::CaseVariation>& variations) {
+  std::string text;
+  for (const auto& v : variations)
+    text += (text.empty() ? "" : " x ") + v.key + " " + std::to_string(v.values.size());
+  return text;
+}
+
+// One combination of a sweep: its values of the varied keys and its checked case.
+struct Combination {
+  std::vector<std::string> values;
+  CaseSpec spec;
+};
+
+struct SweepPlan {
+  CaseSpec base;                          // the base case (with the design applied)
+  std::vector<std::string> keys;          // varied keys, model keys first
+  std::vector<Combination> combinations;  // in table order
+  // Model m is combinations [model_begin[m], model_begin[m + 1]); one more entry than models.
+  std::vector<size_t> model_begin;
+};
+
+// Reads the case, the design and the --vary options and expands them into the checked
+// combinations, grouped into models. The same on every rank.
+SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
+  SweepPlan plan;
+  std::string base_text = case_text(options);
   std::vector<analysis::CaseVariation> variations;
-  for (const std::string& v : vary) {
+  if (!sweep.design_path.empty()) {
+    const analysis::StudyDesign design = analysis::parse_study_design(
+        analysis::read_case_text(sweep.design_path), sweep.design_path);
+    analysis::parse_case(base_text, options.case_path);  // report the case's own errors first
+    base_text = analysis::apply_study_design(base_text, design);
+    variations = design.variations;
+  }
+  plan.base = analysis::parse_case(
+      base_text, sweep.design_path.empty() ? options.case_path
+                                           : options.case_path + " with " + sweep.design_path);
+
+  for (const std::string& v : sweep.vary) {
     analysis::CaseVariation parsed = analysis::parse_variation(v);
     for (const auto& earlier : variations)
       if (earlier.key == parsed.key)
         throw InputError("--vary", "--vary " + v + ": " + parsed.key +
-                                       " is varied twice; give all its values in one --vary");
+                                       " is varied twice (by --vary or the design); give all its "
+                                       "values in one place");
     variations.push_back(std::move(parsed));
   }
-  if (variations.empty())
-    throw InputError("--vary", "sweep needs at least one --vary KEY=V1,V2,...");
+  if (variations.empty() && sweep.design_path.empty())
+    throw InputError("--vary", "sweep needs at least one --vary KEY=V1,V2,... or a --design file");
   // Keys that leave the model unchanged vary fastest, so consecutive combinations reuse one
   // solved Study (a new force system or threshold costs milliseconds, a new model a full solve).
-  std::stable_partition(variations.begin(), variations.end(), [](const auto& v) {
-    return v.key.rfind("load.", 0) != 0 && v.key.rfind("thresholds.", 0) != 0 && v.key != "label" &&
-           v.key != "notes";
-  });
+  std::stable_partition(variations.begin(), variations.end(),
+                        [](const auto& v) { return changes_model(v.key); });
   size_t n_combinations = 1;
   for (const auto& v : variations) {
     n_combinations *= v.values.size();
-    if (n_combinations > 1000)
-      throw InputError("--vary",
-                       "the --vary options give more than 1000 combinations; vary fewer "
-                       "keys or values, or split the sweep");
+    if (n_combinations > kMaxSweepCombinations) {
+      size_t total = 1;  // the full size, for the message (saturating)
+      for (const auto& w : variations)
+        total = total > kMaxSweepCombinations * 1000 ? total : total * w.values.size();
+      throw InputError(
+          sweep.design_path.empty() ? "--vary" : "--design",
+          "the sweep has " + std::to_string(total) + " combinations (" + factor_text(variations) +
+              "), more than the " + std::to_string(kMaxSweepCombinations) +
+              " one sweep takes; split it into several sweeps with their own --out folders, e.g. "
+              "one design file per tooth (\"teeth\": [one tooth]) or per material");
+    }
   }
 
   // Build and check every combination before any solve, so a bad value fails at once.
-  struct Combination {
-    std::vector<std::string> values;
-    CaseSpec spec;
-  };
-  std::vector<Combination> combinations;
+  std::vector<Combination>& combinations = plan.combinations;
   std::vector<size_t> digit(variations.size(), 0);
   for (size_t c = 0; c < n_combinations; ++c) {
     Combination combo;
@@ -199,7 +273,9 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
     try {
       combo.spec = analysis::parse_case(text, options.case_path + " with " + description);
     } catch (const InputError& e) {
-      throw InputError(e.key(), std::string(e.what()) + " (from --vary)");
+      throw InputError(e.key(), std::string(e.what()) + (sweep.design_path.empty()
+                                                             ? " (from --vary)"
+                                                             : " (from the design or --vary)"));
     }
     combinations.push_back(std::move(combo));
     for (size_t k = variations.size(); k-- > 0;) {  // odometer, last key fastest
@@ -208,51 +284,172 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
     }
   }
 
-  analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
-  std::vector<std::string> keys;
-  for (const auto& v : variations) keys.push_back(v.key);
-  analysis::SweepTable table(keys);
-  std::unique_ptr<analysis::Study> study;
-  CaseSpec study_model;  // spec of `study` without load and thresholds
-  int n_solves = 0;
-  for (size_t c = 0; c < combinations.size(); ++c) {
-    const CaseSpec& spec = combinations[c].spec;
-    CaseSpec model = spec;
-    model.load = analysis::LoadSpec();
-    model.thresholds = analysis::default_thresholds();
-    model.label.clear();
-    model.notes.clear();
-    const std::string prefix =
-        "combination " + std::to_string(c + 1) + " of " + std::to_string(combinations.size());
-    if (!study || model != study_model) {
-      study.reset();
-      study = in_model_stage([&] {
-        return std::make_unique<analysis::Study>(
-            spec,
-            [&progress, &prefix](const std::string& stage, double f) {
-              progress.report(prefix + ": " + stage, f);
-            },
-            interrupt_flag());
-      });
-      study_model = model;
-      ++n_solves;
+  // Models: runs of consecutive combinations with the same model (the unit of work, solved once).
+  std::vector<size_t>& model_begin = plan.model_begin;
+  {
+    CaseSpec previous;
+    for (size_t c = 0; c < combinations.size(); ++c) {
+      CaseSpec model = model_of(combinations[c].spec);
+      if (c == 0 || model != previous) model_begin.push_back(c);
+      previous = std::move(model);
     }
+    model_begin.push_back(combinations.size());
+  }
+  for (const auto& v : variations) plan.keys.push_back(v.key);
+  return plan;
+}
+
+}  // namespace
+
+void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
+  // Stage lines of a model being solved come from rank 0 only; the study line covers all ranks.
+  Progress progress(options.quiet || !world.root());
+  // Every rank plans the sweep itself; rank 0 also checks the output folder and reads the
+  // checkpoints of an earlier run of the same sweep. Then all agree: a failure anywhere stops
+  // every rank, reported once (by rank 0 when it failed too, else by the rank that failed).
+  SweepPlan plan;
+  std::unique_ptr<analysis::StagedFolder> out;
+  std::unique_ptr<SweepCheckpoint> checkpoint;
+  std::map<int, std::string> rows_of_model;
+  std::exception_ptr failure;
+  try {
+    plan = plan_sweep(options, sweep);
+    if (world.root()) {
+      std::vector<std::vector<std::string>> values;
+      std::vector<std::string> case_json;
+      for (const Combination& c : plan.combinations) {
+        values.push_back(c.values);
+        case_json.push_back(analysis::case_to_json(c.spec));
+      }
+      // The thread count changes the last digits (solver_threads.h): rows of another count are
+      // another sweep's.
+      std::vector<std::string> with_threads = plan.keys;
+      with_threads.push_back("--threads=" + std::to_string(sweep.threads));
+      SweepCheckpoint::remove_stale_temporaries(options.out_dir);
+      out = std::make_unique<analysis::StagedFolder>(options.out_dir);  // checks the path
+      std::error_code ec;
+      std::filesystem::create_directories(options.out_dir, ec);
+      if (ec)
+        throw analysis::OutputError("cannot create the output folder \"" + options.out_dir +
+                                    "\" for the sweep's checkpoints: " + ec.message());
+      checkpoint = std::make_unique<SweepCheckpoint>(
+          options.out_dir, sweep_fingerprint(with_threads, values, case_json),
+          static_cast<int>(plan.model_begin.size()) - 1);
+      rows_of_model = checkpoint->load();
+    }
+  } catch (...) {
+    failure = std::current_exception();
+  }
+  const int my_code = failure ? describe_failure(failure).exit_code : 0;
+  const int worst = world.max_over_ranks(my_code);
+  const int root_code = world.broadcast(my_code);
+  if (failure) {
+    if (!world.root() && root_code == 0) world.begin_independent_work();  // say it, end the job
+    if (world.root() || root_code == 0) std::rethrow_exception(failure);
+  }
+  if (worst != 0) throw StoppedByRoot{root_code != 0 ? root_code : worst};
+
+  const CaseSpec& base = plan.base;
+  const std::vector<std::string>& keys = plan.keys;
+  const std::vector<Combination>& combinations = plan.combinations;
+  const std::vector<size_t>& model_begin = plan.model_begin;
+  const int n_models = static_cast<int>(model_begin.size()) - 1;
+  std::string done(static_cast<size_t>(n_models), '0');
+  for (const auto& [m, rows] : rows_of_model) done[static_cast<size_t>(m)] = '1';
+  done = world.broadcast(done);
+  std::vector<int> left;
+  for (int m = 0; m < n_models; ++m)
+    if (done[static_cast<size_t>(m)] == '0') left.push_back(m);
+  const int n_resumed = n_models - static_cast<int>(left.size());
+  if (n_resumed > 0)
+    progress.note("resuming: " + plural(static_cast<size_t>(n_resumed), "model") + " of " +
+                  std::to_string(n_models) + " already solved (checkpoints in " + options.out_dir +
+                  ")");
+  if (world.root() && world.size() > 1)
+    std::fprintf(stderr, "sharpey-batch: %s over %d ranks (%s)\n",
+                 plural(left.size(), "model").c_str(), world.size(),
+                 plural(combinations.size(), "combination").c_str());
+  world.begin_independent_work();
+  set_solver_threads(sweep.threads);
+
+  StudyProgress study_progress(options.quiet || !world.root(), n_models, n_resumed, world.size());
+  int n_saved = 0;
+  // Rank 0 saves each model's rows (its own and those other ranks send) as a checkpoint.
+  const auto save = [&](int m, std::string rows) {
+    checkpoint->save(m, rows);
+    rows_of_model[m] = std::move(rows);
+    study_progress.model_done();
+    kill_if_test_asks(++n_saved);
+  };
+  const auto take_arrivals = [&] {
+    for (auto& [m, rows] : world.receive_ready()) {
+      if (m < 0 || m >= n_models || rows_of_model.count(static_cast<int>(m)))
+        throw Error("a rank sent the rows of model " + std::to_string(m) +
+                    ", which is not expected (internal error)");
+      save(static_cast<int>(m), std::move(rows));
+    }
+  };
+
+  // Static share: the models left, dealt round-robin (neighbouring models, e.g. of one tooth,
+  // cost about the same, so each rank gets a similar mix).
+  for (size_t i = static_cast<size_t>(world.rank()); i < left.size();
+       i += static_cast<size_t>(world.size())) {
+    const int m = left[i];
+    const size_t first = model_begin[static_cast<size_t>(m)];
+    const size_t last = model_begin[static_cast<size_t>(m) + 1];
+    const std::string prefix =
+        "model " + std::to_string(m + 1) + " of " + std::to_string(n_models) + " (combination " +
+        std::to_string(first + 1) + " of " + std::to_string(combinations.size()) + ")";
+    const analysis::Study study = in_model_stage([&] {
+      return analysis::Study(
+          combinations[first].spec,
+          [&progress, &prefix](const std::string& stage, double f) {
+            progress.report(prefix + ": " + stage, f);
+          },
+          interrupt_flag());
+    });
     stop_if_interrupted();
-    const auto& solutions = study->solutions();
+    const auto& solutions = study.solutions();
     const analysis::ScenarioSolution* healthy =
-        solutions[static_cast<size_t>(study->healthy_index())].get();
-    for (const auto& solution : solutions) {
-      const analysis::ScenarioResult r = in_model_stage(
-          [&] { return analysis::evaluate(*solution, spec.load, spec.thresholds, healthy); });
-      table.add(static_cast<int>(c + 1), combinations[c].values, r);
+        solutions[static_cast<size_t>(study.healthy_index())].get();
+    analysis::SweepTable piece(keys);
+    for (size_t c = first; c < last; ++c) {
+      const CaseSpec& spec = combinations[c].spec;
+      for (const auto& solution : solutions) {
+        const analysis::ScenarioResult r = in_model_stage(
+            [&] { return analysis::evaluate(*solution, spec.load, spec.thresholds, healthy); });
+        piece.add(static_cast<int>(c + 1), combinations[c].values, r);
+      }
+    }
+    if (world.root()) {
+      save(m, piece.rows_text());
+      take_arrivals();
+    } else {
+      world.send_to_root(m, piece.rows_text());
     }
   }
-  progress.note(plural(combinations.size(), "combination") + ", " +
-                plural(static_cast<size_t>(n_solves), "model") + " solved");
-  analysis::write_file_atomic(out.path("sweep.csv"), table.csv());
-  analysis::save_case(base, out.path("sweep_case.json"));
+  if (!world.root()) {
+    world.flush_sends();
+    return;
+  }
+  while (static_cast<int>(rows_of_model.size()) < n_models) {
+    take_arrivals();
+    stop_if_interrupted();
+    std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  }
+
+  analysis::SweepTable table(keys);
+  for (const auto& [m, rows] : rows_of_model) table.add_rows_text(rows);  // in model order
+  progress.note(
+      plural(combinations.size(), "combination") + ", " +
+      plural(static_cast<size_t>(study_progress.n_solved()), "model") + " solved" +
+      (n_resumed > 0 ? ", " + std::to_string(n_resumed) + " resumed from checkpoints"
+                     : std::string()) +
+      (world.size() > 1 ? " on " + std::to_string(world.size()) + " ranks" : std::string()));
+  analysis::write_file_atomic(out->path("sweep.csv"), table.csv());
+  analysis::save_case(base, out->path("sweep_case.json"));
   stop_if_interrupted();
-  out.commit();
+  out->commit();
   announce(options.out_dir, {"sweep.csv", "sweep_case.json"});
 }
 

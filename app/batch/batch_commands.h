@@ -2,8 +2,11 @@
 // codes in main.cpp) and writes its output folder through analysis::StagedFolder.
 #pragma once
 
+#include <cstddef>
 #include <string>
 #include <vector>
+
+#include "mpi_world.h"
 
 namespace sharpey::batch {
 
@@ -18,9 +21,23 @@ struct CommonOptions {
 // per scenario <stem>_model.vtu, <stem>_pdl.vtu, <stem>_root_map.csv.
 void run_command(const CommonOptions& options);
 
-// Full factorial over the --vary options; writes sweep.csv (one row per combination and scenario)
-// and sweep_case.json (the base case).
-void sweep_command(const CommonOptions& options, const std::vector<std::string>& vary);
+struct SweepOptions {
+  std::vector<std::string> vary;  // "KEY=V1,V2,..." options
+  std::string design_path;        // study design file (JSON), or empty
+  int threads = 1;                // threads per model solve (see solver_threads.h)
+};
+
+// The most combinations one sweep takes. Every combination is read and checked as a case before
+// anything is solved, and rank 0 keeps every row in memory; 20000 combinations of a few
+// scenarios are a few seconds of checks and tens of MB of rows.
+constexpr size_t kMaxSweepCombinations = 20000;
+
+// Full factorial over the --vary options and the study design; writes sweep.csv (one row per
+// combination and scenario) and sweep_case.json (the base case). Distributed over the ranks of
+// `world`: each solves a share of the models, rank 0 checkpoints every model's rows in the output
+// folder (a rerun of the same sweep resumes from them) and writes the files, the same bytes for
+// any number of ranks. On ranks other than 0 it returns without writing anything.
+void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world);
 
 // Meshes every scenario; writes <stem>_mesh.vtu, <stem>_boundary.vtu and mesh_statistics.json.
 void mesh_command(const CommonOptions& options);

@@ -6,12 +6,14 @@
 #include <exception>
 #include <filesystem>
 #include <iostream>
+#include <memory>
 #include <new>
 
 #include "batch_commands.h"
 #include "exit_codes.h"
 #include "failure.h"
 #include "interrupt.h"
+#include "mpi_world.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
@@ -84,7 +86,7 @@ int main(int argc, char** argv) {
   app.require_subcommand(1, 1);
 
   CommonOptions options;
-  std::vector<std::string> vary;
+  SweepOptions sweep_options;
   auto add_common = [&options](CLI::App* sub) {
     sub->add_option("case", options.case_path, "case file (JSON, see docs/case-format.md)")
         ->required()
@@ -105,11 +107,19 @@ int main(int argc, char** argv) {
       "full-factorial sweep over case keys; write sweep.csv (one row per combination "
       "and scenario)");
   add_common(sweep);
+  sweep->add_option("--vary", sweep_options.vary,
+                    "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "
+                    "load.magnitude=50,100,150 (repeat for more keys)");
   sweep
-      ->add_option("--vary", vary,
-                   "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "
-                   "load.magnitude=50,100,150 (repeat for more keys)")
-      ->required();
+      ->add_option("--design", sweep_options.design_path,
+                   "study design (JSON): teeth x bone levels x movements x forces x materials, "
+                   "see docs/sweeps.md")
+      ->check(CLI::ExistingFile);
+  sweep
+      ->add_option("--threads", sweep_options.threads,
+                   "threads per model solve (default 1: the same sweep.csv however the sweep is "
+                   "started; use mpirun -n CORES to use every core)")
+      ->check(CLI::Range(1, 1024));
   CLI::App* mesh_cmd = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
   add_common(mesh_cmd);
@@ -117,29 +127,62 @@ int main(int argc, char** argv) {
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
     if (command != "run" && command != "sweep" && command != "mesh")
-      return fail(
-          kBadInput, "usage",
-          "unknown command \"" + command + "\"; use run, sweep or mesh (see sharpey-batch --help)");
+      return launcher_rank() != 0
+                 ? kBadInput
+                 : fail(kBadInput, "usage",
+                        "unknown command \"" + command +
+                            "\"; use run, sweep or mesh (see sharpey-batch --help)");
   }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
+    if (launcher_rank() != 0) return e.get_exit_code() == 0 ? kOk : kBadInput;  // rank 0 says it
     const int shown = app.exit(e);
     return shown == 0 ? kOk : kBadInput;
   }
 
+  // Under mpirun or srun MPI is initialised (MPI_Init_thread) before the signal handlers, so
+  // ours replace any the MPI library installs for SIGINT / SIGTERM; a plain start never touches
+  // MPI.
+  std::unique_ptr<MpiWorld> world;
+  try {
+    world = std::make_unique<MpiWorld>(started_by_mpi_launcher(), &argc, &argv);
+  } catch (const std::exception& e) {
+    return fail(kInternalError, "MPI", e.what());
+  }
   install_interrupt_handlers();
   std::set_terminate(on_terminate);
   try {
+    if (world->size() > 1 && !sweep->parsed())
+      throw InputError("mpirun", "only sweep runs over several MPI ranks; start " +
+                                     std::string(run->parsed() ? "run" : "mesh") +
+                                     " without mpirun or srun (or with one rank)");
     if (run->parsed()) run_command(options);
-    if (sweep->parsed()) sweep_command(options, vary);
+    if (sweep->parsed()) sweep_command(options, sweep_options, *world);
     if (mesh_cmd->parsed()) mesh_command(options);
     return kOk;
+  } catch (const StoppedByRoot& stopped) {
+    return stopped.exit_code;  // rank 0 has said why
   } catch (...) {
     const Failure f = describe_failure(std::current_exception());
-    fail(f.exit_code, f.kind, f.message);
-    if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
+    // Before the ranks part ways every rank meets the same error: rank 0 says it once. After,
+    // the failing rank says it and ends the whole job (its checkpoints stay for a rerun).
+    const bool alone = world->independent() && world->size() > 1;
+    if (world->root() || alone) {
+      const std::string rank = alone ? " (rank " + std::to_string(world->rank()) + " of " +
+                                           std::to_string(world->size()) + ")"
+                                     : std::string();
+      fail(f.exit_code, f.kind + rank, f.message);
+      if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
+      if (sweep->parsed() && world->independent())
+        std::cerr << "sharpey-batch: the models finished so far are kept as checkpoints in "
+                  << options.out_dir
+                  << (f.exit_code == kInterrupted
+                          ? "; run the same command again to resume\n"
+                          : "; once the cause is fixed, the same command resumes from them\n");
+    }
+    if (alone) world->abort(f.exit_code);
     return f.exit_code;
   }
 }

@@ -103,6 +103,11 @@ class SweepTable {
   explicit SweepTable(std::vector<std::string> varied_keys);
   void add(int combination, const std::vector<std::string>& values, const ScenarioResult& result);
   std::string csv() const;  // `# caution` line, header, rows
+  // The rows alone, each ending in '\n': what csv() puts after the header. For tables filled in
+  // parts (a distributed or resumed sweep): add_rows_text() appends such text from another table
+  // with the same keys, so csv() is the same as if every row had been added here.
+  std::string rows_text() const;
+  void add_rows_text(const std::string& rows);
   int n_rows() const { return static_cast<int>(rows_.size()); }
 
  private:

@@ -1,0 +1,201 @@
+// Study designs (teeth x bone levels x movements x forces x materials) read from JSON and turned
+// into case variations, so every combination goes through the case reader like a --vary sweep.
+#include "sharpey/analysis/study_design.h"
+
+#include <algorithm>
+#include <cmath>
+#include <nlohmann/json.hpp>
+#include <string>
+#include <vector>
+
+#include "sharpey/error.h"
+
+namespace sharpey::analysis {
+
+namespace {
+
+using Json = nlohmann::ordered_json;
+
+const char* const kKnownKeys[] = {"design_version", "label",     "teeth",
+                                  "bone_levels_mm", "movements", "forces",
+                                  "force_unit",     "materials", "also_vary"};
+const char* const kMaterialPrefixes[] = {"tooth.material.", "pdl.material.",
+                                         "bone.cortical_material.", "bone.cancellous_material."};
+
+std::string known_keys() {
+  std::string out;
+  for (const char* k : kKnownKeys) out += (out.empty() ? "" : ", ") + std::string(k);
+  return out;
+}
+
+[[noreturn]] void bad(const std::string& key, const std::string& origin, const std::string& what) {
+  throw InputError("design." + key, origin + ": " + what);
+}
+
+// A design value as the --vary text that set_case_value reads back to the same JSON value.
+std::string literal(const Json& value) {
+  if (value.is_string()) {
+    const std::string text = value.get<std::string>();
+    const Json reread = Json::parse(text, nullptr, /*allow_exceptions=*/false);
+    return reread.is_discarded() ? text : value.dump();  // "true", "12": keep the quotes
+  }
+  return value.dump();
+}
+
+// A non-empty array of distinct values of `key` (a factor's list).
+const Json& factor_array(const Json& root, const std::string& key, const std::string& origin,
+                         const std::string& example) {
+  const Json& list = root.at(key);
+  if (!list.is_array() || list.empty())
+    bad(key, origin,
+        "\"" + key + "\" is " + (list.is_array() ? "empty" : "not a list") +
+            "; give a non-empty list of values, e.g. \"" + key + "\": " + example);
+  for (size_t i = 0; i < list.size(); ++i)
+    for (size_t j = 0; j < i; ++j)
+      if (list[i] == list[j])
+        bad(key, origin,
+            "\"" + key + "\" lists " + list[i].dump() +
+                " twice; give each value once (a repeated value would solve the same combination "
+                "twice)");
+  return list;
+}
+
+CaseVariation variation(const std::string& case_key, const Json& list) {
+  CaseVariation v;
+  v.key = case_key;
+  for (const Json& value : list) v.values.push_back(literal(value));
+  return v;
+}
+
+// Keys of an object factor (materials, also_vary), each a case key with a list of values.
+void add_key_lists(const Json& root, const std::string& key, const std::string& origin,
+                   bool materials_only, std::vector<CaseVariation>* out) {
+  const Json& object = root.at(key);
+  if (!object.is_object() || object.empty())
+    bad(key, origin,
+        "\"" + key + "\" must be a non-empty object of case keys and value lists, e.g. \"" + key +
+            "\": {\"pdl.material.young_modulus_mpa\": [0.47, 0.94]}");
+  for (auto it = object.begin(); it != object.end(); ++it) {
+    const std::string& case_key = it.key();
+    if (materials_only && std::none_of(std::begin(kMaterialPrefixes), std::end(kMaterialPrefixes),
+                                       [&](const char* p) { return case_key.rfind(p, 0) == 0; }))
+      bad(key + "." + case_key, origin,
+          "\"" + case_key +
+              "\" in \"materials\" is not a material key; use tooth.material.*, pdl.material.*, "
+              "bone.cortical_material.* or bone.cancellous_material.* (e.g. "
+              "pdl.material.young_modulus_mpa), or put other keys under \"also_vary\"");
+    for (const char* fixed : {"tooth.type", "load.movement", "load.magnitude", "load.unit"})
+      if (case_key == fixed || case_key.rfind("scenarios", 0) == 0)
+        bad(key + "." + case_key, origin,
+            "\"" + case_key +
+                "\" is set by the design's own factors (teeth, bone_levels_mm, "
+                "movements, forces, force_unit); give it there, not under \"" +
+                key + "\"");
+    for (const CaseVariation& earlier : *out)
+      if (earlier.key == case_key)
+        bad(key + "." + case_key, origin,
+            "\"" + case_key + "\" is varied twice in the design; give all its values in one list");
+    out->push_back(variation(case_key, factor_array(object, case_key, origin, "[1, 2]")));
+  }
+}
+
+}  // namespace
+
+StudyDesign parse_study_design(const std::string& json_text, const std::string& origin) {
+  const Json root = Json::parse(json_text, nullptr, /*allow_exceptions=*/false);
+  if (root.is_discarded() || !root.is_object())
+    throw InputError("design", origin +
+                                   ": not a JSON object; a design looks like {\"teeth\": "
+                                   "[\"maxillary_canine\"], \"bone_levels_mm\": [0, 2, 4], "
+                                   "\"forces\": [50, 100]} (docs/sweeps.md, Study designs)");
+  for (auto it = root.begin(); it != root.end(); ++it)
+    if (std::find(std::begin(kKnownKeys), std::end(kKnownKeys), it.key()) == std::end(kKnownKeys))
+      bad(it.key(), origin, "unknown key \"" + it.key() + "\"; a design knows " + known_keys());
+
+  StudyDesign design;
+  if (root.contains("design_version")) {
+    const Json& v = root.at("design_version");
+    if (!v.is_number_integer() || v.get<long long>() != kStudyDesignVersion)
+      bad("design_version", origin,
+          "design_version " + v.dump() + " is not supported; this program reads version " +
+              std::to_string(kStudyDesignVersion) + " (a newer file needs a newer program)");
+  }
+  if (root.contains("label")) {
+    if (!root.at("label").is_string()) bad("label", origin, "\"label\" must be a string");
+    design.label = root.at("label").get<std::string>();
+  }
+  if (root.contains("teeth")) {
+    const Json& teeth = factor_array(root, "teeth", origin, "[\"maxillary_canine\"]");
+    for (const Json& t : teeth)
+      if (!t.is_string())
+        bad("teeth", origin,
+            "tooth " + t.dump() + " is not a name; give tooth types such as \"mandibular_canine\"");
+    design.variations.push_back(variation("tooth.type", teeth));
+  }
+  if (root.contains("bone_levels_mm")) {
+    for (const Json& b : factor_array(root, "bone_levels_mm", origin, "[0, 2, 4]")) {
+      if (!b.is_number() || !std::isfinite(b.get<double>()) || b.get<double>() < 0)
+        bad("bone_levels_mm", origin,
+            "bone level " + b.dump() +
+                " is not a horizontal loss in mm; give numbers >= 0, e.g. [0, 2, 4]");
+      design.bone_levels_mm.push_back(b.get<double>());
+    }
+  }
+  if (root.contains("materials"))
+    add_key_lists(root, "materials", origin, true, &design.variations);
+  if (root.contains("also_vary"))
+    add_key_lists(root, "also_vary", origin, false, &design.variations);
+  if (root.contains("movements")) {
+    const Json& movements = factor_array(root, "movements", origin, "[\"translation\"]");
+    for (const Json& m : movements) {
+      bool known = false;
+      for (MovementPreset p : all_movement_presets())
+        known = known || (m.is_string() && m == to_string(p));
+      if (!known) {
+        std::string names;
+        for (MovementPreset p : all_movement_presets())
+          names += (names.empty() ? "" : ", ") + to_string(p);
+        bad("movements", origin, "movement " + m.dump() + " is unknown; use " + names);
+      }
+    }
+    design.variations.push_back(variation("load.movement", movements));
+  }
+  if (root.contains("forces")) {
+    const Json& forces = factor_array(root, "forces", origin, "[50, 100, 150]");
+    for (const Json& f : forces)
+      if (!f.is_number() || !std::isfinite(f.get<double>()) || f.get<double>() <= 0)
+        bad("forces", origin,
+            "force " + f.dump() +
+                " is not a magnitude; give numbers > 0 in force_unit, e.g. "
+                "[50, 100, 150]");
+    design.variations.push_back(variation("load.magnitude", forces));
+  }
+  if (root.contains("force_unit")) {
+    const Json& u = root.at("force_unit");
+    if (!u.is_string()) bad("force_unit", origin, "\"force_unit\" must be \"g\", \"cN\" or \"N\"");
+    try {
+      force_unit_from_string(u.get<std::string>());
+    } catch (const InputError& e) {
+      bad("force_unit", origin, e.what());
+    }
+    design.force_unit = u.get<std::string>();
+  }
+  if (design.variations.empty() && design.bone_levels_mm.empty())
+    bad("teeth", origin,
+        "the design varies nothing; give at least one of teeth, bone_levels_mm, movements, forces, "
+        "materials, also_vary");
+  return design;
+}
+
+std::string apply_study_design(const std::string& case_text, const StudyDesign& design) {
+  std::string text = case_text;
+  if (!design.bone_levels_mm.empty()) {
+    Json scenarios = Json::array();
+    for (double level : design.bone_levels_mm) scenarios.push_back({{"horizontal_loss_mm", level}});
+    text = set_case_value(text, "scenarios", scenarios.dump());
+  }
+  if (!design.force_unit.empty()) text = set_case_value(text, "load.unit", design.force_unit);
+  return text;
+}
+
+}  // namespace sharpey::analysis
