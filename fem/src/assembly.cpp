@@ -1,10 +1,12 @@
+#include "sharpey/fem/assembly.h"
+
 #include <omp.h>
 
 #include <algorithm>
 #include <chrono>
 #include <climits>
-#include <cstdint>
 #include <exception>
+#include <functional>
 #include <map>
 #include <string>
 #include <utility>
@@ -12,55 +14,12 @@
 #include "detail/kinematics.h"
 #include "detail/node_graph.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/assembly.h"
 
 namespace sharpey::fem {
 namespace {
 
 double seconds_since(std::chrono::steady_clock::time_point t0) {
   return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
-
-// Greedy colouring: no two elements of a colour share a node. Elements are visited in index order
-// and keep index order inside their colour (locality). Returns colour_ptr (n_colours + 1) and the
-// elements grouped by colour.
-void colour_elements(const mesh::VolumeMesh& m, std::vector<long long>* colour_ptr,
-                     std::vector<int>* order) {
-  const int n_elements = m.n_elements(), k = m.nodes_per_element;
-  for (int words = 2;; words *= 2) {  // 128 colours first; more only for pathological meshes
-    std::vector<std::uint64_t> used(static_cast<size_t>(m.n_nodes()) * words, 0);
-    std::vector<int> colour(static_cast<size_t>(n_elements));
-    int n_colours = 0;
-    bool overflow = false;
-    for (int e = 0; e < n_elements && !overflow; ++e) {
-      const int* en = m.element(e);
-      int c = -1;
-      for (int w = 0; w < words && c < 0; ++w) {
-        std::uint64_t taken = 0;
-        for (int a = 0; a < k; ++a) taken |= used[static_cast<size_t>(en[a]) * words + w];
-        if (~taken != 0) c = 64 * w + __builtin_ctzll(~taken);
-      }
-      if (c < 0) {
-        overflow = true;
-        break;
-      }
-      colour[static_cast<size_t>(e)] = c;
-      n_colours = std::max(n_colours, c + 1);
-      for (int a = 0; a < k; ++a) {
-        used[static_cast<size_t>(en[a]) * words + c / 64] |= std::uint64_t{1} << (c % 64);
-      }
-    }
-    if (overflow) continue;
-    colour_ptr->assign(static_cast<size_t>(n_colours) + 1, 0);
-    for (int c : colour) ++(*colour_ptr)[static_cast<size_t>(c) + 1];
-    for (int c = 0; c < n_colours; ++c) (*colour_ptr)[c + 1] += (*colour_ptr)[c];
-    order->resize(static_cast<size_t>(n_elements));
-    std::vector<long long> next(colour_ptr->begin(), colour_ptr->end() - 1);
-    for (int e = 0; e < n_elements; ++e) {
-      (*order)[static_cast<size_t>(next[static_cast<size_t>(colour[static_cast<size_t>(e)])]++)] = e;
-    }
-    return;
-  }
 }
 
 // Splits the elements into `n_parts` slabs of equal element count along the longest extent of the
@@ -113,7 +72,6 @@ class Scatter {
   Scatter(const mesh::VolumeMesh& m, const detail::NodeGraph& g, double* values)
       : m_(m), g_(g), values_(values) {}
 
-  template <bool kAtomic>
   void add(int e, const detail::ElementMatrix<K>& Ke) const {
     const int* en = m_.element(e);
     for (int b = 0; b < K; ++b) {
@@ -124,15 +82,7 @@ class Scatter {
         const long long p = std::lower_bound(adj, adj + deg, en[a]) - adj;
         for (int c = 0; c < 3; ++c) {
           double* col = values_ + 9 * begin + 3 * c * deg + 3 * p;
-          for (int r = 0; r < 3; ++r) {
-            const double v = Ke(3 * a + r, 3 * b + c);
-            if constexpr (kAtomic) {
-#pragma omp atomic
-              col[r] += v;
-            } else {
-              col[r] += v;
-            }
-          }
+          for (int r = 0; r < 3; ++r) col[r] += Ke(3 * a + r, 3 * b + c);
         }
       }
     }
@@ -160,14 +110,66 @@ class ErrorSlot {
   std::exception_ptr error_;
 };
 
+// Computes the stiffness matrix of element e into *Ke; throws MeshError for an inverted element.
+template <int K>
+using ElementKernel = std::function<void(int e, detail::ElementMatrix<K>* Ke)>;
+
+// Serial: every element in index order.
+template <int K>
+void assemble_serial(const Scatter<K>& scatter, int n_elements, const ElementKernel<K>& element) {
+  detail::ElementMatrix<K> Ke;
+  for (int e = 0; e < n_elements; ++e) {
+    element(e, &Ke);
+    scatter.add(e, Ke);
+  }
+}
+
+// Partitioned (docs/fem-solver.md): each thread adds the elements of its slab whose nodes no other
+// slab touches, without synchronisation; then the interface elements are added serially.
+template <int K>
+void assemble_partitioned(const mesh::VolumeMesh& m, const Scatter<K>& scatter, int n_threads,
+                          const ElementKernel<K>& element, AssemblyStatistics* stats) {
+  const int n_elements = m.n_elements();
+  const auto t0 = std::chrono::steady_clock::now();
+  std::vector<int> slab;
+  std::vector<char> interface;
+  partition_elements(m, n_threads, &slab, &interface);
+  if (stats) {
+    stats->colouring_s = seconds_since(t0);
+    stats->n_interface_elements = std::count(interface.begin(), interface.end(), 1);
+  }
+  ErrorSlot error;
+#pragma omp parallel num_threads(n_threads)
+  {
+    detail::ElementMatrix<K> Ke;
+    const int me = omp_get_thread_num();
+    for (int e = 0; e < n_elements; ++e) {
+      if (slab[static_cast<size_t>(e)] != me || interface[static_cast<size_t>(e)]) continue;
+      if (error.failed()) break;
+      try {
+        element(e, &Ke);
+        scatter.add(e, Ke);
+      } catch (...) {
+        error.capture();
+      }
+    }
+  }
+  error.rethrow();
+  detail::ElementMatrix<K> Ke;
+  for (int e = 0; e < n_elements; ++e) {
+    if (!interface[static_cast<size_t>(e)]) continue;
+    element(e, &Ke);
+    scatter.add(e, Ke);
+  }
+}
+
 template <int K>
 void assemble_values(const mesh::VolumeMesh& m, const detail::NodeGraph& g,
                      const std::vector<const Matrix6d*>& D_of_element,
                      const AssemblyOptions& options, int n_threads, AssemblyStatistics* stats,
                      double* values) {
   const Scatter<K> scatter(m, g, values);
-  ErrorSlot error;
-  auto element = [&](int e, detail::ElementMatrix<K>* Ke) {
+  const ElementKernel<K> element = [&](int e, detail::ElementMatrix<K>* Ke) {
     const Matrix6d& D = *D_of_element[static_cast<size_t>(e)];
     const detail::NodeCoords<K> X = detail::element_coordinates<K>(m, e);
     double lambda = 0, mu = 0;
@@ -176,93 +178,11 @@ void assemble_values(const mesh::VolumeMesh& m, const detail::NodeGraph& g,
                            : detail::element_stiffness_fixed<K>(X, D, Ke);
     if (!(det > 0)) throw MeshError(detail::inverted_element_message(m, e, det));
   };
-  const int n_elements = m.n_elements();
   if (options.strategy == AssemblyStrategy::kSerial || n_threads == 1) {
-    detail::ElementMatrix<K> Ke;
-    for (int e = 0; e < n_elements; ++e) {
-      element(e, &Ke);
-      scatter.template add<false>(e, Ke);
-    }
-    return;
+    assemble_serial(scatter, m.n_elements(), element);
+  } else {
+    assemble_partitioned(m, scatter, n_threads, element, stats);
   }
-  if (options.strategy == AssemblyStrategy::kAtomic) {
-#pragma omp parallel num_threads(n_threads)
-    {
-      detail::ElementMatrix<K> Ke;
-#pragma omp for schedule(static)
-      for (int e = 0; e < n_elements; ++e) {
-        if (error.failed()) continue;
-        try {
-          element(e, &Ke);
-          scatter.template add<true>(e, Ke);
-        } catch (...) {
-          error.capture();
-        }
-      }
-    }
-    error.rethrow();
-    return;
-  }
-  if (options.strategy == AssemblyStrategy::kPartitioned) {
-    const auto t0 = std::chrono::steady_clock::now();
-    std::vector<int> slab;
-    std::vector<char> interface;
-    partition_elements(m, n_threads, &slab, &interface);
-    if (stats) {
-      stats->colouring_s = seconds_since(t0);
-      stats->n_interface_elements = std::count(interface.begin(), interface.end(), 1);
-    }
-#pragma omp parallel num_threads(n_threads)
-    {
-      detail::ElementMatrix<K> Ke;
-      const int me = omp_get_thread_num();
-      for (int e = 0; e < n_elements; ++e) {
-        if (slab[static_cast<size_t>(e)] != me || interface[static_cast<size_t>(e)]) continue;
-        if (error.failed()) break;
-        try {
-          element(e, &Ke);
-          scatter.template add<false>(e, Ke);
-        } catch (...) {
-          error.capture();
-        }
-      }
-    }
-    error.rethrow();
-    detail::ElementMatrix<K> Ke;
-    for (int e = 0; e < n_elements; ++e) {
-      if (!interface[static_cast<size_t>(e)]) continue;
-      element(e, &Ke);
-      scatter.template add<false>(e, Ke);
-    }
-    return;
-  }
-  const auto t0 = std::chrono::steady_clock::now();
-  std::vector<long long> colour_ptr;
-  std::vector<int> order;
-  colour_elements(m, &colour_ptr, &order);
-  const int n_colours = static_cast<int>(colour_ptr.size()) - 1;
-  if (stats) {
-    stats->colouring_s = seconds_since(t0);
-    stats->n_colours = n_colours;
-  }
-#pragma omp parallel num_threads(n_threads)
-  {
-    detail::ElementMatrix<K> Ke;
-    for (int c = 0; c < n_colours; ++c) {
-#pragma omp for schedule(static)
-      for (long long i = colour_ptr[c]; i < colour_ptr[c + 1]; ++i) {
-        if (error.failed()) continue;
-        try {
-          const int e = order[static_cast<size_t>(i)];
-          element(e, &Ke);
-          scatter.template add<false>(e, Ke);
-        } catch (...) {
-          error.capture();
-        }
-      }  // implicit barrier: a colour finishes before the next starts
-    }
-  }
-  error.rethrow();
 }
 
 }  // namespace
@@ -284,7 +204,8 @@ Eigen::SparseMatrix<double> assemble_stiffness(const mesh::VolumeMesh& mesh,
     if (D_of_region.count(r) == 0) D_of_region[r] = elasticity_matrix(material_of(materials, r));
   }
   std::vector<const Matrix6d*> D_of_element(mesh.element_region.size());
-  for (size_t e = 0; e < D_of_element.size(); ++e) D_of_element[e] = &D_of_region[mesh.element_region[e]];
+  for (size_t e = 0; e < D_of_element.size(); ++e)
+    D_of_element[e] = &D_of_region[mesh.element_region[e]];
 
   auto t0 = std::chrono::steady_clock::now();
   const detail::NodeGraph g = detail::build_node_graph(mesh);

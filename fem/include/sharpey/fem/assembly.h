@@ -15,22 +15,18 @@ enum class AssemblyStrategy {
   kPartitioned,  // elements split into one spatial slab per thread; each thread adds the elements
                  // whose nodes all belong to its slab, then the slab-interface elements are added
                  // serially (one barrier; robust when the machine is busy)
-  kColoured,     // elements coloured so no two of a colour share a node; a colour at a time, no
-                 // locks (one barrier per colour)
-  kAtomic,       // elements split evenly between threads; every addition is an atomic update
   kSerial,       // one thread
 };
 
 struct AssemblyOptions {
   AssemblyStrategy strategy = AssemblyStrategy::kPartitioned;  // chosen by measurement
-  int n_threads = 0;  // <= 0: OpenMP's default (all cores)
+  int n_threads = 0;                                           // <= 0: OpenMP's default (all cores)
 };
 
 struct AssemblyStatistics {
-  double pattern_s = 0;   // sparsity pattern from the connectivity
-  double colouring_s = 0; // element colouring (kColoured) or slab partition (kPartitioned)
-  double values_s = 0;    // element matrices and their addition
-  int n_colours = 0;             // kColoured
+  double pattern_s = 0;                // sparsity pattern from the connectivity
+  double colouring_s = 0;              // slab partition (kPartitioned)
+  double values_s = 0;                 // element matrices and their addition
   long long n_interface_elements = 0;  // kPartitioned: elements added serially
   int n_threads = 0;
   long long n_nonzeros = 0;  // stored entries of the full matrix
