@@ -490,12 +490,21 @@ bool SolutionCache::store(const CaseSpec& spec, int scenario_index,
                           const ScenarioOptions& options) const {
   try {
     const std::string key = solution_cache_key(spec, scenario_index, options);
-    std::error_code ec;
-    fs::create_directories(folder_, ec);
-    write_file_atomic(entry_path(key), write_solution(solution, key));
+    return store_entry(key, write_solution(solution, key), why);
   } catch (const std::bad_alloc&) {
     if (why) *why = "not enough memory to save the solution";
-    return false;
+  } catch (const std::exception& e) {
+    if (why) *why = e.what();
+  }
+  return false;
+}
+
+bool SolutionCache::store_entry(const std::string& key, const std::string& bytes,
+                                std::string* why) const {
+  try {
+    std::error_code ec;
+    fs::create_directories(folder_, ec);
+    write_file_atomic(entry_path(key), bytes);
   } catch (const std::exception& e) {
     if (why) *why = e.what();
     return false;

@@ -33,6 +33,7 @@
 #include "core/case_session.h"
 #include "core/document_state.h"
 #include "core/help_text.h"
+#include "core/solution_cache_folder.h"
 #include "core/solve_job.h"
 #include "core/units.h"
 #include "sharpey/analysis/report_output.h"
@@ -75,6 +76,7 @@ MainWindow::MainWindow(const MainWindowOptions& options)
   build_layout();
   build_menus();
   connect_session();
+  job_->set_cache(make_solution_cache(options.solution_cache_folder));
 
   connect(job_.get(), &SolveJob::progress, this, [this](const QString& stage, double fraction) {
     progress_->setValue(static_cast<int>(1000 * fraction));
@@ -100,7 +102,16 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     set_solving_ui(false);
     const auto study = job_->take_result();
     if (study && session_->study() != study.get()) session_->set_study(study, solve_geometry_);
-    status_->setText(QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size()));
+    // Say where the levels came from, and why a saved one could not be used.
+    QString text = QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size());
+    const int from_cache = job_->levels_from_cache();
+    if (from_cache > 0 && job_->levels_solved() == 0)
+      text = QStringLiteral("%1 bone level(s) shown from the saved solutions; nothing solved.").arg(from_cache);
+    else if (from_cache > 0)
+      text = QStringLiteral("Solved %1 bone level(s); %2 shown from the saved solutions.").arg(job_->levels_solved()).arg(from_cache);
+    const QString notes = job_->cache_notes();
+    if (!notes.isEmpty()) text += QStringLiteral(" Saved solution not used or not saved (") + notes.split(QLatin1Char('\n')).join(QStringLiteral("; ")) + QStringLiteral(").");
+    status_->setText(text);
     emit solve_finished();
   });
   // Levels solved before a cancel or a failure stay shown.

@@ -39,6 +39,9 @@ struct MainWindowOptions {
   QString autosave_folder;                          // empty: <app data>/autosave
   int autosave_interval_ms = 20000;
   std::optional<mesh::MeshPreset> mesh_override;    // --mesh: replaces the case's preset on open
+  // Saved solutions: empty uses solution_cache_folder() (SHARPEY_CACHE_DIR or the per-user
+  // cache folder); SHARPEY_CACHE_MAX_MB=0 switches the cache off.
+  QString solution_cache_folder;
   bool dialogs = true;  // false (tests): no modal dialogs; errors are recorded, prompts use answers
 };
 
@@ -90,6 +93,7 @@ class MainWindow : public QMainWindow {
 
   // ---- parts, for tests ----
   CaseSession& session() { return *session_; }
+  const SolveJob& solve_job() const { return *job_; }
   ResultView* result_view() const { return result_view_; }
   RootMapView* root_map() const { return root_map_; }
   ComparisonView* comparison() const { return comparison_; }

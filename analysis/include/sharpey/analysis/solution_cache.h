@@ -78,6 +78,10 @@ class SolutionCache {
   // max_bytes. False (and `why`) when it could not be written.
   bool store(const CaseSpec& spec, int scenario_index, const ScenarioSolution& solution,
              std::string* why = nullptr, const ScenarioOptions& options = {}) const;
+  // The same with the entry already written (write_solution(solution, key)), e.g. on another
+  // thread while the solution itself is in use.
+  bool store_entry(const std::string& key, const std::string& bytes,
+                   std::string* why = nullptr) const;
   // Removes the entries used longest ago until the total is within max_bytes, and temporary
   // files older than a day (left by a program killed while writing).
   void trim() const;
