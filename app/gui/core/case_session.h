@@ -16,6 +16,7 @@
 
 #include "core/document_state.h"
 #include "core/load_controls.h"
+#include "core/quantity.h"
 #include "core/scenario_list.h"
 #include "sharpey/analysis/study.h"
 
@@ -102,6 +103,12 @@ class CaseSession : public QObject {
   // True while the scenario on display was evaluated interactively without its healthy reference
   // (that would evaluate the healthy scenario too): its equivalent forces are -1 until flush().
   bool reference_pending() const { return reference_pending_; }
+  // The quantity the views show: while a slider moves only that field is evaluated (with the
+  // pressure, which the verdict and the key numbers need); the other fields and their maxima
+  // follow when the slider stops (flush, or the next non-interactive change).
+  void set_shown_quantity(Quantity q) { shown_quantity_ = q; }
+  // True while the current result was evaluated interactively with only the shown field.
+  bool fields_pending() const { return fields_pending_; }
   // Evaluates the scenarios left behind by interactive edits.
   void flush();
   // Last evaluation error (empty when the last evaluation succeeded).
@@ -139,6 +146,8 @@ class CaseSession : public QObject {
   int current_ = 0;
   bool pending_ = false;
   bool reference_pending_ = false;
+  bool fields_pending_ = false;
+  Quantity shown_quantity_ = Quantity::kPressure;
   QString error_;
   QTimer flush_timer_;
   double last_evaluation_ms_ = 0;

@@ -249,6 +249,10 @@ void MainWindow::build_layout() {
   hover_->setTextFormat(Qt::PlainText);
   statusBar()->addPermanentWidget(hover_);
   connect(result_view_, &ResultView::hover_changed, hover_, &QLabel::setText);
+  // Another quantity chosen right after a drag: the fields left out then are evaluated now.
+  connect(result_view_, &ResultView::quantity_changed, this, [this]() {
+    if (session_->fields_pending()) session_->flush();
+  });
   connect(root_map_, &RootMapView::hover_changed, hover_, &QLabel::setText);
   statusBar()->addPermanentWidget(progress_);
   statusBar()->addPermanentWidget(cancel_);
@@ -460,6 +464,7 @@ void MainWindow::apply_pending_load(bool interactive) {
   pending_load_.reset();
   // While a slider moves the 3D view draws the quick way (no see-through bone).
   result_view_->set_interacting(interactive);
+  session_->set_shown_quantity(result_view_->quantity());
   session_->set_load(c, interactive);
 }
 
@@ -832,6 +837,7 @@ bool MainWindow::export_data(const QString& folder) {
 }
 
 bool MainWindow::every_level_solved(const QString& title) {
+  session_->flush();  // results left behind by a slider (other levels, fields left out) first
   const analysis::Study* study = session_->study();
   if (!study || study->complete()) return true;
   const QString n = QString::number(study->spec().scenarios.size());
