@@ -270,7 +270,10 @@ void MainWindow::build_layout() {
     comparison_dirty_ = true;
     refresh_comparison();
   });
-  connect(tabs_, &QTabWidget::currentChanged, this, [this]() { refresh_comparison(); });
+  connect(tabs_, &QTabWidget::currentChanged, this, [this]() {
+    refresh_root_map();
+    refresh_comparison();
+  });
 }
 
 void MainWindow::build_menus() {
@@ -487,15 +490,25 @@ void MainWindow::refresh_results(bool interactive) {
   result_view_->show_result(*s, *r, t, force_text());
   findings_->show_result(*r, t, session_->geometry_stale(), session_->reference_pending());
   load_panel_->set_resolved(r);
-  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
-  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
-  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
-                     &pressure_range);
+  // While a slider moves, a root map not on screen waits until it is shown (or the slider stops).
+  root_map_dirty_ = true;
+  if (!interactive || tabs_->currentWidget() == root_map_) refresh_root_map();
   if (!interactive) {
     refresh_scenario_choice();
     comparison_dirty_ = true;
     refresh_comparison();
   }
+}
+
+void MainWindow::refresh_root_map() {
+  const analysis::ScenarioResult* r = session_->current_result();
+  if (!root_map_dirty_ || !r) return;
+  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
+  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
+  root_map_->set_map(r->root_map, session_->spec().thresholds,
+                     QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
+                     &pressure_range);
+  root_map_dirty_ = false;
 }
 
 void MainWindow::refresh_comparison() {

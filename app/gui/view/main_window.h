@@ -133,6 +133,7 @@ class MainWindow : public QMainWindow {
   void refresh_title();
   void refresh_recent_menu();
   void refresh_comparison();
+  void refresh_root_map();
   void show_error(const QString& title, const QString& message);
   // False (and an error titled `title`) while the study on display lacks some bone levels.
   bool every_level_solved(const QString& title);
@@ -172,6 +173,7 @@ class MainWindow : public QMainWindow {
   int prompts_ = 0;
   QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
   bool comparison_dirty_ = true;
+  bool root_map_dirty_ = true;  // the root map waits for the current result (hidden during a drag)
   bool load_error_shown_ = false;  // the status bar shows why a force system was refused
   std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
   bool load_queued_ = false;
