@@ -34,7 +34,8 @@ double at(const std::vector<double>& v, size_t i) { return v[i]; }
 // Largest value of `v` over the nodes outside the edge band (over all nodes when the band holds
 // every node); `band_peak` receives the largest value inside the band (or -inf).
 template <typename Values>
-double max_outside_band(const Values& v, const std::vector<char>& band, double* band_peak = nullptr) {
+double max_outside_band(const Values& v, const std::vector<char>& band,
+                        double* band_peak = nullptr) {
   double outside = -std::numeric_limits<double>::infinity();
   double inside = -std::numeric_limits<double>::infinity();
   for (size_t i = 0; i < band.size(); ++i) {
@@ -69,7 +70,8 @@ PressureMeasures pressure_measures(const ScenarioSolution& solution, const LoadS
 
 // Cells of the root map inside the edge band: the nodal band indicator interpolated like the
 // pressure, at least one half.
-std::vector<char> root_map_edge_band(const ScenarioSolution& solution, const std::vector<char>& band) {
+std::vector<char> root_map_edge_band(const ScenarioSolution& solution,
+                                     const std::vector<char>& band) {
   Eigen::VectorXd indicator(static_cast<Eigen::Index>(band.size()));
   for (size_t i = 0; i < band.size(); ++i) indicator(static_cast<Eigen::Index>(i)) = band[i];
   const RootMap map = solution.root_map_sampler().sample(indicator);
@@ -150,7 +152,8 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   if (fields.von_mises) {
     r.von_mises_kpa.resize(static_cast<size_t>(n));
     for (Eigen::Index i = 0; i < n; ++i)
-      r.von_mises_kpa[static_cast<size_t>(i)] = 1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
+      r.von_mises_kpa[static_cast<size_t>(i)] =
+          1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
   }
   const std::vector<char>& band = pdl_crest_edge_band(solution);
   if (n > 0) {

@@ -154,9 +154,8 @@ void ScenarioSolution::derive(const ScenarioOptions& options) {
 
   load_context_ = std::make_unique<detail::LoadContext>();
   detail::LoadContext& c = *load_context_;
-  c.response =
-      detail::rigid_response(m.nodes, basis_->unit_displacements(), embedded_root_nodes_,
-                             g.bracket_center);
+  c.response = detail::rigid_response(m.nodes, basis_->unit_displacements(), embedded_root_nodes_,
+                                      g.bracket_center);
   c.cres_x_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitX());
   c.cres_y_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitY());
   c.crown_tip_z_mm = g.crown_tip.z();

@@ -26,10 +26,10 @@ UnitLoadBasis::UnitLoadBasis(const Eigen::Vector3d& reference_point,
       u_(std::move(unit_displacements)),
       fields_(std::move(unit_fields)) {
   if (u_.cols() != 6 || fields_.size() != 6) {
-    throw InputError("unit_load_basis",
-                     "a unit load basis needs six load cases; got " + std::to_string(u_.cols()) +
-                         " displacement columns and " + std::to_string(fields_.size()) +
-                         " region fields");
+    throw InputError("unit_load_basis", "a unit load basis needs six load cases; got " +
+                                            std::to_string(u_.cols()) +
+                                            " displacement columns and " +
+                                            std::to_string(fields_.size()) + " region fields");
   }
   for (const RegionField& f : fields_) {
     const auto n = static_cast<Eigen::Index>(f.nodes.size());

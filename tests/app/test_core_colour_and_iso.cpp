@@ -97,7 +97,8 @@ double circle_length(int n, double radius) {
   for (int r = 0; r < n; ++r)
     for (int k = 0; k < n; ++k) values[static_cast<size_t>(r * n + k)] = std::hypot(k - c, r - c);
   double length = 0;
-  for (const auto& s : iso_segments(values, n, n, radius)) length += std::hypot(s.x1 - s.x0, s.y1 - s.y0);
+  for (const auto& s : iso_segments(values, n, n, radius))
+    length += std::hypot(s.x1 - s.x0, s.y1 - s.y0);
   return length;
 }
 

@@ -24,8 +24,8 @@ namespace sharpey::app {
 
 // The materials the case panel edits (the tooth's stays as the case file gives it).
 enum class MaterialPart { kPdl, kCorticalBone, kCancellousBone };
-QString label(MaterialPart part);             // "PDL", "cortical bone", "cancellous bone"
-std::string case_key(MaterialPart part);      // "pdl.material", "bone.cortical_material", ...
+QString label(MaterialPart part);         // "PDL", "cortical bone", "cancellous bone"
+std::string case_key(MaterialPart part);  // "pdl.material", "bone.cortical_material", ...
 
 class CaseSession : public QObject {
   Q_OBJECT
@@ -60,7 +60,7 @@ class CaseSession : public QObject {
   void set_label(const QString& label);
   void set_tooth(mesh::ToothType type);  // handbook dimensions of that tooth
   void set_mesh_preset(mesh::MeshPreset preset);
-  void set_pdl_width(double width_mm);   // uniform width
+  void set_pdl_width(double width_mm);  // uniform width
   // Material edits and angular defects change the model: the results go stale until the next
   // solve. Both check the whole case first (analysis::validate_case) and throw InputError with the
   // library's message, naming the case-file key, the value and the allowed range; the case is
@@ -90,7 +90,8 @@ class CaseSession : public QObject {
   // healthy level is solved.
   // `solved_geometry`: geometry_version() when the solve started; when the geometry was edited
   // since, the results are shown but marked stale.
-  void set_study(std::shared_ptr<const analysis::Study> study, std::optional<int> solved_geometry = std::nullopt);
+  void set_study(std::shared_ptr<const analysis::Study> study,
+                 std::optional<int> solved_geometry = std::nullopt);
   const analysis::Study* study() const { return study_.get(); }
   const std::vector<analysis::ScenarioResult>& results() const { return results_; }
   int current() const { return current_; }
@@ -117,9 +118,9 @@ class CaseSession : public QObject {
   double last_evaluation_ms() const { return last_evaluation_ms_; }
 
  signals:
-  void case_replaced();    // new, open or recover: everything changed
-  void document_changed(); // title or modified flag
-  void geometry_changed(); // results are stale
+  void case_replaced();     // new, open or recover: everything changed
+  void document_changed();  // title or modified flag
+  void geometry_changed();  // results are stale
   void results_changed(bool interactive);
   void current_changed(int index);
   void evaluation_failed(const QString& message);

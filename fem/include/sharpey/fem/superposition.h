@@ -28,7 +28,8 @@ class UnitLoadBasis {
   UnitLoadBasis(const Eigen::Vector3d& reference_point, Eigen::MatrixXd unit_displacements,
                 std::vector<RegionField> unit_fields);
 
-  Eigen::VectorXd displacement(const Eigen::Vector3d& force_n, const Eigen::Vector3d& moment_nmm) const;
+  Eigen::VectorXd displacement(const Eigen::Vector3d& force_n,
+                               const Eigen::Vector3d& moment_nmm) const;
   RegionField region_field(const Eigen::Vector3d& force_n, const Eigen::Vector3d& moment_nmm) const;
   // Per-case displacement (3n x 6) and fields, for analyses that need the basis itself.
   const Eigen::MatrixXd& unit_displacements() const { return u_; }
