@@ -448,7 +448,7 @@ std::unique_ptr<ScenarioSolution> SolutionCache::load(const CaseSpec& spec, int 
   {
     std::ifstream in(path, std::ios::binary);
     if (!in) {
-      say("not saved yet");
+      say(kSolutionNotSaved);
       return nullptr;
     }
     std::error_code ec;

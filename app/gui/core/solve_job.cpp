@@ -118,7 +118,9 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
           solution = cache->load(spec, k, &why);
           from_cache = solution != nullptr;
           if (!from_cache) {
-            note(k, why);  // damaged or unreadable: solved again
+            // Damaged or unreadable: solved again, and said why (an entry another instance
+            // evicted since it was seen is simply solved).
+            if (why != analysis::kSolutionNotSaved) note(k, why);
             solution = std::make_unique<analysis::ScenarioSolution>(
                 spec, k, [&](const std::string& stage, double f) { level_progress(k, stage, f); },
                 &cancel_);

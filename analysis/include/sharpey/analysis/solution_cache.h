@@ -55,6 +55,9 @@ std::unique_ptr<ScenarioSolution> read_solution(std::string_view bytes, const Ca
                                                 int scenario_index,
                                                 const ScenarioOptions& options = {});
 
+// SolutionCache::load's reason when there is no entry (a plain miss, not a damaged entry).
+inline constexpr char kSolutionNotSaved[] = "not saved yet";
+
 // A folder of saved solutions, bounded in size: after each store, the entries used longest ago
 // (file modification time, renewed by every hit) are removed until the total is within
 // max_bytes. Entries are named by a hash of their key (16 hex digits, ".solved"); the key inside
