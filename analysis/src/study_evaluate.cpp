@@ -99,7 +99,7 @@ namespace detail {
 
 ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
                         const Thresholds& thresholds, const ScenarioSolution* healthy,
-                        const PressureMeasures* known_reference) {
+                        const PressureMeasures* known_reference, const FieldChoice& fields) {
   const mesh::ModelGeometry& g = solution.model().geometry;
   const detail::LoadContext& context = solution.load_context();
   ScenarioResult r;
@@ -121,28 +121,40 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   r.apex_displacement_um = 1000.0 * motion.displacement_at(g.apex);
   r.rotation_deg = kRadToDeg * motion.rotation_rad;
 
-  const Eigen::VectorXd u = solution.basis().displacement(r.load.force_n, r.load.moment_nmm);
-  r.displacement_mm = Eigen::Map<const Eigen::Matrix3Xd>(u.data(), 3, u.size() / 3);
-  r.rigid_fit_rms_um = 1000.0 * detail::fit_rigid_motion(solution.model().mesh.nodes, u,
-                                                         solution.embedded_root_nodes())
-                                    .rms_residual_mm;
+  constexpr double kNan = std::numeric_limits<double>::quiet_NaN();
+  if (fields.displacement) {
+    const Eigen::VectorXd u = solution.basis().displacement(r.load.force_n, r.load.moment_nmm);
+    r.displacement_mm = Eigen::Map<const Eigen::Matrix3Xd>(u.data(), 3, u.size() / 3);
+    r.rigid_fit_rms_um = 1000.0 * detail::fit_rigid_motion(solution.model().mesh.nodes, u,
+                                                           solution.embedded_root_nodes())
+                                      .rms_residual_mm;
+  } else {
+    r.rigid_fit_rms_um = kNan;
+  }
 
   // PDL fields per node.
   const fem::RegionField field = solution.basis().region_field(r.load.force_n, r.load.moment_nmm);
   const Eigen::VectorXd p = pdl_pressure_kpa(field);
   const Eigen::Index n = p.size();
   r.pressure_kpa.assign(p.data(), p.data() + n);
-  r.max_principal_strain_field.resize(static_cast<size_t>(n));
-  r.equivalent_strain_field.resize(static_cast<size_t>(n));
-  r.von_mises_kpa.resize(static_cast<size_t>(n));
-  std::vector<double> strain_magnitude(static_cast<size_t>(n));
-  for (Eigen::Index i = 0; i < n; ++i) {
-    const auto k = static_cast<size_t>(i);
-    const Eigen::Vector3d principal = fem::principal_strains(field.strain.col(i));
-    r.max_principal_strain_field[k] = principal(0);
-    strain_magnitude[k] = std::max(std::abs(principal(0)), std::abs(principal(2)));
-    r.equivalent_strain_field[k] = fem::equivalent_strain(field.strain.col(i));
-    r.von_mises_kpa[k] = 1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
+  std::vector<double> strain_magnitude;
+  if (fields.strains) {
+    r.max_principal_strain_field.resize(static_cast<size_t>(n));
+    r.equivalent_strain_field.resize(static_cast<size_t>(n));
+    strain_magnitude.resize(static_cast<size_t>(n));
+    for (Eigen::Index i = 0; i < n; ++i) {
+      const auto k = static_cast<size_t>(i);
+      const Eigen::Vector3d principal = fem::principal_strains(field.strain.col(i));
+      r.max_principal_strain_field[k] = principal(0);
+      strain_magnitude[k] = std::max(std::abs(principal(0)), std::abs(principal(2)));
+      r.equivalent_strain_field[k] = fem::equivalent_strain(field.strain.col(i));
+    }
+  }
+  if (fields.von_mises) {
+    r.von_mises_kpa.resize(static_cast<size_t>(n));
+    for (Eigen::Index i = 0; i < n; ++i)
+      r.von_mises_kpa[static_cast<size_t>(i)] =
+          1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
   }
   const std::vector<char>& band = pdl_crest_edge_band(solution);
   if (n > 0) {
@@ -150,14 +162,21 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     max_outside_band(p, band, &edge_peak);
     r.pressure_max_compression_crest_edge_kpa = std::max(0.0, edge_peak);
     r.pressure_max_tension_kpa = std::max(0.0, max_outside_band(Eigen::VectorXd(-p), band));
-    r.max_principal_strain = max_outside_band(r.max_principal_strain_field, band);
-    r.max_equivalent_strain = max_outside_band(r.equivalent_strain_field, band);
-    r.max_von_mises_kpa = max_outside_band(r.von_mises_kpa, band);
-    r.max_abs_principal_strain = max_outside_band(strain_magnitude, band);
-    r.beyond_linear_range = r.max_abs_principal_strain > kLinearRangeStrainLimit;
-    r.volume_beyond_linear_range_percent = solution.pdl_elements().volume_percent_above(
-        strain_magnitude, kLinearRangeStrainLimit, band);
+    if (fields.strains) {
+      r.max_principal_strain = max_outside_band(r.max_principal_strain_field, band);
+      r.max_equivalent_strain = max_outside_band(r.equivalent_strain_field, band);
+      r.max_abs_principal_strain = max_outside_band(strain_magnitude, band);
+      r.beyond_linear_range = r.max_abs_principal_strain > kLinearRangeStrainLimit;
+      r.volume_beyond_linear_range_percent = solution.pdl_elements().volume_percent_above(
+          strain_magnitude, kLinearRangeStrainLimit, band);
+    }
+    if (fields.von_mises) r.max_von_mises_kpa = max_outside_band(r.von_mises_kpa, band);
   }
+  if (!fields.strains) {
+    r.max_principal_strain = r.max_equivalent_strain = r.max_abs_principal_strain = kNan;
+    r.volume_beyond_linear_range_percent = kNan;
+  }
+  if (!fields.von_mises) r.max_von_mises_kpa = kNan;
   const detail::RootSurfaceSampler& surface = solution.root_surface();
   const Eigen::VectorXd sampled = surface.sample(p);
   const PressureMeasures measures = pressure_measures(solution, p, sampled, band);
@@ -196,6 +215,12 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
 ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
                         const Thresholds& thresholds, const ScenarioSolution* healthy) {
   return detail::evaluate(solution, load, thresholds, healthy, nullptr);
+}
+
+ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
+                        const Thresholds& thresholds, const ScenarioSolution* healthy,
+                        const FieldChoice& fields) {
+  return detail::evaluate(solution, load, thresholds, healthy, nullptr, fields);
 }
 
 }  // namespace sharpey::analysis

@@ -99,6 +99,21 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mes
   solve(spec, progress, cancel, options);
 }
 
+ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                                   std::unique_ptr<fem::UnitLoadBasis> basis,
+                                   fem::SolverStatistics statistics, ScenarioOptions options)
+    : scenario_(checked_scenario(spec, scenario_index)),
+      model_(std::move(model)),
+      materials_(material_table(spec)),
+      solver_statistics_(std::move(statistics)),
+      basis_(std::move(basis)) {
+  if (!basis_) {
+    throw InputError("unit_load_basis", "restoring scenario '" + scenario_.name +
+                                            "' needs its unit load basis; none was given");
+  }
+  derive(options);
+}
+
 ScenarioSolution::~ScenarioSolution() = default;
 
 void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progress,
@@ -126,16 +141,21 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   if (!options.keep_solver) solver_.reset();  // the factor is no longer needed
   check_cancel(cancel);
   report(progress, "post-processing", 0.9);
+  derive(options);
+  report(progress, "done", 1.0);
+}
 
+void ScenarioSolution::derive(const ScenarioOptions& options) {
+  const mesh::VolumeMesh& m = model_.mesh;
+  const mesh::ModelGeometry& g = model_.geometry;
   embedded_root_nodes_ = detail::embedded_root_nodes(model_);
   edge_band_ = detail::free_edge_band(model_, pdl_nodes());
   pdl_elements_ = std::make_unique<detail::PdlElementTable>(m, pdl_nodes());
 
   load_context_ = std::make_unique<detail::LoadContext>();
   detail::LoadContext& c = *load_context_;
-  c.response =
-      detail::rigid_response(m.nodes, basis_->unit_displacements(), embedded_root_nodes_,
-                             g.bracket_center);
+  c.response = detail::rigid_response(m.nodes, basis_->unit_displacements(), embedded_root_nodes_,
+                                      g.bracket_center);
   c.cres_x_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitX());
   c.cres_y_z_mm = detail::centre_of_resistance_height(c.response, Eigen::Vector3d::UnitY());
   c.crown_tip_z_mm = g.crown_tip.z();
@@ -149,7 +169,6 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   root_map_ = std::make_unique<detail::RootMapSampler>(m, mesh::kRootSurface, pdl_nodes(),
                                                        options.root_map.n_angle,
                                                        options.root_map.n_depth, 0.0, -g.apex_z_mm);
-  report(progress, "done", 1.0);
 }
 
 const fem::LinearElasticSolver& ScenarioSolution::solver() const {

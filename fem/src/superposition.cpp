@@ -1,5 +1,6 @@
 #include "sharpey/fem/superposition.h"
 
+#include "sharpey/error.h"
 #include "sharpey/fem/loads.h"
 
 namespace sharpey::fem {
@@ -16,6 +17,29 @@ UnitLoadBasis::UnitLoadBasis(const mesh::VolumeMesh& mesh, const MaterialTable& 
   }
   u_ = solver.solve(F);  // one pass through the factor for all six cases
   fields_ = recover_region(mesh, materials, u_, field_region);
+}
+
+UnitLoadBasis::UnitLoadBasis(const Eigen::Vector3d& reference_point,
+                             Eigen::MatrixXd unit_displacements,
+                             std::vector<RegionField> unit_fields)
+    : reference_point_(reference_point),
+      u_(std::move(unit_displacements)),
+      fields_(std::move(unit_fields)) {
+  if (u_.cols() != 6 || fields_.size() != 6) {
+    throw InputError("unit_load_basis", "a unit load basis needs six load cases; got " +
+                                            std::to_string(u_.cols()) +
+                                            " displacement columns and " +
+                                            std::to_string(fields_.size()) + " region fields");
+  }
+  for (const RegionField& f : fields_) {
+    const auto n = static_cast<Eigen::Index>(f.nodes.size());
+    if (f.region != fields_.front().region || f.nodes != fields_.front().nodes ||
+        f.stress_mpa.cols() != n || f.strain.cols() != n) {
+      throw InputError("unit_load_basis",
+                       "the six region fields of a unit load basis must cover one region with "
+                       "the same nodes, one stress and strain column per node");
+    }
+  }
 }
 
 namespace {

@@ -173,6 +173,36 @@ TEST(AxisTicks, RoundStepsInsideTheRange) {
   EXPECT_TRUE(nice_ticks(0, NAN).empty());
 }
 
+// Issue 12, point 8: a premolar's moment-to-force ratio varied by 0.001 mm between levels (noise)
+// and filled the whole axis.
+TEST(TrendAxisSpan, NoiseBesideTheValueDrawsFlat) {
+  const AxisSpan s = trend_axis_span(10.120, 10.121);
+  const double span = s.hi - s.lo;
+  EXPECT_GE(span, kTrendMinRelativeSpan * 10.121);  // at least the minimum span
+  EXPECT_LT(0.001 / span, 0.01);                    // the noise is under 1 % of the axis
+  EXPECT_LT(s.lo, 10.120);
+  EXPECT_GT(s.hi, 10.121);
+  EXPECT_NEAR(0.5 * (s.lo + s.hi), 10.1205, 1e-12);  // centred on the data
+}
+
+TEST(TrendAxisSpan, RealChangesKeepTheirOwnSpanAndZero) {
+  // 11 to 14.6 mm: wider than the minimum, so only the 8 % margins are added.
+  AxisSpan s = trend_axis_span(11.0, 14.6);
+  EXPECT_NEAR(s.lo, 11.0 - 0.08 * 3.6, 1e-12);
+  EXPECT_NEAR(s.hi, 14.6 + 0.08 * 3.6, 1e-12);
+  // 56 to 350 kPa: zero is close, so it is included.
+  s = trend_axis_span(56, 350);
+  EXPECT_LT(s.lo, 0);
+  EXPECT_NEAR(s.lo, -0.08 * 350, 1e-9);
+  // Negative data mirror positive data.
+  const AxisSpan m = trend_axis_span(-350, -56);
+  EXPECT_NEAR(m.hi, 0.08 * 350, 1e-9);
+  // All zero: a unit span around zero.
+  s = trend_axis_span(0, 0);
+  EXPECT_LT(s.lo, -1);
+  EXPECT_GT(s.hi, 1);
+}
+
 }  // namespace
 }  // namespace sharpey::app
 

@@ -78,8 +78,10 @@ class MainWindowTest : public ::testing::Test {
     g_window->show();
     ASSERT_TRUE(QTest::qWaitForWindowExposed(g_window));
     bool done = false, failed = false;
-    QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
-    QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
+    // Disconnected below: they refer to this function's locals (a later solve, e.g. one read
+    // back from the saved solutions within milliseconds, would write into a dead frame).
+    const auto on_done = QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
+    const auto on_failed = QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
     QObject::connect(&g_window->session(), &CaseSession::results_changed, [&](bool interactive) {
       if (g_first.seen || interactive) return;
       g_first.seen = true;
@@ -95,7 +97,10 @@ class MainWindowTest : public ::testing::Test {
     });
     ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path())) << g_window->last_error().toStdString();
     EXPECT_TRUE(g_window->solving());  // opening starts the solve at once
-    ASSERT_TRUE(QTest::qWaitFor([&]() { return done || failed; }, 600000)) << "solve timed out";
+    const bool ended = QTest::qWaitFor([&]() { return done || failed; }, 600000);
+    QObject::disconnect(on_done);
+    QObject::disconnect(on_failed);
+    ASSERT_TRUE(ended) << "solve timed out";
     ASSERT_TRUE(done) << g_window->last_error().toStdString();
     QTest::qWait(100);
   }

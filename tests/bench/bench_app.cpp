@@ -7,11 +7,13 @@
 // With --first-view: opens the case as the user does (every bone level) and prints the time to
 // the first painted 3D view (the first level solved), to each further level and to the end, and
 // the longest the event loop went without running a 10 ms timer meanwhile (the window's
-// responsiveness while the worker solves).
+// responsiveness while the worker solves), then the same for a second open of the case in a new
+// window, which reads the levels back from the saved solutions (a fresh cache folder).
 // Usage (needs a display, e.g. xvfb-run -a): bench_app [CASE.json] [--mesh coarse|standard|fine]
 //        [--first-view]
 #include <QApplication>
 #include <QElapsedTimer>
+#include <QTemporaryDir>
 #include <QTest>
 #include <QTimer>
 #include <algorithm>
@@ -25,6 +27,7 @@
 #include <vector>
 
 #include "core/case_session.h"
+#include "core/solve_job.h"
 #include "view/main_window.h"
 #include "view/model_scene.h"
 #include "view/result_view.h"
@@ -59,12 +62,16 @@ double rotate(app::VtkView* vtk, int frames) {
   return frames / (static_cast<double>(t.nsecsElapsed()) * 1e-9);
 }
 
-// Opens `path` in a fresh window and times the progressive solve of every bone level.
-int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset) {
+// Opens `path` in a fresh window on the saved solutions in `cache_folder` and times the
+// progressive solve (or read-back) of every bone level. `detail`: also time building and
+// switching the 3D scene.
+int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset,
+                     const QString& cache_folder, bool detail) {
   app::MainWindowOptions options;
   options.dialogs = false;
   options.autosave_interval_ms = 3600000;
   options.mesh_override = preset;
+  options.solution_cache_folder = cache_folder;
   app::MainWindow window(options);
   window.resize(1600, 1000);
   window.show();
@@ -117,6 +124,9 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset)
   std::printf("all levels solved: %.1f s; longest event-loop stall while solving: %.0f ms\n", total_s,
               worst_gap_ms);
   for (const auto& [when, gap] : stalls) std::printf("  stall of %.0f ms ending at %.1f s\n", gap, when);
+  std::printf("levels solved: %d, read from the saved solutions: %d\n", window.solve_job().levels_solved(),
+              window.solve_job().levels_from_cache());
+  if (!detail) return 0;
   // What showing a level costs the window once it is solved: the 3D scene built for a model it
   // has not shown (as for the first level), and a whole refresh for a level it has shown.
   if (session.results().size() > 1) {
@@ -157,7 +167,15 @@ int main(int argc, char** argv) {
     else if (args[i] == "--first-view") first_view = true;
     else path = args[i];
   }
-  if (first_view) return time_first_view(path, preset);
+  if (first_view) {
+    // A fresh cache folder: the first open solves every level, the second (a new window, as a
+    // new instance) reads them back.
+    QTemporaryDir cache;
+    std::printf("-- first open (nothing saved) --\n");
+    if (const int rc = time_first_view(path, preset, cache.path(), true)) return rc;
+    std::printf("-- second open (levels saved by the first) --\n");
+    return time_first_view(path, preset, cache.path(), false);
+  }
 
   app::MainWindowOptions options;
   options.dialogs = false;

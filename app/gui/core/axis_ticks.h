@@ -14,4 +14,15 @@ double nice_step(double lo, double hi, int target = 6);
 // Tick label with as many decimals as the step needs.
 QString tick_label(double value, double step);
 
+// The value axis of a trend plot for data from lo to hi: at least min_relative_span times the
+// largest magnitude of the data wide (centred on the data), so differences that are small beside
+// the value itself (0.001 mm of a 10 mm ratio: numerical noise) draw as a flat line, not a
+// steep one; zero is included when the data lie closer to it than their own value (growth then
+// reads in proportion); a margin of 8 % of the span on each side. All-zero data: -1 to 1.
+struct AxisSpan {
+  double lo = 0, hi = 0;
+};
+constexpr double kTrendMinRelativeSpan = 0.2;
+AxisSpan trend_axis_span(double lo, double hi, double min_relative_span = kTrendMinRelativeSpan);
+
 }  // namespace sharpey::app

@@ -3,6 +3,7 @@
 #include <QElapsedTimer>
 #include <algorithm>
 
+#include "sharpey/analysis/field_choice.h"
 #include "sharpey/error.h"
 
 namespace sharpey::app {
@@ -100,6 +101,7 @@ void CaseSession::adopt(analysis::CaseSpec spec) {
   current_ = 0;
   pending_ = false;
   reference_pending_ = false;
+  fields_pending_ = false;
   stale_ = true;
   ++geometry_version_;
   error_.clear();
@@ -282,10 +284,16 @@ bool CaseSession::evaluate(bool interactive, size_t keep) {
       // healthy reference (which would double the work); the flush adds the equivalent forces.
       const analysis::ScenarioSolution* shown = solutions[static_cast<size_t>(current_)].get();
       const bool skip_reference = healthy != nullptr && healthy != shown;
+      // Only the field on display beyond the pressure (issue 12, point 14).
+      analysis::FieldChoice fields;
+      fields.strains = shown_quantity_ == Quantity::kMaxPrincipalStrain || shown_quantity_ == Quantity::kEquivalentStrain;
+      fields.von_mises = shown_quantity_ == Quantity::kVonMises;
+      fields.displacement = shown_quantity_ == Quantity::kDisplacement;
       results_[static_cast<size_t>(current_)] =
-          analysis::evaluate(*shown, spec_.load, spec_.thresholds, skip_reference ? nullptr : healthy);
+          analysis::evaluate(*shown, spec_.load, spec_.thresholds, skip_reference ? nullptr : healthy, fields);
       reference_pending_ = skip_reference;
-      pending_ = solutions.size() > 1;
+      fields_pending_ = !(fields.strains && fields.von_mises && fields.displacement);
+      pending_ = true;  // the fields left out, and the other levels
       if (pending_) flush_timer_.start();
     } else {
       keep = std::min(keep, results_.size());
@@ -295,6 +303,7 @@ bool CaseSession::evaluate(bool interactive, size_t keep) {
       results_ = std::move(all);
       pending_ = false;
       reference_pending_ = false;
+      fields_pending_ = false;
       flush_timer_.stop();
     }
     error_.clear();

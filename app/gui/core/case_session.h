@@ -16,6 +16,7 @@
 
 #include "core/document_state.h"
 #include "core/load_controls.h"
+#include "core/quantity.h"
 #include "core/scenario_list.h"
 #include "sharpey/analysis/study.h"
 
@@ -23,8 +24,8 @@ namespace sharpey::app {
 
 // The materials the case panel edits (the tooth's stays as the case file gives it).
 enum class MaterialPart { kPdl, kCorticalBone, kCancellousBone };
-QString label(MaterialPart part);             // "PDL", "cortical bone", "cancellous bone"
-std::string case_key(MaterialPart part);      // "pdl.material", "bone.cortical_material", ...
+QString label(MaterialPart part);         // "PDL", "cortical bone", "cancellous bone"
+std::string case_key(MaterialPart part);  // "pdl.material", "bone.cortical_material", ...
 
 class CaseSession : public QObject {
   Q_OBJECT
@@ -59,7 +60,7 @@ class CaseSession : public QObject {
   void set_label(const QString& label);
   void set_tooth(mesh::ToothType type);  // handbook dimensions of that tooth
   void set_mesh_preset(mesh::MeshPreset preset);
-  void set_pdl_width(double width_mm);   // uniform width
+  void set_pdl_width(double width_mm);  // uniform width
   // Material edits and angular defects change the model: the results go stale until the next
   // solve. Both check the whole case first (analysis::validate_case) and throw InputError with the
   // library's message, naming the case-file key, the value and the allowed range; the case is
@@ -89,7 +90,8 @@ class CaseSession : public QObject {
   // healthy level is solved.
   // `solved_geometry`: geometry_version() when the solve started; when the geometry was edited
   // since, the results are shown but marked stale.
-  void set_study(std::shared_ptr<const analysis::Study> study, std::optional<int> solved_geometry = std::nullopt);
+  void set_study(std::shared_ptr<const analysis::Study> study,
+                 std::optional<int> solved_geometry = std::nullopt);
   const analysis::Study* study() const { return study_.get(); }
   const std::vector<analysis::ScenarioResult>& results() const { return results_; }
   int current() const { return current_; }
@@ -102,6 +104,12 @@ class CaseSession : public QObject {
   // True while the scenario on display was evaluated interactively without its healthy reference
   // (that would evaluate the healthy scenario too): its equivalent forces are -1 until flush().
   bool reference_pending() const { return reference_pending_; }
+  // The quantity the views show: while a slider moves only that field is evaluated (with the
+  // pressure, which the verdict and the key numbers need); the other fields and their maxima
+  // follow when the slider stops (flush, or the next non-interactive change).
+  void set_shown_quantity(Quantity q) { shown_quantity_ = q; }
+  // True while the current result was evaluated interactively with only the shown field.
+  bool fields_pending() const { return fields_pending_; }
   // Evaluates the scenarios left behind by interactive edits.
   void flush();
   // Last evaluation error (empty when the last evaluation succeeded).
@@ -110,9 +118,9 @@ class CaseSession : public QObject {
   double last_evaluation_ms() const { return last_evaluation_ms_; }
 
  signals:
-  void case_replaced();    // new, open or recover: everything changed
-  void document_changed(); // title or modified flag
-  void geometry_changed(); // results are stale
+  void case_replaced();     // new, open or recover: everything changed
+  void document_changed();  // title or modified flag
+  void geometry_changed();  // results are stale
   void results_changed(bool interactive);
   void current_changed(int index);
   void evaluation_failed(const QString& message);
@@ -139,6 +147,8 @@ class CaseSession : public QObject {
   int current_ = 0;
   bool pending_ = false;
   bool reference_pending_ = false;
+  bool fields_pending_ = false;
+  Quantity shown_quantity_ = Quantity::kPressure;
   QString error_;
   QTimer flush_timer_;
   double last_evaluation_ms_ = 0;

@@ -2,6 +2,8 @@
 
 #include <QMetaObject>
 #include <algorithm>
+#include <filesystem>
+#include <system_error>
 
 #include "sharpey/error.h"
 
@@ -39,6 +41,22 @@ void SolveJob::join() {
   if (worker_.joinable()) worker_.join();
 }
 
+namespace {
+
+// "scenario 2/4 (2 mm loss): ", as the library prefixes its stages.
+std::string level_prefix(const analysis::CaseSpec& spec, int k) {
+  return "scenario " + std::to_string(k + 1) + "/" + std::to_string(spec.scenarios.size()) + " (" +
+         spec.scenarios[static_cast<size_t>(k)].name + "): ";
+}
+
+// The stage without the library's "scenario j/m (name): " prefix.
+std::string bare_stage(const std::string& stage) {
+  const size_t at = stage.find("): ");
+  return stage.rfind("scenario ", 0) == 0 && at != std::string::npos ? stage.substr(at + 3) : stage;
+}
+
+}  // namespace
+
 bool SolveJob::start(const analysis::CaseSpec& spec) {
   if (running_) return false;
   join();
@@ -46,36 +64,98 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
   running_ = true;
   spec_ = spec;
   study_.reset();
+  n_solved_ = 0;
+  n_from_cache_ = 0;
   {
     std::lock_guard<std::mutex> lock(mutex_);
     arrived_.clear();
+    cache_notes_.clear();
   }
-  worker_ = std::thread([this, spec]() {
+  worker_ = std::thread([this, spec, cache = cache_]() {
     lower_this_thread_priority();
     // Signals are posted to this object's thread; they are dropped if the job is gone by then
     // (the destructor joins first, so `this` outlives the worker).
     auto post = [this](auto&& fn) { QMetaObject::invokeMethod(this, fn, Qt::QueuedConnection); };
-    const analysis::ProgressCallback on_progress = [&](const std::string& stage, double fraction) {
-      const QString text = QString::fromStdString(stage);
+    const int count = static_cast<int>(spec.scenarios.size());
+    // Progress of level k: `local` in [0, 1] of that level.
+    const auto level_progress = [&](int k, const std::string& stage, double local) {
+      const QString text = QString::fromStdString(level_prefix(spec, k) + stage);
+      const double fraction = (k + std::clamp(local, 0.0, 1.0)) / std::max(1, count);
       post([this, text, fraction]() { emit progress(text, fraction); });
+    };
+    const auto note = [this, &spec](int k, const std::string& why) {
+      std::lock_guard<std::mutex> lock(mutex_);
+      cache_notes_ << QString::fromStdString(spec.scenarios[static_cast<size_t>(k)].name + ": " +
+                                             why);
     };
     QString kind, message;
     bool was_cancelled = false;
     try {
-      analysis::StudySolver solver(spec, &cancel_);
-      const int count = solver.scenario_count();
-      while (!solver.done()) {
-        auto solution = solver.solve_next(on_progress);
-        const int index = solver.solved_count() - 1;
+      // Levels with a saved entry are read back; the others are solved by one StudySolver over
+      // them alone, so the next one is meshed while one is solved, as without a cache.
+      std::vector<char> saved(static_cast<size_t>(count), 0);
+      analysis::CaseSpec rest = spec;
+      rest.scenarios.clear();
+      for (int k = 0; k < count; ++k) {
+        std::error_code ec;
+        saved[static_cast<size_t>(k)] =
+            cache &&
+            std::filesystem::exists(cache->entry_path(analysis::solution_cache_key(spec, k)), ec);
+        if (!saved[static_cast<size_t>(k)])
+          rest.scenarios.push_back(spec.scenarios[static_cast<size_t>(k)]);
+      }
+      std::unique_ptr<analysis::StudySolver> solver;
+      // A case without levels: the solver says so (InputError).
+      if (!rest.scenarios.empty() || count == 0)
+        solver = std::make_unique<analysis::StudySolver>(rest, &cancel_);
+      for (int k = 0; k < count; ++k) {
+        if (cancel_) throw Cancelled();
+        std::unique_ptr<analysis::ScenarioSolution> solution;
+        bool from_cache = false;
+        if (saved[static_cast<size_t>(k)]) {
+          level_progress(k, "reading the saved solution", 0.0);
+          std::string why;
+          solution = cache->load(spec, k, &why);
+          from_cache = solution != nullptr;
+          if (!from_cache) {
+            // Damaged or unreadable: solved again, and said why (an entry another instance
+            // evicted since it was seen is simply solved).
+            if (why != analysis::kSolutionNotSaved) note(k, why);
+            solution = std::make_unique<analysis::ScenarioSolution>(
+                spec, k, [&](const std::string& stage, double f) { level_progress(k, stage, f); },
+                &cancel_);
+          }
+        } else {
+          const int j = solver->solved_count();
+          const int m = solver->scenario_count();
+          solution = solver->solve_next([&](const std::string& stage, double f) {
+            level_progress(k, bare_stage(stage), f * m - j);
+          });
+        }
+        // Saved after it is handed over, from bytes written now: the window may drop the level
+        // (another case opened) while the file is written.
+        std::string key, bytes;
+        if (from_cache) {
+          ++n_from_cache_;
+        } else {
+          ++n_solved_;
+          if (cache) {
+            key = analysis::solution_cache_key(spec, k);
+            bytes = analysis::write_solution(*solution, key);
+          }
+        }
         {
           std::lock_guard<std::mutex> lock(mutex_);
           arrived_.push_back(std::move(solution));
         }
-        post([this, index, count]() {
+        post([this, k, count]() {
           adopt_arrived();
-          emit level_solved(index, count);
+          emit level_solved(k, count);
         });
+        std::string why;
+        if (!bytes.empty() && !cache->store_entry(key, bytes, &why)) note(k, "not saved: " + why);
       }
+      if (count > 0) post([this]() { emit progress(QStringLiteral("done"), 1.0); });
     } catch (const Cancelled&) {
       was_cancelled = true;
     } catch (const InputError& e) {
@@ -95,9 +175,12 @@ bool SolveJob::start(const analysis::CaseSpec& spec) {
       running_ = false;
       join();
       adopt_arrived();
-      if (was_cancelled) emit cancelled();
-      else if (!kind.isEmpty()) emit failed(kind, message);
-      else emit finished();
+      if (was_cancelled)
+        emit cancelled();
+      else if (!kind.isEmpty())
+        emit failed(kind, message);
+      else
+        emit finished();
     });
   });
   return true;
@@ -118,5 +201,10 @@ void SolveJob::adopt_arrived() {
 void SolveJob::cancel() { cancel_ = true; }
 
 std::shared_ptr<const analysis::Study> SolveJob::take_result() { return std::move(study_); }
+
+QString SolveJob::cache_notes() const {
+  std::lock_guard<std::mutex> lock(mutex_);
+  return cache_notes_.join(QLatin1Char('\n'));
+}
 
 }  // namespace sharpey::app

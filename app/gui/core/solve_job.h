@@ -1,18 +1,22 @@
 // Meshes and solves a case (analysis::StudySolver) on a worker thread, so the window never
 // freezes. The bone levels are solved one at a time in the case's order and each is handed over
 // as soon as it is solved (level_solved), so the first level can be shown while the others are
-// solved. Progress, levels, completion, failure and cancellation arrive as signals on the thread
-// that owns the job. QtCore only.
+// solved. With a solution cache (set_cache), a level saved there earlier is read back instead of
+// solved (a damaged entry is solved again), and each level solved is saved. Progress, levels,
+// completion, failure and cancellation arrive as signals on the thread that owns the job.
+// QtCore only.
 #pragma once
 
 #include <QObject>
 #include <QString>
+#include <QStringList>
 #include <atomic>
 #include <memory>
 #include <mutex>
 #include <thread>
 #include <vector>
 
+#include "sharpey/analysis/solution_cache.h"
 #include "sharpey/analysis/study.h"
 
 namespace sharpey::app {
@@ -30,6 +34,17 @@ class SolveJob : public QObject {
   // Asks the worker to stop at the next stage boundary; `cancelled` follows.
   void cancel();
   bool running() const { return running_; }
+  // Saved solutions to read levels from and save solved levels to (null: none, every level is
+  // solved). Takes effect at the next start.
+  void set_cache(std::shared_ptr<const analysis::SolutionCache> cache) {
+    cache_ = std::move(cache);
+  }
+  const analysis::SolutionCache* cache() const { return cache_.get(); }
+  // Of the current (or last) start: levels meshed and solved, levels read from the cache, and
+  // why saved levels could not be used or saved (damaged entries, a full disk), one per line.
+  int levels_solved() const { return n_solved_; }
+  int levels_from_cache() const { return n_from_cache_; }
+  QString cache_notes() const;
   // The study of the current (or last) solve with the levels solved so far, in the case's order:
   // it grows by one level before each level_solved signal (on this object's thread only). Null
   // before the first level of a solve is solved.
@@ -54,9 +69,12 @@ class SolveJob : public QObject {
   std::thread worker_;
   std::atomic<bool> cancel_{false};
   bool running_ = false;
-  std::mutex mutex_;
+  mutable std::mutex mutex_;
   // Solved by the worker, not yet added to the study (guarded by mutex_).
   std::vector<std::unique_ptr<analysis::ScenarioSolution>> arrived_;
+  std::shared_ptr<const analysis::SolutionCache> cache_;
+  std::atomic<int> n_solved_{0}, n_from_cache_{0};
+  QStringList cache_notes_;                 // guarded by mutex_
   analysis::CaseSpec spec_;                 // of the current solve
   std::shared_ptr<analysis::Study> study_;  // this object's thread only
 };

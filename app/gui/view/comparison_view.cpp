@@ -5,6 +5,7 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QPainter>
+#include <QScrollBar>
 #include <QSplitter>
 #include <QTableWidget>
 #include <QVBoxLayout>
@@ -39,10 +40,12 @@ ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
   section_box_ = boxes.section;
   scale_box_ = new QComboBox;
   for (ScaleMode m : {ScaleMode::kShown, ScaleMode::kThresholds, ScaleMode::kPerLevel})
-    scale_box_->addItem(m == ScaleMode::kShown ? QStringLiteral("scale: shared range shown") : label(m),
-                        static_cast<int>(m));
-  scale_box_->setToolTip(QStringLiteral("One range for every level, one anchored to the physiological limit, or "
-                                        "each level on its own range (a healthy level is not washed out)"));
+    scale_box_->addItem(
+        m == ScaleMode::kShown ? QStringLiteral("scale: shared range shown") : label(m),
+        static_cast<int>(m));
+  scale_box_->setToolTip(
+      QStringLiteral("One range for every level, one anchored to the physiological limit, or "
+                     "each level on its own range (a healthy level is not washed out)"));
   connect(scale_box_, &QComboBox::currentIndexChanged, this, [this]() {
     scale_mode_ = static_cast<ScaleMode>(scale_box_->currentData().toInt());
     if (last_session_) show_session(*last_session_, last_force_text_);
@@ -73,15 +76,20 @@ ComparisonView::ComparisonView(QWidget* parent) : QWidget(parent) {
   table_widget_ = new QTableWidget;
   table_widget_->setEditTriggers(QAbstractItemView::NoEditTriggers);
   table_widget_->verticalHeader()->setVisible(true);
+  // Compact rows, so the twelve numbers fit beside the plots without scrolling.
+  table_widget_->verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+  table_widget_->verticalHeader()->setDefaultSectionSize(table_widget_->fontMetrics().height() + 6);
+  table_widget_->setHorizontalScrollBarPolicy(Qt::ScrollBarAlwaysOff);
   bottom->addWidget(plot_);
   bottom->addWidget(table_widget_);
-  bottom->setStretchFactor(0, 3);
-  bottom->setStretchFactor(1, 2);
+  bottom->setStretchFactor(0, 1);
+  bottom->setStretchFactor(1, 0);
+  bottom->setCollapsible(0, false);
+  bottom->setCollapsible(1, false);
   split->addWidget(bottom);
   split->setStretchFactor(0, 3);
   split->setStretchFactor(1, 2);
   outer->addWidget(split, 1);
-
 }
 
 ComparisonView::~ComparisonView() = default;
@@ -110,7 +118,8 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
     if (i < static_cast<int>(results.size())) wanted.push_back(i);
   if (wanted.size() < 2) {  // fewer than two chosen: the first ones
     wanted.clear();
-    for (int i = 0; i < std::min<int>(ScenarioList::kMaxCompared, static_cast<int>(results.size())); ++i)
+    for (int i = 0; i < std::min<int>(ScenarioList::kMaxCompared, static_cast<int>(results.size()));
+         ++i)
       wanted.push_back(i);
   }
   if (wanted.size() != cells_.size()) {
@@ -126,7 +135,8 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
       v->setSpacing(0);
       cell.title = new QLabel;
       cell.title->setAlignment(Qt::AlignCenter);
-      cell.title->setStyleSheet(QStringLiteral("font-weight: bold; padding: 2px; background: #e6e2d8;"));
+      cell.title->setStyleSheet(
+          QStringLiteral("font-weight: bold; padding: 2px; background: #e6e2d8;"));
       cell.view = new ResultView;
       cell.view->set_options_visible(false);
       cell.view->set_bar_visible(false);
@@ -147,9 +157,11 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
   for (int i : wanted) {
     const auto* s = session.solution(i);
     if (!s) continue;
-    const std::vector<double> values = quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes());
+    const std::vector<double> values =
+        quantity_values(results[static_cast<size_t>(i)], quantity_, s->pdl_nodes());
     const std::vector<char> in_band = analysis::pdl_crest_edge_band(*s);
-    const ValueRange r = finite_range(values, in_band, false), b = finite_range(values, in_band, true);
+    const ValueRange r = finite_range(values, in_band, false),
+                     b = finite_range(values, in_band, true);
     range = first ? r : merge(range, r);
     band = first ? b : merge(band, b);
     first = false;
@@ -192,7 +204,19 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
       table_widget_->setItem(c, r, item);
     }
   table_widget_->resizeColumnsToContents();
+  fit_table_width();
 }
+
+void ComparisonView::fit_table_width() {
+  // Never narrower than its names and numbers need (with room for a vertical scroll bar): the
+  // trend plots beside it take what is left.
+  int need = table_widget_->verticalHeader()->sizeHint().width() + 2 * table_widget_->frameWidth() +
+             table_widget_->verticalScrollBar()->sizeHint().width() + 2;
+  for (int c = 0; c < table_widget_->columnCount(); ++c) need += table_widget_->columnWidth(c);
+  table_widget_->setMinimumWidth(need);
+}
+
+int ComparisonView::table_width_needed() const { return table_widget_->minimumWidth(); }
 
 void ComparisonView::link_cameras() {
   for (size_t a = 0; a < cells_.size(); ++a) {
@@ -207,7 +231,8 @@ void ComparisonView::link_cameras() {
   }
   // Start from the same camera.
   if (cells_.size() > 1)
-    for (size_t a = 1; a < cells_.size(); ++a) cells_[a].view->vtk_view()->copy_camera_from(cells_[0].view->vtk_view()->camera());
+    for (size_t a = 1; a < cells_.size(); ++a)
+      cells_[a].view->vtk_view()->copy_camera_from(cells_[0].view->vtk_view()->camera());
 }
 
 void ComparisonView::set_scale_mode(ScaleMode mode) {
@@ -216,7 +241,8 @@ void ComparisonView::set_scale_mode(ScaleMode mode) {
 
 QImage ComparisonView::grab_views() {
   // Per level, every cell carries its own bar.
-  if (!bar_->isVisible() && scale_mode_ == ScaleMode::kPerLevel) return grid_host_->grab().toImage();
+  if (!bar_->isVisible() && scale_mode_ == ScaleMode::kPerLevel)
+    return grid_host_->grab().toImage();
   return bar_->beside(grid_host_->grab().toImage(), palette().window().color());
 }
 

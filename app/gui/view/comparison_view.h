@@ -45,10 +45,14 @@ class ComparisonView : public QWidget {
   ViewOptionBoxes option_boxes() const { return {quantity_box_, bone_box_, section_box_}; }
   const ScenarioTable& table() const { return table_; }
   TrendPlot* plot() const { return plot_; }
+  QTableWidget* key_number_table() const { return table_widget_; }
+  // The width the key-number table needs for its names and numbers (its minimum width).
+  int table_width_needed() const;
   // The side-by-side views with the shared colour bar, as shown.
   QImage grab_views();
 
  private:
+  void fit_table_width();
   void link_cameras();
   struct Cell {
     QWidget* box;

@@ -37,8 +37,13 @@ std::vector<std::pair<QString, QString>> key_number_rows(const analysis::Scenari
       {QStringLiteral("above physiological limit"),
        with_unit(r.area_above_limit_mm2, mm2, 1) + QStringLiteral(" (") +
            with_unit(r.area_above_limit_percent, QStringLiteral("%"), 0) + ')'},
-      {QStringLiteral("max. principal strain"), with_unit(100 * r.max_principal_strain, QStringLiteral("%"), 2)},
-      {QStringLiteral("max. von Mises stress"), with_unit(r.max_von_mises_kpa, kpa, 1)},
+      // Left out while a slider moves (only the field on display is evaluated then).
+      {QStringLiteral("max. principal strain"),
+       std::isfinite(r.max_principal_strain) ? with_unit(100 * r.max_principal_strain, QStringLiteral("%"), 2)
+                                             : QStringLiteral("when the slider stops")},
+      {QStringLiteral("max. von Mises stress"), std::isfinite(r.max_von_mises_kpa)
+                                                    ? with_unit(r.max_von_mises_kpa, kpa, 1)
+                                                    : QStringLiteral("when the slider stops")},
       {mesiodistal ? QStringLiteral("CRes (mesiodistal)") : QStringLiteral("CRes (labiolingual)"),
        with_unit(cres.from_crest_mm, mm, 1) + QStringLiteral(" below crest, ") +
            with_unit(100 * cres.fraction_embedded, QStringLiteral("%"), 0) + QStringLiteral(" of embedded root")},

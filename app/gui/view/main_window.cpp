@@ -33,6 +33,7 @@
 #include "core/case_session.h"
 #include "core/document_state.h"
 #include "core/help_text.h"
+#include "core/solution_cache_folder.h"
 #include "core/solve_job.h"
 #include "core/units.h"
 #include "sharpey/analysis/report_output.h"
@@ -75,6 +76,7 @@ MainWindow::MainWindow(const MainWindowOptions& options)
   build_layout();
   build_menus();
   connect_session();
+  job_->set_cache(make_solution_cache(options.solution_cache_folder));
 
   connect(job_.get(), &SolveJob::progress, this, [this](const QString& stage, double fraction) {
     progress_->setValue(static_cast<int>(1000 * fraction));
@@ -100,7 +102,16 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     set_solving_ui(false);
     const auto study = job_->take_result();
     if (study && session_->study() != study.get()) session_->set_study(study, solve_geometry_);
-    status_->setText(QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size()));
+    // Say where the levels came from, and why a saved one could not be used.
+    QString text = QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size());
+    const int from_cache = job_->levels_from_cache();
+    if (from_cache > 0 && job_->levels_solved() == 0)
+      text = QStringLiteral("%1 bone level(s) shown from the saved solutions; nothing solved.").arg(from_cache);
+    else if (from_cache > 0)
+      text = QStringLiteral("Solved %1 bone level(s); %2 shown from the saved solutions.").arg(job_->levels_solved()).arg(from_cache);
+    const QString notes = job_->cache_notes();
+    if (!notes.isEmpty()) text += QStringLiteral(" Saved solution not used or not saved (") + notes.split(QLatin1Char('\n')).join(QStringLiteral("; ")) + QStringLiteral(").");
+    status_->setText(text);
     emit solve_finished();
   });
   // Levels solved before a cancel or a failure stay shown.
@@ -238,6 +249,10 @@ void MainWindow::build_layout() {
   hover_->setTextFormat(Qt::PlainText);
   statusBar()->addPermanentWidget(hover_);
   connect(result_view_, &ResultView::hover_changed, hover_, &QLabel::setText);
+  // Another quantity chosen right after a drag: the fields left out then are evaluated now.
+  connect(result_view_, &ResultView::quantity_changed, this, [this]() {
+    if (session_->fields_pending()) session_->flush();
+  });
   connect(root_map_, &RootMapView::hover_changed, hover_, &QLabel::setText);
   statusBar()->addPermanentWidget(progress_);
   statusBar()->addPermanentWidget(cancel_);
@@ -255,7 +270,10 @@ void MainWindow::build_layout() {
     comparison_dirty_ = true;
     refresh_comparison();
   });
-  connect(tabs_, &QTabWidget::currentChanged, this, [this]() { refresh_comparison(); });
+  connect(tabs_, &QTabWidget::currentChanged, this, [this]() {
+    refresh_root_map();
+    refresh_comparison();
+  });
 }
 
 void MainWindow::build_menus() {
@@ -449,6 +467,7 @@ void MainWindow::apply_pending_load(bool interactive) {
   pending_load_.reset();
   // While a slider moves the 3D view draws the quick way (no see-through bone).
   result_view_->set_interacting(interactive);
+  session_->set_shown_quantity(result_view_->quantity());
   session_->set_load(c, interactive);
 }
 
@@ -471,15 +490,25 @@ void MainWindow::refresh_results(bool interactive) {
   result_view_->show_result(*s, *r, t, force_text());
   findings_->show_result(*r, t, session_->geometry_stale(), session_->reference_pending());
   load_panel_->set_resolved(r);
-  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
-  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
-  root_map_->set_map(r->root_map, t, QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
-                     &pressure_range);
+  // While a slider moves, a root map not on screen waits until it is shown (or the slider stops).
+  root_map_dirty_ = true;
+  if (!interactive || tabs_->currentWidget() == root_map_) refresh_root_map();
   if (!interactive) {
     refresh_scenario_choice();
     comparison_dirty_ = true;
     refresh_comparison();
   }
+}
+
+void MainWindow::refresh_root_map() {
+  const analysis::ScenarioResult* r = session_->current_result();
+  if (!root_map_dirty_ || !r) return;
+  // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
+  const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
+  root_map_->set_map(r->root_map, session_->spec().thresholds,
+                     QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
+                     &pressure_range);
+  root_map_dirty_ = false;
 }
 
 void MainWindow::refresh_comparison() {
@@ -821,6 +850,7 @@ bool MainWindow::export_data(const QString& folder) {
 }
 
 bool MainWindow::every_level_solved(const QString& title) {
+  session_->flush();  // results left behind by a slider (other levels, fields left out) first
   const analysis::Study* study = session_->study();
   if (!study || study->complete()) return true;
   const QString n = QString::number(study->spec().scenarios.size());

@@ -36,9 +36,12 @@ class RootMapView;
 class SolveJob;
 
 struct MainWindowOptions {
-  QString autosave_folder;                          // empty: <app data>/autosave
+  QString autosave_folder;  // empty: <app data>/autosave
   int autosave_interval_ms = 20000;
-  std::optional<mesh::MeshPreset> mesh_override;    // --mesh: replaces the case's preset on open
+  std::optional<mesh::MeshPreset> mesh_override;  // --mesh: replaces the case's preset on open
+  // Saved solutions: empty uses solution_cache_folder() (SHARPEY_CACHE_DIR or the per-user
+  // cache folder); SHARPEY_CACHE_MAX_MB=0 switches the cache off.
+  QString solution_cache_folder;
   bool dialogs = true;  // false (tests): no modal dialogs; errors are recorded, prompts use answers
 };
 
@@ -90,6 +93,7 @@ class MainWindow : public QMainWindow {
 
   // ---- parts, for tests ----
   CaseSession& session() { return *session_; }
+  const SolveJob& solve_job() const { return *job_; }
   ResultView* result_view() const { return result_view_; }
   RootMapView* root_map() const { return root_map_; }
   ComparisonView* comparison() const { return comparison_; }
@@ -129,11 +133,13 @@ class MainWindow : public QMainWindow {
   void refresh_title();
   void refresh_recent_menu();
   void refresh_comparison();
+  void refresh_root_map();
   void show_error(const QString& title, const QString& message);
   // False (and an error titled `title`) while the study on display lacks some bone levels.
   bool every_level_solved(const QString& title);
   QMessageBox::StandardButton ask(const QString& title, const QString& text,
-                                  QMessageBox::StandardButtons buttons, QMessageBox::StandardButton fallback);
+                                  QMessageBox::StandardButtons buttons,
+                                  QMessageBox::StandardButton fallback);
   QString force_text() const;
   void set_solving_ui(bool on);
   // True (and the job's levels dropped, and a solve asked for meanwhile started) when the job that
@@ -168,10 +174,12 @@ class MainWindow : public QMainWindow {
   int prompts_ = 0;
   QMessageBox::StandardButton prompt_answer_ = QMessageBox::Discard;
   bool comparison_dirty_ = true;
-  bool load_error_shown_ = false;  // the status bar shows why a force system was refused
+  bool root_map_dirty_ = true;  // the root map waits for the current result (hidden during a drag)
+  bool load_error_shown_ = false;             // the status bar shows why a force system was refused
   std::optional<LoadControls> pending_load_;  // newest load-panel state not yet applied
   bool load_queued_ = false;
-  bool discard_job_ = false;  // the running solve is of a case since replaced: its levels are dropped
+  bool discard_job_ =
+      false;  // the running solve is of a case since replaced: its levels are dropped
   bool solve_again_ = false;  // solve() was asked for while such a solve was stopping
   int solve_geometry_ = 0;    // the session's geometry_version() when the running solve started
 };

@@ -18,7 +18,41 @@ int column_of(const ScenarioTable& t, KeyNumber k) {
     if (t.columns[i] == k) return static_cast<int>(i);
   return -1;
 }
+
+// Per row: true when another row has the same bone loss.
+std::vector<bool> shares_bone_loss(const ScenarioTable& t) {
+  std::vector<bool> out(t.values.size(), false);
+  const int x = column_of(t, KeyNumber::kBoneLoss);
+  if (x < 0) return out;
+  for (size_t a = 0; a < t.values.size(); ++a)
+    for (size_t b = 0; b < t.values.size(); ++b)
+      if (a != b && t.values[a][static_cast<size_t>(x)] == t.values[b][static_cast<size_t>(x)])
+        out[a] = true;
+  return out;
+}
 }  // namespace
+
+AxisSpan TrendPlot::value_axis(KeyNumber k) const {
+  const int c = column_of(table_, k);
+  double y0 = INFINITY, y1 = -INFINITY;
+  if (c >= 0)
+    for (const auto& row : table_.values) {
+      const double v = row[static_cast<size_t>(c)];
+      if (!std::isfinite(v)) continue;
+      y0 = std::min(y0, v);
+      y1 = std::max(y1, v);
+    }
+  if (!(y1 >= y0)) return {0, 0};
+  return trend_axis_span(y0, y1);
+}
+
+QStringList TrendPlot::labelled_levels() const {
+  QStringList names;
+  const std::vector<bool> shared = shares_bone_loss(table_);
+  for (size_t r = 0; r < shared.size() && static_cast<int>(r) < table_.row_names.size(); ++r)
+    if (shared[r]) names << table_.row_names[static_cast<int>(r)];
+  return names;
+}
 
 TrendPlot::TrendPlot(QWidget* parent) : QWidget(parent) { setMinimumHeight(220); }
 
@@ -54,7 +88,8 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
   const int x_col = column_of(table_, KeyNumber::kBoneLoss);
   const std::vector<KeyNumber> keys = plotted_key_numbers();
   const int n = static_cast<int>(keys.size());
-  const int cols = n > 4 ? 3 : n;
+  // Three panels a row when each gets a readable width, else two.
+  const int cols = n > 4 ? (area.width() >= 3 * 150 ? 3 : 2) : n;
   const int rows = (n + cols - 1) / std::max(1, cols);
   const QFontMetrics fm(painter.font());
   const int line = fm.height();
@@ -64,6 +99,8 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
     painter.restore();
     return;
   }
+  const std::vector<bool> shared = shares_bone_loss(table_);
+  const QFont base_font = painter.font();
   const double cell_w = area.width() / static_cast<double>(cols);
   const double cell_h = area.height() / static_cast<double>(rows);
   std::vector<double> xs;
@@ -75,22 +112,30 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
   x1 += xpad;
   for (int k = 0; k < n; ++k) {
     const int c = column_of(table_, keys[static_cast<size_t>(k)]);
-    const QRectF cell(area.left() + (k % cols) * cell_w, area.top() + (k / cols) * cell_h, cell_w, cell_h);
-    const QRectF plot(cell.left() + fm.horizontalAdvance(QStringLiteral("0000.0")) + 8, cell.top() + line + 6,
+    const QRectF cell(area.left() + (k % cols) * cell_w, area.top() + (k / cols) * cell_h, cell_w,
+                      cell_h);
+    // The title whole: on one line, or wrapped on two when the panel is too narrow for one; the
+    // plot starts below it.
+    const QString name = title(keys[static_cast<size_t>(k)]);
+    const QString unit = QStringLiteral("(") + unit_label(keys[static_cast<size_t>(k)]) + ')';
+    const double room = cell.width() - 4;
+    const bool two_lines = fm.horizontalAdvance(name + ' ' + unit) > room;
+    const int title_lines = two_lines ? 2 : 1;
+    const QRectF plot(cell.left() + fm.horizontalAdvance(QStringLiteral("0000.0")) + 8,
+                      cell.top() + title_lines * line + 6,
                       cell.width() - fm.horizontalAdvance(QStringLiteral("0000.0")) - 20,
-                      cell.height() - 3 * line - 14);
+                      cell.height() - (2 + title_lines) * line - 14);
     painter.setPen(text);
-    painter.drawText(QRectF(cell.left(), cell.top() + 2, cell.width(), line), Qt::AlignHCenter,
-                     title(keys[static_cast<size_t>(k)]) + QStringLiteral(" (") + unit_label(keys[static_cast<size_t>(k)]) + ')');
+    painter.drawText(QRectF(cell.left() + 2, cell.top() + 2, room, title_lines * line),
+                     Qt::AlignHCenter | Qt::AlignTop | Qt::TextWordWrap, name + ' ' + unit);
     if (c < 0 || plot.height() < 20 || plot.width() < 20) continue;
     std::vector<QPointF> values;
-    double y0 = INFINITY, y1 = -INFINITY;
+    std::vector<int> value_rows;
     for (size_t r = 0; r < table_.values.size(); ++r) {
       const double v = table_.values[r][static_cast<size_t>(c)];
       if (!std::isfinite(v)) continue;
       values.emplace_back(xs[r], v);
-      y0 = std::min(y0, v);
-      y1 = std::max(y1, v);
+      value_rows.push_back(static_cast<int>(r));
     }
     painter.setPen(QPen(QColor(150, 150, 150), 1));
     painter.setBrush(Qt::NoBrush);
@@ -100,22 +145,17 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
       painter.drawText(plot, Qt::AlignCenter, QStringLiteral("n/a"));
       continue;
     }
-    // Include zero when it is close, so growth reads in proportion.
-    if (y0 > 0 && y0 < 0.5 * y1) y0 = 0;
-    if (!(y1 > y0)) {
-      y0 -= 1;
-      y1 += 1;
-    }
-    const double ypad = 0.08 * (y1 - y0);
-    y0 -= ypad;
-    y1 += ypad;
+    const AxisSpan span = value_axis(keys[static_cast<size_t>(k)]);
+    const double y0 = span.lo, y1 = span.hi;
     auto to_px = [&](double x, double y) {
       return QPointF(plot.left() + (x - x0) / (x1 - x0) * plot.width(),
                      plot.bottom() - (y - y0) / (y1 - y0) * plot.height());
     };
-    const double ystep = nice_step(y0, y1, 4);
+    // As many value ticks as the height holds without crowding (2 to 4).
+    const int n_yticks = std::clamp(static_cast<int>(plot.height() / (1.8 * line)), 2, 4);
+    const double ystep = nice_step(y0, y1, n_yticks);
     painter.setPen(text);
-    for (double t : nice_ticks(y0, y1, 4)) {
+    for (double t : nice_ticks(y0, y1, n_yticks)) {
       const QPointF p = to_px(x0, t);
       painter.setPen(QPen(QColor(222, 222, 222), 1));
       painter.drawLine(QPointF(plot.left(), p.y()), QPointF(plot.right(), p.y()));
@@ -127,16 +167,22 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
     for (double t : nice_ticks(x0, x1, 4)) {
       const QPointF p = to_px(t, y0);
       painter.drawLine(QPointF(p.x(), plot.bottom()), QPointF(p.x(), plot.bottom() + 3));
-      painter.drawText(QRectF(p.x() - 30, plot.bottom() + 3, 60, line), Qt::AlignHCenter, tick_label(t, xstep));
+      painter.drawText(QRectF(p.x() - 30, plot.bottom() + 3, 60, line), Qt::AlignHCenter,
+                       tick_label(t, xstep));
     }
-    painter.drawText(QRectF(plot.left(), plot.bottom() + line + 2, plot.width(), line), Qt::AlignHCenter,
-                     QStringLiteral("bone loss (mm)"));
-    std::sort(values.begin(), values.end(), [](const QPointF& a, const QPointF& b) { return a.x() < b.x(); });
+    painter.drawText(QRectF(plot.left(), plot.bottom() + line + 2, plot.width(), line),
+                     Qt::AlignHCenter, QStringLiteral("bone loss (mm)"));
+    std::vector<QPointF> sorted = values;
+    std::sort(sorted.begin(), sorted.end(), [](const QPointF& a, const QPointF& b) {
+      return a.x() < b.x() || (a.x() == b.x() && a.y() < b.y());
+    });
     QPainterPath path;
-    for (size_t i = 0; i < values.size(); ++i) {
-      const QPointF p = to_px(values[i].x(), values[i].y());
-      if (i == 0) path.moveTo(p);
-      else path.lineTo(p);
+    for (size_t i = 0; i < sorted.size(); ++i) {
+      const QPointF p = to_px(sorted[i].x(), sorted[i].y());
+      if (i == 0)
+        path.moveTo(p);
+      else
+        path.lineTo(p);
     }
     painter.setPen(QPen(kLineColour, 2));
     painter.setBrush(Qt::NoBrush);
@@ -144,6 +190,32 @@ void TrendPlot::paint_into(QPainter& painter, const QRect& area) const {
     painter.setBrush(kPointColour);
     painter.setPen(Qt::NoPen);
     for (const QPointF& v : values) painter.drawEllipse(to_px(v.x(), v.y()), 4, 4);
+    // Levels sharing a bone loss carry their name beside the point (left of it in the right half
+    // of the plot), moved apart vertically by at least a line so the names never overlap.
+    QFont small = painter.font();
+    small.setPointSizeF(small.pointSizeF() * 0.85);
+    painter.setFont(small);
+    const QFontMetrics sfm(small);
+    std::vector<std::pair<QPointF, QString>> labels;
+    for (size_t i = 0; i < values.size(); ++i)
+      if (shared[static_cast<size_t>(value_rows[i])])
+        labels.emplace_back(to_px(values[i].x(), values[i].y()), table_.row_names[value_rows[i]]);
+    std::sort(labels.begin(), labels.end(), [](const auto& a, const auto& b) {
+      return a.first.x() < b.first.x() || (a.first.x() == b.first.x() && a.first.y() < b.first.y());
+    });
+    double last_y = -INFINITY, last_x = NAN;
+    painter.setPen(text);
+    for (const auto& [p, level] : labels) {
+      double y = p.y();
+      if (p.x() == last_x) y = std::max(y, last_y + sfm.height());
+      last_y = y;
+      last_x = p.x();
+      const double w = sfm.horizontalAdvance(level) + 2;
+      const bool left = p.x() > plot.center().x();
+      const QRectF box(left ? p.x() - 7 - w : p.x() + 7, y - sfm.height() / 2.0, w, sfm.height());
+      painter.drawText(box, (left ? Qt::AlignRight : Qt::AlignLeft) | Qt::AlignVCenter, level);
+    }
+    painter.setFont(base_font);
   }
   painter.restore();
 }

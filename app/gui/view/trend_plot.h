@@ -4,6 +4,7 @@
 
 #include <QWidget>
 
+#include "core/axis_ticks.h"
 #include "core/scenario_table.h"
 
 namespace sharpey::app {
@@ -18,6 +19,12 @@ class TrendPlot : public QWidget {
   QSize sizeHint() const override { return {900, 320}; }
   // Panels drawn (numbers with at least one finite value), for tests.
   int n_panels() const;
+  // The value axis of the panel of `k` (trend_axis_span of its values); {0, 0} when it has none.
+  AxisSpan value_axis(KeyNumber k) const;
+  // The levels whose points carry their name: those sharing a bone loss with another level
+  // (e.g. a 4 mm loss with and without an angular defect), which would otherwise be told apart
+  // by nothing.
+  QStringList labelled_levels() const;
 
  protected:
   void paintEvent(QPaintEvent* event) override;

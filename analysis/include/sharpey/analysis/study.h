@@ -73,6 +73,13 @@ class ScenarioSolution {
   ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
                    const ProgressCallback& progress, const std::atomic<bool>* cancel,
                    ScenarioOptions options = {});
+  // Restores a solution solved earlier (read back by read_solution, solution_cache.h): the model
+  // and the unit load basis as that solve left them, and its statistics. Nothing is meshed or
+  // solved; everything else is derived from them as after a solve, so evaluate() gives the same
+  // results bit for bit. has_solver() is false. Throws InputError for a null basis.
+  ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                   std::unique_ptr<fem::UnitLoadBasis> basis, fem::SolverStatistics statistics,
+                   ScenarioOptions options = {});
   ~ScenarioSolution();
   ScenarioSolution(const ScenarioSolution&) = delete;
   ScenarioSolution& operator=(const ScenarioSolution&) = delete;
@@ -111,6 +118,8 @@ class ScenarioSolution {
  private:
   void solve(const CaseSpec& spec, const ProgressCallback& progress,
              const std::atomic<bool>* cancel, const ScenarioOptions& options);
+  // Everything derived from model_ and basis_ (rigid response, CRes, node sets, samplers).
+  void derive(const ScenarioOptions& options);
 
   Scenario scenario_;
   mesh::ToothModel model_;

@@ -21,8 +21,15 @@ class UnitLoadBasis {
   UnitLoadBasis(const mesh::VolumeMesh& mesh, const MaterialTable& materials,
                 const LinearElasticSolver& solver, int pad_marker,
                 const Eigen::Vector3d& reference_point, int field_region);
+  // A basis solved earlier, from its parts (e.g. read back from a saved solution): the six unit
+  // displacements (3n x 6, mm per unit load) and the six region fields, in the order of the
+  // constructor above (force x, y, z, then moment x, y, z about reference_point). Throws
+  // InputError when there are not six columns and six fields of one region and node set.
+  UnitLoadBasis(const Eigen::Vector3d& reference_point, Eigen::MatrixXd unit_displacements,
+                std::vector<RegionField> unit_fields);
 
-  Eigen::VectorXd displacement(const Eigen::Vector3d& force_n, const Eigen::Vector3d& moment_nmm) const;
+  Eigen::VectorXd displacement(const Eigen::Vector3d& force_n,
+                               const Eigen::Vector3d& moment_nmm) const;
   RegionField region_field(const Eigen::Vector3d& force_n, const Eigen::Vector3d& moment_nmm) const;
   // Per-case displacement (3n x 6) and fields, for analyses that need the basis itself.
   const Eigen::MatrixXd& unit_displacements() const { return u_; }

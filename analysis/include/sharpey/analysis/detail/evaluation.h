@@ -4,6 +4,7 @@
 // Internal to the analysis library; not a stable interface.
 #pragma once
 
+#include "sharpey/analysis/field_choice.h"
 #include "sharpey/analysis/study.h"
 
 namespace sharpey::analysis::detail {
@@ -17,6 +18,6 @@ struct PressureMeasures {
 // the same load and `healthy` is only used for its attachment area.
 ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
                         const Thresholds& thresholds, const ScenarioSolution* healthy,
-                        const PressureMeasures* reference);
+                        const PressureMeasures* reference, const FieldChoice& fields = {});
 
 }  // namespace sharpey::analysis::detail
