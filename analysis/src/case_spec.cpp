@@ -1,11 +1,12 @@
 // CaseSpec basics: units, named directions and presets, defaults with their sources, materials,
 // per-scenario models and exact comparison. Parsing lives in case_spec_parse.cpp, writing in
 // case_spec_write.cpp, range checks in case_spec_validate.cpp.
+#include "sharpey/analysis/case_spec.h"
+
 #include <cmath>
 #include <sstream>
 #include <stdexcept>
 
-#include "sharpey/analysis/case_spec.h"
 #include "sharpey/error.h"
 
 namespace sharpey::analysis {
@@ -59,14 +60,25 @@ bool same(const mesh::BoneLoss& a, const mesh::BoneLoss& b) {
          a.defect_surface == b.defect_surface && a.defect_width_deg == b.defect_width_deg;
 }
 
+bool same(const mesh::ToothLandmarks& a, const mesh::ToothLandmarks& b) {
+  return a.apex == b.apex && a.crown_tip == b.crown_tip && a.cej_labial == b.cej_labial &&
+         a.cej_lingual == b.cej_lingual && a.cej_mesial == b.cej_mesial &&
+         a.cej_distal == b.cej_distal;
+}
+
+bool same(const ToothSurfaceSource& a, const ToothSurfaceSource& b) {
+  if (a.file != b.file || a.accept_principal_axes != b.accept_principal_axes) return false;
+  if (a.landmarks.has_value() != b.landmarks.has_value()) return false;
+  return !a.landmarks || same(*a.landmarks, *b.landmarks);
+}
+
 bool same(const mesh::ModelSpec& a, const mesh::ModelSpec& b) {
   const auto& ta = a.tooth;
   const auto& tb = b.tooth;
   return ta.type == tb.type && same(ta.dimensions, tb.dimensions) &&
          ta.ideal_root == tb.ideal_root && ta.ideal_radius_mm == tb.ideal_radius_mm &&
-         ta.ideal_length_mm == tb.ideal_length_mm &&
-         a.pdl.crest_width_mm == b.pdl.crest_width_mm && a.pdl.mid_width_mm == b.pdl.mid_width_mm &&
-         a.pdl.apex_width_mm == b.pdl.apex_width_mm &&
+         ta.ideal_length_mm == tb.ideal_length_mm && a.pdl.crest_width_mm == b.pdl.crest_width_mm &&
+         a.pdl.mid_width_mm == b.pdl.mid_width_mm && a.pdl.apex_width_mm == b.pdl.apex_width_mm &&
          a.bone.crest_below_cej_mm == b.bone.crest_below_cej_mm &&
          a.bone.cortical_thickness_mm == b.bone.cortical_thickness_mm &&
          a.bone.labial_plate_mm == b.bone.labial_plate_mm &&
@@ -102,27 +114,36 @@ Thresholds default_thresholds() {
 
 double to_newton(double value, ForceUnit unit) {
   switch (unit) {
-    case ForceUnit::kGram: return value * kNewtonPerGram;
-    case ForceUnit::kCentinewton: return value * 0.01;
-    case ForceUnit::kNewton: return value;
+    case ForceUnit::kGram:
+      return value * kNewtonPerGram;
+    case ForceUnit::kCentinewton:
+      return value * 0.01;
+    case ForceUnit::kNewton:
+      return value;
   }
   return value;
 }
 
 double from_newton(double value_n, ForceUnit unit) {
   switch (unit) {
-    case ForceUnit::kGram: return value_n / kNewtonPerGram;
-    case ForceUnit::kCentinewton: return value_n * 100.0;
-    case ForceUnit::kNewton: return value_n;
+    case ForceUnit::kGram:
+      return value_n / kNewtonPerGram;
+    case ForceUnit::kCentinewton:
+      return value_n * 100.0;
+    case ForceUnit::kNewton:
+      return value_n;
   }
   return value_n;
 }
 
 std::string to_string(ForceUnit unit) {
   switch (unit) {
-    case ForceUnit::kGram: return "g";
-    case ForceUnit::kCentinewton: return "cN";
-    case ForceUnit::kNewton: return "N";
+    case ForceUnit::kGram:
+      return "g";
+    case ForceUnit::kCentinewton:
+      return "cN";
+    case ForceUnit::kNewton:
+      return "N";
   }
   return "?";
 }
@@ -202,14 +223,14 @@ bool operator==(const CaseSpec& a, const CaseSpec& b) {
          same(a.model, b.model) && same(a.tooth_material, b.tooth_material) &&
          same(a.pdl_material, b.pdl_material) && same(a.cortical_material, b.cortical_material) &&
          same(a.cancellous_material, b.cancellous_material) && a.scenarios == b.scenarios &&
-         a.load == b.load && a.thresholds == b.thresholds;
+         a.load == b.load && a.thresholds == b.thresholds && same(a.surface, b.surface);
 }
 
 // ---- models and materials -----------------------------------------------------------------------
 
 double root_length_mm(const mesh::ToothSpec& tooth) {
   return tooth.ideal_root == mesh::IdealRoot::kNone ? tooth.dimensions.root_length_mm
-                                                     : tooth.ideal_length_mm;
+                                                    : tooth.ideal_length_mm;
 }
 
 mesh::ModelSpec scenario_model(const CaseSpec& spec, int scenario_index) {
@@ -269,10 +290,10 @@ std::vector<SourcedValue> value_sources(const CaseSpec& spec) {
       "micro-CT 0.16 to 0.28 mm, Tayman et al. 2020, Aust Endod J 46:365 (published)";
   add("pdl.width_profile_mm.crest", spec.model.pdl.crest_width_mm,
       defaults.model.pdl.crest_width_mm, "mm", width_source);
-  add("pdl.width_profile_mm.mid_root", spec.model.pdl.mid_width_mm,
-      defaults.model.pdl.mid_width_mm, "mm", width_source);
-  add("pdl.width_profile_mm.apex", spec.model.pdl.apex_width_mm,
-      defaults.model.pdl.apex_width_mm, "mm", width_source);
+  add("pdl.width_profile_mm.mid_root", spec.model.pdl.mid_width_mm, defaults.model.pdl.mid_width_mm,
+      "mm", width_source);
+  add("pdl.width_profile_mm.apex", spec.model.pdl.apex_width_mm, defaults.model.pdl.apex_width_mm,
+      "mm", width_source);
   add("bone.crest_below_cej_mm", spec.model.bone.crest_below_cej_mm,
       defaults.model.bone.crest_below_cej_mm, "mm",
       "healthy crest 1 to 2 mm apical to the CEJ (common practice); 0.4 to 1.9 mm on bite-wings, "
@@ -280,9 +301,10 @@ std::vector<SourcedValue> value_sources(const CaseSpec& spec) {
   if (spec.model.tooth.ideal_root == mesh::IdealRoot::kNone) {
     const mesh::ToothDimensions handbook = mesh::handbook_dimensions(spec.model.tooth.type);
     const mesh::ToothDimensions& d = spec.model.tooth.dimensions;
-    const std::string dims_source = "dental anatomy handbook average (Wheeler's Dental Anatomy, "
-                                    "Physiology and Occlusion, Table 1-1): " +
-                                    mesh::handbook_status(spec.model.tooth.type);
+    const std::string dims_source =
+        "dental anatomy handbook average (Wheeler's Dental Anatomy, "
+        "Physiology and Occlusion, Table 1-1): " +
+        mesh::handbook_status(spec.model.tooth.type);
     add("tooth.dimensions.crown_length_mm", d.crown_length_mm, handbook.crown_length_mm, "mm",
         dims_source);
     add("tooth.dimensions.root_length_mm", d.root_length_mm, handbook.root_length_mm, "mm",

@@ -50,12 +50,18 @@ void check_out_dir(const CommonOptions& options) {
                                   (out / "results").string());
 }
 
+// The folder a tooth.surface file is relative to: the case file's.
+std::string case_folder(const CommonOptions& options) {
+  return std::filesystem::path(options.case_path).parent_path().string();
+}
+
 // The case file's text with the command-line overrides applied.
 std::string case_text(const CommonOptions& options) {
   check_out_dir(options);
   std::string text = analysis::read_case_text(options.case_path);
   if (!options.mesh_preset.empty()) {
-    analysis::parse_case(text, options.case_path);  // report the file's own errors first
+    analysis::parse_case(text, options.case_path,
+                         case_folder(options));  // report the file's own errors first
     text = analysis::set_case_value(text, "mesh.preset", options.mesh_preset);
   }
   return text;
@@ -99,7 +105,8 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  const CaseSpec spec =
+      analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") + ", " +
                 mesh::to_string(spec.model.sizing.preset) + " mesh");
@@ -151,7 +158,7 @@ void run_command(const CommonOptions& options) {
 void sweep_command(const CommonOptions& options, const std::vector<std::string>& vary) {
   Progress progress(options.quiet);
   const std::string base_text = case_text(options);
-  const CaseSpec base = analysis::parse_case(base_text, options.case_path);
+  const CaseSpec base = analysis::parse_case(base_text, options.case_path, case_folder(options));
 
   std::vector<analysis::CaseVariation> variations;
   for (const std::string& v : vary) {
@@ -197,7 +204,8 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
       description += (description.empty() ? "" : ", ") + variations[k].key + "=" + value;
     }
     try {
-      combo.spec = analysis::parse_case(text, options.case_path + " with " + description);
+      combo.spec = analysis::parse_case(text, options.case_path + " with " + description,
+                                        case_folder(options));
     } catch (const InputError& e) {
       throw InputError(e.key(), std::string(e.what()) + " (from --vary)");
     }
@@ -258,7 +266,8 @@ void sweep_command(const CommonOptions& options, const std::vector<std::string>&
 
 void mesh_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  const CaseSpec spec =
+      analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   analysis::StagedFolder out(options.out_dir);
   std::vector<analysis::ScenarioFacts> facts;
   std::vector<std::string> written = {"mesh_statistics.json"};
