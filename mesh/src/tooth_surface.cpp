@@ -52,7 +52,8 @@ std::vector<double> axis_crossings(const SurfaceMesh& surface) {
 
 }  // namespace
 
-void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary) {
+void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary,
+               const std::string& title) {
   std::ofstream out(path, binary ? std::ios::binary : std::ios::out);
   if (!out)
     throw InputError("file",
@@ -64,7 +65,7 @@ void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary)
   };
   if (binary) {
     char header[80] = {};
-    std::snprintf(header, sizeof header, "sharpey surface");
+    std::snprintf(header, sizeof header, "%s", title.c_str());
     out.write(header, 80);
     const uint32_t n = static_cast<uint32_t>(surface.triangles.size());
     out.write(reinterpret_cast<const char*>(&n), 4);
@@ -81,7 +82,7 @@ void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary)
     }
   } else {
     out.precision(9);
-    out << "solid sharpey\n";
+    out << "solid " << title << "\n";
     for (const auto& t : surface.triangles) {
       const Eigen::Vector3d nn = normal(t);
       out << " facet normal " << nn.x() << ' ' << nn.y() << ' ' << nn.z() << "\n  outer loop\n";
@@ -91,7 +92,7 @@ void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary)
       }
       out << "  endloop\n endfacet\n";
     }
-    out << "endsolid sharpey\n";
+    out << "endsolid " << title << "\n";
   }
   if (!out) throw InputError("file", "writing " + path + " failed (disk full?)");
 }

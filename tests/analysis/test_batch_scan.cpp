@@ -30,11 +30,11 @@ std::string scan_case(const std::string& file) {
   const mesh::RootSection cej = mesh::root_section(spec, 0.0);
   const double a = cej.labiolingual_half_mm, b = cej.mesiodistal_half_mm;
   Json j = Json::parse(coarse_case_json(1));
-  j["tooth"]["surface"] = Json::parse(
-      R"({"file": ")" + file + R"(", "landmarks": {"apex": )" + vec(g.apex) + R"(, "crown_tip": )" +
-      vec(g.crown_tip) + R"(, "cej_labial": )" + vec({a, 0, 0}) + R"(, "cej_lingual": )" +
-      vec({-a, 0, 0}) + R"(, "cej_mesial": )" + vec({0, b, 0}) + R"(, "cej_distal": )" +
-      vec({0, -b, 0}) + "}}");
+  j["tooth"]["surface"] =
+      Json::parse(R"({"file": ")" + file + R"(", "landmarks": {"apex": )" + vec(g.apex) +
+                  R"(, "crown_tip": )" + vec(g.crown_tip) + R"(, "cej_labial": )" + vec({a, 0, 0}) +
+                  R"(, "cej_lingual": )" + vec({-a, 0, 0}) + R"(, "cej_mesial": )" +
+                  vec({0, b, 0}) + R"(, "cej_distal": )" + vec({0, -b, 0}) + "}}");
   return j.dump(2);
 }
 
@@ -71,13 +71,14 @@ INSTANTIATE_TEST_SUITE_P(
                      m.triangles.pop_back();
                      mesh::write_stl(m, p, true);
                    }},
-        BadSurface{"non_manifold", "not manifold",
-                   [](const std::string& p, mesh::SurfaceMesh m) {
-                     const auto tri = m.triangles[50];
-                     m.vertices.push_back(m.vertices[tri[0]] + Eigen::Vector3d(0, 0, 2));
-                     m.triangles.push_back({tri[0], tri[1], static_cast<int>(m.vertices.size()) - 1});
-                     mesh::write_stl(m, p, true);
-                   }},
+        BadSurface{
+            "non_manifold", "not manifold",
+            [](const std::string& p, mesh::SurfaceMesh m) {
+              const auto tri = m.triangles[50];
+              m.vertices.push_back(m.vertices[tri[0]] + Eigen::Vector3d(0, 0, 2));
+              m.triangles.push_back({tri[0], tri[1], static_cast<int>(m.vertices.size()) - 1});
+              mesh::write_stl(m, p, true);
+            }},
         BadSurface{"inverted", "inverted orientation",
                    [](const std::string& p, mesh::SurfaceMesh m) {
                      for (auto& f : m.triangles) std::swap(f[1], f[2]);
@@ -87,16 +88,23 @@ INSTANTIATE_TEST_SUITE_P(
                    [](const std::string& p, mesh::SurfaceMesh m) {
                      const int n = static_cast<int>(m.vertices.size());
                      const size_t n_t = m.triangles.size();
-                     for (int v = 0; v < n; ++v) m.vertices.push_back(m.vertices[v] + Eigen::Vector3d(1.0, 0.5, 0));
+                     for (int v = 0; v < n; ++v)
+                       m.vertices.push_back(m.vertices[v] + Eigen::Vector3d(1.0, 0.5, 0));
                      for (size_t f = 0; f < n_t; ++f)
-                       m.triangles.push_back({m.triangles[f][0] + n, m.triangles[f][1] + n, m.triangles[f][2] + n});
+                       m.triangles.push_back(
+                           {m.triangles[f][0] + n, m.triangles[f][1] + n, m.triangles[f][2] + n});
                      mesh::write_stl(m, p, true);
                    }},
         BadSurface{"scale_1000x", "micrometres",
-                   [](const std::string& p, const mesh::SurfaceMesh& m) { mesh::write_stl(scaled(m, 1000), p, true); }},
+                   [](const std::string& p, const mesh::SurfaceMesh& m) {
+                     mesh::write_stl(scaled(m, 1000), p, true);
+                   }},
         BadSurface{"metres", "metres",
-                   [](const std::string& p, const mesh::SurfaceMesh& m) { mesh::write_stl(scaled(m, 0.001), p, false); }},
-        BadSurface{"empty", "empty", [](const std::string& p, const mesh::SurfaceMesh&) { write_file(p, ""); }},
+                   [](const std::string& p, const mesh::SurfaceMesh& m) {
+                     mesh::write_stl(scaled(m, 0.001), p, false);
+                   }},
+        BadSurface{"empty", "empty",
+                   [](const std::string& p, const mesh::SurfaceMesh&) { write_file(p, ""); }},
         BadSurface{"truncated_binary", "truncated binary STL",
                    [](const std::string& p, const mesh::SurfaceMesh& m) {
                      mesh::write_stl(m, p, true);
@@ -106,10 +114,12 @@ INSTANTIATE_TEST_SUITE_P(
         BadSurface{"garbage", "not a readable",
                    [](const std::string& p, const mesh::SurfaceMesh&) {
                      std::string junk;
-                     for (int i = 0; i < 4000; ++i) junk += static_cast<char>((i * 7919 + 13) % 251);
+                     for (int i = 0; i < 4000; ++i)
+                       junk += static_cast<char>((i * 7919 + 13) % 251);
                      write_file(p, junk);
                    }},
-        BadSurface{"missing_file", "cannot be opened", [](const std::string&, const mesh::SurfaceMesh&) {}}),
+        BadSurface{"missing_file", "cannot be opened",
+                   [](const std::string&, const mesh::SurfaceMesh&) {}}),
     [](const ::testing::TestParamInfo<BadSurface>& i) { return i.param.name; });
 
 TEST(BatchScanSample, RunsAndNamesTheFileAndItsChecksum) {

@@ -50,7 +50,8 @@ std::string vec(const Eigen::Vector3d& v) {
 void add_noise(mesh::SurfaceMesh* s, double sigma_mm, unsigned seed) {
   std::vector<Eigen::Vector3d> normals(s->vertices.size(), Eigen::Vector3d::Zero());
   for (const auto& t : s->triangles) {
-    const Eigen::Vector3d n = (s->vertices[t[1]] - s->vertices[t[0]]).cross(s->vertices[t[2]] - s->vertices[t[0]]);
+    const Eigen::Vector3d n =
+        (s->vertices[t[1]] - s->vertices[t[0]]).cross(s->vertices[t[2]] - s->vertices[t[0]]);
     for (int k = 0; k < 3; ++k) normals[t[k]] += n;
   }
   std::mt19937 rng(seed);
@@ -80,20 +81,25 @@ std::string landmarks_json(const mesh::ToothLandmarks& l) {
          ", \"cej_mesial\": " + vec(l.cej_mesial) + ", \"cej_distal\": " + vec(l.cej_distal) + "}";
 }
 
-std::string case_json(const std::string& type, const std::string& surface, const std::string& preset) {
+std::string case_json(const std::string& type, const std::string& surface,
+                      const std::string& preset) {
   return R"({"schema_version": 1, "label": "Invented benchmark case",
-  "tooth": {"type": ")" + type + "\"" + surface + R"(},
+  "tooth": {"type": ")" +
+         type + "\"" + surface + R"(},
   "pdl": {"width_mm": 0.2},
   "scenarios": [{"name": "healthy", "horizontal_loss_mm": 0}],
   "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
-  "mesh": {"preset": ")" + preset + R"("}})";
+  "mesh": {"preset": ")" +
+         preset + R"("}})";
 }
 
 void print_results(const char* what, const analysis::Study& study, double area_mm2) {
   for (const analysis::ScenarioResult& r : study.evaluate(study.spec().load)) {
-    std::printf("%-10s root area %8.2f mm^2  peak %7.3f kPa  p95 %7.3f kPa  CRes %6.3f mm below the crest\n",
-                what, area_mm2, r.pressure_max_compression_kpa, r.pressure_p95_compression_kpa,
-                r.cres_labiolingual.from_crest_mm);
+    std::printf(
+        "%-10s root area %8.2f mm^2  peak %7.3f kPa  p95 %7.3f kPa  CRes %6.3f mm below the "
+        "crest\n",
+        what, area_mm2, r.pressure_max_compression_kpa, r.pressure_p95_compression_kpa,
+        r.cres_labiolingual.from_crest_mm);
   }
 }
 
@@ -128,16 +134,18 @@ int main(int argc, char** argv) {
       spec.tooth.dimensions = mesh::handbook_dimensions(spec.tooth.type);
       mesh::SurfaceMesh s = mesh::tooth_surface_triangles(spec, 90, 110, 0.021);
       add_noise(&s, 0.01, 14);
-      const Eigen::Affine3d motion = Eigen::Translation3d(12.4, 48.1, -3.7) *
-                                     Eigen::AngleAxisd(2.1, Eigen::Vector3d(0.3, -0.8, 0.5).normalized());
+      const Eigen::Affine3d motion =
+          Eigen::Translation3d(12.4, 48.1, -3.7) *
+          Eigen::AngleAxisd(2.1, Eigen::Vector3d(0.3, -0.8, 0.5).normalized());
       for (auto& v : s.vertices) v = motion * v;
       mesh::ToothLandmarks l = landmarks_of(spec, motion);
       std::mt19937 rng(7);
       std::normal_distribution<double> pick(0.0, 0.05 / std::sqrt(3.0));
-      for (Eigen::Vector3d* p : {&l.apex, &l.crown_tip, &l.cej_labial, &l.cej_lingual, &l.cej_mesial, &l.cej_distal})
+      for (Eigen::Vector3d* p :
+           {&l.apex, &l.crown_tip, &l.cej_labial, &l.cej_lingual, &l.cej_mesial, &l.cej_distal})
         *p += Eigen::Vector3d(pick(rng), pick(rng), pick(rng));
       const std::string path = sample_folder + "/invented_scan_maxillary_canine.stl";
-      mesh::write_stl(s, path, true);
+      mesh::write_stl(s, path, true, "invented sample, not patient data (Sharpey bench_scan)");
       std::printf("wrote %s: %zu triangles\nlandmarks: %s\n", path.c_str(), s.triangles.size(),
                   landmarks_json(l).c_str());
       return 0;
@@ -151,9 +159,11 @@ int main(int argc, char** argv) {
       const mesh::SurfaceMesh s = mesh::tooth_surface_triangles(base, 120, 300, 0.0123);
       mesh::write_stl(s, folder + "/incisor.stl", true);
       const std::string surface = ", \"surface\": {\"file\": \"incisor.stl\", \"landmarks\": " +
-                                  landmarks_json(landmarks_of(base, Eigen::Affine3d::Identity())) + "}";
+                                  landmarks_json(landmarks_of(base, Eigen::Affine3d::Identity())) +
+                                  "}";
       const auto a = analysis::parse_case(case_json("maxillary_central_incisor", "", preset));
-      const auto b = analysis::parse_case(case_json("maxillary_central_incisor", surface, preset), "case", folder);
+      const auto b = analysis::parse_case(case_json("maxillary_central_incisor", surface, preset),
+                                          "case", folder);
       std::printf("round trip, %s preset, %zu-triangle STL\n", preset.c_str(), s.triangles.size());
       print_results("parametric", analysis::Study(a), mesh::model_geometry(a.model).root_area_mm2);
       print_results("imported", analysis::Study(b), mesh::model_geometry(b.model).root_area_mm2);
@@ -164,11 +174,13 @@ int main(int argc, char** argv) {
       add_noise(&s, 0.01, 3);
       mesh::write_stl(s, folder + "/scan.stl", true);
       const std::string surface = ", \"surface\": {\"file\": \"scan.stl\", \"landmarks\": " +
-                                  landmarks_json(landmarks_of(base, Eigen::Affine3d::Identity())) + "}";
+                                  landmarks_json(landmarks_of(base, Eigen::Affine3d::Identity())) +
+                                  "}";
       std::printf("scan of %zu triangles to results, %s preset (load average: see uptime)\n",
                   s.triangles.size(), preset.c_str());
       const auto t0 = Clock::now();
-      const auto spec = analysis::parse_case(case_json("maxillary_central_incisor", surface, preset), "case", folder);
+      const auto spec = analysis::parse_case(
+          case_json("maxillary_central_incisor", surface, preset), "case", folder);
       const double t_import = seconds_since(t0);
       const auto t1 = Clock::now();
       const analysis::Study study(spec);
@@ -176,9 +188,10 @@ int main(int argc, char** argv) {
       const auto t2 = Clock::now();
       print_results("scan", study, mesh::model_geometry(spec.model).root_area_mm2);
       const double t_eval = seconds_since(t2);
-      std::printf("read, check, place, resample  %7.2f s\nmesh and solve                %7.2f s\n"
-                  "evaluate                      %7.2f s\ntotal                         %7.2f s\n",
-                  t_import, t_solve, t_eval, seconds_since(t0));
+      std::printf(
+          "read, check, place, resample  %7.2f s\nmesh and solve                %7.2f s\n"
+          "evaluate                      %7.2f s\ntotal                         %7.2f s\n",
+          t_import, t_solve, t_eval, seconds_since(t0));
     }
     const std::string rm = "rm -rf " + folder;
     return std::system(rm.c_str()) == 0 ? 0 : 1;

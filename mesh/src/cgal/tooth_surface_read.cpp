@@ -14,6 +14,7 @@
 #include <cstdint>
 #include <cstdio>
 #include <cstring>
+#include <filesystem>
 #include <fstream>
 #include <iterator>
 #include <map>
@@ -89,6 +90,9 @@ void check_binary_stl_length(const std::string& path, const std::string& bytes,
   }
 }
 
+// 10 million binary STL triangles; scans of one tooth need far fewer.
+constexpr std::uintmax_t kMaxSurfaceFileBytes = 500u * 1000 * 1000;
+
 }  // namespace
 
 SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) {
@@ -96,6 +100,23 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
   if (ext != "stl" && ext != "ply" && ext != "obj") {
     throw InputError(key, "tooth surface " + path + ": unknown file type '." + ext +
                               "'; use an STL (binary or ASCII), PLY or OBJ file");
+  }
+  {
+    // Only a regular file of sensible size: a device or pipe named by a case file must not hang
+    // or exhaust memory.
+    std::error_code ec;
+    const auto status = std::filesystem::status(path, ec);
+    if (!ec && std::filesystem::exists(status) && !std::filesystem::is_regular_file(status)) {
+      throw InputError(
+          key, "tooth surface " + path + ": not a regular file; name an STL, PLY or OBJ file");
+    }
+    const auto size = std::filesystem::file_size(path, ec);
+    if (!ec && size > kMaxSurfaceFileBytes) {
+      throw InputError(key, "tooth surface " + path + ": the file has " + std::to_string(size) +
+                                " bytes, more than the " + std::to_string(kMaxSurfaceFileBytes) +
+                                " a tooth surface needs; decimate it (about 200 000 triangles "
+                                "is plenty) and export again");
+    }
   }
   std::string bytes;
   {

@@ -36,9 +36,11 @@ constexpr double kMinToothExtentMm = 10.0;
 constexpr double kMaxToothExtentMm = 45.0;
 SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key = "tooth.surface");
 
-// Writes a surface as binary or ASCII STL (used by tests, the sample generator and round trips).
-// Throws InputError (key "file") when the file cannot be written.
-void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary);
+// Writes a surface as binary or ASCII STL (used by tests, the sample generator and round trips);
+// `title` goes into the binary header (at most 79 characters, must not start with "solid") or
+// the ASCII solid's name. Throws InputError (key "file") when the file cannot be written.
+void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary,
+               const std::string& title = "sharpey surface");
 
 // Points on the surface, in the file's coordinates, that place the tooth: the root apex, the
 // incisal edge / cusp tip, and CEJ points on the four sides.
