@@ -50,6 +50,13 @@ std::vector<double> axis_crossings(const SurfaceMesh& surface) {
   return z;
 }
 
+// A ray from the axis may cross the surface at several radii this close (relative + absolute, mm)
+// without the section being refused as not star-shaped.
+constexpr double kStarTolerance = 0.10;
+constexpr double kStarToleranceMm = 0.25;
+// How far the surface may reach beyond the axis' crossings at the apex and the crown tip, mm.
+constexpr double kPoleToleranceMm = 0.5;
+
 }  // namespace
 
 void write_stl(const SurfaceMesh& surface, const std::string& path, bool binary,
@@ -210,6 +217,21 @@ RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string
                      "the tooth's long axis does not pass through the surface from below the "
                      "CEJ to above it; place the apex and crown-tip landmarks on the tooth's ends");
   }
+  // The radius table covers the surface between the axis' two crossings only: a surface reaching
+  // beyond them (the axis misses the apex or the crown tip) would lose that part silently.
+  double z_lo = 1e300, z_hi = -1e300;
+  for (const auto& v : surface.vertices) {
+    z_lo = std::min(z_lo, v.z());
+    z_hi = std::max(z_hi, v.z());
+  }
+  if (z_lo < crossings.front() - kPoleToleranceMm || z_hi > crossings.back() + kPoleToleranceMm) {
+    const bool root = z_lo < crossings.front() - kPoleToleranceMm;
+    throw InputError(key, "the tooth's long axis leaves the surface " +
+                              fmt(root ? crossings.front() - z_lo : z_hi - crossings.back()) +
+                              " mm short of the " + (root ? "root's apical end" : "crown's tip") +
+                              ", so that part of the tooth would be lost; place the " +
+                              (root ? "apex" : "crown-tip") + " landmark at the tooth's end");
+  }
   RadialToothSurface r;
   r.n_theta = n_theta;
   r.n_z = n_z;
@@ -282,7 +304,10 @@ RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string
                                   " deg around it); place the apex and crown-tip landmarks on the "
                                   "tooth's ends so the axis runs inside the tooth");
       }
-      if (r.radius_mm[idx] - r_min[idx] > 0.05 * r.radius_mm[idx] + 0.02) {
+      // Scan noise alone makes a ray that grazes the surface (the thin incisal edge) cross it a
+      // few times within a fraction of a millimetre: only crossings further apart mean a section
+      // the axis does not see whole.
+      if (r.radius_mm[idx] - r_min[idx] > kStarTolerance * r.radius_mm[idx] + kStarToleranceMm) {
         throw InputError(key, "the cross-section at z = " + fmt(row_z[i]) +
                                   " mm is not star-shaped about the long axis (at " +
                                   fmt(theta_deg) + " deg the surface is crossed at " +

@@ -1,7 +1,7 @@
-// A tooth from a surface scan, end to end on the coarse preset: the parametric incisor's surface
-// written to STL and imported gives the parametric results (round trip); the same STL moved and
-// rotated with its landmarks gives the same results (invariance); the case key, its relative path,
-// the principal-axis proposal and the outputs naming the file and its checksum.
+// A tooth from a surface scan, end to end: the parametric incisor's surface written to STL and
+// imported gives the parametric results (round trip, standard preset, healthy and 3 mm loss); the
+// same STL moved and rotated with its landmarks gives the same results (invariance, coarse); the
+// case key, its path and the principal-axis proposal.
 #include <gtest/gtest.h>
 
 #include <Eigen/Geometry>
@@ -27,17 +27,21 @@ std::string vec(const Eigen::Vector3d& v) {
   return s.str();
 }
 
-// The parametric case: maxillary central incisor, 100 g lingual, healthy and 3 mm loss, coarse.
-std::string case_json(const std::string& tooth_extra) {
+// The parametric case: maxillary central incisor, 100 g lingual, healthy and 3 mm loss (or
+// healthy only), on `preset`.
+std::string case_json(const std::string& tooth_extra, const std::string& preset = "coarse",
+                      bool with_loss = false) {
   return R"({
   "schema_version": 1,
   "label": "Invented test case: maxillary central incisor, 100 g lingual",
   "tooth": {"type": "maxillary_central_incisor")" +
          tooth_extra + R"(},
   "pdl": {"width_mm": 0.2},
-  "scenarios": [{"name": "healthy", "horizontal_loss_mm": 0}, {"name": "3 mm loss", "horizontal_loss_mm": 3}],
+  "scenarios": [{"name": "healthy", "horizontal_loss_mm": 0})" +
+         std::string(with_loss ? R"(, {"name": "3 mm loss", "horizontal_loss_mm": 3})" : "") + R"(],
   "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
-  "mesh": {"preset": "coarse"}
+  "mesh": {"preset": ")" +
+         preset + R"("}
 })";
 }
 
@@ -81,10 +85,11 @@ class ScanImport : public ::testing::Test {
     mesh::SurfaceMesh moved = s;
     for (auto& v : moved.vertices) v = motion_ * v;
     mesh::write_stl(moved, folder_->path() + "/moved.stl", true);
-    parametric_ = figures(parse_case(case_json("")));
-    imported_ =
-        figures(parse_case(case_json(surface_json("incisor.stl", Eigen::Affine3d::Identity())),
-                           "case", folder_->path()));
+    // The issue's acceptance is on the standard preset: affordable here (a few seconds a study).
+    parametric_ = figures(parse_case(case_json("", "standard", true)));
+    imported_ = figures(parse_case(
+        case_json(surface_json("incisor.stl", Eigen::Affine3d::Identity()), "standard", true),
+        "case", folder_->path()));
   }
   static void TearDownTestSuite() { folder_.reset(); }
   static std::unique_ptr<test::TempFolder> folder_;
@@ -117,12 +122,21 @@ TEST_F(ScanImport, RoundTripGivesTheParametricResults) {
 }
 
 TEST_F(ScanImport, MovedAndRotatedWithItsLandmarksGivesTheSameResults) {
+  // Coarse preset, healthy only: the comparison is between two imports, not against the standard.
+  const std::vector<Figures> still =
+      figures(parse_case(case_json(surface_json("incisor.stl", Eigen::Affine3d::Identity())),
+                         "case", folder_->path()));
   const std::vector<Figures> moved =
       figures(parse_case(case_json(surface_json("moved.stl", motion_)), "case", folder_->path()));
-  ASSERT_EQ(moved.size(), 2u);
-  for (size_t i = 0; i < 2; ++i) {
-    SCOPED_TRACE("scenario " + std::to_string(i));
-    const Figures &a = imported_[i], &b = moved[i];
+  ASSERT_EQ(moved.size(), 1u);
+  ASSERT_EQ(still.size(), 1u);
+  for (size_t i = 0; i < 1; ++i) {
+    const Figures &a = still[i], &b = moved[i];
+    std::printf(
+        "still / moved: peak %.4f / %.4f kPa, p95 %.4f / %.4f kPa, CRes %.4f / %.4f mm, "
+        "attachment %.3f / %.3f mm^2\n",
+        a.peak_kpa, b.peak_kpa, a.p95_kpa, b.p95_kpa, a.cres_from_crest_mm, b.cres_from_crest_mm,
+        a.attachment_mm2, b.attachment_mm2);
     // derived: a rigid motion changes nothing but single-precision rounding in the STL; 1 % is
     // the issue's acceptance bound.
     EXPECT_NEAR(b.attachment_mm2 / a.attachment_mm2, 1.0, 0.01);

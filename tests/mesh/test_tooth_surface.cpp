@@ -101,6 +101,20 @@ TEST_F(ScanRoundTrip, MovedAndRotatedWithItsLandmarksGivesTheSameTooth) {
   EXPECT_NEAR(b / a, 1.0, 1e-4);
 }
 
+TEST_F(ScanRoundTrip, AnAxisOutsideTheToothIsRefused) {
+  // Landmarks shifted 2.5 mm mesially: the axis runs outside the narrow apical root.
+  ToothLandmarks l = landmarks_of(ModelSpec());
+  for (Eigen::Vector3d* p :
+       {&l.apex, &l.crown_tip, &l.cej_labial, &l.cej_lingual, &l.cej_mesial, &l.cej_distal})
+    *p += Eigen::Vector3d(0, 2.5, 0);
+  try {
+    import_tooth_surface(temp_path("tooth.stl"), l, "tooth.surface");
+    ADD_FAILURE() << "accepted";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("long axis"), std::string::npos) << e.what();
+  }
+}
+
 TEST_F(ScanRoundTrip, PrincipalAxisProposalFindsTheLongAxis) {
   const ToothPlacement p = principal_axis_proposal(*surface_);
   // derived: the parametric incisor's long axis is z; the proposal's z must be within 10 deg.
@@ -217,6 +231,39 @@ INSTANTIATE_TEST_SUITE_P(
                      std::ofstream(p) << "this is not a surface\nv 1 2\nf 1 2 9\n";
                    }}),
     [](const ::testing::TestParamInfo<BadSurface>& i) { return i.param.name; });
+
+// PLY and OBJ written here by hand (the open formats' plain-text forms), read through CGAL.
+TEST(SurfaceFormats, PlyAndObjReadLikeStl) {
+  const SurfaceMesh m = tooth_surface_triangles(ModelSpec(), 40, 50);
+  const std::string ply = temp_path("tooth.ply"), obj = temp_path("tooth.obj");
+  {
+    std::ofstream out(ply);
+    out.precision(17);
+    out << "ply\nformat ascii 1.0\ncomment invented test surface\nelement vertex "
+        << m.vertices.size() << "\nproperty double x\nproperty double y\nproperty double z\n"
+        << "element face " << m.triangles.size()
+        << "\nproperty list uchar int vertex_indices\nend_header\n";
+    for (const auto& v : m.vertices) out << v.x() << ' ' << v.y() << ' ' << v.z() << '\n';
+    for (const auto& t : m.triangles) out << "3 " << t[0] << ' ' << t[1] << ' ' << t[2] << '\n';
+  }
+  {
+    std::ofstream out(obj);
+    out.precision(17);
+    out << "# invented test surface\n";
+    for (const auto& v : m.vertices) out << "v " << v.x() << ' ' << v.y() << ' ' << v.z() << '\n';
+    for (const auto& t : m.triangles)
+      out << "f " << t[0] + 1 << ' ' << t[1] + 1 << ' ' << t[2] + 1 << '\n';
+  }
+  for (const std::string& path : {ply, obj}) {
+    SCOPED_TRACE(path);
+    const SurfaceMesh r = read_tooth_surface(path);
+    // derived: the same closed surface, so the same counts and the same vertex positions.
+    EXPECT_EQ(r.vertices.size(), m.vertices.size());
+    EXPECT_EQ(r.triangles.size(), m.triangles.size());
+    EXPECT_NEAR((r.vertices[5] - m.vertices[5]).norm(), 0.0, 1e-9);
+    std::remove(path.c_str());
+  }
+}
 
 TEST(ToothLandmarks, InconsistentLandmarksAreRefused) {
   ToothLandmarks l = landmarks_of(ModelSpec());

@@ -96,7 +96,8 @@ struct RadialToothSurface {
 
 // Resamples `surface` (already in tooth coordinates) into a radial table. Throws InputError (key
 // `key`) when the axis does not pass through the surface, when a section is not star-shaped
-// about the axis (a ray leaves the surface more than once by more than 5 % of its radius) or the
+// about the axis (a ray crosses the surface at radii more than 10 % + 0.25 mm apart; closer
+// crossings are scan noise at grazing incidence and the outermost one counts) or the
 // CEJ plane z = 0 does not cut the tooth.
 RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string& key,
                                    int n_theta = 128, int n_z = 241);
