@@ -147,7 +147,14 @@ void run_command(const CommonOptions& options) {
                               analysis::results_json(spec, results, facts));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
   analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
-  analysis::save_case(spec, out.path("case.json"));
+  {
+    // The copy of the case lives in another folder: a scanned surface is named by its absolute
+    // path there, so that the copy runs as it stands.
+    CaseSpec copy = spec;
+    if (!copy.surface.file.empty())
+      copy.surface.file = std::filesystem::absolute(copy.surface.resolved_path).string();
+    analysis::save_case(copy, out.path("case.json"));
+  }
   written.insert(written.begin(), {"results.json", "summary.csv", "summary.txt", "case.json"});
   pause_after_write();
   stop_if_interrupted();

@@ -7,6 +7,7 @@
 #include <nlohmann/json.hpp>
 #include <string>
 
+#include "sharpey/analysis/case_spec.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "sharpey/mesh/tooth_surface.h"
 #include "support/batch_process.h"
@@ -132,6 +133,11 @@ TEST(BatchScanSample, RunsAndNamesTheFileAndItsChecksum) {
   EXPECT_EQ(results["tooth_surface"]["sha256"].get<std::string>(),
             mesh::file_sha256(sample_path("invented_scan_maxillary_canine.stl")));
   EXPECT_NE(read_file(folder / "out/summary.txt").find("SHA-256"), std::string::npos);
+  // The case's copy in the output folder reads as it stands (the surface by its absolute path).
+  const analysis::CaseSpec copy = analysis::load_case(folder / "out/case.json");
+  ASSERT_TRUE(copy.model.tooth.scan);
+  EXPECT_EQ(copy.model.tooth.scan->source_sha256,
+            results["tooth_surface"]["sha256"].get<std::string>());
 }
 
 }  // namespace
