@@ -101,6 +101,29 @@ TEST_F(ScanRoundTrip, MovedAndRotatedWithItsLandmarksGivesTheSameTooth) {
   EXPECT_NEAR(b / a, 1.0, 1e-4);
 }
 
+TEST_F(ScanRoundTrip, AToothOfTheOtherSideIsMirroredBack) {
+  // The tooth mirrored (y -> -y, triangles reversed to stay outward), its mesial landmark now on
+  // the -y side: the import mirrors it back and finds the same radius table.
+  SurfaceMesh mirrored = *surface_;
+  for (auto& v : mirrored.vertices) v.y() = -v.y();
+  for (auto& t : mirrored.triangles) std::swap(t[1], t[2]);
+  write_stl(mirrored, temp_path("mirrored.stl"), true);
+  ToothLandmarks l = landmarks_of(ModelSpec());
+  for (Eigen::Vector3d* p :
+       {&l.apex, &l.crown_tip, &l.cej_labial, &l.cej_lingual, &l.cej_mesial, &l.cej_distal})
+    p->y() = -p->y();
+  ToothPlacement placement;
+  const auto scan = import_tooth_surface(temp_path("mirrored.stl"), l, "tooth.surface", &placement);
+  std::remove(temp_path("mirrored.stl").c_str());
+  EXPECT_TRUE(placement.mirrored);
+  const auto reference =
+      import_tooth_surface(temp_path("tooth.stl"), landmarks_of(ModelSpec()), "tooth.surface");
+  double worst = 0;
+  for (size_t k = 0; k < scan->radius_mm.size(); ++k)
+    worst = std::max(worst, std::abs(scan->radius_mm[k] - reference->radius_mm[k]));
+  EXPECT_LT(worst, 1e-3);  // derived: mirroring twice is the identity (single-precision STL)
+}
+
 TEST_F(ScanRoundTrip, AnAxisOutsideTheToothIsRefused) {
   // Landmarks shifted 2.5 mm mesially: the axis runs outside the narrow apical root.
   ToothLandmarks l = landmarks_of(ModelSpec());
