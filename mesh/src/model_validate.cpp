@@ -64,6 +64,19 @@ void validate(const ModelSpec& spec) {
   // A scanned tooth's dimensions are measured on the surface (scanned_dimensions()); out-of-range
   // values name the surface key.
   const std::string dims = tooth.scan ? "tooth.surface.measured_" : "tooth.dimensions.";
+  if (tooth.scan) {
+    const ToothDimensions m = scanned_dimensions(*tooth.scan);
+    if (m.root_length_mm != d.root_length_mm || m.crown_length_mm != d.crown_length_mm ||
+        m.cervix_labiolingual_mm != d.cervix_labiolingual_mm ||
+        m.cervix_mesiodistal_mm != d.cervix_mesiodistal_mm ||
+        m.crown_labiolingual_mm != d.crown_labiolingual_mm ||
+        m.crown_mesiodistal_mm != d.crown_mesiodistal_mm) {
+      throw InputError("tooth.dimensions",
+                       "the dimensions of a scanned tooth are measured on its surface (root " +
+                           fmt(m.root_length_mm) + " mm, crown " + fmt(m.crown_length_mm) +
+                           " mm) and cannot be set; remove tooth.dimensions or tooth.surface");
+    }
+  }
   if (tooth.scan && tooth.ideal_root != IdealRoot::kNone) {
     throw InputError("tooth.ideal_root",
                      "a scanned tooth surface and an idealised root exclude "

@@ -124,6 +124,20 @@ TEST_F(ScanRoundTrip, AToothOfTheOtherSideIsMirroredBack) {
   EXPECT_LT(worst, 1e-3);  // derived: mirroring twice is the identity (single-precision STL)
 }
 
+TEST_F(ScanRoundTrip, DimensionsOfAScannedToothCannotBeSet) {
+  ModelSpec spec = scanned_spec(
+      ModelSpec(),
+      import_tooth_surface(temp_path("tooth.stl"), landmarks_of(ModelSpec()), "tooth.surface"));
+  EXPECT_NO_THROW(validate(spec));
+  spec.tooth.dimensions.root_length_mm += 1;  // e.g. an edit meant for a parametric tooth
+  try {
+    validate(spec);
+    ADD_FAILURE() << "accepted";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "tooth.dimensions");
+  }
+}
+
 TEST_F(ScanRoundTrip, AnAxisOutsideTheToothIsRefused) {
   // Landmarks shifted 2.5 mm mesially: the axis runs outside the narrow apical root.
   ToothLandmarks l = landmarks_of(ModelSpec());

@@ -81,8 +81,11 @@ ToothPlacement principal_axis_proposal(const SurfaceMesh& surface);
 
 // The tooth surface resampled as a radius table about the long axis in the tooth coordinate
 // system: r(theta, z) at n_theta angles (theta = 2 pi j / n_theta, 0 labial, pi/2 mesial) and
-// n_z heights uniform from apex_z to tip_z, the farthest crossing of the horizontal ray from the
-// axis. Requires cross-sections that are star-shaped about the axis (single-rooted teeth).
+// n_z rows (n_z odd) at s_i = -1 + 2 i / (n_z - 1), z = apex_z (1 - (s + 1)^2) on the root
+// (s <= 0) and tip_z (1 - (1 - s)^2) on the crown, so row (n_z - 1) / 2 is the CEJ plane z = 0
+// and rows crowd toward the poles; r is the farthest crossing of the horizontal ray from the
+// axis, 0 at the two poles, smoothed (resample_radial). Requires cross-sections that are
+// star-shaped about the axis (single-rooted teeth).
 struct RadialToothSurface {
   int n_theta = 0, n_z = 0;
   double apex_z_mm = 0, tip_z_mm = 0;  // where the axis leaves the surface (apex < 0 < tip)
@@ -97,8 +100,10 @@ struct RadialToothSurface {
 // Resamples `surface` (already in tooth coordinates) into a radial table. Throws InputError (key
 // `key`) when the axis does not pass through the surface, when a section is not star-shaped
 // about the axis (a ray crosses the surface at radii more than 10 % + 0.25 mm apart; closer
-// crossings are scan noise at grazing incidence and the outermost one counts) or the
-// CEJ plane z = 0 does not cut the tooth.
+// crossings are scan noise at grazing incidence and the outermost one counts), when the surface
+// reaches more than 0.5 mm beyond the axis' crossings at either end (a landmark off the tooth's
+// end), or when the CEJ plane z = 0 does not cut the tooth. The table is smoothed by two passes
+// of a [1 2 1] / 4 filter in each direction (scan noise at the grid spacing).
 RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string& key,
                                    int n_theta = 128, int n_z = 241);
 
