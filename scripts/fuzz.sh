@@ -20,6 +20,7 @@ sources=(
   analysis/src/case_spec_vary.cpp analysis/src/case_spec_write.cpp analysis/src/output_atomic.cpp
   mesh/src/model_validate.cpp mesh/src/model_names.cpp mesh/src/model_queries.cpp
   mesh/src/tooth_library.cpp mesh/src/detail/tooth_shape.cpp mesh/src/detail/model_frame.cpp
+  mesh/src/tooth_surface.cpp mesh/src/cgal/tooth_surface_read.cpp
 )
 flags=(-std=c++17 -O1 -g -fno-omit-frame-pointer -fsanitize=address,undefined
   -fno-sanitize-recover=all -I"$SHARPEY_ROOT/analysis/include" -I"$SHARPEY_ROOT/fem/include"
@@ -30,11 +31,14 @@ for src in "${sources[@]}" tests/fuzz/fuzz_case_parse.cpp; do
   if [ ! -f "$obj" ] || [ "$SHARPEY_ROOT/$src" -nt "$obj" ] ||
     [ -n "$(find "$SHARPEY_ROOT/analysis/include" "$SHARPEY_ROOT/mesh/include" "$SHARPEY_ROOT/core/include" \
       "$SHARPEY_ROOT/analysis/src" "$SHARPEY_ROOT/mesh/src" -name '*.h' -newer "$obj")" ]; then
-    clang++-14 "${flags[@]}" -fsanitize=fuzzer-no-link -c "$SHARPEY_ROOT/$src" -o "$obj"
+    # CGAL's interval arithmetic needs -frounding-math (as mesh/CMakeLists.txt gives it).
+    extra=()
+    [[ "$src" == mesh/src/cgal/* ]] && extra=(-frounding-math)
+    clang++-14 "${flags[@]}" "${extra[@]}" -fsanitize=fuzzer-no-link -c "$SHARPEY_ROOT/$src" -o "$obj"
   fi
   objects+=("$obj")
 done
-clang++-14 "${flags[@]}" -fsanitize=fuzzer "${objects[@]}" -o "$build/fuzz_case_parse"
+clang++-14 "${flags[@]}" -fsanitize=fuzzer "${objects[@]}" -lgmpxx -lgmp -lmpfr -o "$build/fuzz_case_parse"
 
 # New inputs the fuzzer finds go to build-fuzz/corpus (the first folder), never into the
 # committed seeds; a failing input is saved in build-fuzz/artifacts and printed below.

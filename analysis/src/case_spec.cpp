@@ -62,6 +62,18 @@ bool same(const mesh::BoneLoss& a, const mesh::BoneLoss& b) {
          a.defect_surface == b.defect_surface && a.defect_width_deg == b.defect_width_deg;
 }
 
+bool same(const mesh::ToothLandmarks& a, const mesh::ToothLandmarks& b) {
+  return a.apex == b.apex && a.crown_tip == b.crown_tip && a.cej_labial == b.cej_labial &&
+         a.cej_lingual == b.cej_lingual && a.cej_mesial == b.cej_mesial &&
+         a.cej_distal == b.cej_distal;
+}
+
+bool same(const ToothSurfaceSource& a, const ToothSurfaceSource& b) {
+  if (a.file != b.file || a.accept_principal_axes != b.accept_principal_axes) return false;
+  if (a.landmarks.has_value() != b.landmarks.has_value()) return false;
+  return !a.landmarks || same(*a.landmarks, *b.landmarks);
+}
+
 bool same(const mesh::ModelSpec& a, const mesh::ModelSpec& b) {
   const auto& ta = a.tooth;
   const auto& tb = b.tooth;
@@ -213,7 +225,7 @@ bool operator==(const CaseSpec& a, const CaseSpec& b) {
          same(a.model, b.model) && same(a.tooth_material, b.tooth_material) &&
          same(a.pdl_material, b.pdl_material) && same(a.cortical_material, b.cortical_material) &&
          same(a.cancellous_material, b.cancellous_material) && a.scenarios == b.scenarios &&
-         a.load == b.load && a.thresholds == b.thresholds;
+         a.load == b.load && a.thresholds == b.thresholds && same(a.surface, b.surface);
 }
 
 // ---- models and materials -----------------------------------------------------------------------

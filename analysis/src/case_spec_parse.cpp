@@ -19,6 +19,7 @@
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
+#include "sharpey/mesh/tooth_surface.h"
 
 namespace sharpey::analysis {
 
@@ -363,8 +364,73 @@ void read_tooth(Fields t, CaseSpec& spec) {
     tooth.ideal_length_mm = r.number("root_length_mm", tooth.ideal_length_mm);
     r.finish();
   }
+  if (const Json* surface = t.find("surface")) {
+    Fields f(*surface, t.path_of("surface"));
+    if (!f.has("file")) f.missing("file", "\"my_tooth.stl\"");
+    spec.surface.file = f.string("file", "");
+    if (spec.surface.file.empty())
+      throw InputError(f.path_of("file"),
+                       f.path_of("file") + " is empty; name the surface file (STL, PLY or OBJ)");
+    spec.surface.accept_principal_axes = f.boolean("accept_principal_axes", false);
+    if (f.has("landmarks")) {
+      Fields l = f.object("landmarks");
+      mesh::ToothLandmarks m;
+      const std::pair<const char*, Eigen::Vector3d*> points[] = {{"apex", &m.apex},
+                                                                 {"crown_tip", &m.crown_tip},
+                                                                 {"cej_labial", &m.cej_labial},
+                                                                 {"cej_lingual", &m.cej_lingual},
+                                                                 {"cej_mesial", &m.cej_mesial},
+                                                                 {"cej_distal", &m.cej_distal}};
+      for (const auto& [key, target] : points) {
+        const Json* v = l.find(key);
+        if (!v) l.missing(key, "[x, y, z]");
+        *target = read_vector(*v, l.path_of(key));
+      }
+      l.finish();
+      spec.surface.landmarks = m;
+    }
+    f.finish();
+    if (ideal)
+      throw InputError(t.path_of("surface"),
+                       "tooth.surface and tooth.idealised_root exclude each other; remove one");
+    if (t.has("dimensions"))
+      throw InputError(t.path_of("dimensions"),
+                       "tooth.dimensions are measured on the scanned surface (tooth.surface); "
+                       "remove tooth.dimensions");
+  }
   spec.tooth_material = read_material(t.object("material"), spec.tooth_material);
   t.finish();
+}
+
+std::string vector_text(const Eigen::Vector3d& v) {
+  std::ostringstream s;
+  s.precision(3);
+  s << std::fixed << "[" << v.x() << ", " << v.y() << ", " << v.z() << "]";
+  return s.str();
+}
+
+// Imports the scanned surface named by tooth.surface into spec.model.tooth.
+void import_surface(CaseSpec& spec, const std::string& base_folder) {
+  ToothSurfaceSource& src = spec.surface;
+  src.resolved_path =
+      (src.file[0] == '/' || base_folder.empty()) ? src.file : base_folder + "/" + src.file;
+  const std::string key = "tooth.surface";
+  if (!src.landmarks && !src.accept_principal_axes) {
+    const mesh::SurfaceMesh surface = mesh::read_tooth_surface(src.resolved_path, key);
+    const mesh::ToothPlacement p = mesh::principal_axis_proposal(surface);
+    const Eigen::Matrix3d back = p.rotation.transpose();  // tooth -> file directions
+    const Eigen::Vector3d origin = -(back * p.translation);
+    throw InputError(key + ".landmarks",
+                     "tooth.surface has no landmarks. Principal-axis proposal in the file's "
+                     "coordinates: long axis toward the crown " +
+                         vector_text(back.col(2)) + ", CEJ level on it at " + vector_text(origin) +
+                         ", labial toward " + vector_text(back.col(0)) +
+                         " (or the opposite side: check it). Give tooth.surface.landmarks (apex, "
+                         "crown_tip, cej_labial, cej_lingual, cej_mesial, cej_distal), or accept "
+                         "the proposal with \"accept_principal_axes\": true");
+  }
+  spec.model.tooth.scan = mesh::import_tooth_surface(src.resolved_path, src.landmarks, key);
+  spec.model.tooth.dimensions = mesh::scanned_dimensions(*spec.model.tooth.scan);
 }
 
 void read_pdl(Fields p, CaseSpec& spec) {
@@ -650,10 +716,12 @@ CaseSpec read_case(const Json& root) {
 
 }  // namespace
 
-CaseSpec parse_case(const std::string& json_text, const std::string& origin) {
+CaseSpec parse_case(const std::string& json_text, const std::string& origin,
+                    const std::string& base_folder) {
   try {
     const Json root = parse_json(json_text);
     CaseSpec spec = read_case(root);
+    if (!spec.surface.file.empty()) import_surface(spec, base_folder);
     validate_case(spec);
     return spec;
   } catch (const InputError& e) {
@@ -707,6 +775,10 @@ std::string read_case_text(const std::string& path) {
   return text;
 }
 
-CaseSpec load_case(const std::string& path) { return parse_case(read_case_text(path), path); }
+CaseSpec load_case(const std::string& path) {
+  const size_t slash = path.find_last_of('/');
+  return parse_case(read_case_text(path), path,
+                    slash == std::string::npos ? "" : path.substr(0, slash));
+}
 
 }  // namespace sharpey::analysis

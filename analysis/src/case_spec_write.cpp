@@ -31,7 +31,24 @@ Json tooth_json(const CaseSpec& spec) {
   Json dims = Json::object();
   for (const auto& k : case_keys::kDimensionKeys)
     if (tooth.dimensions.*k.field != handbook.*k.field) dims[k.key] = tooth.dimensions.*k.field;
-  if (!dims.empty()) j["dimensions"] = dims;
+  if (!dims.empty() && spec.surface.file.empty()) j["dimensions"] = dims;
+  if (!spec.surface.file.empty()) {
+    Json f;
+    f["file"] = spec.surface.file;
+    if (spec.surface.accept_principal_axes) f["accept_principal_axes"] = true;
+    if (spec.surface.landmarks) {
+      const mesh::ToothLandmarks& l = *spec.surface.landmarks;
+      Json m;
+      m["apex"] = vector_json(l.apex);
+      m["crown_tip"] = vector_json(l.crown_tip);
+      m["cej_labial"] = vector_json(l.cej_labial);
+      m["cej_lingual"] = vector_json(l.cej_lingual);
+      m["cej_mesial"] = vector_json(l.cej_mesial);
+      m["cej_distal"] = vector_json(l.cej_distal);
+      f["landmarks"] = m;
+    }
+    j["surface"] = f;
+  }
   if (tooth.ideal_root != mesh::IdealRoot::kNone) {
     Json r;
     r["shape"] = case_keys::ideal_root_name(tooth.ideal_root);

@@ -1,9 +1,8 @@
 // results.json: the machine-readable report of a solved case. The key names documented as fixed
 // in docs/case-format.md are read by outside tools: keep them.
-#include <nlohmann/json.hpp>
-
 #include <cmath>
 #include <initializer_list>
+#include <nlohmann/json.hpp>
 #include <utility>
 
 #include "sharpey/analysis/report_output.h"
@@ -16,7 +15,9 @@ using Json = nlohmann::ordered_json;
 
 // JSON has no NaN or infinity: write null instead.
 Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }
-Json vec(const Eigen::Vector3d& v) { return Json::array({number(v.x()), number(v.y()), number(v.z())}); }
+Json vec(const Eigen::Vector3d& v) {
+  return Json::array({number(v.x()), number(v.y()), number(v.z())});
+}
 // -1 marks "not available" in ScenarioResult's equivalent forces.
 Json optional_force(double g) { return g >= 0 ? number(g) : Json(nullptr); }
 
@@ -120,11 +121,11 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
                   {"cres_from_crest_mm", cres.from_crest_mm},
                   {"cres_fraction_embedded", cres.fraction_embedded},
                   {"mf_translation_mm", r.mf_translation_mm}});
-  j["pdl_pressure_kpa"] = {{"max_compression", number(r.pressure_max_compression_kpa)},
-                           {"max_tension", number(r.pressure_max_tension_kpa)},
-                           {"p95_compression", number(r.pressure_p95_compression_kpa)},
-                           {"max_compression_crest_edge",
-                            number(r.pressure_max_compression_crest_edge_kpa)}};
+  j["pdl_pressure_kpa"] = {
+      {"max_compression", number(r.pressure_max_compression_kpa)},
+      {"max_tension", number(r.pressure_max_tension_kpa)},
+      {"p95_compression", number(r.pressure_p95_compression_kpa)},
+      {"max_compression_crest_edge", number(r.pressure_max_compression_crest_edge_kpa)}};
   put_numbers(j, {{"area_above_capillary_mm2", r.area_above_capillary_mm2},
                   {"area_above_limit_mm2", r.area_above_limit_mm2},
                   {"max_principal_strain", r.max_principal_strain},
@@ -166,10 +167,11 @@ Json scenario_json(const CaseSpec& spec, const ScenarioResult& r, const Scenario
       {"beyond", r.beyond_linear_range},
       {"volume_beyond_percent", number(r.volume_beyond_linear_range_percent)},
       {"note", beyond_linear_range_text(r)}};
-  j["equivalent_force"] = {{"same_peak_g", optional_force(r.equivalent_force_peak_g)},
-                           {"same_p95_g", optional_force(r.equivalent_force_p95_g)},
-                           {"attachment_area_rule_g", optional_force(r.equivalent_force_area_rule_g)},
-                           {"applied_g", number(from_newton(spec.load.force_n(), ForceUnit::kGram))}};
+  j["equivalent_force"] = {
+      {"same_peak_g", optional_force(r.equivalent_force_peak_g)},
+      {"same_p95_g", optional_force(r.equivalent_force_p95_g)},
+      {"attachment_area_rule_g", optional_force(r.equivalent_force_area_rule_g)},
+      {"applied_g", number(from_newton(spec.load.force_n(), ForceUnit::kGram))}};
   j["load"] = {{"force_n", vec(r.load.force_n)},
                {"force_g", number(from_newton(r.load.force_n.norm(), ForceUnit::kGram))},
                {"moment_nmm", vec(r.load.moment_nmm)},
@@ -197,7 +199,7 @@ CresDirection cres_direction_for(const ResolvedLoad& load) {
 
 const CentreOfResistance& cres_for(const ScenarioResult& result) {
   return cres_direction_for(result.load) == CresDirection::kMesiodistal ? result.cres_mesiodistal
-                                                                         : result.cres_labiolingual;
+                                                                        : result.cres_labiolingual;
 }
 
 std::vector<ScenarioFacts> scenario_facts(const Study& study, bool measure_mesh) {
@@ -218,14 +220,16 @@ std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>
   j["units"] = {{"length", "mm (keys ending _mm)"},
                 {"area", "mm^2 (keys ending _mm2)"},
                 {"displacement", "micrometre (keys ending _um)"},
-                {"pressure", "kPa (keys ending _kpa); hydrostatic pressure p = -trace(stress)/3, "
-                             "compression positive"},
+                {"pressure",
+                 "kPa (keys ending _kpa); hydrostatic pressure p = -trace(stress)/3, "
+                 "compression positive"},
                 {"force", "N (keys ending _n) or grams-force (keys ending _g; 1 g = 0.00980665 N)"},
                 {"moment", "N.mm (keys ending _nmm)"},
                 {"angle", "degree (keys ending _deg)"},
                 {"strain", "dimensionless (mm/mm)"},
-                {"coordinates", "tooth system: origin on the long axis at the CEJ, x labial, "
-                                "y mesial, z toward the crown"}};
+                {"coordinates",
+                 "tooth system: origin on the long axis at the CEJ, x labial, "
+                 "y mesial, z toward the crown"}};
   Json sources = Json::array();
   for (const SourcedValue& s : value_sources(spec))
     sources.push_back({{"quantity", s.quantity},
@@ -233,11 +237,17 @@ std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>
                        {"unit", s.unit},
                        {"source", s.source}});
   j["sources"] = sources;
-  j["thresholds"] = {
-      {"capillary_kpa", number(spec.thresholds.capillary.value_kpa)},
-      {"capillary_source", spec.thresholds.capillary.source},
-      {"limit_kpa", number(spec.thresholds.limit.value_kpa)},
-      {"limit_source", spec.thresholds.limit.source}};
+  if (const auto& scan = spec.model.tooth.scan) {
+    // The scanned surface by name and checksum only: no patient data is copied into outputs.
+    j["tooth_surface"] = {
+        {"file", spec.surface.file},
+        {"sha256", scan->source_sha256},
+        {"placement", spec.surface.landmarks ? "landmarks" : "principal axes (accepted)"}};
+  }
+  j["thresholds"] = {{"capillary_kpa", number(spec.thresholds.capillary.value_kpa)},
+                     {"capillary_source", spec.thresholds.capillary.source},
+                     {"limit_kpa", number(spec.thresholds.limit.value_kpa)},
+                     {"limit_source", spec.thresholds.limit.source}};
   Json scenarios = Json::array();
   for (size_t i = 0; i < results.size(); ++i) {
     const ScenarioFacts* f = i < facts.size() ? &facts[i] : nullptr;
@@ -251,9 +261,14 @@ std::string mesh_statistics_json(const CaseSpec& spec, const std::vector<Scenari
   Json j = report_head(spec);
   j["units"] = {{"length", "mm"}, {"area", "mm^2"}, {"volume", "mm^3"}, {"angle", "degree"}};
   j["regions"] = {{"1", "tooth"}, {"2", "PDL"}, {"3", "cortical bone"}, {"4", "cancellous bone"}};
-  j["face_markers"] = {{"1", "root surface (PDL inner)"}, {"2", "socket surface (PDL outer)"},
-                       {"3", "crown surface"}, {"4", "bracket pad"}, {"5", "fixed bone"},
-                       {"6", "exposed root"}, {"7", "free bone"}, {"8", "PDL crest"},
+  j["face_markers"] = {{"1", "root surface (PDL inner)"},
+                       {"2", "socket surface (PDL outer)"},
+                       {"3", "crown surface"},
+                       {"4", "bracket pad"},
+                       {"5", "fixed bone"},
+                       {"6", "exposed root"},
+                       {"7", "free bone"},
+                       {"8", "PDL crest"},
                        {"9", "other"}};
   Json scenarios = Json::array();
   for (size_t i = 0; i < facts.size(); ++i) {

@@ -56,8 +56,8 @@ std::string direction_words(const LoadSpec& load) {
 std::string force_system_words(const CaseSpec& spec) {
   const LoadSpec& load = spec.load;
   std::ostringstream s;
-  s << fixed(load.magnitude, 1) << ' ' << to_string(load.unit) << " ("
-    << fixed(load.force_n(), 3) << " N) " << direction_words(load);
+  s << fixed(load.magnitude, 1) << ' ' << to_string(load.unit) << " (" << fixed(load.force_n(), 3)
+    << " N) " << direction_words(load);
   if (load.bracket_height_mm >= 0)
     s << ", applied " << fixed(load.bracket_height_mm, 1) << " mm above the CEJ";
   else
@@ -100,9 +100,9 @@ std::string reading(const CaseSpec& spec, const ScenarioResult& r, bool is_refer
     s << "stays below capillary pressure (" << fixed(capillary, 1) << " kPa).";
   if (!is_reference && r.equivalent_force_peak_g >= 0)
     s << " The same peak as the reference scenario needs about "
-      << fixed(r.equivalent_force_peak_g, 0) << " g (same 95th percentile: "
-      << fixed(r.equivalent_force_p95_g, 0) << " g; attachment-area rule: "
-      << fixed(r.equivalent_force_area_rule_g, 0) << " g).";
+      << fixed(r.equivalent_force_peak_g, 0)
+      << " g (same 95th percentile: " << fixed(r.equivalent_force_p95_g, 0)
+      << " g; attachment-area rule: " << fixed(r.equivalent_force_area_rule_g, 0) << " g).";
   if (r.beyond_linear_range) s << " " << beyond_linear_range_text(r);
   return s.str();
 }
@@ -118,13 +118,20 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
 
   const mesh::ToothSpec& tooth = spec.model.tooth;
   out << "Tooth:      ";
-  if (tooth.ideal_root == mesh::IdealRoot::kNone)
-    out << spaced(mesh::to_string(tooth.type)) << ", root " << fixed(tooth.dimensions.root_length_mm, 1)
-        << " mm (taper fullness " << fixed(tooth.dimensions.root_taper_fullness, 2)
-        << "), crown " << fixed(tooth.dimensions.crown_length_mm, 1) << " mm\n";
+  if (tooth.scan)
+    out << "scanned surface " << spec.surface.file << " (SHA-256 " << tooth.scan->source_sha256
+        << "), " << spaced(mesh::to_string(tooth.type)) << ", root "
+        << fixed(tooth.dimensions.root_length_mm, 1) << " mm, crown "
+        << fixed(tooth.dimensions.crown_length_mm, 1) << " mm, placed by "
+        << (spec.surface.landmarks ? "landmarks" : "the accepted principal axes") << "\n";
+  else if (tooth.ideal_root == mesh::IdealRoot::kNone)
+    out << spaced(mesh::to_string(tooth.type)) << ", root "
+        << fixed(tooth.dimensions.root_length_mm, 1) << " mm (taper fullness "
+        << fixed(tooth.dimensions.root_taper_fullness, 2) << "), crown "
+        << fixed(tooth.dimensions.crown_length_mm, 1) << " mm\n";
   else
-    out << "idealised root, radius " << fixed(tooth.ideal_radius_mm, 2) << " mm at the crest, length "
-        << fixed(tooth.ideal_length_mm, 1) << " mm\n";
+    out << "idealised root, radius " << fixed(tooth.ideal_radius_mm, 2)
+        << " mm at the crest, length " << fixed(tooth.ideal_length_mm, 1) << " mm\n";
   const mesh::PdlSpec& pdl = spec.model.pdl;
   out << "PDL:        width " << fixed(pdl.crest_width_mm, 2) << " / " << fixed(pdl.mid_width_mm, 2)
       << " / " << fixed(pdl.apex_width_mm, 2) << " mm (crest / mid-root / apex), E "
@@ -157,7 +164,8 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
        [](const ScenarioResult& r) { return fixed(100.0 * cres_for(r).fraction_embedded, 1); }},
       {"M/F for translation (mm)",
        [](const ScenarioResult& r) { return fixed(r.mf_translation_mm, 2); }},
-      {"applied M/F (mm)", [](const ScenarioResult& r) { return fixed(r.load.moment_to_force_mm, 2); }},
+      {"applied M/F (mm)",
+       [](const ScenarioResult& r) { return fixed(r.load.moment_to_force_mm, 2); }},
       {"peak compression (kPa)",
        [](const ScenarioResult& r) { return fixed(r.pressure_max_compression_kpa, 2); }},
       {"95th pct compression (kPa)",
@@ -166,7 +174,8 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
        [](const ScenarioResult& r) { return fixed(r.pressure_max_tension_kpa, 2); }},
       {"area > capillary (mm^2)",
        [](const ScenarioResult& r) { return fixed(r.area_above_capillary_mm2, 2); }},
-      {"area > limit (mm^2)", [](const ScenarioResult& r) { return fixed(r.area_above_limit_mm2, 2); }},
+      {"area > limit (mm^2)",
+       [](const ScenarioResult& r) { return fixed(r.area_above_limit_mm2, 2); }},
       {"max principal strain (%)",
        [](const ScenarioResult& r) { return fixed(100.0 * r.max_principal_strain, 3); }},
       {"max |principal strain| (%)",
@@ -203,10 +212,11 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
     out << "\n";
   }
   out << "\n";
-  out << "CRes: " << (results.empty() || cres_direction_for(results.front().load) ==
-                                                 CresDirection::kLabiolingual
-                          ? "for labiolingual forces"
-                          : "for mesiodistal forces")
+  out << "CRes: "
+      << (results.empty() ||
+                  cres_direction_for(results.front().load) == CresDirection::kLabiolingual
+              ? "for labiolingual forces"
+              : "for mesiodistal forces")
       << ", measured along the long axis from the alveolar crest.\n";
   out << "Pressure: PDL hydrostatic pressure, compression positive.\n\n";
 

@@ -58,12 +58,18 @@ void check_out_dir(const CommonOptions& options) {
                                   (out / "results").string());
 }
 
+// The folder a tooth.surface file is relative to: the case file's.
+std::string case_folder(const CommonOptions& options) {
+  return std::filesystem::path(options.case_path).parent_path().string();
+}
+
 // The case file's text with the command-line overrides applied.
 std::string case_text(const CommonOptions& options) {
   check_out_dir(options);
   std::string text = analysis::read_case_text(options.case_path);
   if (!options.mesh_preset.empty()) {
-    analysis::parse_case(text, options.case_path);  // report the file's own errors first
+    analysis::parse_case(text, options.case_path,
+                         case_folder(options));  // report the file's own errors first
     text = analysis::set_case_value(text, "mesh.preset", options.mesh_preset);
   }
   return text;
@@ -107,7 +113,8 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  const CaseSpec spec =
+      analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") + ", " +
                 mesh::to_string(spec.model.sizing.preset) + " mesh");
@@ -148,7 +155,14 @@ void run_command(const CommonOptions& options) {
                               analysis::results_json(spec, results, facts));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
   analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
-  analysis::save_case(spec, out.path("case.json"));
+  {
+    // The copy of the case lives in another folder: a scanned surface is named by its absolute
+    // path there, so that the copy runs as it stands.
+    CaseSpec copy = spec;
+    if (!copy.surface.file.empty())
+      copy.surface.file = std::filesystem::absolute(copy.surface.resolved_path).string();
+    analysis::save_case(copy, out.path("case.json"));
+  }
   written.insert(written.begin(), {"results.json", "summary.csv", "summary.txt", "case.json"});
   pause_after_write();
   stop_if_interrupted();
@@ -218,13 +232,16 @@ SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
   if (!sweep.design_path.empty()) {
     const analysis::StudyDesign design = analysis::parse_study_design(
         analysis::read_case_text(sweep.design_path), sweep.design_path);
-    analysis::parse_case(base_text, options.case_path);  // report the case's own errors first
+    analysis::parse_case(base_text, options.case_path,
+                         case_folder(options));  // report the case's own errors first
     base_text = analysis::apply_study_design(base_text, design);
     variations = design.variations;
   }
   plan.base = analysis::parse_case(
-      base_text, sweep.design_path.empty() ? options.case_path
-                                           : options.case_path + " with " + sweep.design_path);
+      base_text,
+      sweep.design_path.empty() ? options.case_path
+                                : options.case_path + " with " + sweep.design_path,
+      case_folder(options));
 
   for (const std::string& v : sweep.vary) {
     analysis::CaseVariation parsed = analysis::parse_variation(v);
@@ -271,7 +288,8 @@ SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
       description += (description.empty() ? "" : ", ") + variations[k].key + "=" + value;
     }
     try {
-      combo.spec = analysis::parse_case(text, options.case_path + " with " + description);
+      combo.spec = analysis::parse_case(text, options.case_path + " with " + description,
+                                        case_folder(options));
     } catch (const InputError& e) {
       throw InputError(e.key(), std::string(e.what()) + (sweep.design_path.empty()
                                                              ? " (from --vary)"
@@ -455,7 +473,8 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
 
 void mesh_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  const CaseSpec spec =
+      analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   analysis::StagedFolder out(options.out_dir);
   std::vector<analysis::ScenarioFacts> facts;
   std::vector<std::string> written = {"mesh_statistics.json"};

@@ -57,20 +57,40 @@ void validate(const ModelSpec& spec) {
   const ToothSpec& tooth = spec.tooth;
   const auto types = all_tooth_types();
   if (std::find(types.begin(), types.end(), tooth.type) == types.end()) {
-    throw InputError("tooth.type", "unknown tooth type value " +
-                                       std::to_string(static_cast<int>(tooth.type)));
+    throw InputError("tooth.type",
+                     "unknown tooth type value " + std::to_string(static_cast<int>(tooth.type)));
   }
   const ToothDimensions& d = tooth.dimensions;
-  const std::string dims = "tooth.dimensions.";
+  // A scanned tooth's dimensions are measured on the surface (scanned_dimensions()); out-of-range
+  // values name the surface key.
+  const std::string dims = tooth.scan ? "tooth.surface.measured_" : "tooth.dimensions.";
+  if (tooth.scan) {
+    const ToothDimensions m = scanned_dimensions(*tooth.scan);
+    if (m.root_length_mm != d.root_length_mm || m.crown_length_mm != d.crown_length_mm ||
+        m.cervix_labiolingual_mm != d.cervix_labiolingual_mm ||
+        m.cervix_mesiodistal_mm != d.cervix_mesiodistal_mm ||
+        m.crown_labiolingual_mm != d.crown_labiolingual_mm ||
+        m.crown_mesiodistal_mm != d.crown_mesiodistal_mm) {
+      throw InputError("tooth.dimensions",
+                       "the dimensions of a scanned tooth are measured on its surface (root " +
+                           fmt(m.root_length_mm) + " mm, crown " + fmt(m.crown_length_mm) +
+                           " mm) and cannot be set; remove tooth.dimensions or tooth.surface");
+    }
+  }
+  if (tooth.scan && tooth.ideal_root != IdealRoot::kNone) {
+    throw InputError("tooth.ideal_root",
+                     "a scanned tooth surface and an idealised root exclude "
+                     "each other; remove tooth.ideal_root or tooth.surface");
+  }
   const std::string anat = "outside the range of human single-rooted teeth";
   check_range(dims + "crown_length_mm", "crown length", d.crown_length_mm, 3, 16, "mm", anat);
   check_range(dims + "root_length_mm", "root length", d.root_length_mm, 5, 25, "mm", anat);
   check_range(dims + "crown_mesiodistal_mm", "mesiodistal crown width", d.crown_mesiodistal_mm, 2,
               14, "mm", anat);
-  check_range(dims + "cervix_mesiodistal_mm", "mesiodistal cervical width",
-              d.cervix_mesiodistal_mm, 1.5, 12, "mm", anat);
-  check_range(dims + "crown_labiolingual_mm", "labiolingual crown width",
-              d.crown_labiolingual_mm, 2, 14, "mm", anat);
+  check_range(dims + "cervix_mesiodistal_mm", "mesiodistal cervical width", d.cervix_mesiodistal_mm,
+              1.5, 12, "mm", anat);
+  check_range(dims + "crown_labiolingual_mm", "labiolingual crown width", d.crown_labiolingual_mm,
+              2, 14, "mm", anat);
   check_range(dims + "cervix_labiolingual_mm", "labiolingual cervical width",
               d.cervix_labiolingual_mm, 1.5, 12, "mm", anat);
   check_range(dims + "cej_curvature_mesial_mm", "mesial CEJ curvature", d.cej_curvature_mesial_mm,
@@ -98,10 +118,9 @@ void validate(const ModelSpec& spec) {
       root_length = tooth.ideal_length_mm;
       break;
     default:
-      throw InputError("tooth.ideal_root",
-                       "unknown idealised root value " +
-                           std::to_string(static_cast<int>(tooth.ideal_root)) +
-                           "; use none, cylinder, cone or paraboloid");
+      throw InputError("tooth.ideal_root", "unknown idealised root value " +
+                                               std::to_string(static_cast<int>(tooth.ideal_root)) +
+                                               "; use none, cylinder, cone or paraboloid");
   }
 
   const std::string pdl_why =
@@ -114,8 +133,8 @@ void validate(const ModelSpec& spec) {
                        "mm", pdl_why);
 
   const BoneSpec& b = spec.bone;
-  check_range("bone.crest_below_cej_mm", "healthy crest depth below the CEJ",
-              b.crest_below_cej_mm, 0.25, std::min(5.0, root_length - kMinEmbeddedMm), "mm",
+  check_range("bone.crest_below_cej_mm", "healthy crest depth below the CEJ", b.crest_below_cej_mm,
+              0.25, std::min(5.0, root_length - kMinEmbeddedMm), "mm",
               "a healthy crest lies about 1 to 2 mm below the CEJ, and at least " +
                   fmt(kMinEmbeddedMm) + " mm of the " + fmt(root_length) +
                   " mm root must stay embedded");
@@ -138,7 +157,8 @@ void validate(const ModelSpec& spec) {
                          " mm is not less than the " + (labial ? "labial" : "lingual") +
                          " plate thickness " + fmt(thinnest_plate) +
                          " mm: the cancellous core must lie inside the plates; use a cortical "
-                         "thickness below " + fmt(thinnest_plate) + " mm or thicker plates");
+                         "thickness below " +
+                         fmt(thinnest_plate) + " mm or thicker plates");
   }
 
   const BoneLoss& loss = spec.loss;
@@ -148,20 +168,23 @@ void validate(const ModelSpec& spec) {
                                                " mm is negative; use 0 for a healthy crest");
   }
   if (loss.horizontal_mm > max_horizontal) {
-    throw InputError(
-        "loss.horizontal_mm",
-        "bone loss " + fmt(loss.horizontal_mm) + " mm leaves no embedded root: the root of this "
-        "tooth is " + fmt(root_length) + " mm long and the healthy crest lies " +
-            fmt(b.crest_below_cej_mm) + " mm below the CEJ; use at most " + fmt(max_horizontal) +
-            " mm (at least " + fmt(kMinEmbeddedMm) + " mm of root must stay embedded)");
+    throw InputError("loss.horizontal_mm",
+                     "bone loss " + fmt(loss.horizontal_mm) +
+                         " mm leaves no embedded root: the root of this "
+                         "tooth is " +
+                         fmt(root_length) + " mm long and the healthy crest lies " +
+                         fmt(b.crest_below_cej_mm) + " mm below the CEJ; use at most " +
+                         fmt(max_horizontal) + " mm (at least " + fmt(kMinEmbeddedMm) +
+                         " mm of root must stay embedded)");
   }
   const double embedded = root_length - b.crest_below_cej_mm - loss.horizontal_mm;
   if (b.cortical_thickness_mm > embedded - kMinBelowCorticalMm) {
-    throw InputError("bone.cortical_thickness_mm",
-                     "cortical thickness " + fmt(b.cortical_thickness_mm) +
-                         " mm leaves too little root in the cancellous bone: the embedded root is " +
-                         fmt(embedded) + " mm long; use a cortical thickness of at most " +
-                         fmt(embedded - kMinBelowCorticalMm) + " mm or less bone loss");
+    throw InputError(
+        "bone.cortical_thickness_mm",
+        "cortical thickness " + fmt(b.cortical_thickness_mm) +
+            " mm leaves too little root in the cancellous bone: the embedded root is " +
+            fmt(embedded) + " mm long; use a cortical thickness of at most " +
+            fmt(embedded - kMinBelowCorticalMm) + " mm or less bone loss");
   }
   if (!(loss.defect_depth_mm >= 0)) {
     throw InputError("loss.defect_depth_mm", "angular defect depth " + fmt(loss.defect_depth_mm) +
@@ -171,14 +194,14 @@ void validate(const ModelSpec& spec) {
     const double max_defect = std::min(embedded - kMinEmbeddedMm,
                                        embedded - b.cortical_thickness_mm - kMinBelowCorticalMm);
     if (loss.defect_depth_mm > max_defect) {
-      throw InputError(
-          "loss.defect_depth_mm",
-          "angular defect depth " + fmt(loss.defect_depth_mm) +
-              " mm is deeper than the remaining root allows: after " + fmt(loss.horizontal_mm) +
-              " mm horizontal loss the embedded root is " + fmt(embedded) +
-              " mm long, and at least " + fmt(kMinEmbeddedMm) +
-              " mm (and the cortical layer plus " + fmt(kMinBelowCorticalMm) +
-              " mm) must stay attached; use at most " + fmt(std::max(0.0, max_defect)) + " mm");
+      throw InputError("loss.defect_depth_mm",
+                       "angular defect depth " + fmt(loss.defect_depth_mm) +
+                           " mm is deeper than the remaining root allows: after " +
+                           fmt(loss.horizontal_mm) + " mm horizontal loss the embedded root is " +
+                           fmt(embedded) + " mm long, and at least " + fmt(kMinEmbeddedMm) +
+                           " mm (and the cortical layer plus " + fmt(kMinBelowCorticalMm) +
+                           " mm) must stay attached; use at most " +
+                           fmt(std::max(0.0, max_defect)) + " mm");
     }
     check_range("loss.defect_width_deg", "angular defect width", loss.defect_width_deg, 20, 180,
                 "deg", "an angular defect spans part of the root's circumference");
@@ -203,21 +226,21 @@ void validate(const ModelSpec& spec) {
   const double crown_width = 2 * shape.section(shape.s_of_z(0.5 * body_top)).b;
   check_range("bracket.width_mm", "bracket pad width", br.width_mm, 0.5,
               std::floor(0.8 * crown_width * 10) / 10, "mm",
-              "the pad must fit on the labial face of the crown (" + fmt(std::round(crown_width * 10) / 10) +
-                  " mm wide)");
+              "the pad must fit on the labial face of the crown (" +
+                  fmt(std::round(crown_width * 10) / 10) + " mm wide)");
   check_range("bracket.length_mm", "bracket pad length", br.length_mm, 0.5,
               std::floor((body_top - 0.5) * 10) / 10, "mm",
               "the pad must fit between the CEJ and the incisal or occlusal rounding");
   const double centre = br.height_mm < 0 ? 0.5 * shape.crown_length() : br.height_mm;
   const double lo = 0.5 + 0.5 * br.length_mm, hi = body_top - 0.5 * br.length_mm;
   if (!std::isfinite(br.height_mm) || centre < lo || centre > hi) {
-    throw InputError(
-        "bracket.height_mm",
-        "bracket pad centred " + fmt(centre) + " mm above the CEJ is off the crown: a " +
-            fmt(br.length_mm) + " mm pad must lie between 0.5 mm above the CEJ and " +
-            fmt(body_top) + " mm, where the incisal or occlusal rounding begins (crown length " +
-            fmt(shape.crown_length()) + " mm); use a height between " + fmt(lo) + " and " +
-            fmt(hi) + " mm (or -1 for mid-crown)");
+    throw InputError("bracket.height_mm",
+                     "bracket pad centred " + fmt(centre) +
+                         " mm above the CEJ is off the crown: a " + fmt(br.length_mm) +
+                         " mm pad must lie between 0.5 mm above the CEJ and " + fmt(body_top) +
+                         " mm, where the incisal or occlusal rounding begins (crown length " +
+                         fmt(shape.crown_length()) + " mm); use a height between " + fmt(lo) +
+                         " and " + fmt(hi) + " mm (or -1 for mid-crown)");
   }
 
   const MeshSizing& z = spec.sizing;

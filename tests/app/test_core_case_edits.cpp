@@ -149,3 +149,23 @@ INSTANTIATE_TEST_SUITE_P(
 
 }  // namespace
 }  // namespace sharpey::app
+
+namespace sharpey::app {
+namespace {
+
+// The invented sample scan opens in the app's session with its surface; choosing a tooth from
+// the list replaces the scan by that tooth's handbook surface (no stale scan left behind).
+TEST(ScannedToothCase, OpensAndChoosingATypeDropsTheScan) {
+  CaseSession session;
+  session.open(QString::fromStdString(std::string(SHARPEY_SOURCE_DIR) +
+                                      "/samples/invented_scan_maxillary_canine.json"));
+  ASSERT_TRUE(session.spec().model.tooth.scan);
+  EXPECT_EQ(session.spec().surface.file, "invented_scan_maxillary_canine.stl");
+  session.set_tooth(mesh::ToothType::kMaxillaryCanine);
+  EXPECT_FALSE(session.spec().model.tooth.scan);
+  EXPECT_TRUE(session.spec().surface.file.empty());
+  EXPECT_TRUE(session.geometry_stale());
+}
+
+}  // namespace
+}  // namespace sharpey::app

@@ -67,6 +67,18 @@ put("valid_moment", mutated("load.couple", {"moment": [0, 800, 0], "unit": "cN.m
 put("valid_profile", mutated("pdl", {"width_profile_mm": {"crest": 0.2, "mid_root": 0.15,
                                                            "apex": 0.2}}))
 
+# Scanned tooth surfaces (tooth.surface): every one refused before or while reading the file.
+LANDMARKS = {"apex": [0, 0, -13], "crown_tip": [0, 0, 10.5], "cej_labial": [3.5, 0, 0],
+             "cej_lingual": [-3.5, 0, 0], "cej_mesial": [0, 3.2, 0], "cej_distal": [0, -3.2, 0]}
+put("surface_missing_file", mutated("tooth.surface", {"file": "no_such_tooth.stl",
+                                                      "landmarks": LANDMARKS}))
+put("surface_no_landmarks", mutated("tooth.surface", {"file": "no_such_tooth.stl"}))
+put("surface_device", mutated("tooth.surface", {"file": "/dev/zero", "landmarks": LANDMARKS}))
+put("surface_folder", mutated("tooth.surface", {"file": "/", "accept_principal_axes": True}))
+put("surface_bad_landmark", mutated("tooth.surface", {"file": "t.stl", "landmarks": {"apex": [0, 0]}}))
+put("surface_no_file", mutated("tooth.surface", {"landmarks": LANDMARKS}))
+put("surface_type", mutated("tooth.surface", "tooth.stl"))
+
 # Wrong types at every level.
 type_values = {"string": "\"x\"", "array": [1, 2], "object": {"a": 1}, "null": None,
                "bool": True, "number": 3}

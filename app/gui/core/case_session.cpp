@@ -168,10 +168,15 @@ void CaseSession::set_label(const QString& label) {
 }
 
 void CaseSession::set_tooth(mesh::ToothType type) {
-  if (type == spec_.model.tooth.type && spec_.model.tooth.ideal_root == mesh::IdealRoot::kNone) return;
+  if (type == spec_.model.tooth.type && spec_.model.tooth.ideal_root == mesh::IdealRoot::kNone &&
+      !spec_.model.tooth.scan)
+    return;
   spec_.model.tooth.type = type;
   spec_.model.tooth.dimensions = mesh::handbook_dimensions(type);
   spec_.model.tooth.ideal_root = mesh::IdealRoot::kNone;
+  // Choosing a tooth from the list means its handbook surface: a scanned surface is dropped.
+  spec_.model.tooth.scan.reset();
+  spec_.surface = analysis::ToothSurfaceSource{};
   geometry_edit();
 }
 

@@ -130,20 +130,26 @@ void footer(QPainter& p, const QRect& page, int number, const QString& case_file
 
 QString describe_case(const analysis::CaseSpec& s) {
   const auto& m = s.model;
-  return QStringLiteral("%1; crown %2, root %3 (taper fullness %11); PDL width %4 / %5 / %6 mm "
-                        "(crest / mid-root / apex), E %7 MPa, \u03bd %8; healthy crest %9 below the "
-                        "CEJ; mesh preset %10.")
-      .arg(tooth_name(static_cast<int>(m.tooth.type)))
-      .arg(with_unit(m.tooth.dimensions.crown_length_mm, QStringLiteral("mm"), 1))
-      .arg(with_unit(m.tooth.dimensions.root_length_mm, QStringLiteral("mm"), 1))
-      .arg(m.pdl.crest_width_mm, 0, 'f', 2)
-      .arg(m.pdl.mid_width_mm, 0, 'f', 2)
-      .arg(m.pdl.apex_width_mm, 0, 'f', 2)
-      .arg(s.pdl_material.young_modulus_mpa, 0, 'f', 2)
-      .arg(s.pdl_material.poisson_ratio, 0, 'f', 2)
-      .arg(with_unit(m.bone.crest_below_cej_mm, QStringLiteral("mm"), 1))
-      .arg(QString::fromStdString(mesh::to_string(m.sizing.preset)))
-      .arg(m.tooth.dimensions.root_taper_fullness, 0, 'f', 2);
+  // A scanned tooth is named by its file and checksum only (no surface data in the report).
+  const QString scan = m.tooth.scan ? QStringLiteral("Scanned surface %1 (SHA-256 %2); ")
+                                          .arg(QString::fromStdString(s.surface.file),
+                                               QString::fromStdString(m.tooth.scan->source_sha256))
+                                    : QString();
+  return scan + QStringLiteral(
+                    "%1; crown %2, root %3 (taper fullness %11); PDL width %4 / %5 / %6 mm "
+                    "(crest / mid-root / apex), E %7 MPa, \u03bd %8; healthy crest %9 below the "
+                    "CEJ; mesh preset %10.")
+                    .arg(tooth_name(static_cast<int>(m.tooth.type)))
+                    .arg(with_unit(m.tooth.dimensions.crown_length_mm, QStringLiteral("mm"), 1))
+                    .arg(with_unit(m.tooth.dimensions.root_length_mm, QStringLiteral("mm"), 1))
+                    .arg(m.pdl.crest_width_mm, 0, 'f', 2)
+                    .arg(m.pdl.mid_width_mm, 0, 'f', 2)
+                    .arg(m.pdl.apex_width_mm, 0, 'f', 2)
+                    .arg(s.pdl_material.young_modulus_mpa, 0, 'f', 2)
+                    .arg(s.pdl_material.poisson_ratio, 0, 'f', 2)
+                    .arg(with_unit(m.bone.crest_below_cej_mm, QStringLiteral("mm"), 1))
+                    .arg(QString::fromStdString(mesh::to_string(m.sizing.preset)))
+                    .arg(m.tooth.dimensions.root_taper_fullness, 0, 'f', 2);
 }
 
 }  // namespace

@@ -88,6 +88,7 @@ double crest_height(const ModelSpec& spec) {
 }
 
 double apex_height(const ModelSpec& spec) {
+  if (spec.tooth.scan) return spec.tooth.scan->apex_z_mm;
   return spec.tooth.ideal_root == IdealRoot::kNone ? -spec.tooth.dimensions.root_length_mm
                                                    : -spec.tooth.ideal_length_mm;
 }

@@ -38,10 +38,47 @@ CrownProportions crown_proportions(ToothType type) {
   }
 }
 
+// Catmull-Rom interpolation of samples p(0..n-1) at fractional index t, with breaks at 0, `mid`
+// and n - 1 beyond which the neighbour is extrapolated linearly (one-sided): value and d/dt.
+template <class F>
+void catmull_rom(const F& p, int n, int mid, double t, double* v, double* dv) {
+  const int i = std::clamp(static_cast<int>(std::floor(t)), 0, n - 2);
+  const double f = t - i;
+  const int lo = i < mid ? 0 : mid, hi = i < mid ? mid : n - 1;
+  const double p1 = p(i), p2 = p(i + 1);
+  const double p0 = i - 1 >= lo ? p(i - 1) : 2 * p1 - p2;
+  const double p3 = i + 2 <= hi ? p(i + 2) : 2 * p2 - p1;
+  const double c1 = -p0 + p2, c2 = 2 * p0 - 5 * p1 + 4 * p2 - p3, c3 = -p0 + 3 * p1 - 3 * p2 + p3;
+  *v = 0.5 * (2 * p1 + f * (c1 + f * (c2 + f * c3)));
+  if (dv) *dv = 0.5 * (c1 + f * (2 * c2 + 3 * f * c3));
+}
+
+double lift(double, double v, double) { return v; }
+Dual2 lift(const Dual2& s, double v, double dv_ds) { return chain(s, v, dv_ds); }
+
 }  // namespace
 
 ToothShape::ToothShape(const ToothSpec& tooth, double healthy_crest_depth_mm)
     : ideal_(tooth.ideal_root) {
+  if (tooth.scan) {
+    scan_owner_ = tooth.scan;
+    scan_ = scan_owner_.get();
+    root_length_ = -scan_->apex_z_mm;
+    crown_length_ = scan_->tip_z_mm;
+    // The bracket pad must stay below the incisal or occlusal rounding: the top fifth of the
+    // crown is treated as that rounding.
+    crown_body_top_ = 0.8 * crown_length_;
+    crown_cap_ = crown_length_ - crown_body_top_;
+    s_cap_ = 1.0 - std::sqrt(0.2);
+    scan_mean_.resize(scan_->n_z);
+    for (int i = 0; i < scan_->n_z; ++i) {
+      double sum = 0;
+      for (int j = 0; j < scan_->n_theta; ++j) sum += scan_->radius(i, j);
+      scan_mean_[i] = sum / scan_->n_theta;
+    }
+    init_arc_table();
+    return;
+  }
   const ToothDimensions& d = tooth.dimensions;
   crown_length_ = d.crown_length_mm;
   double crown_radius = 0;  // idealised crown: cylinder radius
@@ -109,7 +146,10 @@ ToothShape::ToothShape(const ToothSpec& tooth, double healthy_crest_depth_mm)
   crown_body_top_ = crown_length_ - crown_cap_;
   // Match the parameter speed of body and cap at their joint.
   s_cap_ = crown_body_top_ / (crown_body_top_ + crown_cap_ * kPi / 2);
+  init_arc_table();
+}
 
+void ToothShape::init_arc_table() {
   arc_.resize(kArcIntervals + 1);
   arc_[0] = 0;
   auto mean_meridian = [this](double s) {
@@ -185,7 +225,54 @@ Section<T> ToothShape::crown_section(const T& s) const {
 }
 
 template <class T>
+T ToothShape::scan_z(const T& s) const {
+  if (value(s) < 0) return scan_->apex_z_mm * (1.0 - (s + 1.0) * (s + 1.0));
+  return scan_->tip_z_mm * (1.0 - (1.0 - s) * (1.0 - s));
+}
+
+template <class T>
+Section<T> ToothShape::scan_section(const T& s) const {
+  const int n = scan_->n_z;
+  const double dt_ds = 0.5 * (n - 1);
+  double v = 0, dv = 0;
+  catmull_rom([&](int i) { return scan_mean_[i]; }, n, (n - 1) / 2, (value(s) + 1.0) * dt_ds, &v,
+              &dv);
+  const T r = lift(s, v, dv * dt_ds);
+  return {T(0.0), r, r, scan_z(s)};
+}
+
+void ToothShape::scan_radius(double theta, double s, double* r, double* r_theta,
+                             double* r_s) const {
+  const int n = scan_->n_z, m = scan_->n_theta;
+  const double dt_ds = 0.5 * (n - 1), du_dtheta = m / (2 * kPi);
+  double u = std::fmod(theta, 2 * kPi) * du_dtheta;
+  if (u < 0) u += m;
+  const int j = std::min(static_cast<int>(u), m - 1);
+  const double f = u - j;
+  auto row = [&](int i, double* dv) {
+    const double p0 = scan_->radius(i, (j + m - 1) % m), p1 = scan_->radius(i, j);
+    const double p2 = scan_->radius(i, (j + 1) % m), p3 = scan_->radius(i, (j + 2) % m);
+    const double c1 = -p0 + p2, c2 = 2 * p0 - 5 * p1 + 4 * p2 - p3, c3 = -p0 + 3 * p1 - 3 * p2 + p3;
+    if (dv) *dv = 0.5 * (c1 + f * (2 * c2 + 3 * f * c3));
+    return 0.5 * (2 * p1 + f * (c1 + f * (c2 + f * c3)));
+  };
+  const double t = (std::clamp(s, -1.0, 1.0) + 1.0) * dt_ds;
+  double dr_dt = 0, rt = 0;
+  catmull_rom([&](int i) { return row(i, nullptr); }, n, (n - 1) / 2, t, r, &dr_dt);
+  catmull_rom(
+      [&](int i) {
+        double d = 0;
+        row(i, &d);
+        return d;
+      },
+      n, (n - 1) / 2, t, &rt, nullptr);
+  if (r_s) *r_s = dr_dt * dt_ds;
+  if (r_theta) *r_theta = rt * du_dtheta;
+}
+
+template <class T>
 Section<T> ToothShape::eval(const T& s) const {
+  if (scan_) return scan_section(s);
   if (value(s) < 0) return root_section(s + 1.0);
   return crown_section(s);
 }
@@ -194,12 +281,29 @@ Section<double> ToothShape::section(double s) const { return eval(std::clamp(s, 
 Section<Dual2> ToothShape::section(const Dual2& s) const { return eval(s); }
 
 Eigen::Vector3d ToothShape::point(double theta, double s) const {
+  if (scan_) {
+    s = std::clamp(s, -1.0, 1.0);
+    double r = 0;
+    scan_radius(theta, s, &r, nullptr, nullptr);
+    return {r * std::cos(theta), r * std::sin(theta), scan_z(s)};
+  }
   const Section<double> q = section(s);
   return {q.cx + q.a * std::cos(theta), q.b * std::sin(theta), q.z};
 }
 
 void ToothShape::frame(double theta, double s, Eigen::Vector3d* x, Eigen::Vector3d* x_theta,
                        Eigen::Vector3d* x_s) const {
+  if (scan_) {
+    s = std::clamp(s, -1.0, 1.0);
+    double r = 0, r_t = 0, r_s = 0;
+    scan_radius(theta, s, &r, &r_t, &r_s);
+    const double c = std::cos(theta), sn = std::sin(theta);
+    const Dual2 z = scan_z(Dual2(s, 1, 0));
+    if (x) *x = {r * c, r * sn, z.v};
+    if (x_theta) *x_theta = {r_t * c - r * sn, r_t * sn + r * c, 0};
+    if (x_s) *x_s = {r_s * c, r_s * sn, z.d[0]};
+    return;
+  }
   const Dual2 t(theta, 1, 0), ss(std::clamp(s, -1.0, 1.0), 0, 1);
   const Section<Dual2> q = section(ss);
   const Dual2 px = q.cx + q.a * cos(t), py = q.b * sin(t), pz = q.z;
@@ -270,6 +374,7 @@ double ToothShape::meridian_curvature(double s) const {
 }
 
 double ToothShape::root_polar_angle(double theta) const {
+  if (scan_) return std::atan2(std::sin(theta), std::cos(theta));
   const Section<double> q = section(-0.5);
   return std::atan2(q.b * std::sin(theta), q.cx + q.a * std::cos(theta));
 }

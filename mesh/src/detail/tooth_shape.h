@@ -75,6 +75,7 @@ class ToothShape {
   double cone_delta() const { return delta_; }
   // Polar angle atan2(y, x) of the root cross-section point with parameter theta.
   double root_polar_angle(double theta) const;
+  bool scanned() const { return scan_ != nullptr; }
 
  private:
   template <class T>
@@ -83,6 +84,20 @@ class ToothShape {
   Section<T> crown_section(const T& s) const;
   template <class T>
   Section<T> eval(const T& s) const;
+  // Scanned tooth: z(s) (root z = apex (1 - (s + 1)^2), crown z = tip (1 - (1 - s)^2), so that
+  // the radius grows linearly in s away from the poles), the mean radius of a row (section), and
+  // the radius r(theta, s) with its partial derivatives (bicubic Catmull-Rom on the table,
+  // periodic in theta, one-sided at the poles and at the CEJ row).
+  template <class T>
+  T scan_z(const T& s) const;
+  template <class T>
+  Section<T> scan_section(const T& s) const;
+  void scan_radius(double theta, double s, double* r, double* r_theta, double* r_s) const;
+  void init_arc_table();
+
+  const RadialToothSurface* scan_ = nullptr;
+  std::shared_ptr<const RadialToothSurface> scan_owner_;
+  std::vector<double> scan_mean_;  // mean radius per row
 
   IdealRoot ideal_ = IdealRoot::kNone;
   double root_length_ = 0, crown_length_ = 0;

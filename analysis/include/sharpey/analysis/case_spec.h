@@ -4,6 +4,7 @@
 
 #include <Eigen/Core>
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -55,13 +56,13 @@ std::vector<std::string> named_directions();
 Eigen::Vector3d named_direction(const std::string& name);
 
 struct LoadSpec {
-  double magnitude = 100;                // in `unit`
+  double magnitude = 100;  // in `unit`
   ForceUnit unit = ForceUnit::kGram;
   Eigen::Vector3d direction = -Eigen::Vector3d::UnitX();  // unit vector, tooth coordinates
-  double bracket_height_mm = -1;         // force application height above the CEJ; < 0: pad centre
+  double bracket_height_mm = -1;  // force application height above the CEJ; < 0: pad centre
   CoupleKind couple = CoupleKind::kNone;
   Eigen::Vector3d moment_nmm = Eigen::Vector3d::Zero();  // couple when kMoment
-  double moment_to_force_mm = 0;         // when kRatio: couple opposing the force's tipping
+  double moment_to_force_mm = 0;  // when kRatio: couple opposing the force's tipping
   MovementPreset preset = MovementPreset::kNone;  // when set, the couple comes from the CRes
   // Name the direction was given by in the case file ("lingual", ...), empty for a vector or
   // angles. Only used to echo the case; `direction` is what counts (case_to_json writes the name
@@ -71,18 +72,29 @@ struct LoadSpec {
 };
 
 struct Scenario {
-  std::string name;       // e.g. "healthy", "4 mm loss"
-  mesh::BoneLoss loss;    // horizontal loss already converted to mm
+  std::string name;     // e.g. "healthy", "4 mm loss"
+  mesh::BoneLoss loss;  // horizontal loss already converted to mm
   // >= 0 when the case file gave the horizontal loss in % of the root length (then
   // loss.horizontal_mm = percent / 100 * root length); -1 when it was given in mm.
   double horizontal_loss_percent = -1;
 };
 
+// A scanned tooth surface named by the case file (tooth.surface): the file, and the landmarks that
+// place it in the tooth coordinate system or the explicit acceptance of the principal-axis
+// proposal. parse_case imports it into model.tooth.scan (and model.tooth.dimensions).
+struct ToothSurfaceSource {
+  std::string file;  // as written in the case file, relative to its folder; empty: parametric
+  std::optional<mesh::ToothLandmarks> landmarks;  // in the file's coordinates, mm
+  bool accept_principal_axes = false;
+  std::string resolved_path;  // the file as opened (not compared, not written)
+};
+
 struct CaseSpec {
   int schema_version = kCaseSchemaVersion;
-  std::string label;                 // free text; samples are invented cases
-  std::string notes;                 // free text, optional
-  mesh::ModelSpec model;             // tooth, PDL, bone, bracket, mesh sizing (loss per scenario)
+  std::string label;           // free text; samples are invented cases
+  std::string notes;           // free text, optional
+  mesh::ModelSpec model;       // tooth, PDL, bone, bracket, mesh sizing (loss per scenario)
+  ToothSurfaceSource surface;  // scanned tooth (tooth.surface), when given
   fem::Material tooth_material{18600, 0.31};
   fem::Material pdl_material{0.47, 0.45};
   fem::Material cortical_material{13700, 0.30};
@@ -102,7 +114,10 @@ inline bool operator!=(const CaseSpec& a, const CaseSpec& b) { return !(a == b);
 // Throws InputError naming the key (JSON path), the value and the fix, for a syntax error, a wrong
 // type, an unknown key or an out-of-range value. `origin` names the file in messages.
 // Geometry is checked with mesh::validate for every scenario (key prefixed "scenarios[i].").
-CaseSpec parse_case(const std::string& json_text, const std::string& origin = "case");
+// `base_folder`: the folder a tooth.surface file is relative to (the case file's folder; empty:
+// the working folder).
+CaseSpec parse_case(const std::string& json_text, const std::string& origin = "case",
+                    const std::string& base_folder = "");
 CaseSpec load_case(const std::string& path);  // InputError (key "file") if unreadable
 
 // Limits on a case file: its size (a case is a few kilobytes) and how deeply brackets nest (the
@@ -153,8 +168,8 @@ fem::MaterialTable material_table(const CaseSpec& spec);
 struct SourcedValue {
   std::string quantity;  // e.g. "pdl.material.young_modulus_mpa"
   double value = 0;
-  std::string unit;      // e.g. "MPa"
-  std::string source;    // citation and status, or "set in the case file"
+  std::string unit;    // e.g. "MPa"
+  std::string source;  // citation and status, or "set in the case file"
 };
 std::vector<SourcedValue> value_sources(const CaseSpec& spec);
 

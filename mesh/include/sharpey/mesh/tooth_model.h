@@ -7,9 +7,11 @@
 
 #include <Eigen/Core>
 #include <atomic>
+#include <memory>
 #include <string>
 #include <vector>
 
+#include "sharpey/mesh/tooth_surface.h"
 #include "sharpey/mesh/volume_mesh.h"
 
 namespace sharpey::mesh {
@@ -94,7 +96,15 @@ struct ToothSpec {
   IdealRoot ideal_root = IdealRoot::kNone;  // kNone: anatomical tooth of `type`
   double ideal_radius_mm = 3.0;             // radius at the healthy crest (idealised roots)
   double ideal_length_mm = 12.0;            // root length below the CEJ (idealised roots)
+  // A scanned tooth (import_tooth_surface(), already in the tooth coordinate system): when set it
+  // replaces the parametric surface (ideal_root must be kNone); `type` still names the tooth and
+  // `dimensions` must hold scanned_dimensions(*scan). Shared, immutable.
+  std::shared_ptr<const RadialToothSurface> scan;
 };
+
+// Dimensions measured on a scanned tooth: crown and root lengths along the axis, cervical widths
+// at z = 0 and the crown's largest widths; root_taper_fullness keeps its default (unused).
+ToothDimensions scanned_dimensions(const RadialToothSurface& scan);
 
 // PDL width profile: linear in depth from the crest (after horizontal loss) to mid-way to the
 // apex, then linear to the apex (hourglass when mid < crest, apex). The socket surface is the root
@@ -112,12 +122,12 @@ struct PdlSpec {
 // cortical_thickness_mm); cancellous core: the rest, reaching the mesial, distal and basal cut
 // faces (held fixed, kFixedBone) and the socket below the cortical layer.
 struct BoneSpec {
-  double crest_below_cej_mm = 1.5;     // healthy crest, common practice 1 to 2 mm
-  double cortical_thickness_mm = 0.6;  // cortical shell (labial, lingual plates and crest top)
-  double labial_plate_mm = 1.5;        // bone labial of the socket at the crest
-  double lingual_plate_mm = 2.0;       // bone lingual of the socket at the crest
+  double crest_below_cej_mm = 1.5;       // healthy crest, common practice 1 to 2 mm
+  double cortical_thickness_mm = 0.6;    // cortical shell (labial, lingual plates and crest top)
+  double labial_plate_mm = 1.5;          // bone labial of the socket at the crest
+  double lingual_plate_mm = 2.0;         // bone lingual of the socket at the crest
   double interproximal_margin_mm = 1.5;  // bone mesial and distal of the socket
-  double depth_below_apex_mm = 3.0;    // block extends this far below the apex
+  double depth_below_apex_mm = 3.0;      // block extends this far below the apex
 };
 
 enum class ToothSurface { kMesial, kDistal, kLabial, kLingual };
@@ -130,19 +140,19 @@ ToothSurface tooth_surface_from_string(const std::string& name);
 // and the bone top beside it as a trough that rises back to the crest over a radial distance of
 // max(1 mm, defect depth) from the socket.
 struct BoneLoss {
-  double horizontal_mm = 0;          // crest lowered by this much below the healthy crest
-  double defect_depth_mm = 0;        // angular (vertical) defect depth below the lowered crest; 0 = none
+  double horizontal_mm = 0;    // crest lowered by this much below the healthy crest
+  double defect_depth_mm = 0;  // angular (vertical) defect depth below the lowered crest; 0 = none
   ToothSurface defect_surface = ToothSurface::kMesial;
-  double defect_width_deg = 60;      // angular width of the defect around the root
+  double defect_width_deg = 60;  // angular width of the defect around the root
 };
 
 // Bracket pad: the crown-surface faces on the labial side between the heights
 // height_mm -/+ length_mm / 2 whose centroid lies within width_mm / 2 of the mid-sagittal plane
 // (y = 0); its area is width x length to within one column of faces.
 struct BracketSpec {
-  double height_mm = -1;     // centre height above the CEJ; < 0 means crown mid-height
-  double width_mm = 3.0;     // mesiodistal extent of the pad
-  double length_mm = 3.0;    // occluso-gingival extent of the pad
+  double height_mm = -1;   // centre height above the CEJ; < 0 means crown mid-height
+  double width_mm = 3.0;   // mesiodistal extent of the pad
+  double length_mm = 3.0;  // occluso-gingival extent of the pad
 };
 
 enum class MeshPreset { kCoarse, kStandard, kFine };
@@ -153,10 +163,10 @@ MeshPreset mesh_preset_from_string(const std::string& name);
 struct MeshSizing {
   MeshPreset preset = MeshPreset::kStandard;
   // Explicit controls; <= 0 keeps the preset's value.
-  double pdl_edge_mm = 0;      // target edge length along the PDL surfaces
-  double bone_edge_mm = 0;     // target edge length in the bone far from the PDL
-  int pdl_layers = 0;          // elements across the PDL width (>= 1; fine preset 2)
-  bool second_order = true;    // 10-node tetrahedra (default) or 4-node for comparison
+  double pdl_edge_mm = 0;    // target edge length along the PDL surfaces
+  double bone_edge_mm = 0;   // target edge length in the bone far from the PDL
+  int pdl_layers = 0;        // elements across the PDL width (>= 1; fine preset 2)
+  bool second_order = true;  // 10-node tetrahedra (default) or 4-node for comparison
 };
 
 struct ModelSpec {
@@ -168,26 +178,33 @@ struct ModelSpec {
   MeshSizing sizing;
 };
 
+// The tooth surface of `spec` (parametric or scanned) as a closed triangle surface in the tooth
+// coordinate system: n_rings rings equally spaced along the mean meridian's arc length between
+// the two poles, each of n_columns points starting at angle phase_rad, joined by triangles
+// outward. For tests, round trips and invented sample scans.
+SurfaceMesh tooth_surface_triangles(const ModelSpec& spec, int n_columns, int n_rings,
+                                    double phase_rad = 0);
+
 // Geometry facts of a built model that the analyses need, all in the tooth coordinate system.
 // The crest is the attachment level on the root: the PDL's upper edge on the root surface lies at
 // crest_z_mm (lower inside an angular defect); the bone top meets the socket a few hundredths of a
 // millimetre lower (the PDL's free top runs from the root outward along the root normal).
 struct ModelGeometry {
-  double cej_z_mm = 0;                 // always 0
-  double crest_z_mm = 0;               // alveolar crest after horizontal loss (negative)
-  double defect_bottom_z_mm = 0;       // lowest attachment level (crest minus defect depth)
-  double apex_z_mm = 0;                // root apex (negative)
-  double root_length_mm = 0;           // CEJ to apex along the axis
-  double embedded_length_mm = 0;       // crest to apex along the axis
-  Eigen::Vector3d crown_tip = Eigen::Vector3d::Zero();      // incisal edge / cusp tip on the axis
+  double cej_z_mm = 0;            // always 0
+  double crest_z_mm = 0;          // alveolar crest after horizontal loss (negative)
+  double defect_bottom_z_mm = 0;  // lowest attachment level (crest minus defect depth)
+  double apex_z_mm = 0;           // root apex (negative)
+  double root_length_mm = 0;      // CEJ to apex along the axis
+  double embedded_length_mm = 0;  // crest to apex along the axis
+  Eigen::Vector3d crown_tip = Eigen::Vector3d::Zero();  // incisal edge / cusp tip on the axis
   Eigen::Vector3d apex = Eigen::Vector3d::Zero();
-  Eigen::Vector3d bracket_center = Eigen::Vector3d::Zero(); // on the labial crown surface
-  Eigen::Vector3d bracket_normal = Eigen::Vector3d::UnitX(); // outward, labial
-  double root_area_mm2 = 0;            // whole root surface CEJ to apex, from the parametric definition
-  double attachment_area_mm2 = 0;      // PDL-covered root surface, from the parametric definition
-  double exposed_root_area_mm2 = 0;    // root above the crest, from the parametric definition
+  Eigen::Vector3d bracket_center = Eigen::Vector3d::Zero();   // on the labial crown surface
+  Eigen::Vector3d bracket_normal = Eigen::Vector3d::UnitX();  // outward, labial
+  double root_area_mm2 = 0;        // whole root surface CEJ to apex, from the parametric definition
+  double attachment_area_mm2 = 0;  // PDL-covered root surface, from the parametric definition
+  double exposed_root_area_mm2 = 0;  // root above the crest, from the parametric definition
   double tooth_volume_mm3 = 0, pdl_volume_mm3 = 0, bone_volume_mm3 = 0;  // parametric definition
-  double cortical_volume_mm3 = 0, cancellous_volume_mm3 = 0;  // parts of bone_volume_mm3
+  double cortical_volume_mm3 = 0, cancellous_volume_mm3 = 0;             // parts of bone_volume_mm3
   Eigen::Vector3d bone_min = Eigen::Vector3d::Zero();  // corners of the bone block, mm
   Eigen::Vector3d bone_max = Eigen::Vector3d::Zero();  // (its top is at the crest)
 };
