@@ -26,7 +26,7 @@
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "sharpey/mesh/tooth_surface.h"
 
@@ -106,7 +106,7 @@ void print_results(const char* what, const analysis::Study& study, double area_m
 }  // namespace
 
 int main(int argc, char** argv) {
-  fem::use_fast_blas_kernels(argv);
+  startup::use_fast_blas_kernels(argv);
   std::string preset = "standard", sample_folder;
   bool round_trip = false;
   long n_triangles = 200000;
