@@ -121,6 +121,7 @@ MovementAllowance movement_allowance(const ScenarioSolution& solution, const Loa
   a.peak_kpa_per_n = r.pressure_max_compression_kpa;
   a.p95_kpa_per_n = r.pressure_p95_compression_kpa;
   a.peak_tension_kpa_per_n = r.pressure_max_tension_kpa;
+  a.crown_tip_um_per_n = r.crown_tip_displacement_um.norm();
   a.moment_to_force_mm = r.load.moment_to_force_mm;
   a.peak_capillary_n = allowance_n(thresholds.capillary.value_kpa, a.peak_kpa_per_n);
   a.peak_limit_n = allowance_n(thresholds.limit.value_kpa, a.peak_kpa_per_n);

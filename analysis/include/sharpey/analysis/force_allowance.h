@@ -43,6 +43,9 @@ struct MovementAllowance {
   // information where compression does not limit the force (extrusion stretches the ligament:
   // in the linear-elastic model it has no compression outside the crest edge band).
   double peak_tension_kpa_per_n = 0;
+  // Length of the crown tip's displacement (ScenarioResult::crown_tip_displacement_um) under 1 N,
+  // micrometres per N: the displacement at an allowance is this times the allowance.
+  double crown_tip_um_per_n = 0;
   // The moment-to-force ratio the movement's couple has, mm (ResolvedLoad::moment_to_force_mm).
   double moment_to_force_mm = 0;
   // Allowances, N.
