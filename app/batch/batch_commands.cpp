@@ -13,6 +13,7 @@
 #include "failure.h"
 #include "interrupt.h"
 #include "progress.h"
+#include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
@@ -99,7 +100,10 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  CaseSpec spec = analysis::parse_case(case_text(options), options.case_path);
+  if (options.band) spec.band.enabled = true;
+  // The band's extreme geometries are checked before the long part, like the case itself.
+  if (spec.band.enabled) analysis::validate_band(spec, analysis::band_options(spec));
   analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") + ", " +
                 mesh::to_string(spec.model.sizing.preset) + " mesh");
@@ -112,6 +116,22 @@ void run_command(const CommonOptions& options) {
   progress.report("evaluating the force system", 0.0);
   const std::vector<analysis::ScenarioResult> results =
       in_model_stage([&] { return study.evaluate(spec.load); });
+  progress.report("force allowances", 0.0);
+  analysis::AllowanceReport allowance;
+  allowance.nominal = in_model_stage([&] { return analysis::nominal_allowances(study); });
+  std::unique_ptr<analysis::AllowanceBand> band;
+  if (spec.band.enabled) {
+    progress.note("allowance band: " + plural(static_cast<size_t>(spec.band.n_samples), "sample") +
+                  " per scenario" + (spec.band.sensitivity ? " and the sensitivity runs" : ""));
+    band = in_model_stage([&] {
+      return std::make_unique<analysis::AllowanceBand>(analysis::allowance_band(
+          study, analysis::band_options(spec),
+          [&progress](const std::string& stage, double f) { progress.report(stage, f); },
+          interrupt_flag()));
+    });
+    allowance.band = band.get();
+  }
+  stop_if_interrupted();
   progress.report("measuring the meshes", 0.0);
   std::vector<analysis::ScenarioFacts> facts =
       in_model_stage([&] { return analysis::scenario_facts(study, true); });
@@ -137,11 +157,14 @@ void run_command(const CommonOptions& options) {
   }
   progress.report("writing the summaries", 0.0);
   analysis::write_file_atomic(out.path("results.json"),
-                              analysis::results_json(spec, results, facts));
+                              analysis::results_json(spec, results, facts, &allowance));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
-  analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
+  analysis::write_file_atomic(out.path("summary.txt"),
+                              analysis::summary_text(spec, results, &allowance));
+  analysis::write_file_atomic(out.path("allowance.csv"), analysis::allowance_csv(spec, allowance));
   analysis::save_case(spec, out.path("case.json"));
-  written.insert(written.begin(), {"results.json", "summary.csv", "summary.txt", "case.json"});
+  written.insert(written.begin(),
+                 {"results.json", "summary.csv", "summary.txt", "allowance.csv", "case.json"});
   pause_after_write();
   stop_if_interrupted();
   out.commit();
