@@ -34,6 +34,26 @@ std::string words(MovementPreset m) {
   return s;
 }
 
+std::string input_words(BandInput input) {
+  switch (input) {
+    case BandInput::kPdlModulus:
+      return "the PDL modulus";
+    case BandInput::kPdlPoisson:
+      return "the PDL Poisson ratio";
+    case BandInput::kPdlWidth:
+      return "the PDL width";
+    case BandInput::kBoneLevel:
+      return "the bone level (reading error)";
+    case BandInput::kRootLength:
+      return "the root length";
+    case BandInput::kCorticalModulus:
+      return "the cortical bone modulus";
+    case BandInput::kCancellousModulus:
+      return "the cancellous bone modulus";
+  }
+  return to_string(input);
+}
+
 std::string fixed(double v, int decimals) {
   char buffer[64];
   std::snprintf(buffer, sizeof buffer, "%.*f", decimals, v);
@@ -256,9 +276,10 @@ std::string allowance_summary_text(const CaseSpec& spec, const AllowanceReport& 
         << limit << " upper limit (and, in brackets, the " << capillary
         << " capillary pressure), in " << to_string(unit) << ". ";
   if (report.band) {
-    intro << "Conservative allowance: nine in ten of " << report.band->options.n_samples
-          << " sampled variations of the tissue properties and the measured geometry allow at "
-             "least this much (10th percentile; seed "
+    intro << "Conservative allowance: the 10th percentile of the allowances over "
+          << report.band->options.n_samples
+          << " sampled variations of the tissue properties and the measured geometry (nine "
+             "variations in ten allow more; Latin hypercube, seed "
           << report.band->options.seed << "). ";
   } else {
     intro << "Nominal allowance for the case's own tissue properties and geometry; the variability "
@@ -303,13 +324,14 @@ std::string allowance_summary_text(const CaseSpec& spec, const AllowanceReport& 
   if (report.band && !report.band->sensitivity.empty()) {
     const InputSensitivity& top = report.band->sensitivity.front();
     std::ostringstream s;
-    s << "The input that moves the allowance most: " << to_string(top.input) << " (from " << top.low
-      << " to " << top.high << " changes the allowances by " << fixed(100.0 * top.mean_swing, 0)
+    s << "The input that moves the allowance most (one at a time over its range): "
+      << input_words(top.input) << " (from " << top.low << " to " << top.high
+      << " changes the allowances by " << fixed(100.0 * top.mean_swing, 0)
       << " % of the nominal on average).";
     if (report.band->sensitivity.size() > 1) {
       s << " Then:";
       for (size_t i = 1; i < report.band->sensitivity.size(); ++i)
-        s << (i > 1 ? "," : "") << " " << to_string(report.band->sensitivity[i].input) << " "
+        s << (i > 1 ? "," : "") << " " << input_words(report.band->sensitivity[i].input) << " "
           << fixed(100.0 * report.band->sensitivity[i].mean_swing, 0) << " %";
       s << ".";
     }
