@@ -167,8 +167,8 @@ std::unique_ptr<Study> HealthyIncisorBand::study_;
 // Every range zero: every sample is the nominal case (the study's mesh reused), so every
 // percentile equals the nominal allowance (derived).
 TEST_F(HealthyIncisorBand, CollapsesOntoNominalWhenEveryRangeIsZero) {
-  const AllowanceBand band = allowance_band(*study_, fixed_ranges(study_->spec(), 3));
-  EXPECT_EQ(band.n_solves, 3);
+  const AllowanceBand band = allowance_band(*study_, fixed_ranges(study_->spec(), 2));
+  EXPECT_EQ(band.n_solves, 2);
   EXPECT_EQ(band.n_remeshed, 0);
   ASSERT_EQ(band.scenarios.size(), 1u);
   const ScenarioAllowances& nominal = band.nominal[0];
