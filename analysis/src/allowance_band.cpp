@@ -2,12 +2,15 @@
 
 #include <algorithm>
 #include <cmath>
+#include <future>
 #include <limits>
 #include <memory>
 #include <numeric>
 #include <sstream>
+#include <system_error>
 
 #include "sharpey/error.h"
+#include "study_memory.h"
 
 namespace sharpey::analysis {
 
@@ -344,43 +347,112 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
   const std::vector<BandInputRange>& ranges = options.ranges;
   std::vector<double> nominal_values(ranges.size());
   for (size_t i = 0; i < ranges.size(); ++i) nominal_values[i] = ranges[i].nominal;
-  int n_varying = 0;
-  for (const BandInputRange& r : ranges) n_varying += r.varies() ? 1 : 0;
-  const int n_total = n_scenarios * (options.n_samples + (options.sensitivity ? 2 * n_varying : 0));
 
-  // One solve: the sample's case, meshed anew only when its geometry differs from the study's.
-  const auto solve = [&](const std::vector<double>& values, int k, const std::string& what) {
-    check_cancel(cancel);
-    bool geometric = false;
+  // Every solve in a fixed order: the samples (scenario by scenario), then the sensitivity runs
+  // (each varied input low, then high, per scenario). The results are gathered in this order, so
+  // the band does not depend on scheduling.
+  struct Job {
+    std::vector<double> values;
+    int scenario = 0;
+    std::string what;
+    bool geometric = false;  // meshed anew (geometry differs from the study's)
+  };
+  std::vector<Job> jobs;
+  const auto add_job = [&](std::vector<double> values, int k, std::string what) {
+    Job j;
     for (size_t i = 0; i < ranges.size(); ++i)
-      geometric = geometric || (ranges[i].changes_geometry() && values[i] != ranges[i].nominal);
-    const CaseSpec sample = band_sample_case(spec, ranges, values);
-    const int done = band.n_solves;
-    const std::string stage =
-        what + ", scenario " + std::to_string(k + 1) + "/" + std::to_string(n_scenarios) + ": ";
-    const ProgressCallback inner = [&](const std::string& s, double f) {
-      if (progress) progress(stage + s, (done + std::clamp(f, 0.0, 1.0)) / n_total);
+      j.geometric = j.geometric || (ranges[i].changes_geometry() && values[i] != ranges[i].nominal);
+    j.values = std::move(values);
+    j.scenario = k;
+    j.what = std::move(what);
+    jobs.push_back(std::move(j));
+  };
+  const std::vector<std::vector<double>> rows = band_sample_inputs(options);
+  for (int j = 0; j < options.n_samples; ++j)
+    for (int k = 0; k < n_scenarios; ++k)
+      add_job(rows[static_cast<size_t>(j)], k,
+              "band sample " + std::to_string(j + 1) + "/" + std::to_string(options.n_samples));
+  std::vector<size_t> sensitivity_inputs;
+  if (options.sensitivity) {
+    for (size_t i = 0; i < ranges.size(); ++i) {
+      if (!ranges[i].varies()) continue;
+      sensitivity_inputs.push_back(i);
+      for (int k = 0; k < n_scenarios; ++k) {
+        for (const bool high : {false, true}) {
+          std::vector<double> values = nominal_values;
+          values[i] = high ? ranges[i].high : ranges[i].low;
+          add_job(std::move(values), k,
+                  "sensitivity to " + to_string(ranges[i].input) + (high ? " (high)" : " (low)"));
+        }
+      }
+    }
+  }
+
+  // The mesher runs in a process of its own and the solver on both cores: the next geometric
+  // job's model is meshed on a second thread while the current job is solved (as StudySolver
+  // does), or on this thread when no thread can be started. Meshing is deterministic, so this
+  // changes the time only.
+  const auto build = [&](size_t i) {
+    const Job& job = jobs[i];
+    const CaseSpec sample = band_sample_case(spec, ranges, job.values);
+    return detail::build_scenario_model(scenario_model(sample, job.scenario),
+                                        sample.scenarios[static_cast<size_t>(job.scenario)].name,
+                                        cancel);
+  };
+  const auto start_meshing = [&build](size_t i) {
+    try {
+      return std::async(std::launch::async, build, i);
+    } catch (const std::system_error&) {
+      return std::async(std::launch::deferred, build, i);
+    }
+  };
+  const auto next_geometric = [&jobs](size_t after) {
+    for (size_t i = after + 1; i < jobs.size(); ++i)
+      if (jobs[i].geometric) return i;
+    return jobs.size();
+  };
+  std::vector<ScenarioAllowances> solved(jobs.size());
+  size_t ahead_index = jobs.size();
+  std::future<mesh::ToothModel> ahead;  // its destructor waits for the mesher on any exception
+  for (size_t i = 0; i < jobs.size(); ++i) {
+    check_cancel(cancel);
+    const Job& job = jobs[i];
+    const CaseSpec sample = band_sample_case(spec, ranges, job.values);
+    const std::string stage = job.what + ", scenario " + std::to_string(job.scenario + 1) + "/" +
+                              std::to_string(n_scenarios) + ": ";
+    const ProgressCallback inner = [&](const std::string& st, double f) {
+      if (progress)
+        progress(stage + st, (static_cast<double>(i) + std::clamp(f, 0.0, 1.0)) /
+                                 static_cast<double>(jobs.size()));
     };
-    std::unique_ptr<ScenarioSolution> solution;
-    if (geometric) {
-      solution = std::make_unique<ScenarioSolution>(sample, k, inner, cancel);
+    mesh::ToothModel model;
+    if (job.geometric) {
+      inner("mesh", 0.0);
+      if (ahead_index == i) {
+        ahead_index = jobs.size();
+        model = ahead.get();
+      } else {
+        model = build(i);
+      }
       ++band.n_remeshed;
     } else {
-      solution = std::make_unique<ScenarioSolution>(
-          sample, k, study.solutions()[static_cast<size_t>(k)]->model(), inner, cancel);
+      model = study.solutions()[static_cast<size_t>(job.scenario)]->model();
     }
+    const size_t next = next_geometric(i);
+    if (next < jobs.size() && ahead_index != next) {
+      ahead = start_meshing(next);
+      ahead_index = next;
+    }
+    const ScenarioSolution solution(sample, job.scenario, std::move(model), inner, cancel);
+    solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
     ++band.n_solves;
-    return scenario_allowances(*solution, sample.load, sample.thresholds);
-  };
+  }
 
-  const std::vector<std::vector<double>> rows = band_sample_inputs(options);
+  size_t at = 0;
   for (int j = 0; j < options.n_samples; ++j) {
     BandSample sample;
     sample.inputs = rows[static_cast<size_t>(j)];
-    const std::string what =
-        "band sample " + std::to_string(j + 1) + "/" + std::to_string(options.n_samples);
-    for (int k = 0; k < n_scenarios; ++k)
-      sample.allowances.push_back(solve(sample.inputs, k, what));
+    for (int k = 0; k < n_scenarios; ++k) sample.allowances.push_back(std::move(solved[at++]));
     band.samples.push_back(std::move(sample));
   }
 
@@ -411,19 +483,15 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
   }
 
   if (options.sensitivity) {
-    for (size_t i = 0; i < ranges.size(); ++i) {
+    for (const size_t i : sensitivity_inputs) {
       const BandInputRange& r = ranges[i];
-      if (!r.varies()) continue;
       InputSensitivity s;
       s.input = r.input;
       s.low = r.low;
       s.high = r.high;
-      std::vector<double> values = nominal_values;
       for (int k = 0; k < n_scenarios; ++k) {
-        values[i] = r.low;
-        s.at_low.push_back(solve(values, k, "sensitivity to " + to_string(r.input) + " (low)"));
-        values[i] = r.high;
-        s.at_high.push_back(solve(values, k, "sensitivity to " + to_string(r.input) + " (high)"));
+        s.at_low.push_back(std::move(solved[at++]));
+        s.at_high.push_back(std::move(solved[at++]));
       }
       for (int k = 0; k < n_scenarios; ++k) {
         double sum = 0;

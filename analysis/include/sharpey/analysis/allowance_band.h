@@ -139,7 +139,8 @@ CaseSpec band_sample_case(const CaseSpec& spec, const std::vector<BandInputRange
 // solved one after the other in a fixed order and gathered in sample order: the band does not
 // depend on how the work is scheduled. A sample that changes only materials reuses the study's
 // mesh of that scenario (the fem library has no way to reuse a symbolic factorisation, so it is
-// factorised anew); one that changes the geometry is meshed anew. progress("band sample i/n ...",
+// factorised anew); one that changes the geometry is meshed anew, on a second thread while the
+// previous one is solved (meshing is deterministic: only the time changes). progress("band sample i/n ...",
 // fraction); Cancelled when *cancel becomes true (checked between and inside solves). Throws
 // InputError (validate_band), MeshError, SolverError.
 AllowanceBand allowance_band(const Study& study, const BandOptions& options,
