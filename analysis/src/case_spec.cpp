@@ -220,12 +220,19 @@ bool operator==(const Scenario& a, const Scenario& b) {
          a.horizontal_loss_percent == b.horizontal_loss_percent;
 }
 
+bool operator==(const BandSpec& a, const BandSpec& b) {
+  return a.enabled == b.enabled && a.n_samples == b.n_samples && a.seed == b.seed &&
+         a.sensitivity == b.sensitivity && a.bone_level_error_mm == b.bone_level_error_mm &&
+         a.root_length_error_mm == b.root_length_error_mm;
+}
+
 bool operator==(const CaseSpec& a, const CaseSpec& b) {
   return a.schema_version == b.schema_version && a.label == b.label && a.notes == b.notes &&
          same(a.model, b.model) && same(a.tooth_material, b.tooth_material) &&
          same(a.pdl_material, b.pdl_material) && same(a.cortical_material, b.cortical_material) &&
          same(a.cancellous_material, b.cancellous_material) && a.scenarios == b.scenarios &&
-         a.load == b.load && a.thresholds == b.thresholds && same(a.surface, b.surface);
+         a.load == b.load && a.thresholds == b.thresholds && same(a.surface, b.surface) &&
+         a.band == b.band;
 }
 
 // ---- models and materials -----------------------------------------------------------------------

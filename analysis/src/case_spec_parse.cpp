@@ -684,6 +684,17 @@ Threshold read_threshold(Fields f, const Threshold& fallback) {
   return t;
 }
 
+void read_band(Fields a, CaseSpec& spec) {
+  BandSpec& b = spec.band;
+  b.enabled = a.boolean("band", b.enabled);
+  b.n_samples = a.integer("samples", b.n_samples);
+  b.seed = a.integer("seed", b.seed);
+  b.sensitivity = a.boolean("sensitivity", b.sensitivity);
+  b.bone_level_error_mm = a.number("bone_level_error_mm", b.bone_level_error_mm);
+  b.root_length_error_mm = a.number("root_length_error_mm", b.root_length_error_mm);
+  a.finish();
+}
+
 CaseSpec read_case(const Json& root) {
   CaseSpec spec;
   Fields top(root, "");
@@ -710,6 +721,7 @@ CaseSpec read_case(const Json& root) {
   spec.thresholds.capillary = read_threshold(th.object("capillary"), defaults.capillary);
   spec.thresholds.limit = read_threshold(th.object("limit"), defaults.limit);
   th.finish();
+  read_band(top.object("allowance"), spec);
   top.finish();
   return spec;
 }

@@ -74,6 +74,28 @@ void check_material(const fem::Material& m, const std::string& key, const std::s
                  "use at most 0.49 for a nearly incompressible ligament");
 }
 
+// The band's own numbers; whether the shifted geometries are valid is checked when the band is
+// computed (validate_band in allowance_band.cpp), since a case without a band never builds them.
+void check_band(const BandSpec& b) {
+  if (!(b.n_samples >= 3 && b.n_samples <= 1000))
+    out_of_range("allowance.samples", std::to_string(b.n_samples), "allowed 3 to 1000",
+                 "use 24 or more for stable 10th and 90th percentiles (each sample costs one "
+                 "solve per scenario)");
+  if (!(b.seed >= 0))
+    out_of_range("allowance.seed", std::to_string(b.seed), "allowed 0 to 1000000",
+                 "give any whole number from 0; the same seed gives the same band");
+  if (!(std::isfinite(b.bone_level_error_mm) && b.bone_level_error_mm >= 0 &&
+        b.bone_level_error_mm <= 3))
+    out_of_range("allowance.bone_level_error_mm", num(b.bone_level_error_mm) + " mm",
+                 "allowed 0 to 3 mm",
+                 "give the +- reading error of the radiographic bone level (about 0.5 to 1 mm)");
+  if (!(std::isfinite(b.root_length_error_mm) && b.root_length_error_mm >= 0 &&
+        b.root_length_error_mm <= 5))
+    out_of_range("allowance.root_length_error_mm", num(b.root_length_error_mm) + " mm",
+                 "allowed 0 to 5 mm",
+                 "give the +- uncertainty of the root length (a few mm at most)");
+}
+
 void check_threshold(const Threshold& t, const std::string& key) {
   if (!(std::isfinite(t.value_kpa) && t.value_kpa > 0 && t.value_kpa <= kMaxThresholdKpa))
     out_of_range(key + ".value_kpa", num(t.value_kpa) + " kPa",
@@ -292,6 +314,7 @@ void validate_case(const CaseSpec& spec) {
         "must exceed the capillary threshold " + num(spec.thresholds.capillary.value_kpa) + " kPa",
         "the physiological limit (default 16 kPa) lies above capillary pressure "
         "(default 4.7 kPa)");
+  check_band(spec.band);
   // Mesh sizes, tooth dimensions, PDL widths, bone and bracket: mesh::validate below.
   check_scenarios(spec);
   check_load(spec);

@@ -165,6 +165,16 @@ std::string case_to_json(const CaseSpec& spec) {
   j["thresholds"] = {{"capillary", threshold_json(spec.thresholds.capillary)},
                      {"limit", threshold_json(spec.thresholds.limit)}};
   j["mesh"] = mesh_json(spec);
+  // Written only when it differs from the defaults, so cases without a band read as before.
+  if (!(spec.band == BandSpec{})) {
+    const BandSpec& b = spec.band;
+    j["allowance"] = {{"band", b.enabled},
+                      {"samples", b.n_samples},
+                      {"seed", b.seed},
+                      {"sensitivity", b.sensitivity},
+                      {"bone_level_error_mm", b.bone_level_error_mm},
+                      {"root_length_error_mm", b.root_length_error_mm}};
+  }
   return j.dump(2) + "\n";
 }
 

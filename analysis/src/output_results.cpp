@@ -5,6 +5,7 @@
 #include <nlohmann/json.hpp>
 #include <utility>
 
+#include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/report_output.h"
 
 namespace sharpey::analysis {
@@ -215,7 +216,8 @@ std::vector<ScenarioFacts> scenario_facts(const Study& study, bool measure_mesh)
 }
 
 std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
-                         const std::vector<ScenarioFacts>& facts) {
+                         const std::vector<ScenarioFacts>& facts,
+                         const AllowanceReport* allowance) {
   Json j = report_head(spec);
   j["units"] = {{"length", "mm (keys ending _mm)"},
                 {"area", "mm^2 (keys ending _mm2)"},
@@ -248,6 +250,7 @@ std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>
                      {"capillary_source", spec.thresholds.capillary.source},
                      {"limit_kpa", number(spec.thresholds.limit.value_kpa)},
                      {"limit_source", spec.thresholds.limit.source}};
+  if (allowance) j["allowance"] = Json::parse(allowance_json(spec, *allowance));
   Json scenarios = Json::array();
   for (size_t i = 0; i < results.size(); ++i) {
     const ScenarioFacts* f = i < facts.size() ? &facts[i] : nullptr;

@@ -5,6 +5,7 @@
 #include <functional>
 #include <sstream>
 
+#include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/verdict.h"
 
@@ -109,7 +110,8 @@ std::string reading(const CaseSpec& spec, const ScenarioResult& r, bool is_refer
 
 }  // namespace
 
-std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results) {
+std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
+                         const AllowanceReport* allowance) {
   constexpr size_t kWidth = 96;
   std::ostringstream out;
   out << "Sharpey report: " << (spec.label.empty() ? "(no label)" : spec.label) << "\n";
@@ -229,7 +231,11 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
     reference_taken = reference_taken || is_reference;
     out << wrap(reading(spec, r, is_reference), kWidth, "- ", "  ");
   }
-  out << "\n" << wrap(caution_text(), kWidth);
+  // The allowance paragraph ends with the caution itself.
+  if (allowance)
+    out << "\n" << allowance_summary_text(spec, *allowance, kWidth);
+  else
+    out << "\n" << wrap(caution_text(), kWidth);
   return out.str();
 }
 

@@ -18,6 +18,7 @@
 #include "interrupt.h"
 #include "mpi_world.h"
 #include "progress.h"
+#include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
@@ -113,8 +114,11 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  const CaseSpec spec =
+  CaseSpec spec =
       analysis::parse_case(case_text(options), options.case_path, case_folder(options));
+  if (options.band) spec.band.enabled = true;
+  // The band's extreme geometries are checked before the long part, like the case itself.
+  if (spec.band.enabled) analysis::validate_band(spec, analysis::band_options(spec));
   analysis::StagedFolder out(options.out_dir);  // checks the output path before the long part
   progress.note("case \"" + spec.label + "\": " + plural(spec.scenarios.size(), "scenario") + ", " +
                 mesh::to_string(spec.model.sizing.preset) + " mesh");
@@ -127,6 +131,22 @@ void run_command(const CommonOptions& options) {
   progress.report("evaluating the force system", 0.0);
   const std::vector<analysis::ScenarioResult> results =
       in_model_stage([&] { return study.evaluate(spec.load); });
+  progress.report("force allowances", 0.0);
+  analysis::AllowanceReport allowance;
+  allowance.nominal = in_model_stage([&] { return analysis::nominal_allowances(study); });
+  std::unique_ptr<analysis::AllowanceBand> band;
+  if (spec.band.enabled) {
+    progress.note("allowance band: " + plural(static_cast<size_t>(spec.band.n_samples), "sample") +
+                  " per scenario" + (spec.band.sensitivity ? " and the sensitivity runs" : ""));
+    band = in_model_stage([&] {
+      return std::make_unique<analysis::AllowanceBand>(analysis::allowance_band(
+          study, analysis::band_options(spec),
+          [&progress](const std::string& stage, double f) { progress.report(stage, f); },
+          interrupt_flag()));
+    });
+    allowance.band = band.get();
+  }
+  stop_if_interrupted();
   progress.report("measuring the meshes", 0.0);
   std::vector<analysis::ScenarioFacts> facts =
       in_model_stage([&] { return analysis::scenario_facts(study, true); });
@@ -152,9 +172,11 @@ void run_command(const CommonOptions& options) {
   }
   progress.report("writing the summaries", 0.0);
   analysis::write_file_atomic(out.path("results.json"),
-                              analysis::results_json(spec, results, facts));
+                              analysis::results_json(spec, results, facts, &allowance));
   analysis::write_file_atomic(out.path("summary.csv"), analysis::summary_csv(spec, results));
-  analysis::write_file_atomic(out.path("summary.txt"), analysis::summary_text(spec, results));
+  analysis::write_file_atomic(out.path("summary.txt"),
+                              analysis::summary_text(spec, results, &allowance));
+  analysis::write_file_atomic(out.path("allowance.csv"), analysis::allowance_csv(spec, allowance));
   {
     // The copy of the case lives in another folder: a scanned surface is named by its absolute
     // path there, so that the copy runs as it stands.
@@ -163,7 +185,8 @@ void run_command(const CommonOptions& options) {
       copy.surface.file = std::filesystem::absolute(copy.surface.resolved_path).string();
     analysis::save_case(copy, out.path("case.json"));
   }
-  written.insert(written.begin(), {"results.json", "summary.csv", "summary.txt", "case.json"});
+  written.insert(written.begin(),
+                 {"results.json", "summary.csv", "summary.txt", "allowance.csv", "case.json"});
   pause_after_write();
   stop_if_interrupted();
   out.commit();

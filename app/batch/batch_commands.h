@@ -15,10 +15,13 @@ struct CommonOptions {
   std::string out_dir;
   std::string mesh_preset;  // empty: the case file's preset
   bool quiet = false;
+  bool band = false;  // run: compute the allowance band even when the case does not ask for it
 };
 
-// Meshes and solves every scenario; writes results.json, summary.csv, summary.txt, case.json and
-// per scenario <stem>_model.vtu, <stem>_pdl.vtu, <stem>_root_map.csv.
+// Meshes and solves every scenario; writes results.json, summary.csv, summary.txt, case.json,
+// allowance.csv and per scenario <stem>_model.vtu, <stem>_pdl.vtu, <stem>_root_map.csv. The nominal
+// force allowances are always reported; the variability band when the case's allowance.band is
+// true or options.band is set (checked before any solve).
 void run_command(const CommonOptions& options);
 
 struct SweepOptions {

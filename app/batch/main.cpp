@@ -100,8 +100,12 @@ int main(int argc, char** argv) {
   CLI::App* run = app.add_subcommand(
       "run",
       "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
-      "case.json and per scenario the model and PDL .vtu and the root-map CSV");
+      "allowance.csv, case.json and per scenario the model and PDL .vtu and the root-map CSV");
   add_common(run);
+  run->add_flag("--band", options.band,
+                "also compute the force allowance's variability band (case key allowance.band; "
+                "costs allowance.samples solves per scenario, default 24, plus the sensitivity "
+                "runs)");
   CLI::App* sweep = app.add_subcommand(
       "sweep",
       "full-factorial sweep over case keys; write sweep.csv (one row per combination "

@@ -44,7 +44,7 @@ struct RunOutput {
 void check_files(const RunOutput& run) {
   EXPECT_NE(run.result.err.find("sharpey-batch: ["), std::string::npos) << "progress lines on stderr";
   const std::vector<std::string> expected = {
-      "case.json",           "results.json",        "s1_healthy_model.vtu",
+      "allowance.csv",       "case.json",           "results.json",        "s1_healthy_model.vtu",
       "s1_healthy_pdl.vtu",  "s1_healthy_root_map.csv", "s2_3_mm_loss_model.vtu",
       "s2_3_mm_loss_pdl.vtu", "s2_3_mm_loss_root_map.csv", "summary.csv",
       "summary.txt"};

@@ -89,6 +89,18 @@ struct ToothSurfaceSource {
   std::string resolved_path;  // the file as opened (not compared, not written)
 };
 
+// The force allowance's variability band a case asks for (case key "allowance",
+// docs/case-format.md; analysis/allowance_band.h). The nominal allowances are always computed.
+struct BandSpec {
+  bool enabled = false;               // allowance.band: compute the band (costs many solves)
+  int n_samples = 24;                 // allowance.samples: Latin hypercube samples
+  int seed = 12345;                   // allowance.seed: fixed seed, >= 0
+  bool sensitivity = true;            // allowance.sensitivity: one-at-a-time ranking
+  double bone_level_error_mm = 0.5;   // allowance.bone_level_error_mm: +- radiographic reading
+  double root_length_error_mm = 1.0;  // allowance.root_length_error_mm: +- about the case's root
+};
+bool operator==(const BandSpec& a, const BandSpec& b);
+
 struct CaseSpec {
   int schema_version = kCaseSchemaVersion;
   std::string label;           // free text; samples are invented cases
@@ -102,6 +114,7 @@ struct CaseSpec {
   std::vector<Scenario> scenarios;
   LoadSpec load;
   Thresholds thresholds = default_thresholds();
+  BandSpec band;
 };
 
 bool operator==(const Threshold& a, const Threshold& b);

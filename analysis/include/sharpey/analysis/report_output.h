@@ -77,8 +77,12 @@ const CentreOfResistance& cres_for(const ScenarioResult& result);
 // pdl_pressure_kpa {max_compression, max_tension, p95_compression}, area_above_capillary_mm2,
 // area_above_limit_mm2, max_principal_strain, crown_tip_displacement_um, equivalent_force_g, and
 // more). `facts` may be empty or hold one entry per result.
+// With `allowance` (allowance_output.h), a top-level "allowance" object after "thresholds"
+// (allowance_json()); the other keys are unchanged.
+struct AllowanceReport;
 std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
-                         const std::vector<ScenarioFacts>& facts);
+                         const std::vector<ScenarioFacts>& facts,
+                         const AllowanceReport* allowance = nullptr);
 
 // mesh_statistics.json of the batch `mesh` command: per scenario its name, geometry and mesh
 // statistics, with the caution.
@@ -89,7 +93,9 @@ std::string summary_csv(const CaseSpec& spec, const std::vector<ScenarioResult>&
 
 // summary.txt: the case, the force system, the thresholds with their sources, a table of the key
 // numbers per scenario with a plain reading against the thresholds, and the caution.
-std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results);
+// With `allowance`, the force-allowance paragraph (allowance_summary_text()) closes the file.
+std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
+                         const AllowanceReport* allowance = nullptr);
 
 // Root map of one scenario as CSV: comment lines (caution, meaning, units), then a header row of
 // cell-centre angles (deg around the root, 0 labial, 90 mesial) and one row per depth below the CEJ

@@ -1,0 +1,95 @@
+// Benchmark (prints, not a test): the force allowance's variability band for one scenario (the
+// healthy maxillary central incisor of the sample case) on the standard preset, 24 samples, the
+// default ranges, without the sensitivity runs; prints the wall time beside the 60 s target on 2
+// cores (issue 11), the time per solve, how many solves remeshed, and the nominal allowances and
+// the band per movement. Also the time of the nominal allowances (seven evaluations).
+//
+//   bench_allowance_band [--samples N] [--preset coarse|standard|fine] [--sensitivity]
+#include <sys/resource.h>
+
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <string>
+
+#include "sharpey/analysis/allowance_band.h"
+#include "sharpey/fem/blas_kernels.h"
+
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double seconds_since(Clock::time_point t0) {
+  return std::chrono::duration<double>(Clock::now() - t0).count();
+}
+
+double load_average() {
+  double load[1] = {0};
+  return getloadavg(load, 1) == 1 ? load[0] : -1;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  sharpey::fem::use_fast_blas_kernels(argv);
+  using namespace sharpey;
+  using namespace sharpey::analysis;
+  const std::string source = __FILE__;
+  const std::string path = source.substr(0, source.rfind("/tests/bench/")) +
+                           "/samples/maxillary_central_incisor_bone_loss.json";
+  int n_samples = 24;
+  bool sensitivity = false;
+  mesh::MeshPreset preset = mesh::MeshPreset::kStandard;
+  for (int i = 1; i < argc; ++i) {
+    if (!std::strcmp(argv[i], "--samples") && i + 1 < argc) {
+      n_samples = std::atoi(argv[++i]);
+    } else if (!std::strcmp(argv[i], "--preset") && i + 1 < argc) {
+      preset = mesh::mesh_preset_from_string(argv[++i]);
+    } else if (!std::strcmp(argv[i], "--sensitivity")) {
+      sensitivity = true;
+    } else {
+      std::fprintf(stderr, "usage: %s [--samples N] [--preset P] [--sensitivity]\n", argv[0]);
+      return 2;
+    }
+  }
+  CaseSpec spec = load_case(path);
+  spec.scenarios.resize(1);  // the healthy scenario: "one scenario" of the target
+  spec.model.sizing.preset = preset;
+  std::printf("band benchmark: %s, scenario '%s', %s preset, %d samples%s, load average %.2f\n",
+              path.c_str(), spec.scenarios[0].name.c_str(), mesh::to_string(preset).c_str(),
+              n_samples, sensitivity ? " + sensitivity" : "", load_average());
+
+  auto t0 = Clock::now();
+  const Study study(spec);
+  std::printf("  nominal study (mesh + solve)          %8.2f s\n", seconds_since(t0));
+  t0 = Clock::now();
+  const std::vector<ScenarioAllowances> nominal = nominal_allowances(study);
+  std::printf("  nominal allowances (7 evaluations)    %8.3f s\n", seconds_since(t0));
+
+  BandOptions options = band_options(spec);
+  options.n_samples = n_samples;
+  options.sensitivity = sensitivity;
+  t0 = Clock::now();
+  const AllowanceBand band = allowance_band(study, options);
+  const double band_s = seconds_since(t0);
+  std::printf("  band: %d solves (%d remeshed)          %8.2f s  (%.2f s per solve)\n",
+              band.n_solves, band.n_remeshed, band_s, band_s / band.n_solves);
+  std::printf("  target: 24 samples, one scenario, standard preset, under 60 s on 2 cores: %s\n",
+              band_s < 60 ? "met" : "NOT met");
+  rusage u{};
+  getrusage(RUSAGE_SELF, &u);
+  std::printf("  peak memory %.0f MB, load average now %.2f\n",
+              static_cast<double>(u.ru_maxrss) / 1024.0, load_average());
+  std::printf("\n  %-22s %10s %10s %10s %10s   (peak compression vs upper limit, g)\n", "movement",
+              "nominal", "p10", "p50", "p90");
+  const auto g = [](double n) { return n / 0.00980665; };
+  for (const MovementAllowance& a : nominal[0].movements) {
+    const BandPercentiles& p = band.scenarios[0].of(a.movement).peak_limit;
+    std::printf("  %-22s %10.1f %10.1f %10.1f %10.1f\n", to_string(a.movement).c_str(),
+                g(a.peak_limit_n), g(p.p10), g(p.p50), g(p.p90));
+  }
+  for (const InputSensitivity& s : band.sensitivity)
+    std::printf("  sensitivity %-24s mean swing %5.1f %%\n", to_string(s.input).c_str(),
+                100 * s.mean_swing);
+  return 0;
+}
