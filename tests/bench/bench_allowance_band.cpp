@@ -14,7 +14,7 @@
 #include <string>
 
 #include "sharpey/analysis/allowance_band.h"
-#include "sharpey/fem/blas_kernels.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -31,7 +31,7 @@ double load_average() {
 }  // namespace
 
 int main(int argc, char** argv) {
-  sharpey::fem::use_fast_blas_kernels(argv);
+  sharpey::startup::use_fast_blas_kernels(argv);
   using namespace sharpey;
   using namespace sharpey::analysis;
   const std::string source = __FILE__;
