@@ -5,6 +5,7 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include "output_text.h"
 #include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/verdict.h"
@@ -67,23 +68,7 @@ std::string force_text(double n, ForceUnit unit) {
   return fixed(v, decimals) + " " + to_string(unit);
 }
 
-std::string wrap(const std::string& text, size_t width, const std::string& first,
-                 const std::string& indent) {
-  std::istringstream in(text);
-  std::string word, line = first, out;
-  size_t start = first.size();
-  while (in >> word) {
-    if (line.size() > start && line.size() + 1 + word.size() > width) {
-      out += line + "\n";
-      line = indent;
-      start = indent.size();
-    }
-    if (line.size() > start) line += ' ';
-    line += word;
-  }
-  if (line.size() > start) out += line + "\n";
-  return out;
-}
+using detail::wrap;
 
 Json percentiles_json(const BandPercentiles& p) {
   return {{"p10", number(p.p10)}, {"p50", number(p.p50)}, {"p90", number(p.p90)}};

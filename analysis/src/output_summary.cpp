@@ -5,6 +5,7 @@
 #include <functional>
 #include <sstream>
 
+#include "output_text.h"
 #include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/verdict.h"
@@ -20,24 +21,7 @@ std::string fixed(double v, int decimals) {
   return buffer;
 }
 
-// Wraps `text` at `width` columns: the first line starts with `first`, the others with `indent`.
-std::string wrap(const std::string& text, size_t width, const std::string& first = "",
-                 const std::string& indent = "") {
-  std::istringstream words(text);
-  std::string word, line = first, out;
-  size_t start = first.size();
-  while (words >> word) {
-    if (line.size() > start && line.size() + 1 + word.size() > width) {
-      out += line + "\n";
-      line = indent;
-      start = indent.size();
-    }
-    if (line.size() > start) line += ' ';
-    line += word;
-  }
-  if (line.size() > start) out += line + "\n";
-  return out;
-}
+using detail::wrap;
 
 std::string spaced(std::string identifier) {
   for (char& c : identifier)

@@ -114,8 +114,7 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 void run_command(const CommonOptions& options) {
   Progress progress(options.quiet);
-  CaseSpec spec =
-      analysis::parse_case(case_text(options), options.case_path, case_folder(options));
+  CaseSpec spec = analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   if (options.band) spec.band.enabled = true;
   // The band's extreme geometries are checked before the long part, like the case itself.
   if (spec.band.enabled) analysis::validate_band(spec, analysis::band_options(spec));
@@ -260,11 +259,11 @@ SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
     base_text = analysis::apply_study_design(base_text, design);
     variations = design.variations;
   }
-  plan.base = analysis::parse_case(
-      base_text,
-      sweep.design_path.empty() ? options.case_path
-                                : options.case_path + " with " + sweep.design_path,
-      case_folder(options));
+  plan.base = analysis::parse_case(base_text,
+                                   sweep.design_path.empty()
+                                       ? options.case_path
+                                       : options.case_path + " with " + sweep.design_path,
+                                   case_folder(options));
 
   for (const std::string& v : sweep.vary) {
     analysis::CaseVariation parsed = analysis::parse_variation(v);

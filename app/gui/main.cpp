@@ -11,11 +11,11 @@
 #include <cstdio>
 
 #include "sharpey/error.h"
+#include "sharpey/startup/blas_kernels.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
 #include "view/vtk_view.h"
-#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 
@@ -29,7 +29,8 @@ void wait_ms(int ms) {
 // hover read-out shows in the status bar.
 void hover(QWidget* widget, double fx, double fy) {
   const QPointF p(fx * widget->width(), fy * widget->height());
-  QMouseEvent move(QEvent::MouseMove, p, widget->mapToGlobal(p), Qt::NoButton, Qt::NoButton, Qt::NoModifier);
+  QMouseEvent move(QEvent::MouseMove, p, widget->mapToGlobal(p), Qt::NoButton, Qt::NoButton,
+                   Qt::NoModifier);
   QApplication::sendEvent(widget, &move);
   wait_ms(150);
 }
@@ -45,12 +46,16 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
     window.show_view(view);
     QApplication::processEvents();
     if (hover_over) hover(hover_over, 0.5, 0.72);
-    window.grab().toImage().save(dir.filePath(QStringLiteral("window_") + name + QStringLiteral(".png")));
+    window.grab().toImage().save(
+        dir.filePath(QStringLiteral("window_") + name + QStringLiteral(".png")));
     window.export_image(dir.filePath(image + QStringLiteral(".png")), view);
   };
-  shot(ViewKind::k3D, QStringLiteral("3d"), QStringLiteral("view_3d"), window.result_view()->vtk_view());
-  shot(ViewKind::kRootMap, QStringLiteral("root_map"), QStringLiteral("root_map"), window.root_map());
-  shot(ViewKind::kComparison, QStringLiteral("bone_levels"), QStringLiteral("bone_levels"), nullptr);
+  shot(ViewKind::k3D, QStringLiteral("3d"), QStringLiteral("view_3d"),
+       window.result_view()->vtk_view());
+  shot(ViewKind::kRootMap, QStringLiteral("root_map"), QStringLiteral("root_map"),
+       window.root_map());
+  shot(ViewKind::kComparison, QStringLiteral("bone_levels"), QStringLiteral("bone_levels"),
+       nullptr);
   window.show_view(ViewKind::k3D);
   window.show_case_panel(true);
   QApplication::processEvents();
@@ -62,20 +67,23 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
 
 // The command line, the same for the display-free first pass and the application.
 struct CommandLine {
-  QCommandLineOption mesh{{QStringLiteral("m"), QStringLiteral("mesh")},
-                          QStringLiteral("Override the case's mesh preset: coarse, standard or fine."),
-                          QStringLiteral("preset")};
-  QCommandLineOption screenshots{QStringLiteral("screenshots"),
-                                 QStringLiteral("Solve, write a PNG of every view and the PDF report to DIR, "
-                                                "then quit."),
-                                 QStringLiteral("DIR")};
+  QCommandLineOption mesh{
+      {QStringLiteral("m"), QStringLiteral("mesh")},
+      QStringLiteral("Override the case's mesh preset: coarse, standard or fine."),
+      QStringLiteral("preset")};
+  QCommandLineOption screenshots{
+      QStringLiteral("screenshots"),
+      QStringLiteral("Solve, write a PNG of every view and the PDF report to DIR, "
+                     "then quit."),
+      QStringLiteral("DIR")};
   void configure(QCommandLineParser& parser) const {
     parser.setApplicationDescription(QStringLiteral(
         "Sharpey: periodontal-ligament stress and strain under an orthodontic force system.\n"
         "Model estimates, not prescriptions; clinical judgement and local regulations prevail.\n"
         "Without a display, use sharpey-batch for the same results as files."));
     parser.addHelpOption();
-    parser.addPositionalArgument(QStringLiteral("case"), QStringLiteral("Case file (JSON) to open and solve."));
+    parser.addPositionalArgument(QStringLiteral("case"),
+                                 QStringLiteral("Case file (JSON) to open and solve."));
     parser.addOption(mesh);
     parser.addOption(screenshots);
   }
@@ -83,7 +91,8 @@ struct CommandLine {
 
 // True when Qt can open a window: a display, or a platform plugin chosen by the user.
 bool display_available() {
-  return !qEnvironmentVariableIsEmpty("DISPLAY") || !qEnvironmentVariableIsEmpty("WAYLAND_DISPLAY") ||
+  return !qEnvironmentVariableIsEmpty("DISPLAY") ||
+         !qEnvironmentVariableIsEmpty("WAYLAND_DISPLAY") ||
          !qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM");
 }
 
@@ -101,7 +110,8 @@ int main(int argc, char** argv) {
     parser.process(probe);  // prints the help (exit 0) or the error (exit 1)
     if (!display_available()) {
       std::fprintf(stderr,
-                   "sharpey: no display found (DISPLAY and WAYLAND_DISPLAY are empty). Start it from a desktop "
+                   "sharpey: no display found (DISPLAY and WAYLAND_DISPLAY are empty). Start it "
+                   "from a desktop "
                    "session, or use sharpey-batch to write the results as files.\n");
       return 3;
     }
@@ -121,7 +131,8 @@ int main(int argc, char** argv) {
   sharpey::app::MainWindowOptions options;
   if (parser.isSet(mesh)) {
     try {
-      options.mesh_override = sharpey::mesh::mesh_preset_from_string(parser.value(mesh).toStdString());
+      options.mesh_override =
+          sharpey::mesh::mesh_preset_from_string(parser.value(mesh).toStdString());
     } catch (const sharpey::Error& e) {
       std::fprintf(stderr, "sharpey: %s\n", e.what());
       return 2;
@@ -141,16 +152,18 @@ int main(int argc, char** argv) {
   }
   if (shoot) {
     const QString folder = parser.value(screenshots);
-    QObject::connect(&window, &sharpey::app::MainWindow::solve_finished, &window, [&window, folder]() {
-      QTimer::singleShot(300, &window, [&window, folder]() {
-        take_screenshots(window, folder);
-        QApplication::exit(0);
-      });
-    });
-    QObject::connect(&window, &sharpey::app::MainWindow::solve_failed, &window, [&window](const QString& m) {
-      std::fprintf(stderr, "sharpey: %s\n", m.toLocal8Bit().constData());
-      QApplication::exit(4);
-    });
+    QObject::connect(&window, &sharpey::app::MainWindow::solve_finished, &window,
+                     [&window, folder]() {
+                       QTimer::singleShot(300, &window, [&window, folder]() {
+                         take_screenshots(window, folder);
+                         QApplication::exit(0);
+                       });
+                     });
+    QObject::connect(&window, &sharpey::app::MainWindow::solve_failed, &window,
+                     [&window](const QString& m) {
+                       std::fprintf(stderr, "sharpey: %s\n", m.toLocal8Bit().constData());
+                       QApplication::exit(4);
+                     });
     if (args.isEmpty()) {
       std::fprintf(stderr, "sharpey: --screenshots needs a case file\n");
       return 2;

@@ -1,9 +1,10 @@
+#include "sharpey/fem/element.h"
+
 #include <sstream>
 #include <string>
 
 #include "detail/kinematics.h"
 #include "sharpey/error.h"
-#include "sharpey/fem/element.h"
 
 namespace sharpey::fem {
 namespace detail {
@@ -19,24 +20,23 @@ void validate_mesh(const mesh::VolumeMesh& m) {
   if (m.elements.size() != n_elements * static_cast<size_t>(k)) {
     throw InputError("mesh.elements", "mesh connectivity has " + std::to_string(m.elements.size()) +
                                           " entries but " + std::to_string(n_elements) +
-                                          " elements of " + std::to_string(k) +
-                                          " nodes need " + std::to_string(n_elements * k));
+                                          " elements of " + std::to_string(k) + " nodes need " +
+                                          std::to_string(n_elements * k));
   }
   if (n_elements == 0) throw InputError("mesh.elements", "mesh has no elements");
   const int n = m.n_nodes();
   for (size_t i = 0; i < m.elements.size(); ++i) {
     if (m.elements[i] < 0 || m.elements[i] >= n) {
-      throw InputError("mesh.elements",
-                       "element " + std::to_string(i / k) + " refers to node " +
-                           std::to_string(m.elements[i]) + ", outside 0.." + std::to_string(n - 1));
+      throw InputError("mesh.elements", "element " + std::to_string(i / k) + " refers to node " +
+                                            std::to_string(m.elements[i]) + ", outside 0.." +
+                                            std::to_string(n - 1));
     }
   }
   const int kf = m.nodes_per_face;
   if (m.n_faces() > 0) {
     if (kf != (k == 10 ? 6 : 3)) {
-      throw InputError("mesh.nodes_per_face", "mesh has " + std::to_string(kf) +
-                                                  "-node faces on " + std::to_string(k) +
-                                                  "-node elements; use " +
+      throw InputError("mesh.nodes_per_face", "mesh has " + std::to_string(kf) + "-node faces on " +
+                                                  std::to_string(k) + "-node elements; use " +
                                                   std::to_string(k == 10 ? 6 : 3) + "-node faces");
     }
     if (m.faces.size() != m.face_marker.size() * static_cast<size_t>(kf)) {
@@ -79,7 +79,8 @@ namespace {
 template <int K>
 Eigen::MatrixXd stiffness_of(const mesh::VolumeMesh& mesh, int e, const Matrix6d& D) {
   detail::ElementMatrix<K> Ke;
-  const double det = detail::element_stiffness_fixed<K>(detail::element_coordinates<K>(mesh, e), D, &Ke);
+  const double det =
+      detail::element_stiffness_fixed<K>(detail::element_coordinates<K>(mesh, e), D, &Ke);
   if (!(det > 0)) throw MeshError(detail::inverted_element_message(mesh, e, det));
   return Ke;
 }

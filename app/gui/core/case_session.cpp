@@ -10,18 +10,24 @@ namespace sharpey::app {
 
 QString label(MaterialPart part) {
   switch (part) {
-    case MaterialPart::kPdl: return QStringLiteral("PDL");
-    case MaterialPart::kCorticalBone: return QStringLiteral("cortical bone");
-    case MaterialPart::kCancellousBone: return QStringLiteral("cancellous bone");
+    case MaterialPart::kPdl:
+      return QStringLiteral("PDL");
+    case MaterialPart::kCorticalBone:
+      return QStringLiteral("cortical bone");
+    case MaterialPart::kCancellousBone:
+      return QStringLiteral("cancellous bone");
   }
   return {};
 }
 
 std::string case_key(MaterialPart part) {
   switch (part) {
-    case MaterialPart::kPdl: return "pdl.material";
-    case MaterialPart::kCorticalBone: return "bone.cortical_material";
-    case MaterialPart::kCancellousBone: return "bone.cancellous_material";
+    case MaterialPart::kPdl:
+      return "pdl.material";
+    case MaterialPart::kCorticalBone:
+      return "bone.cortical_material";
+    case MaterialPart::kCancellousBone:
+      return "bone.cancellous_material";
   }
   return {};
 }
@@ -32,9 +38,12 @@ namespace {
 template <typename Spec>
 auto& material_of(Spec& spec, MaterialPart part) {
   switch (part) {
-    case MaterialPart::kPdl: return spec.pdl_material;
-    case MaterialPart::kCorticalBone: return spec.cortical_material;
-    case MaterialPart::kCancellousBone: break;
+    case MaterialPart::kPdl:
+      return spec.pdl_material;
+    case MaterialPart::kCorticalBone:
+      return spec.cortical_material;
+    case MaterialPart::kCancellousBone:
+      break;
   }
   return spec.cancellous_material;
 }
@@ -188,7 +197,8 @@ void CaseSession::set_mesh_preset(mesh::MeshPreset preset) {
 
 void CaseSession::set_pdl_width(double width_mm) {
   mesh::PdlSpec& p = spec_.model.pdl;
-  if (p.crest_width_mm == width_mm && p.mid_width_mm == width_mm && p.apex_width_mm == width_mm) return;
+  if (p.crest_width_mm == width_mm && p.mid_width_mm == width_mm && p.apex_width_mm == width_mm)
+    return;
   p.crest_width_mm = p.mid_width_mm = p.apex_width_mm = width_mm;
   geometry_edit();
 }
@@ -207,12 +217,15 @@ void CaseSession::set_material(MaterialPart part, const fem::Material& m) {
   geometry_edit();
 }
 
-void CaseSession::set_defect(int level, double depth_mm, mesh::ToothSurface surface, double width_deg) {
+void CaseSession::set_defect(int level, double depth_mm, mesh::ToothSurface surface,
+                             double width_deg) {
   if (level < 0 || level >= levels_.size())
-    throw InputError("scenarios", "bone level " + std::to_string(level + 1) + " does not exist; the case has " +
+    throw InputError("scenarios", "bone level " + std::to_string(level + 1) +
+                                      " does not exist; the case has " +
                                       std::to_string(levels_.size()) + " levels");
   mesh::BoneLoss loss = levels_.at(level).loss;
-  if (loss.defect_depth_mm == depth_mm && loss.defect_surface == surface && loss.defect_width_deg == width_deg)
+  if (loss.defect_depth_mm == depth_mm && loss.defect_surface == surface &&
+      loss.defect_width_deg == width_deg)
     return;
   loss.defect_depth_mm = depth_mm;
   loss.defect_surface = surface;
@@ -235,11 +248,13 @@ void CaseSession::set_levels(const ScenarioList& levels) {
 
 bool CaseSession::set_compared(int level, bool on) { return levels_.set_compared(level, on); }
 
-void CaseSession::set_study(std::shared_ptr<const analysis::Study> study, std::optional<int> solved_geometry) {
+void CaseSession::set_study(std::shared_ptr<const analysis::Study> study,
+                            std::optional<int> solved_geometry) {
   // The same study grown by some levels (solved one by one): the levels already evaluated under
   // the current load keep their results when their healthy reference was already there.
   size_t keep = 0;
-  if (study && study == study_ && !pending_ && error_.isEmpty() && results_.size() < study->solutions().size()) {
+  if (study && study == study_ && !pending_ && error_.isEmpty() &&
+      results_.size() < study->solutions().size()) {
     const int h = study->healthy_index();
     if (h >= 0 && static_cast<size_t>(h) < results_.size()) keep = results_.size();
   }
@@ -254,7 +269,8 @@ void CaseSession::set_study(std::shared_ptr<const analysis::Study> study, std::o
 }
 
 void CaseSession::set_current(int index) {
-  if (!study_ || index < 0 || index >= static_cast<int>(results_.size()) || index == current_) return;
+  if (!study_ || index < 0 || index >= static_cast<int>(results_.size()) || index == current_)
+    return;
   current_ = index;
   // The newly shown scenario must reflect the latest load.
   if (pending_) flush();
@@ -271,7 +287,9 @@ const analysis::ScenarioSolution* CaseSession::solution(int index) const {
   return study_->solutions()[static_cast<size_t>(index)].get();
 }
 
-const analysis::ScenarioSolution* CaseSession::current_solution() const { return solution(current_); }
+const analysis::ScenarioSolution* CaseSession::current_solution() const {
+  return solution(current_);
+}
 
 bool CaseSession::evaluate(bool interactive, size_t keep) {
   if (!study_) {
@@ -280,7 +298,8 @@ bool CaseSession::evaluate(bool interactive, size_t keep) {
   }
   const auto& solutions = study_->solutions();
   const int h = study_->healthy_index();
-  const analysis::ScenarioSolution* healthy = h >= 0 ? solutions[static_cast<size_t>(h)].get() : nullptr;
+  const analysis::ScenarioSolution* healthy =
+      h >= 0 ? solutions[static_cast<size_t>(h)].get() : nullptr;
   QElapsedTimer timer;
   timer.start();
   try {
@@ -291,18 +310,20 @@ bool CaseSession::evaluate(bool interactive, size_t keep) {
       const bool skip_reference = healthy != nullptr && healthy != shown;
       // Only the field on display beyond the pressure (issue 12, point 14).
       analysis::FieldChoice fields;
-      fields.strains = shown_quantity_ == Quantity::kMaxPrincipalStrain || shown_quantity_ == Quantity::kEquivalentStrain;
+      fields.strains = shown_quantity_ == Quantity::kMaxPrincipalStrain ||
+                       shown_quantity_ == Quantity::kEquivalentStrain;
       fields.von_mises = shown_quantity_ == Quantity::kVonMises;
       fields.displacement = shown_quantity_ == Quantity::kDisplacement;
-      results_[static_cast<size_t>(current_)] =
-          analysis::evaluate(*shown, spec_.load, spec_.thresholds, skip_reference ? nullptr : healthy, fields);
+      results_[static_cast<size_t>(current_)] = analysis::evaluate(
+          *shown, spec_.load, spec_.thresholds, skip_reference ? nullptr : healthy, fields);
       reference_pending_ = skip_reference;
       fields_pending_ = !(fields.strains && fields.von_mises && fields.displacement);
       pending_ = true;  // the fields left out, and the other levels
       if (pending_) flush_timer_.start();
     } else {
       keep = std::min(keep, results_.size());
-      std::vector<analysis::ScenarioResult> all(results_.begin(), results_.begin() + static_cast<std::ptrdiff_t>(keep));
+      std::vector<analysis::ScenarioResult> all(
+          results_.begin(), results_.begin() + static_cast<std::ptrdiff_t>(keep));
       for (size_t k = keep; k < solutions.size(); ++k)
         all.push_back(analysis::evaluate(*solutions[k], spec_.load, spec_.thresholds, healthy));
       results_ = std::move(all);

@@ -12,17 +12,21 @@ namespace sharpey::app {
 
 QColor verdict_background(VerdictLevel level) {
   switch (level) {
-    case VerdictLevel::kBelowCapillary: return QColor(0x5e, 0x8c, 0x6a);  // sage
-    case VerdictLevel::kAboveCapillary: return QColor(0xc2, 0x8a, 0x1e);  // ochre
-    case VerdictLevel::kAboveLimit: return QColor(0x9c, 0x3b, 0x2e);      // brick
+    case VerdictLevel::kBelowCapillary:
+      return QColor(0x5e, 0x8c, 0x6a);  // sage
+    case VerdictLevel::kAboveCapillary:
+      return QColor(0xc2, 0x8a, 0x1e);  // ochre
+    case VerdictLevel::kAboveLimit:
+      return QColor(0x9c, 0x3b, 0x2e);  // brick
   }
   return Qt::gray;
 }
 
 std::vector<std::pair<QString, QString>> key_number_rows(const analysis::ScenarioResult& r,
                                                          bool reference_pending) {
-  const QString mm = QStringLiteral("mm"), kpa = QStringLiteral("kPa"), mm2 = QString::fromUtf8("mm\u00b2"),
-                um = QString::fromUtf8("\u00b5m"), g = QStringLiteral("g");
+  const QString mm = QStringLiteral("mm"), kpa = QStringLiteral("kPa"),
+                mm2 = QString::fromUtf8("mm\u00b2"), um = QString::fromUtf8("\u00b5m"),
+                g = QStringLiteral("g");
   const analysis::CentreOfResistance& cres = analysis::cres_for(r);
   const bool mesiodistal = &cres == &r.cres_mesiodistal;
   std::vector<std::pair<QString, QString>> rows = {
@@ -39,26 +43,31 @@ std::vector<std::pair<QString, QString>> key_number_rows(const analysis::Scenari
            with_unit(r.area_above_limit_percent, QStringLiteral("%"), 0) + ')'},
       // Left out while a slider moves (only the field on display is evaluated then).
       {QStringLiteral("max. principal strain"),
-       std::isfinite(r.max_principal_strain) ? with_unit(100 * r.max_principal_strain, QStringLiteral("%"), 2)
-                                             : QStringLiteral("when the slider stops")},
+       std::isfinite(r.max_principal_strain)
+           ? with_unit(100 * r.max_principal_strain, QStringLiteral("%"), 2)
+           : QStringLiteral("when the slider stops")},
       {QStringLiteral("max. von Mises stress"), std::isfinite(r.max_von_mises_kpa)
                                                     ? with_unit(r.max_von_mises_kpa, kpa, 1)
                                                     : QStringLiteral("when the slider stops")},
       {mesiodistal ? QStringLiteral("CRes (mesiodistal)") : QStringLiteral("CRes (labiolingual)"),
        with_unit(cres.from_crest_mm, mm, 1) + QStringLiteral(" below crest, ") +
-           with_unit(100 * cres.fraction_embedded, QStringLiteral("%"), 0) + QStringLiteral(" of embedded root")},
+           with_unit(100 * cres.fraction_embedded, QStringLiteral("%"), 0) +
+           QStringLiteral(" of embedded root")},
       {QStringLiteral("M/F for translation"), with_unit(r.mf_translation_mm, mm, 1)},
       {QStringLiteral("M/F applied"), with_unit(r.load.moment_to_force_mm, mm, 1)},
       {QStringLiteral("centre of rotation"),
        r.centre_of_rotation_defined
            ? with_unit(-r.centre_of_rotation.z(), mm, 1) + QStringLiteral(" below the CEJ")
            : QStringLiteral("none (translation or pure rotation)")},
-      {QStringLiteral("crown tip displacement"), with_unit(r.crown_tip_displacement_um.norm(), um, 1)},
+      {QStringLiteral("crown tip displacement"),
+       with_unit(r.crown_tip_displacement_um.norm(), um, 1)},
       {QStringLiteral("apex displacement"), with_unit(r.apex_displacement_um.norm(), um, 1)},
   };
   if (r.equivalent_force_peak_g >= 0) {
-    rows.push_back({QStringLiteral("equivalent force (same peak)"), with_unit(r.equivalent_force_peak_g, g, 0)});
-    rows.push_back({QStringLiteral("equivalent force (area rule)"), with_unit(r.equivalent_force_area_rule_g, g, 0)});
+    rows.push_back({QStringLiteral("equivalent force (same peak)"),
+                    with_unit(r.equivalent_force_peak_g, g, 0)});
+    rows.push_back({QStringLiteral("equivalent force (area rule)"),
+                    with_unit(r.equivalent_force_area_rule_g, g, 0)});
   } else if (reference_pending) {
     const QString later = QStringLiteral("when the slider stops");
     rows.push_back({QStringLiteral("equivalent force (same peak)"), later});
@@ -80,8 +89,9 @@ FindingsPanel::FindingsPanel(QWidget* parent) : QWidget(parent) {
   detail_ = new QLabel;
   detail_->setWordWrap(true);
   outer->addWidget(detail_);
-  stale_ = new QLabel(QStringLiteral("These numbers belong to the last solve, not to the edited "
-                                     "geometry."));
+  stale_ =
+      new QLabel(QStringLiteral("These numbers belong to the last solve, not to the edited "
+                                "geometry."));
   stale_->setWordWrap(true);
   stale_->setStyleSheet(QStringLiteral("background: #f6e7c1; color: #5b4100; padding: 4px;"));
   outer->addWidget(stale_);
@@ -113,11 +123,13 @@ void FindingsPanel::show_result(const analysis::ScenarioResult& r, const analysi
   const Verdict v = judge(r, t);
   const QColor back = verdict_background(v.level);
   badge_->setText(v.headline);
-  badge_->setStyleSheet(QStringLiteral("background: %1; color: white; font-weight: bold; border-radius: 4px;")
-                            .arg(back.name()));
+  badge_->setStyleSheet(
+      QStringLiteral("background: %1; color: white; font-weight: bold; border-radius: 4px;")
+          .arg(back.name()));
   // A scenario whose ligament strain leaves the linear range says so beside the verdict.
   detail_->setText(r.beyond_linear_range
-                       ? v.detail + QStringLiteral("\n\n") + QString::fromStdString(analysis::beyond_linear_range_text(r))
+                       ? v.detail + QStringLiteral("\n\n") +
+                             QString::fromStdString(analysis::beyond_linear_range_text(r))
                        : v.detail);
   stale_->setVisible(stale);
   int row = 0;

@@ -53,7 +53,8 @@ namespace sharpey::app {
 QString samples_folder() {
   const QByteArray env = qgetenv("SHARPEY_SAMPLES_DIR");
   if (!env.isEmpty()) return QString::fromLocal8Bit(env);
-  const QString installed = QDir(QCoreApplication::applicationDirPath()).filePath(QStringLiteral("../share/sharpey/samples"));
+  const QString installed = QDir(QCoreApplication::applicationDirPath())
+                                .filePath(QStringLiteral("../share/sharpey/samples"));
   if (QFileInfo::exists(installed)) return QDir::cleanPath(installed);
   return QStringLiteral(SHARPEY_SOURCE_DIR "/samples");
 }
@@ -62,7 +63,8 @@ namespace {
 const char* const kRecentKey = "recent_files";
 
 QString autosave_default_folder() {
-  return QDir(QStandardPaths::writableLocation(QStandardPaths::AppDataLocation)).filePath(QStringLiteral("autosave"));
+  return QDir(QStandardPaths::writableLocation(QStandardPaths::AppDataLocation))
+      .filePath(QStringLiteral("autosave"));
 }
 }  // namespace
 
@@ -70,8 +72,9 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     : options_(options),
       session_(std::make_unique<CaseSession>()),
       job_(std::make_unique<SolveJob>()),
-      autosave_(std::make_unique<AutosaveStore>(options.autosave_folder.isEmpty() ? autosave_default_folder()
-                                                                                  : options.autosave_folder)) {
+      autosave_(std::make_unique<AutosaveStore>(options.autosave_folder.isEmpty()
+                                                    ? autosave_default_folder()
+                                                    : options.autosave_folder)) {
   setWindowIcon(make_icon(IconKind::kApp));
   build_layout();
   build_menus();
@@ -95,7 +98,9 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     if (discard_job_) return;
     session_->set_study(job_->study(), solve_geometry_);
     if (index + 1 < count)
-      status_->setText(QStringLiteral("%1 of %2 bone levels shown; the others follow.").arg(index + 1).arg(count));
+      status_->setText(QStringLiteral("%1 of %2 bone levels shown; the others follow.")
+                           .arg(index + 1)
+                           .arg(count));
   });
   connect(job_.get(), &SolveJob::finished, this, [this]() {
     if (end_discarded_job()) return;
@@ -106,11 +111,16 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     QString text = QStringLiteral("Solved %1 bone level(s).").arg(session_->results().size());
     const int from_cache = job_->levels_from_cache();
     if (from_cache > 0 && job_->levels_solved() == 0)
-      text = QStringLiteral("%1 bone level(s) shown from the saved solutions; nothing solved.").arg(from_cache);
+      text = QStringLiteral("%1 bone level(s) shown from the saved solutions; nothing solved.")
+                 .arg(from_cache);
     else if (from_cache > 0)
-      text = QStringLiteral("Solved %1 bone level(s); %2 shown from the saved solutions.").arg(job_->levels_solved()).arg(from_cache);
+      text = QStringLiteral("Solved %1 bone level(s); %2 shown from the saved solutions.")
+                 .arg(job_->levels_solved())
+                 .arg(from_cache);
     const QString notes = job_->cache_notes();
-    if (!notes.isEmpty()) text += QStringLiteral(" Saved solution not used or not saved (") + notes.split(QLatin1Char('\n')).join(QStringLiteral("; ")) + QStringLiteral(").");
+    if (!notes.isEmpty())
+      text += QStringLiteral(" Saved solution not used or not saved (") +
+              notes.split(QLatin1Char('\n')).join(QStringLiteral("; ")) + QStringLiteral(").");
     status_->setText(text);
     emit solve_finished();
   });
@@ -130,14 +140,15 @@ MainWindow::MainWindow(const MainWindowOptions& options)
     status_->setText(QStringLiteral("Solve cancelled; ") + partial_note(false));
     emit solve_failed(QStringLiteral("cancelled"));
   });
-  connect(job_.get(), &SolveJob::failed, this, [this, partial_note](const QString& kind, const QString& message) {
-    if (end_discarded_job()) return;
-    set_solving_ui(false);
-    status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note(true));
-    show_error(QStringLiteral("Could not mesh and solve the case"),
-               QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
-    emit solve_failed(message);
-  });
+  connect(job_.get(), &SolveJob::failed, this,
+          [this, partial_note](const QString& kind, const QString& message) {
+            if (end_discarded_job()) return;
+            set_solving_ui(false);
+            status_->setText(QStringLiteral("Solve failed (%1); ").arg(kind) + partial_note(true));
+            show_error(QStringLiteral("Could not mesh and solve the case"),
+                       QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
+            emit solve_failed(message);
+          });
 
   auto* autosave_timer = new QTimer(this);
   connect(autosave_timer, &QTimer::timeout, this, &MainWindow::autosave_now);
@@ -194,7 +205,8 @@ void MainWindow::build_layout() {
   auto* choice = new QHBoxLayout;
   scenario_box_ = new QComboBox;
   scenario_box_->setMinimumWidth(160);
-  scenario_box_->setToolTip(QStringLiteral("Bone level shown in the 3D view, the root map and the findings"));
+  scenario_box_->setToolTip(
+      QStringLiteral("Bone level shown in the 3D view, the root map and the findings"));
   load_summary_ = new QLabel;
   load_summary_->setStyleSheet(QStringLiteral("color: #3b4652;"));
   choice->addWidget(new QLabel(QStringLiteral("<b>Bone level</b>")));
@@ -226,8 +238,9 @@ void MainWindow::build_layout() {
   // The caution, always visible.
   caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
   caution_->setWordWrap(true);
-  caution_->setStyleSheet(QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
-                                         "border-left: 5px solid #9c6e14;"));
+  caution_->setStyleSheet(
+      QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
+                     "border-left: 5px solid #9c6e14;"));
   outer->addWidget(caution_);
   setCentralWidget(central);
 
@@ -278,74 +291,95 @@ void MainWindow::build_layout() {
 
 void MainWindow::build_menus() {
   QMenu* file = menuBar()->addMenu(QStringLiteral("&File"));
-  QAction* new_action = file->addAction(make_icon(IconKind::kNew), QStringLiteral("&New case"), this, [this]() {
-    if (maybe_save()) new_case();
-  });
+  QAction* new_action =
+      file->addAction(make_icon(IconKind::kNew), QStringLiteral("&New case"), this, [this]() {
+        if (maybe_save()) new_case();
+      });
   new_action->setShortcut(QKeySequence::New);
-  QAction* open_action = file->addAction(make_icon(IconKind::kOpen), QStringLiteral("&Open case\u2026"), this, [this]() {
-    if (!maybe_save()) return;
-    const QString path = QFileDialog::getOpenFileName(this, QStringLiteral("Open case"), samples_folder(),
-                                                      QStringLiteral("Sharpey cases (*.json)"));
-    if (!path.isEmpty()) open_case(path);
-  });
+  QAction* open_action = file->addAction(
+      make_icon(IconKind::kOpen), QStringLiteral("&Open case\u2026"), this, [this]() {
+        if (!maybe_save()) return;
+        const QString path =
+            QFileDialog::getOpenFileName(this, QStringLiteral("Open case"), samples_folder(),
+                                         QStringLiteral("Sharpey cases (*.json)"));
+        if (!path.isEmpty()) open_case(path);
+      });
   open_action->setShortcut(QKeySequence::Open);
   samples_menu_ = file->addMenu(QStringLiteral("Open &sample"));
   const QDir samples(samples_folder());
-  for (const QString& name : samples.entryList({QStringLiteral("*.json")}, QDir::Files, QDir::Name)) {
+  for (const QString& name :
+       samples.entryList({QStringLiteral("*.json")}, QDir::Files, QDir::Name)) {
     const QString path = samples.filePath(name);
-    samples_menu_->addAction(QFileInfo(name).completeBaseName().replace('_', ' '), this, [this, path]() {
-      if (maybe_save()) open_case(path);
-    });
+    samples_menu_->addAction(QFileInfo(name).completeBaseName().replace('_', ' '), this,
+                             [this, path]() {
+                               if (maybe_save()) open_case(path);
+                             });
   }
   samples_menu_->setEnabled(!samples_menu_->isEmpty());
   recent_menu_ = file->addMenu(QStringLiteral("Open &recent"));
   file->addSeparator();
-  QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this, [this]() { save(); });
+  QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this,
+                                         [this]() { save(); });
   save_action->setShortcut(QKeySequence::Save);
   QAction* save_as_action = file->addAction(QStringLiteral("Save &as\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case as"),
-                                                      suggested_path(file_stem() + QStringLiteral(".json")),
-                                                      QStringLiteral("Sharpey cases (*.json)"));
-    if (!path.isEmpty()) save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
+    const QString path = QFileDialog::getSaveFileName(
+        this, QStringLiteral("Save case as"), suggested_path(file_stem() + QStringLiteral(".json")),
+        QStringLiteral("Sharpey cases (*.json)"));
+    if (!path.isEmpty())
+      save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
   });
   save_as_action->setShortcut(QKeySequence::SaveAs);
   file->addSeparator();
   QMenu* exports = file->addMenu(QStringLiteral("&Export"));
-  QAction* image_action = exports->addAction(make_icon(IconKind::kImage), QStringLiteral("&Image of the current view (PNG)\u2026"),
-                                             this, [this]() {
-    const ViewKind which = tabs_->currentIndex() == 1 ? ViewKind::kRootMap
-                           : tabs_->currentIndex() == 2 ? ViewKind::kComparison
-                                                        : ViewKind::k3D;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export image"),
-                                                      suggested_path(file_stem() + QStringLiteral(".png")),
-                                                      QStringLiteral("PNG images (*.png)"));
-    if (!path.isEmpty()) export_image(path.endsWith(QStringLiteral(".png")) ? path : path + QStringLiteral(".png"), which);
-  });
-  QAction* report_action = exports->addAction(make_icon(IconKind::kReport), QStringLiteral("&PDF report\u2026"), this, [this]() {
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Export PDF report"),
-                                                      suggested_path(file_stem() + QStringLiteral("_report.pdf")),
-                                                      QStringLiteral("PDF documents (*.pdf)"));
-    if (!path.isEmpty()) export_report(path.endsWith(QStringLiteral(".pdf")) ? path : path + QStringLiteral(".pdf"));
-  });
-  QAction* data_action = exports->addAction(make_icon(IconKind::kExportData),
-                                            QStringLiteral("&Results as CSV, JSON and VTU\u2026"), this, [this]() {
-    const QString folder = QFileDialog::getExistingDirectory(this, QStringLiteral("Export results to folder"),
-                                                             suggested_path(QString()));
-    if (!folder.isEmpty()) export_data(folder);
-  });
+  QAction* image_action = exports->addAction(
+      make_icon(IconKind::kImage), QStringLiteral("&Image of the current view (PNG)\u2026"), this,
+      [this]() {
+        const ViewKind which = tabs_->currentIndex() == 1   ? ViewKind::kRootMap
+                               : tabs_->currentIndex() == 2 ? ViewKind::kComparison
+                                                            : ViewKind::k3D;
+        const QString path =
+            QFileDialog::getSaveFileName(this, QStringLiteral("Export image"),
+                                         suggested_path(file_stem() + QStringLiteral(".png")),
+                                         QStringLiteral("PNG images (*.png)"));
+        if (!path.isEmpty())
+          export_image(path.endsWith(QStringLiteral(".png")) ? path : path + QStringLiteral(".png"),
+                       which);
+      });
+  QAction* report_action = exports->addAction(
+      make_icon(IconKind::kReport), QStringLiteral("&PDF report\u2026"), this, [this]() {
+        const QString path = QFileDialog::getSaveFileName(
+            this, QStringLiteral("Export PDF report"),
+            suggested_path(file_stem() + QStringLiteral("_report.pdf")),
+            QStringLiteral("PDF documents (*.pdf)"));
+        if (!path.isEmpty())
+          export_report(path.endsWith(QStringLiteral(".pdf")) ? path
+                                                              : path + QStringLiteral(".pdf"));
+      });
+  QAction* data_action = exports->addAction(
+      make_icon(IconKind::kExportData), QStringLiteral("&Results as CSV, JSON and VTU\u2026"), this,
+      [this]() {
+        const QString folder = QFileDialog::getExistingDirectory(
+            this, QStringLiteral("Export results to folder"), suggested_path(QString()));
+        if (!folder.isEmpty()) export_data(folder);
+      });
   file->addSeparator();
   QAction* quit = file->addAction(QStringLiteral("&Quit"), this, &QWidget::close);
   quit->setShortcut(QKeySequence::Quit);
 
   QMenu* run = menuBar()->addMenu(QStringLiteral("&Solve"));
-  QAction* solve_action = run->addAction(make_icon(IconKind::kSolve), QStringLiteral("&Mesh and solve"), this, &MainWindow::solve);
+  QAction* solve_action = run->addAction(
+      make_icon(IconKind::kSolve), QStringLiteral("&Mesh and solve"), this, &MainWindow::solve);
   solve_action->setShortcut(QKeySequence(Qt::Key_F5));
-  run->addAction(make_icon(IconKind::kCancel), QStringLiteral("&Cancel"), this, &MainWindow::cancel_solve);
+  run->addAction(make_icon(IconKind::kCancel), QStringLiteral("&Cancel"), this,
+                 &MainWindow::cancel_solve);
 
   QMenu* view = menuBar()->addMenu(QStringLiteral("&View"));
-  view->addAction(QStringLiteral("&3D"), this, [this]() { show_view(ViewKind::k3D); })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
-  view->addAction(QStringLiteral("&Root map"), this, [this]() { show_view(ViewKind::kRootMap); })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
-  view->addAction(QStringLiteral("&Bone levels compared"), this, [this]() { show_view(ViewKind::kComparison); })
+  view->addAction(QStringLiteral("&3D"), this, [this]() { show_view(ViewKind::k3D); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
+  view->addAction(QStringLiteral("&Root map"), this, [this]() { show_view(ViewKind::kRootMap); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
+  view->addAction(QStringLiteral("&Bone levels compared"), this,
+                  [this]() { show_view(ViewKind::kComparison); })
       ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
 
   QMenu* help = menuBar()->addMenu(QStringLiteral("&Help"));
@@ -363,19 +397,21 @@ void MainWindow::build_menus() {
   help->addAction(QStringLiteral("&Reading the results"), this, [this]() {
     QMessageBox::information(
         this, QStringLiteral("Reading the results"),
-        QStringLiteral("Colours show the ligament's hydrostatic pressure (compression positive, kPa) or the "
-                       "quantity chosen above the view. The dashed line marks capillary pressure, the solid "
-                       "line the physiological limit; both values and their sources are in the case panel.\n\n"
-                       "CRes: centre of resistance for the force's direction. CRot: centre of rotation "
-                       "produced by the force system.\n\n") +
+        QStringLiteral(
+            "Colours show the ligament's hydrostatic pressure (compression positive, kPa) or the "
+            "quantity chosen above the view. The dashed line marks capillary pressure, the solid "
+            "line the physiological limit; both values and their sources are in the case panel.\n\n"
+            "CRes: centre of resistance for the force's direction. CRot: centre of rotation "
+            "produced by the force system.\n\n") +
             QString::fromStdString(analysis::caution_text()));
   });
   help->addAction(QStringLiteral("&About Sharpey"), this, [this]() {
-    QMessageBox::about(this, QStringLiteral("About Sharpey"),
-                       QStringLiteral("Sharpey: finite-element estimate of periodontal-ligament stress and "
-                                      "strain under an orthodontic force system, healthy and with bone loss.\n\n"
-                                      "Licence: AGPL-3.0-or-later.\n\n") +
-                           QString::fromStdString(analysis::caution_text()));
+    QMessageBox::about(
+        this, QStringLiteral("About Sharpey"),
+        QStringLiteral("Sharpey: finite-element estimate of periodontal-ligament stress and "
+                       "strain under an orthodontic force system, healthy and with bone loss.\n\n"
+                       "Licence: AGPL-3.0-or-later.\n\n") +
+            QString::fromStdString(analysis::caution_text()));
   });
 
   QToolBar* bar = addToolBar(QStringLiteral("Main"));
@@ -422,7 +458,8 @@ void MainWindow::connect_session() {
   connect(s, &CaseSession::document_changed, this, &MainWindow::refresh_title);
   connect(s, &CaseSession::geometry_changed, this, [this]() {
     case_panel_->set_stale(session_->study() != nullptr, solving());
-    if (const auto* r = session_->current_result()) findings_->show_result(*r, session_->spec().thresholds, true);
+    if (const auto* r = session_->current_result())
+      findings_->show_result(*r, session_->spec().thresholds, true);
   });
   connect(s, &CaseSession::results_changed, this, &MainWindow::refresh_results);
   connect(s, &CaseSession::current_changed, this, [this](int index) {
@@ -437,7 +474,8 @@ void MainWindow::connect_session() {
   // A refused force: the panel shows again the force system the results are for.
   connect(s, &CaseSession::load_refused, this, [this](const QString& message) {
     load_panel_->set_controls(session_->load_controls());
-    status_->setText(QStringLiteral("Force system not applied, %1 still shown: %2").arg(force_text(), message));
+    status_->setText(
+        QStringLiteral("Force system not applied, %1 still shown: %2").arg(force_text(), message));
     load_error_shown_ = true;
     last_error_ = message;
   });
@@ -505,15 +543,17 @@ void MainWindow::refresh_root_map() {
   if (!root_map_dirty_ || !r) return;
   // The root map's scale is the 3D view's range shown for pressure (core/quantity.h).
   const ValueRange pressure_range = finite_range(r->pressure_kpa, result_view_->band(), false);
-  root_map_->set_map(r->root_map, session_->spec().thresholds,
-                     QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
-                     &pressure_range);
+  root_map_->set_map(
+      r->root_map, session_->spec().thresholds,
+      QStringLiteral("Root map, %1: hydrostatic pressure").arg(QString::fromStdString(r->name)),
+      &pressure_range);
   root_map_dirty_ = false;
 }
 
 void MainWindow::refresh_comparison() {
   // The comparison redraws up to four models: only when it is on screen.
-  if (!comparison_dirty_ || tabs_->currentWidget() != comparison_ || session_->results().empty()) return;
+  if (!comparison_dirty_ || tabs_->currentWidget() != comparison_ || session_->results().empty())
+    return;
   comparison_->show_session(*session_, force_text());
   comparison_dirty_ = false;
 }
@@ -553,9 +593,12 @@ void MainWindow::refresh_recent_menu() {
   recent_menu_->clear();
   const QStringList paths = QSettings().value(QLatin1String(kRecentKey)).toStringList();
   for (const QString& path : paths) {
-    recent_menu_->addAction(QFileInfo(path).fileName(), this, [this, path]() {
-      if (maybe_save()) open_case(path);
-    })->setToolTip(path);
+    recent_menu_
+        ->addAction(QFileInfo(path).fileName(), this,
+                    [this, path]() {
+                      if (maybe_save()) open_case(path);
+                    })
+        ->setToolTip(path);
   }
   recent_menu_->setEnabled(!paths.isEmpty());
 }
@@ -594,9 +637,9 @@ bool MainWindow::open_case(const QString& path) {
 bool MainWindow::save() {
   if (session_->document().save_needs_path()) {
     if (!options_.dialogs) return false;
-    const QString path = QFileDialog::getSaveFileName(this, QStringLiteral("Save case"),
-                                                      suggested_path(file_stem() + QStringLiteral(".json")),
-                                                      QStringLiteral("Sharpey cases (*.json)"));
+    const QString path = QFileDialog::getSaveFileName(
+        this, QStringLiteral("Save case"), suggested_path(file_stem() + QStringLiteral(".json")),
+        QStringLiteral("Sharpey cases (*.json)"));
     if (path.isEmpty()) return false;
     return save_as(path.endsWith(QStringLiteral(".json")) ? path : path + QStringLiteral(".json"));
   }
@@ -619,10 +662,11 @@ bool MainWindow::save_as(const QString& path) {
 
 bool MainWindow::maybe_save() {
   if (!session_->document().needs_save_prompt()) return true;
-  const auto answer = ask(QStringLiteral("Unsaved changes"),
-                          QStringLiteral("%1 has changes that are not saved. Save them first?")
-                              .arg(session_->document().display_name()),
-                          QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel, prompt_answer_);
+  const auto answer =
+      ask(QStringLiteral("Unsaved changes"),
+          QStringLiteral("%1 has changes that are not saved. Save them first?")
+              .arg(session_->document().display_name()),
+          QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel, prompt_answer_);
   if (answer == QMessageBox::Save) return save();
   return answer == QMessageBox::Discard;
 }
@@ -632,7 +676,8 @@ void MainWindow::autosave_now() {
   const QString json = session_->case_json();
   if (json == autosaved_json_) return;
   QString error;
-  if (autosave_->write(json, session_->document().path(), QString::fromStdString(session_->spec().label), &error)) {
+  if (autosave_->write(json, session_->document().path(),
+                       QString::fromStdString(session_->spec().label), &error)) {
     autosaved_json_ = json;
   } else {
     status_->setText(QStringLiteral("Autosave failed: ") + error);
@@ -646,13 +691,15 @@ void MainWindow::check_recovery() {
   const RecoverableCase* newest = &found.front();
   for (const auto& f : found)
     if (f.saved_at > newest->saved_at) newest = &f;
-  const auto answer =
-      ask(QStringLiteral("Recover unsaved work"),
-          QStringLiteral("Sharpey did not close normally. An autosaved copy of \"%1\" (%2) from %3 exists. "
-                         "Recover it?")
-              .arg(newest->label, newest->original_path.isEmpty() ? QStringLiteral("untitled") : newest->original_path,
-                   newest->saved_at.toLocalTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))),
-          QMessageBox::Yes | QMessageBox::No, QMessageBox::Yes);
+  const auto answer = ask(
+      QStringLiteral("Recover unsaved work"),
+      QStringLiteral(
+          "Sharpey did not close normally. An autosaved copy of \"%1\" (%2) from %3 exists. "
+          "Recover it?")
+          .arg(newest->label,
+               newest->original_path.isEmpty() ? QStringLiteral("untitled") : newest->original_path,
+               newest->saved_at.toLocalTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))),
+      QMessageBox::Yes | QMessageBox::No, QMessageBox::Yes);
   if (answer != QMessageBox::Yes) {
     AutosaveStore::remove(*newest);
     return;
@@ -728,8 +775,10 @@ void MainWindow::set_solving_ui(bool on) {
 
 QImage MainWindow::view_image(ViewKind which) {
   switch (which) {
-    case ViewKind::k3D: return result_view_->grab_image();
-    case ViewKind::kRootMap: return root_map_->grab().toImage();
+    case ViewKind::k3D:
+      return result_view_->grab_image();
+    case ViewKind::kRootMap:
+      return root_map_->grab().toImage();
     case ViewKind::kComparison:
       if (tabs_->currentWidget() != comparison_) {
         const int was = tabs_->currentIndex();
@@ -752,14 +801,16 @@ QString MainWindow::image_caption(ViewKind which) const {
     for (const auto& result : session_->results()) names << QString::fromStdString(result.name);
     level = QStringLiteral("bone levels compared: ") + names.join(QStringLiteral(", "));
   } else {
-    level = QStringLiteral("bone level: ") + (r ? QString::fromStdString(r->name) : QStringLiteral("none solved"));
+    level = QStringLiteral("bone level: ") +
+            (r ? QString::fromStdString(r->name) : QStringLiteral("none solved"));
   }
   const Quantity q = which == ViewKind::kRootMap      ? Quantity::kPressure
                      : which == ViewKind::kComparison ? comparison_->quantity()
                                                       : result_view_->quantity();
   return QStringLiteral("%1\n%2; force system: %3; colours: %4 (%5).\n%6")
-      .arg(QString::fromStdString(session_->spec().label), level, describe(session_->load_controls()), label(q),
-           unit_label(q), QString::fromStdString(analysis::caution_text()));
+      .arg(QString::fromStdString(session_->spec().label), level,
+           describe(session_->load_controls()), label(q), unit_label(q),
+           QString::fromStdString(analysis::caution_text()));
 }
 
 QImage MainWindow::captioned(const QImage& picture, const QString& caption) const {
@@ -769,13 +820,15 @@ QImage MainWindow::captioned(const QImage& picture, const QString& caption) cons
   const int margin = 8;
   const QRect room(margin, 0, std::max(200, picture.width() - 2 * margin), 100000);
   const QRect needed = fm.boundingRect(room, Qt::TextWordWrap, caption);
-  QImage out(picture.width(), picture.height() + needed.height() + 2 * margin, QImage::Format_RGB32);
+  QImage out(picture.width(), picture.height() + needed.height() + 2 * margin,
+             QImage::Format_RGB32);
   out.fill(palette().window().color());
   QPainter p(&out);
   p.drawImage(0, 0, picture);
   p.setFont(font);
   p.setPen(palette().windowText().color());
-  p.drawText(QRect(margin, picture.height() + margin, room.width(), needed.height()), Qt::TextWordWrap, caption);
+  p.drawText(QRect(margin, picture.height() + margin, room.width(), needed.height()),
+             Qt::TextWordWrap, caption);
   p.end();
   out.setText(QStringLiteral("Description"), caption);
   return out;
@@ -786,7 +839,8 @@ bool MainWindow::export_image(const QString& path, ViewKind which) {
   const QImage image = view.isNull() ? view : captioned(view, image_caption(which));
   if (image.isNull() || !image.save(path, "PNG")) {
     show_error(QStringLiteral("Could not export the image"),
-               QStringLiteral("Writing %1 failed (no permission, or the folder does not exist).").arg(path));
+               QStringLiteral("Writing %1 failed (no permission, or the folder does not exist).")
+                   .arg(path));
     return false;
   }
   status_->setText(QStringLiteral("Image written to %1.").arg(path));
@@ -795,7 +849,8 @@ bool MainWindow::export_image(const QString& path, ViewKind which) {
 
 bool MainWindow::export_report(const QString& path) {
   if (session_->results().empty()) {
-    show_error(QStringLiteral("No report yet"), QStringLiteral("There are no results yet: open or solve a case first."));
+    show_error(QStringLiteral("No report yet"),
+               QStringLiteral("There are no results yet: open or solve a case first."));
     return false;
   }
   if (!every_level_solved(QStringLiteral("No report yet"))) return false;
@@ -820,7 +875,8 @@ bool MainWindow::export_report(const QString& path) {
 bool MainWindow::export_data(const QString& folder) {
   const analysis::Study* study = session_->study();
   if (!study || session_->results().empty()) {
-    show_error(QStringLiteral("Nothing to export"), QStringLiteral("There are no results yet: open or solve a case first."));
+    show_error(QStringLiteral("Nothing to export"),
+               QStringLiteral("There are no results yet: open or solve a case first."));
     return false;
   }
   if (!every_level_solved(QStringLiteral("Nothing to export yet"))) return false;
@@ -830,14 +886,20 @@ bool MainWindow::export_data(const QString& folder) {
       throw analysis::OutputError("cannot create the folder " + folder.toStdString());
     const auto& results = session_->results();
     const analysis::CaseSpec& spec = study->spec();
-    auto out = [&](const std::string& name) { return dir.filePath(QString::fromStdString(name)).toStdString(); };
-    analysis::write_file_atomic(out("results.json"),
-                                analysis::results_json(session_->spec(), results, analysis::scenario_facts(*study, false)));
-    analysis::write_file_atomic(out("summary.csv"), analysis::summary_csv(session_->spec(), results));
-    analysis::write_file_atomic(out("summary.txt"), analysis::summary_text(session_->spec(), results));
+    auto out = [&](const std::string& name) {
+      return dir.filePath(QString::fromStdString(name)).toStdString();
+    };
+    analysis::write_file_atomic(
+        out("results.json"),
+        analysis::results_json(session_->spec(), results, analysis::scenario_facts(*study, false)));
+    analysis::write_file_atomic(out("summary.csv"),
+                                analysis::summary_csv(session_->spec(), results));
+    analysis::write_file_atomic(out("summary.txt"),
+                                analysis::summary_text(session_->spec(), results));
     for (size_t k = 0; k < results.size(); ++k) {
       const std::string stem = analysis::scenario_file_stem(static_cast<int>(k), results[k].name);
-      analysis::write_file_atomic(out(stem + "_root_map.csv"), analysis::root_map_csv(spec, results[k]));
+      analysis::write_file_atomic(out(stem + "_root_map.csv"),
+                                  analysis::root_map_csv(spec, results[k]));
       analysis::write_scenario_vtu(*study->solutions()[k], results[k], out(stem + "_model.vtu"),
                                    out(stem + "_pdl.vtu"));
     }
@@ -855,10 +917,15 @@ bool MainWindow::every_level_solved(const QString& title) {
   if (!study || study->complete()) return true;
   const QString n = QString::number(study->spec().scenarios.size());
   const QString k = QString::number(study->solutions().size());
-  show_error(title, solving() ? QStringLiteral("Only %1 of %2 bone levels are solved so far: wait until the others are "
-                                               "solved.").arg(k, n)
-                              : QStringLiteral("Only %1 of %2 bone levels are solved (the solve was stopped): mesh and "
-                                               "solve again (F5) first.").arg(k, n));
+  show_error(
+      title,
+      solving()
+          ? QStringLiteral("Only %1 of %2 bone levels are solved so far: wait until the others are "
+                           "solved.")
+                .arg(k, n)
+          : QStringLiteral("Only %1 of %2 bone levels are solved (the solve was stopped): mesh and "
+                           "solve again (F5) first.")
+                .arg(k, n));
   return false;
 }
 

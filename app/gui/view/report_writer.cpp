@@ -66,7 +66,8 @@ struct Page {
     p->setPen(colour);
     const QRect bound = p->boundingRect(QRect(body.left(), y, body.width(), 100000),
                                         Qt::TextWordWrap | Qt::AlignLeft, text);
-    p->drawText(QRect(body.left(), y, body.width(), bound.height()), Qt::TextWordWrap | Qt::AlignLeft, text);
+    p->drawText(QRect(body.left(), y, body.width(), bound.height()),
+                Qt::TextWordWrap | Qt::AlignLeft, text);
     y += bound.height() + line / 3;
     p->setPen(Qt::black);
     p->setFont(saved);
@@ -77,9 +78,11 @@ struct Page {
       p->setPen(QColor(70, 70, 70));
       p->drawText(QRect(body.left(), y, label_width, line), Qt::AlignLeft | Qt::AlignVCenter, name);
       p->setPen(Qt::black);
-      const QRect bound = p->boundingRect(QRect(body.left() + label_width, y, body.width() - label_width, 100000),
-                                          Qt::TextWordWrap, value);
-      p->drawText(QRect(body.left() + label_width, y, body.width() - label_width, std::max(line, bound.height())),
+      const QRect bound =
+          p->boundingRect(QRect(body.left() + label_width, y, body.width() - label_width, 100000),
+                          Qt::TextWordWrap, value);
+      p->drawText(QRect(body.left() + label_width, y, body.width() - label_width,
+                        std::max(line, bound.height())),
                   Qt::TextWordWrap | Qt::AlignLeft | Qt::AlignVCenter, value);
       y += std::max(line, bound.height()) + line / 5;
     }
@@ -88,7 +91,8 @@ struct Page {
   void image(const QImage& img, int max_height) {
     if (img.isNull()) return;
     const QSize fitted = img.size().scaled(body.width(), max_height, Qt::KeepAspectRatio);
-    const QRect target(body.left() + (body.width() - fitted.width()) / 2, y, fitted.width(), fitted.height());
+    const QRect target(body.left() + (body.width() - fitted.width()) / 2, y, fitted.width(),
+                       fitted.height());
     p->drawImage(target, img);
     y = target.bottom() + line / 2;
   }
@@ -105,8 +109,9 @@ int footer_height(QPainter& p, const QRect& page) {
   const QFont saved = p.font();
   p.setFont(footer_font(saved));
   const int h = p.fontMetrics().height();
-  const QRect caution = p.boundingRect(QRect(page.left(), 0, page.width(), 100000), Qt::TextWordWrap | Qt::AlignLeft,
-                                       QString::fromStdString(analysis::caution_text()));
+  const QRect caution =
+      p.boundingRect(QRect(page.left(), 0, page.width(), 100000), Qt::TextWordWrap | Qt::AlignLeft,
+                     QString::fromStdString(analysis::caution_text()));
   p.setFont(saved);
   return caution.height() + 2 * h;  // a third of a line above, the caution, the page number line
 }
@@ -120,10 +125,13 @@ void footer(QPainter& p, const QRect& page, int number, const QString& case_file
   p.setPen(QColor(90, 90, 90));
   p.drawLine(box.topLeft(), box.topRight());
   // The caution whole, then the page number on its own line under it.
-  p.drawText(QRect(page.left(), box.top() + h / 3, page.width(), total - h - h / 3), Qt::TextWordWrap | Qt::AlignLeft,
-             QString::fromStdString(analysis::caution_text()));
+  p.drawText(QRect(page.left(), box.top() + h / 3, page.width(), total - h - h / 3),
+             Qt::TextWordWrap | Qt::AlignLeft, QString::fromStdString(analysis::caution_text()));
   p.drawText(QRect(page.left(), page.bottom() - h, page.width(), h), Qt::AlignRight,
-             QStringLiteral("Sharpey report, %1, page %2 of %3").arg(case_file).arg(number).arg(kReportPages));
+             QStringLiteral("Sharpey report, %1, page %2 of %3")
+                 .arg(case_file)
+                 .arg(number)
+                 .arg(kReportPages));
   p.setFont(saved);
   p.setPen(Qt::black);
 }
@@ -156,7 +164,8 @@ QString describe_case(const analysis::CaseSpec& s) {
 
 int write_report(const QString& path, const ReportInputs& in, QString* error) {
   if (!in.spec || !in.results || in.results->empty()) {
-    if (error) *error = QStringLiteral("there are no results to report yet; open or solve a case first");
+    if (error)
+      *error = QStringLiteral("there are no results to report yet; open or solve a case first");
     return 0;
   }
   const analysis::CaseSpec& spec = *in.spec;
@@ -169,11 +178,14 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
   writer.setResolution(300);
   // The force system as set, beside the case label (which may name an older one).
-  writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)").arg(QString::fromStdString(spec.label), describe(in.load)));
+  writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)")
+                      .arg(QString::fromStdString(spec.label), describe(in.load)));
   writer.setCreator(QStringLiteral("Sharpey"));
   QPainter painter;
   if (!painter.begin(&writer)) {
-    if (error) *error = QStringLiteral("cannot write %1 (no permission, or the folder does not exist)").arg(path);
+    if (error)
+      *error =
+          QStringLiteral("cannot write %1 (no permission, or the folder does not exist)").arg(path);
     return 0;
   }
   QFont font(QStringLiteral("DejaVu Sans"));
@@ -182,7 +194,8 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   const QRect page = painter.viewport();
   const int line = painter.fontMetrics().height();
   // The body ends half a line above the footer, whatever the caution's length.
-  const QRect body(page.left(), page.top(), page.width(), page.height() - footer_height(painter, page) - line / 2);
+  const QRect body(page.left(), page.top(), page.width(),
+                   page.height() - footer_height(painter, page) - line / 2);
   int pages = 0;
 
   // ---- page 1: case, force system, thresholds, verdict, key numbers ----
@@ -191,24 +204,28 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.heading(QStringLiteral("Sharpey report"), 2.0);
     pg.paragraph(QString::fromStdString(spec.label), Qt::black, true);
     pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
-                     .arg(in.case_file, QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))));
+                     .arg(in.case_file, QDateTime::currentDateTime().toString(
+                                            QStringLiteral("yyyy-MM-dd HH:mm"))));
     // The caution, boxed.
     const QString caution = QString::fromStdString(analysis::caution_text());
-    const QRect bound = painter.boundingRect(QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, 100000),
-                                             Qt::TextWordWrap, caution);
+    const QRect bound = painter.boundingRect(
+        QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, 100000),
+        Qt::TextWordWrap, caution);
     const QRect box(body.left(), pg.y, body.width(), bound.height() + line);
     painter.fillRect(box, QColor(246, 231, 193));
     painter.setPen(QPen(QColor(156, 110, 20), 4));
     painter.drawLine(box.topLeft(), box.bottomLeft());
     painter.setPen(QColor(70, 50, 0));
-    painter.drawText(QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, bound.height()),
-                     Qt::TextWordWrap, caution);
+    painter.drawText(
+        QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, bound.height()),
+        Qt::TextWordWrap, caution);
     painter.setPen(Qt::black);
     pg.y = box.bottom() + line;
     if (in.stale) {
-      pg.paragraph(QStringLiteral("Note: the case geometry was edited after the last solve; the results "
-                                  "below belong to the geometry that was solved."),
-                   QColor(120, 60, 0), true);
+      pg.paragraph(
+          QStringLiteral("Note: the case geometry was edited after the last solve; the results "
+                         "below belong to the geometry that was solved."),
+          QColor(120, 60, 0), true);
     }
     pg.heading(QStringLiteral("Model"));
     pg.paragraph(describe_case(spec));
@@ -216,13 +233,15 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     pg.paragraph(describe(in.load) + '.');
     pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
     pg.heading(QStringLiteral("Thresholds and their sources"));
-    pg.rows({{QStringLiteral("capillary pressure"),
-              with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
-                  QString::fromStdString(spec.thresholds.capillary.source)},
-             {QStringLiteral("physiological limit"),
-              with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
-                  QString::fromStdString(spec.thresholds.limit.source)}},
-            body.width() / 4);
+    pg.rows(
+        {{QStringLiteral("capillary pressure"),
+          with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) +
+              QStringLiteral(". Source: ") +
+              QString::fromStdString(spec.thresholds.capillary.source)},
+         {QStringLiteral("physiological limit"),
+          with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) +
+              QStringLiteral(". Source: ") + QString::fromStdString(spec.thresholds.limit.source)}},
+        body.width() / 4);
     const Verdict v = judge(r, spec.thresholds);
     pg.heading(QStringLiteral("Reading for %1").arg(QString::fromStdString(r.name)));
     const QRect badge(body.left(), pg.y, body.width(), static_cast<int>(line * 1.6));
@@ -231,13 +250,15 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     QFont bold = font;
     bold.setBold(true);
     painter.setFont(bold);
-    painter.drawText(badge.adjusted(line / 2, 0, 0, 0), Qt::AlignLeft | Qt::AlignVCenter, v.headline);
+    painter.drawText(badge.adjusted(line / 2, 0, 0, 0), Qt::AlignLeft | Qt::AlignVCenter,
+                     v.headline);
     painter.setFont(font);
     painter.setPen(Qt::black);
     pg.y = badge.bottom() + line / 2;
     pg.paragraph(v.detail);
     if (r.beyond_linear_range) {
-      pg.paragraph(QString::fromStdString(analysis::beyond_linear_range_text(r)), QColor(120, 60, 0), true);
+      pg.paragraph(QString::fromStdString(analysis::beyond_linear_range_text(r)),
+                   QColor(120, 60, 0), true);
     }
     pg.rows(key_number_rows(r), body.width() / 3);
     footer(painter, page, ++pages, in.case_file);
@@ -248,17 +269,20 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   {
     Page pg{&painter, body, body.top(), line};
     pg.heading(QStringLiteral("%1: ligament pressure").arg(QString::fromStdString(r.name)));
-    pg.paragraph(QStringLiteral("3D view: hydrostatic pressure in the PDL (compression positive), threshold "
-                                "iso-lines, force arrow at the bracket, centre of resistance (CRes) and centre "
-                                "of rotation (CRot)."));
+    pg.paragraph(QStringLiteral(
+        "3D view: hydrostatic pressure in the PDL (compression positive), threshold "
+        "iso-lines, force arrow at the bracket, centre of resistance (CRes) and centre "
+        "of rotation (CRot)."));
     pg.image(in.view_3d, body.height() / 2 - 4 * line);
-    pg.paragraph(QStringLiteral("Root map: the root surface unrolled, angle around the root against depth below "
-                                "the CEJ."));
+    pg.paragraph(QStringLiteral(
+        "Root map: the root surface unrolled, angle around the root against depth below "
+        "the CEJ."));
     RootMapView map;
     // The range shown (core/quantity.h) for pressure is the key numbers' span: peak tension to
     // peak compression outside the crest edge band.
     const ValueRange shown{-r.pressure_max_tension_kpa, r.pressure_max_compression_kpa};
-    map.set_map(r.root_map, spec.thresholds, QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
+    map.set_map(r.root_map, spec.thresholds,
+                QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
     const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
     paint_scaled(painter, font, body, pg.y, map_height,
                  [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
@@ -270,34 +294,41 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   {
     Page pg{&painter, body, body.top(), line};
     pg.heading(QStringLiteral("Bone levels compared"));
-    pg.paragraph(QStringLiteral("Same force system at every bone level; one colour scale for all views."));
+    pg.paragraph(
+        QStringLiteral("Same force system at every bone level; one colour scale for all views."));
     pg.image(in.comparison, body.height() / 3);
     const ScenarioTable table = make_table(results);
     // Table: one column per scenario.
     const int label_w = body.width() * 2 / 5;
-    const int col_w = (body.width() - label_w) / std::max(1, static_cast<int>(table.row_names.size()));
+    const int col_w =
+        (body.width() - label_w) / std::max(1, static_cast<int>(table.row_names.size()));
     QFont bold = font;
     bold.setBold(true);
     painter.setFont(bold);
     for (int s = 0; s < table.row_names.size(); ++s)
-      painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight, table.row_names[s]);
+      painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight,
+                       table.row_names[s]);
     painter.setFont(font);
     pg.y += line + line / 4;
     for (int c = 0; c < static_cast<int>(table.columns.size()); ++c) {
-      if (c % 2 == 0) painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
-      painter.drawText(QRect(body.left(), pg.y, label_w, line), Qt::AlignLeft | Qt::AlignVCenter, table.header_text(c));
+      if (c % 2 == 0)
+        painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
+      painter.drawText(QRect(body.left(), pg.y, label_w, line), Qt::AlignLeft | Qt::AlignVCenter,
+                       table.header_text(c));
       for (int s = 0; s < table.row_names.size(); ++s)
-        painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight | Qt::AlignVCenter,
-                         table.cell_text(s, c));
+        painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line),
+                         Qt::AlignRight | Qt::AlignVCenter, table.cell_text(s, c));
       pg.y += line;
     }
     pg.y += line;
     // A reading for every bone level, not only the one on display.
     pg.heading(QStringLiteral("Reading per bone level"));
     for (const analysis::ScenarioResult& level : results)
-      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") + judge(level, spec.thresholds).detail +
+      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") +
+                   judge(level, spec.thresholds).detail +
                    (level.beyond_linear_range
-                        ? QStringLiteral(" ") + QString::fromStdString(analysis::beyond_linear_range_text(level))
+                        ? QStringLiteral(" ") +
+                              QString::fromStdString(analysis::beyond_linear_range_text(level))
                         : QString()));
     TrendPlot plot;
     plot.set_table(table);

@@ -63,7 +63,7 @@ std::vector<BandInputRange> default_band_ranges(const CaseSpec& spec);
 struct BandOptions {
   int n_samples = 24;
   std::uint64_t seed = 12345;  // BandSpec::seed's default
-  bool sensitivity = true;  // the one-at-a-time ranking: two more solves per varied input
+  bool sensitivity = true;     // the one-at-a-time ranking: two more solves per varied input
   std::vector<BandInputRange> ranges;  // one per input of all_band_inputs(), in that order
 };
 // The options a case asks for (spec.band) with default_band_ranges(spec).
@@ -140,9 +140,9 @@ CaseSpec band_sample_case(const CaseSpec& spec, const std::vector<BandInputRange
 // depend on how the work is scheduled. A sample that changes only materials reuses the study's
 // mesh of that scenario (the fem library has no way to reuse a symbolic factorisation, so it is
 // factorised anew); one that changes the geometry is meshed anew, on a second thread while the
-// previous one is solved (meshing is deterministic: only the time changes). progress("band sample i/n ...",
-// fraction); Cancelled when *cancel becomes true (checked between and inside solves). Throws
-// InputError (validate_band), MeshError, SolverError.
+// previous one is solved (meshing is deterministic: only the time changes). progress("band sample
+// i/n ...", fraction); Cancelled when *cancel becomes true (checked between and inside solves).
+// Throws InputError (validate_band), MeshError, SolverError.
 AllowanceBand allowance_band(const Study& study, const BandOptions& options,
                              const ProgressCallback& progress = {},
                              const std::atomic<bool>* cancel = nullptr);
