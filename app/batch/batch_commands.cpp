@@ -209,17 +209,22 @@ bool changes_model(const std::string& key) {
          key != "notes";
 }
 
-// Testing aid: SHARPEY_TEST_KILL_AFTER_MODELS=<k> makes rank 0 kill its own process (SIGKILL, as
-// a scheduler or the machine would) right after the k-th checkpoint of this run is saved, so the
-// restart tests stop a sweep at a known point (tests/analysis/test_batch_sweep_mpi.cpp).
+// Testing aid: SHARPEY_TEST_KILL_AFTER_MODELS=<k> makes rank 0 signal its own process right after
+// the k-th checkpoint of this run is saved, so the restart tests stop a sweep at a known point
+// (tests/analysis/test_batch_sweep_mpi.cpp). The signal is SIGKILL (as a scheduler or the
+// machine would send it), or SIGINT (as Ctrl-C would) when SHARPEY_TEST_KILL_SIGNAL=INT.
 void kill_if_test_asks(int n_saved) {
   static const long kill_after = [] {
     const char* value = std::getenv("SHARPEY_TEST_KILL_AFTER_MODELS");
     return value ? std::strtol(value, nullptr, 10) : 0L;
   }();
-  if (kill_after > 0 && n_saved >= kill_after) {
+  static const int signal = [] {
+    const char* value = std::getenv("SHARPEY_TEST_KILL_SIGNAL");
+    return value && std::string(value) == "INT" ? SIGINT : SIGKILL;
+  }();
+  if (kill_after > 0 && n_saved == kill_after) {
     std::fflush(nullptr);
-    ::raise(SIGKILL);
+    ::raise(signal);
   }
 }
 

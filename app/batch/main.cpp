@@ -186,6 +186,7 @@ int main(int argc, char** argv) {
                           ? "; run the same command again to resume\n"
                           : "; once the cause is fixed, the same command resumes from them\n");
     }
+    if (alone && f.exit_code == kInterrupted) world->leave_interrupted(f.exit_code);
     if (alone) world->abort(f.exit_code);
     return f.exit_code;
   }

@@ -3,6 +3,7 @@
 #include <mpi.h>
 
 #include <algorithm>
+#include <cstdio>
 #include <cstdlib>
 #include <cstring>
 
@@ -153,6 +154,11 @@ std::vector<std::pair<long long, std::string>> MpiWorld::receive_ready() {
 void MpiWorld::abort(int exit_code) const {
   if (initialised_ && size_ > 1) MPI_Abort(MPI_COMM_WORLD, exit_code);
   std::exit(exit_code);
+}
+
+void MpiWorld::leave_interrupted(int exit_code) const {
+  std::fflush(nullptr);
+  std::_Exit(exit_code);
 }
 
 }  // namespace sharpey::batch

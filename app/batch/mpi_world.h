@@ -60,6 +60,11 @@ class MpiWorld {
   // Ends every rank of the job with `exit_code` (after a failure on one rank, so that the others
   // do not wait for it forever). Never returns. On one rank: std::exit.
   [[noreturn]] void abort(int exit_code) const;
+  // Ends this rank with `exit_code` after an interruption, without MPI_Abort or MPI_Finalize:
+  // the launcher signalled every rank (mpirun and srun pass Ctrl-C and SIGTERM on), so each says
+  // it once and leaves, and a rank that ends unfinalised makes the launcher end the others (a
+  // signal to one rank alone thus still stops the job). Never returns.
+  [[noreturn]] void leave_interrupted(int exit_code) const;
 
  private:
   struct Pending;

@@ -169,6 +169,37 @@ TEST(SweepMpi, RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoin
   EXPECT_EQ(read_file(out + "/sweep.csv"), read_file(folder / "whole/sweep.csv"));
 }
 
+// Ctrl-C reaches every rank (the launcher passes it on); here rank 0 alone is interrupted after
+// its first checkpoint, the harder case: it says so and ends with the interrupted code (6), and
+// the launcher ends the other rank. No MPI_Abort banner, no crash report; a rerun resumes.
+TEST(SweepMpi, InterruptedRankEndsTheJobWithTheInterruptedCodeAndARerunResumes) {
+  TempFolder folder("sweep-interrupt-mpi");
+  const std::string case_path = folder / "case.json";
+  write_file(case_path, coarse_case_json(1));
+  const ProcessResult whole = run_batch(sweep_args(case_path, folder / "whole"));
+  ASSERT_EQ(whole.exit_code, 0) << whole.err;
+
+  const std::string out = folder / "out";
+  const ProcessResult stopped =
+      run_mpi(2, sweep_args(case_path, out),
+              {"SHARPEY_TEST_KILL_AFTER_MODELS=1", "SHARPEY_TEST_KILL_SIGNAL=INT"});
+  EXPECT_EQ(stopped.exit_code, 6) << stopped.err;
+  EXPECT_NE(stopped.err.find("interrupted (rank 0 of 2)"), std::string::npos) << stopped.err;
+  EXPECT_NE(stopped.err.find("run the same command again to resume"), std::string::npos)
+      << stopped.err;
+  EXPECT_EQ(stopped.err.find("MPI_ABORT"), std::string::npos) << stopped.err;
+  EXPECT_EQ(stopped.err.find("Segmentation"), std::string::npos) << stopped.err;
+  EXPECT_FALSE(exists(out + "/sweep.csv"));
+  const size_t kept = count_checkpoints(out);
+  ASSERT_GE(kept, 1u) << stopped.err;
+
+  const ProcessResult resumed = run_mpi(2, sweep_args(case_path, out));
+  ASSERT_EQ(resumed.exit_code, 0) << resumed.err;
+  EXPECT_NE(resumed.err.find("resuming: " + std::to_string(kept) + " model"), std::string::npos)
+      << resumed.err;
+  EXPECT_EQ(read_file(out + "/sweep.csv"), read_file(folder / "whole/sweep.csv"));
+}
+
 size_t count(const std::string& text, const std::string& what) {
   size_t n = 0;
   for (size_t at = text.find(what); at != std::string::npos; at = text.find(what, at + 1)) ++n;
