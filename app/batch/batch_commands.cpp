@@ -250,63 +250,80 @@ struct SweepPlan {
   std::vector<size_t> model_begin;
 };
 
-// Reads the case, the design and the --vary options and expands them into the checked
-// combinations, grouped into models. The same on every rank.
-SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
-  SweepPlan plan;
-  std::string base_text = case_text(options);
+// The base case with the design applied, and the variations of the design and the --vary
+// options, the keys that change the model first.
+struct SweepInputs {
+  std::string base_text;
+  CaseSpec base;
   std::vector<analysis::CaseVariation> variations;
+};
+
+SweepInputs read_sweep_inputs(const CommonOptions& options, const SweepOptions& sweep) {
+  SweepInputs in;
+  in.base_text = case_text(options);
   if (!sweep.design_path.empty()) {
     const analysis::StudyDesign design = analysis::parse_study_design(
         analysis::read_case_text(sweep.design_path), sweep.design_path);
-    analysis::parse_case(base_text, options.case_path,
+    analysis::parse_case(in.base_text, options.case_path,
                          case_folder(options));  // report the case's own errors first
-    base_text = analysis::apply_study_design(base_text, design);
-    variations = design.variations;
+    in.base_text = analysis::apply_study_design(in.base_text, design);
+    in.variations = design.variations;
   }
-  plan.base = analysis::parse_case(base_text,
-                                   sweep.design_path.empty()
-                                       ? options.case_path
-                                       : options.case_path + " with " + sweep.design_path,
-                                   case_folder(options));
+  in.base = analysis::parse_case(in.base_text,
+                                 sweep.design_path.empty()
+                                     ? options.case_path
+                                     : options.case_path + " with " + sweep.design_path,
+                                 case_folder(options));
 
   for (const std::string& v : sweep.vary) {
     analysis::CaseVariation parsed = analysis::parse_variation(v);
-    for (const auto& earlier : variations)
+    for (const auto& earlier : in.variations)
       if (earlier.key == parsed.key)
         throw InputError("--vary", "--vary " + v + ": " + parsed.key +
                                        " is varied twice (by --vary or the design); give all its "
                                        "values in one place");
-    variations.push_back(std::move(parsed));
+    in.variations.push_back(std::move(parsed));
   }
-  if (variations.empty() && sweep.design_path.empty())
+  if (in.variations.empty() && sweep.design_path.empty())
     throw InputError("--vary", "sweep needs at least one --vary KEY=V1,V2,... or a --design file");
   // Keys that leave the model unchanged vary fastest, so consecutive combinations reuse one
   // solved Study (a new force system or threshold costs milliseconds, a new model a full solve).
-  std::stable_partition(variations.begin(), variations.end(),
+  std::stable_partition(in.variations.begin(), in.variations.end(),
                         [](const auto& v) { return changes_model(v.key); });
+  return in;
+}
+
+// The number of combinations; refuses a sweep larger than one sweep takes, with its full size.
+size_t count_combinations(const std::vector<analysis::CaseVariation>& variations,
+                          const SweepOptions& sweep) {
   size_t n_combinations = 1;
   for (const auto& v : variations) {
     n_combinations *= v.values.size();
-    if (n_combinations > kMaxSweepCombinations) {
-      size_t total = 1;  // the full size, for the message (saturating)
-      for (const auto& w : variations)
-        total = total > kMaxSweepCombinations * 1000 ? total : total * w.values.size();
-      throw InputError(
-          sweep.design_path.empty() ? "--vary" : "--design",
-          "the sweep has " + std::to_string(total) + " combinations (" + factor_text(variations) +
-              "), more than the " + std::to_string(kMaxSweepCombinations) +
-              " one sweep takes; split it into several sweeps with their own --out folders, e.g. "
-              "one design file per tooth (\"teeth\": [one tooth]) or per material");
-    }
+    if (n_combinations <= kMaxSweepCombinations) continue;
+    size_t total = 1;  // the full size, for the message (saturating)
+    for (const auto& w : variations)
+      total = total > kMaxSweepCombinations * 1000 ? total : total * w.values.size();
+    throw InputError(
+        sweep.design_path.empty() ? "--vary" : "--design",
+        "the sweep has " + std::to_string(total) + " combinations (" + factor_text(variations) +
+            "), more than the " + std::to_string(kMaxSweepCombinations) +
+            " one sweep takes; split it into several sweeps with their own --out folders, e.g. "
+            "one design file per tooth (\"teeth\": [one tooth]) or per material");
   }
+  return n_combinations;
+}
 
-  // Build and check every combination before any solve, so a bad value fails at once.
-  std::vector<Combination>& combinations = plan.combinations;
+// Every combination, built and checked before any solve so that a bad value fails at once; the
+// last key varies fastest.
+std::vector<Combination> expand_combinations(const SweepInputs& in, const CommonOptions& options,
+                                             const SweepOptions& sweep) {
+  const std::vector<analysis::CaseVariation>& variations = in.variations;
+  const size_t n_combinations = count_combinations(variations, sweep);
+  std::vector<Combination> combinations;
   std::vector<size_t> digit(variations.size(), 0);
   for (size_t c = 0; c < n_combinations; ++c) {
     Combination combo;
-    std::string text = base_text;
+    std::string text = in.base_text;
     std::string description;
     for (size_t k = 0; k < variations.size(); ++k) {
       const std::string& value = variations[k].values[digit[k]];
@@ -328,60 +345,78 @@ SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
       digit[k] = 0;
     }
   }
+  return combinations;
+}
 
-  // Models: runs of consecutive combinations with the same model (the unit of work, solved once).
-  std::vector<size_t>& model_begin = plan.model_begin;
-  {
-    CaseSpec previous;
-    for (size_t c = 0; c < combinations.size(); ++c) {
-      CaseSpec model = model_of(combinations[c].spec);
-      if (c == 0 || model != previous) model_begin.push_back(c);
-      previous = std::move(model);
-    }
-    model_begin.push_back(combinations.size());
+// Models: runs of consecutive combinations with the same model (the unit of work, solved once).
+// Model m is combinations [begin[m], begin[m + 1]).
+std::vector<size_t> group_into_models(const std::vector<Combination>& combinations) {
+  std::vector<size_t> model_begin;
+  CaseSpec previous;
+  for (size_t c = 0; c < combinations.size(); ++c) {
+    CaseSpec model = model_of(combinations[c].spec);
+    if (c == 0 || model != previous) model_begin.push_back(c);
+    previous = std::move(model);
   }
-  for (const auto& v : variations) plan.keys.push_back(v.key);
+  model_begin.push_back(combinations.size());
+  return model_begin;
+}
+
+// Reads the case, the design and the --vary options and expands them into the checked
+// combinations, grouped into models. The same on every rank.
+SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
+  SweepInputs in = read_sweep_inputs(options, sweep);
+  SweepPlan plan;
+  plan.combinations = expand_combinations(in, options, sweep);
+  plan.model_begin = group_into_models(plan.combinations);
+  for (const auto& v : in.variations) plan.keys.push_back(v.key);
+  plan.base = std::move(in.base);
   return plan;
 }
 
-}  // namespace
-
-void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
-  // Stage lines of a model being solved come from rank 0 only; the study line covers all ranks.
-  Progress progress(options.quiet || !world.root());
-  // Every rank plans the sweep itself; rank 0 also checks the output folder and reads the
-  // checkpoints of an earlier run of the same sweep. Then all agree: a failure anywhere stops
-  // every rank, reported once (by rank 0 when it failed too, else by the rank that failed).
+// What every rank knows once the sweep starts: the plan, and on rank 0 the output folder, the
+// checkpoint store and the rows of models an earlier run of the same sweep saved.
+struct SweepStart {
   SweepPlan plan;
   std::unique_ptr<analysis::StagedFolder> out;
   std::unique_ptr<SweepCheckpoint> checkpoint;
   std::map<int, std::string> rows_of_model;
+};
+
+// Rank 0's part of the start: checks the output folder and reads the checkpoints of this sweep.
+void open_sweep_folder(const CommonOptions& options, const SweepOptions& sweep, SweepStart& s) {
+  std::vector<std::vector<std::string>> values;
+  std::vector<std::string> case_json;
+  for (const Combination& c : s.plan.combinations) {
+    values.push_back(c.values);
+    case_json.push_back(analysis::case_to_json(c.spec));
+  }
+  // The thread count changes the last digits (solver_threads.h): rows of another count are
+  // another sweep's.
+  std::vector<std::string> with_threads = s.plan.keys;
+  with_threads.push_back("--threads=" + std::to_string(sweep.threads));
+  SweepCheckpoint::remove_stale_temporaries(options.out_dir);
+  s.out = std::make_unique<analysis::StagedFolder>(options.out_dir);  // checks the path
+  std::error_code ec;
+  std::filesystem::create_directories(options.out_dir, ec);
+  if (ec)
+    throw analysis::OutputError("cannot create the output folder \"" + options.out_dir +
+                                "\" for the sweep's checkpoints: " + ec.message());
+  s.checkpoint = std::make_unique<SweepCheckpoint>(
+      options.out_dir, sweep_fingerprint(with_threads, values, case_json),
+      static_cast<int>(s.plan.model_begin.size()) - 1);
+  s.rows_of_model = s.checkpoint->load();
+}
+
+// Every rank plans the sweep itself; rank 0 also opens the output folder. Then all agree: a
+// failure anywhere stops every rank, reported once (by rank 0 when it failed too, else by the
+// rank that failed).
+SweepStart start_sweep(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
+  SweepStart s;
   std::exception_ptr failure;
   try {
-    plan = plan_sweep(options, sweep);
-    if (world.root()) {
-      std::vector<std::vector<std::string>> values;
-      std::vector<std::string> case_json;
-      for (const Combination& c : plan.combinations) {
-        values.push_back(c.values);
-        case_json.push_back(analysis::case_to_json(c.spec));
-      }
-      // The thread count changes the last digits (solver_threads.h): rows of another count are
-      // another sweep's.
-      std::vector<std::string> with_threads = plan.keys;
-      with_threads.push_back("--threads=" + std::to_string(sweep.threads));
-      SweepCheckpoint::remove_stale_temporaries(options.out_dir);
-      out = std::make_unique<analysis::StagedFolder>(options.out_dir);  // checks the path
-      std::error_code ec;
-      std::filesystem::create_directories(options.out_dir, ec);
-      if (ec)
-        throw analysis::OutputError("cannot create the output folder \"" + options.out_dir +
-                                    "\" for the sweep's checkpoints: " + ec.message());
-      checkpoint = std::make_unique<SweepCheckpoint>(
-          options.out_dir, sweep_fingerprint(with_threads, values, case_json),
-          static_cast<int>(plan.model_begin.size()) - 1);
-      rows_of_model = checkpoint->load();
-    }
+    s.plan = plan_sweep(options, sweep);
+    if (world.root()) open_sweep_folder(options, sweep, s);
   } catch (...) {
     failure = std::current_exception();
   }
@@ -393,18 +428,63 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     if (world.root() || root_code == 0) std::rethrow_exception(failure);
   }
   if (worst != 0) throw StoppedByRoot{root_code != 0 ? root_code : worst};
+  return s;
+}
 
-  const CaseSpec& base = plan.base;
-  const std::vector<std::string>& keys = plan.keys;
-  const std::vector<Combination>& combinations = plan.combinations;
-  const std::vector<size_t>& model_begin = plan.model_begin;
-  const int n_models = static_cast<int>(model_begin.size()) - 1;
+// The models no checkpoint holds, as rank 0 knows them, on every rank.
+std::vector<int> models_left(const SweepStart& s, MpiWorld& world) {
+  const int n_models = static_cast<int>(s.plan.model_begin.size()) - 1;
   std::string done(static_cast<size_t>(n_models), '0');
-  for (const auto& [m, rows] : rows_of_model) done[static_cast<size_t>(m)] = '1';
+  for (const auto& [m, rows] : s.rows_of_model) done[static_cast<size_t>(m)] = '1';
   done = world.broadcast(done);
   std::vector<int> left;
   for (int m = 0; m < n_models; ++m)
     if (done[static_cast<size_t>(m)] == '0') left.push_back(m);
+  return left;
+}
+
+// Solves model m and evaluates each of its combinations on each bone level: its table rows.
+std::string solve_model_rows(const SweepPlan& plan, int m, Progress& progress) {
+  const size_t n_models = plan.model_begin.size() - 1;
+  const size_t first = plan.model_begin[static_cast<size_t>(m)];
+  const size_t last = plan.model_begin[static_cast<size_t>(m) + 1];
+  const std::string prefix = "model " + std::to_string(m + 1) + " of " + std::to_string(n_models) +
+                             " (combination " + std::to_string(first + 1) + " of " +
+                             std::to_string(plan.combinations.size()) + ")";
+  const analysis::Study study = in_model_stage([&] {
+    return analysis::Study(
+        plan.combinations[first].spec,
+        [&progress, &prefix](const std::string& stage, double f) {
+          progress.report(prefix + ": " + stage, f);
+        },
+        interrupt_flag());
+  });
+  stop_if_interrupted();
+  const auto& solutions = study.solutions();
+  const analysis::ScenarioSolution* healthy =
+      solutions[static_cast<size_t>(study.healthy_index())].get();
+  analysis::SweepTable piece(plan.keys);
+  for (size_t c = first; c < last; ++c) {
+    const CaseSpec& spec = plan.combinations[c].spec;
+    for (const auto& solution : solutions) {
+      const analysis::ScenarioResult r = in_model_stage(
+          [&] { return analysis::evaluate(*solution, spec.load, spec.thresholds, healthy); });
+      piece.add(static_cast<int>(c + 1), plan.combinations[c].values, r);
+    }
+  }
+  return piece.rows_text();
+}
+
+}  // namespace
+
+void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
+  // Stage lines of a model being solved come from rank 0 only; the study line covers all ranks.
+  Progress progress(options.quiet || !world.root());
+  SweepStart start = start_sweep(options, sweep, world);
+  const SweepPlan& plan = start.plan;
+  std::map<int, std::string>& rows_of_model = start.rows_of_model;
+  const int n_models = static_cast<int>(plan.model_begin.size()) - 1;
+  const std::vector<int> left = models_left(start, world);
   const int n_resumed = n_models - static_cast<int>(left.size());
   if (n_resumed > 0)
     progress.note("resuming: " + plural(static_cast<size_t>(n_resumed), "model") + " of " +
@@ -413,7 +493,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
   if (world.root() && world.size() > 1)
     std::fprintf(stderr, "sharpey-batch: %s over %d ranks (%s)\n",
                  plural(left.size(), "model").c_str(), world.size(),
-                 plural(combinations.size(), "combination").c_str());
+                 plural(plan.combinations.size(), "combination").c_str());
   world.begin_independent_work();
   set_solver_threads(sweep.threads);
 
@@ -421,7 +501,7 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
   int n_saved = 0;
   // Rank 0 saves each model's rows (its own and those other ranks send) as a checkpoint.
   const auto save = [&](int m, std::string rows) {
-    checkpoint->save(m, rows);
+    start.checkpoint->save(m, rows);
     rows_of_model[m] = std::move(rows);
     study_progress.model_done();
     kill_if_test_asks(++n_saved);
@@ -440,37 +520,12 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
   for (size_t i = static_cast<size_t>(world.rank()); i < left.size();
        i += static_cast<size_t>(world.size())) {
     const int m = left[i];
-    const size_t first = model_begin[static_cast<size_t>(m)];
-    const size_t last = model_begin[static_cast<size_t>(m) + 1];
-    const std::string prefix =
-        "model " + std::to_string(m + 1) + " of " + std::to_string(n_models) + " (combination " +
-        std::to_string(first + 1) + " of " + std::to_string(combinations.size()) + ")";
-    const analysis::Study study = in_model_stage([&] {
-      return analysis::Study(
-          combinations[first].spec,
-          [&progress, &prefix](const std::string& stage, double f) {
-            progress.report(prefix + ": " + stage, f);
-          },
-          interrupt_flag());
-    });
-    stop_if_interrupted();
-    const auto& solutions = study.solutions();
-    const analysis::ScenarioSolution* healthy =
-        solutions[static_cast<size_t>(study.healthy_index())].get();
-    analysis::SweepTable piece(keys);
-    for (size_t c = first; c < last; ++c) {
-      const CaseSpec& spec = combinations[c].spec;
-      for (const auto& solution : solutions) {
-        const analysis::ScenarioResult r = in_model_stage(
-            [&] { return analysis::evaluate(*solution, spec.load, spec.thresholds, healthy); });
-        piece.add(static_cast<int>(c + 1), combinations[c].values, r);
-      }
-    }
+    std::string rows = solve_model_rows(plan, m, progress);
     if (world.root()) {
-      save(m, piece.rows_text());
+      save(m, std::move(rows));
       take_arrivals();
     } else {
-      world.send_to_root(m, piece.rows_text());
+      world.send_to_root(m, rows);
     }
   }
   if (!world.root()) {
@@ -483,18 +538,18 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     std::this_thread::sleep_for(std::chrono::milliseconds(20));
   }
 
-  analysis::SweepTable table(keys);
+  analysis::SweepTable table(plan.keys);
   for (const auto& [m, rows] : rows_of_model) table.add_rows_text(rows);  // in model order
   progress.note(
-      plural(combinations.size(), "combination") + ", " +
+      plural(plan.combinations.size(), "combination") + ", " +
       plural(static_cast<size_t>(study_progress.n_solved()), "model") + " solved" +
       (n_resumed > 0 ? ", " + std::to_string(n_resumed) + " resumed from checkpoints"
                      : std::string()) +
       (world.size() > 1 ? " on " + std::to_string(world.size()) + " ranks" : std::string()));
-  analysis::write_file_atomic(out->path("sweep.csv"), table.csv());
-  analysis::save_case(base, out->path("sweep_case.json"));
+  analysis::write_file_atomic(start.out->path("sweep.csv"), table.csv());
+  analysis::save_case(plan.base, start.out->path("sweep_case.json"));
   stop_if_interrupted();
-  out->commit();
+  start.out->commit();
   announce(options.out_dir, {"sweep.csv", "sweep_case.json"});
 }
 

@@ -74,19 +74,14 @@ int fail(int code, const std::string& kind, const std::string& message) {
   std::_Exit(kInternalError);
 }
 
-}  // namespace
+// The three commands and their options, filled into `options` and `sweep_options` on parsing.
+struct Commands {
+  CLI::App* run = nullptr;
+  CLI::App* sweep = nullptr;
+  CLI::App* mesh = nullptr;
+};
 
-int main(int argc, char** argv) {
-  sharpey::startup::use_fast_blas_kernels(argv);
-  CLI::App app{
-      "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
-      "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +
-      analysis::caution_text()};
-  app.footer(kFooter);
-  app.require_subcommand(1, 1);
-
-  CommonOptions options;
-  SweepOptions sweep_options;
+Commands add_commands(CLI::App& app, CommonOptions& options, SweepOptions& sweep_options) {
   auto add_common = [&options](CLI::App* sub) {
     sub->add_option("case", options.case_path, "case file (JSON, see docs/case-format.md)")
         ->required()
@@ -97,36 +92,77 @@ int main(int argc, char** argv) {
         ->check(CLI::IsMember({"coarse", "standard", "fine"}));
     sub->add_flag("--quiet,-q", options.quiet, "no progress lines on stderr");
   };
-  CLI::App* run = app.add_subcommand(
+  Commands c;
+  c.run = app.add_subcommand(
       "run",
       "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
       "allowance.csv, case.json and per scenario the model and PDL .vtu and the root-map CSV");
-  add_common(run);
-  run->add_flag("--band", options.band,
-                "also compute the force allowance's variability band (case key allowance.band; "
-                "costs allowance.samples solves per scenario, default 24, plus the sensitivity "
-                "runs)");
-  CLI::App* sweep = app.add_subcommand(
+  add_common(c.run);
+  c.run->add_flag("--band", options.band,
+                  "also compute the force allowance's variability band (case key allowance.band; "
+                  "costs allowance.samples solves per scenario, default 24, plus the sensitivity "
+                  "runs)");
+  c.sweep = app.add_subcommand(
       "sweep",
       "full-factorial sweep over case keys; write sweep.csv (one row per combination "
       "and scenario)");
-  add_common(sweep);
-  sweep->add_option("--vary", sweep_options.vary,
-                    "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "
-                    "load.magnitude=50,100,150 (repeat for more keys)");
-  sweep
+  add_common(c.sweep);
+  c.sweep->add_option("--vary", sweep_options.vary,
+                      "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "
+                      "load.magnitude=50,100,150 (repeat for more keys)");
+  c.sweep
       ->add_option("--design", sweep_options.design_path,
                    "study design (JSON): teeth x bone levels x movements x forces x materials, "
                    "see docs/sweeps.md")
       ->check(CLI::ExistingFile);
-  sweep
+  c.sweep
       ->add_option("--threads", sweep_options.threads,
                    "threads per model solve (default 1: the same sweep.csv however the sweep is "
                    "started; use mpirun -n CORES to use every core)")
       ->check(CLI::Range(1, 1024));
-  CLI::App* mesh_cmd = app.add_subcommand(
+  c.mesh = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
-  add_common(mesh_cmd);
+  add_common(c.mesh);
+  return c;
+}
+
+// Says why a command failed and returns its exit code. Before the ranks part ways every rank
+// meets the same error: rank 0 says it once. After, the failing rank says it and ends the whole
+// job (its checkpoints stay for a rerun).
+int report_failure(const MpiWorld& world, const CommonOptions& options, bool sweeping) {
+  const Failure f = describe_failure(std::current_exception());
+  const bool alone = world.independent() && world.size() > 1;
+  if (world.root() || alone) {
+    const std::string rank = alone ? " (rank " + std::to_string(world.rank()) + " of " +
+                                         std::to_string(world.size()) + ")"
+                                   : std::string();
+    fail(f.exit_code, f.kind + rank, f.message);
+    if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
+    if (sweeping && world.independent())
+      std::cerr << "sharpey-batch: the models finished so far are kept as checkpoints in "
+                << options.out_dir
+                << (f.exit_code == kInterrupted
+                        ? "; run the same command again to resume\n"
+                        : "; once the cause is fixed, the same command resumes from them\n");
+  }
+  if (alone && f.exit_code == kInterrupted) world.leave_interrupted(f.exit_code);
+  if (alone) world.abort(f.exit_code);
+  return f.exit_code;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  sharpey::startup::use_fast_blas_kernels(argv);
+  CLI::App app{
+      "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
+      "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +
+      analysis::caution_text()};
+  app.footer(kFooter);
+  app.require_subcommand(1, 1);
+  CommonOptions options;
+  SweepOptions sweep_options;
+  const Commands commands = add_commands(app, options, sweep_options);
   // CLI11 says only "A subcommand is required" for a misspelt command: name it.
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
@@ -158,36 +194,17 @@ int main(int argc, char** argv) {
   install_interrupt_handlers();
   std::set_terminate(on_terminate);
   try {
-    if (world->size() > 1 && !sweep->parsed())
+    if (world->size() > 1 && !commands.sweep->parsed())
       throw InputError("mpirun", "only sweep runs over several MPI ranks; start " +
-                                     std::string(run->parsed() ? "run" : "mesh") +
+                                     std::string(commands.run->parsed() ? "run" : "mesh") +
                                      " without mpirun or srun (or with one rank)");
-    if (run->parsed()) run_command(options);
-    if (sweep->parsed()) sweep_command(options, sweep_options, *world);
-    if (mesh_cmd->parsed()) mesh_command(options);
+    if (commands.run->parsed()) run_command(options);
+    if (commands.sweep->parsed()) sweep_command(options, sweep_options, *world);
+    if (commands.mesh->parsed()) mesh_command(options);
     return kOk;
   } catch (const StoppedByRoot& stopped) {
     return stopped.exit_code;  // rank 0 has said why
   } catch (...) {
-    const Failure f = describe_failure(std::current_exception());
-    // Before the ranks part ways every rank meets the same error: rank 0 says it once. After,
-    // the failing rank says it and ends the whole job (its checkpoints stay for a rerun).
-    const bool alone = world->independent() && world->size() > 1;
-    if (world->root() || alone) {
-      const std::string rank = alone ? " (rank " + std::to_string(world->rank()) + " of " +
-                                           std::to_string(world->size()) + ")"
-                                     : std::string();
-      fail(f.exit_code, f.kind + rank, f.message);
-      if (!f.hint.empty()) std::cerr << "sharpey-batch: what to do: " << f.hint << '\n';
-      if (sweep->parsed() && world->independent())
-        std::cerr << "sharpey-batch: the models finished so far are kept as checkpoints in "
-                  << options.out_dir
-                  << (f.exit_code == kInterrupted
-                          ? "; run the same command again to resume\n"
-                          : "; once the cause is fixed, the same command resumes from them\n");
-    }
-    if (alone && f.exit_code == kInterrupted) world->leave_interrupted(f.exit_code);
-    if (alone) world->abort(f.exit_code);
-    return f.exit_code;
+    return report_failure(*world, options, commands.sweep->parsed());
   }
 }
