@@ -7,6 +7,7 @@
 #include <sstream>
 #include <stdexcept>
 
+#include "case_spec_keys.h"
 #include "sharpey/core/check.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
@@ -47,14 +48,9 @@ bool same(const fem::Material& a, const fem::Material& b) {
 }
 
 bool same(const mesh::ToothDimensions& a, const mesh::ToothDimensions& b) {
-  return a.crown_length_mm == b.crown_length_mm && a.root_length_mm == b.root_length_mm &&
-         a.crown_mesiodistal_mm == b.crown_mesiodistal_mm &&
-         a.cervix_mesiodistal_mm == b.cervix_mesiodistal_mm &&
-         a.crown_labiolingual_mm == b.crown_labiolingual_mm &&
-         a.cervix_labiolingual_mm == b.cervix_labiolingual_mm &&
-         a.cej_curvature_mesial_mm == b.cej_curvature_mesial_mm &&
-         a.cej_curvature_distal_mm == b.cej_curvature_distal_mm &&
-         a.root_taper_fullness == b.root_taper_fullness;
+  for (const case_keys::DimensionKey& k : case_keys::kDimensionKeys)
+    if (a.*k.field != b.*k.field) return false;
+  return true;
 }
 
 bool same(const mesh::BoneLoss& a, const mesh::BoneLoss& b) {
@@ -315,22 +311,11 @@ std::vector<SourcedValue> value_sources(const CaseSpec& spec) {
         "dental anatomy handbook average (Wheeler's Dental Anatomy, "
         "Physiology and Occlusion, Table 1-1): " +
         mesh::handbook_status(spec.model.tooth.type);
-    add("tooth.dimensions.crown_length_mm", d.crown_length_mm, handbook.crown_length_mm, "mm",
-        dims_source);
-    add("tooth.dimensions.root_length_mm", d.root_length_mm, handbook.root_length_mm, "mm",
-        dims_source);
-    add("tooth.dimensions.crown_mesiodistal_mm", d.crown_mesiodistal_mm,
-        handbook.crown_mesiodistal_mm, "mm", dims_source);
-    add("tooth.dimensions.cervix_mesiodistal_mm", d.cervix_mesiodistal_mm,
-        handbook.cervix_mesiodistal_mm, "mm", dims_source);
-    add("tooth.dimensions.crown_labiolingual_mm", d.crown_labiolingual_mm,
-        handbook.crown_labiolingual_mm, "mm", dims_source);
-    add("tooth.dimensions.cervix_labiolingual_mm", d.cervix_labiolingual_mm,
-        handbook.cervix_labiolingual_mm, "mm", dims_source);
-    add("tooth.dimensions.cej_curvature_mesial_mm", d.cej_curvature_mesial_mm,
-        handbook.cej_curvature_mesial_mm, "mm", dims_source);
-    add("tooth.dimensions.cej_curvature_distal_mm", d.cej_curvature_distal_mm,
-        handbook.cej_curvature_distal_mm, "mm", dims_source);
+    for (const case_keys::DimensionKey& k : case_keys::kDimensionKeys) {
+      if (k.field == &mesh::ToothDimensions::root_taper_fullness) continue;  // below
+      add(std::string("tooth.dimensions.") + k.key, d.*k.field, handbook.*k.field, "mm",
+          dims_source);
+    }
     add("tooth.dimensions.root_taper_fullness", d.root_taper_fullness, handbook.root_taper_fullness,
         "",
         "not a handbook value: calibrated per tooth so that the root area (CEJ to apex) equals "

@@ -11,6 +11,7 @@
 #include <unordered_set>
 
 #include "detail/model_mesher.h"
+#include "detail/triangle_key.h"
 #include "sharpey/core/reference_tetrahedron.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/second_order.h"
@@ -40,19 +41,6 @@ struct PositionKeyHash {
   size_t operator()(const PositionKey& k) const {
     std::uint64_t h = 1469598103934665603ull;
     for (std::uint64_t x : k.b) h = (h ^ x) * 1099511628211ull;
-    return static_cast<size_t>(h);
-  }
-};
-
-struct TriangleKey {
-  std::array<int, 3> v;
-  TriangleKey(int a, int b, int c) : v{a, b, c} { std::sort(v.begin(), v.end()); }
-  bool operator==(const TriangleKey& o) const { return v == o.v; }
-};
-struct TriangleKeyHash {
-  size_t operator()(const TriangleKey& k) const {
-    std::uint64_t h = 1469598103934665603ull;
-    for (int x : k.v) h = (h ^ static_cast<std::uint32_t>(x)) * 1099511628211ull;
     return static_cast<size_t>(h);
   }
 };

@@ -13,6 +13,7 @@
 #include "sharpey/core/constants.h"
 #include "sharpey/mesh/mesh_statistics.h"
 #include "sharpey/mesh/second_order.h"
+#include "support/plc_shapes.h"
 
 namespace {
 
@@ -20,39 +21,11 @@ using sharpey::mesh::VolumeMesh;
 
 // Geodesic sphere (icosahedron subdivided `levels` times) appended to `m` as faces with `marker`.
 void add_sphere(VolumeMesh& m, double radius, int levels, int marker) {
-  const double t = (1.0 + std::sqrt(5.0)) / 2.0;
-  std::vector<Eigen::Vector3d> p = {{-1, t, 0}, {1, t, 0}, {-1, -t, 0}, {1, -t, 0},
-                                    {0, -1, t}, {0, 1, t}, {0, -1, -t}, {0, 1, -t},
-                                    {t, 0, -1}, {t, 0, 1}, {-t, 0, -1}, {-t, 0, 1}};
-  for (auto& x : p) x.normalize();
-  std::vector<std::array<int, 3>> f = {{0, 11, 5}, {0, 5, 1},  {0, 1, 7},   {0, 7, 10}, {0, 10, 11},
-                                       {1, 5, 9},  {5, 11, 4}, {11, 10, 2}, {10, 7, 6}, {7, 1, 8},
-                                       {3, 9, 4},  {3, 4, 2},  {3, 2, 6},   {3, 6, 8},  {3, 8, 9},
-                                       {4, 9, 5},  {2, 4, 11}, {6, 2, 10},  {8, 6, 7},  {9, 8, 1}};
-  for (int l = 0; l < levels; ++l) {
-    std::map<std::pair<int, int>, int> mid;
-    auto midpoint = [&](int a, int b) {
-      const auto key = std::make_pair(std::min(a, b), std::max(a, b));
-      const auto it = mid.find(key);
-      if (it != mid.end()) return it->second;
-      p.push_back((p[static_cast<size_t>(a)] + p[static_cast<size_t>(b)]).normalized());
-      mid.emplace(key, static_cast<int>(p.size()) - 1);
-      return static_cast<int>(p.size()) - 1;
-    };
-    std::vector<std::array<int, 3>> next;
-    for (const auto& tri : f) {
-      const int a = midpoint(tri[0], tri[1]), b = midpoint(tri[1], tri[2]),
-                c = midpoint(tri[2], tri[0]);
-      next.push_back({tri[0], a, c});
-      next.push_back({tri[1], b, a});
-      next.push_back({tri[2], c, b});
-      next.push_back({a, b, c});
-    }
-    f = std::move(next);
-  }
+  const sharpey::mesh::test::TriSurface sphere =
+      sharpey::mesh::test::icosphere(Eigen::Vector3d::Zero(), radius, levels);
   const int base = m.n_nodes();
-  for (const auto& x : p) m.nodes.push_back(radius * x);
-  for (const auto& tri : f) {
+  for (const auto& x : sphere.points) m.nodes.push_back(x);
+  for (const auto& tri : sphere.triangles) {
     for (int v : tri) m.faces.push_back(base + v);
     m.face_marker.push_back(marker);
   }

@@ -33,9 +33,13 @@
 #include "sharpey/mesh/second_order.h"
 #include "sharpey/mesh/tetrahedralize.h"
 #include "tetgen_terminate.h"
+#include "triangle_key.h"
 
 namespace sharpey::mesh {
 namespace {
+
+using detail::TriangleKey;
+using detail::TriangleKeyHash;
 
 // What is being meshed, for the messages: the caller's stage name and the PLC.
 struct Context {
@@ -193,20 +197,6 @@ void fill_input(const Plc& plc, tetgenio& in) {
   }
 }
 
-// Sorted vertex triple of a triangle, the key that finds a face from any element containing it.
-struct FaceKey {
-  std::array<int, 3> v;
-  FaceKey(int a, int b, int c) : v{a, b, c} { std::sort(v.begin(), v.end()); }
-  bool operator==(const FaceKey& o) const { return v == o.v; }
-};
-struct FaceKeyHash {
-  size_t operator()(const FaceKey& k) const {
-    std::uint64_t h = 1469598103934665603ull;  // FNV-1a over the three indices
-    for (int x : k.v) h = (h ^ static_cast<std::uint32_t>(x)) * 1099511628211ull;
-    return static_cast<size_t>(h);
-  }
-};
-
 double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
   return (x[t[1]] - x[t[0]]).dot((x[t[2]] - x[t[0]]).cross(x[t[3]] - x[t[0]])) / 6.0;
 }
@@ -279,7 +269,7 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
   if (n_faces <= 0 || out.trifacelist == nullptr || out.trifacemarkerlist == nullptr) {
     fail(ctx, "TetGen returned no boundary faces");
   }
-  std::unordered_map<FaceKey, int, FaceKeyHash> face_of_key;
+  std::unordered_map<TriangleKey, int, TriangleKeyHash> face_of_key;
   face_of_key.reserve(static_cast<size_t>(n_faces) * 2);
   mesh.faces.resize(static_cast<size_t>(n_faces) * 3);
   mesh.face_marker.resize(static_cast<size_t>(n_faces));
@@ -293,7 +283,7 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
       tri[k] = new_index[static_cast<size_t>(v)];
     }
     mesh.face_marker[static_cast<size_t>(f)] = out.trifacemarkerlist[f];
-    face_of_key.emplace(FaceKey(tri[0], tri[1], tri[2]), f);
+    face_of_key.emplace(TriangleKey(tri[0], tri[1], tri[2]), f);
   }
 
   // Orient each face outward from the adjacent element with the smallest region id.
@@ -303,7 +293,7 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
     const int* t = mesh.element(e);
     const int region = mesh.element_region[static_cast<size_t>(e)];
     for (const auto& lf : core::kTetFaces) {  // outward for positive volume
-      const auto it = face_of_key.find(FaceKey(t[lf[0]], t[lf[1]], t[lf[2]]));
+      const auto it = face_of_key.find(TriangleKey(t[lf[0]], t[lf[1]], t[lf[2]]));
       if (it == face_of_key.end()) continue;
       const auto f = static_cast<size_t>(it->second);
       ++n_adjacent[f];
