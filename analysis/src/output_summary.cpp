@@ -14,13 +14,7 @@ namespace sharpey::analysis {
 
 namespace {
 
-std::string fixed(double v, int decimals) {
-  if (!std::isfinite(v)) return "n/a";
-  char buffer[64];
-  std::snprintf(buffer, sizeof buffer, "%.*f", decimals, v);
-  return buffer;
-}
-
+using detail::fixed;
 using detail::wrap;
 
 std::string spaced(std::string identifier) {

@@ -1,11 +1,22 @@
-// Plain-text helpers shared by the report writers (summary.txt and its allowance paragraph).
+// Plain-text helpers shared by the report writers (summary.txt and its allowance paragraph) and
+// the verdict's words.
 // Internal to the analysis library.
 #pragma once
 
+#include <cmath>
+#include <cstdio>
 #include <sstream>
 #include <string>
 
 namespace sharpey::analysis::detail {
+
+// `v` with `decimals` decimals, "n/a" when it is not finite.
+inline std::string fixed(double v, int decimals) {
+  if (!std::isfinite(v)) return "n/a";
+  char buffer[64];
+  std::snprintf(buffer, sizeof buffer, "%.*f", decimals, v);
+  return buffer;
+}
 
 // Wraps `text` at `width` columns: the first line starts with `first`, the others with `indent`.
 inline std::string wrap(const std::string& text, size_t width, const std::string& first = "",

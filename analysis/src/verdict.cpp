@@ -4,16 +4,11 @@
 #include <cmath>
 #include <cstdio>
 
+#include "output_text.h"
+
 namespace sharpey::analysis {
 
-namespace {
-std::string fixed(double v, int decimals) {
-  if (!std::isfinite(v)) return "n/a";
-  char buffer[64];
-  std::snprintf(buffer, sizeof buffer, "%.*f", decimals, v);
-  return buffer;
-}
-}  // namespace
+using detail::fixed;
 
 PressureVerdict pressure_verdict(const ScenarioResult& r, const Thresholds& t) {
   PressureVerdict v;
