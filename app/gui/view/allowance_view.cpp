@@ -474,23 +474,26 @@ bool AllowanceView::apply_allowance() {
     status_->setText(QStringLiteral("No allowance to apply yet: the level on display has none."));
     return false;
   }
-  const AllowanceLevel& level = levels_[static_cast<size_t>(k)];
-  const AllowanceRow* row = level.row(movement());
-  const LoadControls& present = session_->load_controls();
-  const auto applied = row ? allowance_to_apply(*row, present.unit) : std::nullopt;
-  if (!applied) {
+  // Copies: applying the force refreshes the session and this view (levels_ is rebuilt).
+  const QString level_name = levels_[static_cast<size_t>(k)].name;
+  const AllowanceRow* row = levels_[static_cast<size_t>(k)].row(movement());
+  const LoadControls present = session_->load_controls();
+  const std::optional<AppliedAllowance> maybe =
+      row ? allowance_to_apply(*row, present.unit) : std::nullopt;
+  const QString what = label(movement());
+  if (!maybe) {
     status_->setText(
         QStringLiteral("%1 at %2 has no allowance to apply (not limited by compression, or "
                        "below the smallest force the field shows).")
-            .arg(label(movement()), level.name));
+            .arg(what, level_name));
     return false;
   }
-  emit apply_requested(controls_for_allowance(present, movement(), applied->force));
-  status_->setText(QStringLiteral("Applied the %1 allowance of %2 at %3: %4.")
-                       .arg(applied->is_conservative ? QStringLiteral("conservative")
-                                                     : QStringLiteral("nominal"),
-                            label(movement()).toLower(), level.name,
-                            allowance_text(applied->force, present.unit)));
+  const AppliedAllowance applied = *maybe;
+  emit apply_requested(controls_for_allowance(present, movement(), applied.force));
+  status_->setText(
+      QStringLiteral("Applied the %1 allowance of %2 at %3: %4.")
+          .arg(applied.is_conservative ? QStringLiteral("conservative") : QStringLiteral("nominal"),
+               what.toLower(), level_name, allowance_text(applied.force, present.unit)));
   return true;
 }
 

@@ -872,11 +872,19 @@ bool MainWindow::export_report(const QString& path) {
   in.view_3d = view_image(ViewKind::k3D);
   in.comparison = session_->results().size() > 1 ? view_image(ViewKind::kComparison) : QImage();
   in.stale = session_->geometry_stale();
-  // The allowances, once every level has them (they follow the levels within a second).
+  // The allowances of every level: the view's, or (while they are still being computed for a new
+  // force direction) computed here, a fraction of a second.
   const AllowanceJob& allowance = allowance_->job();
-  if (allowance.nominal().size() == session_->results().size()) {
-    in.allowances = &allowance.nominal();
+  std::vector<analysis::ScenarioAllowances> allowances = allowance.nominal();
+  try {
+    for (size_t k = allowances.size(); k < session_->results().size(); ++k)
+      allowances.push_back(analysis::scenario_allowances(*session_->solution(static_cast<int>(k)),
+                                                         session_->spec().load,
+                                                         session_->spec().thresholds));
+    in.allowances = &allowances;
     if (allowance.band_matches_load()) in.allowance_band = allowance.band();
+  } catch (const Error& e) {
+    status_->setText(QStringLiteral("Report without allowances: ") + e.what());
   }
   QString error;
   if (write_report(path, in, &error) != report_page_count(in)) {
