@@ -397,6 +397,12 @@ void AllowanceView::follow_session(bool interactive) {
   // A slider moves only the present-force line; the allowances do not depend on the magnitude.
   if (!interactive)
     job_->update(session_->shared_study(), session_->spec().load, session_->spec().thresholds);
+  // A movement preset chosen in the force panel becomes the movement shown here.
+  const analysis::MovementPreset preset = session_->load_controls().preset;
+  if (preset != followed_preset_) {
+    followed_preset_ = preset;
+    if (preset != analysis::MovementPreset::kNone) set_movement(preset);
+  }
   refresh();
 }
 

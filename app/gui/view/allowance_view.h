@@ -52,7 +52,8 @@ class AllowanceView : public QWidget {
   // What is drawn, in the user's force unit (one entry per level with nominal allowances).
   const std::vector<AllowanceLevel>& levels() const { return levels_; }
   AllowanceCriterion criterion() const { return criterion_; }
-  analysis::MovementPreset movement() const;  // the movement the apply button applies
+  // The movement the apply button applies; follows a preset chosen in the force panel.
+  analysis::MovementPreset movement() const;
   void set_movement(analysis::MovementPreset movement);
   void set_criterion(const AllowanceCriterion& criterion);
   // Starts the band (as the button does); false with the reason in status_text().
@@ -80,6 +81,7 @@ class AllowanceView : public QWidget {
   CaseSession* session_;
   std::unique_ptr<AllowanceJob> job_;
   AllowanceCriterion criterion_;
+  analysis::MovementPreset followed_preset_ = analysis::MovementPreset::kNone;  // force panel's
   std::vector<AllowanceLevel> levels_;
   AllowanceCharts* charts_ = nullptr;
   QComboBox* movement_box_ = nullptr;
