@@ -2,13 +2,15 @@
 // level once it is solved (prints, not a test). Target: under 1 s per level.
 // Opens the incisor sample (every bone level, standard mesh unless --mesh says otherwise) in the
 // main window with the allowance tab on screen and a fresh cache folder, and prints per level the
-// wall time from the solve job's level_solved signal to the view's nominal_shown (the worker's
-// seven evaluations and the view's refresh) and to the charts painted after it. Then, on the
-// solved levels, the wall and CPU time of analysis::scenario_allowances alone (seven evaluations),
-// and the load average, since the machine may be shared.
-// Usage (needs a display, e.g. xvfb-run -a): bench_allowance_view [CASE.json] [--mesh PRESET]
+// wall time from the solve job's hand-over of the level (the start of the event in which it emits
+// level_solved, so the window's own work on the new level counts) to the view's nominal_shown
+// (the worker's seven evaluations and the view's refresh) and to the charts painted after it. Then,
+// on the solved levels, the wall and CPU time of analysis::scenario_allowances alone (seven
+// evaluations), and the load average, since the machine may be shared. Usage (needs a display, e.g.
+// xvfb-run -a): bench_allowance_view [CASE.json] [--mesh PRESET]
 #include <QApplication>
 #include <QElapsedTimer>
+#include <QEvent>
 #include <QFile>
 #include <QTabWidget>
 #include <QTemporaryDir>
@@ -42,6 +44,25 @@ QString load_average() {
   if (!f.open(QIODevice::ReadOnly)) return QStringLiteral("unknown");
   return QString::fromLatin1(f.readAll()).section(QLatin1Char(' '), 0, 2);
 }
+
+// Notes when the solve job starts handling an event posted by its worker: level_solved is emitted
+// inside such an event, after the window's own handlers of it have run, so the slot's time alone
+// would leave out the window's work on the new level (evaluating it, building its 3D scene).
+class HandoffClock : public QObject {
+ public:
+  explicit HandoffClock(const QElapsedTimer& clock) : clock_(clock) {}
+  double last_s = 0;
+
+ protected:
+  bool eventFilter(QObject*, QEvent* event) override {
+    if (event->type() == QEvent::MetaCall)
+      last_s = static_cast<double>(clock_.nsecsElapsed()) * 1e-9;
+    return false;
+  }
+
+ private:
+  const QElapsedTimer& clock_;
+};
 
 }  // namespace
 
@@ -77,8 +98,13 @@ int main(int argc, char** argv) {
   QElapsedTimer clock;
   clock.start();
   std::vector<double> solved_s, shown_s, painted_s;
+  HandoffClock handoff(clock);
+  // Benchmark only: the window hands out the job read-only.
+  const_cast<app::SolveJob&>(window.solve_job()).installEventFilter(&handoff);
+  std::vector<double> handled_s;  // the window's own handlers of the level done
   QObject::connect(&window.solve_job(), &app::SolveJob::level_solved, [&](int, int) {
-    solved_s.push_back(static_cast<double>(clock.nsecsElapsed()) * 1e-9);
+    solved_s.push_back(handoff.last_s);
+    handled_s.push_back(static_cast<double>(clock.nsecsElapsed()) * 1e-9);
   });
   QObject::connect(view, &app::AllowanceView::nominal_shown, [&](int n) {
     if (n <= static_cast<int>(shown_s.size())) return;
@@ -108,10 +134,10 @@ int main(int argc, char** argv) {
     const double to_shown = shown_s[k] - solved_s[k], to_painted = painted_s[k] - solved_s[k];
     worst = std::max(worst, to_painted);
     std::printf(
-        "level %zu (%s): solved at %.2f s; nominal allowances shown %.0f ms later, painted "
-        "%.0f ms later\n",
-        k + 1, window.session().results()[k].name.c_str(), solved_s[k], 1e3 * to_shown,
-        1e3 * to_painted);
+        "level %zu (%s): handed over at %.2f s; the window's handling %.0f ms; nominal "
+        "allowances shown %.0f ms after the hand-over, painted %.0f ms after it\n",
+        k + 1, window.session().results()[k].name.c_str(), solved_s[k],
+        1e3 * (handled_s[k] - solved_s[k]), 1e3 * to_shown, 1e3 * to_painted);
   }
   std::printf("worst level solved -> allowances painted: %.0f ms (target 1000 ms)\n", 1e3 * worst);
 
