@@ -7,11 +7,15 @@
 #include <QDir>
 #include <QEventLoop>
 #include <QMouseEvent>
+#include <QTabWidget>
 #include <QTimer>
 #include <cstdio>
 
+#include "core/allowance_job.h"
+#include "core/case_session.h"
 #include "sharpey/error.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "view/allowance_view.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
@@ -36,7 +40,8 @@ void hover(QWidget* widget, double fx, double fy) {
 }
 
 // --screenshots: once solved, writes one PNG per view (the window with a hover read-out, and the
-// view's own export), the window with the case panel open and the PDF report, then quits.
+// view's own export), the window with the case panel open, the force-allowance view and the PDF
+// report, then quits.
 void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   using sharpey::app::ViewKind;
   QDir().mkpath(folder);
@@ -62,6 +67,20 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   wait_ms(100);
   window.grab().toImage().save(dir.filePath(QStringLiteral("window_case_panel.png")));
   window.show_case_panel(false);
+  // The force allowances (every level's nominal allowances; the band too when the case asks for
+  // it with allowance.band), then the report, which carries them.
+  sharpey::app::AllowanceView* allowance = window.allowance_view();
+  const size_t n_levels = window.session().results().size();
+  for (int waited = 0; allowance->levels().size() < n_levels && waited < 30000; waited += 50)
+    wait_ms(50);
+  if (window.session().spec().band.enabled && allowance->compute_band()) {
+    while (allowance->job().band_running()) wait_ms(200);
+  }
+  window.tabs()->setCurrentWidget(allowance);
+  QApplication::processEvents();
+  wait_ms(100);
+  window.grab().toImage().save(dir.filePath(QStringLiteral("window_allowance.png")));
+  window.show_view(ViewKind::k3D);
   window.export_report(dir.filePath(QStringLiteral("report.pdf")));
 }
 

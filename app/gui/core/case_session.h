@@ -93,6 +93,8 @@ class CaseSession : public QObject {
   void set_study(std::shared_ptr<const analysis::Study> study,
                  std::optional<int> solved_geometry = std::nullopt);
   const analysis::Study* study() const { return study_.get(); }
+  // The same study, shared (for work that outlives a call, e.g. the allowances' worker).
+  std::shared_ptr<const analysis::Study> shared_study() const { return study_; }
   const std::vector<analysis::ScenarioResult>& results() const { return results_; }
   int current() const { return current_; }
   void set_current(int index);  // index into results()

@@ -29,6 +29,7 @@
 #include <QToolButton>
 #include <QVBoxLayout>
 
+#include "core/allowance_job.h"
 #include "core/autosave_store.h"
 #include "core/case_session.h"
 #include "core/document_state.h"
@@ -38,6 +39,7 @@
 #include "core/units.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/error.h"
+#include "view/allowance_view.h"
 #include "view/case_panel.h"
 #include "view/comparison_view.h"
 #include "view/findings_panel.h"
@@ -221,6 +223,13 @@ void MainWindow::build_layout() {
   tabs_->addTab(result_view_, QStringLiteral("3D"));
   tabs_->addTab(root_map_, QStringLiteral("Root map"));
   tabs_->addTab(comparison_, QStringLiteral("Bone levels compared"));
+  // Force allowance: follows the session itself; its apply button sets the force panel.
+  allowance_ = new AllowanceView(session_.get());
+  tabs_->addTab(allowance_, QStringLiteral("Force allowance"));
+  connect(allowance_, &AllowanceView::apply_requested, this, [this](const LoadControls& c) {
+    load_panel_->set_controls(c);
+    set_load(c, false);
+  });
   mid->addWidget(tabs_, 1);
   split->addWidget(middle);
 
@@ -863,8 +872,22 @@ bool MainWindow::export_report(const QString& path) {
   in.view_3d = view_image(ViewKind::k3D);
   in.comparison = session_->results().size() > 1 ? view_image(ViewKind::kComparison) : QImage();
   in.stale = session_->geometry_stale();
+  // The allowances of every level: the view's, or (while they are still being computed for a new
+  // force direction) computed here, a fraction of a second.
+  const AllowanceJob& allowance = allowance_->job();
+  std::vector<analysis::ScenarioAllowances> allowances = allowance.nominal();
+  try {
+    for (size_t k = allowances.size(); k < session_->results().size(); ++k)
+      allowances.push_back(analysis::scenario_allowances(*session_->solution(static_cast<int>(k)),
+                                                         session_->spec().load,
+                                                         session_->spec().thresholds));
+    in.allowances = &allowances;
+    if (allowance.band_matches_load()) in.allowance_band = allowance.band();
+  } catch (const Error& e) {
+    status_->setText(QStringLiteral("Report without allowances: ") + e.what());
+  }
   QString error;
-  if (write_report(path, in, &error) != kReportPages) {
+  if (write_report(path, in, &error) != report_page_count(in)) {
     show_error(QStringLiteral("Could not write the report"), error);
     return false;
   }

@@ -25,6 +25,7 @@ class QToolButton;
 
 namespace sharpey::app {
 
+class AllowanceView;
 class AutosaveStore;
 class CaseSession;
 class CasePanel;
@@ -100,6 +101,7 @@ class MainWindow : public QMainWindow {
   LoadPanel* load_panel() const { return load_panel_; }
   CasePanel* case_panel() const { return case_panel_; }
   FindingsPanel* findings() const { return findings_; }
+  AllowanceView* allowance_view() const { return allowance_; }
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
@@ -159,6 +161,7 @@ class MainWindow : public QMainWindow {
   RootMapView* root_map_ = nullptr;
   ComparisonView* comparison_ = nullptr;
   FindingsPanel* findings_ = nullptr;
+  AllowanceView* allowance_ = nullptr;  // the force-allowance tab
   QTabWidget* tabs_ = nullptr;
   QToolBox* left_panels_ = nullptr;
   QComboBox* scenario_box_ = nullptr;

@@ -9,9 +9,11 @@
 #include <QTextOption>
 #include <functional>
 
+#include "core/allowance_table.h"
 #include "core/scenario_table.h"
 #include "core/units.h"
 #include "core/verdict.h"
+#include "view/allowance_view.h"
 #include "view/case_panel.h"
 #include "view/findings_panel.h"
 #include "view/root_map_view.h"
@@ -116,7 +118,7 @@ int footer_height(QPainter& p, const QRect& page) {
   return caution.height() + 2 * h;  // a third of a line above, the caution, the page number line
 }
 
-void footer(QPainter& p, const QRect& page, int number, const QString& case_file) {
+void footer(QPainter& p, const QRect& page, int number, int total_pages, const QString& case_file) {
   const QFont saved = p.font();
   const int total = footer_height(p, page);
   p.setFont(footer_font(saved));
@@ -131,7 +133,7 @@ void footer(QPainter& p, const QRect& page, int number, const QString& case_file
              QStringLiteral("Sharpey report, %1, page %2 of %3")
                  .arg(case_file)
                  .arg(number)
-                 .arg(kReportPages));
+                 .arg(total_pages));
   p.setFont(saved);
   p.setPen(Qt::black);
 }
@@ -160,7 +162,18 @@ QString describe_case(const analysis::CaseSpec& s) {
                     .arg(m.tooth.dimensions.root_taper_fullness, 0, 'f', 2);
 }
 
+bool has_allowances(const ReportInputs& in) {
+  return in.allowances && in.results && !in.results->empty() &&
+         in.allowances->size() == in.results->size();
+}
+
 }  // namespace
+
+int report_page_count(const ReportInputs& in) {
+  if (!has_allowances(in)) return kReportPages;
+  const int n = static_cast<int>(in.allowances->size());
+  return kReportPages + (n + kAllowanceLevelsPerPage - 1) / kAllowanceLevelsPerPage;
+}
 
 int write_report(const QString& path, const ReportInputs& in, QString* error) {
   if (!in.spec || !in.results || in.results->empty()) {
@@ -197,6 +210,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   const QRect body(page.left(), page.top(), page.width(),
                    page.height() - footer_height(painter, page) - line / 2);
   int pages = 0;
+  const int total_pages = report_page_count(in);
 
   // ---- page 1: case, force system, thresholds, verdict, key numbers ----
   {
@@ -261,7 +275,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
                    QColor(120, 60, 0), true);
     }
     pg.rows(key_number_rows(r), body.width() / 3);
-    footer(painter, page, ++pages, in.case_file);
+    footer(painter, page, ++pages, total_pages, in.case_file);
   }
 
   // ---- page 2: the scenario on display, 3D and root map ----
@@ -286,7 +300,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
     paint_scaled(painter, font, body, pg.y, map_height,
                  [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
-    footer(painter, page, ++pages, in.case_file);
+    footer(painter, page, ++pages, total_pages, in.case_file);
   }
 
   // ---- page 3: bone-level comparison ----
@@ -336,7 +350,96 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
     if (plot_height > 10 * line)
       paint_scaled(painter, font, body, pg.y, plot_height,
                    [&plot](QPainter& p, const QRect& area) { plot.paint_into(p, area); });
-    footer(painter, page, ++pages, in.case_file);
+    footer(painter, page, ++pages, total_pages, in.case_file);
+  }
+
+  // ---- allowance pages: table and chart of every bone level ----
+  if (has_allowances(in)) {
+    const analysis::ForceUnit unit = in.load.unit;
+    AllowanceCriterion criterion;  // peak compression against the upper limit, as summary.txt
+    const std::vector<AllowanceLevel> levels =
+        allowance_levels(*in.allowances, in.allowance_band, criterion, unit);
+    const bool band = !levels.empty() && levels.front().rows.front().has_band();
+    const double axis_max = allowance_axis_max(levels, in.load.magnitude);
+    for (size_t first = 0; first < levels.size(); first += kAllowanceLevelsPerPage) {
+      writer.newPage();
+      Page pg{&painter, body, body.top(), line};
+      if (first == 0) {
+        pg.heading(QStringLiteral("Force allowance"));
+        pg.paragraph(
+            QStringLiteral("The largest force at the bracket, with the couple each movement needs, "
+                           "that keeps the ") +
+            describe(criterion, spec.thresholds) +
+            QStringLiteral(", in %1; the evaluation is linear in the force (one evaluation per "
+                           "movement). ")
+                .arg(force_unit_label(unit)) +
+            (band ? QStringLiteral("Conservative allowance: the 10th percentile of the allowances "
+                                   "over %1 sampled variations of the tissue properties and the "
+                                   "measured geometry (nine in ten allow more); it describes the "
+                                   "spread, not a probability for a given patient. Figures at "
+                                   "the right of the charts: the conservative allowances. ")
+                        .arg(in.allowance_band->options.n_samples)
+                  : QStringLiteral("The variability band was not computed: nominal allowances "
+                                   "for the case's own tissue properties and geometry, no "
+                                   "conservative allowance; figures at the right of the charts: "
+                                   "the nominal allowances. ")) +
+            QStringLiteral("Common-practice ranges are a fact of the trade with no single source: "
+                           "a plausibility bound, never a prescription. Present force: %1.")
+                .arg(describe(in.load)));
+        pg.paragraph(QString::fromStdString(analysis::caution_text()), QColor(90, 60, 0), true);
+      } else {
+        pg.heading(QStringLiteral("Force allowance (continued)"));
+      }
+      const size_t last = std::min(levels.size(), first + kAllowanceLevelsPerPage);
+      const int room = (body.bottom() - pg.y) / static_cast<int>(last - first);
+      for (size_t k = first; k < last; ++k) {
+        const int start = pg.y;
+        const AllowanceLevel& level = levels[k];
+        pg.heading(QStringLiteral("%1 (bone loss %2)")
+                       .arg(level.name, with_unit(level.bone_loss_mm, QStringLiteral("mm"), 1)),
+                   1.15);
+        const AllowanceTable table = allowance_table(level, unit);
+        // Column widths: the movement and the practice range wider than the forces.
+        const std::vector<int> weights = {27, 12, 15, 12, 12, 22};
+        std::vector<int> xs(1, body.left());
+        for (int w : weights) xs.push_back(xs.back() + body.width() * w / 100);
+        QFont bold = font;
+        bold.setBold(true);
+        painter.setFont(bold);
+        for (int c = 0; c < table.header.size(); ++c)
+          painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line),
+                           (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignVCenter,
+                           table.header[c]);
+        painter.setFont(font);
+        pg.y += line + line / 4;
+        for (size_t row = 0; row < table.cells.size(); ++row) {
+          if (row % 2 == 0)
+            painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
+          for (int c = 0; c < table.cells[row].size(); ++c)
+            painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line),
+                             (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignVCenter,
+                             table.cells[row][c]);
+          pg.y += line;
+        }
+        pg.y += line / 2;
+        const int chart_height = start + room - pg.y - line;
+        if (chart_height > 6 * line)
+          paint_scaled(
+              painter, font, body, pg.y, chart_height, [&](QPainter& p, const QRect& area) {
+                AllowanceChartStyle style;
+                style.title = false;  // the table's heading names the level
+                style.background = Qt::white;
+                paint_allowance_chart(p, area.adjusted(0, 0, 0, -p.fontMetrics().height()), level,
+                                      axis_max, in.load.magnitude, in.load.preset, unit, style);
+                paint_allowance_legend(p,
+                                       QRect(area.left(), area.bottom() - p.fontMetrics().height(),
+                                             area.width(), p.fontMetrics().height()),
+                                       band);
+              });
+        pg.y = start + room;
+      }
+      footer(painter, page, ++pages, total_pages, in.case_file);
+    }
   }
   painter.end();
   return pages;

@@ -1,6 +1,7 @@
 // The PDF report (QPdfWriter + QPainter): the case, the force system, the thresholds with their
 // sources, the verdict and key numbers of the scenario on display, its 3D view and root map, the
-// bone-level comparison (views, table, trend plots), and the caution on every page.
+// bone-level comparison (views, table, trend plots), the force allowances of every bone level
+// (table and chart, with the band when it was computed), and the caution on every page.
 #pragma once
 
 #include <QImage>
@@ -8,6 +9,8 @@
 #include <vector>
 
 #include "core/load_controls.h"
+#include "sharpey/analysis/allowance_band.h"
+#include "sharpey/analysis/force_allowance.h"
 #include "sharpey/analysis/study.h"
 
 namespace sharpey::app {
@@ -15,18 +18,27 @@ namespace sharpey::app {
 struct ReportInputs {
   const analysis::CaseSpec* spec = nullptr;
   const std::vector<analysis::ScenarioResult>* results = nullptr;
-  int current = 0;             // scenario on display
-  LoadControls load;           // as set in the panel
-  QString case_file;           // file name or "Untitled case"
-  QImage view_3d;              // 3D view with its colour bar
-  QImage comparison;           // side-by-side views with the shared colour bar (may be null)
-  bool stale = false;          // results older than the geometry
+  int current = 0;     // scenario on display
+  LoadControls load;   // as set in the panel
+  QString case_file;   // file name or "Untitled case"
+  QImage view_3d;      // 3D view with its colour bar
+  QImage comparison;   // side-by-side views with the shared colour bar (may be null)
+  bool stale = false;  // results older than the geometry
+  // Nominal force allowances, one per level of `results` (null or fewer: no allowance pages), and
+  // the band when it was computed under the present force direction and thresholds (may be null).
+  const std::vector<analysis::ScenarioAllowances>* allowances = nullptr;
+  const analysis::AllowanceBand* allowance_band = nullptr;
 };
 
 // Writes the report; returns the number of pages written (0 on failure, with `error`).
 int write_report(const QString& path, const ReportInputs& inputs, QString* error = nullptr);
 
-// Number of pages write_report produces.
+// Pages before the allowances: case and reading, 3D and root map, comparison.
 inline constexpr int kReportPages = 3;
+// Bone levels whose allowances share a page.
+inline constexpr int kAllowanceLevelsPerPage = 2;
+// Number of pages write_report produces for `inputs`: kReportPages, plus one page per
+// kAllowanceLevelsPerPage levels when every level has its allowances.
+int report_page_count(const ReportInputs& inputs);
 
 }  // namespace sharpey::app
