@@ -167,6 +167,286 @@ bool has_allowances(const ReportInputs& in) {
          in.allowances->size() == in.results->size();
 }
 
+// What every page of the report shares: the writer, the painter, the body font and area, and
+// the page count so far.
+struct Sheet {
+  QPdfWriter* writer;
+  QPainter* painter;
+  QFont font;
+  QRect page;  // the whole printable area
+  QRect body;  // above the footer
+  int line;    // height of a body text line
+  int pages = 0;
+  int total_pages;
+  QString case_file;
+
+  // Starts page `pages + 1` (a new sheet of paper from the second on).
+  Page begin() {
+    if (pages > 0) writer->newPage();
+    return Page{painter, body, body.top(), line};
+  }
+  void finish() { footer(*painter, page, ++pages, total_pages, case_file); }
+};
+
+// The caution in a tinted box across the body, at the page's current height.
+void paint_caution_box(Page& pg) {
+  QPainter& painter = *pg.p;
+  const QRect& body = pg.body;
+  const int line = pg.line;
+  const QString caution = QString::fromStdString(analysis::caution_text());
+  const QRect bound = painter.boundingRect(
+      QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, 100000), Qt::TextWordWrap,
+      caution);
+  const QRect box(body.left(), pg.y, body.width(), bound.height() + line);
+  painter.fillRect(box, QColor(246, 231, 193));
+  painter.setPen(QPen(QColor(156, 110, 20), 4));
+  painter.drawLine(box.topLeft(), box.bottomLeft());
+  painter.setPen(QColor(70, 50, 0));
+  painter.drawText(
+      QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, bound.height()),
+      Qt::TextWordWrap, caution);
+  painter.setPen(Qt::black);
+  pg.y = box.bottom() + line;
+}
+
+// The verdict's headline on its coloured band, then its words.
+void paint_verdict(Page& pg, const QFont& font, const Verdict& v) {
+  QPainter& painter = *pg.p;
+  const QRect badge(pg.body.left(), pg.y, pg.body.width(), static_cast<int>(pg.line * 1.6));
+  painter.fillRect(badge, verdict_background(v.level));
+  painter.setPen(Qt::white);
+  QFont bold = font;
+  bold.setBold(true);
+  painter.setFont(bold);
+  painter.drawText(badge.adjusted(pg.line / 2, 0, 0, 0), Qt::AlignLeft | Qt::AlignVCenter,
+                   v.headline);
+  painter.setFont(font);
+  painter.setPen(Qt::black);
+  pg.y = badge.bottom() + pg.line / 2;
+  pg.paragraph(v.detail);
+}
+
+// A table: a bold header line, then rows on alternate tints; column c spans xs[c] to xs[c + 1],
+// the first column left-aligned, the others right-aligned.
+void paint_table(Page& pg, const QFont& font, const std::vector<int>& xs, const QStringList& header,
+                 const std::vector<QStringList>& rows) {
+  QPainter& painter = *pg.p;
+  const int line = pg.line;
+  const auto alignment = [](int c) {
+    return (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignVCenter;
+  };
+  QFont bold = font;
+  bold.setBold(true);
+  painter.setFont(bold);
+  for (int c = 0; c < header.size(); ++c)
+    painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line), alignment(c), header[c]);
+  painter.setFont(font);
+  pg.y += line + line / 4;
+  for (size_t row = 0; row < rows.size(); ++row) {
+    if (row % 2 == 0)
+      painter.fillRect(QRect(pg.body.left(), pg.y, pg.body.width(), line), QColor(240, 238, 232));
+    for (int c = 0; c < rows[row].size(); ++c)
+      painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line), alignment(c), rows[row][c]);
+    pg.y += line;
+  }
+}
+
+// Page 1: case, force system, thresholds, the verdict and key numbers of the level on display.
+void paint_summary_page(Sheet& sheet, const ReportInputs& in, const analysis::ScenarioResult& r) {
+  const analysis::CaseSpec& spec = *in.spec;
+  Page pg = sheet.begin();
+  pg.heading(QStringLiteral("Sharpey report"), 2.0);
+  pg.paragraph(QString::fromStdString(spec.label), Qt::black, true);
+  pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
+                   .arg(in.case_file,
+                        QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))));
+  paint_caution_box(pg);
+  if (in.stale) {
+    pg.paragraph(
+        QStringLiteral("Note: the case geometry was edited after the last solve; the results "
+                       "below belong to the geometry that was solved."),
+        QColor(120, 60, 0), true);
+  }
+  pg.heading(QStringLiteral("Model"));
+  pg.paragraph(describe_case(spec));
+  pg.heading(QStringLiteral("Force system"));
+  pg.paragraph(describe(in.load) + '.');
+  pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
+  pg.heading(QStringLiteral("Thresholds and their sources"));
+  pg.rows(
+      {{QStringLiteral("capillary pressure"),
+        with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) +
+            QStringLiteral(". Source: ") +
+            QString::fromStdString(spec.thresholds.capillary.source)},
+       {QStringLiteral("physiological limit"),
+        with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) +
+            QStringLiteral(". Source: ") + QString::fromStdString(spec.thresholds.limit.source)}},
+      sheet.body.width() / 4);
+  pg.heading(QStringLiteral("Reading for %1").arg(QString::fromStdString(r.name)));
+  paint_verdict(pg, sheet.font, judge(r, spec.thresholds));
+  if (r.beyond_linear_range) {
+    pg.paragraph(QString::fromStdString(analysis::beyond_linear_range_text(r)), QColor(120, 60, 0),
+                 true);
+  }
+  pg.rows(key_number_rows(r), sheet.body.width() / 3);
+  sheet.finish();
+}
+
+// Page 2: the level on display, its 3D view and root map.
+void paint_level_page(Sheet& sheet, const ReportInputs& in, const analysis::ScenarioResult& r) {
+  const QRect& body = sheet.body;
+  const int line = sheet.line;
+  Page pg = sheet.begin();
+  pg.heading(QStringLiteral("%1: ligament pressure").arg(QString::fromStdString(r.name)));
+  pg.paragraph(QStringLiteral(
+      "3D view: hydrostatic pressure in the PDL (compression positive), threshold "
+      "iso-lines, force arrow at the bracket, centre of resistance (CRes) and centre "
+      "of rotation (CRot)."));
+  pg.image(in.view_3d, body.height() / 2 - 4 * line);
+  pg.paragraph(QStringLiteral(
+      "Root map: the root surface unrolled, angle around the root against depth below "
+      "the CEJ."));
+  RootMapView map;
+  // The range shown (core/quantity.h) for pressure is the key numbers' span: peak tension to
+  // peak compression outside the crest edge band.
+  const ValueRange shown{-r.pressure_max_tension_kpa, r.pressure_max_compression_kpa};
+  map.set_map(r.root_map, in.spec->thresholds,
+              QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
+  const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
+  paint_scaled(*sheet.painter, sheet.font, body, pg.y, map_height,
+               [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
+  sheet.finish();
+}
+
+// Page 3: every bone level side by side, their key numbers, a reading for each and the trends.
+void paint_comparison_page(Sheet& sheet, const ReportInputs& in) {
+  const auto& results = *in.results;
+  const QRect& body = sheet.body;
+  const int line = sheet.line;
+  Page pg = sheet.begin();
+  pg.heading(QStringLiteral("Bone levels compared"));
+  pg.paragraph(
+      QStringLiteral("Same force system at every bone level; one colour scale for all views."));
+  pg.image(in.comparison, body.height() / 3);
+  const ScenarioTable table = make_table(results);
+  // One column per bone level after the quantity's name.
+  const int label_w = body.width() * 2 / 5;
+  const int n_levels = static_cast<int>(table.row_names.size());
+  const int col_w = (body.width() - label_w) / std::max(1, n_levels);
+  std::vector<int> xs = {body.left(), body.left() + label_w};
+  for (int s = 0; s < n_levels; ++s) xs.push_back(xs.back() + col_w);
+  QStringList header = {QString()};
+  header += table.row_names;
+  std::vector<QStringList> rows;
+  for (int c = 0; c < static_cast<int>(table.columns.size()); ++c) {
+    QStringList row = {table.header_text(c)};
+    for (int s = 0; s < n_levels; ++s) row << table.cell_text(s, c);
+    rows.push_back(row);
+  }
+  paint_table(pg, sheet.font, xs, header, rows);
+  pg.y += line;
+  // A reading for every bone level, not only the one on display.
+  pg.heading(QStringLiteral("Reading per bone level"));
+  for (const analysis::ScenarioResult& level : results)
+    pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") +
+                 judge(level, in.spec->thresholds).detail +
+                 (level.beyond_linear_range
+                      ? QStringLiteral(" ") +
+                            QString::fromStdString(analysis::beyond_linear_range_text(level))
+                      : QString()));
+  TrendPlot plot;
+  plot.set_table(table);
+  const int plot_height = body.bottom() - pg.y;
+  if (plot_height > 10 * line)
+    paint_scaled(*sheet.painter, sheet.font, body, pg.y, plot_height,
+                 [&plot](QPainter& p, const QRect& area) { plot.paint_into(p, area); });
+  sheet.finish();
+}
+
+// The opening words of the allowance pages: what an allowance is, the band, the practice ranges
+// and the caution.
+void paint_allowance_intro(Page& pg, const ReportInputs& in, const AllowanceCriterion& criterion,
+                           bool band) {
+  const analysis::ForceUnit unit = in.load.unit;
+  pg.heading(QStringLiteral("Force allowance"));
+  pg.paragraph(
+      QStringLiteral("The largest force at the bracket, with the couple each movement needs, "
+                     "that keeps the ") +
+      describe(criterion, in.spec->thresholds) +
+      QStringLiteral(", in %1; the evaluation is linear in the force (one evaluation per "
+                     "movement). ")
+          .arg(force_unit_label(unit)) +
+      (band ? QStringLiteral("Conservative allowance: the 10th percentile of the allowances "
+                             "over %1 sampled variations of the tissue properties and the "
+                             "measured geometry (nine in ten allow more); it describes the "
+                             "spread, not a probability for a given patient. Figures at "
+                             "the right of the charts: the conservative allowances. ")
+                  .arg(in.allowance_band->options.n_samples)
+            : QStringLiteral("The variability band was not computed: nominal allowances "
+                             "for the case's own tissue properties and geometry, no "
+                             "conservative allowance; figures at the right of the charts: "
+                             "the nominal allowances. ")) +
+      QStringLiteral("Common-practice ranges are a fact of the trade with no single source: "
+                     "a plausibility bound, never a prescription. Present force: %1.")
+          .arg(describe(in.load)));
+  pg.paragraph(QString::fromStdString(analysis::caution_text()), QColor(90, 60, 0), true);
+}
+
+// One bone level's allowance table and chart, `room` high from the page's current height.
+void paint_allowance_level(Sheet& sheet, Page& pg, const ReportInputs& in,
+                           const AllowanceLevel& level, double axis_max, bool band, int room) {
+  const QRect& body = sheet.body;
+  const int line = sheet.line;
+  const analysis::ForceUnit unit = in.load.unit;
+  const int start = pg.y;
+  pg.heading(QStringLiteral("%1 (bone loss %2)")
+                 .arg(level.name, with_unit(level.bone_loss_mm, QStringLiteral("mm"), 1)),
+             1.15);
+  const AllowanceTable table = allowance_table(level, unit);
+  // Column widths: the movement and the practice range wider than the forces.
+  const std::vector<int> weights = {27, 12, 15, 12, 12, 22};
+  std::vector<int> xs(1, body.left());
+  for (int w : weights) xs.push_back(xs.back() + body.width() * w / 100);
+  paint_table(pg, sheet.font, xs, table.header, table.cells);
+  pg.y += line / 2;
+  const int chart_height = start + room - pg.y - line;
+  if (chart_height > 6 * line)
+    paint_scaled(
+        *sheet.painter, sheet.font, body, pg.y, chart_height, [&](QPainter& p, const QRect& area) {
+          AllowanceChartStyle style;
+          style.title = false;  // the table's heading names the level
+          style.background = Qt::white;
+          paint_allowance_chart(p, area.adjusted(0, 0, 0, -p.fontMetrics().height()), level,
+                                axis_max, in.load.magnitude, in.load.preset, unit, style);
+          paint_allowance_legend(p,
+                                 QRect(area.left(), area.bottom() - p.fontMetrics().height(),
+                                       area.width(), p.fontMetrics().height()),
+                                 band);
+        });
+  pg.y = start + room;
+}
+
+// The allowance pages: table and chart of every bone level, kAllowanceLevelsPerPage to a page.
+void paint_allowance_pages(Sheet& sheet, const ReportInputs& in) {
+  AllowanceCriterion criterion;  // peak compression against the upper limit, as summary.txt
+  const std::vector<AllowanceLevel> levels =
+      allowance_levels(*in.allowances, in.allowance_band, criterion, in.load.unit);
+  const bool band = !levels.empty() && levels.front().rows.front().has_band();
+  const double axis_max = allowance_axis_max(levels, in.load.magnitude);
+  for (size_t first = 0; first < levels.size(); first += kAllowanceLevelsPerPage) {
+    Page pg = sheet.begin();
+    if (first == 0)
+      paint_allowance_intro(pg, in, criterion, band);
+    else
+      pg.heading(QStringLiteral("Force allowance (continued)"));
+    const size_t last = std::min(levels.size(), first + kAllowanceLevelsPerPage);
+    const int room = (sheet.body.bottom() - pg.y) / static_cast<int>(last - first);
+    for (size_t k = first; k < last; ++k)
+      paint_allowance_level(sheet, pg, in, levels[k], axis_max, band, room);
+    sheet.finish();
+  }
+}
+
 }  // namespace
 
 int report_page_count(const ReportInputs& in) {
@@ -181,7 +461,6 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
       *error = QStringLiteral("there are no results to report yet; open or solve a case first");
     return 0;
   }
-  const analysis::CaseSpec& spec = *in.spec;
   const auto& results = *in.results;
   const int current = std::clamp(in.current, 0, static_cast<int>(results.size()) - 1);
   const analysis::ScenarioResult& r = results[static_cast<size_t>(current)];
@@ -192,7 +471,7 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   writer.setResolution(300);
   // The force system as set, beside the case label (which may name an older one).
   writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)")
-                      .arg(QString::fromStdString(spec.label), describe(in.load)));
+                      .arg(QString::fromStdString(in.spec->label), describe(in.load)));
   writer.setCreator(QStringLiteral("Sharpey"));
   QPainter painter;
   if (!painter.begin(&writer)) {
@@ -209,240 +488,13 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   // The body ends half a line above the footer, whatever the caution's length.
   const QRect body(page.left(), page.top(), page.width(),
                    page.height() - footer_height(painter, page) - line / 2);
-  int pages = 0;
-  const int total_pages = report_page_count(in);
-
-  // ---- page 1: case, force system, thresholds, verdict, key numbers ----
-  {
-    Page pg{&painter, body, body.top(), line};
-    pg.heading(QStringLiteral("Sharpey report"), 2.0);
-    pg.paragraph(QString::fromStdString(spec.label), Qt::black, true);
-    pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
-                     .arg(in.case_file, QDateTime::currentDateTime().toString(
-                                            QStringLiteral("yyyy-MM-dd HH:mm"))));
-    // The caution, boxed.
-    const QString caution = QString::fromStdString(analysis::caution_text());
-    const QRect bound = painter.boundingRect(
-        QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, 100000),
-        Qt::TextWordWrap, caution);
-    const QRect box(body.left(), pg.y, body.width(), bound.height() + line);
-    painter.fillRect(box, QColor(246, 231, 193));
-    painter.setPen(QPen(QColor(156, 110, 20), 4));
-    painter.drawLine(box.topLeft(), box.bottomLeft());
-    painter.setPen(QColor(70, 50, 0));
-    painter.drawText(
-        QRect(body.left() + line, pg.y + line / 2, body.width() - 2 * line, bound.height()),
-        Qt::TextWordWrap, caution);
-    painter.setPen(Qt::black);
-    pg.y = box.bottom() + line;
-    if (in.stale) {
-      pg.paragraph(
-          QStringLiteral("Note: the case geometry was edited after the last solve; the results "
-                         "below belong to the geometry that was solved."),
-          QColor(120, 60, 0), true);
-    }
-    pg.heading(QStringLiteral("Model"));
-    pg.paragraph(describe_case(spec));
-    pg.heading(QStringLiteral("Force system"));
-    pg.paragraph(describe(in.load) + '.');
-    pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
-    pg.heading(QStringLiteral("Thresholds and their sources"));
-    pg.rows(
-        {{QStringLiteral("capillary pressure"),
-          with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) +
-              QStringLiteral(". Source: ") +
-              QString::fromStdString(spec.thresholds.capillary.source)},
-         {QStringLiteral("physiological limit"),
-          with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) +
-              QStringLiteral(". Source: ") + QString::fromStdString(spec.thresholds.limit.source)}},
-        body.width() / 4);
-    const Verdict v = judge(r, spec.thresholds);
-    pg.heading(QStringLiteral("Reading for %1").arg(QString::fromStdString(r.name)));
-    const QRect badge(body.left(), pg.y, body.width(), static_cast<int>(line * 1.6));
-    painter.fillRect(badge, verdict_background(v.level));
-    painter.setPen(Qt::white);
-    QFont bold = font;
-    bold.setBold(true);
-    painter.setFont(bold);
-    painter.drawText(badge.adjusted(line / 2, 0, 0, 0), Qt::AlignLeft | Qt::AlignVCenter,
-                     v.headline);
-    painter.setFont(font);
-    painter.setPen(Qt::black);
-    pg.y = badge.bottom() + line / 2;
-    pg.paragraph(v.detail);
-    if (r.beyond_linear_range) {
-      pg.paragraph(QString::fromStdString(analysis::beyond_linear_range_text(r)),
-                   QColor(120, 60, 0), true);
-    }
-    pg.rows(key_number_rows(r), body.width() / 3);
-    footer(painter, page, ++pages, total_pages, in.case_file);
-  }
-
-  // ---- page 2: the scenario on display, 3D and root map ----
-  writer.newPage();
-  {
-    Page pg{&painter, body, body.top(), line};
-    pg.heading(QStringLiteral("%1: ligament pressure").arg(QString::fromStdString(r.name)));
-    pg.paragraph(QStringLiteral(
-        "3D view: hydrostatic pressure in the PDL (compression positive), threshold "
-        "iso-lines, force arrow at the bracket, centre of resistance (CRes) and centre "
-        "of rotation (CRot)."));
-    pg.image(in.view_3d, body.height() / 2 - 4 * line);
-    pg.paragraph(QStringLiteral(
-        "Root map: the root surface unrolled, angle around the root against depth below "
-        "the CEJ."));
-    RootMapView map;
-    // The range shown (core/quantity.h) for pressure is the key numbers' span: peak tension to
-    // peak compression outside the crest edge band.
-    const ValueRange shown{-r.pressure_max_tension_kpa, r.pressure_max_compression_kpa};
-    map.set_map(r.root_map, spec.thresholds,
-                QStringLiteral("Root map, %1").arg(QString::fromStdString(r.name)), &shown);
-    const int map_height = std::min(body.bottom() - pg.y, body.width() * 3 / 5);
-    paint_scaled(painter, font, body, pg.y, map_height,
-                 [&map](QPainter& p, const QRect& area) { map.paint_into(p, area); });
-    footer(painter, page, ++pages, total_pages, in.case_file);
-  }
-
-  // ---- page 3: bone-level comparison ----
-  writer.newPage();
-  {
-    Page pg{&painter, body, body.top(), line};
-    pg.heading(QStringLiteral("Bone levels compared"));
-    pg.paragraph(
-        QStringLiteral("Same force system at every bone level; one colour scale for all views."));
-    pg.image(in.comparison, body.height() / 3);
-    const ScenarioTable table = make_table(results);
-    // Table: one column per scenario.
-    const int label_w = body.width() * 2 / 5;
-    const int col_w =
-        (body.width() - label_w) / std::max(1, static_cast<int>(table.row_names.size()));
-    QFont bold = font;
-    bold.setBold(true);
-    painter.setFont(bold);
-    for (int s = 0; s < table.row_names.size(); ++s)
-      painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line), Qt::AlignRight,
-                       table.row_names[s]);
-    painter.setFont(font);
-    pg.y += line + line / 4;
-    for (int c = 0; c < static_cast<int>(table.columns.size()); ++c) {
-      if (c % 2 == 0)
-        painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
-      painter.drawText(QRect(body.left(), pg.y, label_w, line), Qt::AlignLeft | Qt::AlignVCenter,
-                       table.header_text(c));
-      for (int s = 0; s < table.row_names.size(); ++s)
-        painter.drawText(QRect(body.left() + label_w + s * col_w, pg.y, col_w, line),
-                         Qt::AlignRight | Qt::AlignVCenter, table.cell_text(s, c));
-      pg.y += line;
-    }
-    pg.y += line;
-    // A reading for every bone level, not only the one on display.
-    pg.heading(QStringLiteral("Reading per bone level"));
-    for (const analysis::ScenarioResult& level : results)
-      pg.paragraph(QString::fromStdString(level.name) + QStringLiteral(": ") +
-                   judge(level, spec.thresholds).detail +
-                   (level.beyond_linear_range
-                        ? QStringLiteral(" ") +
-                              QString::fromStdString(analysis::beyond_linear_range_text(level))
-                        : QString()));
-    TrendPlot plot;
-    plot.set_table(table);
-    const int plot_height = body.bottom() - pg.y;
-    if (plot_height > 10 * line)
-      paint_scaled(painter, font, body, pg.y, plot_height,
-                   [&plot](QPainter& p, const QRect& area) { plot.paint_into(p, area); });
-    footer(painter, page, ++pages, total_pages, in.case_file);
-  }
-
-  // ---- allowance pages: table and chart of every bone level ----
-  if (has_allowances(in)) {
-    const analysis::ForceUnit unit = in.load.unit;
-    AllowanceCriterion criterion;  // peak compression against the upper limit, as summary.txt
-    const std::vector<AllowanceLevel> levels =
-        allowance_levels(*in.allowances, in.allowance_band, criterion, unit);
-    const bool band = !levels.empty() && levels.front().rows.front().has_band();
-    const double axis_max = allowance_axis_max(levels, in.load.magnitude);
-    for (size_t first = 0; first < levels.size(); first += kAllowanceLevelsPerPage) {
-      writer.newPage();
-      Page pg{&painter, body, body.top(), line};
-      if (first == 0) {
-        pg.heading(QStringLiteral("Force allowance"));
-        pg.paragraph(
-            QStringLiteral("The largest force at the bracket, with the couple each movement needs, "
-                           "that keeps the ") +
-            describe(criterion, spec.thresholds) +
-            QStringLiteral(", in %1; the evaluation is linear in the force (one evaluation per "
-                           "movement). ")
-                .arg(force_unit_label(unit)) +
-            (band ? QStringLiteral("Conservative allowance: the 10th percentile of the allowances "
-                                   "over %1 sampled variations of the tissue properties and the "
-                                   "measured geometry (nine in ten allow more); it describes the "
-                                   "spread, not a probability for a given patient. Figures at "
-                                   "the right of the charts: the conservative allowances. ")
-                        .arg(in.allowance_band->options.n_samples)
-                  : QStringLiteral("The variability band was not computed: nominal allowances "
-                                   "for the case's own tissue properties and geometry, no "
-                                   "conservative allowance; figures at the right of the charts: "
-                                   "the nominal allowances. ")) +
-            QStringLiteral("Common-practice ranges are a fact of the trade with no single source: "
-                           "a plausibility bound, never a prescription. Present force: %1.")
-                .arg(describe(in.load)));
-        pg.paragraph(QString::fromStdString(analysis::caution_text()), QColor(90, 60, 0), true);
-      } else {
-        pg.heading(QStringLiteral("Force allowance (continued)"));
-      }
-      const size_t last = std::min(levels.size(), first + kAllowanceLevelsPerPage);
-      const int room = (body.bottom() - pg.y) / static_cast<int>(last - first);
-      for (size_t k = first; k < last; ++k) {
-        const int start = pg.y;
-        const AllowanceLevel& level = levels[k];
-        pg.heading(QStringLiteral("%1 (bone loss %2)")
-                       .arg(level.name, with_unit(level.bone_loss_mm, QStringLiteral("mm"), 1)),
-                   1.15);
-        const AllowanceTable table = allowance_table(level, unit);
-        // Column widths: the movement and the practice range wider than the forces.
-        const std::vector<int> weights = {27, 12, 15, 12, 12, 22};
-        std::vector<int> xs(1, body.left());
-        for (int w : weights) xs.push_back(xs.back() + body.width() * w / 100);
-        QFont bold = font;
-        bold.setBold(true);
-        painter.setFont(bold);
-        for (int c = 0; c < table.header.size(); ++c)
-          painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line),
-                           (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignVCenter,
-                           table.header[c]);
-        painter.setFont(font);
-        pg.y += line + line / 4;
-        for (size_t row = 0; row < table.cells.size(); ++row) {
-          if (row % 2 == 0)
-            painter.fillRect(QRect(body.left(), pg.y, body.width(), line), QColor(240, 238, 232));
-          for (int c = 0; c < table.cells[row].size(); ++c)
-            painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line),
-                             (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignVCenter,
-                             table.cells[row][c]);
-          pg.y += line;
-        }
-        pg.y += line / 2;
-        const int chart_height = start + room - pg.y - line;
-        if (chart_height > 6 * line)
-          paint_scaled(
-              painter, font, body, pg.y, chart_height, [&](QPainter& p, const QRect& area) {
-                AllowanceChartStyle style;
-                style.title = false;  // the table's heading names the level
-                style.background = Qt::white;
-                paint_allowance_chart(p, area.adjusted(0, 0, 0, -p.fontMetrics().height()), level,
-                                      axis_max, in.load.magnitude, in.load.preset, unit, style);
-                paint_allowance_legend(p,
-                                       QRect(area.left(), area.bottom() - p.fontMetrics().height(),
-                                             area.width(), p.fontMetrics().height()),
-                                       band);
-              });
-        pg.y = start + room;
-      }
-      footer(painter, page, ++pages, total_pages, in.case_file);
-    }
-  }
+  Sheet sheet{&writer, &painter, font, page, body, line, 0, report_page_count(in), in.case_file};
+  paint_summary_page(sheet, in, r);
+  paint_level_page(sheet, in, r);
+  paint_comparison_page(sheet, in);
+  if (has_allowances(in)) paint_allowance_pages(sheet, in);
   painter.end();
-  return pages;
+  return sheet.pages;
 }
 
 }  // namespace sharpey::app
