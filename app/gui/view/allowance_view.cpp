@@ -48,123 +48,169 @@ void draw_diamond(QPainter& p, QPointF centre, double r, const QColor& fill) {
 
 }  // namespace
 
+namespace {
+
+// The chart's geometry: the row labels at the left, the values at the right, the force axis
+// between them from 0 to `top`.
+struct ChartFrame {
+  QRect rect, plot;
+  int line = 0, label_w = 0, value_w = 0;
+  double top = 1.0;
+  double x_of(double v) const { return plot.left() + plot.width() * std::clamp(v / top, 0.0, 1.0); }
+};
+
+ChartFrame chart_frame(const QFontMetrics& fm, const QRect& rect, const AllowanceLevel& level,
+                       double axis_max) {
+  ChartFrame f;
+  f.rect = rect;
+  f.line = fm.height();
+  for (const AllowanceRow& r : level.rows)
+    f.label_w = std::max(f.label_w, fm.horizontalAdvance(label(r.movement)));
+  f.label_w += f.line / 2;
+  f.value_w = fm.horizontalAdvance(QStringLiteral("unbounded")) + f.line / 2;
+  f.plot = QRect(rect.left() + f.label_w, rect.top() + f.line + f.line / 2,
+                 std::max(10, rect.width() - f.label_w - f.value_w),
+                 std::max(10, rect.height() - 3 * f.line));
+  f.top = axis_max > 0 ? axis_max * 1.06 : 1.0;
+  return f;
+}
+
+void paint_chart_title(QPainter& p, const ChartFrame& f, const AllowanceLevel& level,
+                       const AllowanceChartStyle& style) {
+  if (!style.title) return;
+  const QFont base = p.font();
+  QFont bold = base;
+  bold.setBold(true);
+  p.setFont(bold);
+  p.setPen(kInk);
+  const QString title =
+      QStringLiteral("%1%2 (bone loss %3)")
+          .arg(style.highlight_level ? QStringLiteral("\u25b6 ") : QString(), level.name,
+               with_unit(level.bone_loss_mm, QStringLiteral("mm"), 1));
+  p.drawText(QRect(f.rect.left(), f.rect.top(), f.rect.width(), f.line),
+             Qt::AlignLeft | Qt::AlignVCenter, title);
+  p.setFont(base);
+}
+
+// Vertical grid lines with their tick labels, and the unit at the axis end.
+void paint_chart_axis(QPainter& p, const ChartFrame& f, analysis::ForceUnit unit) {
+  const std::vector<double> ticks = nice_ticks(0, f.top, 6);
+  const double step = nice_step(0, f.top, 6);
+  for (double t : ticks) {
+    const double x = f.x_of(t);
+    p.setPen(QPen(kGrid, 1));
+    p.drawLine(QPointF(x, f.plot.top()), QPointF(x, f.plot.bottom()));
+    p.setPen(kInk);
+    p.drawText(QRectF(x - 40, f.plot.bottom() + 2, 80, f.line), Qt::AlignHCenter | Qt::AlignTop,
+               tick_label(t, step));
+  }
+  p.drawText(QRect(f.plot.right() + 4, f.plot.bottom() + 2, f.value_w, f.line), Qt::AlignLeft,
+             force_unit_label(unit));
+}
+
+// A movement that compression never limits: a grey arrow to the axis end, with its words on the
+// row's own background.
+void paint_unbounded_row(QPainter& p, const ChartFrame& f, double mid, double bar_h,
+                         const QColor& background) {
+  const QFontMetrics fm = p.fontMetrics();
+  p.setPen(QPen(kUnbounded, std::max(1.0, bar_h / 5), Qt::SolidLine, Qt::RoundCap));
+  p.drawLine(QPointF(f.plot.left(), mid), QPointF(f.plot.right() - bar_h / 2, mid));
+  QPainterPath head;
+  head.moveTo(f.plot.right(), mid);
+  head.lineTo(f.plot.right() - bar_h, mid - bar_h / 2);
+  head.lineTo(f.plot.right() - bar_h, mid + bar_h / 2);
+  head.closeSubpath();
+  p.fillPath(head, kUnbounded);
+  const QString words = QStringLiteral("not limited by compression");
+  const QRectF box(f.plot.left() + f.line, mid - f.line / 2.0,
+                   fm.horizontalAdvance(words) + f.line / 2, f.line);
+  p.fillRect(box, background);
+  p.setPen(kInk);
+  p.drawText(box, Qt::AlignCenter, words);
+}
+
+// The band (10th to 90th percentile, median marked) and the nominal allowance's diamond.
+void paint_limited_row(QPainter& p, const ChartFrame& f, const AllowanceRow& r, double bar_y,
+                       double bar_h) {
+  if (r.has_band()) {
+    const double a = f.x_of(r.band_p10);
+    const double b = std::isfinite(r.band_p90) ? f.x_of(r.band_p90) : f.plot.right();
+    p.fillRect(QRectF(a, bar_y, std::max(2.0, b - a), bar_h), kBand);
+    if (std::isfinite(r.band_p50)) {
+      p.setPen(QPen(kBandMedian, std::max(1.0, bar_h / 6)));
+      p.drawLine(QPointF(f.x_of(r.band_p50), bar_y), QPointF(f.x_of(r.band_p50), bar_y + bar_h));
+    }
+  }
+  if (std::isfinite(r.nominal))
+    draw_diamond(p, QPointF(f.x_of(r.nominal), bar_y + bar_h / 2), bar_h * 0.55, kInk);
+}
+
+// One movement's row from height y0, row_h high: its name, the common-practice strip, the
+// allowance (or the unbounded arrow) and the figure at the right.
+void paint_allowance_row(QPainter& p, const ChartFrame& f, const AllowanceRow& r, double y0,
+                         double row_h, bool highlighted, analysis::ForceUnit unit,
+                         const AllowanceChartStyle& style) {
+  if (highlighted) p.fillRect(QRectF(f.rect.left(), y0, f.rect.width(), row_h), kHighlight);
+  p.setPen(kInk);
+  p.drawText(QRectF(f.rect.left(), y0, f.label_w - f.line / 4, row_h),
+             Qt::AlignRight | Qt::AlignVCenter, label(r.movement));
+  // Common practice: a sand strip in the lower third of the row.
+  const QRectF practice(f.x_of(r.practice_low), y0 + row_h * 0.68,
+                        std::max(1.0, f.x_of(r.practice_high) - f.x_of(r.practice_low)),
+                        row_h * 0.2);
+  p.fillRect(practice, kPractice);
+  p.setPen(QPen(kPracticeEdge, 1));
+  p.drawRect(practice);
+  const double bar_y = y0 + row_h * 0.22, bar_h = row_h * 0.36;
+  QString value;
+  if (!r.limited) {
+    paint_unbounded_row(p, f, bar_y + bar_h / 2, bar_h,
+                        highlighted ? kHighlight : style.background);
+    value = QStringLiteral("unbounded");
+  } else {
+    paint_limited_row(p, f, r, bar_y, bar_h);
+    value = allowance_text(r.has_band() ? r.band_p10 : r.nominal, unit);
+  }
+  p.setPen(kInk);
+  p.drawText(QRectF(f.plot.right() + 4, y0, f.value_w, row_h), Qt::AlignLeft | Qt::AlignVCenter,
+             value);
+}
+
+// The present force: a dashed line across the rows, its value above.
+void paint_present_force(QPainter& p, const ChartFrame& f, double current,
+                         analysis::ForceUnit unit) {
+  if (!std::isfinite(current) || current < 0) return;
+  const double x = f.x_of(current);
+  p.setPen(QPen(kCurrent, std::max(1.5, f.line / 9.0), Qt::DashLine));
+  p.drawLine(QPointF(x, f.plot.top() - f.line / 3), QPointF(x, f.plot.bottom()));
+  p.setPen(kCurrent);
+  const QString text = QStringLiteral("present ") + allowance_text(current, unit);
+  const int w = p.fontMetrics().horizontalAdvance(text);
+  const double tx = std::clamp(x - w / 2.0, static_cast<double>(f.plot.left()),
+                               static_cast<double>(f.rect.right() - w));
+  p.drawText(QRectF(tx, f.rect.top(), w + 2, f.line), Qt::AlignRight | Qt::AlignVCenter, text);
+}
+
+}  // namespace
+
 void paint_allowance_chart(QPainter& p, const QRect& rect, const AllowanceLevel& level,
                            double axis_max, double current, analysis::MovementPreset highlighted,
                            analysis::ForceUnit unit, const AllowanceChartStyle& style) {
   p.save();
   p.setRenderHint(QPainter::Antialiasing, true);
-  const QFont base = p.font();
-  const QFontMetrics fm = p.fontMetrics();
-  const int line = fm.height();
-  QFont bold = base;
-  bold.setBold(true);
-  p.setFont(bold);
-  p.setPen(kInk);
-  if (style.title) {
-    const QString title =
-        QStringLiteral("%1%2 (bone loss %3)")
-            .arg(style.highlight_level ? QStringLiteral("\u25b6 ") : QString(), level.name,
-                 with_unit(level.bone_loss_mm, QStringLiteral("mm"), 1));
-    p.drawText(QRect(rect.left(), rect.top(), rect.width(), line), Qt::AlignLeft | Qt::AlignVCenter,
-               title);
-  }
-  p.setFont(base);
-
+  const ChartFrame f = chart_frame(p.fontMetrics(), rect, level, axis_max);
+  paint_chart_title(p, f, level, style);
+  paint_chart_axis(p, f, unit);
   const int n_rows = static_cast<int>(level.rows.size());
-  int label_w = 0;
-  for (const AllowanceRow& r : level.rows)
-    label_w = std::max(label_w, fm.horizontalAdvance(label(r.movement)));
-  label_w += line / 2;
-  const int value_w = fm.horizontalAdvance(QStringLiteral("unbounded")) + line / 2;
-  const QRect plot(rect.left() + label_w, rect.top() + line + line / 2,
-                   std::max(10, rect.width() - label_w - value_w),
-                   std::max(10, rect.height() - 3 * line));
-  const double top = axis_max > 0 ? axis_max * 1.06 : 1.0;
-  auto x_of = [&](double v) { return plot.left() + plot.width() * std::clamp(v / top, 0.0, 1.0); };
-
-  // Grid and axis ticks.
-  const std::vector<double> ticks = nice_ticks(0, top, 6);
-  const double step = nice_step(0, top, 6);
-  for (double t : ticks) {
-    const double x = x_of(t);
-    p.setPen(QPen(kGrid, 1));
-    p.drawLine(QPointF(x, plot.top()), QPointF(x, plot.bottom()));
-    p.setPen(kInk);
-    p.drawText(QRectF(x - 40, plot.bottom() + 2, 80, line), Qt::AlignHCenter | Qt::AlignTop,
-               tick_label(t, step));
-  }
-  p.drawText(QRect(plot.right() + 4, plot.bottom() + 2, value_w, line), Qt::AlignLeft,
-             force_unit_label(unit));
-
-  const double row_h = static_cast<double>(plot.height()) / std::max(1, n_rows);
+  const double row_h = static_cast<double>(f.plot.height()) / std::max(1, n_rows);
   for (int i = 0; i < n_rows; ++i) {
     const AllowanceRow& r = level.rows[static_cast<size_t>(i)];
-    const double y0 = plot.top() + i * row_h;
-    const QRectF row_rect(rect.left(), y0, rect.width(), row_h);
-    if (r.movement == highlighted) p.fillRect(row_rect, kHighlight);
-    p.setPen(kInk);
-    p.drawText(QRectF(rect.left(), y0, label_w - line / 4, row_h),
-               Qt::AlignRight | Qt::AlignVCenter, label(r.movement));
-    // Common practice: a sand strip in the lower third of the row.
-    const QRectF practice(x_of(r.practice_low), y0 + row_h * 0.68,
-                          std::max(1.0, x_of(r.practice_high) - x_of(r.practice_low)), row_h * 0.2);
-    p.fillRect(practice, kPractice);
-    p.setPen(QPen(kPracticeEdge, 1));
-    p.drawRect(practice);
-    const double bar_y = y0 + row_h * 0.22, bar_h = row_h * 0.36;
-    const double mid = bar_y + bar_h / 2;
-    QString value;
-    if (!r.limited) {
-      // Not limited by compression: a grey arrow to the axis end.
-      p.setPen(QPen(kUnbounded, std::max(1.0, bar_h / 5), Qt::SolidLine, Qt::RoundCap));
-      p.drawLine(QPointF(plot.left(), mid), QPointF(plot.right() - bar_h / 2, mid));
-      QPainterPath head;
-      head.moveTo(plot.right(), mid);
-      head.lineTo(plot.right() - bar_h, mid - bar_h / 2);
-      head.lineTo(plot.right() - bar_h, mid + bar_h / 2);
-      head.closeSubpath();
-      p.fillPath(head, kUnbounded);
-      // Its words on the arrow, on the row's own background.
-      const QString words = QStringLiteral("not limited by compression");
-      const QRectF box(plot.left() + line, mid - line / 2.0, fm.horizontalAdvance(words) + line / 2,
-                       line);
-      p.fillRect(box, r.movement == highlighted ? kHighlight : style.background);
-      p.setPen(kInk);
-      p.drawText(box, Qt::AlignCenter, words);
-      value = QStringLiteral("unbounded");
-    } else {
-      if (r.has_band()) {
-        const double a = x_of(r.band_p10);
-        const double b = std::isfinite(r.band_p90) ? x_of(r.band_p90) : plot.right();
-        const QRectF bar(a, bar_y, std::max(2.0, b - a), bar_h);
-        p.fillRect(bar, kBand);
-        if (std::isfinite(r.band_p50)) {
-          p.setPen(QPen(kBandMedian, std::max(1.0, bar_h / 6)));
-          p.drawLine(QPointF(x_of(r.band_p50), bar_y), QPointF(x_of(r.band_p50), bar_y + bar_h));
-        }
-      }
-      if (std::isfinite(r.nominal))
-        draw_diamond(p, QPointF(x_of(r.nominal), mid), bar_h * 0.55, kInk);
-      value = allowance_text(r.has_band() ? r.band_p10 : r.nominal, unit);
-    }
-    p.setPen(kInk);
-    p.drawText(QRectF(plot.right() + 4, y0, value_w, row_h), Qt::AlignLeft | Qt::AlignVCenter,
-               value);
+    paint_allowance_row(p, f, r, f.plot.top() + i * row_h, row_h, r.movement == highlighted, unit,
+                        style);
   }
   p.setPen(QPen(kInk, 1));
-  p.drawLine(plot.bottomLeft(), plot.bottomRight());
-  // The present force.
-  if (std::isfinite(current) && current >= 0) {
-    const double x = x_of(current);
-    p.setPen(QPen(kCurrent, std::max(1.5, line / 9.0), Qt::DashLine));
-    p.drawLine(QPointF(x, plot.top() - line / 3), QPointF(x, plot.bottom()));
-    p.setPen(kCurrent);
-    const QString text = QStringLiteral("present ") + allowance_text(current, unit);
-    const int w = fm.horizontalAdvance(text);
-    const double tx = std::clamp(x - w / 2.0, static_cast<double>(plot.left()),
-                                 static_cast<double>(rect.right() - w));
-    p.drawText(QRectF(tx, rect.top(), w + 2, line), Qt::AlignRight | Qt::AlignVCenter, text);
-  }
+  p.drawLine(f.plot.bottomLeft(), f.plot.bottomRight());
+  paint_present_force(p, f, current, unit);
   p.restore();
 }
 
@@ -276,8 +322,13 @@ const std::vector<std::pair<QString, AllowanceCriterion>>& criteria() {
 
 AllowanceView::AllowanceView(CaseSession* session, QWidget* parent)
     : QWidget(parent), session_(session), job_(std::make_unique<AllowanceJob>()) {
-  auto* outer = new QVBoxLayout(this);
-  outer->setContentsMargins(6, 6, 6, 6);
+  build_layout();
+  connect_controls();
+  connect_job();
+  refresh();
+}
+
+QHBoxLayout* AllowanceView::build_controls() {
   auto* row = new QHBoxLayout;
   movement_box_ = new QComboBox;
   for (analysis::MovementPreset m : analysis::all_movement_presets())
@@ -308,7 +359,13 @@ AllowanceView::AllowanceView(CaseSession* session, QWidget* parent)
   row->addWidget(band_);
   row->addWidget(progress_);
   row->addWidget(cancel_);
-  outer->addLayout(row);
+  return row;
+}
+
+void AllowanceView::build_layout() {
+  auto* outer = new QVBoxLayout(this);
+  outer->setContentsMargins(6, 6, 6, 6);
+  outer->addLayout(build_controls());
   status_ = new QLabel;
   status_->setWordWrap(true);
   outer->addWidget(status_);
@@ -325,7 +382,9 @@ AllowanceView::AllowanceView(CaseSession* session, QWidget* parent)
   outer->addWidget(caution_);
   progress_->hide();
   cancel_->hide();
+}
 
+void AllowanceView::connect_controls() {
   connect(movement_box_, &QComboBox::currentIndexChanged, this, [this]() { refresh(); });
   connect(criterion_box_, &QComboBox::currentIndexChanged, this, [this](int i) {
     if (i >= 0) set_criterion(criteria()[static_cast<size_t>(i)].second);
@@ -337,6 +396,10 @@ AllowanceView::AllowanceView(CaseSession* session, QWidget* parent)
   connect(session_, &CaseSession::results_changed, this, &AllowanceView::follow_session);
   connect(session_, &CaseSession::current_changed, this, [this]() { refresh(); });
   connect(session_, &CaseSession::case_replaced, this, [this]() { follow_session(false); });
+}
+
+// The background job's results and progress, shown as they come.
+void AllowanceView::connect_job() {
   connect(job_.get(), &AllowanceJob::nominal_ready, this, [this](int n) {
     refresh();
     emit nominal_shown(n);
@@ -366,7 +429,6 @@ AllowanceView::AllowanceView(CaseSession* session, QWidget* parent)
   connect(job_.get(), &AllowanceJob::band_failed, this, [band_ended](const QString& message) {
     band_ended(QStringLiteral("Variability band failed: ") + message);
   });
-  refresh();
 }
 
 AllowanceView::~AllowanceView() = default;

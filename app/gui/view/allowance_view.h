@@ -15,6 +15,7 @@
 #include "core/allowance_table.h"
 
 class QComboBox;
+class QHBoxLayout;
 class QLabel;
 class QProgressBar;
 class QPushButton;
@@ -75,6 +76,10 @@ class AllowanceView : public QWidget {
   void apply_requested(const sharpey::app::LoadControls& controls);
 
  private:
+  QHBoxLayout* build_controls();  // the row of controls above the charts
+  void build_layout();
+  void connect_controls();
+  void connect_job();
   void refresh();
   void follow_session(bool interactive);
 
