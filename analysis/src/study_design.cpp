@@ -101,18 +101,10 @@ void add_key_lists(const Json& root, const std::string& key, const std::string& 
 
 }  // namespace
 
-StudyDesign parse_study_design(const std::string& json_text, const std::string& origin) {
-  const Json root = Json::parse(json_text, nullptr, /*allow_exceptions=*/false);
-  if (root.is_discarded() || !root.is_object())
-    throw InputError("design", origin +
-                                   ": not a JSON object; a design looks like {\"teeth\": "
-                                   "[\"maxillary_canine\"], \"bone_levels_mm\": [0, 2, 4], "
-                                   "\"forces\": [50, 100]} (docs/sweeps.md, Study designs)");
-  for (auto it = root.begin(); it != root.end(); ++it)
-    if (std::find(std::begin(kKnownKeys), std::end(kKnownKeys), it.key()) == std::end(kKnownKeys))
-      bad(it.key(), origin, "unknown key \"" + it.key() + "\"; a design knows " + known_keys());
+namespace {
 
-  StudyDesign design;
+// design_version (when given, the one this program reads) and label.
+void read_version_and_label(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("design_version")) {
     const Json& v = root.at("design_version");
     if (!v.is_number_integer() || v.get<long long>() != kStudyDesignVersion)
@@ -124,6 +116,10 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
     if (!root.at("label").is_string()) bad("label", origin, "\"label\" must be a string");
     design.label = root.at("label").get<std::string>();
   }
+}
+
+// teeth: tooth-type names.
+void read_teeth(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("teeth")) {
     const Json& teeth = factor_array(root, "teeth", origin, "[\"maxillary_canine\"]");
     for (const Json& t : teeth)
@@ -132,6 +128,10 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
             "tooth " + t.dump() + " is not a name; give tooth types such as \"mandibular_canine\"");
     design.variations.push_back(variation("tooth.type", teeth));
   }
+}
+
+// bone_levels_mm: horizontal losses >= 0, the scenarios of every model.
+void read_bone_levels(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("bone_levels_mm")) {
     for (const Json& b : factor_array(root, "bone_levels_mm", origin, "[0, 2, 4]")) {
       if (!b.is_number() || !std::isfinite(b.get<double>()) || b.get<double>() < 0)
@@ -141,10 +141,10 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
       design.bone_levels_mm.push_back(b.get<double>());
     }
   }
-  if (root.contains("materials"))
-    add_key_lists(root, "materials", origin, true, &design.variations);
-  if (root.contains("also_vary"))
-    add_key_lists(root, "also_vary", origin, false, &design.variations);
+}
+
+// movements: movement preset names.
+void read_movements(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("movements")) {
     const Json& movements = factor_array(root, "movements", origin, "[\"translation\"]");
     for (const Json& m : movements) {
@@ -160,6 +160,10 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
     }
     design.variations.push_back(variation("load.movement", movements));
   }
+}
+
+// forces: magnitudes > 0 in force_unit.
+void read_forces(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("forces")) {
     const Json& forces = factor_array(root, "forces", origin, "[50, 100, 150]");
     for (const Json& f : forces)
@@ -170,6 +174,10 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
                 "[50, 100, 150]");
     design.variations.push_back(variation("load.magnitude", forces));
   }
+}
+
+// force_unit: g, cN or N.
+void read_force_unit(const Json& root, const std::string& origin, StudyDesign& design) {
   if (root.contains("force_unit")) {
     const Json& u = root.at("force_unit");
     if (!u.is_string()) bad("force_unit", origin, "\"force_unit\" must be \"g\", \"cN\" or \"N\"");
@@ -180,6 +188,33 @@ StudyDesign parse_study_design(const std::string& json_text, const std::string& 
     }
     design.force_unit = u.get<std::string>();
   }
+}
+
+}  // namespace
+
+StudyDesign parse_study_design(const std::string& json_text, const std::string& origin) {
+  const Json root = Json::parse(json_text, nullptr, /*allow_exceptions=*/false);
+  if (root.is_discarded() || !root.is_object())
+    throw InputError("design", origin +
+                                   ": not a JSON object; a design looks like {\"teeth\": "
+                                   "[\"maxillary_canine\"], \"bone_levels_mm\": [0, 2, 4], "
+                                   "\"forces\": [50, 100]} (docs/sweeps.md, Study designs)");
+  for (auto it = root.begin(); it != root.end(); ++it)
+    if (std::find(std::begin(kKnownKeys), std::end(kKnownKeys), it.key()) == std::end(kKnownKeys))
+      bad(it.key(), origin, "unknown key \"" + it.key() + "\"; a design knows " + known_keys());
+
+  // The factors in table order: teeth, materials, also_vary, movements, forces.
+  StudyDesign design;
+  read_version_and_label(root, origin, design);
+  read_teeth(root, origin, design);
+  read_bone_levels(root, origin, design);
+  if (root.contains("materials"))
+    add_key_lists(root, "materials", origin, true, &design.variations);
+  if (root.contains("also_vary"))
+    add_key_lists(root, "also_vary", origin, false, &design.variations);
+  read_movements(root, origin, design);
+  read_forces(root, origin, design);
+  read_force_unit(root, origin, design);
   if (design.variations.empty() && design.bone_levels_mm.empty())
     bad("teeth", origin,
         "the design varies nothing; give at least one of teeth, bone_levels_mm, movements, forces, "
