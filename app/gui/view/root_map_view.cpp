@@ -48,7 +48,8 @@ void RootMapView::set_map(const analysis::RootMap& map, const analysis::Threshol
   map_ = map;
   thresholds_ = thresholds;
   title_ = title;
-  scale_ = ColourScale(Quantity::kPressure, fixed_range ? *fixed_range : finite_range(map.pressure_kpa));
+  scale_ =
+      ColourScale(Quantity::kPressure, fixed_range ? *fixed_range : finite_range(map.pressure_kpa));
   update();
 }
 
@@ -62,103 +63,81 @@ void RootMapView::paintEvent(QPaintEvent*) {
   paint_into(painter, rect());
 }
 
-void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
-  painter.save();
-  painter.setRenderHint(QPainter::Antialiasing, true);
-  const QColor text = palette().windowText().color();
-  painter.fillRect(area, palette().window());
-  const QFontMetrics fm(painter.font());
-  const int line = fm.height();
-  if (!has_map()) {
-    painter.setPen(text);
-    painter.drawText(area, Qt::AlignCenter, QStringLiteral("No root map yet: open or solve a case."));
-    painter.restore();
-    return;
-  }
-  // Room for the colour bar as ColourBar::draw lays it out with this font: the longest threshold
-  // name and its leader, the bar (20 px), then the tick labels; a fixed width clipped the labels.
-  const int bar_width = std::max(110, fm.horizontalAdvance(QStringLiteral("capillary")) + 8 + 12 + 20 + 6 +
-                                          fm.horizontalAdvance(QStringLiteral("-000.0")) + 6);
-  const QRect title_rect(area.left() + 8, area.top() + 4, area.width() - 16, line + 4);
-  QFont title_font = painter.font();
-  title_font.setBold(true);
-  painter.setFont(title_font);
-  painter.setPen(text);
-  painter.drawText(title_rect, Qt::AlignLeft | Qt::AlignVCenter, title_);
-  title_font.setBold(false);
-  painter.setFont(title_font);
-  const int left = area.left() + fm.horizontalAdvance(QStringLiteral("00.0")) + line + 16;
-  const QRect plot(left, title_rect.bottom() + 2 * line + 6,
-                   area.right() - bar_width - left - 8,
-                   area.bottom() - title_rect.bottom() - 5 * line - 16);
-  if (plot.width() < 40 || plot.height() < 40) {
-    painter.restore();
-    return;
-  }
-  const int n_a = map_.n_angle, n_d = map_.n_depth;
-  // Image: each pixel samples the map (cell centres at (j + 0.5) / n_a of the width).
-  QImage image(plot.size(), QImage::Format_RGB32);
-  const QColor hatch_back(226, 226, 226), hatch_line(196, 196, 196);
-  for (int py = 0; py < plot.height(); ++py) {
-    const double y = (py + 0.5) / plot.height() * n_d - 0.5;
+namespace {
+
+const QColor kHatchBack(226, 226, 226), kHatchLine(196, 196, 196);
+
+// The map as an image of `size`: each pixel samples the map (cell centres at (j + 0.5) / n_a of
+// the width); no ligament is light diagonal hatching.
+QImage map_image(const analysis::RootMap& map, const ColourScale& scale, const QSize& size) {
+  QImage image(size, QImage::Format_RGB32);
+  for (int py = 0; py < size.height(); ++py) {
+    const double y = (py + 0.5) / size.height() * map.n_depth - 0.5;
     auto* row = reinterpret_cast<QRgb*>(image.scanLine(py));
-    for (int px = 0; px < plot.width(); ++px) {
-      const double x = (px + 0.5) / plot.width() * n_a - 0.5;
-      const double v = root_map_sample(map_, x, y);
-      if (std::isfinite(v)) {
-        row[px] = to_qcolor(scale_.colour(v)).rgb();
-      } else {  // no ligament: light diagonal hatching
-        row[px] = ((px + py) % 9 == 0 ? hatch_line : hatch_back).rgb();
-      }
+    for (int px = 0; px < size.width(); ++px) {
+      const double x = (px + 0.5) / size.width() * map.n_angle - 0.5;
+      const double v = root_map_sample(map, x, y);
+      row[px] = std::isfinite(v) ? to_qcolor(scale.colour(v)).rgb()
+                                 : ((px + py) % 9 == 0 ? kHatchLine : kHatchBack).rgb();
     }
   }
-  painter.drawImage(plot.topLeft(), image);
-  if (painter.device() == this) plot_ = plot;
-  painter.setPen(QPen(QColor(60, 60, 60), 1));
-  painter.setBrush(Qt::NoBrush);
-  painter.drawRect(plot);
+  return image;
+}
 
-  // Threshold outlines: marching squares on the cell grid, with the first column repeated after
-  // the last so outlines close across 360 degrees.
+// The threshold outline pens: capillary dashed, limit solid.
+std::pair<QPen, QPen> outline_pens() {
+  return {QPen(to_qcolor(capillary_line_colour()), 2.0, Qt::DashLine),
+          QPen(to_qcolor(limit_line_colour()), 2.6, Qt::SolidLine)};
+}
+
+// Threshold outlines: marching squares on the cell grid, with the first column repeated after the
+// last so outlines close across 360 degrees. Returns the number of segments drawn.
+int paint_outlines(QPainter& painter, const analysis::RootMap& map, const QRect& plot,
+                   const analysis::Thresholds& thresholds) {
+  const int n_a = map.n_angle, n_d = map.n_depth;
   std::vector<double> wrapped(static_cast<size_t>(n_d) * static_cast<size_t>(n_a + 1));
   for (int r = 0; r < n_d; ++r)
     for (int c = 0; c <= n_a; ++c)
       wrapped[static_cast<size_t>(r) * static_cast<size_t>(n_a + 1) + static_cast<size_t>(c)] =
-          map_.pressure_kpa[static_cast<size_t>(r) * static_cast<size_t>(n_a) + static_cast<size_t>(c % n_a)];
+          map.pressure_kpa[static_cast<size_t>(r) * static_cast<size_t>(n_a) +
+                           static_cast<size_t>(c % n_a)];
   auto to_px = [&](double x, double y) {
-    return QPointF(plot.left() + (x + 0.5) / n_a * plot.width(), plot.top() + (y + 0.5) / n_d * plot.height());
+    return QPointF(plot.left() + (x + 0.5) / n_a * plot.width(),
+                   plot.top() + (y + 0.5) / n_d * plot.height());
   };
-  n_segments_ = 0;
-  struct Outline {
-    double level;
-    QPen pen;
-  };
-  const Outline outlines[] = {
-      {thresholds_.capillary.value_kpa, QPen(to_qcolor(capillary_line_colour()), 2.0, Qt::DashLine)},
-      {thresholds_.limit.value_kpa, QPen(to_qcolor(limit_line_colour()), 2.6, Qt::SolidLine)}};
+  const auto [capillary_pen, limit_pen] = outline_pens();
+  const std::pair<double, QPen> outlines[] = {{thresholds.capillary.value_kpa, capillary_pen},
+                                              {thresholds.limit.value_kpa, limit_pen}};
+  int n_segments = 0;
   painter.save();
   painter.setClipRect(plot);
-  for (const Outline& o : outlines) {
-    painter.setPen(o.pen);
-    for (const IsoSegment& s : iso_segments(wrapped, n_d, n_a + 1, o.level)) {
+  for (const auto& [level, pen] : outlines) {
+    painter.setPen(pen);
+    for (const IsoSegment& s : iso_segments(wrapped, n_d, n_a + 1, level)) {
       painter.drawLine(to_px(s.x0, s.y0), to_px(s.x1, s.y1));
-      ++n_segments_;
+      ++n_segments;
     }
   }
   painter.restore();
+  return n_segments;
+}
 
-  // Axes: angle with the sides named, depth below the CEJ.
+// Axes: angle with the sides named, depth below the CEJ.
+void paint_map_axes(QPainter& painter, const analysis::RootMap& map, const QRect& area,
+                    const QRect& plot, const QColor& text, int line) {
   painter.setPen(text);
   for (int k = 0; k <= 8; ++k) {
     const double x = plot.left() + k / 8.0 * plot.width();
     painter.drawLine(QPointF(x, plot.bottom()), QPointF(x, plot.bottom() + 4));
     QString label = QStringLiteral("%1\u00b0").arg(45 * k);
     if (k % 2 == 0) label += QStringLiteral("\n") + QLatin1String(kSideNames[k / 2]);
-    painter.drawText(QRectF(x - 40, plot.bottom() + 5, 80, 2 * line), Qt::AlignHCenter | Qt::AlignTop, label);
+    painter.drawText(QRectF(x - 40, plot.bottom() + 5, 80, 2 * line),
+                     Qt::AlignHCenter | Qt::AlignTop, label);
   }
-  painter.drawText(QRectF(plot.left(), plot.bottom() + 2 * line + 6, plot.width(), line), Qt::AlignHCenter,
+  painter.drawText(QRectF(plot.left(), plot.bottom() + 2 * line + 6, plot.width(), line),
+                   Qt::AlignHCenter,
                    QStringLiteral("angle around the root (0\u00b0 labial, 90\u00b0 mesial)"));
-  const double d0 = map_.depth_min_mm, d1 = map_.depth_max_mm;
+  const double d0 = map.depth_min_mm, d1 = map.depth_max_mm;
   const double step = nice_step(d0, d1, 6);
   for (double d : nice_ticks(d0, d1, 6)) {
     const double y = plot.top() + (d - d0) / (d1 - d0) * plot.height();
@@ -172,32 +151,87 @@ void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
   painter.drawText(QRectF(-plot.height() / 2.0, -line / 2.0, plot.height(), line), Qt::AlignCenter,
                    QStringLiteral("depth below the CEJ (mm)"));
   painter.restore();
+}
 
-  // Legend above the plot.
-  const int ly = title_rect.bottom() + line / 2 + 4;
-  int lx = plot.left();
+// The legend above the plot, from (x, y): the two outlines and the hatching.
+void paint_map_legend(QPainter& painter, int x, int y, const analysis::Thresholds& thresholds,
+                      const QColor& text) {
+  const QFontMetrics fm(painter.font());
+  const int line = fm.height();
   auto legend_line = [&](const QPen& pen, const QString& label) {
     painter.setPen(pen);
-    painter.drawLine(lx, ly + line / 2, lx + 26, ly + line / 2);
+    painter.drawLine(x, y + line / 2, x + 26, y + line / 2);
     painter.setPen(text);
-    painter.drawText(QRect(lx + 30, ly, 400, line), Qt::AlignLeft | Qt::AlignVCenter, label);
-    lx += 30 + fm.horizontalAdvance(label) + 18;
+    painter.drawText(QRect(x + 30, y, 400, line), Qt::AlignLeft | Qt::AlignVCenter, label);
+    x += 30 + fm.horizontalAdvance(label) + 18;
   };
-  legend_line(outlines[0].pen, QStringLiteral("capillary pressure %1 kPa").arg(thresholds_.capillary.value_kpa, 0, 'f', 1));
-  legend_line(outlines[1].pen, QStringLiteral("physiological limit %1 kPa").arg(thresholds_.limit.value_kpa, 0, 'f', 1));
-  painter.fillRect(QRect(lx, ly + 2, 26, line - 4), hatch_back);
-  painter.setPen(hatch_line);
-  painter.drawRect(QRect(lx, ly + 2, 26, line - 4));
+  const auto [capillary_pen, limit_pen] = outline_pens();
+  legend_line(
+      capillary_pen,
+      QStringLiteral("capillary pressure %1 kPa").arg(thresholds.capillary.value_kpa, 0, 'f', 1));
+  legend_line(
+      limit_pen,
+      QStringLiteral("physiological limit %1 kPa").arg(thresholds.limit.value_kpa, 0, 'f', 1));
+  painter.fillRect(QRect(x, y + 2, 26, line - 4), kHatchBack);
+  painter.setPen(kHatchLine);
+  painter.drawRect(QRect(x, y + 2, 26, line - 4));
   painter.setPen(text);
-  painter.drawText(QRect(lx + 30, ly, 300, line), Qt::AlignLeft | Qt::AlignVCenter,
+  painter.drawText(QRect(x + 30, y, 300, line), Qt::AlignLeft | Qt::AlignVCenter,
                    QStringLiteral("no ligament (above the crest)"));
+}
 
-  // Colour bar.
-  std::vector<BarMark> marks = {
-      {thresholds_.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
-      {thresholds_.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
-  ColourBar::draw(painter, QRect(plot.right() + 8, plot.top() - 3 * line, bar_width, plot.height() + 3 * line + line),
-                  scale_, QStringLiteral("pressure"), QStringLiteral("kPa"), marks, text);
+}  // namespace
+
+void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
+  painter.save();
+  painter.setRenderHint(QPainter::Antialiasing, true);
+  const QColor text = palette().windowText().color();
+  painter.fillRect(area, palette().window());
+  const QFontMetrics fm(painter.font());
+  const int line = fm.height();
+  if (!has_map()) {
+    painter.setPen(text);
+    painter.drawText(area, Qt::AlignCenter,
+                     QStringLiteral("No root map yet: open or solve a case."));
+    painter.restore();
+    return;
+  }
+  // Room for the colour bar as ColourBar::draw lays it out with this font: the longest threshold
+  // name and its leader, the bar (20 px), then the tick labels; a fixed width clipped the labels.
+  const int bar_width =
+      std::max(110, fm.horizontalAdvance(QStringLiteral("capillary")) + 8 + 12 + 20 + 6 +
+                        fm.horizontalAdvance(QStringLiteral("-000.0")) + 6);
+  const QRect title_rect(area.left() + 8, area.top() + 4, area.width() - 16, line + 4);
+  const QFont base = painter.font();
+  QFont title_font = base;
+  title_font.setBold(true);
+  painter.setFont(title_font);
+  painter.setPen(text);
+  painter.drawText(title_rect, Qt::AlignLeft | Qt::AlignVCenter, title_);
+  painter.setFont(base);
+  const int left = area.left() + fm.horizontalAdvance(QStringLiteral("00.0")) + line + 16;
+  const QRect plot(left, title_rect.bottom() + 2 * line + 6, area.right() - bar_width - left - 8,
+                   area.bottom() - title_rect.bottom() - 5 * line - 16);
+  if (plot.width() < 40 || plot.height() < 40) {
+    painter.restore();
+    return;
+  }
+  painter.drawImage(plot.topLeft(), map_image(map_, scale_, plot.size()));
+  if (painter.device() == this) plot_ = plot;
+  painter.setPen(QPen(QColor(60, 60, 60), 1));
+  painter.setBrush(Qt::NoBrush);
+  painter.drawRect(plot);
+  n_segments_ = paint_outlines(painter, map_, plot, thresholds_);
+  paint_map_axes(painter, map_, area, plot, text, line);
+  paint_map_legend(painter, plot.left(), title_rect.bottom() + line / 2 + 4, thresholds_, text);
+  const std::vector<BarMark> marks = {{thresholds_.capillary.value_kpa, QStringLiteral("capillary"),
+                                       to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
+                                      {thresholds_.limit.value_kpa, QStringLiteral("limit"),
+                                       to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+  ColourBar::draw(
+      painter,
+      QRect(plot.right() + 8, plot.top() - 3 * line, bar_width, plot.height() + 3 * line + line),
+      scale_, QStringLiteral("pressure"), QStringLiteral("kPa"), marks, text);
   painter.restore();
 }
 
