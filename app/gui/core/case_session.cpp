@@ -3,6 +3,7 @@
 #include <QElapsedTimer>
 #include <algorithm>
 
+#include "core/surface_import.h"
 #include "sharpey/analysis/field_choice.h"
 #include "sharpey/error.h"
 
@@ -58,16 +59,15 @@ CaseSession::CaseSession(QObject* parent) : QObject(parent) {
 }
 
 void CaseSession::new_case() {
-  analysis::CaseSpec spec;
-  spec.label = "Invented case: new";
-  analysis::Scenario healthy;
-  healthy.name = "healthy";
-  analysis::Scenario reduced;
-  reduced.name = "3.0 mm loss";
-  reduced.loss.horizontal_mm = 3.0;
-  spec.scenarios = {healthy, reduced};
+  adopt(default_new_case());
+  document_.reset_untitled();
+  emit document_changed();
+}
+
+void CaseSession::take_new(const analysis::CaseSpec& spec) {
   adopt(spec);
   document_.reset_untitled();
+  document_.mark_modified();
   emit document_changed();
 }
 

@@ -42,6 +42,9 @@ class CaseSession : public QObject {
   // open case is unchanged then. `mesh_override` replaces the file's mesh preset (a quick look
   // with a coarser mesh); saving then writes the overridden preset.
   void open(const QString& path, std::optional<mesh::MeshPreset> mesh_override = std::nullopt);
+  // Takes a case built in the app (the surface import): untitled and modified, so it is saved
+  // under a name the user chooses.
+  void take_new(const analysis::CaseSpec& spec);
   // Takes a case recovered from an autosave copy: modified, belonging to `original_path`.
   void recover(const analysis::CaseSpec& spec, const QString& original_path);
   // Writes the case (analysis::save_case, atomic). Throws Error naming the path.
