@@ -302,7 +302,7 @@ void ImportDialog::refresh() {
     const Rgb& colour = i < 2 ? kAxisColour : kCejColour;
     vtkNew<vtkSphereSource> ball;
     ball->SetCenter(marks[i].point_mm.data());
-    ball->SetRadius(0.03 * length);
+    ball->SetRadius(0.022 * length);
     ball->SetThetaResolution(16);
     ball->SetPhiResolution(12);
     vtkNew<vtkPolyDataMapper> m;
@@ -325,12 +325,13 @@ void ImportDialog::refresh() {
   label(QStringLiteral("apex"), marks[0].point_mm + Eigen::Vector3d(0, 0, -0.08 * length),
         kAxisColour);
 
-  // Seen from mesiolabial and a little above, the crown up, so all four sides' names show.
+  // Seen from mesiolabial and above, the crown up, so all four sides' names show.
   vtkCamera* camera = r->GetActiveCamera();
   camera->SetFocalPoint(0, 0, 0.5 * (marks[0].point_mm.z() + marks[1].point_mm.z()));
-  camera->SetPosition(2.2 * length, 1.3 * length, 0.9 * length);
+  camera->SetPosition(1.9 * length, 1.1 * length, 1.7 * length);
   camera->SetViewUp(0, 0, 1);
   r->ResetCamera();
+  camera->Zoom(0.8);  // room for the crown and side names around the surface
   r->ResetCameraClippingRange();
 
   summary_->setText(QStringLiteral("%1 triangles, %2 mm long along the axis.")
