@@ -312,9 +312,11 @@ bool CaseSession::evaluate(bool interactive, size_t keep) {
       const bool skip_reference = healthy != nullptr && healthy != shown;
       // Only the field on display beyond the pressure (issue 12, point 14).
       analysis::FieldChoice fields;
-      // The strains always: the linear-range flag beside the verdict and the strain maxima must
-      // follow the force shown (they cost about a millisecond on the standard mesh).
-      fields.strains = true;
+      fields.strains = shown_quantity_ == Quantity::kMaxPrincipalStrain ||
+                       shown_quantity_ == Quantity::kEquivalentStrain;
+      // Without the strain fields, still their maxima and the linear-range flag: the flag beside
+      // the verdict must follow the force shown (exact, a fraction of the fields' cost).
+      fields.strain_maxima = true;
       fields.von_mises = shown_quantity_ == Quantity::kVonMises;
       fields.displacement = shown_quantity_ == Quantity::kDisplacement;
       results_[static_cast<size_t>(current_)] = analysis::evaluate(
