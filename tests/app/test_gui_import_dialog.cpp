@@ -82,13 +82,14 @@ TEST(ImportDialog, TheSampleScanBecomesACaseThatSolves) {
     return c.red() > 200 && c.green() > 130 && c.green() < 200 && c.blue() < 110;
   });
   EXPECT_GT(amber, 50) << "axis and landmark pixels";
-  testing::keep_image(dialog.grab().toImage(), "test_import_dialog");
 
   EXPECT_FALSE(dialog.create_button()->isEnabled());  // not confirmed yet
   dialog.tooth_box()->setCurrentIndex(
       dialog.tooth_box()->findData(static_cast<int>(mesh::ToothType::kMaxillaryCanine)));
   dialog.confirm_box()->setChecked(true);
   EXPECT_TRUE(dialog.create_button()->isEnabled());
+  QApplication::processEvents();
+  testing::keep_image(dialog.grab().toImage(), "test_import_dialog");  // docs/screenshots
   // Turning the axis round takes the confirmation back.
   dialog.swap_mesial_box()->setChecked(true);
   EXPECT_FALSE(dialog.confirm_box()->isChecked());
