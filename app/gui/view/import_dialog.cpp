@@ -14,6 +14,7 @@
 #include <vtkTextProperty.h>
 #include <vtkTubeFilter.h>
 
+#include <QApplication>
 #include <QCheckBox>
 #include <QComboBox>
 #include <QFileDialog>
@@ -176,7 +177,10 @@ void ImportDialog::show_message(const QString& text, bool is_error) {
 }
 
 bool ImportDialog::open_surface(const QString& path) {
+  // Reading and checking a large scan takes a moment (self-intersection test).
+  QApplication::setOverrideCursor(Qt::WaitCursor);
   const bool ok = import_.read_surface(path);
+  QApplication::restoreOverrideCursor();
   swap_crown_->setChecked(false);
   swap_labial_->setChecked(false);
   swap_mesial_->setChecked(false);
