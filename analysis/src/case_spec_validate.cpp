@@ -294,6 +294,8 @@ std::string model_key_to_path(const std::string& key, const CaseSpec& spec, int 
 
 }  // namespace case_keys
 
+void validate_load(const CaseSpec& spec) { check_load(spec); }
+
 void validate_case(const CaseSpec& spec) {
   if (spec.schema_version != kCaseSchemaVersion)
     out_of_range("schema_version", std::to_string(spec.schema_version),

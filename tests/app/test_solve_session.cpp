@@ -6,6 +6,7 @@
 #include <QEventLoop>
 #include <QTemporaryDir>
 #include <QTimer>
+#include <algorithm>
 #include <cmath>
 
 #include "core/case_session.h"
@@ -50,7 +51,7 @@ struct LevelSignal {
 };
 std::vector<LevelSignal> g_levels;
 std::vector<size_t> g_session_results;  // results in a session fed with each partial study
-double g_first_level_peak = 0;           // scenario 0's peak compression after the first level
+double g_first_level_peak = 0;          // scenario 0's peak compression after the first level
 std::vector<analysis::ScenarioResult> g_grown_results;  // that session's results at the end
 
 class SolvedCase : public ::testing::Test {
@@ -58,7 +59,8 @@ class SolvedCase : public ::testing::Test {
   static void SetUpTestSuite() {
     SolveJob job;
     bool finished = false;
-    QObject::connect(&job, &SolveJob::progress, [](const QString&, double f) { g_fractions.push_back(f); });
+    QObject::connect(&job, &SolveJob::progress,
+                     [](const QString&, double f) { g_fractions.push_back(f); });
     QObject::connect(&job, &SolveJob::finished, [&]() { finished = true; });
     QObject::connect(&job, &SolveJob::failed, [](const QString& kind, const QString& message) {
       ADD_FAILURE() << kind.toStdString() << ": " << message.toStdString();
@@ -67,7 +69,8 @@ class SolvedCase : public ::testing::Test {
     session.recover(small_case(), {});
     QObject::connect(&job, &SolveJob::level_solved, [&](int index, int count) {
       const auto study = job.study();
-      g_levels.push_back({index, count, study ? static_cast<int>(study->solutions().size()) : -1, job.running()});
+      g_levels.push_back(
+          {index, count, study ? static_cast<int>(study->solutions().size()) : -1, job.running()});
       session.set_study(study);
       g_session_results.push_back(session.results().size());
       if (index == 0 && !session.results().empty())
@@ -85,7 +88,8 @@ TEST_F(SolvedCase, WorkerReportsProgressAndDeliversTheStudy) {
   ASSERT_TRUE(g_study);
   EXPECT_EQ(g_study->solutions().size(), 2u);
   ASSERT_FALSE(g_fractions.empty());
-  for (size_t i = 1; i < g_fractions.size(); ++i) EXPECT_GE(g_fractions[i], g_fractions[i - 1] - 1e-12);
+  for (size_t i = 1; i < g_fractions.size(); ++i)
+    EXPECT_GE(g_fractions[i], g_fractions[i - 1] - 1e-12);
   EXPECT_DOUBLE_EQ(g_fractions.back(), 1.0);
 }
 
@@ -182,6 +186,37 @@ TEST_F(SolvedCase, InteractiveEditsUpdateTheShownScenarioFirst) {
   EXPECT_TRUE(session.has_pending());
   EXPECT_TRUE(wait_for([&]() { return !session.has_pending(); }, 5000));
   EXPECT_NEAR(session.results()[0].pressure_max_compression_kpa, 3 * healthy, 1e-9 * healthy);
+}
+
+// The linear-range flag and the strain maxima follow the force during a slider drag, whatever
+// quantity is shown (issue 12, point 14): while dragging they equal a full evaluation at the same
+// force (derived: the drag evaluates the same strains, bit for bit), on both sides of the limit.
+TEST_F(SolvedCase, TheLinearRangeFlagFollowsTheForceWhileDragging) {
+  CaseSession session;
+  session.recover(small_case(), {});
+  session.set_study(g_study);
+  session.set_current(0);
+  session.set_shown_quantity(Quantity::kPressure);
+  const double strain_at_start = session.results()[0].max_abs_principal_strain;
+  ASSERT_GT(strain_at_start, 0);
+  LoadControls c = session.load_controls();
+  // Forces below and above the one that reaches the limit (strain is linear in the force).
+  const double at_limit = c.magnitude * analysis::kLinearRangeStrainLimit / strain_at_start;
+  for (double factor : {0.5, 1.5}) {
+    SCOPED_TRACE(factor);
+    c.magnitude = std::min(factor * at_limit, 2000.0);
+    session.set_load(c, true);
+    ASSERT_TRUE(session.has_pending());  // a drag: only part evaluated
+    const analysis::ScenarioResult full = analysis::evaluate(
+        *g_study->solutions()[0], session.spec().load, session.spec().thresholds, nullptr);
+    EXPECT_EQ(session.results()[0].beyond_linear_range, full.beyond_linear_range);
+    EXPECT_EQ(session.results()[0].max_abs_principal_strain, full.max_abs_principal_strain);
+    EXPECT_EQ(session.results()[0].max_principal_strain, full.max_principal_strain);
+  }
+  if (at_limit * 1.5 <= 2000.0) {
+    EXPECT_TRUE(session.results()[0].beyond_linear_range);
+  }
+  session.flush();
 }
 
 TEST_F(SolvedCase, ChangingTheDisplayUnitChangesNoResult) {
@@ -282,7 +317,8 @@ TEST(CaseSession, ABadFileLeavesTheOpenCaseAsItWas) {
     session.open(path);
     FAIL() << "a misspelt tooth type was accepted";
   } catch (const InputError& e) {
-    EXPECT_NE(std::string(e.what()).find("maxillary_centrl_incisor"), std::string::npos) << e.what();
+    EXPECT_NE(std::string(e.what()).find("maxillary_centrl_incisor"), std::string::npos)
+        << e.what();
   }
   EXPECT_EQ(session.case_json(), before);
 }
@@ -318,7 +354,8 @@ TEST(SolveJob, AHealthyLevelSolvedLastStillGivesTheOthersTheirReference) {
   ASSERT_EQ(first_level_equivalent.size(), 2u);
   EXPECT_EQ(first_level_equivalent[0], -1);  // no healthy reference yet
   EXPECT_GT(first_level_equivalent[1], 0);   // re-evaluated once the healthy level came
-  EXPECT_LT(first_level_equivalent[1], 100); // with bone lost a lighter force reaches the healthy peak
+  EXPECT_LT(first_level_equivalent[1],
+            100);  // with bone lost a lighter force reaches the healthy peak
 }
 
 TEST(SolveJob, CancelAfterTheFirstLevelKeepsIt) {

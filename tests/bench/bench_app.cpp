@@ -11,6 +11,12 @@
 // window, which reads the levels back from the saved solutions (a fresh cache folder).
 // Usage (needs a display, e.g. xvfb-run -a): bench_app [CASE.json] [--mesh coarse|standard|fine]
 //        [--first-view]
+#include <vtkActor.h>
+#include <vtkActorCollection.h>
+#include <vtkCamera.h>
+#include <vtkProperty.h>
+#include <vtkRenderer.h>
+
 #include <QApplication>
 #include <QElapsedTimer>
 #include <QTemporaryDir>
@@ -18,27 +24,38 @@
 #include <QTimer>
 #include <algorithm>
 #include <cstdio>
+#include <ctime>
 #include <optional>
-#include <vtkActor.h>
-#include <vtkActorCollection.h>
-#include <vtkCamera.h>
-#include <vtkProperty.h>
-#include <vtkRenderer.h>
 #include <vector>
 
 #include "core/case_session.h"
 #include "core/solve_job.h"
+#include "sharpey/analysis/field_choice.h"
+#include "sharpey/startup/blas_kernels.h"
 #include "view/main_window.h"
 #include "view/model_scene.h"
 #include "view/result_view.h"
 #include "view/vtk_view.h"
-#include "sharpey/startup/blas_kernels.h"
 
 using namespace sharpey;
 
 namespace {
 
 double ms_since(const QElapsedTimer& t) { return static_cast<double>(t.nsecsElapsed()) * 1e-6; }
+
+// CPU time of the whole process (every thread, llvmpipe's render threads included), ms: less
+// affected than wall time by other programs on a shared machine.
+double thread_cpu_ms() {
+  timespec ts{};
+  clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
+  return static_cast<double>(ts.tv_sec) * 1e3 + static_cast<double>(ts.tv_nsec) * 1e-6;
+}
+
+double process_cpu_ms() {
+  timespec ts{};
+  clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+  return static_cast<double>(ts.tv_sec) * 1e3 + static_cast<double>(ts.tv_nsec) * 1e-6;
+}
 
 struct Stats {
   double sum = 0, worst = 0;
@@ -66,7 +83,7 @@ double rotate(app::VtkView* vtk, int frames) {
 // progressive solve (or read-back) of every bone level. `detail`: also time building and
 // switching the 3D scene.
 int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset,
-                     const QString& cache_folder, bool detail) {
+                    const QString& cache_folder, bool detail) {
   app::MainWindowOptions options;
   options.dialogs = false;
   options.autosave_interval_ms = 3600000;
@@ -117,15 +134,19 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset,
   const double total_s = static_cast<double>(clock.nsecsElapsed()) * 1e-9;
   tick.stop();
   std::printf("case: %s, %s mesh, %zu bone levels\n", path.toLocal8Bit().constData(),
-              mesh::to_string(session.spec().model.sizing.preset).c_str(), session.results().size());
-  std::printf("first view (first level solved, 3D view painted): %.1f s after opening\n", first_paint_s);
+              mesh::to_string(session.spec().model.sizing.preset).c_str(),
+              session.results().size());
+  std::printf("first view (first level solved, 3D view painted): %.1f s after opening\n",
+              first_paint_s);
   for (size_t k = 0; k < level_s.size(); ++k)
-    std::printf("  %zu level(s) on screen at %.1f s (evaluation %.0f ms)\n", k + 1, level_s[k], level_eval_ms[k]);
-  std::printf("all levels solved: %.1f s; longest event-loop stall while solving: %.0f ms\n", total_s,
-              worst_gap_ms);
-  for (const auto& [when, gap] : stalls) std::printf("  stall of %.0f ms ending at %.1f s\n", gap, when);
-  std::printf("levels solved: %d, read from the saved solutions: %d\n", window.solve_job().levels_solved(),
-              window.solve_job().levels_from_cache());
+    std::printf("  %zu level(s) on screen at %.1f s (evaluation %.0f ms)\n", k + 1, level_s[k],
+                level_eval_ms[k]);
+  std::printf("all levels solved: %.1f s; longest event-loop stall while solving: %.0f ms\n",
+              total_s, worst_gap_ms);
+  for (const auto& [when, gap] : stalls)
+    std::printf("  stall of %.0f ms ending at %.1f s\n", gap, when);
+  std::printf("levels solved: %d, read from the saved solutions: %d\n",
+              window.solve_job().levels_solved(), window.solve_job().levels_from_cache());
   if (!detail) return 0;
   // What showing a level costs the window once it is solved: the 3D scene built for a model it
   // has not shown (as for the first level), and a whole refresh for a level it has shown.
@@ -146,8 +167,11 @@ int time_first_view(const QString& path, std::optional<mesh::MeshPreset> preset,
     QApplication::processEvents();
     view->vtk_view()->repaint();
     const double switch_ms = ms_since(part);
-    std::printf("3D scene of a new model built and painted: %.0f ms (again: %.0f ms); whole window switched "
-                "to another level and painted: %.0f ms\n", build_ms, rebuild_ms, switch_ms);
+    std::printf(
+        "3D scene of a new model built and painted: %.0f ms (again: %.0f ms); whole window "
+        "switched "
+        "to another level and painted: %.0f ms\n",
+        build_ms, rebuild_ms, switch_ms);
   }
   return 0;
 }
@@ -158,14 +182,18 @@ int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
   app::VtkView::set_default_surface_format();
   QApplication qt(argc, argv);
-  QString path = QStringLiteral(SHARPEY_SOURCE_DIR "/samples/maxillary_central_incisor_bone_loss.json");
+  QString path =
+      QStringLiteral(SHARPEY_SOURCE_DIR "/samples/maxillary_central_incisor_bone_loss.json");
   std::optional<mesh::MeshPreset> preset = mesh::MeshPreset::kStandard;
   const QStringList args = QApplication::arguments();
   bool first_view = false;
   for (int i = 1; i < args.size(); ++i) {
-    if (args[i] == "--mesh" && i + 1 < args.size()) preset = mesh::mesh_preset_from_string(args[++i].toStdString());
-    else if (args[i] == "--first-view") first_view = true;
-    else path = args[i];
+    if (args[i] == "--mesh" && i + 1 < args.size())
+      preset = mesh::mesh_preset_from_string(args[++i].toStdString());
+    else if (args[i] == "--first-view")
+      first_view = true;
+    else
+      path = args[i];
   }
   if (first_view) {
     // A fresh cache folder: the first open solves every level, the second (a new window, as a
@@ -208,10 +236,11 @@ int main(int argc, char** argv) {
   window.show_view(app::ViewKind::k3D);
   QApplication::processEvents();
   vtk->repaint();
-  std::printf("case: %s\nmesh: %s preset, %d nodes, %d elements, %zu PDL nodes; mesh+solve %.1f s\n",
-              path.toLocal8Bit().constData(), mesh::to_string(session.spec().model.sizing.preset).c_str(),
-              solution->model().mesh.n_nodes(), solution->model().mesh.n_elements(),
-              solution->pdl_nodes().size(), solve_s);
+  std::printf(
+      "case: %s\nmesh: %s preset, %d nodes, %d elements, %zu PDL nodes; mesh+solve %.1f s\n",
+      path.toLocal8Bit().constData(), mesh::to_string(session.spec().model.sizing.preset).c_str(),
+      solution->model().mesh.n_nodes(), solution->model().mesh.n_elements(),
+      solution->pdl_nodes().size(), solve_s);
   std::printf("view %d x %d px; surfaces drawn: %d triangles, %d coloured points\n", vtk->width(),
               vtk->height(), view->scene()->n_triangles(), view->scene()->n_coloured_points());
 
@@ -219,12 +248,13 @@ int main(int argc, char** argv) {
   // the session evaluates the scenario on display and the window refreshes every panel; then one
   // synchronous paint of the 3D view.
   const int n_changes = 20;
-  Stats total, eval, window_refresh, scalars, iso, glyphs, render;
+  Stats total, eval, window_refresh, scalars, iso, glyphs, render, cpu;
   app::LoadControls c = session.load_controls();
   for (int i = 0; i < n_changes; ++i) {
     c.magnitude = 60 + 5 * i;
     QElapsedTimer t;
     t.start();
+    const double cpu_start = process_cpu_ms();
     window.set_load(c, true);
     // The coalesced change runs as a queued call once the event queue is empty; run it (and
     // nothing else, so the view is painted once, below).
@@ -232,6 +262,7 @@ int main(int argc, char** argv) {
     const double after_refresh = ms_since(t);
     vtk->repaint();
     total.add(ms_since(t));
+    cpu.add(process_cpu_ms() - cpu_start);
     eval.add(session.last_evaluation_ms());
     window_refresh.add(after_refresh - session.last_evaluation_ms());
     const app::SceneTimings& s = view->scene()->last_timings();
@@ -243,16 +274,43 @@ int main(int argc, char** argv) {
   window.set_load(c, false);  // the slider is released: full detail again
   QApplication::processEvents();
   vtk->repaint();
-  std::printf("load change to repainted view: mean %.1f ms, worst %.1f ms over %d changes (target < 50 ms)\n",
-              total.mean(), total.worst, n_changes);
-  std::printf("  evaluation by superposition %.1f ms; window refresh %.1f ms (of which colours %.2f ms, "
-              "iso-lines %.2f ms, glyphs %.2f ms); VTK render %.1f ms; the rest (Qt paint and "
-              "composition) %.1f ms\n",
-              eval.mean(), window_refresh.mean(), scalars.mean(), iso.mean(), glyphs.mean(), render.mean(),
-              total.mean() - eval.mean() - window_refresh.mean() - render.mean());
+  std::printf(
+      "load change to repainted view: mean %.1f ms, worst %.1f ms over %d changes (target < 50 "
+      "ms)\n",
+      total.mean(), total.worst, n_changes);
+  std::printf("  CPU time of the process per load change (all threads): mean %.1f ms\n",
+              cpu.mean());
+  std::printf(
+      "  evaluation by superposition %.1f ms; window refresh %.1f ms (of which colours %.2f ms, "
+      "iso-lines %.2f ms, glyphs %.2f ms); VTK render %.1f ms; the rest (Qt paint and "
+      "composition) %.1f ms\n",
+      eval.mean(), window_refresh.mean(), scalars.mean(), iso.mean(), glyphs.mean(), render.mean(),
+      total.mean() - eval.mean() - window_refresh.mean() - render.mean());
+
+  // The evaluation alone in CPU time of this thread (less disturbed by other programs than wall
+  // time): every field, what a drag evaluates (pressure with the strain maxima, no fields), and
+  // the pressure alone.
+  {
+    const analysis::LoadSpec load = session.spec().load;
+    const auto& t = session.spec().thresholds;
+    auto cpu_of = [&](const analysis::FieldChoice& fields) {
+      const int n = 20;
+      const double start = thread_cpu_ms();
+      for (int i = 0; i < n; ++i) analysis::evaluate(*solution, load, t, nullptr, fields);
+      return (thread_cpu_ms() - start) / n;
+    };
+    const double all = cpu_of(analysis::FieldChoice{});
+    const double drag = cpu_of(analysis::FieldChoice{false, false, false, true});
+    const double pressure = cpu_of(analysis::FieldChoice{false, false, false, false});
+    std::printf(
+        "evaluation, CPU time of one thread: every field %.1f ms; as during a drag "
+        "(pressure and the strain maxima) %.1f ms; pressure alone %.1f ms\n",
+        all, drag, pressure);
+  }
 
   // Single frames, camera still, per bone style.
-  for (app::BoneStyle style : {app::BoneStyle::kTranslucent, app::BoneStyle::kOpaque, app::BoneStyle::kHidden}) {
+  for (app::BoneStyle style :
+       {app::BoneStyle::kTranslucent, app::BoneStyle::kOpaque, app::BoneStyle::kHidden}) {
     view->set_bone_style(style);
     QApplication::processEvents();
     Stats frame;
@@ -261,7 +319,8 @@ int main(int argc, char** argv) {
       vtk->repaint();
       frame.add(vtk->last_render_ms());
     }
-    std::printf("frame render, %s: %.1f ms\n", app::label(style).toLocal8Bit().constData(), frame.mean());
+    std::printf("frame render, %s: %.1f ms\n", app::label(style).toLocal8Bit().constData(),
+                frame.mean());
   }
 
   // Where a still frame's time goes: the full repaint (VTK render plus Qt's composition of the
@@ -280,8 +339,8 @@ int main(int argc, char** argv) {
         repaint_ms.add(ms_since(t));
         render_ms.add(vtk->last_render_ms());
       }
-      std::printf("  still frame, %s: repaint %.1f ms, VTK render %.1f ms\n", what, repaint_ms.mean(),
-                  render_ms.mean());
+      std::printf("  still frame, %s: repaint %.1f ms, VTK render %.1f ms\n", what,
+                  repaint_ms.mean(), render_ms.mean());
     };
     frame("as shown");
     scene->GradientBackgroundOff();
@@ -319,8 +378,9 @@ int main(int argc, char** argv) {
     view->set_interacting(true);
     const double quick = rotate(vtk, 40);
     view->set_interacting(false);
-    std::printf("rotating, %s: %.1f frames per second drawn in full, %.1f as while the mouse turns it\n",
-                app::label(style).toLocal8Bit().constData(), still, quick);
+    std::printf(
+        "rotating, %s: %.1f frames per second drawn in full, %.1f as while the mouse turns it\n",
+        app::label(style).toLocal8Bit().constData(), still, quick);
   }
   return 0;
 }

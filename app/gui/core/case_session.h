@@ -42,6 +42,9 @@ class CaseSession : public QObject {
   // open case is unchanged then. `mesh_override` replaces the file's mesh preset (a quick look
   // with a coarser mesh); saving then writes the overridden preset.
   void open(const QString& path, std::optional<mesh::MeshPreset> mesh_override = std::nullopt);
+  // Takes a case built in the app (the surface import): untitled and modified, so it is saved
+  // under a name the user chooses.
+  void take_new(const analysis::CaseSpec& spec);
   // Takes a case recovered from an autosave copy: modified, belonging to `original_path`.
   void recover(const analysis::CaseSpec& spec, const QString& original_path);
   // Writes the case (analysis::save_case, atomic). Throws Error naming the path.
@@ -107,8 +110,9 @@ class CaseSession : public QObject {
   // (that would evaluate the healthy scenario too): its equivalent forces are -1 until flush().
   bool reference_pending() const { return reference_pending_; }
   // The quantity the views show: while a slider moves only that field is evaluated (with the
-  // pressure, which the verdict and the key numbers need); the other fields and their maxima
-  // follow when the slider stops (flush, or the next non-interactive change).
+  // pressure, which the verdict and the key numbers need, and the strain maxima and linear-range
+  // figures, which the flag beside the verdict needs); the other fields and their maxima follow
+  // when the slider stops (flush, or the next non-interactive change).
   void set_shown_quantity(Quantity q) { shown_quantity_ = q; }
   // True while the current result was evaluated interactively with only the shown field.
   bool fields_pending() const { return fields_pending_; }

@@ -110,38 +110,53 @@ void FindingsPanel::clear() {
   badge_->setStyleSheet(QString());
   detail_->setText(QStringLiteral("Open a case or a sample; it is meshed and solved at once."));
   stale_->hide();
+  clear_rows();
+}
+
+void FindingsPanel::clear_rows() {
   while (QLayoutItem* item = grid_->takeAt(0)) {
     delete item->widget();
     delete item;
   }
+  rows_.clear();
 }
 
 void FindingsPanel::show_result(const analysis::ScenarioResult& r, const analysis::Thresholds& t,
                                 bool stale, bool reference_pending) {
-  clear();
   scenario_->setText(QStringLiteral("Bone level: ") + QString::fromStdString(r.name));
   const Verdict v = judge(r, t);
   const QColor back = verdict_background(v.level);
   badge_->setText(v.headline);
-  badge_->setStyleSheet(
+  // A style sheet set again restyles the label even when it is the same: only on a change.
+  const QString badge_style =
       QStringLiteral("background: %1; color: white; font-weight: bold; border-radius: 4px;")
-          .arg(back.name()));
+          .arg(back.name());
+  if (badge_->styleSheet() != badge_style) badge_->setStyleSheet(badge_style);
   // A scenario whose ligament strain leaves the linear range says so beside the verdict.
   detail_->setText(r.beyond_linear_range
                        ? v.detail + QStringLiteral("\n\n") +
                              QString::fromStdString(analysis::beyond_linear_range_text(r))
                        : v.detail);
   stale_->setVisible(stale);
-  int row = 0;
-  for (const auto& [name, value] : key_number_rows(r, reference_pending)) {
-    auto* l = new QLabel(name);
-    l->setStyleSheet(QStringLiteral("color: #444;"));
-    auto* n = new QLabel(value);
-    n->setTextInteractionFlags(Qt::TextSelectableByMouse);
-    n->setWordWrap(true);
-    grid_->addWidget(l, row, 0, Qt::AlignTop);
-    grid_->addWidget(n, row, 1, Qt::AlignTop);
-    ++row;
+  const auto rows = key_number_rows(r, reference_pending);
+  if (rows.size() != rows_.size()) {
+    clear_rows();
+    int row = 0;
+    for (size_t k = 0; k < rows.size(); ++k) {
+      auto* l = new QLabel;
+      l->setStyleSheet(QStringLiteral("color: #444;"));
+      auto* n = new QLabel;
+      n->setTextInteractionFlags(Qt::TextSelectableByMouse);
+      n->setWordWrap(true);
+      grid_->addWidget(l, row, 0, Qt::AlignTop);
+      grid_->addWidget(n, row, 1, Qt::AlignTop);
+      rows_.emplace_back(l, n);
+      ++row;
+    }
+  }
+  for (size_t k = 0; k < rows.size(); ++k) {
+    rows_[k].first->setText(rows[k].first);  // QLabel::setText returns at once on equal text
+    rows_[k].second->setText(rows[k].second);
   }
 }
 

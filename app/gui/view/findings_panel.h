@@ -3,6 +3,8 @@
 #pragma once
 
 #include <QWidget>
+#include <utility>
+#include <vector>
 
 #include "core/verdict.h"
 #include "sharpey/analysis/study.h"
@@ -33,6 +35,11 @@ class FindingsPanel : public QWidget {
   QGridLayout* grid_ = nullptr;
   QWidget* numbers_ = nullptr;
   QLabel* stale_ = nullptr;
+  // The key-number rows (name, value), kept while their count stays the same: a load change
+  // during a slider drag only sets their texts (creating labels and laying them out again cost
+  // more than the rest of the panel).
+  std::vector<std::pair<QLabel*, QLabel*>> rows_;
+  void clear_rows();
 };
 
 // Colours of the verdict levels (background, text): the app's own choice.

@@ -44,6 +44,7 @@
 #include "view/comparison_view.h"
 #include "view/findings_panel.h"
 #include "view/icons.h"
+#include "view/import_dialog.h"
 #include "view/load_panel.h"
 #include "view/report_writer.h"
 #include "view/result_view.h"
@@ -325,6 +326,9 @@ void MainWindow::build_menus() {
                              });
   }
   samples_menu_->setEnabled(!samples_menu_->isEmpty());
+  file->addAction(QStringLiteral("&Import tooth surface\u2026"), this, [this]() {
+    if (maybe_save()) import_surface();
+  });
   recent_menu_ = file->addMenu(QStringLiteral("Open &recent"));
   file->addSeparator();
   QAction* save_action = file->addAction(make_icon(IconKind::kSave), QStringLiteral("&Save"), this,
@@ -641,6 +645,22 @@ bool MainWindow::open_case(const QString& path) {
   remember_recent(path);
   solve();
   return true;
+}
+
+// The surface import (view/import_dialog.h): the case it builds replaces the open one, untitled,
+// and is solved at once.
+void MainWindow::import_surface() {
+  ImportDialog dialog(samples_folder(), this);
+  if (dialog.exec() != QDialog::Accepted || !dialog.built_case()) return;
+  take_imported_case(*dialog.built_case());
+}
+
+void MainWindow::take_imported_case(const analysis::CaseSpec& spec) {
+  cancel_solve();
+  session_->take_new(spec);
+  autosave_->discard();
+  autosaved_json_.clear();
+  solve();
 }
 
 bool MainWindow::save() {

@@ -63,6 +63,10 @@ class MainWindow : public QMainWindow {
   bool save_as(const QString& path);
   // Asks about unsaved changes; true when the caller may go on (saved or discarded).
   bool maybe_save();
+  // File > Import tooth surface: the import dialog (view/import_dialog.h).
+  void import_surface();
+  // Takes a case the import built (untitled, modified) and starts meshing and solving it.
+  void take_imported_case(const analysis::CaseSpec& spec);
   // Offers the autosaved copies of sessions that ended without closing; recovers the chosen one.
   void check_recovery();
 

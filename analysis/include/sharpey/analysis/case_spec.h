@@ -166,6 +166,9 @@ std::string set_case_value(const std::string& json_text, const std::string& key,
 // Range checks of a CaseSpec built in code (parse_case runs them too): every value against its
 // allowed range, keys named by their case-file path. Throws InputError.
 void validate_case(const CaseSpec& spec);
+// The load's checks of validate_case alone (keys "load..."): what a load change can break. Cheap
+// (no geometry), for the app's slider drags. Throws InputError.
+void validate_load(const CaseSpec& spec);
 
 // Root length used for "% of root length" bone loss: the tooth's root length (CEJ to apex), or
 // the idealised root's length.
