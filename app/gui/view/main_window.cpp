@@ -84,6 +84,25 @@ MainWindow::MainWindow(const MainWindowOptions& options)
   connect_session();
   job_->set_cache(make_solution_cache(options.solution_cache_folder));
 
+  connect_solve_job();
+  auto* autosave_timer = new QTimer(this);
+  connect(autosave_timer, &QTimer::timeout, this, &MainWindow::autosave_now);
+  autosave_timer->start(options_.autosave_interval_ms);
+
+  restore_recent_files();
+  case_panel_->reload();
+  load_panel_->set_controls(session_->load_controls());
+  refresh_title();
+  resize(1480, 920);
+}
+
+MainWindow::~MainWindow() {
+  job_->cancel();
+  job_.reset();  // joins the worker before the session goes
+}
+
+// The solve job's progress, levels and end, shown as they come.
+void MainWindow::connect_solve_job() {
   connect(job_.get(), &SolveJob::progress, this, [this](const QString& stage, double fraction) {
     progress_->setValue(static_cast<int>(1000 * fraction));
     // Once levels are shown, say how many while the others are solved.
@@ -152,56 +171,77 @@ MainWindow::MainWindow(const MainWindowOptions& options)
                        QStringLiteral("The %1 step stopped:\n\n%2").arg(kind, message));
             emit solve_failed(message);
           });
+}
 
-  auto* autosave_timer = new QTimer(this);
-  connect(autosave_timer, &QTimer::timeout, this, &MainWindow::autosave_now);
-  autosave_timer->start(options_.autosave_interval_ms);
-
+// The recent-files list as saved, without the files that have gone.
+void MainWindow::restore_recent_files() {
   QSettings settings;
   RecentFiles recent;
   recent.set_paths(settings.value(QLatin1String(kRecentKey)).toStringList());
   recent.remove_missing();
   settings.setValue(QLatin1String(kRecentKey), recent.paths());
   refresh_recent_menu();
-  case_panel_->reload();
-  load_panel_->set_controls(session_->load_controls());
-  refresh_title();
-  resize(1480, 920);
-}
-
-MainWindow::~MainWindow() {
-  job_->cancel();
-  job_.reset();  // joins the worker before the session goes
 }
 
 // ---------------------------------------------------------------------------------------------
 // Layout
+
+namespace {
+QScrollArea* scrolled(QWidget* w) {
+  auto* scroll = new QScrollArea;
+  scroll->setWidget(w);
+  scroll->setWidgetResizable(true);
+  scroll->setFrameShape(QFrame::NoFrame);
+  return scroll;
+}
+}  // namespace
 
 void MainWindow::build_layout() {
   auto* central = new QWidget;
   auto* outer = new QVBoxLayout(central);
   outer->setContentsMargins(4, 4, 4, 4);
   outer->setSpacing(4);
-
   auto* split = new QSplitter(Qt::Horizontal);
-  // Left: force system first (used most), then the case.
+  split->addWidget(build_left_panels());
+  split->addWidget(build_views());
+  // Right: findings.
+  findings_ = new FindingsPanel;
+  auto* right = scrolled(findings_);
+  right->setMinimumWidth(300);
+  split->addWidget(right);
+  split->setStretchFactor(0, 0);
+  split->setStretchFactor(1, 1);
+  split->setStretchFactor(2, 0);
+  split->setSizes({340, 820, 320});
+  outer->addWidget(split, 1);
+
+  // The caution, always visible.
+  caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
+  caution_->setWordWrap(true);
+  caution_->setStyleSheet(
+      QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
+                     "border-left: 5px solid #9c6e14;"));
+  outer->addWidget(caution_);
+  setCentralWidget(central);
+
+  build_status_bar();
+  connect_layout();
+}
+
+// Left: force system first (used most), then the case.
+QWidget* MainWindow::build_left_panels() {
   auto* left = new QToolBox;
   load_panel_ = new LoadPanel;
   case_panel_ = new CasePanel(session_.get());
-  auto wrap = [](QWidget* w) {
-    auto* scroll = new QScrollArea;
-    scroll->setWidget(w);
-    scroll->setWidgetResizable(true);
-    scroll->setFrameShape(QFrame::NoFrame);
-    return scroll;
-  };
-  left->addItem(wrap(load_panel_), QStringLiteral("Force system"));
-  left->addItem(wrap(case_panel_), QStringLiteral("Case and bone levels"));
+  left->addItem(scrolled(load_panel_), QStringLiteral("Force system"));
+  left->addItem(scrolled(case_panel_), QStringLiteral("Case and bone levels"));
   left->setMinimumWidth(320);
   left_panels_ = left;
-  split->addWidget(left);
+  return left;
+}
 
-  // Middle: which bone level, then the views.
+// Middle: which bone level, then the views.
+QWidget* MainWindow::build_views() {
   auto* middle = new QWidget;
   auto* mid = new QVBoxLayout(middle);
   mid->setContentsMargins(0, 0, 0, 0);
@@ -232,28 +272,12 @@ void MainWindow::build_layout() {
     set_load(c, false);
   });
   mid->addWidget(tabs_, 1);
-  split->addWidget(middle);
 
-  // Right: findings.
-  findings_ = new FindingsPanel;
-  auto* right = wrap(findings_);
-  right->setMinimumWidth(300);
-  split->addWidget(right);
-  split->setStretchFactor(0, 0);
-  split->setStretchFactor(1, 1);
-  split->setStretchFactor(2, 0);
-  split->setSizes({340, 820, 320});
-  outer->addWidget(split, 1);
+  return middle;
+}
 
-  // The caution, always visible.
-  caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
-  caution_->setWordWrap(true);
-  caution_->setStyleSheet(
-      QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
-                     "border-left: 5px solid #9c6e14;"));
-  outer->addWidget(caution_);
-  setCentralWidget(central);
-
+// The status line, the hover read-out, the progress bar and the cancel button.
+void MainWindow::build_status_bar() {
   status_ = new QLabel(QStringLiteral("Ready."));
   progress_ = new QProgressBar;
   progress_->setRange(0, 1000);
@@ -282,7 +306,9 @@ void MainWindow::build_layout() {
   progress_->hide();
   cancel_->hide();
   connect(cancel_, &QToolButton::clicked, this, &MainWindow::cancel_solve);
+}
 
+void MainWindow::connect_layout() {
   connect(scenario_box_, &QComboBox::currentIndexChanged, this, [this](int index) {
     if (index >= 0) session_->set_current(index);
   });
@@ -301,6 +327,35 @@ void MainWindow::build_layout() {
 
 void MainWindow::build_menus() {
   QMenu* file = menuBar()->addMenu(QStringLiteral("&File"));
+  const QList<QAction*> file_actions = build_file_menu(file);  // new, open, save
+  QMenu* exports = file->addMenu(QStringLiteral("&Export"));
+  const QList<QAction*> export_actions = build_export_menu(exports);  // image, report, data
+  file->addSeparator();
+  QAction* quit = file->addAction(QStringLiteral("&Quit"), this, &QWidget::close);
+  quit->setShortcut(QKeySequence::Quit);
+
+  QMenu* run = menuBar()->addMenu(QStringLiteral("&Solve"));
+  QAction* solve_action = run->addAction(
+      make_icon(IconKind::kSolve), QStringLiteral("&Mesh and solve"), this, &MainWindow::solve);
+  solve_action->setShortcut(QKeySequence(Qt::Key_F5));
+  run->addAction(make_icon(IconKind::kCancel), QStringLiteral("&Cancel"), this,
+                 &MainWindow::cancel_solve);
+
+  QMenu* view = menuBar()->addMenu(QStringLiteral("&View"));
+  view->addAction(QStringLiteral("&3D"), this, [this]() { show_view(ViewKind::k3D); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
+  view->addAction(QStringLiteral("&Root map"), this, [this]() { show_view(ViewKind::kRootMap); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
+  view->addAction(QStringLiteral("&Bone levels compared"), this,
+                  [this]() { show_view(ViewKind::kComparison); })
+      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
+
+  build_help_menu();
+  build_toolbar(file_actions, solve_action, export_actions);
+}
+
+// File: new, open, samples, import, recent, save, save as. Returns new, open and save.
+QList<QAction*> MainWindow::build_file_menu(QMenu* file) {
   QAction* new_action =
       file->addAction(make_icon(IconKind::kNew), QStringLiteral("&New case"), this, [this]() {
         if (maybe_save()) new_case();
@@ -343,7 +398,11 @@ void MainWindow::build_menus() {
   });
   save_as_action->setShortcut(QKeySequence::SaveAs);
   file->addSeparator();
-  QMenu* exports = file->addMenu(QStringLiteral("&Export"));
+  return {new_action, open_action, save_action};
+}
+
+// File > Export: image, PDF report, data. Returns the three actions.
+QList<QAction*> MainWindow::build_export_menu(QMenu* exports) {
   QAction* image_action = exports->addAction(
       make_icon(IconKind::kImage), QStringLiteral("&Image of the current view (PNG)\u2026"), this,
       [this]() {
@@ -375,26 +434,10 @@ void MainWindow::build_menus() {
             this, QStringLiteral("Export results to folder"), suggested_path(QString()));
         if (!folder.isEmpty()) export_data(folder);
       });
-  file->addSeparator();
-  QAction* quit = file->addAction(QStringLiteral("&Quit"), this, &QWidget::close);
-  quit->setShortcut(QKeySequence::Quit);
+  return {image_action, report_action, data_action};
+}
 
-  QMenu* run = menuBar()->addMenu(QStringLiteral("&Solve"));
-  QAction* solve_action = run->addAction(
-      make_icon(IconKind::kSolve), QStringLiteral("&Mesh and solve"), this, &MainWindow::solve);
-  solve_action->setShortcut(QKeySequence(Qt::Key_F5));
-  run->addAction(make_icon(IconKind::kCancel), QStringLiteral("&Cancel"), this,
-                 &MainWindow::cancel_solve);
-
-  QMenu* view = menuBar()->addMenu(QStringLiteral("&View"));
-  view->addAction(QStringLiteral("&3D"), this, [this]() { show_view(ViewKind::k3D); })
-      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
-  view->addAction(QStringLiteral("&Root map"), this, [this]() { show_view(ViewKind::kRootMap); })
-      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
-  view->addAction(QStringLiteral("&Bone levels compared"), this,
-                  [this]() { show_view(ViewKind::kComparison); })
-      ->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_3));
-
+void MainWindow::build_help_menu() {
   QMenu* help = menuBar()->addMenu(QStringLiteral("&Help"));
   help->addAction(QStringLiteral("&What the numbers mean"), this, [this]() {
     auto* dialog = new QDialog(this);
@@ -426,27 +469,26 @@ void MainWindow::build_menus() {
                        "Licence: AGPL-3.0-or-later.\n\n") +
             QString::fromStdString(analysis::caution_text()));
   });
+}
 
+// The toolbar: file actions, solve, exports, each with a short label under its icon.
+void MainWindow::build_toolbar(const QList<QAction*>& file_actions, QAction* solve_action,
+                               const QList<QAction*>& export_actions) {
   QToolBar* bar = addToolBar(QStringLiteral("Main"));
   bar->setObjectName(QStringLiteral("main_toolbar"));
   bar->setIconSize(QSize(24, 24));
   bar->setToolButtonStyle(Qt::ToolButtonTextUnderIcon);
-  bar->addAction(new_action);
-  bar->addAction(open_action);
-  bar->addAction(save_action);
+  bar->addActions(file_actions);
   bar->addSeparator();
   bar->addAction(solve_action);
   bar->addSeparator();
-  bar->addAction(image_action);
-  bar->addAction(report_action);
-  bar->addAction(data_action);
-  new_action->setIconText(QStringLiteral("New"));
-  open_action->setIconText(QStringLiteral("Open"));
-  save_action->setIconText(QStringLiteral("Save"));
+  bar->addActions(export_actions);
+  const QStringList labels = {QStringLiteral("New"),    QStringLiteral("Open"),
+                              QStringLiteral("Save"),   QStringLiteral("Image"),
+                              QStringLiteral("Report"), QStringLiteral("Data")};
+  const QList<QAction*> labelled = file_actions + export_actions;
+  for (int i = 0; i < labelled.size(); ++i) labelled[i]->setIconText(labels[i]);
   solve_action->setIconText(QStringLiteral("Solve"));
-  image_action->setIconText(QStringLiteral("Image"));
-  report_action->setIconText(QStringLiteral("Report"));
-  data_action->setIconText(QStringLiteral("Data"));
 }
 
 void MainWindow::connect_session() {

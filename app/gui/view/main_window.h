@@ -15,6 +15,7 @@
 #include "core/load_controls.h"
 #include "sharpey/mesh/tooth_model.h"
 
+class QAction;
 class QComboBox;
 class QLabel;
 class QMenu;
@@ -131,9 +132,20 @@ class MainWindow : public QMainWindow {
 
  private:
   void build_menus();
+  QList<QAction*> build_file_menu(QMenu* file);
+  QList<QAction*> build_export_menu(QMenu* exports);
+  void build_help_menu();
+  void build_toolbar(const QList<QAction*>& file_actions, QAction* solve_action,
+                     const QList<QAction*>& export_actions);
   QImage captioned(const QImage& picture, const QString& caption) const;
   void build_layout();
+  QWidget* build_left_panels();
+  QWidget* build_views();
+  void build_status_bar();
+  void connect_layout();
   void connect_session();
+  void connect_solve_job();
+  void restore_recent_files();
   void refresh_results(bool interactive);
   void refresh_scenario_choice();
   void refresh_title();
