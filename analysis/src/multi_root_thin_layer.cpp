@@ -137,6 +137,15 @@ MultiRootResult MultiRootThinLayer::evaluate(const MultiRootLoad& load,
   return r;
 }
 
+std::vector<double> MultiRootThinLayer::pressure_kpa(const MultiRootLoad& load) const {
+  const Eigen::Matrix<double, 6, 1> u = K_.ldlt().solve(wrench(load));
+  std::vector<double> p;
+  p.reserve(points_.size());
+  for (const mesh::RootSurfacePoint& q : points_)
+    p.push_back(1000.0 * k_bulk_ * (rigid_map(q.x) * u).dot(q.normal) / q.pdl_width_mm);
+  return p;
+}
+
 MultiRootLoad MultiRootThinLayer::preset(MolarMovement movement, double magnitude) const {
   MultiRootLoad load;
   switch (movement) {

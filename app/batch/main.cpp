@@ -127,15 +127,25 @@ int main(int argc, char** argv) {
   CLI::App* mesh_cmd = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
   add_common(mesh_cmd);
+  CLI::App* molar_cmd = app.add_subcommand(
+      "molar",
+      "multi-rooted tooth case (kind multi_root_estimate, docs/molars.md): thin-layer estimate of "
+      "the CRes, per-root figures and allowance over bone-loss and furcation scenarios; write "
+      "multi_root_results.json, multi_root_summary.txt and a root map per scenario");
+  molar_cmd->add_option("case", options.case_path, "multi-rooted tooth case file (JSON)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  molar_cmd->add_option("--out,-o", options.out_dir, "output folder (created if missing)")
+      ->required();
   // CLI11 says only "A subcommand is required" for a misspelt command: name it.
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
-    if (command != "run" && command != "sweep" && command != "mesh")
+    if (command != "run" && command != "sweep" && command != "mesh" && command != "molar")
       return launcher_rank() != 0
                  ? kBadInput
                  : fail(kBadInput, "usage",
                         "unknown command \"" + command +
-                            "\"; use run, sweep or mesh (see sharpey-batch --help)");
+                            "\"; use run, sweep, mesh or molar (see sharpey-batch --help)");
   }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
@@ -160,11 +170,14 @@ int main(int argc, char** argv) {
   try {
     if (world->size() > 1 && !sweep->parsed())
       throw InputError("mpirun", "only sweep runs over several MPI ranks; start " +
-                                     std::string(run->parsed() ? "run" : "mesh") +
+                                     std::string(run->parsed()        ? "run"
+                                                 : mesh_cmd->parsed() ? "mesh"
+                                                                      : "molar") +
                                      " without mpirun or srun (or with one rank)");
     if (run->parsed()) run_command(options);
     if (sweep->parsed()) sweep_command(options, sweep_options, *world);
     if (mesh_cmd->parsed()) mesh_command(options);
+    if (molar_cmd->parsed()) molar_command(options);
     return kOk;
   } catch (const StoppedByRoot& stopped) {
     return stopped.exit_code;  // rank 0 has said why

@@ -504,6 +504,7 @@ std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, i
       p.normal = n.normalized();
       p.area_mm2 = n.norm() * dth * T * gw[j];
       p.part = kTrunkPart;
+      p.angle_rad = th;
       out.push_back(p);
     }
   }
@@ -526,6 +527,7 @@ std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, i
         p.normal = n.normalized();
         p.area_mm2 = n.norm() * dth * dt_dv * gw[j];
         p.part = static_cast<int>(r);
+        p.angle_rad = th;
         out.push_back(p);
       }
     }

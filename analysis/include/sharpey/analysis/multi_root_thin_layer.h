@@ -87,6 +87,11 @@ class MultiRootThinLayer {
 
   MultiRootResult evaluate(const MultiRootLoad& load, const Thresholds& thresholds) const;
 
+  // The attached surface points and the layer's hydrostatic pressure at each under `load`, kPa
+  // (compression > 0), in the same order.
+  const std::vector<mesh::RootSurfacePoint>& attached_points() const { return points_; }
+  std::vector<double> pressure_kpa(const MultiRootLoad& load) const;
+
   // The preset's load of the given magnitude (N, or N mm for uprighting).
   MultiRootLoad preset(MolarMovement movement, double magnitude) const;
 

@@ -124,6 +124,7 @@ struct RootSurfacePoint {
   Eigen::Vector3d normal = Eigen::Vector3d::UnitX();
   double area_mm2 = 0;
   int part = -1;
+  double angle_rad = 0;  // section parameter around the part's own centre (0 buccal, pi/2 mesial)
   bool inter_radicular = false;  // faces the furcation (inside the roots' convex hull)
   bool attached = true;          // below the bone (set by attach())
   double pdl_width_mm = 0.2;     // set by attach()

@@ -1,0 +1,70 @@
+// sharpey-batch molar: the invented mandibular first molar sample runs and reports per-root
+// figures with the caution; bad multi-rooted cases exit 2 with a message naming the key.
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "sharpey/analysis/study.h"
+#include "support/batch_process.h"
+
+namespace sharpey::test {
+namespace {
+
+TEST(BatchMolar, SampleRunsAndReportsEveryRoot) {
+  TempFolder out("molar");
+  const ProcessResult r =
+      run_batch({"molar", sample_path("invented_mandibular_first_molar_uprighting.json"), "--out",
+                 out.path()});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const nlohmann::json j = nlohmann::json::parse(read_file(out / "multi_root_results.json"));
+  EXPECT_EQ(j["caution"], analysis::caution_text());
+  ASSERT_EQ(j["scenarios"].size(), 3u);
+  double last_allowance = 1e9;
+  for (const auto& s : j["scenarios"]) {
+    ASSERT_EQ(s["roots"].size(), 2u);
+    EXPECT_EQ(s["roots"][0]["name"], "mesial");
+    EXPECT_EQ(s["roots"][1]["name"], "distal");
+    EXPECT_TRUE(exists(out / s["root_map"].get<std::string>()));
+    // derived: each step of the sample removes bone, so the allowance falls.
+    const double allowance = s["allowance_limit_nmm"].get<double>();
+    EXPECT_LT(allowance, last_allowance);
+    last_allowance = allowance;
+  }
+  EXPECT_EQ(j["scenarios"][2]["furcation_degree"], 2);
+  const std::string summary = read_file(out / "multi_root_summary.txt");
+  EXPECT_NE(summary.find("Caution"), std::string::npos);
+  EXPECT_NE(summary.find("distal"), std::string::npos);
+}
+
+TEST(BatchMolar, BadCasesNameTheKey) {
+  TempFolder dir("molar_bad");
+  const std::string base =
+      R"({"kind": "multi_root_estimate", "tooth": {"type": "mandibular_first_molar"},
+          "load": {"movement": "uprighting", "magnitude": 10}, "scenarios": [%s]})";
+  auto run_with = [&](const std::string& scenario) {
+    std::string text = base;
+    text.replace(text.find("%s"), 2, scenario);
+    write_file(dir / "case.json", text);
+    return run_batch({"molar", dir / "case.json", "--out", dir / "out"});
+  };
+  struct Bad {
+    const char* scenario;
+    const char* key;
+  };
+  for (const Bad& b : {
+           Bad{R"({"name": "a", "furcation": {"degree": 1, "horizontal_mm": 5}})",
+               "furcation.horizontal_mm"},
+           Bad{R"({"name": "a", "furcation": {"degree": 2, "entrances": ["mesial"]}})",
+               "furcation.entrances"},
+           Bad{R"({"name": "a", "furcation": {"degree": 5}})", "furcation.degree"},
+           Bad{R"({"name": "a", "horizontal_loss_mm": 14})", "bone_loss_mm"},
+           Bad{R"({"name": "a", "furcaton": {"degree": 1}})", "furcaton"},
+       }) {
+    const ProcessResult r = run_with(b.scenario);
+    EXPECT_EQ(r.exit_code, 2) << b.scenario << "\n" << r.err;
+    EXPECT_NE(r.err.find(b.key), std::string::npos) << r.err;
+  }
+}
+
+}  // namespace
+}  // namespace sharpey::test
