@@ -175,6 +175,33 @@ TEST(MultiRootAttachment, FallsWithLossAndFurcationDegree) {
   }
 }
 
+TEST(MultiRootAttachment, PdlWidthFollowsTheProfileOnEveryRoot) {
+  // Hourglass widths crest 0.20, mid-root 0.14, apex 0.19 mm (Coolidge 1937, from memory;
+  // check-values.md section 2), per root from the bone level at its top to its own apex
+  // (derived: the piecewise-linear profile recomputed here).
+  const MultiRootTooth t = multi_root_handbook(MultiRootType::kMaxillaryFirstMolar);
+  MultiRootBone bone;
+  bone.pdl = {0.20, 0.14, 0.19};
+  std::vector<RootSurfacePoint> p = root_surface_points(t);
+  attach(t, bone, &p);
+  const double zf = -t.trunk_length_mm;
+  for (size_t r = 0; r < t.roots.size(); ++r) {
+    const double apex = zf - t.roots[r].length_mm;
+    double lo = 1, hi = 0;
+    for (const RootSurfacePoint& q : p) {
+      if (q.part != static_cast<int>(r)) continue;
+      const double f = (zf - q.x.z()) / (zf - apex);
+      const double w = f <= 0.5 ? 0.20 + (0.14 - 0.20) * 2 * f : 0.14 + (0.19 - 0.14) * (2 * f - 1);
+      EXPECT_NEAR(q.pdl_width_mm, w, 1e-12);
+      lo = std::min(lo, q.pdl_width_mm);
+      hi = std::max(hi, q.pdl_width_mm);
+    }
+    std::cout << t.roots[r].name << " root: PDL width " << lo << " to " << hi << " mm\n";
+    EXPECT_NEAR(lo, 0.14, 0.002);  // the quadrature's nearest point to mid-root
+    EXPECT_NEAR(hi, 0.20, 0.002);
+  }
+}
+
 TEST(MultiRootValidation, FurcationDepthMustFitItsDegree) {
   const MultiRootTooth t = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
   const double through = furcation_through_depth_mm(t, FurcationEntrance::kBuccal);
