@@ -15,6 +15,7 @@
 #include "sharpey/analysis/multi_root_thin_layer.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
+#include "support/thin_layer.h"
 
 namespace sharpey::analysis {
 namespace {
@@ -83,6 +84,43 @@ TEST(TwoCylinders, CresMidwayAndAtTheSingleCylindersDepth) {
   EXPECT_NEAR(one.cres(Eigen::Vector3d::UnitX()).below_cej_mm, crest + depth, 0.01);
   std::cout << "closed form: " << crest + depth << " mm below the CEJ (" << depth / L
             << " of the embedded length)\n";
+}
+
+TEST(MultiRootThinLayer, OneAnatomicalRootAgreesWithTheIndependentSingleRootEstimate) {
+  // Two independent computations (derived): a mandibular second premolar's anatomical root as a
+  // one-root tooth with a vanishing trunk, against the single-root thin-layer estimate the
+  // finite-element CRes tests use (support/thin_layer.h; the finite-element CRes lies within
+  // 1.5 points of it: test_cres_teeth.cpp). Bound 0.5 point of the embedded length (observed
+  // 0.12 point: two quadratures of the same integral).
+  mesh::ModelSpec single;
+  single.tooth.type = mesh::ToothType::kMandibularSecondPremolar;
+  single.tooth.dimensions = mesh::handbook_dimensions(single.tooth.type);
+  const mesh::ToothDimensions& d = single.tooth.dimensions;
+  const double trunk = 1e-3, crest = 1.5, root = d.root_length_mm;
+  MultiRootTooth t;
+  t.trunk_length_mm = trunk;
+  t.cervix_half_x_mm = 0.5 * d.cervix_labiolingual_mm;
+  t.cervix_half_y_mm = 0.5 * d.cervix_mesiodistal_mm;
+  t.furcation_half_x_mm = t.cervix_half_x_mm * (1 + 1e-9);
+  t.furcation_half_y_mm = t.cervix_half_y_mm * (1 + 1e-9);
+  mesh::RootSpec r;
+  r.name = "root";
+  r.half_x_mm = t.cervix_half_x_mm;
+  r.half_y_mm = t.cervix_half_y_mm;
+  r.length_mm = root - trunk;
+  r.taper_fullness = d.root_taper_fullness;
+  t.roots = {r};
+  MultiRootBone bone;
+  bone.crest_below_cej_mm = crest;
+  const MultiRootThinLayer model(t, bone, kPdl);
+  const test::CresFractions expected = test::thin_layer_fractions(single, kPdl, -crest, -root);
+  const double fx = (model.cres(Eigen::Vector3d::UnitX()).below_cej_mm - crest) / (root - crest);
+  const double fy = (model.cres(Eigen::Vector3d::UnitY()).below_cej_mm - crest) / (root - crest);
+  std::cout << "one anatomical root: CRes at " << fx << " (x), " << fy
+            << " (y) of the embedded length; single-root estimate " << expected.x << ", "
+            << expected.y << "\n";
+  EXPECT_NEAR(fx, expected.x, 0.005);
+  EXPECT_NEAR(fy, expected.y, 0.005);
 }
 
 TEST(MultiRootThinLayer, EquilibriumAndSuperposition) {
