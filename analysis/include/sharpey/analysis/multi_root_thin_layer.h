@@ -7,12 +7,13 @@
 // share of the load and the layer's hydrostatic pressure K (v . n) / w (K the bulk modulus, v the
 // displacement of the root surface, compression positive).
 //
-// What it is not: a finite-element solution. The bone is rigid, the tooth is rigid, and the
-// pressure of a nearly incompressible layer is local here (it is not in the finite-element model:
-// the single-root verification shows where they differ, docs/verification.md). Use it for the
-// CRes, the distribution of load between roots and the trends with bone loss and furcation
-// degree; its pressures are estimates to compare scenarios, not the finite-element peaks.
-// docs/molars.md gives the method, the checks and the limits. Every output of these figures
+// What it is not: a finite-element solution. The bone and the tooth are rigid, the layer's
+// pressure at a point depends on that point's displacement only, and there is no free-edge
+// effect at the crest. On one anatomical root, where both can be built, its peak pressure came
+// within 4 % of the finite-element model's (coarse preset) for tipping and translation
+// (tests/analysis/test_multi_root_thin_layer_fe.cpp); at the furcation's corners, which no
+// finite-element model checks yet, it is untested. docs/molars.md gives the method, the checks
+// and the limits. Every output of these figures
 // carries analysis::caution_text().
 #pragma once
 
