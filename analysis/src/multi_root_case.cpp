@@ -223,7 +223,12 @@ MultiRootCase parse_multi_root_case(const std::string& json_text, const std::str
     }
     root.finish();
     // The PDL material is checked by the estimate itself.
-    MultiRootThinLayer(mesh::multi_root_handbook(c.type), c.scenarios.front().bone, c.pdl);
+    try {
+      MultiRootThinLayer(mesh::multi_root_handbook(c.type), c.scenarios.front().bone, c.pdl);
+    } catch (const InputError& e) {
+      if (e.key() != "materials.pdl") throw;
+      throw InputError("pdl", e.what());
+    }
     return c;
   } catch (const InputError& e) {
     throw InputError(e.key(), origin + ": " + e.what());
@@ -280,8 +285,17 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
     const MultiRootCres cx = model.cres(Eigen::Vector3d::UnitX());
     const MultiRootCres cy = model.cres(Eigen::Vector3d::UnitY());
     const double per_unit_peak = r.tooth.peak_compression_kpa / magnitude;
+    // Allowance; JSON null (text "none") when the movement compresses nothing.
     auto allowance = [&](double threshold) {
       return per_unit_peak > 0 ? threshold / per_unit_peak : -1.0;
+    };
+    auto allowance_json = [&](double threshold) {
+      const double a = allowance(threshold);
+      return a < 0 ? Json(nullptr) : Json(a);
+    };
+    auto allowance_text = [&](double threshold) {
+      const double a = allowance(threshold);
+      return a < 0 ? std::string("none") : fixed(a, 2);
     };
     Json js;
     js["name"] = s.name;
@@ -294,9 +308,9 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
     js["cres_mesiodistal_below_cej_mm"] = cy.below_cej_mm;
     js["cres_mesiodistal_below_furcation_mm"] = cy.below_furcation_mm;
     js["allowance_capillary_" + std::string(couple ? "nmm" : "n")] =
-        allowance(spec.thresholds.capillary.value_kpa);
+        allowance_json(spec.thresholds.capillary.value_kpa);
     js["allowance_limit_" + std::string(couple ? "nmm" : "n")] =
-        allowance(spec.thresholds.limit.value_kpa);
+        allowance_json(spec.thresholds.limit.value_kpa);
     auto figures = [](const RootFigures& f) {
       Json o;
       o["name"] = f.name;
@@ -321,9 +335,9 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
         << " mm below the furcation), " << fixed(cx.below_cej_mm, 1)
         << " mm for buccolingual forces\n"
         << "  allowance to " << spec.thresholds.limit.value_kpa
-        << " kPa: " << fixed(allowance(spec.thresholds.limit.value_kpa), 2) << " " << base_unit
+        << " kPa: " << allowance_text(spec.thresholds.limit.value_kpa) << " " << base_unit
         << " (to " << spec.thresholds.capillary.value_kpa
-        << " kPa: " << fixed(allowance(spec.thresholds.capillary.value_kpa), 2) << " " << base_unit
+        << " kPa: " << allowance_text(spec.thresholds.capillary.value_kpa) << " " << base_unit
         << ")\n";
     for (const RootFigures& f : r.roots) {
       txt << "  " << std::left << std::setw(12) << f.name << " attached "

@@ -64,6 +64,20 @@ TEST(BatchMolar, BadCasesNameTheKey) {
     EXPECT_EQ(r.exit_code, 2) << b.scenario << "\n" << r.err;
     EXPECT_NE(r.err.find(b.key), std::string::npos) << r.err;
   }
+  write_file(dir / "case.json",
+             R"({"kind": "multi_root_estimate", "tooth": {"type": "mandibular_first_molar"},
+                 "pdl": {"poisson_ratio": 0.5}, "scenarios": [{"name": "a"}],
+                 "load": {"movement": "intrusion", "magnitude": 1, "unit": "N mm"}})");
+  ProcessResult r = run_batch({"molar", dir / "case.json", "--out", dir / "out"});
+  EXPECT_EQ(r.exit_code, 2);
+  EXPECT_NE(r.err.find("load.unit"), std::string::npos) << r.err;  // a force in N mm
+  write_file(dir / "case.json",
+             R"({"kind": "multi_root_estimate", "tooth": {"type": "mandibular_first_molar"},
+                 "pdl": {"poisson_ratio": 0.5}, "scenarios": [{"name": "a"}],
+                 "load": {"movement": "intrusion", "magnitude": 1}})");
+  r = run_batch({"molar", dir / "case.json", "--out", dir / "out"});
+  EXPECT_EQ(r.exit_code, 2);
+  EXPECT_NE(r.err.find("key pdl"), std::string::npos) << r.err;
 }
 
 }  // namespace
