@@ -18,6 +18,7 @@
 #pragma once
 
 #include <Eigen/Core>
+#include <atomic>
 #include <string>
 #include <vector>
 
@@ -158,5 +159,34 @@ double outer_crest_z_mm(const MultiRootBone& bone);
 // the roots' convex hull along the probing direction, mm. Throws InputError when the entrance does
 // not lead between two roots of this tooth.
 double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance entrance);
+
+// Finite-element mesh of a multi-rooted tooth, its PDL and a bone block. Faceted (straight-sided)
+// surfaces: the tooth's rings (crown dome, trunk, roots) and the planar furcation roof
+// (constrained Delaunay, detail/planar_triangulation.h); the PDL a structured prism layer over the
+// attached triangles (trunk below the crest, roof, roots), each vertex offset along its averaged
+// normal by the requested width (mitred at the roof's corners so both faces keep the width); one
+// bone region (no cortical shell) in a box around the socket, its mesial, distal and basal faces
+// kFixedBone, the others kFreeBone; TetGen for tooth and bone with the PDL as a hole. Regions
+// kTooth, kPdl, kCancellousBone; face markers as build_tooth_model's. Midside nodes of 10-node
+// elements at edge midpoints.
+// Covered so far: the outer crest above the furcation plane (at least 0.3 mm), no angular defect,
+// no furcation lesion; anything else throws InputError naming what is not yet meshed.
+struct MultiRootMeshSizing {
+  double edge_mm = 0.9;       // along the root surfaces
+  double bone_edge_mm = 3.0;  // inside the bone block
+  int pdl_layers = 1;         // elements across the PDL
+  bool second_order = true;
+};
+struct MultiRootMesh {
+  VolumeMesh mesh;
+  // Per element: the part a PDL element lies over (kTrunkPart, kRoofPart or the root index);
+  // INT_MIN for tooth and bone elements.
+  std::vector<int> element_part;
+  // Per node: the part a tooth-surface node lies on (as element_part), INT_MIN elsewhere.
+  std::vector<int> node_part;
+};
+MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                                    const MultiRootMeshSizing& sizing = {},
+                                    const std::atomic<bool>* cancel = nullptr);
 
 }  // namespace sharpey::mesh
