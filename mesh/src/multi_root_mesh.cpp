@@ -99,7 +99,8 @@ class Builder {
   detail::PointSet points_;
   std::vector<int> part_;
   std::vector<Tri> tris_;
-  std::vector<int> crest_ring_, socket_crest_;
+  std::vector<std::vector<int>> crest_rings_, socket_crests_;
+  std::set<std::array<int, 3>> flat_;  // roof and cylinder-end triangles (sorted vertices)
   std::vector<std::array<int, 4>> pdl_tets_;
   std::vector<int> pdl_tet_part_;
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
@@ -135,18 +136,23 @@ void Builder::tooth_surface() {
   };
   auto lateral = [](const Eigen::Vector3d& c) { return Eigen::Vector3d(c.x(), c.y(), 0); };
   std::vector<int> prev = crown.back();
-  const int n1 = std::max(1, static_cast<int>(std::ceil(-zc / h_)));
+  const bool above =
+      zc > zf;  // crest on the trunk; else on the roots (level through the furcation)
+  const double z_split = above ? zc : zf;
+  const int n1 = std::max(1, static_cast<int>(std::ceil(-z_split / h_)));
   for (int k = 1; k <= n1; ++k) {
-    std::vector<int> r = trunk_ring(zc * k / n1);
+    std::vector<int> r = trunk_ring(z_split * k / n1);
     join(prev, r, kExposedRoot, kTrunkPart, lateral);
     prev = r;
   }
-  crest_ring_ = prev;
-  const int n2 = std::max(1, static_cast<int>(std::ceil((zc - zf) / h_)));
-  for (int k = 1; k <= n2; ++k) {
-    std::vector<int> r = trunk_ring(zc + (zf - zc) * k / n2);
-    join(prev, r, kRootSurface, kTrunkPart, lateral);
-    prev = r;
+  if (above) {
+    crest_rings_.push_back(prev);
+    const int n2 = std::max(1, static_cast<int>(std::ceil((zc - zf) / h_)));
+    for (int k = 1; k <= n2; ++k) {
+      std::vector<int> r = trunk_ring(zc + (zf - zc) * k / n2);
+      join(prev, r, kRootSurface, kTrunkPart, lateral);
+      prev = r;
+    }
   }
   const std::vector<int> rim = prev;
   // Roots: rings from the foot down, crowding toward the apex; the apex a pole.
@@ -157,7 +163,6 @@ void Builder::tooth_surface() {
     const int n = std::max(
         12, 4 * static_cast<int>(
                     std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
-    const int m = std::max(4, static_cast<int>(std::ceil(spec.length_mm / h_)));
     const double slope = std::tan(spec.tilt_deg * kDeg);
     const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
     const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
@@ -168,12 +173,25 @@ void Builder::tooth_surface() {
       const Eigen::Vector2d o = centre(zf - c.z());
       return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
     };
+    // Depths of the rings: above the crest (crest below the furcation plane) uniform, below it
+    // crowding toward the apex; a cylinder ends with a ring at its full length and a flat disc.
+    const double tc = above ? 0.0 : zf - zc;
+    std::vector<double> depths;
+    const int m_up = tc > 0 ? std::max(1, static_cast<int>(std::ceil(tc / h_))) : 0;
+    for (int j = 0; j < m_up; ++j) depths.push_back(tc * j / m_up);
+    const double below = spec.length_mm - tc;
+    const int m_lo = std::max(4, static_cast<int>(std::ceil(below / h_)));
+    for (int j = 0; j < m_lo; ++j) {
+      const double v = static_cast<double>(j) / m_lo;
+      depths.push_back(tc + below * (1 - (1 - v) * (1 - v)));
+    }
+    const bool cylinder = spec.profile == RootProfile::kCylinder;
+    if (cylinder) depths.push_back(spec.length_mm);
     std::vector<int> prev_r;
-    for (int j = 0; j < m; ++j) {
-      const double v = static_cast<double>(j) / m;
-      const double t = spec.length_mm * (1 - (1 - v) * (1 - v));
+    for (size_t j = 0; j < depths.size(); ++j) {
+      const double t = depths[j];
       double rho = 1;
-      if (spec.profile == RootProfile::kTapered)
+      if (!cylinder)
         rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
       const Eigen::Vector2d c = centre(t);
       std::vector<int> rr =
@@ -181,15 +199,23 @@ void Builder::tooth_surface() {
       if (j == 0) {
         feet.push_back(rr);
       } else {
-        join(prev_r, rr, kRootSurface, part, out);
+        join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
       }
+      if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
       prev_r = rr;
     }
     const Eigen::Vector2d c = centre(spec.length_mm);
     const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
+    const size_t before = tris_.size();
     join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
       return Eigen::Vector3d(0.2 * (q.x() - c.x()), 0.2 * (q.y() - c.y()), -1.0);
     });
+    if (cylinder)
+      for (size_t i = before; i < tris_.size(); ++i) {
+        std::array<int, 3> g = tris_[i].v;
+        std::sort(g.begin(), g.end());
+        flat_.insert(g);
+      }
   }
   // Furcation roof: the rim minus the feet, triangulated in its plane.
   std::vector<std::vector<Eigen::Vector2d>> loops;
@@ -211,7 +237,8 @@ void Builder::tooth_surface() {
   for (size_t i = 0; i < pts2.size(); ++i)
     index[i] = i < boundary.size() ? boundary[i] : add({pts2[i].x(), pts2[i].y(), zf}, kRoofPart);
   for (const auto& t : roof)
-    tri(index[t[0]], index[t[1]], index[t[2]], kRootSurface, kRoofPart, -Eigen::Vector3d::UnitZ());
+    tri(index[t[0]], index[t[1]], index[t[2]], above ? kRootSurface : kExposedRoot, kRoofPart,
+        -Eigen::Vector3d::UnitZ());
 }
 
 void Builder::pdl_layer() {
@@ -229,11 +256,14 @@ void Builder::pdl_layer() {
     const Eigen::Vector3d n = (x[t.v[1]] - x[t.v[0]]).cross(x[t.v[2]] - x[t.v[0]]);
     for (int v : t.v) {
       normal.emplace(v, Eigen::Vector3d::Zero()).first->second += n;
-      (t.part == kRoofPart ? roof : wall).emplace(v, Eigen::Vector3d::Zero()).first->second +=
-          n.normalized();
+      std::array<int, 3> g = t.v;
+      std::sort(g.begin(), g.end());
+      const bool flat = t.part == kRoofPart || flat_.count(g) > 0;
+      (flat ? roof : wall).emplace(v, Eigen::Vector3d::Zero()).first->second += n.normalized();
     }
   }
-  const std::set<int> crest(crest_ring_.begin(), crest_ring_.end());
+  std::set<int> crest;
+  for (const auto& r : crest_rings_) crest.insert(r.begin(), r.end());
   std::map<int, std::vector<int>> layer;  // per attached vertex: its points across the layer
   for (auto& [v, n] : normal) {
     double miter = 1.0;
@@ -282,17 +312,21 @@ void Builder::pdl_layer() {
     if (vol < 0) std::swap(tet[1], tet[2]);
   }
   // Free top of the PDL at the crest, split like the prisms' side faces.
-  const int n = static_cast<int>(crest_ring_.size());
-  for (int i = 0; i < n; ++i) {
-    const int lo = std::min(crest_ring_[i], crest_ring_[(i + 1) % n]);
-    const int hi = std::max(crest_ring_[i], crest_ring_[(i + 1) % n]);
-    for (int k = 0; k < layers_; ++k) {
-      tri(layer[lo][k], layer[hi][k], layer[hi][k + 1], kPdlCrest, INT_MIN,
-          Eigen::Vector3d::UnitZ(), false);
-      tri(layer[lo][k], layer[hi][k + 1], layer[lo][k + 1], kPdlCrest, INT_MIN,
-          Eigen::Vector3d::UnitZ(), false);
+  for (const std::vector<int>& ring_c : crest_rings_) {
+    const int n = static_cast<int>(ring_c.size());
+    std::vector<int> socket;
+    for (int i = 0; i < n; ++i) {
+      const int lo = std::min(ring_c[i], ring_c[(i + 1) % n]);
+      const int hi = std::max(ring_c[i], ring_c[(i + 1) % n]);
+      for (int k = 0; k < layers_; ++k) {
+        tri(layer[lo][k], layer[hi][k], layer[hi][k + 1], kPdlCrest, INT_MIN,
+            Eigen::Vector3d::UnitZ(), false);
+        tri(layer[lo][k], layer[hi][k + 1], layer[lo][k + 1], kPdlCrest, INT_MIN,
+            Eigen::Vector3d::UnitZ(), false);
+      }
+      socket.push_back(layer[ring_c[i]][layers_]);
     }
-    socket_crest_.push_back(layer[crest_ring_[i]][layers_]);
+    socket_crests_.push_back(socket);
   }
   // A point inside the PDL, mid-way across at the first root's mid-length.
   for (const auto& [v, l] : layer) {
@@ -339,13 +373,16 @@ void Builder::bone_block(double bone_edge) {
     for (const auto& t : t2) tri(idx[t[0]], idx[t[1]], idx[t[2]], marker, INT_MIN, out);
   };
   // Top: the rectangle around the socket's crest ring.
-  std::vector<Eigen::Vector2d> socket_loop;
+  std::vector<std::vector<Eigen::Vector2d>> top_loops{rect};
   std::vector<int> known(rect.size(), -1);
-  for (int v : socket_crest_) {
-    socket_loop.push_back(x[v].head<2>());
-    known.push_back(v);
+  for (const std::vector<int>& loop : socket_crests_) {
+    top_loops.emplace_back();
+    for (int v : loop) {
+      top_loops.back().push_back(x[v].head<2>());
+      known.push_back(v);
+    }
   }
-  planar({rect, socket_loop}, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
+  planar(top_loops, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
   planar({rect}, {}, zb, kFixedBone, -Eigen::Vector3d::UnitZ());
   // Sides.
   const int nz = std::max(2, static_cast<int>(std::ceil((zc - zb) / (2 * h_))));
@@ -473,13 +510,16 @@ MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRoot
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers horizontal loss only so far (no furcation "
                      "lesion, no angular defect); use the thin-layer estimate for those");
-  if (outer_crest_z_mm(bone) < -tooth.trunk_length_mm + 0.3)
+  const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
+  if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
-                     "the multi-rooted mesh needs the crest at least 0.3 mm above the furcation "
-                     "plane so far; reduce the horizontal loss or use the thin-layer estimate");
-  for (const RootSpec& r : tooth.roots)
-    if (r.profile != RootProfile::kTapered)
-      throw InputError("tooth.roots", "the multi-rooted mesh builds tapered roots only so far");
+                     "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
+                     "furcation plane; change the horizontal loss a little");
+  if (gap < 0 && bone.septum_to_roof)
+    throw InputError("bone_loss_mm",
+                     "with the crest below the furcation plane the mesh covers a level crest "
+                     "through the furcation only (septum_to_roof false); a septum up to the roof "
+                     "is not meshed yet: use the thin-layer estimate");
   if (!(sizing.edge_mm >= 0.2 && sizing.edge_mm <= 2.0) || sizing.pdl_layers < 1 ||
       sizing.pdl_layers > 3 || !(sizing.bone_edge_mm >= sizing.edge_mm))
     throw InputError("mesh",
