@@ -81,9 +81,7 @@ TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
   }
 }
 
-INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest,
-                         ::testing::Values(MultiRootType::kMandibularFirstMolar,
-                                           MultiRootType::kMaxillaryFirstMolar),
+INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi_root_types()),
                          [](const ::testing::TestParamInfo<MultiRootType>& p) {
                            return to_string(p.param);
                          });
