@@ -1,8 +1,9 @@
 // Multi-rooted teeth (molars and the two-rooted maxillary first premolar): parametric geometry,
 // root areas per root, and the attachment left by horizontal loss, angular defects and furcation
-// involvement. Not meshed: the finite-element mesher (tooth_model.h) builds single roots only; the
-// multi-rooted tooth is analysed by the thin-layer estimate of analysis/multi_root_thin_layer.h
-// (docs/molars.md says what that estimate can and cannot tell).
+// involvement, and a finite-element mesh (build_multi_root_mesh, below; the single-rooted mesher
+// of tooth_model.h builds one star-shaped root). The case files and reports use the thin-layer
+// estimate of analysis/multi_root_thin_layer.h, checked against finite elements on these meshes
+// (analysis/multi_root_fe.h; docs/molars.md says what each can and cannot tell).
 //
 // Tooth coordinate system as in tooth_model.h: origin on the long axis at the CEJ, z toward the
 // crown, x buccal, y mesial. Lengths in mm.
