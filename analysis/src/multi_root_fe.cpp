@@ -2,10 +2,12 @@
 
 #include <Eigen/Dense>
 #include <Eigen/Geometry>
+#include <climits>
 #include <cmath>
 #include <set>
 
 #include "sharpey/fem/assembly.h"
+#include "sharpey/fem/recovery.h"
 #include "sharpey/fem/solver.h"
 
 namespace sharpey::analysis {
@@ -92,6 +94,62 @@ MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& m, const fem::Mate
       cres_from_compliance(out.compliance, Eigen::Vector3d::UnitX(), trunk_length_mm);
   out.mesiodistal = cres_from_compliance(out.compliance, Eigen::Vector3d::UnitY(), trunk_length_mm);
   out.n_dofs = 3 * n;
+  return out;
+}
+
+MultiRootFePressure multi_root_fe_pressure(
+    const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
+    const mesh::MultiRootBone& bone, const fem::Material& tooth_material, const fem::Material& pdl,
+    const fem::Material& bone_material, const MultiRootLoad& load) {
+  const mesh::VolumeMesh& mesh = m.mesh;
+  fem::MaterialTable materials{
+      {mesh::kTooth, tooth_material}, {mesh::kPdl, pdl}, {mesh::kCancellousBone, bone_material}};
+  const fem::LinearElasticSolver solver(mesh, materials, fem::fix_faces(mesh, mesh::kFixedBone));
+  const int n = mesh.n_nodes();
+  std::set<int> crown;
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    if (mesh.element_region[e] != mesh::kTooth) continue;
+    for (int k = 0; k < mesh.nodes_per_element; ++k)
+      if (mesh.nodes[mesh.element(e)[k]].z() > 0) crown.insert(mesh.element(e)[k]);
+  }
+  Eigen::Vector3d c = Eigen::Vector3d::Zero();
+  for (int v : crown) c += mesh.nodes[v];
+  c /= static_cast<double>(crown.size());
+  // The force through c plus the couple that moves it to load.point_mm, plus load's couple.
+  const Eigen::Vector3d couple = load.couple_nmm + (load.point_mm - c).cross(load.force_n);
+  Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * n);
+  for (int k = 0; k < 3; ++k) {
+    const Eigen::Vector3d e = Eigen::Vector3d::Unit(k);
+    double sum = 0;
+    for (int v : crown) sum += e.cross(mesh.nodes[v] - c).squaredNorm();
+    for (int v : crown) f.segment<3>(3 * v) += couple(k) * e.cross(mesh.nodes[v] - c) / sum;
+  }
+  for (int v : crown) f.segment<3>(3 * v) += load.force_n / static_cast<double>(crown.size());
+  const Eigen::VectorXd u = solver.solve(f);
+  const fem::RegionField field = fem::recover_region(mesh, materials, u, mesh::kPdl);
+  // Part of each PDL node: from the elements over that part.
+  std::vector<int> part(n, INT_MIN);
+  for (int e = 0; e < mesh.n_elements(); ++e)
+    if (mesh.element_region[e] == mesh::kPdl)
+      for (int k = 0; k < mesh.nodes_per_element; ++k) part[mesh.element(e)[k]] = m.element_part[e];
+  MultiRootFePressure out;
+  out.tooth.name = "tooth";
+  for (const mesh::RootSpec& r : tooth.roots) {
+    RootFigures fig;
+    fig.name = r.name;
+    out.roots.push_back(fig);
+  }
+  const double band_top = mesh::outer_crest_z_mm(bone) - bone.pdl.crest_width_mm;
+  for (size_t i = 0; i < field.nodes.size(); ++i) {
+    const int v = field.nodes[i];
+    if (mesh.nodes[v].z() > band_top) continue;
+    const double p = fem::hydrostatic_pressure_kpa(field.stress_mpa.col(i));
+    for (RootFigures* fig : {&out.tooth, part[v] >= 0 ? &out.roots[part[v]] : nullptr}) {
+      if (!fig) continue;
+      fig->peak_compression_kpa = std::max(fig->peak_compression_kpa, p);
+      fig->peak_tension_kpa = std::max(fig->peak_tension_kpa, -p);
+    }
+  }
   return out;
 }
 

@@ -26,4 +26,18 @@ MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& mesh, const fem::M
                                    const fem::Material& pdl, const fem::Material& bone,
                                    double trunk_length_mm);
 
+// Finite-element PDL hydrostatic pressure per part under `load` (a force through a point plus a
+// couple, spread over the crown's nodes as the unit cases are): the largest compression and
+// tension over the PDL nodes of each root (as RootFigures; attachment and reaction fields are
+// left 0), skipping the nodes within one crest width below the crest (the free edge's band, as
+// the single-rooted results do). `tooth` entry over every PDL node outside the band.
+struct MultiRootFePressure {
+  RootFigures tooth;
+  std::vector<RootFigures> roots;
+};
+MultiRootFePressure multi_root_fe_pressure(
+    const mesh::MultiRootMesh& mesh, const mesh::MultiRootTooth& tooth,
+    const mesh::MultiRootBone& bone, const fem::Material& tooth_material, const fem::Material& pdl,
+    const fem::Material& bone_material, const MultiRootLoad& load);
+
 }  // namespace sharpey::analysis
