@@ -10,6 +10,7 @@
 #include <sstream>
 
 #include "output_text.h"
+#include "sharpey/analysis/multi_root_fe.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
@@ -212,6 +213,12 @@ MultiRootCase parse_multi_root_case(const std::string& json_text, const std::str
       lo.finish();
       magnitude_in_base_unit(c);  // checks the unit
     }
+    if (const Json* fe = root.find("finite_elements")) {
+      if (!fe->is_boolean())
+        throw InputError("finite_elements",
+                         "finite_elements must be true or false, not " + fe->dump());
+      c.finite_elements = fe->get<bool>();
+    }
     if (const Json* t = root.find("thresholds")) {
       Object to(*t, "thresholds");
       c.thresholds.capillary.value_kpa = to.number("capillary_kpa", 4.7);
@@ -222,6 +229,17 @@ MultiRootCase parse_multi_root_case(const std::string& json_text, const std::str
         throw InputError("thresholds", "thresholds must satisfy 0 < capillary_kpa < limit_kpa");
     }
     root.finish();
+    if (c.finite_elements) {
+      for (size_t i = 0; i < c.scenarios.size(); ++i) {
+        try {
+          mesh::validate_multi_root_mesh(mesh::multi_root_handbook(c.type), c.scenarios[i].bone);
+        } catch (const InputError& e) {
+          const std::string path = "scenarios[" + std::to_string(i) + "]";
+          throw InputError(path + "." + e.key(),
+                           path + " (" + c.scenarios[i].name + "), finite_elements: " + e.what());
+        }
+      }
+    }
     // The PDL material is checked by the estimate itself.
     try {
       MultiRootThinLayer(mesh::multi_root_handbook(c.type), c.scenarios.front().bone, c.pdl);
@@ -276,6 +294,12 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
              "over the attached root surface); its pressures compare scenarios and roots, "
              "they are not finite-element peaks (docs/molars.md).",
              96)
+      << (spec.finite_elements
+              ? detail::wrap("The lines marked \"finite elements\" come from a finite-element "
+                             "model of the same tooth (faceted multi-rooted mesh, coarse sizes, "
+                             "dentin 18.6 GPa, cancellous bone 1.37 GPa; docs/molars.md).",
+                             96)
+              : std::string())
       << "\n";
   for (size_t i = 0; i < spec.scenarios.size(); ++i) {
     const MultiRootScenario& s = spec.scenarios[i];
@@ -324,6 +348,40 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
     };
     js["tooth"] = figures(r.tooth);
     for (const RootFigures& f : r.roots) js["roots"].push_back(figures(f));
+    std::string fe_text;
+    if (spec.finite_elements) {
+      const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, s.bone);
+      const fem::Material dentin{18600, 0.31}, cancellous{1370, 0.3};
+      const MultiRootFeCres fc =
+          multi_root_fe_cres(m, dentin, spec.pdl, cancellous, tooth.trunk_length_mm);
+      const MultiRootFePressure fp =
+          multi_root_fe_pressure(m, tooth, s.bone, dentin, spec.pdl, cancellous, load);
+      Json fj;
+      fj["method"] =
+          "finite elements: faceted multi-rooted mesh (coarse sizes), 10-node tetrahedra, dentin "
+          "18.6 GPa, cancellous bone 1.37 GPa; pressure peaks over the PDL nodes more than one "
+          "crest width below the crest";
+      fj["dofs"] = fc.n_dofs;
+      fj["cres_buccolingual_below_cej_mm"] = fc.buccolingual.below_cej_mm;
+      fj["cres_mesiodistal_below_cej_mm"] = fc.mesiodistal.below_cej_mm;
+      fj["tooth_peak_compression_kpa"] = fp.tooth.peak_compression_kpa;
+      std::ostringstream ft;
+      ft << "  finite elements (" << fc.n_dofs << " dofs): CRes "
+         << fixed(fc.mesiodistal.below_cej_mm, 1) << " mm (mesiodistal), "
+         << fixed(fc.buccolingual.below_cej_mm, 1)
+         << " mm (buccolingual) below the CEJ; peak compression";
+      for (const RootFigures& f : fp.roots) {
+        Json o;
+        o["name"] = f.name;
+        o["peak_compression_kpa"] = f.peak_compression_kpa;
+        o["peak_tension_kpa"] = f.peak_tension_kpa;
+        fj["roots"].push_back(o);
+        ft << " " << f.name << " " << fixed(f.peak_compression_kpa, 1) << " kPa";
+      }
+      ft << "\n";
+      fe_text = ft.str();
+      js["finite_elements"] = fj;
+    }
     const std::string map_name = std::to_string(i) + "_root_map.csv";
     js["root_map"] = map_name;
     results["scenarios"].push_back(js);
@@ -339,6 +397,7 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
         << " (to " << spec.thresholds.capillary.value_kpa
         << " kPa: " << allowance_text(spec.thresholds.capillary.value_kpa) << " " << base_unit
         << ")\n";
+    txt << fe_text;
     for (const RootFigures& f : r.roots) {
       txt << "  " << std::left << std::setw(12) << f.name << " attached "
           << fixed(f.attachment_area_mm2, 0) << " mm^2, peak " << fixed(f.peak_compression_kpa, 1)

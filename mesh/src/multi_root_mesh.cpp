@@ -502,9 +502,8 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
 
 }  // namespace
 
-MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
-                                    const MultiRootMeshSizing& sizing,
-                                    const std::atomic<bool>* cancel) {
+void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                              const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
   if (bone.furcation.degree != 0 || bone.loss.defect_depth_mm > 0)
     throw InputError("furcation.degree",
@@ -525,6 +524,12 @@ MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRoot
     throw InputError("mesh",
                      "multi-rooted mesh sizes: edge 0.2 to 2 mm, bone edge at least the "
                      "edge, 1 to 3 PDL layers");
+}
+
+MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                                    const MultiRootMeshSizing& sizing,
+                                    const std::atomic<bool>* cancel) {
+  validate_multi_root_mesh(tooth, bone, sizing);
   Builder b(tooth, bone, sizing);
   return b.build(sizing, cancel);
 }

@@ -80,5 +80,34 @@ TEST(BatchMolar, BadCasesNameTheKey) {
   EXPECT_NE(r.err.find("key pdl"), std::string::npos) << r.err;
 }
 
+TEST(BatchMolar, FiniteElementsBesideTheEstimate) {
+  TempFolder dir("molar_fe");
+  write_file(dir / "case.json",
+             R"({"kind": "multi_root_estimate", "label": "invented check",
+                 "tooth": {"type": "mandibular_first_molar"}, "finite_elements": true,
+                 "scenarios": [{"name": "healthy"}],
+                 "load": {"movement": "uprighting", "magnitude": 10}})");
+  const ProcessResult r = run_batch({"molar", dir / "case.json", "--out", dir / "out"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const nlohmann::json j = nlohmann::json::parse(read_file(dir / "out/multi_root_results.json"));
+  const auto& fe = j["scenarios"][0]["finite_elements"];
+  ASSERT_EQ(fe["roots"].size(), 2u);
+  // derived: both models of the same tooth put the CRes within 0.5 mm (the thin layer has a
+  // rigid tooth and bone; here dentin and bone are finite; docs/molars.md).
+  EXPECT_NEAR(fe["cres_mesiodistal_below_cej_mm"].get<double>(),
+              j["scenarios"][0]["cres_mesiodistal_below_cej_mm"].get<double>(), 0.5);
+  EXPECT_NE(read_file(dir / "out/multi_root_summary.txt").find("finite elements"),
+            std::string::npos);
+  // A scenario the mesher does not cover yet is refused before anything runs.
+  write_file(dir / "bad.json",
+             R"({"kind": "multi_root_estimate", "tooth": {"type": "mandibular_first_molar"},
+                 "finite_elements": true,
+                 "scenarios": [{"name": "II", "furcation": {"degree": 2}}],
+                 "load": {"movement": "uprighting", "magnitude": 10}})");
+  const ProcessResult bad = run_batch({"molar", dir / "bad.json", "--out", dir / "out2"});
+  EXPECT_EQ(bad.exit_code, 2);
+  EXPECT_NE(bad.err.find("finite_elements"), std::string::npos) << bad.err;
+}
+
 }  // namespace
 }  // namespace sharpey::test

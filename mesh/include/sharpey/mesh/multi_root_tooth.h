@@ -186,6 +186,9 @@ struct MultiRootMesh {
   // Per node: the part a tooth-surface node lies on (as element_part), INT_MIN elsewhere.
   std::vector<int> node_part;
 };
+// The checks build_multi_root_mesh makes before meshing (InputError naming what is not meshed).
+void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                              const MultiRootMeshSizing& sizing = {});
 MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                                     const MultiRootMeshSizing& sizing = {},
                                     const std::atomic<bool>* cancel = nullptr);
