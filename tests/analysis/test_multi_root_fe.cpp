@@ -1,9 +1,9 @@
 // Finite elements on a multi-rooted tooth (build_multi_root_mesh, coarse sizes): equilibrium, the
 // CRes of the healthy molars with a stiff tooth and bone against the thin-layer estimate over the
-// same tooth, its shift with loss, and two parallel cylinders (derived: the thin layer is the
-// idealisation the finite-element model tends to when tooth and bone are far stiffer than the
-// ligament; on single roots the two agree within 1.5 points of the embedded length,
-// test_cres_teeth.cpp).
+// same tooth (derived: the thin layer is the idealisation the finite-element model tends to when
+// tooth and bone are far stiffer than the ligament; on single roots the two agree within 1.5
+// points of the embedded length, test_cres_teeth.cpp), and two parallel cylinders. The shift with
+// loss: test_multi_root_fe_loss.cpp.
 #include <gtest/gtest.h>
 
 #include <iostream>
@@ -58,29 +58,6 @@ INSTANTIATE_TEST_SUITE_P(Teeth, HealthyMolarFe,
                          [](const ::testing::TestParamInfo<mesh::MultiRootType>& p) {
                            return mesh::to_string(p.param);
                          });
-
-TEST(MultiRootFe, MandibularFirstMolarCresMovesApicallyWithLoss) {
-  // derived: lowering the bone removes the most coronal springs. Healthy, 1 mm of loss (crest
-  // above the furcation), 3.5 mm level through the furcation (septum at the crest).
-  const mesh::MultiRootTooth tooth =
-      mesh::multi_root_handbook(mesh::MultiRootType::kMandibularFirstMolar);
-  const fem::Material stiff{1e5, 0.3}, pdl{0.47, 0.45};
-  double last = 0;
-  for (double loss : {0.0, 1.0, 3.5}) {
-    mesh::MultiRootBone bone;
-    bone.loss.horizontal_mm = loss;
-    bone.septum_to_roof = loss < 1.5;
-    const MultiRootFeCres fe = multi_root_fe_cres(mesh::build_multi_root_mesh(tooth, bone), stiff,
-                                                  pdl, stiff, tooth.trunk_length_mm);
-    const double thin =
-        MultiRootThinLayer(tooth, bone, pdl).cres(Eigen::Vector3d::UnitY()).below_cej_mm;
-    std::cout << loss << " mm loss: finite-element CRes " << fe.mesiodistal.below_cej_mm
-              << " mm below the CEJ (mesiodistal force), thin layer " << thin << "\n";
-    EXPECT_GT(fe.mesiodistal.below_cej_mm, last);
-    EXPECT_NEAR(fe.mesiodistal.below_cej_mm, thin, 0.3);  // as above
-    last = fe.mesiodistal.below_cej_mm;
-  }
-}
 
 // Cylinders of radius 1.5 mm and length 10 mm at the given y on a trunk; the crest level through
 // the furcation, 2 mm below its plane: only the cylinders are attached.
