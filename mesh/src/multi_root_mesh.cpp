@@ -90,7 +90,7 @@ class Builder {
   }
   void tooth_surface();
   void pdl_layer();
-  void bone_block(double bone_edge);
+  void bone_block();
 
   const MultiRootTooth& tooth_;
   const MultiRootBone& bone_;
@@ -337,7 +337,7 @@ void Builder::pdl_layer() {
   }
 }
 
-void Builder::bone_block(double bone_edge) {
+void Builder::bone_block() {
   const auto& x = points_.points();
   const double zc = outer_crest_z_mm(bone_);
   Eigen::Vector3d lo(1e300, 1e300, 1e300), hi(-1e300, -1e300, -1e300);
@@ -403,14 +403,13 @@ void Builder::bone_block(double bone_edge) {
         tri(rows[j][c], rows[j + 1][c + 1], rows[j + 1][c], marker[s], INT_MIN, outward[s]);
       }
   }
-  (void)bone_edge;
   bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
 }
 
 MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel) {
   tooth_surface();
   pdl_layer();
-  bone_block(sizing.bone_edge_mm);
+  bone_block();
   // PLC: every triangle but the PDL's free top.
   Plc plc;
   std::vector<int> to_plc(points_.size(), -1), from_plc;

@@ -56,7 +56,6 @@ std::vector<std::array<int, 3>> triangulate_planar(
   Cdt cdt;
   Eigen::Vector2d lo(1e300, 1e300), hi(-1e300, -1e300);
   for (const auto& loop : loops) {
-    const int first = static_cast<int>(points->size());
     std::vector<Cdt::Vertex_handle> v;
     for (const Eigen::Vector2d& p : loop) {
       Cdt::Vertex_handle h = cdt.insert(K::Point_2(p.x(), p.y()));
@@ -67,7 +66,6 @@ std::vector<std::array<int, 3>> triangulate_planar(
       hi = hi.cwiseMax(p);
     }
     for (size_t i = 0; i < v.size(); ++i) cdt.insert_constraint(v[i], v[(i + 1) % v.size()]);
-    (void)first;
   }
   const size_t n_boundary = points->size();
   // Interior grid points, away from the boundary points.
