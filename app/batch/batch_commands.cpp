@@ -20,6 +20,7 @@
 #include "progress.h"
 #include "sharpey/analysis/allowance_output.h"
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/analysis/multi_root_case.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/analysis/study_design.h"
@@ -586,6 +587,17 @@ void mesh_command(const CommonOptions& options) {
   analysis::write_file_atomic(out.path("mesh_statistics.json"),
                               analysis::mesh_statistics_json(spec, facts));
   stop_if_interrupted();
+  out.commit();
+  announce(options.out_dir, written);
+}
+
+void molar_command(const CommonOptions& options) {
+  const analysis::MultiRootCase spec = analysis::load_multi_root_case(options.case_path);
+  analysis::StagedFolder out(options.out_dir);
+  std::vector<std::string> written = {"multi_root_results.json", "multi_root_summary.txt"};
+  in_output_stage([&] { analysis::run_multi_root_case(spec, out.staging_folder()); });
+  for (size_t i = 0; i < spec.scenarios.size(); ++i)
+    written.push_back(std::to_string(i) + "_root_map.csv");
   out.commit();
   announce(options.out_dir, written);
 }

@@ -1,4 +1,4 @@
-// The three sub-commands of sharpey-batch. Each throws the library's typed errors (mapped to exit
+// The sub-commands of sharpey-batch. Each throws the library's typed errors (mapped to exit
 // codes in main.cpp) and writes its output folder through analysis::StagedFolder.
 #pragma once
 
@@ -44,5 +44,9 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
 
 // Meshes every scenario; writes <stem>_mesh.vtu, <stem>_boundary.vtu and mesh_statistics.json.
 void mesh_command(const CommonOptions& options);
+
+// Multi-rooted tooth case (docs/molars.md): the thin-layer estimate of every scenario; writes
+// multi_root_results.json, multi_root_summary.txt and <n>_root_map.csv. No mesh, no solve.
+void molar_command(const CommonOptions& options);
 
 }  // namespace sharpey::batch

@@ -79,6 +79,7 @@ struct Commands {
   CLI::App* run = nullptr;
   CLI::App* sweep = nullptr;
   CLI::App* mesh = nullptr;
+  CLI::App* molar = nullptr;
 };
 
 Commands add_commands(CLI::App& app, CommonOptions& options, SweepOptions& sweep_options) {
@@ -123,6 +124,16 @@ Commands add_commands(CLI::App& app, CommonOptions& options, SweepOptions& sweep
   c.mesh = app.add_subcommand(
       "mesh", "mesh every scenario only; write the meshes (.vtu) and mesh_statistics.json");
   add_common(c.mesh);
+  c.molar = app.add_subcommand(
+      "molar",
+      "multi-rooted tooth case (kind multi_root_estimate, docs/molars.md): thin-layer estimate of "
+      "the CRes, per-root figures and allowance over bone-loss and furcation scenarios; write "
+      "multi_root_results.json, multi_root_summary.txt and a root map per scenario");
+  c.molar->add_option("case", options.case_path, "multi-rooted tooth case file (JSON)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  c.molar->add_option("--out,-o", options.out_dir, "output folder (created if missing)")
+      ->required();
   return c;
 }
 
@@ -166,12 +177,12 @@ int main(int argc, char** argv) {
   // CLI11 says only "A subcommand is required" for a misspelt command: name it.
   if (argc > 1 && argv[1][0] != '-') {
     const std::string command = argv[1];
-    if (command != "run" && command != "sweep" && command != "mesh")
+    if (command != "run" && command != "sweep" && command != "mesh" && command != "molar")
       return launcher_rank() != 0
                  ? kBadInput
                  : fail(kBadInput, "usage",
                         "unknown command \"" + command +
-                            "\"; use run, sweep or mesh (see sharpey-batch --help)");
+                            "\"; use run, sweep, mesh or molar (see sharpey-batch --help)");
   }
   // Usage errors go through our exit code 2, not CLI11's own numbers.
   try {
@@ -196,11 +207,14 @@ int main(int argc, char** argv) {
   try {
     if (world->size() > 1 && !commands.sweep->parsed())
       throw InputError("mpirun", "only sweep runs over several MPI ranks; start " +
-                                     std::string(commands.run->parsed() ? "run" : "mesh") +
+                                     std::string(commands.run->parsed()    ? "run"
+                                                 : commands.mesh->parsed() ? "mesh"
+                                                                           : "molar") +
                                      " without mpirun or srun (or with one rank)");
     if (commands.run->parsed()) run_command(options);
     if (commands.sweep->parsed()) sweep_command(options, sweep_options, *world);
     if (commands.mesh->parsed()) mesh_command(options);
+    if (commands.molar->parsed()) molar_command(options);
     return kOk;
   } catch (const StoppedByRoot& stopped) {
     return stopped.exit_code;  // rank 0 has said why

@@ -1,0 +1,156 @@
+#include "sharpey/analysis/multi_root_fe.h"
+
+#include <Eigen/Dense>
+#include <Eigen/Geometry>
+#include <climits>
+#include <cmath>
+#include <set>
+
+#include "sharpey/fem/assembly.h"
+#include "sharpey/fem/recovery.h"
+#include "sharpey/fem/solver.h"
+
+namespace sharpey::analysis {
+namespace {
+
+MultiRootCres cres_from_compliance(const Eigen::Matrix<double, 6, 6>& C, const Eigen::Vector3d& d,
+                                   double trunk_length_mm) {
+  const Eigen::Vector3d m =
+      -C.bottomRightCorner<3, 3>().ldlt().solve(C.bottomLeftCorner<3, 3>() * d);
+  MultiRootCres c;
+  c.point_mm = d.cross(m);
+  c.below_cej_mm = -c.point_mm.z();
+  c.below_furcation_mm = c.below_cej_mm - trunk_length_mm;
+  Eigen::Matrix<double, 6, 1> w;
+  w.head<3>() = d;
+  w.tail<3>() = c.point_mm.cross(d);
+  c.residual_rad_per_n = (C * w).tail<3>().norm();
+  return c;
+}
+
+}  // namespace
+
+MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& m, const fem::Material& tooth,
+                                   const fem::Material& pdl, const fem::Material& bone,
+                                   double trunk_length_mm) {
+  const mesh::VolumeMesh& mesh = m.mesh;
+  fem::MaterialTable materials{
+      {mesh::kTooth, tooth}, {mesh::kPdl, pdl}, {mesh::kCancellousBone, bone}};
+  const fem::LinearElasticSolver solver(mesh, materials, fem::fix_faces(mesh, mesh::kFixedBone));
+  const int n = mesh.n_nodes();
+  std::set<int> tooth_nodes, crown;
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    if (mesh.element_region[e] != mesh::kTooth) continue;
+    for (int k = 0; k < mesh.nodes_per_element; ++k) {
+      const int v = mesh.element(e)[k];
+      tooth_nodes.insert(v);
+      if (mesh.nodes[v].z() > 0) crown.insert(v);
+    }
+  }
+  Eigen::Vector3d c = Eigen::Vector3d::Zero();
+  for (int v : crown) c += mesh.nodes[v];
+  c /= static_cast<double>(crown.size());
+  // Load cases: unit forces along x, y, z spread evenly over the crown nodes (through c), and
+  // unit couples about x, y, z as nodal forces M (e x r) / sum |e x r|^2 (no net force).
+  Eigen::MatrixXd F = Eigen::MatrixXd::Zero(3 * n, 6);
+  Eigen::Matrix<double, 6, 6> W = Eigen::Matrix<double, 6, 6>::Zero();
+  for (int k = 0; k < 3; ++k) {
+    const Eigen::Vector3d e = Eigen::Vector3d::Unit(k);
+    for (int v : crown) F.block<3, 1>(3 * v, k) = e / static_cast<double>(crown.size());
+    W.block<3, 1>(0, k) = e;
+    W.block<3, 1>(3, k) = c.cross(e);
+    double sum = 0;
+    for (int v : crown) sum += e.cross(mesh.nodes[v] - c).squaredNorm();
+    for (int v : crown) F.block<3, 1>(3 * v, 3 + k) = e.cross(mesh.nodes[v] - c) / sum;
+    W.block<3, 1>(3, 3 + k) = e;
+  }
+  const Eigen::MatrixXd U = solver.solve(F);
+  // Rigid motion of the tooth per case: least squares over its nodes, u = t + w x x.
+  Eigen::MatrixXd A(3 * tooth_nodes.size(), 6);
+  int row = 0;
+  for (int v : tooth_nodes) {
+    const Eigen::Vector3d x = mesh.nodes[v];
+    A.block<3, 3>(row, 0).setIdentity();
+    A.block<3, 3>(row, 3) << 0, x.z(), -x.y(), -x.z(), 0, x.x(), x.y(), -x.x(), 0;
+    row += 3;
+  }
+  const auto qr = A.colPivHouseholderQr();
+  MultiRootFeCres out;
+  Eigen::Matrix<double, 6, 6> motion;
+  for (int k = 0; k < 6; ++k) {
+    Eigen::VectorXd b(3 * tooth_nodes.size());
+    int r = 0;
+    for (int v : tooth_nodes) b.segment<3>(r) = U.block<3, 1>(3 * v, k), r += 3;
+    motion.col(k) = qr.solve(b);
+    const double rms = std::sqrt((A * motion.col(k) - b).squaredNorm() / tooth_nodes.size());
+    out.max_rigid_fit_rms_um = std::max(out.max_rigid_fit_rms_um, 1000 * rms);
+    const Eigen::VectorXd react = solver.reactions(U.col(k), F.col(k));
+    Eigen::Vector3d total = Eigen::Vector3d::Zero();
+    for (int v = 0; v < n; ++v) total += react.segment<3>(3 * v) + F.block<3, 1>(3 * v, k);
+    out.max_equilibrium_error_n = std::max(out.max_equilibrium_error_n, total.norm());
+  }
+  out.compliance = motion * W.inverse();
+  out.buccolingual =
+      cres_from_compliance(out.compliance, Eigen::Vector3d::UnitX(), trunk_length_mm);
+  out.mesiodistal = cres_from_compliance(out.compliance, Eigen::Vector3d::UnitY(), trunk_length_mm);
+  out.n_dofs = 3 * n;
+  return out;
+}
+
+MultiRootFePressure multi_root_fe_pressure(
+    const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
+    const mesh::MultiRootBone& bone, const fem::Material& tooth_material, const fem::Material& pdl,
+    const fem::Material& bone_material, const MultiRootLoad& load) {
+  const mesh::VolumeMesh& mesh = m.mesh;
+  fem::MaterialTable materials{
+      {mesh::kTooth, tooth_material}, {mesh::kPdl, pdl}, {mesh::kCancellousBone, bone_material}};
+  const fem::LinearElasticSolver solver(mesh, materials, fem::fix_faces(mesh, mesh::kFixedBone));
+  const int n = mesh.n_nodes();
+  std::set<int> crown;
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    if (mesh.element_region[e] != mesh::kTooth) continue;
+    for (int k = 0; k < mesh.nodes_per_element; ++k)
+      if (mesh.nodes[mesh.element(e)[k]].z() > 0) crown.insert(mesh.element(e)[k]);
+  }
+  Eigen::Vector3d c = Eigen::Vector3d::Zero();
+  for (int v : crown) c += mesh.nodes[v];
+  c /= static_cast<double>(crown.size());
+  // The force through c plus the couple that moves it to load.point_mm, plus load's couple.
+  const Eigen::Vector3d couple = load.couple_nmm + (load.point_mm - c).cross(load.force_n);
+  Eigen::VectorXd f = Eigen::VectorXd::Zero(3 * n);
+  for (int k = 0; k < 3; ++k) {
+    const Eigen::Vector3d e = Eigen::Vector3d::Unit(k);
+    double sum = 0;
+    for (int v : crown) sum += e.cross(mesh.nodes[v] - c).squaredNorm();
+    for (int v : crown) f.segment<3>(3 * v) += couple(k) * e.cross(mesh.nodes[v] - c) / sum;
+  }
+  for (int v : crown) f.segment<3>(3 * v) += load.force_n / static_cast<double>(crown.size());
+  const Eigen::VectorXd u = solver.solve(f);
+  const fem::RegionField field = fem::recover_region(mesh, materials, u, mesh::kPdl);
+  // Part of each PDL node: from the elements over that part.
+  std::vector<int> part(n, INT_MIN);
+  for (int e = 0; e < mesh.n_elements(); ++e)
+    if (mesh.element_region[e] == mesh::kPdl)
+      for (int k = 0; k < mesh.nodes_per_element; ++k) part[mesh.element(e)[k]] = m.element_part[e];
+  MultiRootFePressure out;
+  out.tooth.name = "tooth";
+  for (const mesh::RootSpec& r : tooth.roots) {
+    RootFigures fig;
+    fig.name = r.name;
+    out.roots.push_back(fig);
+  }
+  const double band_top = mesh::outer_crest_z_mm(bone) - bone.pdl.crest_width_mm;
+  for (size_t i = 0; i < field.nodes.size(); ++i) {
+    const int v = field.nodes[i];
+    if (mesh.nodes[v].z() > band_top) continue;
+    const double p = fem::hydrostatic_pressure_kpa(field.stress_mpa.col(i));
+    for (RootFigures* fig : {&out.tooth, part[v] >= 0 ? &out.roots[part[v]] : nullptr}) {
+      if (!fig) continue;
+      fig->peak_compression_kpa = std::max(fig->peak_compression_kpa, p);
+      fig->peak_tension_kpa = std::max(fig->peak_tension_kpa, -p);
+    }
+  }
+  return out;
+}
+
+}  // namespace sharpey::analysis

@@ -1,0 +1,536 @@
+// build_multi_root_mesh(): faceted tooth surface, structured PDL prisms, bone box, TetGen.
+#include <Eigen/Geometry>
+#include <algorithm>
+#include <climits>
+#include <cmath>
+#include <map>
+#include <set>
+
+#include "detail/model_frame.h"
+#include "detail/model_mesher.h"
+#include "detail/planar_triangulation.h"
+#include "sharpey/core/constants.h"
+#include "sharpey/error.h"
+#include "sharpey/mesh/multi_root_tooth.h"
+#include "sharpey/mesh/second_order.h"
+#include "sharpey/mesh/tetrahedralize.h"
+
+namespace sharpey::mesh {
+namespace {
+
+using sharpey::core::kPi;
+constexpr double kDeg = kPi / 180.0;
+
+struct Tri {
+  std::array<int, 3> v;
+  int marker;
+  int part;  // INT_MIN: not on the tooth
+  bool to_tetgen;
+};
+
+double ellipse_perimeter(double a, double b) {
+  const double h = (a - b) * (a - b) / ((a + b) * (a + b));
+  return kPi * (a + b) * (1 + 3 * h / (10 + std::sqrt(4 - 3 * h)));
+}
+
+class Builder {
+ public:
+  Builder(const MultiRootTooth& tooth, const MultiRootBone& bone, const MultiRootMeshSizing& s)
+      : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {}
+
+  MultiRootMesh build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel);
+
+ private:
+  int add(const Eigen::Vector3d& p, int part) {
+    const int i = points_.add(p, detail::PointInfo{});
+    if (static_cast<int>(part_.size()) <= i) part_.resize(i + 1, INT_MIN);
+    if (part_[i] == INT_MIN) part_[i] = part;
+    return i;
+  }
+  std::vector<int> ring(double cx, double cy, double ax, double ay, double z, int n, int part) {
+    std::vector<int> r;
+    for (int i = 0; i < n; ++i) {
+      const double th = 2 * kPi * i / n;
+      r.push_back(add({cx + ax * std::cos(th), cy + ay * std::sin(th), z}, part));
+    }
+    return r;
+  }
+  void tri(int a, int b, int c, int marker, int part, const Eigen::Vector3d& outward,
+           bool to_tetgen = true) {
+    const auto& x = points_.points();
+    Tri t{{a, b, c}, marker, part, to_tetgen};
+    if ((x[b] - x[a]).cross(x[c] - x[a]).dot(outward) < 0) std::swap(t.v[1], t.v[2]);
+    tris_.push_back(t);
+  }
+  // Joins ring A to ring B (same counts, or one a pole); outward(centroid) orients.
+  template <class Out>
+  void join(const std::vector<int>& A, const std::vector<int>& B, int marker, int part,
+            const Out& outward) {
+    const auto& x = points_.points();
+    auto c3 = [&](int a, int b, int c) { return ((x[a] + x[b] + x[c]) / 3.0).eval(); };
+    if (A.size() == 1 || B.size() == 1) {
+      const int pole = A.size() == 1 ? A[0] : B[0];
+      const std::vector<int>& R = A.size() == 1 ? B : A;
+      for (size_t i = 0; i < R.size(); ++i) {
+        const int a = R[i], b = R[(i + 1) % R.size()];
+        tri(pole, a, b, marker, part, outward(c3(pole, a, b)));
+      }
+      return;
+    }
+    for (size_t i = 0; i < A.size(); ++i) {
+      const int a = A[i], b = A[(i + 1) % A.size()], c = B[(i + 1) % B.size()], d = B[i];
+      if ((x[a] - x[c]).squaredNorm() <= (x[b] - x[d]).squaredNorm()) {
+        tri(a, b, c, marker, part, outward(c3(a, b, c)));
+        tri(a, c, d, marker, part, outward(c3(a, c, d)));
+      } else {
+        tri(a, b, d, marker, part, outward(c3(a, b, d)));
+        tri(b, c, d, marker, part, outward(c3(b, c, d)));
+      }
+    }
+  }
+  void tooth_surface();
+  void pdl_layer();
+  void bone_block();
+
+  const MultiRootTooth& tooth_;
+  const MultiRootBone& bone_;
+  double h_;
+  int layers_;
+  detail::PointSet points_;
+  std::vector<int> part_;
+  std::vector<Tri> tris_;
+  std::vector<std::vector<int>> crest_rings_, socket_crests_;
+  std::set<std::array<int, 3>> flat_;  // roof and cylinder-end triangles (sorted vertices)
+  std::vector<std::array<int, 4>> pdl_tets_;
+  std::vector<int> pdl_tet_part_;
+  Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
+  Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
+};
+
+void Builder::tooth_surface() {
+  const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
+  const double Lc = tooth_.crown_length_mm, T = tooth_.trunk_length_mm;
+  const double zf = -T, zc = outer_crest_z_mm(bone_);
+  const int N = std::max(16, 4 * static_cast<int>(std::ceil(ellipse_perimeter(A, B) / (4 * h_))));
+  // Crown: a half-ellipsoid dome over the cervical ellipse, rings from the CEJ up to the pole.
+  const int n_crown =
+      std::max(3, static_cast<int>(std::ceil(0.5 * kPi * std::max(A, Lc) / (1.5 * h_))));
+  std::vector<std::vector<int>> crown;
+  for (int k = n_crown - 1; k >= 0; --k) {
+    const double phi = 0.5 * kPi * k / n_crown;
+    crown.push_back(
+        ring(0, 0, A * std::cos(phi), B * std::cos(phi), Lc * std::sin(phi), N, kTrunkPart));
+  }
+  const std::vector<int> top{add({0, 0, Lc}, kTrunkPart)};
+  auto dome_out = [&](const Eigen::Vector3d& c) {
+    return Eigen::Vector3d(c.x() / (A * A), c.y() / (B * B), c.z() / (Lc * Lc));
+  };
+  join(top, crown.front(), kCrownSurface, kTrunkPart, dome_out);
+  for (size_t k = 0; k + 1 < crown.size(); ++k)
+    join(crown[k], crown[k + 1], kCrownSurface, kTrunkPart, dome_out);
+  // Trunk: CEJ -> crest -> furcation plane.
+  auto trunk_ring = [&](double z) {
+    const double f = -z / T;
+    return ring(0, 0, A + (tooth_.furcation_half_x_mm - A) * f,
+                B + (tooth_.furcation_half_y_mm - B) * f, z, N, kTrunkPart);
+  };
+  auto lateral = [](const Eigen::Vector3d& c) { return Eigen::Vector3d(c.x(), c.y(), 0); };
+  std::vector<int> prev = crown.back();
+  const bool above =
+      zc > zf;  // crest on the trunk; else on the roots (level through the furcation)
+  const double z_split = above ? zc : zf;
+  const int n1 = std::max(1, static_cast<int>(std::ceil(-z_split / h_)));
+  for (int k = 1; k <= n1; ++k) {
+    std::vector<int> r = trunk_ring(z_split * k / n1);
+    join(prev, r, kExposedRoot, kTrunkPart, lateral);
+    prev = r;
+  }
+  if (above) {
+    crest_rings_.push_back(prev);
+    const int n2 = std::max(1, static_cast<int>(std::ceil((zc - zf) / h_)));
+    for (int k = 1; k <= n2; ++k) {
+      std::vector<int> r = trunk_ring(zc + (zf - zc) * k / n2);
+      join(prev, r, kRootSurface, kTrunkPart, lateral);
+      prev = r;
+    }
+  }
+  const std::vector<int> rim = prev;
+  // Roots: rings from the foot down, crowding toward the apex; the apex a pole.
+  std::vector<std::vector<int>> feet;
+  for (size_t r = 0; r < tooth_.roots.size(); ++r) {
+    const RootSpec& spec = tooth_.roots[r];
+    const int part = static_cast<int>(r);
+    const int n = std::max(
+        12, 4 * static_cast<int>(
+                    std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
+    const double slope = std::tan(spec.tilt_deg * kDeg);
+    const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
+    const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
+    auto centre = [&](double t) {
+      return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
+    };
+    auto out = [&](const Eigen::Vector3d& c) {
+      const Eigen::Vector2d o = centre(zf - c.z());
+      return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
+    };
+    // Depths of the rings: above the crest (crest below the furcation plane) uniform, below it
+    // crowding toward the apex; a cylinder ends with a ring at its full length and a flat disc.
+    const double tc = above ? 0.0 : zf - zc;
+    std::vector<double> depths;
+    const int m_up = tc > 0 ? std::max(1, static_cast<int>(std::ceil(tc / h_))) : 0;
+    for (int j = 0; j < m_up; ++j) depths.push_back(tc * j / m_up);
+    const double below = spec.length_mm - tc;
+    const int m_lo = std::max(4, static_cast<int>(std::ceil(below / h_)));
+    for (int j = 0; j < m_lo; ++j) {
+      const double v = static_cast<double>(j) / m_lo;
+      depths.push_back(tc + below * (1 - (1 - v) * (1 - v)));
+    }
+    const bool cylinder = spec.profile == RootProfile::kCylinder;
+    if (cylinder) depths.push_back(spec.length_mm);
+    std::vector<int> prev_r;
+    for (size_t j = 0; j < depths.size(); ++j) {
+      const double t = depths[j];
+      double rho = 1;
+      if (!cylinder)
+        rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
+      const Eigen::Vector2d c = centre(t);
+      std::vector<int> rr =
+          ring(c.x(), c.y(), spec.half_x_mm * rho, spec.half_y_mm * rho, zf - t, n, part);
+      if (j == 0) {
+        feet.push_back(rr);
+      } else {
+        join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
+      }
+      if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+      prev_r = rr;
+    }
+    const Eigen::Vector2d c = centre(spec.length_mm);
+    const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
+    const size_t before = tris_.size();
+    join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
+      return Eigen::Vector3d(0.2 * (q.x() - c.x()), 0.2 * (q.y() - c.y()), -1.0);
+    });
+    if (cylinder)
+      for (size_t i = before; i < tris_.size(); ++i) {
+        std::array<int, 3> g = tris_[i].v;
+        std::sort(g.begin(), g.end());
+        flat_.insert(g);
+      }
+  }
+  // Furcation roof: the rim minus the feet, triangulated in its plane.
+  std::vector<std::vector<Eigen::Vector2d>> loops;
+  std::vector<int> boundary;
+  for (const std::vector<int>* loop : [&] {
+         std::vector<const std::vector<int>*> l{&rim};
+         for (const auto& f : feet) l.push_back(&f);
+         return l;
+       }()) {
+    loops.emplace_back();
+    for (int i : *loop) {
+      loops.back().push_back(points_.points()[i].head<2>());
+      boundary.push_back(i);
+    }
+  }
+  std::vector<Eigen::Vector2d> pts2;
+  const std::vector<std::array<int, 3>> roof = detail::triangulate_planar(loops, h_, &pts2);
+  std::vector<int> index(pts2.size());
+  for (size_t i = 0; i < pts2.size(); ++i)
+    index[i] = i < boundary.size() ? boundary[i] : add({pts2[i].x(), pts2[i].y(), zf}, kRoofPart);
+  for (const auto& t : roof)
+    tri(index[t[0]], index[t[1]], index[t[2]], above ? kRootSurface : kExposedRoot, kRoofPart,
+        -Eigen::Vector3d::UnitZ());
+}
+
+void Builder::pdl_layer() {
+  const auto& x = points_.points();
+  const double zc = outer_crest_z_mm(bone_);
+  const double zf = -tooth_.trunk_length_mm;
+  const double lowest = lowest_apex_z_mm(tooth_);
+  // Normals: area-weighted over the attached triangles, except where the roof meets a wall (the
+  // rim, convex, and the roots' top rings, concave): there the bisector of the roof's and the
+  // wall's mean directions, so that a narrow strip of roof does not tilt the offset, mitred so
+  // that both faces keep the width (the socket has a sharp corner there).
+  std::map<int, Eigen::Vector3d> normal, wall, roof;
+  for (const Tri& t : tris_) {
+    if (t.marker != kRootSurface) continue;
+    const Eigen::Vector3d n = (x[t.v[1]] - x[t.v[0]]).cross(x[t.v[2]] - x[t.v[0]]);
+    for (int v : t.v) {
+      normal.emplace(v, Eigen::Vector3d::Zero()).first->second += n;
+      std::array<int, 3> g = t.v;
+      std::sort(g.begin(), g.end());
+      const bool flat = t.part == kRoofPart || flat_.count(g) > 0;
+      (flat ? roof : wall).emplace(v, Eigen::Vector3d::Zero()).first->second += n.normalized();
+    }
+  }
+  std::set<int> crest;
+  for (const auto& r : crest_rings_) crest.insert(r.begin(), r.end());
+  std::map<int, std::vector<int>> layer;  // per attached vertex: its points across the layer
+  for (auto& [v, n] : normal) {
+    double miter = 1.0;
+    if (roof.count(v) && wall.count(v)) {
+      const Eigen::Vector3d r = roof[v].normalized(), w = wall[v].normalized();
+      n = (r + w).normalized();
+      miter = 1.0 / std::max(n.dot(r), 0.6);
+    }
+    if (crest.count(v)) n.z() = 0;  // the socket's crest ring stays in the crest plane
+    n.normalize();
+    const int part = part_[v];
+    const double apex = part >= 0 ? zf - tooth_.roots[part].length_mm : lowest;
+    const double top = part >= 0 ? std::min(zc, zf) : zc;
+    const double w = detail::pdl_width_profile(bone_.pdl, top, apex, x[v].z());
+    std::vector<int> l{v};
+    for (int k = 1; k <= layers_; ++k) {
+      const Eigen::Vector3d p = x[v] + (static_cast<double>(k) / layers_) * w * miter * n;
+      l.push_back(points_.add(p, detail::PointInfo{}));
+    }
+    layer[v] = l;
+  }
+  part_.resize(points_.size(), INT_MIN);
+  const size_t n_tris = tris_.size();
+  for (size_t i = 0; i < n_tris; ++i) {
+    const Tri t = tris_[i];
+    if (t.marker != kRootSurface) continue;
+    std::array<int, 3> v = t.v;
+    std::sort(v.begin(), v.end());
+    for (int k = 0; k < layers_; ++k) {
+      const int a = layer[v[0]][k], b = layer[v[1]][k], c = layer[v[2]][k];
+      const int a1 = layer[v[0]][k + 1], b1 = layer[v[1]][k + 1], c1 = layer[v[2]][k + 1];
+      for (const std::array<int, 4>& e :
+           {std::array<int, 4>{a, a1, b1, c1}, std::array<int, 4>{a, b, c, c1},
+            std::array<int, 4>{a, b, c1, b1}}) {
+        pdl_tets_.push_back(e);
+        pdl_tet_part_.push_back(t.part);
+      }
+    }
+    const Eigen::Vector3d out = (x[t.v[1]] - x[t.v[0]]).cross(x[t.v[2]] - x[t.v[0]]);
+    tri(layer[t.v[0]][layers_], layer[t.v[1]][layers_], layer[t.v[2]][layers_], kSocketSurface,
+        INT_MIN, out);
+  }
+  for (auto& tet : pdl_tets_) {
+    const double vol =
+        (x[tet[1]] - x[tet[0]]).dot((x[tet[2]] - x[tet[0]]).cross(x[tet[3]] - x[tet[0]]));
+    if (vol < 0) std::swap(tet[1], tet[2]);
+  }
+  // Free top of the PDL at the crest, split like the prisms' side faces.
+  for (const std::vector<int>& ring_c : crest_rings_) {
+    const int n = static_cast<int>(ring_c.size());
+    std::vector<int> socket;
+    for (int i = 0; i < n; ++i) {
+      const int lo = std::min(ring_c[i], ring_c[(i + 1) % n]);
+      const int hi = std::max(ring_c[i], ring_c[(i + 1) % n]);
+      for (int k = 0; k < layers_; ++k) {
+        tri(layer[lo][k], layer[hi][k], layer[hi][k + 1], kPdlCrest, INT_MIN,
+            Eigen::Vector3d::UnitZ(), false);
+        tri(layer[lo][k], layer[hi][k + 1], layer[lo][k + 1], kPdlCrest, INT_MIN,
+            Eigen::Vector3d::UnitZ(), false);
+      }
+      socket.push_back(layer[ring_c[i]][layers_]);
+    }
+    socket_crests_.push_back(socket);
+  }
+  // A point inside the PDL, mid-way across at the first root's mid-length.
+  for (const auto& [v, l] : layer) {
+    if (part_[v] == 0 && x[v].z() < zf - 0.4 * tooth_.roots[0].length_mm) {
+      hole_ = 0.5 * (x[l.front()] + x[l.back()]);
+      break;
+    }
+  }
+}
+
+void Builder::bone_block() {
+  const auto& x = points_.points();
+  const double zc = outer_crest_z_mm(bone_);
+  Eigen::Vector3d lo(1e300, 1e300, 1e300), hi(-1e300, -1e300, -1e300);
+  for (const Tri& t : tris_)
+    if (t.marker == kSocketSurface)
+      for (int v : t.v) lo = lo.cwiseMin(x[v]), hi = hi.cwiseMax(x[v]);
+  const double xL = lo.x() - 2.0, xB = hi.x() + 1.5, yD = lo.y() - 1.5, yM = hi.y() + 1.5;
+  const double zb = lo.z() - 3.0;
+  const double hb = 1.5 * h_;
+  // Rectangle boundary, counter-clockwise from the disto-lingual corner, corners included once.
+  const std::array<Eigen::Vector2d, 4> corner{Eigen::Vector2d(xL, yD), Eigen::Vector2d(xB, yD),
+                                              Eigen::Vector2d(xB, yM), Eigen::Vector2d(xL, yM)};
+  std::vector<Eigen::Vector2d> rect;
+  std::array<std::vector<Eigen::Vector2d>, 4> side_pts;
+  for (int s = 0; s < 4; ++s) {
+    const Eigen::Vector2d a = corner[s], b = corner[(s + 1) % 4];
+    const int n = std::max(2, static_cast<int>(std::ceil((b - a).norm() / hb)));
+    for (int k = 0; k <= n; ++k) {
+      const Eigen::Vector2d p = a + (b - a) * (static_cast<double>(k) / n);
+      side_pts[s].push_back(p);
+      if (k < n) rect.push_back(p);
+    }
+  }
+  auto planar = [&](const std::vector<std::vector<Eigen::Vector2d>>& loops,
+                    const std::vector<int>& known, double z, int marker,
+                    const Eigen::Vector3d& out) {
+    std::vector<Eigen::Vector2d> p2;
+    const auto t2 = detail::triangulate_planar(loops, hb, &p2);
+    std::vector<int> idx(p2.size());
+    for (size_t i = 0; i < p2.size(); ++i)
+      idx[i] =
+          i < known.size() && known[i] >= 0 ? known[i] : add({p2[i].x(), p2[i].y(), z}, INT_MIN);
+    for (const auto& t : t2) tri(idx[t[0]], idx[t[1]], idx[t[2]], marker, INT_MIN, out);
+  };
+  // Top: the rectangle around the socket's crest ring.
+  std::vector<std::vector<Eigen::Vector2d>> top_loops{rect};
+  std::vector<int> known(rect.size(), -1);
+  for (const std::vector<int>& loop : socket_crests_) {
+    top_loops.emplace_back();
+    for (int v : loop) {
+      top_loops.back().push_back(x[v].head<2>());
+      known.push_back(v);
+    }
+  }
+  planar(top_loops, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
+  planar({rect}, {}, zb, kFixedBone, -Eigen::Vector3d::UnitZ());
+  // Sides.
+  const int nz = std::max(2, static_cast<int>(std::ceil((zc - zb) / (2 * h_))));
+  const std::array<Eigen::Vector3d, 4> outward{-Eigen::Vector3d::UnitY(), Eigen::Vector3d::UnitX(),
+                                               Eigen::Vector3d::UnitY(), -Eigen::Vector3d::UnitX()};
+  const std::array<int, 4> marker{kFixedBone, kFreeBone, kFixedBone, kFreeBone};
+  for (int s = 0; s < 4; ++s) {
+    std::vector<std::vector<int>> rows;
+    for (int j = 0; j <= nz; ++j) {
+      const double z = zb + (zc - zb) * j / nz;
+      std::vector<int> row;
+      for (const Eigen::Vector2d& p : side_pts[s]) row.push_back(add({p.x(), p.y(), z}, INT_MIN));
+      rows.push_back(row);
+    }
+    for (int j = 0; j < nz; ++j)
+      for (size_t c = 0; c + 1 < rows[j].size(); ++c) {
+        tri(rows[j][c], rows[j][c + 1], rows[j + 1][c + 1], marker[s], INT_MIN, outward[s]);
+        tri(rows[j][c], rows[j + 1][c + 1], rows[j + 1][c], marker[s], INT_MIN, outward[s]);
+      }
+  }
+  bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
+}
+
+MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel) {
+  tooth_surface();
+  pdl_layer();
+  bone_block();
+  // PLC: every triangle but the PDL's free top.
+  Plc plc;
+  std::vector<int> to_plc(points_.size(), -1), from_plc;
+  for (const Tri& t : tris_) {
+    if (!t.to_tetgen) continue;
+    std::array<int, 3> q{};
+    for (int k = 0; k < 3; ++k) {
+      int& i = to_plc[t.v[k]];
+      if (i < 0) {
+        i = static_cast<int>(plc.points.size());
+        plc.points.push_back(points_.points()[t.v[k]]);
+        from_plc.push_back(t.v[k]);
+      }
+      q[k] = i;
+    }
+    plc.triangles.push_back(q);
+    plc.triangle_marker.push_back(t.marker);
+  }
+  auto bound = [](double e) { return e * e * e / (6.0 * std::sqrt(2.0)); };
+  plc.regions.push_back({Eigen::Vector3d(0, 0, 0.5 * tooth_.crown_length_mm), kTooth,
+                         bound(std::max(2.0 * h_, sizing.bone_edge_mm))});
+  plc.regions.push_back({bone_seed_, kCancellousBone, bound(sizing.bone_edge_mm)});
+  plc.holes.push_back(hole_);
+  TetgenOptions options;
+  options.preserve_surface = true;
+  options.second_order = false;
+  options.cancel = cancel;
+  options.stage = "tetrahedralising the multi-rooted tooth and its bone";
+  std::vector<int> point_node;
+  const VolumeMesh tet = tetrahedralize(plc, options, &point_node);
+
+  VolumeMesh linear;
+  linear.nodes_per_element = 4;
+  linear.nodes_per_face = 3;
+  linear.nodes = points_.points();
+  std::vector<int> node_map(tet.n_nodes(), -1);
+  for (size_t i = 0; i < point_node.size(); ++i)
+    if (point_node[i] >= 0) node_map[point_node[i]] = from_plc[i];
+  for (int i = 0; i < tet.n_nodes(); ++i) {
+    if (node_map[i] >= 0) continue;
+    node_map[i] = static_cast<int>(linear.nodes.size());
+    linear.nodes.push_back(tet.nodes[i]);
+  }
+  MultiRootMesh out;
+  for (int e = 0; e < tet.n_elements(); ++e) {
+    for (int k = 0; k < 4; ++k) linear.elements.push_back(node_map[tet.element(e)[k]]);
+    linear.element_region.push_back(tet.element_region[e]);
+    out.element_part.push_back(INT_MIN);
+  }
+  // The preserved triangles must be element faces, or the PDL would not conform.
+  std::set<std::array<int, 3>> faces;
+  for (int e = 0; e < linear.n_elements(); ++e) {
+    const int* t = linear.element(e);
+    for (const auto& f :
+         {std::array<int, 3>{t[0], t[1], t[2]}, std::array<int, 3>{t[0], t[1], t[3]},
+          std::array<int, 3>{t[0], t[2], t[3]}, std::array<int, 3>{t[1], t[2], t[3]}}) {
+      std::array<int, 3> g = f;
+      std::sort(g.begin(), g.end());
+      faces.insert(g);
+    }
+  }
+  int missing = 0;
+  for (const Tri& t : tris_) {
+    if (!t.to_tetgen) continue;
+    std::array<int, 3> g = t.v;
+    std::sort(g.begin(), g.end());
+    missing += faces.count(g) == 0;
+  }
+  if (missing > 0)
+    throw MeshError("meshing the multi-rooted tooth: TetGen changed " + std::to_string(missing) +
+                    " preserved surface triangles, so the PDL would not conform");
+  for (size_t i = 0; i < pdl_tets_.size(); ++i) {
+    linear.elements.insert(linear.elements.end(), pdl_tets_[i].begin(), pdl_tets_[i].end());
+    linear.element_region.push_back(kPdl);
+    out.element_part.push_back(pdl_tet_part_[i]);
+  }
+  for (const Tri& t : tris_) {
+    linear.faces.insert(linear.faces.end(), t.v.begin(), t.v.end());
+    linear.face_marker.push_back(t.marker);
+  }
+  out.node_part.assign(linear.nodes.size(), INT_MIN);
+  for (const Tri& t : tris_)
+    if (t.part != INT_MIN)
+      for (int v : t.v) out.node_part[v] = part_[v];
+  out.mesh = sizing.second_order ? make_second_order(linear) : linear;
+  out.node_part.resize(out.mesh.nodes.size(), INT_MIN);
+  return out;
+}
+
+}  // namespace
+
+void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                              const MultiRootMeshSizing& sizing) {
+  validate(tooth, bone);
+  if (bone.furcation.degree != 0 || bone.loss.defect_depth_mm > 0)
+    throw InputError("furcation.degree",
+                     "the multi-rooted mesh covers horizontal loss only so far (no furcation "
+                     "lesion, no angular defect); use the thin-layer estimate for those");
+  const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
+  if (std::abs(gap) < 0.3)
+    throw InputError("bone_loss_mm",
+                     "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
+                     "furcation plane; change the horizontal loss a little");
+  if (gap < 0 && bone.septum_to_roof)
+    throw InputError("bone_loss_mm",
+                     "with the crest below the furcation plane the mesh covers a level crest "
+                     "through the furcation only (septum_to_roof false); a septum up to the roof "
+                     "is not meshed yet: use the thin-layer estimate");
+  if (!(sizing.edge_mm >= 0.2 && sizing.edge_mm <= 2.0) || sizing.pdl_layers < 1 ||
+      sizing.pdl_layers > 3 || !(sizing.bone_edge_mm >= sizing.edge_mm))
+    throw InputError("mesh",
+                     "multi-rooted mesh sizes: edge 0.2 to 2 mm, bone edge at least the "
+                     "edge, 1 to 3 PDL layers");
+}
+
+MultiRootMesh build_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                                    const MultiRootMeshSizing& sizing,
+                                    const std::atomic<bool>* cancel) {
+  validate_multi_root_mesh(tooth, bone, sizing);
+  Builder b(tooth, bone, sizing);
+  return b.build(sizing, cancel);
+}
+
+}  // namespace sharpey::mesh

@@ -1,0 +1,658 @@
+// Multi-rooted teeth: handbook values, validation, surface quadrature and attachment.
+#include "sharpey/mesh/multi_root_tooth.h"
+
+#include <Eigen/Geometry>
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <sstream>
+
+#include "detail/model_frame.h"
+#include "detail/model_mesher.h"
+#include "sharpey/core/check.h"
+#include "sharpey/core/constants.h"
+#include "sharpey/error.h"
+
+namespace sharpey::mesh {
+namespace {
+
+using sharpey::core::kPi;
+constexpr double kDeg = kPi / 180.0;
+
+std::string num(double v) {
+  std::ostringstream s;
+  s << v;
+  return s.str();
+}
+
+RootSpec root(const char* name, double fx, double fy, double hx, double hy, double length,
+              double tilt, double direction) {
+  RootSpec r;
+  r.name = name;
+  r.foot_x_mm = fx;
+  r.foot_y_mm = fy;
+  r.half_x_mm = hx;
+  r.half_y_mm = hy;
+  r.length_mm = length;
+  r.tilt_deg = tilt;
+  r.tilt_direction_deg = direction;
+  return r;
+}
+
+// Root section at depth t (0 at the furcation plane, length at the apex): centre and half-widths
+// with their derivatives in t.
+struct RootSlice {
+  double cx, cy, ax, ay, dcx, dcy, dax, day;
+};
+RootSlice root_slice(const RootSpec& r, double t) {
+  const double slope = std::tan(r.tilt_deg * kDeg);
+  const double dx = slope * std::cos(r.tilt_direction_deg * kDeg);
+  const double dy = slope * std::sin(r.tilt_direction_deg * kDeg);
+  RootSlice s{r.foot_x_mm + t * dx, r.foot_y_mm + t * dy, r.half_x_mm, r.half_y_mm, dx, dy, 0, 0};
+  if (r.profile == RootProfile::kTapered) {
+    const double m = r.taper_fullness, q = std::clamp(t / r.length_mm, 0.0, 1.0);
+    const double rho = std::sqrt(std::max(0.0, 1 - std::pow(q, m)));
+    const double drho = rho > 0 ? -m * std::pow(q, m - 1) / (2 * rho * r.length_mm) : 0.0;
+    s.ax *= rho;
+    s.ay *= rho;
+    s.dax = r.half_x_mm * drho;
+    s.day = r.half_y_mm * drho;
+  }
+  return s;
+}
+
+double furcation_z(const MultiRootTooth& t) { return -t.trunk_length_mm; }
+
+// 2-D convex hull (Andrew's monotone chain), counter-clockwise, with the root index per vertex.
+struct HullPoint {
+  Eigen::Vector2d p;
+  int root;
+};
+std::vector<HullPoint> convex_hull(std::vector<HullPoint> pts) {
+  std::sort(pts.begin(), pts.end(), [](const HullPoint& a, const HullPoint& b) {
+    return a.p.x() < b.p.x() || (a.p.x() == b.p.x() && a.p.y() < b.p.y());
+  });
+  if (pts.size() < 3) return pts;
+  auto cross = [](const Eigen::Vector2d& o, const Eigen::Vector2d& a, const Eigen::Vector2d& b) {
+    return (a.x() - o.x()) * (b.y() - o.y()) - (a.y() - o.y()) * (b.x() - o.x());
+  };
+  std::vector<HullPoint> h(2 * pts.size());
+  size_t k = 0;
+  for (size_t i = 0; i < pts.size(); ++i) {
+    while (k >= 2 && cross(h[k - 2].p, h[k - 1].p, pts[i].p) <= 0) --k;
+    h[k++] = pts[i];
+  }
+  for (size_t i = pts.size() - 1, lo = k + 1; i > 0; --i) {
+    while (k >= lo && cross(h[k - 2].p, h[k - 1].p, pts[i - 1].p) <= 0) --k;
+    h[k++] = pts[i - 1];
+  }
+  h.resize(k - 1);
+  return h;
+}
+
+// Hull of the roots' sections at height z (roots that reach z), 48 points per section.
+std::vector<HullPoint> roots_hull(const MultiRootTooth& tooth, double z) {
+  std::vector<HullPoint> pts;
+  const double zf = furcation_z(tooth);
+  for (size_t r = 0; r < tooth.roots.size(); ++r) {
+    const RootSpec& spec = tooth.roots[r];
+    const double t = zf - z;
+    if (t < -1e-9 || t > spec.length_mm) continue;
+    const RootSlice s = root_slice(spec, std::max(0.0, t));
+    for (int i = 0; i < 48; ++i) {
+      const double th = 2 * kPi * i / 48;
+      pts.push_back(
+          {{s.cx + s.ax * std::cos(th), s.cy + s.ay * std::sin(th)}, static_cast<int>(r)});
+    }
+  }
+  return convex_hull(pts);
+}
+
+// Signed distance of p inside a counter-clockwise convex polygon (positive inside).
+double inside_depth(const std::vector<HullPoint>& hull, const Eigen::Vector2d& p) {
+  if (hull.size() < 3) return -1.0;
+  double d = 1e300;
+  for (size_t i = 0; i < hull.size(); ++i) {
+    const Eigen::Vector2d a = hull[i].p, b = hull[(i + 1) % hull.size()].p;
+    const Eigen::Vector2d e = (b - a).normalized();
+    d = std::min(d, e.x() * (p.y() - a.y()) - e.y() * (p.x() - a.x()));
+  }
+  return d;
+}
+
+Eigen::Vector2d entrance_direction(FurcationEntrance e) {
+  switch (e) {
+    case FurcationEntrance::kBuccal:
+      return {1, 0};
+    case FurcationEntrance::kLingual:
+      return {-1, 0};
+    case FurcationEntrance::kMesial:
+      return {0, 1};
+    case FurcationEntrance::kDistal:
+      return {0, -1};
+  }
+  return {1, 0};
+}
+
+// Does the hull of the feet have an edge between two different roots facing `dir` (within 60
+// degrees)? Then a probe from that side enters between the roots.
+bool entrance_exists(const MultiRootTooth& tooth, FurcationEntrance e) {
+  const std::vector<HullPoint> hull = roots_hull(tooth, furcation_z(tooth));
+  const Eigen::Vector2d dir = entrance_direction(e);
+  for (size_t i = 0; i < hull.size(); ++i) {
+    const HullPoint& a = hull[i];
+    const HullPoint& b = hull[(i + 1) % hull.size()];
+    if (a.root == b.root) continue;
+    const Eigen::Vector2d edge = (b.p - a.p).normalized();
+    const Eigen::Vector2d outward(edge.y(), -edge.x());  // counter-clockwise hull
+    if (outward.dot(dir) > 0.5) return true;
+  }
+  return false;
+}
+
+double support(const std::vector<HullPoint>& hull, const Eigen::Vector2d& dir) {
+  double s = -1e300;
+  for (const HullPoint& h : hull) s = std::max(s, h.p.dot(dir));
+  return s;
+}
+
+double representative_depth(const FurcationInvolvement& f) {
+  if (f.horizontal_mm > 0) return f.horizontal_mm;
+  return f.degree == 1 ? 2.0 : 4.0;
+}
+
+void check_positive(const std::string& key, const std::string& what, double v) {
+  if (v > 0 && std::isfinite(v)) return;
+  throw InputError(key, what + " " + num(v) + " mm must be a positive length (" + key +
+                            "); give the length in mm");
+}
+
+}  // namespace
+
+std::string to_string(MultiRootType type) {
+  switch (type) {
+    case MultiRootType::kMaxillaryFirstMolar:
+      return "maxillary_first_molar";
+    case MultiRootType::kMaxillarySecondMolar:
+      return "maxillary_second_molar";
+    case MultiRootType::kMandibularFirstMolar:
+      return "mandibular_first_molar";
+    case MultiRootType::kMandibularSecondMolar:
+      return "mandibular_second_molar";
+    case MultiRootType::kMaxillaryFirstPremolarTwoRoots:
+      return "maxillary_first_premolar_two_roots";
+  }
+  return "?";
+}
+
+std::vector<MultiRootType> all_multi_root_types() {
+  return {MultiRootType::kMaxillaryFirstMolar, MultiRootType::kMaxillarySecondMolar,
+          MultiRootType::kMandibularFirstMolar, MultiRootType::kMandibularSecondMolar,
+          MultiRootType::kMaxillaryFirstPremolarTwoRoots};
+}
+
+MultiRootType multi_root_type_from_string(const std::string& name) {
+  std::string known;
+  for (MultiRootType t : all_multi_root_types()) {
+    if (to_string(t) == name) return t;
+    known += (known.empty() ? "" : ", ") + to_string(t);
+  }
+  throw InputError("tooth.type",
+                   "unknown multi-rooted tooth \"" + name + "\"; use one of " + known);
+}
+
+std::string to_string(FurcationEntrance e) {
+  switch (e) {
+    case FurcationEntrance::kBuccal:
+      return "buccal";
+    case FurcationEntrance::kLingual:
+      return "lingual";
+    case FurcationEntrance::kMesial:
+      return "mesial";
+    case FurcationEntrance::kDistal:
+      return "distal";
+  }
+  return "?";
+}
+
+FurcationEntrance furcation_entrance_from_string(const std::string& name) {
+  for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual,
+                              FurcationEntrance::kMesial, FurcationEntrance::kDistal})
+    if (to_string(e) == name) return e;
+  throw InputError("furcation.entrances", "unknown furcation entrance \"" + name +
+                                              "\"; use buccal, lingual, mesial or distal");
+}
+
+// Values and their status: docs/molars.md, table "Multi-rooted tooth dimensions".
+MultiRootTooth multi_root_handbook(MultiRootType type) {
+  MultiRootTooth t;
+  t.type = type;
+  switch (type) {
+    case MultiRootType::kMandibularFirstMolar:
+      t.crown_length_mm = 7.5;
+      t.trunk_length_mm = 3.0;
+      t.cervix_half_x_mm = 4.5, t.cervix_half_y_mm = 4.5;
+      t.furcation_half_x_mm = 4.4, t.furcation_half_y_mm = 4.3;
+      t.roots = {root("mesial", 0, 2.1, 3.4, 1.8, 11.0, 8, 90),
+                 root("distal", 0, -2.2, 3.0, 1.6, 11.0, 10, -90)};
+      break;
+    case MultiRootType::kMandibularSecondMolar:
+      t.crown_length_mm = 7.0;
+      t.trunk_length_mm = 3.0;
+      t.cervix_half_x_mm = 4.5, t.cervix_half_y_mm = 4.0;
+      t.furcation_half_x_mm = 4.4, t.furcation_half_y_mm = 3.8;
+      t.roots = {root("mesial", 0, 1.8, 3.2, 1.6, 10.0, 5, 90),
+                 root("distal", 0, -1.9, 2.9, 1.5, 10.0, 5, -90)};
+      break;
+    case MultiRootType::kMaxillaryFirstMolar:
+      t.crown_length_mm = 7.5;
+      t.trunk_length_mm = 4.0;
+      t.cervix_half_x_mm = 5.0, t.cervix_half_y_mm = 4.0;
+      t.furcation_half_x_mm = 4.8, t.furcation_half_y_mm = 3.8;
+      t.roots = {root("mesiobuccal", 2.0, 1.6, 1.7, 1.2, 8.0, 8, 30),
+                 root("distobuccal", 2.0, -1.7, 1.4, 1.1, 8.0, 10, -45),
+                 root("palatal", -2.6, 0, 1.8, 2.0, 9.0, 15, 180)};
+      break;
+    case MultiRootType::kMaxillarySecondMolar:
+      t.crown_length_mm = 7.0;
+      t.trunk_length_mm = 4.5;
+      t.cervix_half_x_mm = 5.0, t.cervix_half_y_mm = 3.5;
+      t.furcation_half_x_mm = 4.8, t.furcation_half_y_mm = 3.3;
+      t.roots = {root("mesiobuccal", 2.1, 1.3, 2.0, 1.1, 6.5, 5, 30),
+                 root("distobuccal", 2.1, -1.3, 1.7, 1.0, 6.5, 5, -45),
+                 root("palatal", -2.4, 0, 2.2, 2.1, 7.5, 10, 180)};
+      break;
+    case MultiRootType::kMaxillaryFirstPremolarTwoRoots:
+      t.crown_length_mm = 8.5;
+      t.trunk_length_mm = 7.0;
+      t.cervix_half_x_mm = 4.0, t.cervix_half_y_mm = 2.5;
+      t.furcation_half_x_mm = 3.6, t.furcation_half_y_mm = 2.1;
+      t.roots = {root("buccal", 1.8, 0, 1.4, 1.5, 7.0, 8, 0),
+                 root("palatal", -1.8, 0, 1.4, 1.5, 7.0, 8, 180)};
+      break;
+  }
+  return t;
+}
+
+std::string multi_root_handbook_status(MultiRootType type) {
+  const std::string wheeler =
+      "crown and root lengths and cervical widths: Wheeler's Dental Anatomy Table 1-1 (mem, "
+      "check-values.md section 11); root feet, divergence and taper: chosen to fit the cervix, "
+      "not measured";
+  switch (type) {
+    case MultiRootType::kMandibularFirstMolar:
+      return wheeler +
+             "; root trunk 3.0 mm: pub (prefurcation-area biometric study of 96 mandibular first "
+             "molars: buccal 3.07 +- 0.82, lingual 3.54 +- 0.73 mm; abstract)";
+    case MultiRootType::kMandibularSecondMolar:
+      return wheeler +
+             "; root trunk 3.0 mm: pub (Mandelaris, Wang, MacNeil 1998: mandibular molar trunks "
+             "2.23 to 2.93 mm; abstract), rounded up";
+    case MultiRootType::kMaxillaryFirstMolar:
+      return wheeler +
+             "; root trunk 4.0 mm: pub (Gher and Dunlap 1985, J Periodontol 56:39: furcation "
+             "entrances 3.6 mesial, 4.2 buccal, 4.8 distal mm below the CEJ; abstract)";
+    case MultiRootType::kMaxillarySecondMolar:
+      return wheeler + "; root trunk 4.5 mm: mem (second molars have longer trunks)";
+    case MultiRootType::kMaxillaryFirstPremolarTwoRoots:
+      return "Wheeler's Table 1-1 (pub, secondary copy: check-values.md section 3); the split "
+             "half-way down the root (trunk 7.0 mm): mem";
+  }
+  return "";
+}
+
+double jepsen_root_area_mm2(MultiRootType type) {
+  switch (type) {
+    case MultiRootType::kMaxillaryFirstMolar:
+      return 433;
+    case MultiRootType::kMaxillarySecondMolar:
+      return 431;
+    case MultiRootType::kMandibularFirstMolar:
+      return 431;
+    case MultiRootType::kMandibularSecondMolar:
+      return 426;
+    case MultiRootType::kMaxillaryFirstPremolarTwoRoots:
+      return 234;
+  }
+  return 0;
+}
+
+double lowest_apex_z_mm(const MultiRootTooth& tooth) {
+  double z = furcation_z(tooth);
+  for (const RootSpec& r : tooth.roots) z = std::min(z, furcation_z(tooth) - r.length_mm);
+  return z;
+}
+
+double outer_crest_z_mm(const MultiRootBone& bone) {
+  return -(bone.crest_below_cej_mm + bone.loss.horizontal_mm);
+}
+
+double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance entrance) {
+  if (!entrance_exists(tooth, entrance)) {
+    throw InputError("furcation.entrances",
+                     "the " + to_string(entrance) + " side of this " + to_string(tooth.type) +
+                         " has no furcation entrance (no gap between two roots faces it); use "
+                         "buccal or lingual for mandibular molars, buccal, mesial or distal for "
+                         "maxillary molars, mesial or distal for the two-rooted premolar");
+  }
+  const std::vector<HullPoint> hull = roots_hull(tooth, furcation_z(tooth));
+  const Eigen::Vector2d d = entrance_direction(entrance);
+  return support(hull, d) + support(hull, -d);
+}
+
+void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
+  check_positive("tooth.crown_length_mm", "crown length", tooth.crown_length_mm);
+  check_positive("tooth.trunk_length_mm", "root trunk length", tooth.trunk_length_mm);
+  check_positive("tooth.cervix_half_x_mm", "cervical buccolingual half-width",
+                 tooth.cervix_half_x_mm);
+  check_positive("tooth.cervix_half_y_mm", "cervical mesiodistal half-width",
+                 tooth.cervix_half_y_mm);
+  check_positive("tooth.furcation_half_x_mm", "furcation buccolingual half-width",
+                 tooth.furcation_half_x_mm);
+  check_positive("tooth.furcation_half_y_mm", "furcation mesiodistal half-width",
+                 tooth.furcation_half_y_mm);
+  if (tooth.roots.empty() || tooth.roots.size() > 3) {
+    throw InputError("tooth.roots",
+                     "a multi-rooted tooth has 2 or 3 roots (1 for verification), "
+                     "not " +
+                         std::to_string(tooth.roots.size()) + "; give 2 or 3 roots");
+  }
+  for (size_t i = 0; i < tooth.roots.size(); ++i) {
+    const RootSpec& r = tooth.roots[i];
+    const std::string key = "tooth.roots[" + std::to_string(i) + "]";
+    check_positive(key + ".half_x_mm", r.name + " root buccolingual half-width", r.half_x_mm);
+    check_positive(key + ".half_y_mm", r.name + " root mesiodistal half-width", r.half_y_mm);
+    check_positive(key + ".length_mm", r.name + " root length", r.length_mm);
+    if (!(r.tilt_deg >= 0 && r.tilt_deg <= 30)) {
+      throw InputError(key + ".tilt_deg", r.name + " root divergence " + num(r.tilt_deg) +
+                                              " deg is outside 0 to 30 deg; use a value there");
+    }
+    if (!(r.taper_fullness >= kMinRootTaperFullness && r.taper_fullness <= kMaxRootTaperFullness)) {
+      throw InputError(key + ".taper_fullness",
+                       r.name + " root taper fullness " + num(r.taper_fullness) + " is outside " +
+                           num(kMinRootTaperFullness) + " to " + num(kMaxRootTaperFullness) +
+                           "; use a value there");
+    }
+    for (int k = 0; k < 72; ++k) {
+      const double th = 2 * kPi * k / 72;
+      const double x = r.foot_x_mm + r.half_x_mm * std::cos(th);
+      const double y = r.foot_y_mm + r.half_y_mm * std::sin(th);
+      const double e =
+          std::pow(x / tooth.furcation_half_x_mm, 2) + std::pow(y / tooth.furcation_half_y_mm, 2);
+      if (e > 1) {
+        throw InputError(key, "the " + r.name + " root's foot reaches outside the trunk at the " +
+                                  "furcation plane (at x " + num(x) + ", y " + num(y) +
+                                  " mm); move the foot toward the axis or narrow the root");
+      }
+      for (size_t j = 0; j < tooth.roots.size(); ++j) {
+        if (j == i) continue;
+        const RootSpec& o = tooth.roots[j];
+        if (std::pow((x - o.foot_x_mm) / o.half_x_mm, 2) +
+                std::pow((y - o.foot_y_mm) / o.half_y_mm, 2) <
+            1) {
+          throw InputError(key, "the feet of the " + r.name + " and " + o.name +
+                                    " roots overlap at the furcation plane; move them apart or "
+                                    "narrow them");
+        }
+      }
+    }
+  }
+  if (!(bone.crest_below_cej_mm >= 0 && bone.crest_below_cej_mm <= 4)) {
+    throw InputError("bone.crest_below_cej_mm", "healthy crest depth " +
+                                                    num(bone.crest_below_cej_mm) +
+                                                    " mm is outside 0 to 4 mm; common practice "
+                                                    "is 1 to 2 mm");
+  }
+  if (!(bone.loss.horizontal_mm >= 0) || !(bone.loss.defect_depth_mm >= 0)) {
+    throw InputError("bone_loss_mm", "bone loss must not be negative (horizontal " +
+                                         num(bone.loss.horizontal_mm) + " mm, defect " +
+                                         num(bone.loss.defect_depth_mm) + " mm)");
+  }
+  if (!(bone.loss.defect_width_deg > 0 && bone.loss.defect_width_deg <= 180)) {
+    throw InputError("defect_width_deg", "angular defect width " + num(bone.loss.defect_width_deg) +
+                                             " deg is outside 0 to 180 deg; use a value there");
+  }
+  const double shortest = [&] {
+    double z = 1e300;
+    for (const RootSpec& r : tooth.roots) z = std::min(z, r.length_mm);
+    return z;
+  }();
+  const double deepest_bone =
+      bone.crest_below_cej_mm + bone.loss.horizontal_mm + bone.loss.defect_depth_mm;
+  const double limit = tooth.trunk_length_mm + shortest - 2.0;
+  if (deepest_bone > limit) {
+    throw InputError("bone_loss_mm",
+                     "bone level " + num(deepest_bone) +
+                         " mm below the CEJ leaves less than 2 mm "
+                         "of the shortest root (apex " +
+                         num(tooth.trunk_length_mm + shortest) +
+                         " mm below the CEJ) in bone; use a bone level of at most " + num(limit) +
+                         " mm");
+  }
+  const FurcationInvolvement& f = bone.furcation;
+  if (f.degree < 0 || f.degree > 3) {
+    throw InputError("furcation.degree", "furcation degree " + std::to_string(f.degree) +
+                                             " is not 0 (none), 1, 2 or 3 (Hamp, Nyman and "
+                                             "Lindhe 1975)");
+  }
+  if (f.degree == 0) return;
+  if (f.entrances.empty()) {
+    throw InputError("furcation.entrances", "a furcation of degree " + std::to_string(f.degree) +
+                                                " needs at least one entrance (buccal, lingual, "
+                                                "mesial or distal)");
+  }
+  if (!(f.vertical_mm > 0 && f.vertical_mm <= shortest - 2.0)) {
+    throw InputError("furcation.vertical_mm",
+                     "furcation lesion depth below the roof " + num(f.vertical_mm) +
+                         " mm is outside 0 to " + num(shortest - 2.0) +
+                         " mm (at least 2 mm of the shortest root stays in bone); use a value "
+                         "there");
+  }
+  for (FurcationEntrance e : f.entrances) {
+    const double through = furcation_through_depth_mm(tooth, e);
+    if (f.degree == 3) {
+      if (f.horizontal_mm > 0 && f.horizontal_mm < through) {
+        throw InputError("furcation.horizontal_mm",
+                         "degree III is through and through, but " + num(f.horizontal_mm) +
+                             " mm from the " + to_string(e) + " entrance does not reach across (" +
+                             num(through) + " mm); give 0 (through) or use degree II");
+      }
+      continue;
+    }
+    const double d = representative_depth(f);
+    if (f.degree == 1 && d > 3.0) {
+      throw InputError("furcation.horizontal_mm",
+                       "degree I means at most 3 mm horizontally, not " + num(d) +
+                           " mm (Hamp, Nyman and Lindhe 1975, from memory); use degree II or a "
+                           "depth up to 3 mm");
+    }
+    if (f.degree == 2 && (d <= 3.0 || d >= through)) {
+      throw InputError("furcation.horizontal_mm",
+                       "degree II means beyond 3 mm but not through (" + num(through) +
+                           " mm across from the " + to_string(e) +
+                           " entrance of this tooth), not " + num(d) +
+                           " mm; use a depth in that range, degree I or degree III");
+    }
+  }
+}
+
+std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, int n_around,
+                                                  int n_along) {
+  SHARPEY_ASSERT(n_around >= 8 && n_along >= 2, "too few quadrature points");
+  std::vector<double> gx, gw;
+  detail::gauss_legendre01(n_along, &gx, &gw);
+  std::vector<RootSurfacePoint> out;
+  const double zf = furcation_z(tooth);
+  const double dth = 2 * kPi / n_around;
+  // Trunk: z = -t, half-widths linear from the cervix to the furcation ellipse.
+  const double T = tooth.trunk_length_mm;
+  for (int j = 0; j < n_along; ++j) {
+    const double t = T * gx[j];
+    const double ax =
+        tooth.cervix_half_x_mm + (tooth.furcation_half_x_mm - tooth.cervix_half_x_mm) * t / T;
+    const double ay =
+        tooth.cervix_half_y_mm + (tooth.furcation_half_y_mm - tooth.cervix_half_y_mm) * t / T;
+    const double dax = (tooth.furcation_half_x_mm - tooth.cervix_half_x_mm) / T;
+    const double day = (tooth.furcation_half_y_mm - tooth.cervix_half_y_mm) / T;
+    for (int i = 0; i < n_around; ++i) {
+      const double th = dth * i;
+      const Eigen::Vector3d xth(-ax * std::sin(th), ay * std::cos(th), 0);
+      const Eigen::Vector3d xt(dax * std::cos(th), day * std::sin(th), -1);
+      const Eigen::Vector3d n = xt.cross(xth);
+      RootSurfacePoint p;
+      p.x = {ax * std::cos(th), ay * std::sin(th), -t};
+      p.normal = n.normalized();
+      p.area_mm2 = n.norm() * dth * T * gw[j];
+      p.part = kTrunkPart;
+      p.angle_rad = th;
+      out.push_back(p);
+    }
+  }
+  // Roots: t = L (1 - (1 - v)^2) smooths the apex (rho ~ (1 - v) there).
+  for (size_t r = 0; r < tooth.roots.size(); ++r) {
+    const RootSpec& spec = tooth.roots[r];
+    const double L = spec.length_mm;
+    for (int j = 0; j < n_along; ++j) {
+      const double v = gx[j];
+      const double t = L * (1 - (1 - v) * (1 - v));
+      const double dt_dv = 2 * L * (1 - v);
+      const RootSlice s = root_slice(spec, t);
+      for (int i = 0; i < n_around; ++i) {
+        const double th = dth * i;
+        const Eigen::Vector3d xth(-s.ax * std::sin(th), s.ay * std::cos(th), 0);
+        const Eigen::Vector3d xt(s.dcx + s.dax * std::cos(th), s.dcy + s.day * std::sin(th), -1);
+        const Eigen::Vector3d n = xt.cross(xth);
+        RootSurfacePoint p;
+        p.x = {s.cx + s.ax * std::cos(th), s.cy + s.ay * std::sin(th), zf - t};
+        p.normal = n.normalized();
+        p.area_mm2 = n.norm() * dth * dt_dv * gw[j];
+        p.part = static_cast<int>(r);
+        p.angle_rad = th;
+        out.push_back(p);
+      }
+    }
+    if (spec.profile == RootProfile::kCylinder) {  // flat disc closing the cylinder
+      const RootSlice s = root_slice(spec, L);
+      for (int j = 0; j < n_along; ++j) {
+        for (int i = 0; i < n_around; ++i) {
+          const double th = dth * i, q = gx[j];
+          RootSurfacePoint p;
+          p.x = {s.cx + s.ax * q * std::cos(th), s.cy + s.ay * q * std::sin(th), zf - L};
+          p.normal = -Eigen::Vector3d::UnitZ();
+          p.area_mm2 = s.ax * s.ay * q * gw[j] * dth;
+          p.part = static_cast<int>(r);
+          out.push_back(p);
+        }
+      }
+    }
+  }
+  // Furcation roof: the furcation ellipse minus the feet, on a fine polar grid; the weights are
+  // rescaled to the exact area (ellipse minus the feet), the boundary cells being cut crudely.
+  {
+    const int n_r = 2 * n_along, n_t = 2 * n_around;
+    std::vector<double> rx, rw;
+    detail::gauss_legendre01(n_r, &rx, &rw);
+    std::vector<RootSurfacePoint> roof;
+    double sum = 0;
+    for (int j = 0; j < n_r; ++j) {
+      for (int i = 0; i < n_t; ++i) {
+        const double th = 2 * kPi * (i + 0.5) / n_t;
+        const double x = tooth.furcation_half_x_mm * rx[j] * std::cos(th);
+        const double y = tooth.furcation_half_y_mm * rx[j] * std::sin(th);
+        bool in_foot = false;
+        for (const RootSpec& r : tooth.roots)
+          in_foot |= std::pow((x - r.foot_x_mm) / r.half_x_mm, 2) +
+                         std::pow((y - r.foot_y_mm) / r.half_y_mm, 2) <
+                     1;
+        if (in_foot) continue;
+        RootSurfacePoint p;
+        p.x = {x, y, zf};
+        p.normal = -Eigen::Vector3d::UnitZ();
+        p.area_mm2 =
+            tooth.furcation_half_x_mm * tooth.furcation_half_y_mm * rx[j] * rw[j] * 2 * kPi / n_t;
+        p.part = kRoofPart;
+        sum += p.area_mm2;
+        roof.push_back(p);
+      }
+    }
+    double exact = kPi * tooth.furcation_half_x_mm * tooth.furcation_half_y_mm;
+    for (const RootSpec& r : tooth.roots) exact -= kPi * r.half_x_mm * r.half_y_mm;
+    for (RootSurfacePoint& p : roof) p.area_mm2 *= exact / sum;
+    out.insert(out.end(), roof.begin(), roof.end());
+  }
+  // Inter-radicular: strictly inside the hull of the roots' sections at the point's height (the
+  // sampled hull lies up to a few hundredths of a mm inside the true one, hence the margin).
+  std::map<double, std::vector<HullPoint>> hulls;  // by height: points share their sections
+  for (RootSurfacePoint& p : out) {
+    if (p.part == kTrunkPart) continue;
+    const double z = std::min(p.x.z(), zf);
+    auto it = hulls.find(z);
+    if (it == hulls.end()) it = hulls.emplace(z, roots_hull(tooth, z)).first;
+    p.inter_radicular = inside_depth(it->second, p.x.head<2>()) > 0.05;
+  }
+  return out;
+}
+
+void attach(const MultiRootTooth& tooth, const MultiRootBone& bone,
+            std::vector<RootSurfacePoint>* points) {
+  validate(tooth, bone);
+  const double zf = furcation_z(tooth);
+  const double crest = outer_crest_z_mm(bone);
+  const FurcationInvolvement& f = bone.furcation;
+  const std::vector<HullPoint> feet = roots_hull(tooth, zf);
+  const double lowest = lowest_apex_z_mm(tooth);
+  for (RootSurfacePoint& p : *points) {
+    double top = crest - bone.loss.defect_depth_mm *
+                             detail::defect_weight(bone.loss, std::atan2(p.x.y(), p.x.x()));
+    if (p.inter_radicular && bone.septum_to_roof) {
+      top = zf;  // the septum reaches the furcation roof
+      for (FurcationEntrance e : f.degree > 0 ? f.entrances : std::vector<FurcationEntrance>{}) {
+        const Eigen::Vector2d d = entrance_direction(e);
+        const double depth = support(feet, d) - p.x.head<2>().dot(d);
+        if (f.degree == 3 || depth <= representative_depth(f)) top = zf - f.vertical_mm;
+      }
+    }
+    p.attached = p.x.z() <= top + 1e-12;
+    const double apex = p.part >= 0 ? zf - tooth.roots[p.part].length_mm : lowest;
+    p.pdl_width_mm = detail::pdl_width_profile(bone.pdl, std::min(crest, zf), apex, p.x.z());
+    if (p.part < 0) p.pdl_width_mm = detail::pdl_width_profile(bone.pdl, crest, lowest, p.x.z());
+  }
+}
+
+RootAreas root_areas(const MultiRootTooth& tooth, const std::vector<RootSurfacePoint>& points) {
+  RootAreas a;
+  a.root_mm2.assign(tooth.roots.size(), 0.0);
+  a.attached_root_mm2.assign(tooth.roots.size(), 0.0);
+  for (const RootSurfacePoint& p : points) {
+    double* whole = p.part == kTrunkPart  ? &a.trunk_mm2
+                    : p.part == kRoofPart ? &a.roof_mm2
+                                          : &a.root_mm2[p.part];
+    double* held = p.part == kTrunkPart  ? &a.attached_trunk_mm2
+                   : p.part == kRoofPart ? &a.attached_roof_mm2
+                                         : &a.attached_root_mm2[p.part];
+    *whole += p.area_mm2;
+    a.total_mm2 += p.area_mm2;
+    if (p.attached) {
+      *held += p.area_mm2;
+      a.attached_total_mm2 += p.area_mm2;
+    }
+  }
+  return a;
+}
+
+double multi_root_fullness_for_area(MultiRootTooth tooth, double root_area_mm2) {
+  auto area = [&](double m) {
+    for (RootSpec& r : tooth.roots) r.taper_fullness = m;
+    return root_areas(tooth, root_surface_points(tooth)).total_mm2;
+  };
+  double lo = kMinRootTaperFullness, hi = kMaxRootTaperFullness;
+  if (area(lo) >= root_area_mm2) return lo;
+  if (area(hi) <= root_area_mm2) return hi;
+  while (hi - lo > 1e-6) {
+    const double mid = 0.5 * (lo + hi);
+    (area(mid) < root_area_mm2 ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+}  // namespace sharpey::mesh

@@ -1,0 +1,100 @@
+// Finite-element mesh of multi-rooted teeth (build_multi_root_mesh): conforming (TetGen kept every
+// root and socket triangle, checked inside), valid elements, the PDL width per root against the
+// requested width, and the PDL volume per root against attached area times width (derived).
+#include <gtest/gtest.h>
+
+#include <Eigen/Geometry>
+#include <climits>
+#include <iostream>
+#include <map>
+
+#include "sharpey/error.h"
+#include "sharpey/mesh/mesh_statistics.h"
+#include "sharpey/mesh/multi_root_tooth.h"
+
+namespace sharpey::mesh {
+namespace {
+
+class MultiRootMeshTest : public ::testing::TestWithParam<MultiRootType> {};
+
+TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  const MultiRootBone bone;  // healthy, uniform 0.2 mm PDL
+  const MultiRootMesh m = build_multi_root_mesh(tooth, bone);
+  const MeshStatistics s = measure(m.mesh);
+  std::cout << to_string(GetParam()) << ": " << s.n_nodes << " nodes, " << s.n_elements
+            << " elements (tooth " << s.elements_per_region.at(kTooth) << ", PDL "
+            << s.elements_per_region.at(kPdl) << ", bone "
+            << s.elements_per_region.at(kCancellousBone) << "), min Jacobian ratio "
+            << s.min_jacobian_ratio << "\n";
+  EXPECT_EQ(s.n_inverted_elements, 0);
+  // PDL width per part: from every root-surface node to the socket surface.
+  // The corners where the roof meets a wall (the trunk's rim, the roots' top rings) are reported
+  // apart: from a sharp concave corner the offset surface lies w / sin(half the angle) away
+  // (derived; 0.28 mm for a right angle).
+  std::map<int, std::pair<double, double>> range, corner;
+  const double zf = -tooth.trunk_length_mm;
+  for (const PdlWidthSample& w : pdl_width_samples(m.mesh)) {
+    const int part = m.node_part[w.node];
+    if (part == INT_MIN) continue;  // a midside node
+    const bool at_corner = std::abs(w.root_point.z() - zf) < 1e-9 && part != kRoofPart;
+    auto it = (at_corner ? corner : range).emplace(part, std::make_pair(1e9, 0.0)).first;
+    it->second.first = std::min(it->second.first, w.width_mm);
+    it->second.second = std::max(it->second.second, w.width_mm);
+  }
+  for (const auto& [part, r] : range) {
+    const std::string name = part >= 0           ? tooth.roots[part].name
+                             : part == kRoofPart ? "roof"
+                                                 : "trunk";
+    std::cout << "  " << name << ": PDL width " << r.first << " to " << r.second << " mm\n";
+    // Requested 0.2 mm (check-values.md section 2, pub). Bound 0.15 to 0.21 mm, widened from
+    // the observed 0.172 to 0.200 mm: on the faceted surface the offset follows averaged normals,
+    // which tilt where the root bends (apex rings).
+    EXPECT_GT(r.first, 0.15) << name;
+    EXPECT_LT(r.second, 0.21) << name;
+  }
+  for (const auto& [part, r] : corner) {
+    const std::string name = part >= 0 ? tooth.roots[part].name : "trunk rim";
+    std::cout << "  " << name << " corner: PDL width " << r.first << " to " << r.second << " mm\n";
+    EXPECT_GT(r.first, 0.14) << name;
+    EXPECT_LT(r.second, 0.4) << name;  // w / sin(30 deg): corners of at least 60 degrees
+  }
+  // PDL volume per root against its attached area times the width (derived, thin layer),
+  // within 8 % (observed 2 to 4 %: the offset of a convex surface encloses A w (1 + w H) with
+  // H the mean curvature, plus the mitred corners).
+  std::vector<RootSurfacePoint> pts = root_surface_points(tooth);
+  attach(tooth, bone, &pts);
+  const RootAreas areas = root_areas(tooth, pts);
+  std::map<int, double> volume;
+  for (int e = 0; e < m.mesh.n_elements(); ++e) {
+    if (m.mesh.element_region[e] != kPdl) continue;
+    const int* t = m.mesh.element(e);
+    const Eigen::Vector3d a = m.mesh.nodes[t[0]], b = m.mesh.nodes[t[1]], c = m.mesh.nodes[t[2]],
+                          d = m.mesh.nodes[t[3]];
+    volume[m.element_part[e]] += std::abs((b - a).dot((c - a).cross(d - a))) / 6.0;
+  }
+  for (size_t r = 0; r < tooth.roots.size(); ++r) {
+    const double expected = 0.2 * areas.attached_root_mm2[r];
+    std::cout << "  " << tooth.roots[r].name << ": PDL volume " << volume[static_cast<int>(r)]
+              << " mm^3, area x width " << expected << " mm^3\n";
+    EXPECT_NEAR(volume[static_cast<int>(r)], expected, 0.08 * expected);
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi_root_types()),
+                         [](const ::testing::TestParamInfo<MultiRootType>& p) {
+                           return to_string(p.param);
+                         });
+
+TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
+  const MultiRootTooth tooth = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
+  MultiRootBone b;
+  b.furcation.degree = 2;
+  EXPECT_THROW(build_multi_root_mesh(tooth, b), InputError);
+  MultiRootBone deep;
+  deep.loss.horizontal_mm = 3;  // crest below the furcation plane
+  EXPECT_THROW(build_multi_root_mesh(tooth, deep), InputError);
+}
+
+}  // namespace
+}  // namespace sharpey::mesh
