@@ -12,6 +12,7 @@
 
 #include "sharpey/error.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
@@ -100,6 +101,7 @@ bool display_available() {
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   const CommandLine line;
   {
     // --help and argument errors first, with no display needed (QApplication aborts without one).

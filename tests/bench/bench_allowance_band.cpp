@@ -15,6 +15,7 @@
 
 #include "sharpey/analysis/allowance_band.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 
 namespace {
 
@@ -32,6 +33,7 @@ double load_average() {
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   using namespace sharpey;
   using namespace sharpey::analysis;
   const std::string source = __FILE__;

@@ -38,6 +38,7 @@
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 #include "support/grid_mesh.h"
 
 namespace {
@@ -273,6 +274,7 @@ BenchCase tooth_case(mesh::MeshPreset preset) {
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   bool grids = true, teeth = true, quick = false;
   std::vector<mesh::MeshPreset> presets = {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard,
                                            mesh::MeshPreset::kFine};

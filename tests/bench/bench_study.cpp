@@ -23,6 +23,7 @@
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 
 namespace {
 
@@ -75,6 +76,7 @@ struct StageTimer {
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   using namespace sharpey;
   // Default: the sample beside this source file (the build passes absolute source paths).
   const std::string source = __FILE__;
