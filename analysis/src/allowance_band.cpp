@@ -406,23 +406,37 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
       return std::async(std::launch::deferred, build, i);
     }
   };
-  const auto next_geometric = [&jobs](size_t after) {
-    for (size_t i = after + 1; i < jobs.size(); ++i)
-      if (jobs[i].geometric) return i;
+  // Order of execution (results are stored by job index, so the band does not depend on it): the
+  // geometric jobs first, then the material-only jobs scenario by scenario. Consecutive
+  // material-only jobs of a scenario share its mesh, so one solver is refactorised from one to the
+  // next (ordering and symbolic analysis once per scenario, fem::LinearElasticSolver::refactorise)
+  // and released before the next scenario's: at most one extra factor is alive at a time.
+  std::vector<size_t> order(jobs.size());
+  std::iota(order.begin(), order.end(), size_t{0});
+  std::stable_sort(order.begin(), order.end(), [&jobs](size_t a, size_t b) {
+    const int ka = jobs[a].geometric ? -1 : jobs[a].scenario;
+    const int kb = jobs[b].geometric ? -1 : jobs[b].scenario;
+    return ka < kb;
+  });
+  const auto next_geometric = [&jobs, &order](size_t after_step) {
+    for (size_t step = after_step + 1; step < order.size(); ++step)
+      if (jobs[order[step]].geometric) return order[step];
     return jobs.size();
   };
   std::vector<ScenarioAllowances> solved(jobs.size());
   size_t ahead_index = jobs.size();
   std::future<mesh::ToothModel> ahead;  // its destructor waits for the mesher on any exception
-  for (size_t i = 0; i < jobs.size(); ++i) {
+  std::unique_ptr<fem::LinearElasticSolver> reused;  // material-only jobs of one scenario
+  for (size_t step = 0; step < order.size(); ++step) {
     check_cancel(cancel);
+    const size_t i = order[step];
     const Job& job = jobs[i];
     const CaseSpec sample = band_sample_case(spec, ranges, job.values);
     const std::string stage = job.what + ", scenario " + std::to_string(job.scenario + 1) + "/" +
                               std::to_string(n_scenarios) + ": ";
     const ProgressCallback inner = [&](const std::string& st, double f) {
       if (progress)
-        progress(stage + st, (static_cast<double>(i) + std::clamp(f, 0.0, 1.0)) /
+        progress(stage + st, (static_cast<double>(step) + std::clamp(f, 0.0, 1.0)) /
                                  static_cast<double>(jobs.size()));
     };
     mesh::ToothModel model;
@@ -438,13 +452,23 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
     } else {
       model = study.solutions()[static_cast<size_t>(job.scenario)]->model();
     }
-    const size_t next = next_geometric(i);
+    const size_t next = next_geometric(step);
     if (next < jobs.size() && ahead_index != next) {
       ahead = start_meshing(next);
       ahead_index = next;
     }
-    const ScenarioSolution solution(sample, job.scenario, std::move(model), inner, cancel);
-    solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
+    if (job.geometric) {
+      const ScenarioSolution solution(sample, job.scenario, std::move(model), inner, cancel);
+      solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
+    } else {
+      if (reused) ++band.n_refactorised;
+      const ScenarioSolution solution(sample, job.scenario, std::move(model), &reused, inner,
+                                      cancel);
+      solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
+      const bool more = step + 1 < order.size() && !jobs[order[step + 1]].geometric &&
+                        jobs[order[step + 1]].scenario == job.scenario;
+      if (!more) reused.reset();  // this scenario's last material-only job: free the factor
+    }
     ++band.n_solves;
   }
 

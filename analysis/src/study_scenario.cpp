@@ -9,6 +9,7 @@
 #include "sharpey/analysis/detail/root_map.h"
 #include "sharpey/analysis/detail/root_surface.h"
 #include "sharpey/analysis/study.h"
+#include "sharpey/core/check.h"
 #include "sharpey/error.h"
 #include "study_memory.h"
 
@@ -100,6 +101,16 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mes
 }
 
 ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                                   std::unique_ptr<fem::LinearElasticSolver>* factorisation,
+                                   const ProgressCallback& progress,
+                                   const std::atomic<bool>* cancel, ScenarioOptions options)
+    : scenario_(checked_scenario(spec, scenario_index)), model_(std::move(model)) {
+  SHARPEY_ASSERT(factorisation != nullptr, "ScenarioSolution: factorisation must not be null");
+  options.keep_solver = false;  // the caller keeps it
+  solve(spec, progress, cancel, options, factorisation);
+}
+
+ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
                                    std::unique_ptr<fem::UnitLoadBasis> basis,
                                    fem::SolverStatistics statistics, ScenarioOptions options)
     : scenario_(checked_scenario(spec, scenario_index)),
@@ -117,7 +128,8 @@ ScenarioSolution::ScenarioSolution(const CaseSpec& spec, int scenario_index, mes
 ScenarioSolution::~ScenarioSolution() = default;
 
 void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progress,
-                             const std::atomic<bool>* cancel, const ScenarioOptions& options) {
+                             const std::atomic<bool>* cancel, const ScenarioOptions& options,
+                             std::unique_ptr<fem::LinearElasticSolver>* factorisation) {
   const mesh::VolumeMesh& m = model_.mesh;
   const mesh::ModelGeometry& g = model_.geometry;
   check_cancel(cancel);
@@ -125,19 +137,24 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
   materials_ = material_table(spec);
   // CHOLMOD reports its own out-of-memory as a SolverError; Eigen's containers (assembly,
   // right-hand sides, the PDL fields) throw std::bad_alloc, which is the same failure.
+  std::unique_ptr<fem::LinearElasticSolver>& held = factorisation ? *factorisation : solver_;
   try {
-    solver_ = std::make_unique<fem::LinearElasticSolver>(m, materials_,
-                                                         fem::fix_faces(m, mesh::kFixedBone));
+    if (held) {
+      held->refactorise(m, materials_);  // same mesh, new materials: numeric factorisation only
+    } else {
+      held = std::make_unique<fem::LinearElasticSolver>(m, materials_,
+                                                        fem::fix_faces(m, mesh::kFixedBone));
+    }
     check_cancel(cancel);
     report(progress, "unit loads", 0.75);
-    basis_ = std::make_unique<fem::UnitLoadBasis>(m, materials_, *solver_, mesh::kBracketPad,
+    basis_ = std::make_unique<fem::UnitLoadBasis>(m, materials_, *held, mesh::kBracketPad,
                                                   g.bracket_center, mesh::kPdl);
   } catch (const std::bad_alloc&) {
-    solver_.reset();
+    held.reset();
     throw SolverError(
         detail::solver_out_of_memory_message(scenario_.name, m.n_nodes(), m.n_elements()));
   }
-  solver_statistics_ = solver_->statistics();
+  solver_statistics_ = held->statistics();
   if (!options.keep_solver) solver_.reset();  // the factor is no longer needed
   check_cancel(cancel);
   report(progress, "post-processing", 0.9);

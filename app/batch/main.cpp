@@ -18,6 +18,7 @@
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 
 namespace {
 
@@ -165,6 +166,7 @@ int report_failure(const MpiWorld& world, const CommonOptions& options, bool swe
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   CLI::App app{
       "sharpey-batch: headless finite-element runs of a Sharpey case (tooth, periodontal "
       "ligament, bone and force system) with reports in JSON, CSV, text and VTK .vtu.\n" +

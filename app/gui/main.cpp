@@ -15,6 +15,7 @@
 #include "core/case_session.h"
 #include "sharpey/error.h"
 #include "sharpey/startup/blas_kernels.h"
+#include "sharpey/startup/freed_memory.h"
 #include "view/allowance_view.h"
 #include "view/main_window.h"
 #include "view/result_view.h"
@@ -119,6 +120,7 @@ bool display_available() {
 
 int main(int argc, char** argv) {
   sharpey::startup::use_fast_blas_kernels(argv);
+  sharpey::startup::keep_freed_memory_for_reuse();  // after the possible re-execution
   const CommandLine line;
   {
     // --help and argument errors first, with no display needed (QApplication aborts without one).

@@ -139,18 +139,22 @@ void assemble_partitioned(const mesh::VolumeMesh& m, const Scatter<K>& scatter, 
     stats->n_interface_elements = std::count(interface.begin(), interface.end(), 1);
   }
   ErrorSlot error;
+  // The team may be smaller than asked for (OMP_THREAD_LIMIT, a nested region, a thread that
+  // could not be started): each thread takes every team-size-th slab, so every slab is added.
 #pragma omp parallel num_threads(n_threads)
   {
     detail::ElementMatrix<K> Ke;
-    const int me = omp_get_thread_num();
-    for (int e = 0; e < n_elements; ++e) {
-      if (slab[static_cast<size_t>(e)] != me || interface[static_cast<size_t>(e)]) continue;
-      if (error.failed()) break;
-      try {
-        element(e, &Ke);
-        scatter.add(e, Ke);
-      } catch (...) {
-        error.capture();
+    const int team = omp_get_num_threads();
+    for (int me = omp_get_thread_num(); me < n_threads; me += team) {
+      for (int e = 0; e < n_elements; ++e) {
+        if (slab[static_cast<size_t>(e)] != me || interface[static_cast<size_t>(e)]) continue;
+        if (error.failed()) break;
+        try {
+          element(e, &Ke);
+          scatter.add(e, Ke);
+        } catch (...) {
+          error.capture();
+        }
       }
     }
   }

@@ -2,6 +2,7 @@
 #include "sharpey/fem/solver.h"
 
 #include <cholmod.h>
+#include <omp.h>
 
 #include <algorithm>
 #include <chrono>
@@ -25,6 +26,24 @@ using Clock = std::chrono::steady_clock;
 double seconds_since(Clock::time_point t0) {
   return std::chrono::duration<double>(Clock::now() - t0).count();
 }
+
+// CHOLMOD 3.0's supernodal factorisation and solves open OpenMP regions with a fixed team of
+// CHOLMOD_OMP_NUM_THREADS = 4 (compiled into Debian's library) for the scatter of each update into
+// its target supernode: thousands of short regions, on two cores beside OpenBLAS's own threads.
+// Measured on the standard incisor (docs/fem-solver.md, "Speed"): with these regions run by the
+// calling thread alone the factorisation needs less CPU and system time and gives the same bits.
+// Affects the calling thread only (max-active-levels is a per-task setting) and is undone at the
+// end of the scope.
+class SerialOpenMpRegions {
+ public:
+  SerialOpenMpRegions() : levels_(omp_get_max_active_levels()) { omp_set_max_active_levels(0); }
+  ~SerialOpenMpRegions() { omp_set_max_active_levels(levels_); }
+  SerialOpenMpRegions(const SerialOpenMpRegions&) = delete;
+  SerialOpenMpRegions& operator=(const SerialOpenMpRegions&) = delete;
+
+ private:
+  int levels_;
+};
 
 const char* component_name(int c) { return c == 0 ? "x" : (c == 1 ? "y" : "z"); }
 
@@ -230,12 +249,21 @@ struct LinearElasticSolver::Impl {
   int n_nodes = 0;
   std::vector<int> free_dofs;    // free index -> global dof
   Eigen::VectorXd prescribed;    // 3n: constrained values, zero elsewhere
+  MaterialTable materials;       // those K was assembled with
   detail::CholmodCommon common;  // before L: destroyed after it
   detail::FactorPtr L;
+  bool factor_valid = false;  // false after a failed refactorisation: solve() refuses
   mutable std::mutex mutex;
 
   void set_constraints(const mesh::VolumeMesh& mesh);
+  void assemble(const mesh::VolumeMesh& mesh);
+  // The upper triangle of the free-free block of K (its diagonal into *diagonal).
+  detail::SparsePtr free_block(std::vector<double>* diagonal);
+  // Ordering and symbolic analysis (L), then the numeric factorisation.
   void factorise(const mesh::VolumeMesh& mesh);
+  // Numeric factorisation of A into the analysed L, with the checks of the pivots.
+  void factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
+                         const std::vector<double>& diagonal);
   [[noreturn]] void throw_not_positive_definite(const mesh::VolumeMesh& mesh, long k_permuted,
                                                 double pivot_ratio) const;
   Eigen::MatrixXd solve(const Eigen::MatrixXd& F);
@@ -317,20 +345,33 @@ void LinearElasticSolver::Impl::throw_not_positive_definite(const mesh::VolumeMe
   throw SolverError(s.str());
 }
 
+void LinearElasticSolver::Impl::assemble(const mesh::VolumeMesh& mesh) {
+  const auto t0 = Clock::now();
+  AssemblyStatistics assembly;
+  K = assemble_stiffness(mesh, materials, options.assembly, &assembly);
+  stats.assembly_s = seconds_since(t0);
+  stats.n_threads_assembly = assembly.n_threads;
+}
+
+detail::SparsePtr LinearElasticSolver::Impl::free_block(std::vector<double>* diagonal) {
+  std::vector<int> free_of(static_cast<size_t>(3 * n_nodes), -1);
+  for (size_t i = 0; i < free_dofs.size(); ++i)
+    free_of[static_cast<size_t>(free_dofs[i])] = static_cast<int>(i);
+  long nnz = 0;
+  detail::SparsePtr A =
+      detail::own(free_block_upper(K, free_dofs, free_of, common.get(), diagonal, &nnz), common);
+  stats.n_nonzeros = nnz;
+  return A;
+}
+
 void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   const long nf = static_cast<long>(free_dofs.size());
   if (nf == 0) return;  // everything prescribed: nothing to solve
-  std::vector<int> free_of(static_cast<size_t>(3 * n_nodes), -1);
-  for (long i = 0; i < nf; ++i)
-    free_of[static_cast<size_t>(free_dofs[static_cast<size_t>(i)])] = static_cast<int>(i);
 
   configure(common.get(), options.ordering);
 
   std::vector<double> diagonal;
-  long nnz = 0;
-  detail::SparsePtr A =
-      detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
-  stats.n_nonzeros = nnz;
+  detail::SparsePtr A = free_block(&diagonal);
 
   auto t0 = Clock::now();
   L = detail::own(analyse(A.get(), free_dofs, options.ordering, common.get()), common);
@@ -343,10 +384,21 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
                                                              : ordering_name(L->ordering);
   stats.factorisation_gflop = common->fl / 1e9;
   stats.factor_nonzeros = static_cast<long long>(common->lnz);
+  factorise_numeric(mesh, std::move(A), diagonal);
+}
 
-  t0 = Clock::now();
-  const int ok = cholmod_l_factorize(A.get(), L.get(), common.get());
+void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
+                                                  const std::vector<double>& diagonal) {
+  const long nf = static_cast<long>(free_dofs.size());
+  factor_valid = false;
+  const auto t0 = Clock::now();
+  int ok = 0;
+  {
+    const SerialOpenMpRegions serial;
+    ok = cholmod_l_factorize(A.get(), L.get(), common.get());
+  }
   stats.factorise_s = seconds_since(t0);
+  ++stats.n_numeric_factorisations;
   const int status = common->status;
   A.reset();  // the factor is all that is kept
   if (!ok || status < CHOLMOD_OK) {
@@ -389,6 +441,7 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   }
   stats.min_pivot_ratio = min_ratio;
   if (!(min_ratio >= options.min_pivot_ratio)) throw_not_positive_definite(mesh, min_k, min_ratio);
+  factor_valid = true;
 }
 
 Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
@@ -406,6 +459,11 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   const Eigen::VectorXd K_prescribed = K * prescribed;
   std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
   if (nf > 0) {
+    if (!factor_valid) {
+      throw SolverError(
+          "the last refactorisation of this solver failed; refactorise it with valid materials "
+          "before solving");
+    }
     detail::DensePtr B =
         detail::own(cholmod_l_allocate_dense(static_cast<size_t>(nf), static_cast<size_t>(m),
                                              static_cast<size_t>(nf), CHOLMOD_REAL, common.get()),
@@ -425,8 +483,11 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
       }
       rhs_norm[static_cast<size_t>(j)] = std::sqrt(norm2);
     }
-    const detail::DensePtr X =
-        detail::own(cholmod_l_solve(CHOLMOD_A, L.get(), B.get(), common.get()), common);
+    detail::DensePtr X;
+    {
+      const SerialOpenMpRegions serial;
+      X = detail::own(cholmod_l_solve(CHOLMOD_A, L.get(), B.get(), common.get()), common);
+    }
     B.reset();
     if (!X || common->status < CHOLMOD_OK) {
       throw SolverError("the triangular solves failed: " + cholmod_status_text(common->status));
@@ -475,11 +536,8 @@ LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
     impl_->constraints = std::move(constraints);
     impl_->n_nodes = mesh.n_nodes();
     impl_->stats.requested_ordering = to_string(options.ordering);
-    const auto t0 = Clock::now();
-    AssemblyStatistics assembly;
-    impl_->K = assemble_stiffness(mesh, materials, options.assembly, &assembly);
-    impl_->stats.assembly_s = seconds_since(t0);
-    impl_->stats.n_threads_assembly = assembly.n_threads;
+    impl_->materials = materials;
+    impl_->assemble(mesh);
     impl_->set_constraints(mesh);
     impl_->factorise(mesh);
   } catch (...) {
@@ -489,6 +547,30 @@ LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
 }
 
 LinearElasticSolver::~LinearElasticSolver() { delete impl_; }
+
+void LinearElasticSolver::refactorise(const mesh::VolumeMesh& mesh,
+                                      const MaterialTable& materials) {
+  std::lock_guard<std::mutex> lock(impl_->mutex);
+  SHARPEY_ASSERT(mesh.n_nodes() == impl_->n_nodes,
+                 "LinearElasticSolver::refactorise: the mesh has " +
+                     std::to_string(mesh.n_nodes()) + " nodes, the analysed one " +
+                     std::to_string(impl_->n_nodes) + "; construct a new solver for a new mesh");
+  Impl& s = *impl_;
+  s.factor_valid = false;
+  s.materials = materials;
+  s.assemble(mesh);  // the same connectivity gives the same pattern
+  if (s.free_dofs.empty()) {
+    s.factor_valid = true;
+    return;
+  }
+  std::vector<double> diagonal;
+  detail::SparsePtr A = s.free_block(&diagonal);
+  SHARPEY_ASSERT(static_cast<size_t>(A->ncol) == s.L->n,
+                 "LinearElasticSolver::refactorise: the free block changed size");
+  s.factorise_numeric(mesh, std::move(A), diagonal);
+}
+
+const MaterialTable& LinearElasticSolver::materials() const { return impl_->materials; }
 
 Eigen::VectorXd LinearElasticSolver::solve(const Eigen::VectorXd& f) const {
   const Eigen::MatrixXd F = f;

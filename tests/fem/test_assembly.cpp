@@ -1,6 +1,7 @@
 // Global assembly: symmetry, rigid-body null space, parallel strategies agree with a serial
 // triplet assembly, pattern, errors.
 #include <gtest/gtest.h>
+#include <omp.h>
 
 #include <Eigen/Geometry>
 #include <Eigen/SparseCore>
@@ -123,6 +124,24 @@ TEST(Assembly, PartitionedWithMoreSlabsThanCores) {
     EXPECT_LT(max_abs(K - reference), 1e-13 * max_abs(reference)) << threads << " slabs";
     EXPECT_EQ(stats.n_threads, threads);
   }
+}
+
+// The OpenMP team can be smaller than the slab count asked for (OMP_THREAD_LIMIT, a nested region,
+// max-active-levels 0 as the solver sets around CHOLMOD): every slab must still be added.
+TEST(Assembly, PartitionedWhenTheTeamIsSmallerThanAskedFor) {
+  // Long enough that some elements of each slab touch no other slab.
+  const mesh::VolumeMesh m =
+      grid_mesh(4, 4, 12, 10, testing::PointMap(bent),
+                [](const Eigen::Vector3d& p) { return p.z() < 0.5 ? 1 : 2; });
+  const Eigen::SparseMatrix<double> reference = triplet_assembly(m, kTwoMaterials);
+  const int levels = omp_get_max_active_levels();
+  omp_set_max_active_levels(0);  // every parallel region of this thread gets one thread
+  AssemblyStatistics stats;
+  const Eigen::SparseMatrix<double> K =
+      assemble_stiffness(m, kTwoMaterials, {AssemblyStrategy::kPartitioned, 3}, &stats);
+  omp_set_max_active_levels(levels);
+  EXPECT_LT(stats.n_interface_elements, m.n_elements());
+  EXPECT_LT(max_abs(K - reference), 1e-13 * max_abs(reference));
 }
 
 TEST(Assembly, PatternHoldsEveryNodePairSharingAnElementAndNothingElse) {

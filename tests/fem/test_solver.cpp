@@ -124,6 +124,51 @@ TEST(Solver, EveryOrderingGivesTheSameSolution) {
   }
 }
 
+// Two computations: refactorise() with new materials (ordering and symbolic analysis reused)
+// against a solver built afresh with them. Same pattern, same ordering, same arithmetic: equal to
+// round-off (bit for bit in practice). Moduli a factor of 10 to 250 apart from the first ones.
+TEST(Solver, RefactorisedWithNewMaterialsEqualsAFreshSolver) {
+  for (int k : {4, 10}) {
+    SCOPED_TRACE(std::to_string(k) + "-node");
+    const mesh::VolumeMesh m = small_mesh(k);
+    const std::vector<DofConstraint> c = mixed_constraints(m);
+    Eigen::MatrixXd F(3 * m.n_nodes(), 2);
+    F.col(0) = some_load(m.n_nodes(), 31u);
+    F.col(1) = some_load(m.n_nodes(), 32u);
+    LinearElasticSolver reused(m, kMaterials, c);
+    const double analyse_s = reused.statistics().analyse_s;
+    for (const MaterialTable& next :
+         {MaterialTable{{1, {18600.0, 0.31}}, {2, {0.47, 0.45}}},
+          MaterialTable{{1, {13700.0, 0.3}}, {2, {0.05, 0.49}}}, kMaterials}) {
+      reused.refactorise(m, next);
+      const LinearElasticSolver fresh(m, next, c);
+      const Eigen::MatrixXd U = reused.solve(F), U_fresh = fresh.solve(F);
+      EXPECT_LE((U - U_fresh).cwiseAbs().maxCoeff(), 1e-13 * U_fresh.cwiseAbs().maxCoeff());
+      EXPECT_LT(reused.statistics().last_relative_residual, 1e-10);
+      EXPECT_EQ((reused.stiffness() - fresh.stiffness()).norm(), 0.0);  // same assembly
+      EXPECT_EQ(reused.materials().at(2).young_modulus_mpa, next.at(2).young_modulus_mpa);
+      EXPECT_EQ(reused.statistics().min_pivot_ratio, fresh.statistics().min_pivot_ratio);
+    }
+    EXPECT_EQ(reused.statistics().n_numeric_factorisations, 4);  // one analysis, four numeric
+    EXPECT_EQ(reused.statistics().analyse_s, analyse_s);
+  }
+}
+
+// A refactorisation that fails leaves a solver that refuses to solve, with the cause, until a
+// refactorisation succeeds again.
+TEST(Solver, FailedRefactorisationRefusesToSolveUntilRepaired) {
+  const mesh::VolumeMesh m = small_mesh(10);
+  LinearElasticSolver solver(m, kMaterials, fix_faces(m, testing::kZetaMin));
+  const Eigen::VectorXd f = some_load(m.n_nodes(), 7u);
+  const Eigen::VectorXd u = solver.solve(f);
+  EXPECT_THROW(solver.refactorise(m, {{1, {1000.0, 0.3}}, {2, {1e-15, 0.3}}}), SolverError);
+  EXPECT_THROW(solver.solve(f), SolverError);
+  EXPECT_THROW(solver.refactorise(m, {{1, {1000.0, 0.3}}}), InputError);  // region 2 missing
+  EXPECT_THROW(solver.solve(f), SolverError);
+  solver.refactorise(m, kMaterials);
+  EXPECT_LE((solver.solve(f) - u).cwiseAbs().maxCoeff(), 1e-13 * u.cwiseAbs().maxCoeff());
+}
+
 // derived: prescribing the same translation on the whole boundary moves the body rigidly.
 TEST(Solver, PrescribedRigidTranslationMovesEveryNode) {
   const mesh::VolumeMesh m = small_mesh(10);

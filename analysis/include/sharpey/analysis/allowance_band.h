@@ -117,6 +117,9 @@ struct AllowanceBand {
   std::vector<InputSensitivity> sensitivity;
   int n_solves = 0;    // scenario solves the band needed (samples and sensitivity)
   int n_remeshed = 0;  // of those, solves that meshed a new model (geometry changed)
+  // Of the others (materials changed only), solves that refactorised the previous material-only
+  // solve's solver (numeric factorisation only; the first of each scenario analyses afresh).
+  int n_refactorised = 0;
 };
 
 // Checks `options` against `spec`: sample count (1 to kMaxBandSamples), every range finite, low <=

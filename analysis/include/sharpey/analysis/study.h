@@ -73,6 +73,17 @@ class ScenarioSolution {
   ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
                    const ProgressCallback& progress, const std::atomic<bool>* cancel,
                    ScenarioOptions options = {});
+  // Same, for one of several variants of a scenario that share its mesh and differ in materials
+  // only (the band's material-only samples). `factorisation` carries a solver from one variant to
+  // the next: when it holds one (built on this very mesh), it is refactorised with this case's
+  // materials, its ordering and symbolic analysis reused (fem::LinearElasticSolver::refactorise);
+  // when it is null, a solver is built and left in it. Results equal those of the constructor
+  // above bit for bit. The solver stays with the caller (has_solver() is false), so that the
+  // caller decides when its factor (the largest object of a scenario) is released.
+  ScenarioSolution(const CaseSpec& spec, int scenario_index, mesh::ToothModel model,
+                   std::unique_ptr<fem::LinearElasticSolver>* factorisation,
+                   const ProgressCallback& progress, const std::atomic<bool>* cancel,
+                   ScenarioOptions options = {});
   // Restores a solution solved earlier (read back by read_solution, solution_cache.h): the model
   // and the unit load basis as that solve left them, and its statistics. Nothing is meshed or
   // solved; everything else is derived from them as after a solve, so evaluate() gives the same
@@ -116,8 +127,10 @@ class ScenarioSolution {
   const detail::PdlElementTable& pdl_elements() const { return *pdl_elements_; }
 
  private:
+  // `factorisation`: see the constructor above; null to own a new solver.
   void solve(const CaseSpec& spec, const ProgressCallback& progress,
-             const std::atomic<bool>* cancel, const ScenarioOptions& options);
+             const std::atomic<bool>* cancel, const ScenarioOptions& options,
+             std::unique_ptr<fem::LinearElasticSolver>* factorisation = nullptr);
   // Everything derived from model_ and basis_ (rigid response, CRes, node sets, samplers).
   void derive(const ScenarioOptions& options);
 

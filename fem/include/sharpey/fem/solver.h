@@ -15,10 +15,10 @@ namespace sharpey::fem {
 
 // Fill-reducing ordering of the free-free stiffness block.
 enum class Ordering {
-  kAuto,    // CHOLMOD's default: AMD, and METIS as well when AMD's fill is high; the better one
-  kAmd,     // approximate minimum degree
-  kMetis,   // METIS nested dissection
-  kNesdis,  // CHOLMOD's own nested dissection (METIS partitions, constrained minimum degree)
+  kAuto,        // CHOLMOD's default: AMD, and METIS as well when AMD's fill is high; the better one
+  kAmd,         // approximate minimum degree
+  kMetis,       // METIS nested dissection
+  kNesdis,      // CHOLMOD's own nested dissection (METIS partitions, constrained minimum degree)
   kMetisNodes,  // METIS nested dissection of the node graph (a third of the size of the dof
                 // graph), each node's free dofs kept together; CHOLMOD postorders it
 };
@@ -45,15 +45,18 @@ struct SolverStatistics {
   std::string ordering;               // fill-reducing ordering CHOLMOD chose
   // Additions beyond the agreed interface:
   int n_constrained_dofs = 0;
-  int n_unused_nodes = 0;             // nodes of no element: held at zero, not part of the system
-  long long factor_nonzeros = 0;      // entries of L
-  double factor_mb = 0;               // memory of L, MB
-  double min_pivot_ratio = 0;         // min over k of L_kk^2 / A_kk (1 for a diagonal matrix)
-  std::string requested_ordering;     // SolverOptions::ordering
+  int n_unused_nodes = 0;          // nodes of no element: held at zero, not part of the system
+  long long factor_nonzeros = 0;   // entries of L
+  double factor_mb = 0;            // memory of L, MB
+  double min_pivot_ratio = 0;      // min over k of L_kk^2 / A_kk (1 for a diagonal matrix)
+  std::string requested_ordering;  // SolverOptions::ordering
   int n_threads_assembly = 0;
   // Calls of solve() that went through the factor (one per call, whatever the number of
   // right-hand sides): lets a test prove that a result needed no new solve.
   int n_solves = 0;
+  // Numeric factorisations: 1 after construction, one more per refactorise(); the ordering and
+  // symbolic analysis (analyse_s) are done once. assembly_s and factorise_s are the last ones.
+  int n_numeric_factorisations = 0;
 };
 
 // Assembles, eliminates the constraints and factorises once (CHOLMOD supernodal Cholesky);
@@ -71,6 +74,18 @@ class LinearElasticSolver {
   ~LinearElasticSolver();
   LinearElasticSolver(const LinearElasticSolver&) = delete;
   LinearElasticSolver& operator=(const LinearElasticSolver&) = delete;
+
+  // New materials on the same mesh and constraints (a material-only sample of a study): assembles K
+  // again and repeats the numeric factorisation only. The stiffness pattern depends on the
+  // connectivity alone, so the ordering and CHOLMOD's symbolic analysis are reused, and the result
+  // is the one a new solver would give (bit for bit: same pattern, same ordering, same arithmetic).
+  // `mesh` must be the mesh the solver was built with (same nodes and elements; only the node count
+  // is checked). Throws like the constructor for bad materials (InputError) or a matrix that is
+  // not positive definite (SolverError); after such a failure solve() throws SolverError until a
+  // refactorise() succeeds. Not to be called while other threads solve.
+  void refactorise(const mesh::VolumeMesh& mesh, const MaterialTable& materials);
+  // The materials K was last assembled with.
+  const MaterialTable& materials() const;
 
   // f: 3n nodal forces (N). Returns the 3n displacement (mm), constrained values included.
   // (Pass a VectorXd, not an Eigen expression, or the call is ambiguous with the matrix overload.)
@@ -96,13 +111,14 @@ class LinearElasticSolver {
 // Fill and work of the factorisation under one ordering, from CHOLMOD's symbolic analysis only (no
 // numeric factorisation): for choosing an ordering by measurement (bench_assembly).
 struct OrderingEstimate {
-  std::string ordering;           // the ordering CHOLMOD used
+  std::string ordering;  // the ordering CHOLMOD used
   double analyse_s = 0;
   double factorisation_gflop = 0;
   long long factor_nonzeros = 0;
 };
 // K: full 3n x 3n stiffness; the dofs named in `constraints` are removed first.
 OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
-                                   const std::vector<DofConstraint>& constraints, Ordering ordering);
+                                   const std::vector<DofConstraint>& constraints,
+                                   Ordering ordering);
 
 }  // namespace sharpey::fem
