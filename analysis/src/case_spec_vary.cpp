@@ -1,9 +1,8 @@
 // Case variations for parameter sweeps: "KEY=V1,V2" options and setting one case-file value by
 // its dotted path on the JSON text (so every variation goes through the same reader and checks as
 // a hand-written case file).
-#include <nlohmann/json.hpp>
-
 #include <cctype>
+#include <nlohmann/json.hpp>
 #include <string>
 #include <vector>
 
@@ -30,7 +29,7 @@ std::string trim(const std::string& s) {
 }
 
 struct PathStep {
-  std::string name;          // object key
+  std::string name;           // object key
   std::vector<size_t> index;  // array indices after the key
 };
 
@@ -125,10 +124,10 @@ std::string set_case_value(const std::string& json_text, const std::string& key,
       Json* array = &(*node)[step.name];
       for (size_t idx : step.index) {
         if (!array->is_array() || idx >= array->size())
-          bad_vary(option, walked + " has no element [" + std::to_string(idx) + "] in the case file" +
-                               (array->is_array() ? " (it has " + std::to_string(array->size()) +
-                                                        ")"
-                                                  : ""));
+          bad_vary(
+              option,
+              walked + " has no element [" + std::to_string(idx) + "] in the case file" +
+                  (array->is_array() ? " (it has " + std::to_string(array->size()) + ")" : ""));
         walked += "[" + std::to_string(idx) + "]";
         array = &(*array)[idx];
       }

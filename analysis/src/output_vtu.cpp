@@ -34,20 +34,22 @@ void write_scenario_vtu(const ScenarioSolution& solution, const ScenarioResult& 
     for (int global : node_map) {
       const auto it = entry_of.find(global);
       a.values.push_back(it != entry_of.end() && it->second < values.size() ? values[it->second]
-                                                                             : 0.0);
+                                                                            : 0.0);
     }
     return a;
   };
   mesh::VtuArrays pdl_arrays;
   pdl_arrays.point_arrays.push_back(field("hydrostatic_pressure_kpa", result.pressure_kpa));
-  pdl_arrays.point_arrays.push_back(field("max_principal_strain", result.max_principal_strain_field));
+  pdl_arrays.point_arrays.push_back(
+      field("max_principal_strain", result.max_principal_strain_field));
   pdl_arrays.point_arrays.push_back(field("equivalent_strain", result.equivalent_strain_field));
   pdl_arrays.point_arrays.push_back(field("von_mises_kpa", result.von_mises_kpa));
   {
     // 1 where the node lies in the band next to the PDL's free edge that the reported maxima
     // leave out (analysis::pdl_crest_edge_band).
     const std::vector<char> band = pdl_crest_edge_band(solution);
-    pdl_arrays.point_arrays.push_back(field("crest_edge_band", std::vector<double>(band.begin(), band.end())));
+    pdl_arrays.point_arrays.push_back(
+        field("crest_edge_band", std::vector<double>(band.begin(), band.end())));
   }
   if (has_displacement) {
     mesh::VtuArrays::PointArray d{"displacement_mm", 3, {}};

@@ -65,8 +65,8 @@ void ModelMesher::build_bone() {
 
   // Boundary of R_in, one point per column.
   const double perimeter = 2 * ((xBi - xLi) + (yM - yD));
-  const int k1 = std::clamp(static_cast<int>(std::lround(N * (yM - yD) / (2 * perimeter))), 1,
-                            N / 4 - 1);
+  const int k1 =
+      std::clamp(static_cast<int>(std::lround(N * (yM - yD) / (2 * perimeter))), 1, N / 4 - 1);
   const int k2 = N / 2 - k1;
   const std::vector<double> ys = uniform_nodes(yD, yM, 2 * k1);
   const std::vector<double> xin = uniform_nodes(xLi, xBi, k2 - k1);
@@ -181,10 +181,14 @@ void ModelMesher::build_bone() {
   const std::vector<double> at_ym(xm.size(), yM), at_yd(xm.size(), yD);
   side_face(xm, at_ym, true, kFixedBone, true, Eigen::Vector3d::UnitY());
   side_face(xm, at_yd, true, kFixedBone, true, -Eigen::Vector3d::UnitY());
-  side_face(std::vector<double>(ys.size(), xB), ys, true, kFreeBone, true, Eigen::Vector3d::UnitX());
-  side_face(std::vector<double>(ys.size(), xL), ys, true, kFreeBone, true, -Eigen::Vector3d::UnitX());
-  side_face(std::vector<double>(ys.size(), xBi), ys, false, kOther, false, Eigen::Vector3d::UnitX());
-  side_face(std::vector<double>(ys.size(), xLi), ys, false, kOther, false, -Eigen::Vector3d::UnitX());
+  side_face(std::vector<double>(ys.size(), xB), ys, true, kFreeBone, true,
+            Eigen::Vector3d::UnitX());
+  side_face(std::vector<double>(ys.size(), xL), ys, true, kFreeBone, true,
+            -Eigen::Vector3d::UnitX());
+  side_face(std::vector<double>(ys.size(), xBi), ys, false, kOther, false,
+            Eigen::Vector3d::UnitX());
+  side_face(std::vector<double>(ys.size(), xLi), ys, false, kOther, false,
+            -Eigen::Vector3d::UnitX());
 
   // Base.
   std::vector<std::vector<int>> base;
@@ -199,13 +203,14 @@ void ModelMesher::build_bone() {
   const double tooth_edge = frame_.sizes().tooth_edge_mm, bone_edge = frame_.sizes().bone_edge_mm;
   auto bound = [](double e) { return e * e * e / (6.0 * std::sqrt(2.0)); };
   seeds_.clear();
-  seeds_.push_back({Eigen::Vector3d(0, 0, 0.5 * frame_.shape().crown_length()), kTooth,
-                    bound(tooth_edge)});
-  seeds_.push_back({Eigen::Vector3d(xB - 0.5 * tc, 0.5 * (yM + yD), 0.5 * (zb + frame_.crest_z() - tc)),
-                    kCorticalBone, bound(bone_edge)});
+  seeds_.push_back(
+      {Eigen::Vector3d(0, 0, 0.5 * frame_.shape().crown_length()), kTooth, bound(tooth_edge)});
+  seeds_.push_back(
+      {Eigen::Vector3d(xB - 0.5 * tc, 0.5 * (yM + yD), 0.5 * (zb + frame_.crest_z() - tc)),
+       kCorticalBone, bound(bone_edge)});
   const double socket_bottom = frame_.apex_z() - frame_.spec().pdl.apex_width_mm;
-  seeds_.push_back({Eigen::Vector3d(0, 0, 0.5 * (zb + socket_bottom)), kCancellousBone,
-                    bound(bone_edge)});
+  seeds_.push_back(
+      {Eigen::Vector3d(0, 0, 0.5 * (zb + socket_bottom)), kCancellousBone, bound(bone_edge)});
 }
 
 }  // namespace sharpey::mesh::detail

@@ -42,8 +42,8 @@ std::string to_string(ToothSurface s) {
 ToothSurface tooth_surface_from_string(const std::string& name) {
   for (const auto& entry : kSurfaces)
     if (name == entry.second) return entry.first;
-  throw InputError("loss.defect_surface", "unknown tooth surface \"" + name +
-                                              "\"; use one of: " + accepted(kSurfaces));
+  throw InputError("loss.defect_surface",
+                   "unknown tooth surface \"" + name + "\"; use one of: " + accepted(kSurfaces));
 }
 
 std::string to_string(MeshPreset p) {

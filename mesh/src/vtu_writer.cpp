@@ -41,11 +41,20 @@ std::string xml_escape(const std::string& s) {
   std::string out;
   for (char c : s) {
     switch (c) {
-      case '&': out += "&amp;"; break;
-      case '<': out += "&lt;"; break;
-      case '>': out += "&gt;"; break;
-      case '"': out += "&quot;"; break;
-      default: out += c;
+      case '&':
+        out += "&amp;";
+        break;
+      case '<':
+        out += "&lt;";
+        break;
+      case '>':
+        out += "&gt;";
+        break;
+      case '"':
+        out += "&quot;";
+        break;
+      default:
+        out += c;
     }
   }
   return out;
@@ -86,7 +95,8 @@ void write_atomically(const std::string& path, WriteFn&& write_contents) {
     if (!out) {
       std::error_code ignored;
       fs::remove(tmp, ignored);
-      throw Error("cannot write \"" + path + "\": writing failed (disk full or the folder is not "
+      throw Error("cannot write \"" + path +
+                  "\": writing failed (disk full or the folder is not "
                   "writable)");
     }
   }
@@ -95,8 +105,8 @@ void write_atomically(const std::string& path, WriteFn&& write_contents) {
   if (ec) {
     std::error_code ignored;
     fs::remove(tmp, ignored);
-    throw Error("cannot write \"" + path + "\": renaming the temporary file failed (" + ec.message() +
-                ")");
+    throw Error("cannot write \"" + path + "\": renaming the temporary file failed (" +
+                ec.message() + ")");
   }
 }
 
@@ -128,7 +138,8 @@ void write_piece(const std::string& path, const Piece& p) {
         << "<VTKFile type=\"UnstructuredGrid\" version=\"1.0\" byte_order=\""
         << (little_endian() ? "LittleEndian" : "BigEndian") << "\" header_type=\"UInt64\">\n"
         << "  <UnstructuredGrid>\n"
-        << "    <Piece NumberOfPoints=\"" << p.n_points << "\" NumberOfCells=\"" << p.n_cells << "\">\n";
+        << "    <Piece NumberOfPoints=\"" << p.n_points << "\" NumberOfCells=\"" << p.n_cells
+        << "\">\n";
     xml << "      <PointData>\n";
     for (const auto& a : p.point_data) put(a, "        ");
     xml << "      </PointData>\n      <CellData>\n";
@@ -139,7 +150,8 @@ void write_piece(const std::string& path, const Piece& p) {
     put(p.connectivity, "        ");
     put(p.offsets, "        ");
     put(p.types, "        ");
-    xml << "      </Cells>\n    </Piece>\n  </UnstructuredGrid>\n  <AppendedData encoding=\"raw\">\n   _";
+    xml << "      </Cells>\n    </Piece>\n  </UnstructuredGrid>\n  <AppendedData "
+           "encoding=\"raw\">\n   _";
     out << xml.str();
     auto block = [&out](const DataArray& a) {
       const std::uint64_t n = a.bytes.size();
@@ -160,8 +172,9 @@ void check_name(const std::string& name, const std::vector<std::string>& taken) 
   if (name.empty()) throw InputError("(unnamed array)", "a .vtu data array needs a non-empty name");
   for (const auto& t : taken) {
     if (t == name) {
-      throw InputError(name, "the .vtu data array name \"" + name + "\" is used twice; give each "
-                             "array its own name");
+      throw InputError(name, "the .vtu data array name \"" + name +
+                                 "\" is used twice; give each "
+                                 "array its own name");
     }
   }
 }
@@ -174,11 +187,12 @@ void add_extra(Piece& piece, const VtuArrays& extra, const std::vector<int>* poi
   for (const auto& a : extra.point_arrays) {
     check_name(a.name, taken);
     taken.push_back(a.name);
-    if (a.n_components < 1 ||
-        a.values.size() != static_cast<size_t>(n_mesh_nodes) * static_cast<size_t>(a.n_components)) {
-      throw InputError(a.name, "point array \"" + a.name + "\" has " + std::to_string(a.values.size()) +
-                                   " values with " + std::to_string(a.n_components) +
-                                   " components; the mesh has " + std::to_string(n_mesh_nodes) +
+    if (a.n_components < 1 || a.values.size() != static_cast<size_t>(n_mesh_nodes) *
+                                                     static_cast<size_t>(a.n_components)) {
+      throw InputError(a.name, "point array \"" + a.name + "\" has " +
+                                   std::to_string(a.values.size()) + " values with " +
+                                   std::to_string(a.n_components) + " components; the mesh has " +
+                                   std::to_string(n_mesh_nodes) +
                                    " nodes, so n_nodes * n_components values are needed");
     }
     DataArray d{"Float64", a.name, a.n_components, {}};
@@ -202,15 +216,16 @@ void add_extra(Piece& piece, const VtuArrays& extra, const std::vector<int>* poi
     check_name(a.name, taken);
     taken.push_back(a.name);
     if (a.values.size() != static_cast<size_t>(piece.n_cells)) {
-      throw InputError(a.name, "cell array \"" + a.name + "\" has " + std::to_string(a.values.size()) +
-                                   " values; one per cell (" + std::to_string(piece.n_cells) +
-                                   ") is needed");
+      throw InputError(a.name, "cell array \"" + a.name + "\" has " +
+                                   std::to_string(a.values.size()) + " values; one per cell (" +
+                                   std::to_string(piece.n_cells) + ") is needed");
     }
     piece.cell_data.push_back({"Float64", a.name, 1, to_bytes<double>(a.values)});
   }
 }
 
-std::vector<char> point_bytes(const std::vector<Eigen::Vector3d>& nodes, const std::vector<int>* subset) {
+std::vector<char> point_bytes(const std::vector<Eigen::Vector3d>& nodes,
+                              const std::vector<int>* subset) {
   std::vector<double> xyz;
   const size_t n = subset ? subset->size() : nodes.size();
   xyz.reserve(3 * n);
@@ -222,15 +237,18 @@ std::vector<char> point_bytes(const std::vector<Eigen::Vector3d>& nodes, const s
 }
 
 void check_connectivity(const VolumeMesh& m, const std::string& path) {
-  const bool elements_ok = (m.nodes_per_element == 4 || m.nodes_per_element == 10) &&
-                           m.elements.size() == m.element_region.size() * static_cast<size_t>(m.nodes_per_element);
-  const bool faces_ok = (m.nodes_per_face == 3 || m.nodes_per_face == 6) &&
-                        m.faces.size() == m.face_marker.size() * static_cast<size_t>(m.nodes_per_face);
+  const bool elements_ok =
+      (m.nodes_per_element == 4 || m.nodes_per_element == 10) &&
+      m.elements.size() == m.element_region.size() * static_cast<size_t>(m.nodes_per_element);
+  const bool faces_ok =
+      (m.nodes_per_face == 3 || m.nodes_per_face == 6) &&
+      m.faces.size() == m.face_marker.size() * static_cast<size_t>(m.nodes_per_face);
   const int n = m.n_nodes();
   auto bad = [n](int v) { return v < 0 || v >= n; };
   if (!elements_ok || !faces_ok || std::any_of(m.elements.begin(), m.elements.end(), bad) ||
       std::any_of(m.faces.begin(), m.faces.end(), bad)) {
-    throw MeshError("writing \"" + path + "\": the mesh connectivity is malformed (node counts per "
+    throw MeshError("writing \"" + path +
+                    "\": the mesh connectivity is malformed (node counts per "
                     "cell, array lengths or node indices)");
   }
 }
@@ -248,10 +266,12 @@ void write_vtu(const std::string& path, const VolumeMesh& mesh, const VtuArrays&
   p.points = {"Float64", "Points", 3, point_bytes(mesh.nodes, nullptr)};
   p.connectivity = {"Int64", "connectivity", 1, to_bytes<std::int64_t>(mesh.elements)};
   std::vector<std::int64_t> offsets(static_cast<size_t>(p.n_cells));
-  for (size_t e = 0; e < offsets.size(); ++e) offsets[e] = static_cast<std::int64_t>((e + 1) * static_cast<size_t>(k));
+  for (size_t e = 0; e < offsets.size(); ++e)
+    offsets[e] = static_cast<std::int64_t>((e + 1) * static_cast<size_t>(k));
   p.offsets = {"Int64", "offsets", 1, to_bytes<std::int64_t>(offsets)};
-  p.types = {"UInt8", "types", 1,
-             std::vector<char>(static_cast<size_t>(p.n_cells), static_cast<char>(k == 10 ? 24 : 10))};
+  p.types = {
+      "UInt8", "types", 1,
+      std::vector<char>(static_cast<size_t>(p.n_cells), static_cast<char>(k == 10 ? 24 : 10))};
   write_piece(path, p);
 }
 
@@ -277,7 +297,8 @@ void write_boundary_vtu(const std::string& path, const VolumeMesh& mesh, const V
   for (int v : mesh.faces) connectivity.push_back(new_index[static_cast<size_t>(v)]);
   p.connectivity = {"Int64", "connectivity", 1, to_bytes<std::int64_t>(connectivity)};
   std::vector<std::int64_t> offsets(static_cast<size_t>(p.n_cells));
-  for (size_t f = 0; f < offsets.size(); ++f) offsets[f] = static_cast<std::int64_t>((f + 1) * static_cast<size_t>(k));
+  for (size_t f = 0; f < offsets.size(); ++f)
+    offsets[f] = static_cast<std::int64_t>((f + 1) * static_cast<size_t>(k));
   p.offsets = {"Int64", "offsets", 1, to_bytes<std::int64_t>(offsets)};
   p.types = {"UInt8", "types", 1,
              std::vector<char>(static_cast<size_t>(p.n_cells), static_cast<char>(k == 6 ? 22 : 5))};
@@ -304,7 +325,8 @@ VolumeMesh extract_region(const VolumeMesh& mesh, int region, std::vector<int>* 
   }
   for (int e = 0; e < mesh.n_elements(); ++e) {
     if (mesh.element_region[static_cast<size_t>(e)] != region) continue;
-    for (int i = 0; i < k; ++i) sub.elements.push_back(new_index[static_cast<size_t>(mesh.element(e)[i])]);
+    for (int i = 0; i < k; ++i)
+      sub.elements.push_back(new_index[static_cast<size_t>(mesh.element(e)[i])]);
     sub.element_region.push_back(region);
   }
   const int kf = mesh.nodes_per_face;

@@ -3,9 +3,8 @@
 #include <gtest/gtest.h>
 #include <sys/stat.h>
 
-#include <nlohmann/json.hpp>
-
 #include <filesystem>
+#include <nlohmann/json.hpp>
 #include <string>
 #include <vector>
 
@@ -80,8 +79,9 @@ TEST_P(BatchBadInput, ExitsWithTheCodeNamesTheKeyWritesNothing) {
 const std::vector<std::string> kRun = {"run", "CASE", "--out", "OUT"};
 
 const BadRun kBadRuns[] = {
-    {"syntax_error", "raw:{\"tooth\": {\"type\": \"maxillary_canine\"},\n \"load\": {\"magnitude\": }}",
-     kRun, 2, "line 2, column"},
+    {"syntax_error",
+     "raw:{\"tooth\": {\"type\": \"maxillary_canine\"},\n \"load\": {\"magnitude\": }}", kRun, 2,
+     "line 2, column"},
     {"wrong_type", "load.magnitude=\"strong\"", kRun, 2, "load.magnitude"},
     {"unknown_key", "load.magnitudes=50", kRun, 2, "did you mean \"magnitude\""},
     {"out_of_range", "load.magnitude=-10", kRun, 2, "load.magnitude"},
@@ -91,35 +91,61 @@ const BadRun kBadRuns[] = {
      "scenarios[1].horizontal_loss_mm"},
     {"impossible_defect", "scenarios[1].angular_defect={\"surface\": \"distal\", \"depth_mm\": 12}",
      kRun, 2, "scenarios[1].angular_defect.depth_mm"},
-    {"mesh_command_checks_too", "pdl.width_mm=0", {"mesh", "CASE", "--out", "OUT"}, 2,
+    {"mesh_command_checks_too",
+     "pdl.width_mm=0",
+     {"mesh", "CASE", "--out", "OUT"},
+     2,
      "pdl.width_mm"},
-    {"vary_without_equals", "", {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude"}, 2,
+    {"vary_without_equals",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude"},
+     2,
      "--vary load.magnitude: there is no '='"},
-    {"vary_bad_value", "", {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50,abc"}, 2,
+    {"vary_bad_value",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50,abc"},
+     2,
      "load.magnitude"},
-    {"vary_out_of_range", "", {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50,9000"},
-     2, "load.magnitude"},
-    {"vary_unknown_key", "", {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitde=50"}, 2,
+    {"vary_out_of_range",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50,9000"},
+     2,
+     "load.magnitude"},
+    {"vary_unknown_key",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitde=50"},
+     2,
      "did you mean \"magnitude\""},
-    {"vary_missing_index", "",
-     {"sweep", "CASE", "--out", "OUT", "--vary", "scenarios[7].horizontal_loss_mm=1"}, 2,
+    {"vary_missing_index",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "scenarios[7].horizontal_loss_mm=1"},
+     2,
      "no element [7]"},
-    {"vary_twice", "",
-     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50", "--vary", "load.magnitude=60"},
-     2, "varied twice"},
+    {"vary_twice",
+     "",
+     {"sweep", "CASE", "--out", "OUT", "--vary", "load.magnitude=50", "--vary",
+      "load.magnitude=60"},
+     2,
+     "varied twice"},
     {"sweep_without_vary", "", {"sweep", "CASE", "--out", "OUT"}, 2, "--vary"},
     {"missing_case_file", "", {"run", "no-such-case.json", "--out", "OUT"}, 2, "no-such-case.json"},
     {"missing_out", "", {"run", "CASE"}, 2, "--out"},
     {"no_subcommand", "", {"--out", "OUT"}, 2, "A subcommand is required"},
     {"unknown_subcommand", "", {"solve", "CASE", "--out", "OUT"}, 2, "unknown command \"solve\""},
-    {"bad_preset_option", "", {"run", "CASE", "--out", "OUT", "--mesh-preset", "ultra"}, 2,
+    {"bad_preset_option",
+     "",
+     {"run", "CASE", "--out", "OUT", "--mesh-preset", "ultra"},
+     2,
      "ultra"},
     {"number_overflow", "raw:{\"load\": {\"magnitude\": 1e400}}", kRun, 2,
      "bad input (key load.magnitude)"},
     {"empty_out", "", {"run", "CASE", "--out", ""}, 2, "--out is empty"},
     {"out_holds_the_case", "", {"run", "CASE", "--out", "DIR"}, 2, "holds the case file"},
-    {"out_holds_the_case_sweep", "",
-     {"sweep", "CASE", "--out", "DIR", "--vary", "load.magnitude=50"}, 2, "holds the case file"},
+    {"out_holds_the_case_sweep",
+     "",
+     {"sweep", "CASE", "--out", "DIR", "--vary", "load.magnitude=50"},
+     2,
+     "holds the case file"},
     {"out_is_a_file", "", {"run", "CASE", "--out", "CASE"}, 5, "is not a folder"},
 };
 
@@ -152,9 +178,9 @@ TEST(BatchBoundedInput, HostileCaseFilesExitWithBadInput) {
 TEST(BatchCli, HelpListsExamplesAndExitCodes) {
   const ProcessResult r = run_batch({"--help"}, 60);
   EXPECT_EQ(r.exit_code, 0);
-  for (const char* text : {"Examples:", "Exit codes:", "2  bad input", "3  mesher failure",
-                           "4  solver failure", "5  output failure", "6  interrupted", "sweep",
-                           "Caution"})
+  for (const char* text :
+       {"Examples:", "Exit codes:", "2  bad input", "3  mesher failure", "4  solver failure",
+        "5  output failure", "6  interrupted", "sweep", "Caution"})
     EXPECT_NE(r.out.find(text), std::string::npos) << text << " missing from:\n" << r.out;
   const ProcessResult sub = run_batch({"sweep", "--help"}, 60);
   EXPECT_EQ(sub.exit_code, 0);

@@ -3,13 +3,12 @@
 // models.
 #include <gtest/gtest.h>
 
-#include <nlohmann/json.hpp>
-
 #include <algorithm>
-#include <utility>
 #include <cmath>
+#include <nlohmann/json.hpp>
 #include <sstream>
 #include <string>
+#include <utility>
 
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
@@ -42,12 +41,19 @@ struct RunOutput {
 };
 
 void check_files(const RunOutput& run) {
-  EXPECT_NE(run.result.err.find("sharpey-batch: ["), std::string::npos) << "progress lines on stderr";
-  const std::vector<std::string> expected = {
-      "allowance.csv",       "case.json",           "results.json",        "s1_healthy_model.vtu",
-      "s1_healthy_pdl.vtu",  "s1_healthy_root_map.csv", "s2_3_mm_loss_model.vtu",
-      "s2_3_mm_loss_pdl.vtu", "s2_3_mm_loss_root_map.csv", "summary.csv",
-      "summary.txt"};
+  EXPECT_NE(run.result.err.find("sharpey-batch: ["), std::string::npos)
+      << "progress lines on stderr";
+  const std::vector<std::string> expected = {"allowance.csv",
+                                             "case.json",
+                                             "results.json",
+                                             "s1_healthy_model.vtu",
+                                             "s1_healthy_pdl.vtu",
+                                             "s1_healthy_root_map.csv",
+                                             "s2_3_mm_loss_model.vtu",
+                                             "s2_3_mm_loss_pdl.vtu",
+                                             "s2_3_mm_loss_root_map.csv",
+                                             "summary.csv",
+                                             "summary.txt"};
   EXPECT_EQ(list_folder(run.out), expected);
   // Nothing else beside the output folder: the staging folder is gone.
   EXPECT_EQ(list_folder(run.folder->path()), (std::vector<std::string>{"case.json", "out"}));
@@ -139,10 +145,9 @@ void check_vtu(const RunOutput& run) {
     EXPECT_EQ(displacement->GetNumberOfComponents(), 3);
 
     const auto ligament = read(pdl);
-    EXPECT_EQ(ligament->GetNumberOfCells(),
-              s["mesh"]["elements_per_region"]["2"].get<vtkIdType>());
-    for (const char* name : {"hydrostatic_pressure_kpa", "max_principal_strain", "displacement_mm",
-                             "crest_edge_band"})
+    EXPECT_EQ(ligament->GetNumberOfCells(), s["mesh"]["elements_per_region"]["2"].get<vtkIdType>());
+    for (const char* name :
+         {"hydrostatic_pressure_kpa", "max_principal_strain", "displacement_mm", "crest_edge_band"})
       ASSERT_NE(ligament->GetPointData()->GetArray(name), nullptr) << name;
     // Two routes to the same number: the extremes of the written nodal fields outside the band
     // next to the PDL's free edge (array crest_edge_band = 1) and results.json.

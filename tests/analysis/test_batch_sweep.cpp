@@ -3,10 +3,9 @@
 // are far stiffer than the ligament, and agreement with a plain `run` of the same case.
 #include <gtest/gtest.h>
 
-#include <nlohmann/json.hpp>
-
 #include <cmath>
 #include <map>
+#include <nlohmann/json.hpp>
 #include <sstream>
 #include <string>
 
@@ -69,9 +68,9 @@ TEST(BatchSweep, FactorialTableWithLinearForceAndModulusBehaviour) {
   write_file(case_path, coarse_case_json(1));
   const std::string out = folder / "sweep";
   // The model key is given last on purpose: the batch reorders so load keys vary fastest.
-  const ProcessResult r = run_batch({"sweep", case_path, "--out", out, "--vary",
-                                     "load.magnitude=50,100", "--vary",
-                                     "pdl.material.young_modulus_mpa=0.47,0.94"});
+  const ProcessResult r =
+      run_batch({"sweep", case_path, "--out", out, "--vary", "load.magnitude=50,100", "--vary",
+                 "pdl.material.young_modulus_mpa=0.47,0.94"});
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_NE(r.err.find("4 combinations, 2 models solved"), std::string::npos) << r.err;
   EXPECT_EQ(list_folder(out), (std::vector<std::string>{"sweep.csv", "sweep_case.json"}));

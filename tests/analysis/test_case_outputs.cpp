@@ -4,15 +4,14 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-#include <nlohmann/json.hpp>
-
 #include <cmath>
+#include <nlohmann/json.hpp>
 #include <sstream>
 #include <string>
 
+#include "sharpey/analysis/report_output.h"
 #include "support/batch_process.h"
 #include "support/results_keys.h"
-#include "sharpey/analysis/report_output.h"
 
 namespace sharpey::analysis {
 namespace {
@@ -214,8 +213,8 @@ TEST(Reports, MesiodistalForceReportsTheMesiodistalCres) {
 
 TEST(Reports, SummaryCsvStartsWithTheCautionAndHasOneRowPerScenario) {
   const CaseSpec spec = two_scenario_case();
-  const std::string csv = summary_csv(spec, {made_up_result("healthy", 0, 3.0),
-                                             made_up_result("4 mm, loss", 4, 9.0)});
+  const std::string csv =
+      summary_csv(spec, {made_up_result("healthy", 0, 3.0), made_up_result("4 mm, loss", 4, 9.0)});
   const std::vector<std::string> l = lines(csv);
   ASSERT_GE(l.size(), 5u);
   EXPECT_EQ(l[0], "# " + caution_text());
@@ -253,8 +252,8 @@ TEST(Reports, RootMapCsvHasCellCentresAndBlankCellsWithoutPdl) {
 
 TEST(Reports, SummaryTextCarriesCautionSourcesAndAReadingPerScenario) {
   const CaseSpec spec = two_scenario_case();
-  const std::string text = summary_text(spec, {made_up_result("healthy", 0, 3.0),
-                                               made_up_result("4 mm, loss", 4, 18.0)});
+  const std::string text = summary_text(
+      spec, {made_up_result("healthy", 0, 3.0), made_up_result("4 mm, loss", 4, 18.0)});
   // Sentences are wrapped over lines; compare with every run of white space made one space.
   auto words_of = [](const std::string& s) {
     std::istringstream words(s);
@@ -267,9 +266,11 @@ TEST(Reports, SummaryTextCarriesCautionSourcesAndAReadingPerScenario) {
   EXPECT_NE(flat.find(caution_words), std::string::npos);
   EXPECT_NE(flat.find("Hohmann"), std::string::npos);
   EXPECT_NE(flat.find("healthy: peak compression 3.00 kPa stays below capillary pressure"),
-            std::string::npos) << text;
+            std::string::npos)
+      << text;
   EXPECT_NE(flat.find("4 mm, loss: peak compression 18.00 kPa is above the physiological limit"),
-            std::string::npos) << text;
+            std::string::npos)
+      << text;
   EXPECT_NE(flat.find("about 60 g"), std::string::npos) << text;
 }
 

@@ -6,9 +6,9 @@
 #include <random>
 #include <string>
 
-#include "support/batch_process.h"
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/error.h"
+#include "support/batch_process.h"
 
 namespace sharpey::analysis {
 namespace {
@@ -21,7 +21,8 @@ class SampleTest : public ::testing::TestWithParam<const char*> {};
 
 TEST_P(SampleTest, ParsesIsInventedAndRoundTrips) {
   const CaseSpec spec = load_case(test::sample_path(GetParam()));
-  EXPECT_EQ(spec.label.rfind("Invented case", 0), 0u) << "samples are marked as invented: " << spec.label;
+  EXPECT_EQ(spec.label.rfind("Invented case", 0), 0u)
+      << "samples are marked as invented: " << spec.label;
   EXPECT_GE(spec.scenarios.size(), 2u);
   const std::string text = case_to_json(spec);
   const CaseSpec again = parse_case(text);
@@ -62,7 +63,8 @@ CaseSpec random_case(std::mt19937& rng) {
     s.model.tooth.ideal_radius_mm = in(2, 3);
   }
   if (pick(2)) {
-    s.model.pdl.crest_width_mm = s.model.pdl.mid_width_mm = s.model.pdl.apex_width_mm = in(0.1, 0.4);
+    s.model.pdl.crest_width_mm = s.model.pdl.mid_width_mm = s.model.pdl.apex_width_mm =
+        in(0.1, 0.4);
   } else {
     s.model.pdl.crest_width_mm = in(0.15, 0.3);
     s.model.pdl.mid_width_mm = in(0.1, 0.2);
@@ -115,7 +117,9 @@ CaseSpec random_case(std::mt19937& rng) {
   }
   if (pick(2)) l.bracket_height_mm = in(3, 6);
   switch (pick(3)) {
-    case 0: l.preset = all_movement_presets()[static_cast<size_t>(pick(7))]; break;
+    case 0:
+      l.preset = all_movement_presets()[static_cast<size_t>(pick(7))];
+      break;
     case 1:
       l.couple = CoupleKind::kMoment;
       l.moment_nmm = Eigen::Vector3d(in(-10, 10), in(-10, 10), in(-10, 10));
@@ -180,7 +184,8 @@ TEST(CaseRoundTrip, ComparisonSeesEveryField) {
                                   : mesh::ToothType::kMandibularCanine;
        }},
       {"root length", [](CaseSpec& s) { s.model.tooth.dimensions.root_length_mm += 1e-9; }},
-      {"cej curvature", [](CaseSpec& s) { s.model.tooth.dimensions.cej_curvature_distal_mm += 0.1; }},
+      {"cej curvature",
+       [](CaseSpec& s) { s.model.tooth.dimensions.cej_curvature_distal_mm += 0.1; }},
       {"root taper", [](CaseSpec& s) { s.model.tooth.dimensions.root_taper_fullness += 0.1; }},
       {"ideal radius", [](CaseSpec& s) { s.model.tooth.ideal_radius_mm += 0.1; }},
       {"pdl mid", [](CaseSpec& s) { s.model.pdl.mid_width_mm += 0.01; }},

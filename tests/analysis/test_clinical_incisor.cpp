@@ -29,14 +29,15 @@ std::unique_ptr<Study> IncisorBoneLoss::study_;
 // quote for a single-rooted tooth; no single source read here); its upper end matches source:
 // Poppe, Bourauel, Jaeger 2002, J Orofac Orthop 63:358 (about 42 % of the alveolar height;
 // check-values.md section 7). Measured 39.0 % (labiolingual) and 38.3 % (mesiodistal) on 2026-12-02
-// with the rigid motion fitted to the embedded root (38.1 / 37.7 % with the former whole-tooth fit).
+// with the rigid motion fitted to the embedded root (38.1 / 37.7 % with the former whole-tooth
+// fit).
 TEST_F(IncisorBoneLoss, HealthyCentreOfResistance) {
   const ScenarioSolution& h = *study_->solutions()[0];
   for (const CentreOfResistance* c : {&h.cres_labiolingual(), &h.cres_mesiodistal()}) {
     std::cout << "healthy CRes " << c->from_crest_mm << " mm below the crest, "
               << 100 * c->fraction_embedded << " % of the embedded root\n";
-    EXPECT_GE(c->fraction_embedded, 0.33);                       // published (see above)
-    EXPECT_LE(c->fraction_embedded, 0.42);                       // published (see above)
+    EXPECT_GE(c->fraction_embedded, 0.33);  // published (see above)
+    EXPECT_LE(c->fraction_embedded, 0.42);  // published (see above)
   }
 }
 

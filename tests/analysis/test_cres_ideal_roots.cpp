@@ -143,9 +143,10 @@ TEST(CylinderCresWithDentine, CentreOfRotationProductConstantOverApplicationHeig
     ASSERT_TRUE(r.centre_of_rotation_defined) << "height " << height;
     const double a = r.load.application_point.z() - z_cres;
     const double b = z_cres - r.centre_of_rotation.z();
-    std::printf("force %.0f mm above the CEJ: a %.3f mm, b %.3f mm, a b %.4f mm^2 (L^2/12 = %.4f, "
-                "thin layer, cylinder)\n",
-                height, a, b, a * b, L * L / 12.0);
+    std::printf(
+        "force %.0f mm above the CEJ: a %.3f mm, b %.3f mm, a b %.4f mm^2 (L^2/12 = %.4f, "
+        "thin layer, cylinder)\n",
+        height, a, b, a * b, L * L / 12.0);
     lo = std::min(lo, a * b);
     hi = std::max(hi, a * b);
   }

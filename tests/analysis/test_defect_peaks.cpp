@@ -88,11 +88,11 @@ class DefectPeakConvergence : public ::testing::TestWithParam<mesh::ToothSurface
 // The full acceptance: both peaks within 5 % between the standard and fine presets for a
 // defect on each surface. Kept out of the default run because it fails (listed in
 // docs/verification.md): the peak on the defect's side, just below the defect floor, differs by
-// more than 5 % (distal defect, compression: 5.9 %); figures per surface in docs/verification.md. The standard preset
-// has 32 columns around the canine's root (11.25 degrees apart): about three across a 40 degree
-// defect whose floor drops 5 mm, so the steep walls are poorly resolved; the bone's structured
-// top grid ties the columns to a uniform layout, which is why they are not simply crowded into
-// the defect. Run with --gtest_also_run_disabled_tests.
+// more than 5 % (distal defect, compression: 5.9 %); figures per surface in docs/verification.md.
+// The standard preset has 32 columns around the canine's root (11.25 degrees apart): about three
+// across a 40 degree defect whose floor drops 5 mm, so the steep walls are poorly resolved; the
+// bone's structured top grid ties the columns to a uniform layout, which is why they are not simply
+// crowded into the defect. Run with --gtest_also_run_disabled_tests.
 TEST_P(DefectPeakConvergence, DISABLED_BothPeaksWithinFivePercentOfFine) {
   const mesh::ToothSurface surface = GetParam();
   const LoadSpec load = translation_g(150, -1.0);
@@ -147,8 +147,8 @@ TEST(DefectPeakSymmetry, MirroredDefectsAndLoadsGiveTheSamePeakAwayFromTheDefect
 // The full symmetry acceptance; fails (4.4 %, see above). Run with
 // --gtest_also_run_disabled_tests.
 TEST(DefectPeakSymmetry, DISABLED_DefectSidePeakWithinTwoPercent) {
-  const double d = relative_difference(mirrored_mesial().compression_kpa,
-                                       mirrored_distal().compression_kpa);
+  const double d =
+      relative_difference(mirrored_mesial().compression_kpa, mirrored_distal().compression_kpa);
   EXPECT_LT(d, 0.02);
 }
 

@@ -153,7 +153,7 @@ TEST_F(StudyOnCoarseIncisor, ToothMovesRigidly) {
     // lies in the root's cervical half), so the crown tip, further from that centre, moves more
     // than the apex.
     EXPECT_GT(std::abs(r.crown_tip_displacement_um.x()), std::abs(r.apex_displacement_um.x()));
-    EXPECT_GT(r.apex_displacement_um.x(), 0);       // tipping about a point below the CRes
+    EXPECT_GT(r.apex_displacement_um.x(), 0);  // tipping about a point below the CRes
     EXPECT_LT(r.rotation_deg.y(), 0);  // crown lingual, apex labial: negative rotation about y
   }
 }

@@ -8,8 +8,8 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
-#include <tuple>
 #include <string>
+#include <tuple>
 #include <vector>
 
 #include "sharpey/analysis/study.h"
@@ -48,13 +48,16 @@ void expect_same_result(const ScenarioResult& a, const ScenarioResult& b) {
   EXPECT_EQ(a.name, b.name);
   EXPECT_EQ(a.pressure_kpa.size(), b.pressure_kpa.size());
   EXPECT_LE(max_difference(a.pressure_kpa, b.pressure_kpa), 1e-12 * p);
-  EXPECT_LE(max_difference(a.von_mises_kpa, b.von_mises_kpa), 1e-12 * std::max(1.0, a.max_von_mises_kpa));
+  EXPECT_LE(max_difference(a.von_mises_kpa, b.von_mises_kpa),
+            1e-12 * std::max(1.0, a.max_von_mises_kpa));
   EXPECT_LE(max_difference(a.root_map.pressure_kpa, b.root_map.pressure_kpa), 1e-12 * p);
   EXPECT_NEAR(a.pressure_max_compression_kpa, b.pressure_max_compression_kpa, 1e-12 * p);
-  EXPECT_NEAR(a.area_above_capillary_mm2, b.area_above_capillary_mm2, 1e-12 * std::max(1.0, a.attachment_area_mm2));
+  EXPECT_NEAR(a.area_above_capillary_mm2, b.area_above_capillary_mm2,
+              1e-12 * std::max(1.0, a.attachment_area_mm2));
   EXPECT_NEAR(a.attachment_area_mm2, b.attachment_area_mm2, 1e-12 * a.attachment_area_mm2);
   EXPECT_NEAR(a.cres_labiolingual.from_cej_mm, b.cres_labiolingual.from_cej_mm, 1e-12 * 20);
-  EXPECT_NEAR(a.equivalent_force_peak_g, b.equivalent_force_peak_g, 1e-12 * std::max(1.0, a.equivalent_force_peak_g));
+  EXPECT_NEAR(a.equivalent_force_peak_g, b.equivalent_force_peak_g,
+              1e-12 * std::max(1.0, a.equivalent_force_peak_g));
   ASSERT_EQ(a.displacement_mm.cols(), b.displacement_mm.cols());
   const double u = std::max(1e-9, a.displacement_mm.cwiseAbs().maxCoeff());
   EXPECT_LE((a.displacement_mm - b.displacement_mm).cwiseAbs().maxCoeff(), 1e-12 * u);
@@ -109,9 +112,10 @@ TEST_F(LevelByLevel, SameResultsAsTheAllAtOnceSolve) {
     EXPECT_EQ(growing_->solutions()[k]->model().mesh.nodes.size(),
               all_at_once_->solutions()[k]->model().mesh.nodes.size());
     expect_same_result(a[k], b[k]);
-    std::printf("scenario %zu: largest nodal pressure difference, level by level vs all at once: %.3g kPa "
-                "(peak %.1f kPa)\n",
-                k, max_difference(a[k].pressure_kpa, b[k].pressure_kpa), b[k].pressure_max_compression_kpa);
+    std::printf(
+        "scenario %zu: largest nodal pressure difference, level by level vs all at once: %.3g kPa "
+        "(peak %.1f kPa)\n",
+        k, max_difference(a[k].pressure_kpa, b[k].pressure_kpa), b[k].pressure_max_compression_kpa);
   }
   EXPECT_GT(a[0].equivalent_force_peak_g, 0);  // the 3 mm level has its healthy reference
 }
@@ -120,7 +124,8 @@ TEST_F(LevelByLevel, SameResultsAsAScenarioSolvedOnItsOwn) {
   // An independent path: the scenario meshes itself (no mesher thread, no StudySolver).
   const ScenarioSolution alone(*spec_, 0, {}, nullptr);
   const ScenarioResult a = evaluate(alone, tipping_load(), spec_->thresholds, nullptr);
-  const ScenarioResult b = evaluate(*growing_->solutions()[0], tipping_load(), spec_->thresholds, nullptr);
+  const ScenarioResult b =
+      evaluate(*growing_->solutions()[0], tipping_load(), spec_->thresholds, nullptr);
   expect_same_result(a, b);
 }
 

@@ -36,7 +36,8 @@ TEST_P(MaterialEdit, ReachesTheSpecAndMarksTheResultsStale) {
   session.set_material(c.part, edited);
   EXPECT_EQ(stale_signals, 1);
   // Other materials untouched.
-  for (MaterialPart other : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
+  for (MaterialPart other :
+       {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
     if (other == c.part) continue;
     CaseSession fresh;
     EXPECT_EQ(session.material(other).young_modulus_mpa, fresh.material(other).young_modulus_mpa);
@@ -58,8 +59,8 @@ TEST_P(MaterialEdit, OutOfRangeIsRefusedWithTheKeyAndTheCaseIsUnchanged) {
                      {{1.0, 0.5}, ".poisson_ratio", "0 <= nu < 0.5"},
                      {{1.0, -0.1}, ".poisson_ratio", "0 <= nu < 0.5"}};
   for (const Bad& b : bad) {
-    SCOPED_TRACE(b.key_suffix + " E=" + std::to_string(b.m.young_modulus_mpa) + " nu=" +
-                 std::to_string(b.m.poisson_ratio));
+    SCOPED_TRACE(b.key_suffix + " E=" + std::to_string(b.m.young_modulus_mpa) +
+                 " nu=" + std::to_string(b.m.poisson_ratio));
     try {
       session.set_material(c.part, b.m);
       ADD_FAILURE() << "accepted";
@@ -73,15 +74,15 @@ TEST_P(MaterialEdit, OutOfRangeIsRefusedWithTheKeyAndTheCaseIsUnchanged) {
   }
 }
 
-INSTANTIATE_TEST_SUITE_P(Parts, MaterialEdit,
-                         ::testing::Values(MaterialCase{MaterialPart::kPdl, "pdl.material"},
-                                           MaterialCase{MaterialPart::kCorticalBone, "bone.cortical_material"},
-                                           MaterialCase{MaterialPart::kCancellousBone,
-                                                        "bone.cancellous_material"}),
-                         [](const ::testing::TestParamInfo<MaterialCase>& p) {
-                           return std::string(p.param.key).substr(0, std::string(p.param.key).find('.')) +
-                                  std::to_string(static_cast<int>(p.param.part));
-                         });
+INSTANTIATE_TEST_SUITE_P(
+    Parts, MaterialEdit,
+    ::testing::Values(MaterialCase{MaterialPart::kPdl, "pdl.material"},
+                      MaterialCase{MaterialPart::kCorticalBone, "bone.cortical_material"},
+                      MaterialCase{MaterialPart::kCancellousBone, "bone.cancellous_material"}),
+    [](const ::testing::TestParamInfo<MaterialCase>& p) {
+      return std::string(p.param.key).substr(0, std::string(p.param.key).find('.')) +
+             std::to_string(static_cast<int>(p.param.part));
+    });
 
 TEST(DefectEdit, ReachesTheLevelAndSurvivesSaveAndReload) {
   CaseSession session;  // new case: healthy and 3.0 mm loss

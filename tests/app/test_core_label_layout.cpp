@@ -18,7 +18,8 @@ void expect_valid(const std::vector<double>& anchors, const std::vector<double>&
   ASSERT_EQ(centres.size(), anchors.size());
   std::vector<size_t> order(anchors.size());
   std::iota(order.begin(), order.end(), size_t{0});
-  std::stable_sort(order.begin(), order.end(), [&](size_t a, size_t b) { return anchors[a] < anchors[b]; });
+  std::stable_sort(order.begin(), order.end(),
+                   [&](size_t a, size_t b) { return anchors[a] < anchors[b]; });
   for (size_t k = 0; k < order.size(); ++k) {
     const double c = centres[order[k]];
     EXPECT_GE(c - h / 2, lo - 1e-9);
@@ -41,7 +42,7 @@ TEST(LabelLayout, TwoCloseLabelsMoveApartSymmetrically) {
   const double h = 15;
   const auto c = spread_labels(a, h, 0, 420);
   expect_valid(a, c, h, 0, 420);
-  EXPECT_NEAR(c[0] - c[1], h, 1e-12);                       // just touching
+  EXPECT_NEAR(c[0] - c[1], h, 1e-12);                            // just touching
   EXPECT_NEAR(0.5 * (c[0] + c[1]), 0.5 * (a[0] + a[1]), 1e-12);  // least move: equal and opposite
 }
 

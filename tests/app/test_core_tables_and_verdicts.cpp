@@ -3,9 +3,9 @@
 
 #include <cmath>
 
+#include "core/help_text.h"
 #include "core/quantity.h"
 #include "core/scenario_table.h"
-#include "core/help_text.h"
 #include "core/verdict.h"
 #include "sharpey/analysis/report_output.h"
 
@@ -120,7 +120,8 @@ TEST(Verdicts, TheAppAndTheBatchSummaryReadTheSameVerdict) {
   // The words are factual: threshold, area and share (derived: 3.0 / 200 mm^2 = 2 %).
   const Verdict above = judge(result("level", 0, 18.2, 12.0, 3.0), spec.thresholds);
   EXPECT_EQ(above.detail.toStdString(),
-            "Peak compression 18.2 kPa, above the 16.0 kPa physiological limit over 3.0 mm\u00b2 (2 % of the "
+            "Peak compression 18.2 kPa, above the 16.0 kPa physiological limit over 3.0 mm\u00b2 "
+            "(2 % of the "
             "attachment).");
 }
 
@@ -130,8 +131,9 @@ TEST(Help, ThePageExplainsEveryQuantity) {
   analysis::Thresholds t = thresholds();
   t.capillary.source = "capillary source & co";
   const QString html = help_html(t);
-  for (const char* term : {"hydrostatic pressure", "principal strain", "von Mises stress", "equivalent force",
-                           "area rule", "95th percentile", "CRes", "CRot", "M/F"}) {
+  for (const char* term :
+       {"hydrostatic pressure", "principal strain", "von Mises stress", "equivalent force",
+        "area rule", "95th percentile", "CRes", "CRot", "M/F"}) {
     EXPECT_TRUE(help_terms().contains(QString::fromLatin1(term))) << term;
     EXPECT_TRUE(html.contains(QStringLiteral("<b>%1</b>").arg(QString::fromLatin1(term)))) << term;
   }

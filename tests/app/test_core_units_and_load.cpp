@@ -33,7 +33,8 @@ TEST_P(UnitPair, ConversionRoundTripsAndKeepsTheForce) {
   }
 }
 INSTANTIATE_TEST_SUITE_P(AllPairs, UnitPair,
-                         ::testing::Combine(::testing::ValuesIn(kUnits), ::testing::ValuesIn(kUnits)));
+                         ::testing::Combine(::testing::ValuesIn(kUnits),
+                                            ::testing::ValuesIn(kUnits)));
 
 TEST(Units, LabelsAreTheCaseFileUnits) {
   for (ForceUnit u : kUnits) {
@@ -83,7 +84,8 @@ TEST_P(AngleGrid, AnglesAndVectorRoundTrip) {
   EXPECT_LT((direction_from_angles(az, el) - d).norm(), 1e-12);
 }
 INSTANTIATE_TEST_SUITE_P(Grid, AngleGrid,
-                         ::testing::Combine(::testing::Values(-135.0, -90.0, 0.0, 30.0, 90.0, 180.0),
+                         ::testing::Combine(::testing::Values(-135.0, -90.0, 0.0, 30.0, 90.0,
+                                                              180.0),
                                             ::testing::Values(-90.0, -45.0, 0.0, 20.0, 90.0)));
 
 TEST(LoadControls, AnglesThatMatchANamedDirectionSelectIt) {
@@ -106,8 +108,8 @@ TEST(LoadControls, ChangingTheUnitKeepsTheLoad) {
   for (ForceUnit u : {ForceUnit::kNewton, ForceUnit::kCentinewton, ForceUnit::kGram}) {
     c.set_unit(u);
     const analysis::LoadSpec after = to_load_spec(c);
-    EXPECT_NEAR(analysis::to_newton(after.magnitude, after.unit), analysis::to_newton(before.magnitude, before.unit),
-                1e-12);
+    EXPECT_NEAR(analysis::to_newton(after.magnitude, after.unit),
+                analysis::to_newton(before.magnitude, before.unit), 1e-12);
     EXPECT_LT((after.moment_nmm - before.moment_nmm).norm(), 1e-12);
   }
   EXPECT_NEAR(c.magnitude, 120, 1e-9);
@@ -147,8 +149,10 @@ LoadControls make(double magnitude, ForceUnit unit, DirectionChoice d, double az
   LoadControls c;
   c.magnitude = magnitude;
   c.unit = unit;
-  if (d == DirectionChoice::kAngles) c.set_angles(az, el);
-  else c.set_direction(d);
+  if (d == DirectionChoice::kAngles)
+    c.set_angles(az, el);
+  else
+    c.set_direction(d);
   c.at_pad_centre = pad;
   c.bracket_height_mm = height;
   c.couple = couple;
@@ -164,11 +168,12 @@ INSTANTIATE_TEST_SUITE_P(
     Cases, LoadRoundTrip,
     ::testing::Values(
         LoadCase{"default", LoadControls{}},
-        LoadCase{"angles_cN_height", make(80, ForceUnit::kCentinewton, DirectionChoice::kAngles, 30,
-                                          -20, false, 5.5, CoupleKind::kNone, {0, 0, 0}, 0,
-                                          MovementPreset::kNone)},
-        LoadCase{"moment_N", make(0.8, ForceUnit::kNewton, DirectionChoice::kMesial, 0, 0, true, 0,
-                                  CoupleKind::kMoment, {1.5, -2.0, 0.25}, 0, MovementPreset::kNone)},
+        LoadCase{"angles_cN_height",
+                 make(80, ForceUnit::kCentinewton, DirectionChoice::kAngles, 30, -20, false, 5.5,
+                      CoupleKind::kNone, {0, 0, 0}, 0, MovementPreset::kNone)},
+        LoadCase{"moment_N",
+                 make(0.8, ForceUnit::kNewton, DirectionChoice::kMesial, 0, 0, true, 0,
+                      CoupleKind::kMoment, {1.5, -2.0, 0.25}, 0, MovementPreset::kNone)},
         LoadCase{"ratio", make(150, ForceUnit::kGram, DirectionChoice::kLabial, 0, 0, true, 0,
                                CoupleKind::kRatio, {0, 0, 0}, 9.5, MovementPreset::kNone)},
         LoadCase{"preset", make(50, ForceUnit::kGram, DirectionChoice::kIntrusive, 0, 0, true, 0,

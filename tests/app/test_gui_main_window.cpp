@@ -9,12 +9,12 @@
 #include <QDoubleSpinBox>
 #include <QFile>
 #include <QFileInfo>
-#include <QProcessEnvironment>
 #include <QLabel>
 #include <QLineEdit>
-#include <QSlider>
-#include <QRegularExpression>
 #include <QProcess>
+#include <QProcessEnvironment>
+#include <QRegularExpression>
+#include <QSlider>
 #include <QStandardPaths>
 #include <QTableWidget>
 #include <QTemporaryDir>
@@ -80,8 +80,10 @@ class MainWindowTest : public ::testing::Test {
     bool done = false, failed = false;
     // Disconnected below: they refer to this function's locals (a later solve, e.g. one read
     // back from the saved solutions within milliseconds, would write into a dead frame).
-    const auto on_done = QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
-    const auto on_failed = QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
+    const auto on_done =
+        QObject::connect(g_window, &MainWindow::solve_finished, [&]() { done = true; });
+    const auto on_failed =
+        QObject::connect(g_window, &MainWindow::solve_failed, [&]() { failed = true; });
     QObject::connect(&g_window->session(), &CaseSession::results_changed, [&](bool interactive) {
       if (g_first.seen || interactive) return;
       g_first.seen = true;
@@ -90,12 +92,14 @@ class MainWindowTest : public ::testing::Test {
       g_first.levels_listed = g_window->level_box()->count();
       g_window->show_view(ViewKind::k3D);
       QApplication::processEvents();
-      g_first.coloured_pixels = colour_map_pixels(g_window->result_view()->vtk_view()->grabFramebuffer());
+      g_first.coloured_pixels =
+          colour_map_pixels(g_window->result_view()->vtk_view()->grabFramebuffer());
       testing::keep_image(g_window->grab().toImage(), "test_main_window_first_view");
       g_first.export_refused = !g_window->export_data(g_dir->filePath("too_early"));
       g_first.export_message = g_window->last_error();
     });
-    ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path())) << g_window->last_error().toStdString();
+    ASSERT_TRUE(g_window->open_case(testing::incisor_sample_path()))
+        << g_window->last_error().toStdString();
     EXPECT_TRUE(g_window->solving());  // opening starts the solve at once
     const bool ended = QTest::qWaitFor([&]() { return done || failed; }, 600000);
     QObject::disconnect(on_done);
@@ -131,7 +135,8 @@ TEST_F(MainWindowTest, TheHealthyLevelIsShownWhileTheOthersAreSolved) {
   EXPECT_EQ(g_first.levels_listed, 1);  // the selector lists the solved levels only
   EXPECT_GT(g_first.coloured_pixels, 1000) << "colour-map pixels in the first view";
   EXPECT_TRUE(g_first.export_refused);
-  EXPECT_TRUE(g_first.export_message.contains(QStringLiteral("1 of 4"))) << g_first.export_message.toStdString();
+  EXPECT_TRUE(g_first.export_message.contains(QStringLiteral("1 of 4")))
+      << g_first.export_message.toStdString();
   EXPECT_FALSE(QDir(g_dir->filePath("too_early")).exists());
   EXPECT_EQ(g_window->level_box()->count(), 4);  // all listed once solved
 }
@@ -179,7 +184,8 @@ TEST_F(MainWindowTest, ARefusedForceKeepsControlsAndResultsTogether) {
   const double force_n = session.current_result()->load.force_n.norm();
   // The force the results were computed for, in the panel's unit (derived: the unit conversion).
   auto shown_force = [&]() {
-    return analysis::from_newton(session.current_result()->load.force_n.norm(), session.load_controls().unit);
+    return analysis::from_newton(session.current_result()->load.force_n.norm(),
+                                 session.load_controls().unit);
   };
   magnitude->setValue(0);  // refused: the case-file rules want a force above 0
   QApplication::processEvents();
@@ -208,7 +214,8 @@ TEST_F(MainWindowTest, ARefusedForceKeepsControlsAndResultsTogether) {
   EXPECT_EQ(panel->magnitude_slider()->value(),
             slider_from_magnitude(session.load_controls().magnitude, session.load_controls().unit));
   EXPECT_NEAR(shown_force(), magnitude->value(), 1e-9 * before);
-  // A valid force (another than the one shown): applied, and the message about the refused one goes.
+  // A valid force (another than the one shown): applied, and the message about the refused one
+  // goes.
   magnitude->setValue(magnitude->value() + 10);
   QApplication::processEvents();
   EXPECT_FALSE(g_window->status_label()->text().contains(QStringLiteral("not applied")))
@@ -235,8 +242,10 @@ TEST_F(MainWindowTest, TheSummaryAtTheBracketFollowsThePointOfApplication) {
   QApplication::processEvents();
   const QString text = g_window->load_panel()->resolved_text();
   EXPECT_NE(text, at_bracket);
-  EXPECT_TRUE(text.contains(QStringLiteral("applied 2.0\u2009mm above the CEJ"))) << text.toStdString();
-  EXPECT_TRUE(text.contains(QString::fromUtf8("g\u00b7mm about the mesiodistal axis"))) << text.toStdString();
+  EXPECT_TRUE(text.contains(QStringLiteral("applied 2.0\u2009mm above the CEJ")))
+      << text.toStdString();
+  EXPECT_TRUE(text.contains(QString::fromUtf8("g\u00b7mm about the mesiodistal axis")))
+      << text.toStdString();
   // A lingual force 2 mm above the CEJ, below the bracket centre, turns about the mesiodistal axis
   // there: that moment is not 0 (derived: r x F with r along the long axis).
   const analysis::ScenarioResult* r = session.current_result();
@@ -297,7 +306,8 @@ TEST_F(MainWindowTest, TheComparisonOffersPerLevelAndLimitAnchoredScales) {
     EXPECT_TRUE(comparison->view(i)->colour_bar()->isVisible());
     const std::string name = results[static_cast<size_t>(i)].name;
     EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max,
-                     results[static_cast<size_t>(i)].pressure_max_compression_kpa) << name;
+                     results[static_cast<size_t>(i)].pressure_max_compression_kpa)
+        << name;
   }
   EXPECT_FALSE(comparison->shared_bar()->isVisible());
   comparison->set_scale_mode(ScaleMode::kThresholds);
@@ -305,7 +315,8 @@ TEST_F(MainWindowTest, TheComparisonOffersPerLevelAndLimitAnchoredScales) {
   const double limit = g_window->session().spec().thresholds.limit.value_kpa;
   EXPECT_TRUE(comparison->shared_bar()->isVisible());
   EXPECT_DOUBLE_EQ(comparison->shared_bar()->range().max, limit);
-  for (int i = 0; i < comparison->n_views(); ++i) EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max, limit);
+  for (int i = 0; i < comparison->n_views(); ++i)
+    EXPECT_DOUBLE_EQ(comparison->view(i)->colour_bar()->range().max, limit);
   comparison->set_scale_mode(ScaleMode::kShown);
   g_window->show_view(ViewKind::k3D);
   QApplication::processEvents();
@@ -315,7 +326,8 @@ TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
   CaseSession& session = g_window->session();
   const LoadControls start = session.load_controls();
   int evaluations = 0;
-  const auto counter = QObject::connect(&session, &CaseSession::results_changed, [&]() { ++evaluations; });
+  const auto counter =
+      QObject::connect(&session, &CaseSession::results_changed, [&]() { ++evaluations; });
   LoadControls c = start;
   for (int i = 1; i <= 10; ++i) {
     c.magnitude = start.magnitude + i;
@@ -339,10 +351,12 @@ TEST_F(MainWindowTest, ABurstOfSliderValuesIsEvaluatedOnceAtTheNewestValue) {
 TEST_F(MainWindowTest, SavesAndExportsStartInTheDocumentsFolder) {
   const QString documents = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
   const QString samples = QFileInfo(testing::incisor_sample_path()).absolutePath();
-  for (const QString& name : {QStringLiteral("case.json"), QStringLiteral("x_report.pdf"), QString()}) {
+  for (const QString& name :
+       {QStringLiteral("case.json"), QStringLiteral("x_report.pdf"), QString()}) {
     const QString path = g_window->suggested_path(name);
     EXPECT_FALSE(path.startsWith(samples)) << path.toStdString();
-    EXPECT_TRUE(path.startsWith(documents.isEmpty() ? QDir::homePath() : documents)) << path.toStdString();
+    EXPECT_TRUE(path.startsWith(documents.isEmpty() ? QDir::homePath() : documents))
+        << path.toStdString();
   }
   // The case file's name is kept, in the documents folder.
   EXPECT_EQ(g_window->file_stem(), QFileInfo(testing::incisor_sample_path()).completeBaseName());
@@ -354,7 +368,8 @@ TEST(Command, HelpWorksWithoutADisplay) {
   const QString program = QStringLiteral(SHARPEY_BINARY_DIR "/app/gui/sharpey");
   ASSERT_TRUE(QFileInfo::exists(program)) << program.toStdString();
   QProcessEnvironment env = QProcessEnvironment::systemEnvironment();
-  for (const char* name : {"DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"}) env.remove(QString::fromLatin1(name));
+  for (const char* name : {"DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"})
+    env.remove(QString::fromLatin1(name));
   auto run_without_display = [&](const QStringList& args, QString* out, QString* err) {
     QProcess p;
     p.setProcessEnvironment(env);
@@ -379,12 +394,16 @@ TEST_F(MainWindowTest, PdfReportHasItsPagesTheCautionAndTheSources) {
   const QString info = run(QStringLiteral("pdfinfo"), {pdf});
   ASSERT_FALSE(info.isEmpty()) << "pdfinfo (poppler-utils) is needed for this test";
   // Three pages, then the force allowances of the four levels, two to a page.
-  EXPECT_TRUE(info.contains(QRegularExpression(QStringLiteral("Pages:\\s+5\\b")))) << info.toStdString();
+  EXPECT_TRUE(info.contains(QRegularExpression(QStringLiteral("Pages:\\s+5\\b"))))
+      << info.toStdString();
   // pdftotext breaks lines: compare with all white space collapsed.
   const QString text = run(QStringLiteral("pdftotext"), {pdf, QStringLiteral("-")}).simplified();
-  const auto squeeze = [](QString s) { return s.replace(QString::fromUtf8("\ufb01"), QStringLiteral("fi")).simplified(); };
+  const auto squeeze = [](QString s) {
+    return s.replace(QString::fromUtf8("\ufb01"), QStringLiteral("fi")).simplified();
+  };
   const QString plain = squeeze(text);
-  EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(analysis::caution_text())))) << plain.left(400).toStdString();
+  EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(analysis::caution_text()))))
+      << plain.left(400).toStdString();
   const auto& t = g_window->session().spec().thresholds;
   EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(t.capillary.source))));
   EXPECT_TRUE(plain.contains(squeeze(QString::fromStdString(t.limit.source))));
@@ -422,8 +441,10 @@ TEST_F(MainWindowTest, ExportedImagesCarryACaption) {
   EXPECT_GT(image.height(), bare.height() + 40) << "room for the caption";
   const QString caption = image.text(QStringLiteral("Description"));
   const CaseSession& session = g_window->session();
-  EXPECT_TRUE(caption.contains(QString::fromStdString(session.spec().label))) << caption.toStdString();
-  EXPECT_TRUE(caption.contains(QStringLiteral("bone level: ") + QString::fromStdString(session.current_result()->name)));
+  EXPECT_TRUE(caption.contains(QString::fromStdString(session.spec().label)))
+      << caption.toStdString();
+  EXPECT_TRUE(caption.contains(QStringLiteral("bone level: ") +
+                               QString::fromStdString(session.current_result()->name)));
   EXPECT_TRUE(caption.contains(describe(session.load_controls())));
   EXPECT_TRUE(caption.contains(QStringLiteral("hydrostatic pressure (kPa)")));
   EXPECT_TRUE(caption.contains(QString::fromStdString(analysis::caution_text())));
@@ -456,12 +477,14 @@ TEST_F(MainWindowTest, ABadCaseFileShowsTheLibraryMessage) {
   const QString bad = g_dir->filePath("bad.json");
   QFile f(bad);
   ASSERT_TRUE(f.open(QIODevice::WriteOnly));
-  f.write("{ \"schema_version\": 1, \"tooth\": { \"type\": \"maxillary_central_incisor\" }, "
-          "\"scenarios\": [ { \"name\": \"healthy\", \"horizontal_loss_mm\": 0 } ], "
-          "\"load\": { \"magnitude\": \"heavy\" } }");
+  f.write(
+      "{ \"schema_version\": 1, \"tooth\": { \"type\": \"maxillary_central_incisor\" }, "
+      "\"scenarios\": [ { \"name\": \"healthy\", \"horizontal_loss_mm\": 0 } ], "
+      "\"load\": { \"magnitude\": \"heavy\" } }");
   f.close();
   EXPECT_FALSE(g_window->open_case(bad));
-  EXPECT_TRUE(g_window->last_error().contains("load.magnitude")) << g_window->last_error().toStdString();
+  EXPECT_TRUE(g_window->last_error().contains("load.magnitude"))
+      << g_window->last_error().toStdString();
   EXPECT_EQ(g_window->session().results().size(), 4u);  // the open case stays
 }
 
@@ -491,7 +514,8 @@ TEST_F(MainWindowTest, TheCasePanelChecksABoneLossOnEntry) {
   // dimensions) can lose; refused at once, not a minute later by the mesher.
   table->item(3, 2)->setText(QStringLiteral("15"));
   QApplication::processEvents();
-  EXPECT_TRUE(g_window->last_error().contains(QStringLiteral("scenarios[3]"))) << g_window->last_error().toStdString();
+  EXPECT_TRUE(g_window->last_error().contains(QStringLiteral("scenarios[3]")))
+      << g_window->last_error().toStdString();
   EXPECT_DOUBLE_EQ(session.levels().at(3).loss.horizontal_mm, 6.0);
   EXPECT_EQ(table->item(3, 2)->text().toDouble(), 6.0);
   EXPECT_EQ(session.geometry_stale(), stale_before);
@@ -517,7 +541,8 @@ TEST_F(MainWindowTest, ReopeningWhileSolvingDropsTheOldSolveAndSolvesTheNewCase)
   ASSERT_TRUE(g_window->solving());
   // The first level of this solve arrives; then the same file is opened again.
   const analysis::Study* before = session.study();
-  ASSERT_TRUE(QTest::qWaitFor([&]() { return session.study() != before || !g_window->solving(); }, 600000));
+  ASSERT_TRUE(
+      QTest::qWaitFor([&]() { return session.study() != before || !g_window->solving(); }, 600000));
   ASSERT_TRUE(g_window->solving()) << "the solve ended before the test could reopen";
   const analysis::Study* dropped = session.study();
   bool old_levels_after_reopen = false;

@@ -1,16 +1,15 @@
 // The 3D result view on a solved coarse incisor: colour-mapped pixels, colour bar range, threshold
 // iso-lines, sections and quantities.
 #include <gtest/gtest.h>
-
-#include <QTest>
 #include <vtkCamera.h>
 
 #include <Eigen/Geometry>
+#include <QTest>
 #include <algorithm>
 #include <cmath>
 
-#include "core/load_controls.h"
 #include "core/colour_map.h"
+#include "core/load_controls.h"
 #include "support/image_checks.h"
 #include "support/solved_sample.h"
 #include "view/colour_bar.h"
@@ -38,7 +37,8 @@ class ResultViewTest : public ::testing::Test {
     return analysis::evaluate(*study_->solutions()[0], load, study_->spec().thresholds, nullptr);
   }
   void show(const analysis::ScenarioResult& r) {
-    view_->show_result(*study_->solutions()[0], r, study_->spec().thresholds, QStringLiteral("test"));
+    view_->show_result(*study_->solutions()[0], r, study_->spec().thresholds,
+                       QStringLiteral("test"));
     QApplication::processEvents();
   }
   std::shared_ptr<const analysis::Study> study_;
@@ -51,7 +51,8 @@ TEST_F(ResultViewTest, TheLigamentIsColouredAndTheBarShowsTheComputedRange) {
   const QImage image = view_->grab_image();
   testing::keep_image(image, "test_result_view");
   const int coloured = colour_map_pixels(image);
-  EXPECT_GT(coloured, 500) << "colour-map pixels in a " << image.width() << "x" << image.height() << " view";
+  EXPECT_GT(coloured, 500) << "colour-map pixels in a " << image.width() << "x" << image.height()
+                           << " view";
   // The bar shows the key numbers' span (peak tension to peak compression, derived: both are
   // taken over the PDL nodes outside the crest edge band).
   EXPECT_DOUBLE_EQ(view_->colour_bar()->range().min, -r.pressure_max_tension_kpa);
@@ -100,8 +101,8 @@ TEST_F(ResultViewTest, TheRangeShownIsTheKeyNumbersForEveryQuantityAndTheBandIsM
   // The band's line is on screen: violet pixels (the line's colour, the app's own choice).
   const QImage image = view_->grab_image();
   const int violet = count_pixels(image, [](const QColor& c) {
-    return std::abs(c.red() - 128) < 40 && std::abs(c.green() - 69) < 40 && std::abs(c.blue() - 184) < 45 &&
-           c.blue() > c.green() + 60;
+    return std::abs(c.red() - 128) < 40 && std::abs(c.green() - 69) < 40 &&
+           std::abs(c.blue() - 184) < 45 && c.blue() > c.green() + 60;
   });
   EXPECT_GT(violet, 50);
 }
@@ -166,10 +167,10 @@ TEST_F(ResultViewTest, FixedAndLimitAnchoredScalesShowAWeakerForcePaler) {
   show(r50);
   EXPECT_DOUBLE_EQ(view_->colour_bar()->range().max, limit);
   const double red_50 = redness();
-  // Half the force, half the pressure (derived: linearity): paler. Measured ratio 1.12 on the coarse
-  // incisor: both forces pass the limit along much of the crest, where the anchored scale is at its
-  // end, so the difference lies where the pressure is under the limit; frames are deterministic, so
-  // 1.05 leaves room for a different software renderer only.
+  // Half the force, half the pressure (derived: linearity): paler. Measured ratio 1.12 on the
+  // coarse incisor: both forces pass the limit along much of the crest, where the anchored scale is
+  // at its end, so the difference lies where the pressure is under the limit; frames are
+  // deterministic, so 1.05 leaves room for a different software renderer only.
   EXPECT_GT(red_100, 1.05 * red_50);
   // Fixed: the range on screen when chosen stays when the force changes, and 50 g looks paler.
   show(r100);
@@ -210,7 +211,8 @@ TEST_F(ResultViewTest, ThresholdIsoLinesOnlyForPressure) {
 TEST_F(ResultViewTest, SectionShowsTheCutFace) {
   show(evaluate(100));
   const auto ivory = [](const QColor& c) {
-    return std::abs(c.red() - 237) < 25 && std::abs(c.green() - 229) < 25 && std::abs(c.blue() - 209) < 30;
+    return std::abs(c.red() - 237) < 25 && std::abs(c.green() - 229) < 25 &&
+           std::abs(c.blue() - 209) < 30;
   };
   view_->set_bone_style(BoneStyle::kOpaque);
   QApplication::processEvents();

@@ -1,12 +1,6 @@
 // The Qt6 / VTK bridge: VTK renders inside the QOpenGLWidget, grabs see it, the interactor moves
 // the camera, and linked cameras follow.
 #include <gtest/gtest.h>
-
-#include <QApplication>
-#include <cstdio>
-#include <QMouseEvent>
-#include <QTest>
-#include <QVBoxLayout>
 #include <vtkActor.h>
 #include <vtkBillboardTextActor3D.h>
 #include <vtkCamera.h>
@@ -16,6 +10,12 @@
 #include <vtkRenderer.h>
 #include <vtkSphereSource.h>
 #include <vtkTextProperty.h>
+
+#include <QApplication>
+#include <QMouseEvent>
+#include <QTest>
+#include <QVBoxLayout>
+#include <cstdio>
 
 #include "support/image_checks.h"
 #include "view/vtk_view.h"
@@ -117,7 +117,8 @@ TEST(VtkView, LabelsKeepTheirScreenSizeInHalfResolutionFrames) {
   // The quick frame is shown twice as large: the text must be half as tall in it (a frame pixel
   // or two of rounding in the font size allowed).
   EXPECT_NEAR(2.0 * h_quick, h_full, 4.0) << "full " << h_full << " px, quick " << h_quick << " px";
-  std::printf("label height: full frame %d px, quick frame %d px (shown at twice that)\n", h_full, h_quick);
+  std::printf("label height: full frame %d px, quick frame %d px (shown at twice that)\n", h_full,
+              h_quick);
   view.set_quick(false);
   view.repaint();
   EXPECT_DOUBLE_EQ(scales_seen, 1.0);

@@ -22,13 +22,12 @@
 // of memory there (measured), so the 512 MB row is a mesher failure like the others. A mesher that
 // crashes is checked without memory limits by test_batch_kill.cpp
 // (ACrashingMesherIsAMesherFailure).
+#include <fcntl.h>
+#include <gtest/gtest.h>
+#include <signal.h>
 #include <sys/resource.h>
 #include <sys/wait.h>
-#include <fcntl.h>
-#include <signal.h>
 #include <unistd.h>
-
-#include <gtest/gtest.h>
 
 #include <chrono>
 #include <string>
@@ -72,8 +71,7 @@ ProcessResult run_limited(const std::vector<std::string>& args, long limit_mb,
   }
   ProcessResult r;
   int status = 0;
-  const auto deadline =
-      std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
   while (::waitpid(pid, &status, WNOHANG) != pid) {
     if (std::chrono::steady_clock::now() > deadline) {
       ::kill(pid, SIGKILL);
@@ -98,21 +96,22 @@ std::string case_with_mesh(const std::string& mesh_object) {
   "pdl": {"width_mm": 0.2},
   "scenarios": [{"name": "healthy", "horizontal_loss_mm": 0}],
   "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
-  "mesh": )json" + mesh_object + "\n}\n";
+  "mesh": )json" +
+         mesh_object + "\n}\n";
 }
 
 struct MemoryRun {
   const char* name;
   const char* command;  // run or mesh
-  const char* mesh;  // the case's "mesh" object
+  const char* mesh;     // the case's "mesh" object
   long limit_mb;
   int exit_code;
   const char* failure;  // expected in stderr
 };
 
 std::ostream& operator<<(std::ostream& os, const MemoryRun& m) {
-  return os << m.name << ": " << m.command << " (mesh " << m.mesh << ", limit " << m.limit_mb << " MB) -> exit "
-            << m.exit_code;
+  return os << m.name << ": " << m.command << " (mesh " << m.mesh << ", limit " << m.limit_mb
+            << " MB) -> exit " << m.exit_code;
 }
 
 class BatchOutOfMemory : public ::testing::TestWithParam<MemoryRun> {};
@@ -127,8 +126,7 @@ TEST_P(BatchOutOfMemory, ExitsWithItsCodeNamesAFixLeavesNoOutput) {
   const ProcessResult r = run_limited({m.command, case_path, "--out", out}, m.limit_mb, folder);
   const double seconds =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-  std::cout << m << ": exit " << r.exit_code << ", signal " << r.signal << ", " << seconds
-            << " s\n"
+  std::cout << m << ": exit " << r.exit_code << ", signal " << r.signal << ", " << seconds << " s\n"
             << r.err;
 
   EXPECT_EQ(r.signal, 0) << "ended by a signal (a crash or the timeout), not an exit code";

@@ -30,10 +30,11 @@ int main(int argc, char** argv) {
           best = std::min(best, std::chrono::duration<double>(t1 - t0).count());
         }
         const MeshStatistics s = measure(model.mesh);
-        std::printf("%-9s %-8.1f %9.2f %9d %9d %10d %7d %7d %9.2f %9.3f\n", to_string(preset).c_str(),
-                    loss, best, s.n_nodes, s.n_elements, 3 * s.n_nodes,
+        std::printf("%-9s %-8.1f %9.2f %9d %9d %10d %7d %7d %9.2f %9.3f\n",
+                    to_string(preset).c_str(), loss, best, s.n_nodes, s.n_elements, 3 * s.n_nodes,
                     s.elements_per_region.count(kPdl) ? s.elements_per_region.at(kPdl) : 0,
-                    resolve_sizing(spec.sizing).pdl_layers, s.min_dihedral_deg, s.min_jacobian_ratio);
+                    resolve_sizing(spec.sizing).pdl_layers, s.min_dihedral_deg,
+                    s.min_jacobian_ratio);
       }
     }
   } catch (const std::exception& e) {

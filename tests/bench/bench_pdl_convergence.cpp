@@ -19,9 +19,9 @@
 #include <vector>
 
 #include "sharpey/core/constants.h"
-#include "sharpey/startup/blas_kernels.h"
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/tooth_model.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 

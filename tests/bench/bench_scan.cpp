@@ -26,9 +26,9 @@
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
-#include "sharpey/startup/blas_kernels.h"
 #include "sharpey/mesh/tooth_model.h"
 #include "sharpey/mesh/tooth_surface.h"
+#include "sharpey/startup/blas_kernels.h"
 
 namespace {
 

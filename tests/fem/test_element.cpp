@@ -38,7 +38,7 @@ mesh::VolumeMesh skewed_element(int k) {
 // Curved 10-node element: midside nodes pushed off their edges by up to 12 % of the edge length.
 mesh::VolumeMesh curved_element() {
   mesh::VolumeMesh m = skewed_element(10);
-  const Eigen::Vector3d push[6] = {{0.02, -0.1, 0.03}, {0.08, 0.05, 0.0}, {-0.09, 0.02, 0.04},
+  const Eigen::Vector3d push[6] = {{0.02, -0.1, 0.03}, {0.08, 0.05, 0.0},   {-0.09, 0.02, 0.04},
                                    {-0.05, 0.0, 0.02}, {0.06, -0.03, 0.05}, {0.0, 0.07, 0.06}};
   for (int e = 0; e < 6; ++e) m.nodes[4 + e] += push[e];
   return m;
@@ -88,7 +88,10 @@ TEST_P(ElementProperties, ExactlySixZeroEigenvaluesRestPositive) {
     for (int a = 0; a < k; ++a) {
       const Eigen::Vector3d x = c_.mesh.nodes[static_cast<size_t>(a)];
       Eigen::Vector3d v = Eigen::Vector3d::Zero();
-      if (mode < 3) v(mode) = 1.0; else v = Eigen::Vector3d::Unit(mode - 3).cross(x);
+      if (mode < 3)
+        v(mode) = 1.0;
+      else
+        v = Eigen::Vector3d::Unit(mode - 3).cross(x);
       u.segment<3>(3 * a) = v;
     }
     EXPECT_LT((K * u).norm(), 1e-12 * K.norm() * u.norm()) << "mode " << mode;
@@ -110,11 +113,13 @@ TEST_P(ElementProperties, ScalingByLengthFactor) {
     const Eigen::MatrixXd Ks = element_stiffness(scaled, 0, D);
     EXPECT_LT((Ks - s * K).norm(), 1e-12 * s * K.norm());
     Eigen::VectorXd u(3 * scaled.n_nodes());
-    for (int a = 0; a < scaled.n_nodes(); ++a) u.segment<3>(3 * a) = H * scaled.nodes[static_cast<size_t>(a)];
+    for (int a = 0; a < scaled.n_nodes(); ++a)
+      u.segment<3>(3 * a) = H * scaled.nodes[static_cast<size_t>(a)];
     Eigen::Matrix<double, 6, Eigen::Dynamic> stress;
     element_quadrature_stress(scaled, 0, D, u, &stress, nullptr);
     Vector6d expected_strain;
-    expected_strain << H(0, 0), H(1, 1), H(2, 2), H(1, 2) + H(2, 1), H(0, 2) + H(2, 0), H(0, 1) + H(1, 0);
+    expected_strain << H(0, 0), H(1, 1), H(2, 2), H(1, 2) + H(2, 1), H(0, 2) + H(2, 0),
+        H(0, 1) + H(1, 0);
     const Vector6d expected = D * expected_strain;
     for (int q = 0; q < stress.cols(); ++q) {
       EXPECT_LT((stress.col(q) - expected).norm(), 1e-10 * expected.norm()) << "point " << q;
@@ -144,7 +149,8 @@ TEST(StrainDisplacement, VoigtOrderAndEngineeringShear) {
   EXPECT_LT((strain - expected).norm(), 1e-13);
   // det(J) = 6 V for the straight element.
   const Eigen::Matrix3d E = (Eigen::Matrix3d() << m.nodes[1] - m.nodes[0], m.nodes[2] - m.nodes[0],
-                             m.nodes[3] - m.nodes[0]).finished();
+                             m.nodes[3] - m.nodes[0])
+                                .finished();
   EXPECT_NEAR(det, E.determinant(), 1e-14);
 }
 
@@ -158,8 +164,9 @@ TEST(ElementStiffness, LinearFieldEnergyMatchesClosedForm) {
   eps << H(0, 0), H(1, 1), H(2, 2), H(1, 2) + H(2, 1), H(0, 2) + H(2, 0), H(0, 1) + H(1, 0);
   for (int k : {4, 10}) {
     const mesh::VolumeMesh m = skewed_element(k);
-    const Eigen::Matrix3d E = (Eigen::Matrix3d() << m.nodes[1] - m.nodes[0], m.nodes[2] - m.nodes[0],
-                               m.nodes[3] - m.nodes[0]).finished();
+    const Eigen::Matrix3d E = (Eigen::Matrix3d() << m.nodes[1] - m.nodes[0],
+                               m.nodes[2] - m.nodes[0], m.nodes[3] - m.nodes[0])
+                                  .finished();
     const double volume = E.determinant() / 6.0;
     Eigen::VectorXd u(3 * k);
     for (int a = 0; a < k; ++a) u.segment<3>(3 * a) = H * m.nodes[static_cast<size_t>(a)];
@@ -183,16 +190,17 @@ TEST(ElementStiffness, QuadraticFieldEnergyExactOnStraightElement) {
   auto strain = [](const Eigen::Vector3d& x) {
     Vector6d e;
     e << 0.01 * x.y(), 0.01 * x.z(), 0.015 * x.x(),
-        0.01 * x.y() - 0.04 * x.y(),                     // du_y/dz + du_z/dy
-        -0.04 * x.z() + 0.015 * x.z(),                   // du_x/dz + du_z/dx
-        0.01 * x.x() + 0.06 * x.x();                     // du_x/dy + du_y/dx
+        0.01 * x.y() - 0.04 * x.y(),    // du_y/dz + du_z/dy
+        -0.04 * x.z() + 0.015 * x.z(),  // du_x/dz + du_z/dx
+        0.01 * x.x() + 0.06 * x.x();    // du_x/dy + du_y/dx
     return e;
   };
   Eigen::VectorXd u(30);
   for (int a = 0; a < 10; ++a) u.segment<3>(3 * a) = displacement(m.nodes[static_cast<size_t>(a)]);
   const double energy = u.dot(element_stiffness(m, 0, D) * u);
   const Eigen::Matrix3d E = (Eigen::Matrix3d() << m.nodes[1] - m.nodes[0], m.nodes[2] - m.nodes[0],
-                             m.nodes[3] - m.nodes[0]).finished();
+                             m.nodes[3] - m.nodes[0])
+                                .finished();
   const core::QuadratureRule rule = core::tet_quadrature(5);
   double expected = 0;
   for (size_t q = 0; q < rule.points.size(); ++q) {

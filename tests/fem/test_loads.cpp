@@ -25,7 +25,8 @@ Eigen::Vector3d resultant(const Eigen::VectorXd& f) {
 Eigen::Vector3d moment_about(const mesh::VolumeMesh& m, const Eigen::VectorXd& f,
                              const Eigen::Vector3d& p) {
   Eigen::Vector3d s = Eigen::Vector3d::Zero();
-  for (int i = 0; i < m.n_nodes(); ++i) s += (m.nodes[static_cast<size_t>(i)] - p).cross(f.segment<3>(3 * i));
+  for (int i = 0; i < m.n_nodes(); ++i)
+    s += (m.nodes[static_cast<size_t>(i)] - p).cross(f.segment<3>(3 * i));
   return s;
 }
 
@@ -33,7 +34,8 @@ Eigen::Vector3d moment_about(const mesh::VolumeMesh& m, const Eigen::VectorXd& f
 Eigen::Vector3d curved(const Eigen::Vector3d& p) {
   const double r = 3.0 + p.x();
   const double a = 0.9 * p.y();
-  return Eigen::Vector3d(r * std::cos(a), r * std::sin(a), 2.0 * p.z() + 0.3 * std::sin(2.0 * p.x()));
+  return Eigen::Vector3d(r * std::cos(a), r * std::sin(a),
+                         2.0 * p.z() + 0.3 * std::sin(2.0 * p.x()));
 }
 
 struct LoadCase {
@@ -47,8 +49,8 @@ class PatchLoadCase : public ::testing::TestWithParam<LoadCase> {};
 
 // derived: the distributing coupling is statically equivalent to (F, M) at the reference point.
 TEST_P(PatchLoadCase, ResultantAndMomentExact) {
-  const mesh::VolumeMesh m =
-      grid_mesh(3, 4, 3, GetParam().k, GetParam().curved ? testing::PointMap(curved) : testing::PointMap{});
+  const mesh::VolumeMesh m = grid_mesh(
+      3, 4, 3, GetParam().k, GetParam().curved ? testing::PointMap(curved) : testing::PointMap{});
   const Eigen::Vector3d F(0.3, -1.2, 0.7), M(4.0, 0.5, -2.5);
   for (const Eigen::Vector3d& p : {Eigen::Vector3d(0, 0, 0), Eigen::Vector3d(4.0, 1.0, 1.0),
                                    Eigen::Vector3d(-2.0, 7.0, 3.0)}) {
@@ -56,7 +58,8 @@ TEST_P(PatchLoadCase, ResultantAndMomentExact) {
     for (int side : {testing::kXiMax, testing::kZetaMax}) {
       const Eigen::VectorXd f = patch_load(m, side, F, M, p);
       EXPECT_LT((resultant(f) - F).norm(), 1e-13 * F.norm()) << "side " << side;
-      EXPECT_LT((moment_about(m, f, p) - M).norm(), 1e-12 * (M.norm() + 10 * F.norm())) << "side " << side;
+      EXPECT_LT((moment_about(m, f, p) - M).norm(), 1e-12 * (M.norm() + 10 * F.norm()))
+          << "side " << side;
       // Only nodes of the patch are loaded.
       const Eigen::VectorXd a = consistent_nodal_areas(m, side);
       for (int i = 0; i < m.n_nodes(); ++i) {
@@ -71,8 +74,8 @@ TEST_P(PatchLoadCase, ResultantAndMomentExact) {
 // Two computations: a pure force at the area-weighted centroid spreads exactly like a uniform
 // traction F / A (f_i = a_i F / A).
 TEST_P(PatchLoadCase, ForceAtCentroidEqualsUniformTraction) {
-  const mesh::VolumeMesh m =
-      grid_mesh(3, 4, 3, GetParam().k, GetParam().curved ? testing::PointMap(curved) : testing::PointMap{});
+  const mesh::VolumeMesh m = grid_mesh(
+      3, 4, 3, GetParam().k, GetParam().curved ? testing::PointMap(curved) : testing::PointMap{});
   const Eigen::VectorXd a = consistent_nodal_areas(m, testing::kEtaMin);
   const double area = a.sum();
   Eigen::Vector3d c = Eigen::Vector3d::Zero();
@@ -101,15 +104,17 @@ TEST(PatchLoad, CornerNodesOfFlatQuadraticFacesCarryNothing) {
 
 TEST(PatchLoad, MissingOrLinearPatchIsAnInputError) {
   mesh::VolumeMesh m = grid_mesh(2, 2, 2, 4);
-  EXPECT_THROW(patch_load(m, 99, Eigen::Vector3d::UnitX(), Eigen::Vector3d::Zero(), Eigen::Vector3d::Zero()),
-               InputError);
+  EXPECT_THROW(
+      patch_load(m, 99, Eigen::Vector3d::UnitX(), Eigen::Vector3d::Zero(), Eigen::Vector3d::Zero()),
+      InputError);
   // Squash the zeta = 1 face into a strip 1e-7 wide along x: it has area but no second moment
   // across.
   for (auto& x : m.nodes) {
     if (x.z() > 1.0 - 1e-12) x.y() = 0.5 + 1e-7 * (x.y() - 0.5);
   }
   try {
-    patch_load(m, testing::kZetaMax, Eigen::Vector3d::UnitX(), Eigen::Vector3d::UnitZ(), Eigen::Vector3d::Zero());
+    patch_load(m, testing::kZetaMax, Eigen::Vector3d::UnitX(), Eigen::Vector3d::UnitZ(),
+               Eigen::Vector3d::Zero());
     FAIL() << "expected InputError";
   } catch (const InputError& e) {
     EXPECT_NE(std::string(e.what()).find("line"), std::string::npos) << e.what();
@@ -149,7 +154,8 @@ TEST(PressureLoad, ClosedCurvedSurfaceGivesZeroResultant) {
 // projection), whatever the bump h; the pressure resultant is -p times the vector area.
 TEST(PressureLoad, BumpedFaceProjectsToItsBase) {
   const mesh::VolumeMesh m = grid_mesh(3, 3, 2, 10, [](const Eigen::Vector3d& p) {
-    return Eigen::Vector3d(p.x(), p.y(), p.z() * (1.0 + 0.3 * std::sin(3.0 * p.x()) * std::cos(2.0 * p.y())));
+    return Eigen::Vector3d(p.x(), p.y(),
+                           p.z() * (1.0 + 0.3 * std::sin(3.0 * p.x()) * std::cos(2.0 * p.y())));
   });
   const double p = 0.25;
   const Eigen::Vector3d total = resultant(pressure_load(m, testing::kZetaMax, p));
@@ -164,22 +170,23 @@ TEST(PressureLoad, BumpedFaceProjectsToItsBase) {
 TEST(Reactions, BalanceAppliedForceAndMoment) {
   for (int k : {4, 10}) {
     SCOPED_TRACE(std::to_string(k) + "-node");
-    mesh::VolumeMesh m = grid_mesh(3, 3, 4, k, curved, [](const Eigen::Vector3d& p) {
-      return p.z() < 0.5 ? 1 : 2;
-    });
+    mesh::VolumeMesh m =
+        grid_mesh(3, 3, 4, k, curved, [](const Eigen::Vector3d& p) { return p.z() < 0.5 ? 1 : 2; });
     const MaterialTable materials{{1, {13700.0, 0.3}}, {2, {0.5, 0.45}}};
     const std::vector<DofConstraint> fixed = fix_faces(m, testing::kZetaMin);
     const LinearElasticSolver solver(m, materials, fixed);
     const Eigen::Vector3d F(0.5, -0.2, 1.0), M(3.0, -1.0, 2.0), p(3.5, 1.0, 2.5);
-    const Eigen::VectorXd f = patch_load(m, testing::kZetaMax, F, M, p) +
-                              pressure_load(m, testing::kXiMax, 0.01);
+    const Eigen::VectorXd f =
+        patch_load(m, testing::kZetaMax, F, M, p) + pressure_load(m, testing::kXiMax, 0.01);
     const Eigen::VectorXd u = solver.solve(f);
     const Eigen::VectorXd r = solver.reactions(u, f);
     std::vector<char> is_fixed(static_cast<size_t>(3 * m.n_nodes()), 0);
-    for (const DofConstraint& d : fixed) is_fixed[static_cast<size_t>(3 * d.node + d.component)] = 1;
+    for (const DofConstraint& d : fixed)
+      is_fixed[static_cast<size_t>(3 * d.node + d.component)] = 1;
     double free_residual = 0;
     for (long i = 0; i < r.size(); ++i) {
-      if (!is_fixed[static_cast<size_t>(i)]) free_residual = std::max(free_residual, std::abs(r(i)));
+      if (!is_fixed[static_cast<size_t>(i)])
+        free_residual = std::max(free_residual, std::abs(r(i)));
     }
     const double scale = f.cwiseAbs().maxCoeff();
     EXPECT_LT(free_residual, 1e-10 * scale);

@@ -33,12 +33,16 @@ TEST_P(UniaxialBar, ExactStressAndDisplacement) {
   testing::jitter_nodes(m, 0.3, 11u);
   const MaterialTable materials{{1, {E, nu}}};
   std::vector<DofConstraint> c;
-  for (const DofConstraint& d : fix_faces(m, testing::kXiMin)) if (d.component == 0) c.push_back(d);
-  for (const DofConstraint& d : fix_faces(m, testing::kEtaMin)) if (d.component == 1) c.push_back(d);
-  for (const DofConstraint& d : fix_faces(m, testing::kZetaMin)) if (d.component == 2) c.push_back(d);
+  for (const DofConstraint& d : fix_faces(m, testing::kXiMin))
+    if (d.component == 0) c.push_back(d);
+  for (const DofConstraint& d : fix_faces(m, testing::kEtaMin))
+    if (d.component == 1) c.push_back(d);
+  for (const DofConstraint& d : fix_faces(m, testing::kZetaMin))
+    if (d.component == 2) c.push_back(d);
   const LinearElasticSolver solver(m, materials, c);
   const double area = a * b;
-  const Eigen::VectorXd u = solver.solve(traction_load(m, testing::kXiMax, Eigen::Vector3d(F / area, 0, 0)));
+  const Eigen::VectorXd u =
+      solver.solve(traction_load(m, testing::kXiMax, Eigen::Vector3d(F / area, 0, 0)));
   const double strain = F / (E * area);
   for (int i = 0; i < m.n_nodes(); ++i) {
     const Eigen::Vector3d& x = m.nodes[static_cast<size_t>(i)];
@@ -52,7 +56,8 @@ TEST_P(UniaxialBar, ExactStressAndDisplacement) {
   Vector6d eps = Vector6d::Zero();
   eps << strain, -nu * strain, -nu * strain, 0, 0, 0;
   for (long j = 0; j < field.stress_mpa.cols(); ++j) {
-    EXPECT_LT((field.stress_mpa.col(j) - sigma).norm(), 1e-9 * sigma(0)) << "node " << field.nodes[static_cast<size_t>(j)];
+    EXPECT_LT((field.stress_mpa.col(j) - sigma).norm(), 1e-9 * sigma(0))
+        << "node " << field.nodes[static_cast<size_t>(j)];
     EXPECT_LT((field.strain.col(j) - eps).norm(), 1e-9 * strain);
   }
   // Scalar measures of the uniaxial state (derived).
@@ -67,14 +72,17 @@ INSTANTIATE_TEST_SUITE_P(Elements, UniaxialBar, ::testing::Values(4, 10),
                          });
 
 // A quadratic displacement field has linear strains; on straight 10-node elements the four
-// degree-2 points carry the exact strain, and the linear extrapolation makes every nodal value exact
-// (derived). Regions keep their own stress at shared nodes: D1 eps on one side, D2 eps on the other.
+// degree-2 points carry the exact strain, and the linear extrapolation makes every nodal value
+// exact (derived). Regions keep their own stress at shared nodes: D1 eps on one side, D2 eps on the
+// other.
 TEST(Recovery, QuadraticFieldExactAtNodesPerRegion) {
-  mesh::VolumeMesh m = grid_mesh(3, 3, 4, 10, {}, [](const Eigen::Vector3d& p) { return p.z() < 0.5 ? 1 : 2; });
+  mesh::VolumeMesh m =
+      grid_mesh(3, 3, 4, 10, {}, [](const Eigen::Vector3d& p) { return p.z() < 0.5 ? 1 : 2; });
   testing::jitter_nodes(m, 0.3, 5u);
   const MaterialTable materials{{1, {100.0, 0.25}}, {2, {3.0, 0.45}}};
   auto displacement = [](const Eigen::Vector3d& x) {
-    return Eigen::Vector3d(0.01 * x.x() * x.y() + 0.002 * x.z(), 0.03 * x.x() * x.x() - 0.02 * x.y() * x.z(),
+    return Eigen::Vector3d(0.01 * x.x() * x.y() + 0.002 * x.z(),
+                           0.03 * x.x() * x.x() - 0.02 * x.y() * x.z(),
                            0.015 * x.z() * x.z() + 0.01 * x.x() * x.y());
   };
   auto strain = [](const Eigen::Vector3d& x) {
@@ -84,7 +92,8 @@ TEST(Recovery, QuadraticFieldExactAtNodesPerRegion) {
     return e;
   };
   Eigen::VectorXd u(3 * m.n_nodes());
-  for (int i = 0; i < m.n_nodes(); ++i) u.segment<3>(3 * i) = displacement(m.nodes[static_cast<size_t>(i)]);
+  for (int i = 0; i < m.n_nodes(); ++i)
+    u.segment<3>(3 * i) = displacement(m.nodes[static_cast<size_t>(i)]);
   int shared = 0;
   const RegionField lower = recover_region(m, materials, u, 1);
   const RegionField upper = recover_region(m, materials, u, 2);
@@ -93,10 +102,12 @@ TEST(Recovery, QuadraticFieldExactAtNodesPerRegion) {
     for (size_t j = 0; j < f->nodes.size(); ++j) {
       const Vector6d e = strain(m.nodes[static_cast<size_t>(f->nodes[j])]);
       EXPECT_LT((f->strain.col(static_cast<long>(j)) - e).norm(), 1e-12) << "region " << f->region;
-      EXPECT_LT((f->stress_mpa.col(static_cast<long>(j)) - D * e).norm(), 1e-10) << "region " << f->region;
+      EXPECT_LT((f->stress_mpa.col(static_cast<long>(j)) - D * e).norm(), 1e-10)
+          << "region " << f->region;
     }
   }
-  for (int node : lower.nodes) shared += std::binary_search(upper.nodes.begin(), upper.nodes.end(), node);
+  for (int node : lower.nodes)
+    shared += std::binary_search(upper.nodes.begin(), upper.nodes.end(), node);
   EXPECT_EQ(shared, 7 * 7);  // the interface z = 0.5 of the 10-node grid
 }
 
@@ -125,7 +136,8 @@ TEST(Recovery, SeveralFieldsAtOnceEqualOneByOne) {
   ASSERT_EQ(all.size(), 3u);
   for (int j = 0; j < 3; ++j) {
     const RegionField one = recover_region(m, materials, Eigen::VectorXd(U.col(j)), 1);
-    EXPECT_LT((all[static_cast<size_t>(j)].stress_mpa - one.stress_mpa).norm(), 1e-13 * one.stress_mpa.norm());
+    EXPECT_LT((all[static_cast<size_t>(j)].stress_mpa - one.stress_mpa).norm(),
+              1e-13 * one.stress_mpa.norm());
   }
 }
 

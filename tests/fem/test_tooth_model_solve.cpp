@@ -22,8 +22,9 @@
 namespace sharpey::fem {
 namespace {
 
-// source: check-values.md section 1 (pub): dentin 18.6 GPa / 0.31, PDL 0.47 MPa / 0.45 (AJODO 2013),
-// cortical bone 13.7 GPa / 0.30, cancellous bone 1.37 GPa / 0.30 (tables of published FE studies).
+// source: check-values.md section 1 (pub): dentin 18.6 GPa / 0.31, PDL 0.47 MPa / 0.45 (AJODO
+// 2013), cortical bone 13.7 GPa / 0.30, cancellous bone 1.37 GPa / 0.30 (tables of published FE
+// studies).
 MaterialTable tooth_materials() {
   return {{mesh::kTooth, {18600.0, 0.31}},
           {mesh::kPdl, {0.47, 0.45}},
@@ -105,7 +106,8 @@ TEST(ToothModelSolve, ReactionsBalanceTheAppliedForceSystem) {
       // The applied nodal forces are the requested force system (patch_load's contract).
       const Eigen::Vector3d requested_m = M + (g.bracket_center - point).cross(F);
       EXPECT_LT((applied_f - F).norm(), 1e-12 * F.norm());
-      EXPECT_LT((applied_m - requested_m).norm(), 1e-12 * (requested_m.norm() + F.norm() * size_mm));
+      EXPECT_LT((applied_m - requested_m).norm(),
+                1e-12 * (requested_m.norm() + F.norm() * size_mm));
       // Scale of the moment balance: the moment itself plus the force times the model's size, so
       // the check stays meaningful about a point where the applied moment happens to be small.
       const double force_err = (reaction_f + applied_f).norm() / applied_f.norm();
@@ -143,8 +145,8 @@ TEST(ToothModelSolve, UnitLoadBasisEqualsDirectSolve) {
     const double du = (u - u_direct).norm() / u_direct.norm();
     const double ds = (combined.stress_mpa - direct.stress_mpa).norm() / direct.stress_mpa.norm();
     const double de = (combined.strain - direct.strain).norm() / direct.strain.norm();
-    std::printf("trial %d: displacement %.2e, PDL stress %.2e, PDL strain %.2e (relative)\n",
-                trial, du, ds, de);
+    std::printf("trial %d: displacement %.2e, PDL stress %.2e, PDL strain %.2e (relative)\n", trial,
+                du, ds, de);
     EXPECT_LT(du, 1e-9);
     EXPECT_LT(ds, 1e-9);
     EXPECT_LT(de, 1e-9);
@@ -161,10 +163,10 @@ struct ConvergenceFigures {
   Eigen::Vector3d peak_x_mm = Eigen::Vector3d::Zero();  // position of the node carrying it
   // Max over the band next to the free edge, where the linear-elastic stress is singular.
   double edge_band_peak_kpa = 0;
-  double p95_pressure_kpa = 0;         // 95th percentile, PDL element volume weighted
+  double p95_pressure_kpa = 0;  // 95th percentile, PDL element volume weighted
   double crest_z_mm = 0;
   double apex_z_mm = 0;
-  double crown_tip_mm = 0;             // |u| at the node nearest geometry.crown_tip
+  double crown_tip_mm = 0;  // |u| at the node nearest geometry.crown_tip
 };
 
 ConvergenceFigures lingual_tipping(mesh::MeshPreset preset) {
@@ -208,7 +210,8 @@ ConvergenceFigures lingual_tipping(mesh::MeshPreset preset) {
     const Eigen::Vector3d& a = m.nodes[static_cast<size_t>(t[0])];
     const double v = std::abs((m.nodes[static_cast<size_t>(t[1])] - a)
                                   .dot((m.nodes[static_cast<size_t>(t[2])] - a)
-                                           .cross(m.nodes[static_cast<size_t>(t[3])] - a))) / 6.0;
+                                           .cross(m.nodes[static_cast<size_t>(t[3])] - a))) /
+                     6.0;
     by_volume.emplace_back(mean, v);
     total += v;
   }
@@ -230,13 +233,14 @@ ConvergenceFigures lingual_tipping(mesh::MeshPreset preset) {
     }
   }
   out.crown_tip_mm = node_vector(u, tip).norm();
-  std::printf("%-8s %7d dofs: peak PDL pressure %.4f kPa at (%.3f, %.3f, %.3f) mm (crest %.3f mm), "
-              "edge band %.4f kPa, 95th percentile %.4f kPa, crown tip %.5e mm "
-              "(node %.3f mm from the tip)\n",
-              mesh::to_string(preset).c_str(), out.dofs, out.peak_pressure_kpa, out.peak_x_mm.x(),
-              out.peak_x_mm.y(), out.peak_x_mm.z(),
-              out.crest_z_mm, out.edge_band_peak_kpa, out.p95_pressure_kpa, out.crown_tip_mm,
-              (m.nodes[static_cast<size_t>(tip)] - g.crown_tip).norm());
+  std::printf(
+      "%-8s %7d dofs: peak PDL pressure %.4f kPa at (%.3f, %.3f, %.3f) mm (crest %.3f mm), "
+      "edge band %.4f kPa, 95th percentile %.4f kPa, crown tip %.5e mm "
+      "(node %.3f mm from the tip)\n",
+      mesh::to_string(preset).c_str(), out.dofs, out.peak_pressure_kpa, out.peak_x_mm.x(),
+      out.peak_x_mm.y(), out.peak_x_mm.z(), out.crest_z_mm, out.edge_band_peak_kpa,
+      out.p95_pressure_kpa, out.crown_tip_mm,
+      (m.nodes[static_cast<size_t>(tip)] - g.crown_tip).norm());
   return out;
 }
 

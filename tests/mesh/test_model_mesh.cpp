@@ -44,7 +44,8 @@ TEST_F(CoarseIncisor, ElementsConformAndTheBoundaryIsMarked) {
   const VolumeMesh& m = model_->mesh;
   const auto faces = element_faces(m);
   std::map<test::Triple, int> marked;
-  for (int f = 0; f < m.n_faces(); ++f) marked[sorted_triple(m.face(f)[0], m.face(f)[1], m.face(f)[2])] = f;
+  for (int f = 0; f < m.n_faces(); ++f)
+    marked[sorted_triple(m.face(f)[0], m.face(f)[1], m.face(f)[2])] = f;
   int n_exterior = 0;
   for (const auto& [key, uses] : faces) {
     ASSERT_LE(uses.size(), 2u);
@@ -113,7 +114,8 @@ TEST_F(CoarseIncisor, FacesPointAwayFromTheToothAndOutOfTheirRegion) {
     int from = uses[0].element;
     for (const FaceUse& u : uses) {
       const int r = m.element_region[u.element];
-      if ((marker == kRootSurface && r == kTooth) || (marker == kSocketSurface && r == kPdl)) from = u.element;
+      if ((marker == kRootSurface && r == kTooth) || (marker == kSocketSurface && r == kPdl))
+        from = u.element;
     }
     const Eigen::Vector3d out = test::face_centroid(m, f) - test::element_centroid(m, from);
     EXPECT_GT(test::face_normal(m, f).dot(out), 0.0) << "marker " << marker << " face " << f;
@@ -228,7 +230,8 @@ TEST(ModelMesh, IdealisedRootVolumesAndAreasWithinHalfAPercent) {
     const ModelGeometry& g = model.geometry;
     EXPECT_EQ(s.n_inverted_elements, 0);
     EXPECT_NEAR(s.volume_per_region_mm3.at(kTooth), g.tooth_volume_mm3, 0.005 * g.tooth_volume_mm3);
-    const double root_area = s.area_per_marker_mm2.at(kRootSurface) + s.area_per_marker_mm2.at(kExposedRoot);
+    const double root_area =
+        s.area_per_marker_mm2.at(kRootSurface) + s.area_per_marker_mm2.at(kExposedRoot);
     EXPECT_NEAR(root_area, g.root_area_mm2, 0.005 * g.root_area_mm2);
     EXPECT_NEAR(s.volume_per_region_mm3.at(kPdl), g.pdl_volume_mm3, 0.01 * g.pdl_volume_mm3);
   }

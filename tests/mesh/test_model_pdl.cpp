@@ -89,7 +89,8 @@ TEST_F(FineIncisor, TwoElementsAcrossThePdl) {
   // Three tetrahedra per root triangle and layer; one middle layer of vertices, as many as on the
   // root surface, touching neither surface; no element spans both surfaces.
   EXPECT_EQ(stats_->elements_per_region.at(kPdl), 2 * 3 * n_root_faces);
-  EXPECT_EQ(pdl_vertices.size(), root_vertices.size() + socket_vertices.size() + root_vertices.size());
+  EXPECT_EQ(pdl_vertices.size(),
+            root_vertices.size() + socket_vertices.size() + root_vertices.size());
   EXPECT_EQ(root_vertices.size(), socket_vertices.size());
   for (int e = 0; e < m.n_elements(); ++e) {
     if (m.element_region[e] != kPdl) continue;

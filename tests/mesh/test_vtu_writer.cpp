@@ -110,7 +110,9 @@ TEST_P(VtuRoundTrip, VolumeMeshReadsBackIdentically) {
   ASSERT_NE(escaped, nullptr);
   ASSERT_EQ(disp->GetNumberOfComponents(), 3);
   for (int v = 0; v < m.n_nodes(); ++v) {
-    for (int c = 0; c < 3; ++c) EXPECT_EQ(disp->GetComponent(v, c), arrays.point_arrays[0].values[static_cast<size_t>(3 * v + c)]);
+    for (int c = 0; c < 3; ++c)
+      EXPECT_EQ(disp->GetComponent(v, c),
+                arrays.point_arrays[0].values[static_cast<size_t>(3 * v + c)]);
     EXPECT_EQ(escaped->GetTuple1(v), arrays.point_arrays[1].values[static_cast<size_t>(v)]);
   }
 }
@@ -122,7 +124,8 @@ TEST_P(VtuRoundTrip, BoundaryReadsBackWithMarkersAndReducedPoints) {
   boundary_arrays.point_arrays = arrays.point_arrays;
   boundary_arrays.cell_arrays.push_back({"face_id", {}});
   for (int f = 0; f < m.n_faces(); ++f) boundary_arrays.cell_arrays[0].values.push_back(f);
-  const fs::path file = test_folder(GetParam() ? "boundary_quadratic" : "boundary_linear") / "b.vtu";
+  const fs::path file =
+      test_folder(GetParam() ? "boundary_quadratic" : "boundary_linear") / "b.vtu";
   write_boundary_vtu(file.string(), m, boundary_arrays);
   const auto grid = read_back(file);
   ASSERT_EQ(grid->GetNumberOfCells(), m.n_faces());
@@ -144,7 +147,8 @@ TEST_P(VtuRoundTrip, BoundaryReadsBackWithMarkersAndReducedPoints) {
       double x[3];
       grid->GetPoint(pts[i], x);
       EXPECT_EQ(Eigen::Vector3d(x[0], x[1], x[2]), m.nodes[static_cast<size_t>(node)]);
-      EXPECT_EQ(disp->GetComponent(pts[i], 2), arrays.point_arrays[0].values[static_cast<size_t>(3 * node + 2)]);
+      EXPECT_EQ(disp->GetComponent(pts[i], 2),
+                arrays.point_arrays[0].values[static_cast<size_t>(3 * node + 2)]);
     }
   }
   std::set<int> used(m.faces.begin(), m.faces.end());
@@ -164,7 +168,8 @@ TEST(VtuWriter, HeaderDeclaresTheGrid) {
   std::ifstream in(file, std::ios::binary);
   std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
   std::ostringstream piece;
-  piece << "<Piece NumberOfPoints=\"" << m.n_nodes() << "\" NumberOfCells=\"" << m.n_elements() << "\">";
+  piece << "<Piece NumberOfPoints=\"" << m.n_nodes() << "\" NumberOfCells=\"" << m.n_elements()
+        << "\">";
   EXPECT_NE(text.find("<VTKFile type=\"UnstructuredGrid\""), std::string::npos);
   EXPECT_NE(text.find(piece.str()), std::string::npos);
   EXPECT_NE(text.find("Name=\"region\""), std::string::npos);
@@ -211,7 +216,8 @@ TEST(VtuWriter, BadArraysThrowInputErrorNamingTheArray) {
     EXPECT_EQ(e.key(), "displacement_mm");
   }
   VtuArrays clash;
-  clash.cell_arrays.push_back({"region", std::vector<double>(static_cast<size_t>(m.n_elements()), 0.0)});
+  clash.cell_arrays.push_back(
+      {"region", std::vector<double>(static_cast<size_t>(m.n_elements()), 0.0)});
   EXPECT_THROW(write_vtu(file.string(), m, clash), InputError);
   VtuArrays short_cells;
   short_cells.cell_arrays.push_back({"von_mises_mpa", {1.0}});
@@ -228,11 +234,14 @@ TEST(ExtractRegion, KeepsElementsNodesAndFacesOfOneRegion) {
   ASSERT_EQ(sub.n_elements(), expected_elements);
   ASSERT_EQ(static_cast<int>(node_map.size()), sub.n_nodes());
   EXPECT_TRUE(std::is_sorted(node_map.begin(), node_map.end()));
-  for (int v = 0; v < sub.n_nodes(); ++v) EXPECT_EQ(sub.nodes[static_cast<size_t>(v)], m.nodes[static_cast<size_t>(node_map[static_cast<size_t>(v)])]);
+  for (int v = 0; v < sub.n_nodes(); ++v)
+    EXPECT_EQ(sub.nodes[static_cast<size_t>(v)],
+              m.nodes[static_cast<size_t>(node_map[static_cast<size_t>(v)])]);
   int e_sub = 0;
   for (int e = 0; e < m.n_elements(); ++e) {
     if (m.element_region[static_cast<size_t>(e)] != kPdl) continue;
-    for (int i = 0; i < 10; ++i) EXPECT_EQ(node_map[static_cast<size_t>(sub.element(e_sub)[i])], m.element(e)[i]);
+    for (int i = 0; i < 10; ++i)
+      EXPECT_EQ(node_map[static_cast<size_t>(sub.element(e_sub)[i])], m.element(e)[i]);
     ++e_sub;
   }
   // The inner box surface (marker 20) is all in the region, the outer cube sides are not.

@@ -46,7 +46,8 @@ bool AutosaveStore::write(const QString& case_json, const QString& original_path
                           const QString& label, QString* error) {
   QJsonObject meta;
   meta.insert(QStringLiteral("original_path"), original_path);
-  meta.insert(QStringLiteral("saved_at"), QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs));
+  meta.insert(QStringLiteral("saved_at"),
+              QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs));
   meta.insert(QStringLiteral("label"), label);
   // Case first, then its description: a meta file always points at a complete case.
   return write_atomically(copy_path(), case_json.toUtf8(), error) &&
@@ -79,8 +80,8 @@ std::vector<RecoverableCase> AutosaveStore::recoverable() const {
     RecoverableCase entry;
     entry.case_path = case_path;
     entry.original_path = meta.value(QStringLiteral("original_path")).toString();
-    entry.saved_at = QDateTime::fromString(meta.value(QStringLiteral("saved_at")).toString(),
-                                           Qt::ISODateWithMs);
+    entry.saved_at =
+        QDateTime::fromString(meta.value(QStringLiteral("saved_at")).toString(), Qt::ISODateWithMs);
     entry.label = meta.value(QStringLiteral("label")).toString();
     found.push_back(entry);
   }

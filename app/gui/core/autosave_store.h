@@ -17,7 +17,7 @@ struct RecoverableCase {
   QString case_path;      // the autosaved case JSON
   QString original_path;  // the file it was opened from or saved to; empty when untitled
   QDateTime saved_at;
-  QString label;          // the case label, for the recovery prompt
+  QString label;  // the case label, for the recovery prompt
 };
 
 class AutosaveStore {

@@ -28,19 +28,15 @@ Rgb interpolate(const Stop* stops, int n, double t) {
 // Control points chosen for this app: lightness falls steadily away from the neutral middle.
 constexpr Stop kDiverging[] = {
     {-1.00, {0.082, 0.255, 0.373}},  // deep petrol
-    {-0.65, {0.196, 0.447, 0.557}},
-    {-0.30, {0.525, 0.737, 0.776}},
-    {0.00, {0.957, 0.945, 0.906}},   // warm off-white
-    {0.30, {0.953, 0.761, 0.494}},   // apricot
-    {0.65, {0.855, 0.443, 0.204}},
-    {1.00, {0.525, 0.118, 0.106}},   // brick
+    {-0.65, {0.196, 0.447, 0.557}}, {-0.30, {0.525, 0.737, 0.776}},
+    {0.00, {0.957, 0.945, 0.906}},                                  // warm off-white
+    {0.30, {0.953, 0.761, 0.494}},                                  // apricot
+    {0.65, {0.855, 0.443, 0.204}},  {1.00, {0.525, 0.118, 0.106}},  // brick
 };
 constexpr Stop kSequential[] = {
     {0.00, {0.118, 0.098, 0.239}},  // ink
-    {0.25, {0.247, 0.243, 0.510}},
-    {0.50, {0.188, 0.478, 0.541}},
-    {0.75, {0.471, 0.714, 0.404}},
-    {1.00, {0.976, 0.910, 0.557}},  // straw
+    {0.25, {0.247, 0.243, 0.510}}, {0.50, {0.188, 0.478, 0.541}},
+    {0.75, {0.471, 0.714, 0.404}}, {1.00, {0.976, 0.910, 0.557}},  // straw
 };
 
 }  // namespace
@@ -50,7 +46,8 @@ Rgb diverging_colour(double t) {
 }
 
 Rgb sequential_colour(double t) {
-  return interpolate(kSequential, static_cast<int>(std::size(kSequential)), std::clamp(t, 0.0, 1.0));
+  return interpolate(kSequential, static_cast<int>(std::size(kSequential)),
+                     std::clamp(t, 0.0, 1.0));
 }
 
 ColourScale::ColourScale(Quantity q, ValueRange range) : quantity_(q), range_(range) {}

@@ -27,7 +27,7 @@ class ColourScale {
   ColourScale(Quantity q, ValueRange range);
 
   Quantity quantity() const { return quantity_; }
-  const ValueRange& range() const { return range_; }   // shown on the bar
+  const ValueRange& range() const { return range_; }  // shown on the bar
   // Range the colours are spread over: [-L, L] for signed quantities, [min, max] otherwise.
   ValueRange colour_range() const;
   Rgb colour(double value) const;

@@ -16,8 +16,8 @@ namespace sharpey::app {
 // such elements. Quadratic faces are split into four flat triangles through their midside nodes.
 // Triangles are oriented with the outward normal by the right-hand rule.
 struct DisplaySurface {
-  std::vector<int> nodes;                      // global node id of each surface point
-  std::vector<std::array<int, 3>> triangles;   // indices into `nodes`
+  std::vector<int> nodes;                     // global node id of each surface point
+  std::vector<std::array<int, 3>> triangles;  // indices into `nodes`
 };
 DisplaySurface region_boundary(const mesh::VolumeMesh& mesh, const std::vector<int>& regions);
 

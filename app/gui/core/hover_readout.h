@@ -19,8 +19,8 @@ struct HoverReadout {
   bool has_value = false;     // and the quantity has a value there (false: no ligament)
   double value = 0;           // in the quantity's display unit
   Quantity quantity = Quantity::kPressure;
-  double depth_mm = 0;        // below the CEJ (positive toward the apex)
-  double angle_deg = 0;       // around the long axis: 0 labial, 90 mesial, 180 lingual, -90 distal
+  double depth_mm = 0;   // below the CEJ (positive toward the apex)
+  double angle_deg = 0;  // around the long axis: 0 labial, 90 mesial, 180 lingual, -90 distal
 };
 
 // Polar angle around the long axis of a point in the tooth frame (x labial, y mesial), degrees in

@@ -7,8 +7,9 @@ namespace sharpey::app {
 std::vector<IsoSegment> iso_segments(const std::vector<double>& values, int rows, int cols,
                                      double level) {
   std::vector<IsoSegment> out;
-  auto at = [&](int r, int c) { return values[static_cast<size_t>(r) * static_cast<size_t>(cols) +
-                                              static_cast<size_t>(c)]; };
+  auto at = [&](int r, int c) {
+    return values[static_cast<size_t>(r) * static_cast<size_t>(cols) + static_cast<size_t>(c)];
+  };
   for (int r = 0; r + 1 < rows; ++r) {
     for (int c = 0; c + 1 < cols; ++c) {
       // Corners counter-clockwise: 0 (c, r), 1 (c+1, r), 2 (c+1, r+1), 3 (c, r+1).

@@ -6,7 +6,8 @@
 
 namespace sharpey::app {
 
-std::vector<double> spread_labels(const std::vector<double>& anchors, double height, double lo, double hi) {
+std::vector<double> spread_labels(const std::vector<double>& anchors, double height, double lo,
+                                  double hi) {
   const size_t n = anchors.size();
   std::vector<double> out(n, lo + 0.5 * height);
   if (n == 0) return out;
@@ -15,7 +16,8 @@ std::vector<double> spread_labels(const std::vector<double>& anchors, double hei
   std::vector<size_t> order(n);
   std::iota(order.begin(), order.end(), size_t{0});
   auto anchor = [&](size_t i) { return std::isfinite(anchors[i]) ? anchors[i] : lo; };
-  std::stable_sort(order.begin(), order.end(), [&](size_t a, size_t b) { return anchor(a) < anchor(b); });
+  std::stable_sort(order.begin(), order.end(),
+                   [&](size_t a, size_t b) { return anchor(a) < anchor(b); });
   // With z_k = centre_k - k * height the spacing rule becomes z nondecreasing: the least-squares
   // nondecreasing fit to a_k - k * height (pool adjacent violators) gives the least total move.
   struct Block {

@@ -12,6 +12,7 @@ namespace sharpey::app {
 // label wholly inside [lo, hi] when they fit (n * height <= hi - lo), order of the anchors kept,
 // and the sum of squared moves the least such placement has. When they do not fit they are
 // stacked from `lo`, `height` apart. Non-finite anchors are treated as `lo`.
-std::vector<double> spread_labels(const std::vector<double>& anchors, double height, double lo, double hi);
+std::vector<double> spread_labels(const std::vector<double>& anchors, double height, double lo,
+                                  double hi);
 
 }  // namespace sharpey::app

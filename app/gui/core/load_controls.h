@@ -35,16 +35,16 @@ QString label(analysis::CoupleKind kind);
 std::vector<analysis::MovementPreset> panel_presets();
 
 struct LoadControls {
-  double magnitude = 100;                          // in `unit`
+  double magnitude = 100;  // in `unit`
   analysis::ForceUnit unit = analysis::ForceUnit::kGram;
   DirectionChoice direction = DirectionChoice::kLingual;
-  double azimuth_deg = 180;                        // kept equal to the direction's angles
+  double azimuth_deg = 180;  // kept equal to the direction's angles
   double elevation_deg = 0;
-  bool at_pad_centre = true;                       // force at the bracket pad centre
-  double bracket_height_mm = 0;                    // above the CEJ, when !at_pad_centre
+  bool at_pad_centre = true;     // force at the bracket pad centre
+  double bracket_height_mm = 0;  // above the CEJ, when !at_pad_centre
   analysis::CoupleKind couple = analysis::CoupleKind::kNone;
   Eigen::Vector3d moment = Eigen::Vector3d::Zero();  // couple components in `unit`.mm
-  double moment_to_force_mm = 0;                   // when couple == kRatio
+  double moment_to_force_mm = 0;                     // when couple == kRatio
   analysis::MovementPreset preset = analysis::MovementPreset::kNone;
 
   // Switches the display unit, converting the magnitude and the moment so the load is unchanged.

@@ -13,22 +13,32 @@ std::vector<Quantity> all_quantities() {
 
 QString label(Quantity q) {
   switch (q) {
-    case Quantity::kPressure: return QStringLiteral("hydrostatic pressure");
-    case Quantity::kMaxPrincipalStrain: return QStringLiteral("max. principal strain");
-    case Quantity::kEquivalentStrain: return QStringLiteral("equivalent strain");
-    case Quantity::kVonMises: return QStringLiteral("von Mises stress");
-    case Quantity::kDisplacement: return QStringLiteral("displacement");
+    case Quantity::kPressure:
+      return QStringLiteral("hydrostatic pressure");
+    case Quantity::kMaxPrincipalStrain:
+      return QStringLiteral("max. principal strain");
+    case Quantity::kEquivalentStrain:
+      return QStringLiteral("equivalent strain");
+    case Quantity::kVonMises:
+      return QStringLiteral("von Mises stress");
+    case Quantity::kDisplacement:
+      return QStringLiteral("displacement");
   }
   return {};
 }
 
 QString unit_label(Quantity q) {
   switch (q) {
-    case Quantity::kPressure: return QStringLiteral("kPa");
-    case Quantity::kMaxPrincipalStrain: return QStringLiteral("%");
-    case Quantity::kEquivalentStrain: return QStringLiteral("%");
-    case Quantity::kVonMises: return QStringLiteral("kPa");
-    case Quantity::kDisplacement: return QString::fromUtf8("\u00b5m");
+    case Quantity::kPressure:
+      return QStringLiteral("kPa");
+    case Quantity::kMaxPrincipalStrain:
+      return QStringLiteral("%");
+    case Quantity::kEquivalentStrain:
+      return QStringLiteral("%");
+    case Quantity::kVonMises:
+      return QStringLiteral("kPa");
+    case Quantity::kDisplacement:
+      return QString::fromUtf8("\u00b5m");
   }
   return {};
 }
@@ -47,10 +57,18 @@ std::vector<double> quantity_values(const analysis::ScenarioResult& r, Quantity 
     for (size_t i = 0; i < std::min(n, field.size()); ++i) out[i] = field[i] * scale;
   };
   switch (q) {
-    case Quantity::kPressure: copy_scaled(r.pressure_kpa, 1.0); break;
-    case Quantity::kMaxPrincipalStrain: copy_scaled(r.max_principal_strain_field, 100.0); break;
-    case Quantity::kEquivalentStrain: copy_scaled(r.equivalent_strain_field, 100.0); break;
-    case Quantity::kVonMises: copy_scaled(r.von_mises_kpa, 1.0); break;
+    case Quantity::kPressure:
+      copy_scaled(r.pressure_kpa, 1.0);
+      break;
+    case Quantity::kMaxPrincipalStrain:
+      copy_scaled(r.max_principal_strain_field, 100.0);
+      break;
+    case Quantity::kEquivalentStrain:
+      copy_scaled(r.equivalent_strain_field, 100.0);
+      break;
+    case Quantity::kVonMises:
+      copy_scaled(r.von_mises_kpa, 1.0);
+      break;
     case Quantity::kDisplacement:
       for (size_t i = 0; i < n; ++i) {
         const int node = pdl_nodes[i];
@@ -73,7 +91,8 @@ ValueRange finite_range(const std::vector<double>& values) {
   return r;
 }
 
-ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band) {
+ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band,
+                        bool in_band) {
   ValueRange r{std::numeric_limits<double>::infinity(), -std::numeric_limits<double>::infinity()};
   for (size_t i = 0; i < values.size(); ++i) {
     const bool inside = i < band.size() && band[i] != 0;
@@ -91,10 +110,14 @@ ValueRange merge(const ValueRange& a, const ValueRange& b) {
 
 QString label(ScaleMode mode) {
   switch (mode) {
-    case ScaleMode::kShown: return QStringLiteral("scale: range shown");
-    case ScaleMode::kFixed: return QStringLiteral("scale: fixed at the current range");
-    case ScaleMode::kThresholds: return QStringLiteral("scale: anchored to the limit");
-    case ScaleMode::kPerLevel: return QStringLiteral("scale: each level its own");
+    case ScaleMode::kShown:
+      return QStringLiteral("scale: range shown");
+    case ScaleMode::kFixed:
+      return QStringLiteral("scale: fixed at the current range");
+    case ScaleMode::kThresholds:
+      return QStringLiteral("scale: anchored to the limit");
+    case ScaleMode::kPerLevel:
+      return QStringLiteral("scale: each level its own");
   }
   return {};
 }
@@ -102,12 +125,14 @@ QString label(ScaleMode mode) {
 ValueRange scale_range(ScaleMode mode, Quantity q, const ValueRange& shown, const ValueRange& fixed,
                        double limit_kpa) {
   switch (mode) {
-    case ScaleMode::kFixed: return fixed;
+    case ScaleMode::kFixed:
+      return fixed;
     case ScaleMode::kThresholds:
       if (q == Quantity::kPressure && limit_kpa > 0) return {-limit_kpa, limit_kpa};
       return shown;
     case ScaleMode::kShown:
-    case ScaleMode::kPerLevel: break;
+    case ScaleMode::kPerLevel:
+      break;
   }
   return shown;
 }

@@ -17,9 +17,9 @@ enum class Quantity {
   kDisplacement,        // displacement magnitude, um
 };
 std::vector<Quantity> all_quantities();
-QString label(Quantity q);          // "hydrostatic pressure"
-QString unit_label(Quantity q);     // "kPa"
-QString short_label(Quantity q);    // "p" style axis label with unit, e.g. "pressure (kPa)"
+QString label(Quantity q);        // "hydrostatic pressure"
+QString unit_label(Quantity q);   // "kPa"
+QString short_label(Quantity q);  // "p" style axis label with unit, e.g. "pressure (kPa)"
 // Signed quantities get a diverging colour map centred on zero.
 bool is_signed(Quantity q);
 
@@ -42,7 +42,8 @@ ValueRange finite_range(const std::vector<double>& values);
 // numbers (peak compression and tension, max. principal strain, von Mises) are taken over, so
 // the colour bar's ends are those numbers. The band, where the linear-elastic stresses are
 // singular and grow with mesh refinement, is shown clamped to the scale and marked apart.
-ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band, bool in_band);
+ValueRange finite_range(const std::vector<double>& values, const std::vector<char>& band,
+                        bool in_band);
 ValueRange merge(const ValueRange& a, const ValueRange& b);
 
 // How the colour scale's range is chosen.

@@ -56,8 +56,10 @@ void ScenarioList::remove(int i) {
     kept.push_back(c > i ? c - 1 : c);
   }
   compared_ = kept;
-  if (current_ == i) current_ = std::min(i, size() - 1);
-  else if (current_ > i) --current_;
+  if (current_ == i)
+    current_ = std::min(i, size() - 1);
+  else if (current_ > i)
+    --current_;
 }
 
 void ScenarioList::rename(int i, const QString& name) {
@@ -81,11 +83,14 @@ void ScenarioList::set_loss(int i, const mesh::BoneLoss& loss) {
   const double was = s.loss.horizontal_mm;
   const QString name = QString::fromStdString(s.name);
   auto compact = [](double mm) {
-    return mm <= 0 ? QStringLiteral("healthy") : QStringLiteral("%1 mm loss").arg(QString::number(mm, 'g', 6));
+    return mm <= 0 ? QStringLiteral("healthy")
+                   : QStringLiteral("%1 mm loss").arg(QString::number(mm, 'g', 6));
   };
   QString renamed;
-  if (name == default_name(was)) renamed = default_name(loss.horizontal_mm);
-  else if (name == compact(was)) renamed = compact(loss.horizontal_mm);
+  if (name == default_name(was))
+    renamed = default_name(loss.horizontal_mm);
+  else if (name == compact(was))
+    renamed = compact(loss.horizontal_mm);
   s.loss = loss;
   if (renamed.isEmpty() || renamed == name) return;
   for (const analysis::Scenario& other : scenarios_)

@@ -11,18 +11,18 @@
 namespace sharpey::app {
 
 enum class KeyNumber {
-  kBoneLoss,               // mm
-  kAttachmentArea,         // mm^2
-  kPeakCompression,        // kPa
-  kPeakTension,            // kPa
-  kAreaAboveCapillary,     // mm^2
-  kAreaAboveLimit,         // mm^2
-  kCresFromCrest,          // mm, for the force's dominant horizontal direction
-  kCresFraction,           // % of the embedded root
-  kMfTranslation,          // mm
-  kEquivalentForcePeak,    // g
-  kEquivalentForceArea,    // g
-  kCrownTipDisplacement,   // um
+  kBoneLoss,              // mm
+  kAttachmentArea,        // mm^2
+  kPeakCompression,       // kPa
+  kPeakTension,           // kPa
+  kAreaAboveCapillary,    // mm^2
+  kAreaAboveLimit,        // mm^2
+  kCresFromCrest,         // mm, for the force's dominant horizontal direction
+  kCresFraction,          // % of the embedded root
+  kMfTranslation,         // mm
+  kEquivalentForcePeak,   // g
+  kEquivalentForceArea,   // g
+  kCrownTipDisplacement,  // um
 };
 std::vector<KeyNumber> all_key_numbers();
 QString title(KeyNumber k);       // "peak compression"

@@ -6,9 +6,12 @@ namespace sharpey::app {
 
 QString force_unit_label(analysis::ForceUnit unit) {
   switch (unit) {
-    case analysis::ForceUnit::kGram: return QStringLiteral("g");
-    case analysis::ForceUnit::kCentinewton: return QStringLiteral("cN");
-    case analysis::ForceUnit::kNewton: return QStringLiteral("N");
+    case analysis::ForceUnit::kGram:
+      return QStringLiteral("g");
+    case analysis::ForceUnit::kCentinewton:
+      return QStringLiteral("cN");
+    case analysis::ForceUnit::kNewton:
+      return QStringLiteral("N");
   }
   return {};
 }
@@ -19,9 +22,12 @@ QString moment_unit_label(analysis::ForceUnit unit) {
 
 int force_decimals(analysis::ForceUnit unit) {
   switch (unit) {
-    case analysis::ForceUnit::kGram: return 0;
-    case analysis::ForceUnit::kCentinewton: return 1;
-    case analysis::ForceUnit::kNewton: return 3;
+    case analysis::ForceUnit::kGram:
+      return 0;
+    case analysis::ForceUnit::kCentinewton:
+      return 1;
+    case analysis::ForceUnit::kNewton:
+      return 3;
   }
   return 2;
 }

@@ -2,7 +2,9 @@
 
 namespace sharpey::app {
 
-QString level_label(VerdictLevel level) { return QString::fromStdString(analysis::short_label(level)); }
+QString level_label(VerdictLevel level) {
+  return QString::fromStdString(analysis::short_label(level));
+}
 
 Verdict judge(const analysis::ScenarioResult& r, const analysis::Thresholds& t) {
   const analysis::PressureVerdict pv = analysis::pressure_verdict(r, t);

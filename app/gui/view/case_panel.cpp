@@ -35,7 +35,8 @@ QDoubleSpinBox* number_box(double lo, double hi, int decimals, double step, cons
 }  // namespace
 
 QString tooth_name(int tooth_type) {
-  return QString::fromStdString(mesh::to_string(static_cast<mesh::ToothType>(tooth_type))).replace('_', ' ');
+  return QString::fromStdString(mesh::to_string(static_cast<mesh::ToothType>(tooth_type)))
+      .replace('_', ' ');
 }
 
 CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), session_(session) {
@@ -46,7 +47,8 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   label_->setPlaceholderText(QStringLiteral("what this case is (invented cases say so)"));
   form->addRow(QStringLiteral("Label"), label_);
   tooth_ = new QComboBox;
-  for (mesh::ToothType t : mesh::all_tooth_types()) tooth_->addItem(tooth_name(static_cast<int>(t)), static_cast<int>(t));
+  for (mesh::ToothType t : mesh::all_tooth_types())
+    tooth_->addItem(tooth_name(static_cast<int>(t)), static_cast<int>(t));
   form->addRow(QStringLiteral("Tooth"), tooth_);
   pdl_width_ = new QDoubleSpinBox;
   pdl_width_->setRange(0.05, 0.60);
@@ -54,8 +56,9 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   pdl_width_->setSingleStep(0.01);
   pdl_width_->setSuffix(QStringLiteral(" mm"));
   pdl_width_->setKeyboardTracking(false);
-  pdl_width_->setToolTip(QStringLiteral("Uniform ligament width (a case file may give a crest / "
-                                        "mid-root / apex profile)"));
+  pdl_width_->setToolTip(
+      QStringLiteral("Uniform ligament width (a case file may give a crest / "
+                     "mid-root / apex profile)"));
   form->addRow(QStringLiteral("PDL width"), pdl_width_);
   preset_ = new QComboBox;
   for (auto p : {mesh::MeshPreset::kCoarse, mesh::MeshPreset::kStandard, mesh::MeshPreset::kFine})
@@ -67,8 +70,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(new QLabel(QStringLiteral("<b>Bone levels</b> (tick two to four to compare)")));
   levels_ = new QTableWidget(0, 4);
   levels_->setHorizontalHeaderLabels({QStringLiteral("compare"), QStringLiteral("name"),
-                                      QStringLiteral("loss (mm)"), QStringLiteral("angular defect")});
-  levels_->horizontalHeaderItem(2)->setToolTip(QStringLiteral("Horizontal bone loss below the healthy crest"));
+                                      QStringLiteral("loss (mm)"),
+                                      QStringLiteral("angular defect")});
+  levels_->horizontalHeaderItem(2)->setToolTip(
+      QStringLiteral("Horizontal bone loss below the healthy crest"));
   levels_->horizontalHeader()->setStretchLastSection(true);
   levels_->verticalHeader()->setVisible(false);
   levels_->setSelectionBehavior(QAbstractItemView::SelectRows);
@@ -93,17 +98,19 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(defect_title_);
   auto* defect = new QFormLayout;
   defect->setRowWrapPolicy(QFormLayout::WrapLongRows);
-  defect_depth_ = number_box(0, 15, 1, 0.5, QStringLiteral(" mm"),
-                             QStringLiteral("Depth of the vertical defect below this level's crest (0 = none); "
-                                            "the root must keep at least a few millimetres of attachment"));
+  defect_depth_ =
+      number_box(0, 15, 1, 0.5, QStringLiteral(" mm"),
+                 QStringLiteral("Depth of the vertical defect below this level's crest (0 = none); "
+                                "the root must keep at least a few millimetres of attachment"));
   defect_depth_->setSpecialValueText(QStringLiteral("none"));
   defect_surface_ = new QComboBox;
-  for (mesh::ToothSurface t : {mesh::ToothSurface::kMesial, mesh::ToothSurface::kDistal, mesh::ToothSurface::kLabial,
-                               mesh::ToothSurface::kLingual})
+  for (mesh::ToothSurface t : {mesh::ToothSurface::kMesial, mesh::ToothSurface::kDistal,
+                               mesh::ToothSurface::kLabial, mesh::ToothSurface::kLingual})
     defect_surface_->addItem(QString::fromStdString(mesh::to_string(t)), static_cast<int>(t));
   defect_surface_->setToolTip(QStringLiteral("Root surface the defect is centred on"));
-  defect_width_ = number_box(20, 180, 0, 10, QStringLiteral("\u00b0"),
-                             QStringLiteral("Width of the defect around the root, 20\u00b0 to 180\u00b0"));
+  defect_width_ =
+      number_box(20, 180, 0, 10, QStringLiteral("\u00b0"),
+                 QStringLiteral("Width of the defect around the root, 20\u00b0 to 180\u00b0"));
   defect->addRow(QStringLiteral("Depth below crest"), defect_depth_);
   defect->addRow(QStringLiteral("Centred on"), defect_surface_);
   defect->addRow(QStringLiteral("Width"), defect_width_);
@@ -113,15 +120,18 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(new QLabel(QStringLiteral("<b>Materials</b> (linear elastic)")));
   auto* materials = new QFormLayout;
   materials->setRowWrapPolicy(QFormLayout::WrapLongRows);
-  for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
+  for (MaterialPart part :
+       {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
     const int i = static_cast<int>(part);
     const bool pdl = part == MaterialPart::kPdl;
     const QString key = QString::fromStdString(case_key(part));
-    auto* e = number_box(pdl ? 0.001 : 1.0, 1e6, pdl ? 3 : 0, pdl ? 0.01 : 100.0, QStringLiteral(" MPa"),
-                         QStringLiteral("%1 (%2.young_modulus_mpa): more than 0, at most 1e6 MPa")
-                             .arg(label(part), key));
-    auto* nu = number_box(0.0, 0.499, 3, 0.01, QString(),
-                          QStringLiteral("%1 (%2.poisson_ratio): 0 to below 0.5").arg(label(part), key));
+    auto* e =
+        number_box(pdl ? 0.001 : 1.0, 1e6, pdl ? 3 : 0, pdl ? 0.01 : 100.0, QStringLiteral(" MPa"),
+                   QStringLiteral("%1 (%2.young_modulus_mpa): more than 0, at most 1e6 MPa")
+                       .arg(label(part), key));
+    auto* nu =
+        number_box(0.0, 0.499, 3, 0.01, QString(),
+                   QStringLiteral("%1 (%2.poisson_ratio): 0 to below 0.5").arg(label(part), key));
     modulus_[i] = e;
     poisson_[i] = nu;
     QString name = label(part);
@@ -169,13 +179,15 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     if (!updating_) session_->set_label(label_->text());
   });
   connect(tooth_, &QComboBox::currentIndexChanged, this, [this]() {
-    if (!updating_) session_->set_tooth(static_cast<mesh::ToothType>(tooth_->currentData().toInt()));
+    if (!updating_)
+      session_->set_tooth(static_cast<mesh::ToothType>(tooth_->currentData().toInt()));
   });
   connect(pdl_width_, &QDoubleSpinBox::valueChanged, this, [this](double v) {
     if (!updating_) session_->set_pdl_width(v);
   });
   connect(preset_, &QComboBox::currentIndexChanged, this, [this]() {
-    if (!updating_) session_->set_mesh_preset(static_cast<mesh::MeshPreset>(preset_->currentData().toInt()));
+    if (!updating_)
+      session_->set_mesh_preset(static_cast<mesh::MeshPreset>(preset_->currentData().toInt()));
   });
   auto thresholds_edited = [this]() {
     if (!updating_) session_->set_thresholds(capillary_->value(), limit_->value());
@@ -232,7 +244,8 @@ void CasePanel::reload_defect() {
   const int row = std::max(0, levels_->currentRow());
   const ScenarioList& list = session_->levels();
   const bool on = row < list.size();
-  for (QWidget* w : std::initializer_list<QWidget*>{defect_depth_, defect_surface_, defect_width_}) w->setEnabled(on);
+  for (QWidget* w : std::initializer_list<QWidget*>{defect_depth_, defect_surface_, defect_width_})
+    w->setEnabled(on);
   if (!on) return;
   const bool was = updating_;
   updating_ = true;
@@ -240,7 +253,8 @@ void CasePanel::reload_defect() {
   defect_title_->setText(QStringLiteral("<b>Angular defect</b> of \"%1\"")
                              .arg(QString::fromStdString(list.at(row).name).toHtmlEscaped()));
   defect_depth_->setValue(loss.defect_depth_mm);
-  defect_surface_->setCurrentIndex(defect_surface_->findData(static_cast<int>(loss.defect_surface)));
+  defect_surface_->setCurrentIndex(
+      defect_surface_->findData(static_cast<int>(loss.defect_surface)));
   defect_width_->setValue(loss.defect_width_deg);
   defect_surface_->setEnabled(loss.defect_depth_mm > 0);
   defect_width_->setEnabled(loss.defect_depth_mm > 0);
@@ -285,12 +299,15 @@ void CasePanel::reload() {
   preset_->setCurrentIndex(preset_->findData(static_cast<int>(s.model.sizing.preset)));
   capillary_->setValue(s.thresholds.capillary.value_kpa);
   limit_->setValue(s.thresholds.limit.value_kpa);
-  for (MaterialPart part : {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
+  for (MaterialPart part :
+       {MaterialPart::kPdl, MaterialPart::kCorticalBone, MaterialPart::kCancellousBone}) {
     modulus_[static_cast<int>(part)]->setValue(session_->material(part).young_modulus_mpa);
     poisson_[static_cast<int>(part)]->setValue(session_->material(part).poisson_ratio);
   }
-  capillary_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.capillary.source));
-  limit_source_->setText(QStringLiteral("Source: ") + QString::fromStdString(s.thresholds.limit.source));
+  capillary_source_->setText(QStringLiteral("Source: ") +
+                             QString::fromStdString(s.thresholds.capillary.source));
+  limit_source_->setText(QStringLiteral("Source: ") +
+                         QString::fromStdString(s.thresholds.limit.source));
   updating_ = false;
   reload_levels();
 }
@@ -305,14 +322,16 @@ void CasePanel::reload_levels() {
     check->setCheckState(list.is_compared(i) ? Qt::Checked : Qt::Unchecked);
     levels_->setItem(i, 0, check);
     levels_->setItem(i, 1, new QTableWidgetItem(QString::fromStdString(list.at(i).name)));
-    levels_->setItem(i, 2, new QTableWidgetItem(QString::number(list.at(i).loss.horizontal_mm, 'f', 1)));
+    levels_->setItem(i, 2,
+                     new QTableWidgetItem(QString::number(list.at(i).loss.horizontal_mm, 'f', 1)));
     const mesh::BoneLoss& loss = list.at(i).loss;
     auto* defect = new QTableWidgetItem(
-        loss.defect_depth_mm > 0 ? QStringLiteral("%1 mm %2, %3\u00b0")
-                                       .arg(QString::number(loss.defect_depth_mm, 'f', 1),
-                                            QString::fromStdString(mesh::to_string(loss.defect_surface)))
-                                       .arg(loss.defect_width_deg, 0, 'f', 0)
-                                 : QStringLiteral("none"));
+        loss.defect_depth_mm > 0
+            ? QStringLiteral("%1 mm %2, %3\u00b0")
+                  .arg(QString::number(loss.defect_depth_mm, 'f', 1),
+                       QString::fromStdString(mesh::to_string(loss.defect_surface)))
+                  .arg(loss.defect_width_deg, 0, 'f', 0)
+            : QStringLiteral("none"));
     defect->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);  // edited below the table
     levels_->setItem(i, 3, defect);
   }
@@ -351,9 +370,10 @@ void CasePanel::levels_edited() {
 
 void CasePanel::set_stale(bool stale, bool solving) {
   stale_->setVisible(stale && !solving);
-  stale_->setText(QStringLiteral("The results shown do not match the case any more (geometry, "
-                                 "materials, mesh or bone levels changed). Mesh and solve again to "
-                                 "update them."));
+  stale_->setText(
+      QStringLiteral("The results shown do not match the case any more (geometry, "
+                     "materials, mesh or bone levels changed). Mesh and solve again to "
+                     "update them."));
   solve_->setEnabled(!solving);
 }
 

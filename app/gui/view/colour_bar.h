@@ -14,7 +14,7 @@ namespace sharpey::app {
 
 struct BarMark {
   double value = 0;
-  QString text;        // e.g. "capillary 4.7"
+  QString text;  // e.g. "capillary 4.7"
   QColor colour;
   Qt::PenStyle style = Qt::SolidLine;
   double width = 2;

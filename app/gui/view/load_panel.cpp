@@ -36,7 +36,8 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   mag->setContentsMargins(0, 0, 0, 0);
   magnitude_ = spin(0, 5000, 0, QString());
   unit_ = new QComboBox;
-  for (auto u : {analysis::ForceUnit::kGram, analysis::ForceUnit::kCentinewton, analysis::ForceUnit::kNewton})
+  for (auto u : {analysis::ForceUnit::kGram, analysis::ForceUnit::kCentinewton,
+                 analysis::ForceUnit::kNewton})
     unit_->addItem(force_unit_label(u), static_cast<int>(u));
   mag->addWidget(magnitude_, 1);
   mag->addWidget(unit_);
@@ -48,14 +49,16 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
 
   // Direction.
   direction_ = new QComboBox;
-  for (DirectionChoice d : all_direction_choices()) direction_->addItem(label(d), static_cast<int>(d));
+  for (DirectionChoice d : all_direction_choices())
+    direction_->addItem(label(d), static_cast<int>(d));
   form->addRow(QStringLiteral("Direction"), direction_);
   auto* angle_row = new QWidget;
   auto* angles = new QHBoxLayout(angle_row);
   angles->setContentsMargins(0, 0, 0, 0);
   azimuth_ = spin(-180, 180, 0, QStringLiteral("\u00b0"));
   azimuth_->setWrapping(true);
-  azimuth_->setToolTip(QStringLiteral("Azimuth around the long axis: 0\u00b0 labial, 90\u00b0 mesial"));
+  azimuth_->setToolTip(
+      QStringLiteral("Azimuth around the long axis: 0\u00b0 labial, 90\u00b0 mesial"));
   elevation_ = spin(-90, 90, 0, QStringLiteral("\u00b0"));
   elevation_->setToolTip(QStringLiteral("Elevation: +90\u00b0 extrusive, -90\u00b0 intrusive"));
   angles->addWidget(new QLabel(QStringLiteral("az")));
@@ -72,7 +75,8 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
 
   // Couple.
   couple_ = new QComboBox;
-  for (auto k : {analysis::CoupleKind::kNone, analysis::CoupleKind::kMoment, analysis::CoupleKind::kRatio})
+  for (auto k :
+       {analysis::CoupleKind::kNone, analysis::CoupleKind::kMoment, analysis::CoupleKind::kRatio})
     couple_->addItem(label(k), static_cast<int>(k));
   form->addRow(QStringLiteral("Couple"), couple_);
   moment_row_ = new QWidget;
@@ -92,8 +96,9 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   auto* rrow = new QHBoxLayout(ratio_row_);
   rrow->setContentsMargins(0, 0, 0, 0);
   ratio_ = spin(-30, 30, 1, QStringLiteral(" mm"));
-  ratio_->setToolTip(QStringLiteral("Moment-to-force ratio: the couple opposing the force's tipping, "
-                                    "divided by the force"));
+  ratio_->setToolTip(
+      QStringLiteral("Moment-to-force ratio: the couple opposing the force's tipping, "
+                     "divided by the force"));
   rrow->addWidget(ratio_, 1);
   form->addRow(QString(), ratio_row_);
 
@@ -210,9 +215,10 @@ void LoadPanel::sync_widgets() {
   moment_row_->setEnabled(!preset);
   ratio_row_->setEnabled(!preset);
   preset_note_->setVisible(preset);
-  preset_note_->setText(QStringLiteral("The preset sets the couple (and for intrusion, extrusion and "
-                                       "rotation the force) from the centre of resistance of the "
-                                       "scenario shown."));
+  preset_note_->setText(
+      QStringLiteral("The preset sets the couple (and for intrusion, extrusion and "
+                     "rotation the force) from the centre of resistance of the "
+                     "scenario shown."));
   updating_ = false;
 }
 

@@ -2,9 +2,9 @@
 
 #include <QCheckBox>
 #include <QComboBox>
+#include <QFontMetricsF>
 #include <QHBoxLayout>
 #include <QLabel>
-#include <QFontMetricsF>
 #include <QPainter>
 #include <QToolButton>
 #include <QVBoxLayout>
@@ -21,17 +21,19 @@ bool has_threshold_lines(Quantity q) { return q == Quantity::kPressure; }
 
 std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q) {
   if (!has_threshold_lines(q)) return {};
-  return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"), to_qcolor(capillary_line_colour()),
-           Qt::DashLine, 2.0},
-          {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+  return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"),
+           to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
+          {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()),
+           Qt::SolidLine, 3.0}};
 }
 
 QString band_note(const ValueRange& shown, const ValueRange& band, const QString& unit) {
   const bool beyond = band.max > shown.max || band.min < shown.min;
   if (!beyond) return QStringLiteral("Crest edge band (above the violet line): within the scale.");
   const int decimals = readable_decimals(std::max(std::abs(band.min), std::abs(band.max)));
-  return QStringLiteral("Crest edge band (above the violet line): %1 to %2, drawn at the scale's "
-                        "ends; left out of the key numbers.")
+  return QStringLiteral(
+             "Crest edge band (above the violet line): %1 to %2, drawn at the scale's "
+             "ends; left out of the key numbers.")
       .arg(with_unit(band.min, unit, decimals), with_unit(band.max, unit, decimals));
 }
 
@@ -45,7 +47,8 @@ ViewOptionBoxes add_view_options(QHBoxLayout* row, QObject* context, const ViewO
     boxes.bone->addItem(label(s), static_cast<int>(s));
   boxes.bone->setToolTip(QStringLiteral("How the alveolar bone is drawn"));
   boxes.section = new QComboBox;
-  for (SectionPlane s : {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
+  for (SectionPlane s :
+       {SectionPlane::kNone, SectionPlane::kLabiolingual, SectionPlane::kMesiodistal})
     boxes.section->addItem(label(s), static_cast<int>(s));
   boxes.section->setToolTip(QStringLiteral("Cut the model along the long axis of the tooth"));
   row->addWidget(new QLabel(QStringLiteral("Colour by")));
@@ -90,8 +93,9 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   section_box_ = boxes.section;
   glyphs_box_ = new QCheckBox(QStringLiteral("force system"));
   glyphs_box_->setChecked(true);
-  glyphs_box_->setToolTip(QStringLiteral("Force arrow, couple, centre of resistance (CRes) and "
-                                         "centre of rotation (CRot)"));
+  glyphs_box_->setToolTip(
+      QStringLiteral("Force arrow, couple, centre of resistance (CRes) and "
+                     "centre of rotation (CRot)"));
   auto* reset = new QToolButton;
   reset->setText(QStringLiteral("Reset view"));
   view_box_ = new QComboBox;
@@ -101,8 +105,9 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   scale_box_ = new QComboBox;
   for (ScaleMode m : {ScaleMode::kShown, ScaleMode::kFixed, ScaleMode::kThresholds})
     scale_box_->addItem(label(m), static_cast<int>(m));
-  scale_box_->setToolTip(QStringLiteral("Range of the colours: the range shown follows the force; a fixed range "
-                                        "or one anchored to the physiological limit lets weaker forces look paler"));
+  scale_box_->setToolTip(
+      QStringLiteral("Range of the colours: the range shown follows the force; a fixed range "
+                     "or one anchored to the physiological limit lets weaker forces look paler"));
   opt->addWidget(glyphs_box_);
   opt->addWidget(scale_box_);
   opt->addStretch(1);
@@ -120,7 +125,8 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
 
   scene_ = std::make_unique<ModelScene>(view_->renderer(), view_->overlay());
   // Half-resolution frames: pixel sizes follow, so labels and lines keep their look on screen.
-  connect(view_, &VtkView::pixel_scale_changed, this, [this](double scale) { scene_->set_pixel_scale(scale); });
+  connect(view_, &VtkView::pixel_scale_changed, this,
+          [this](double scale) { scene_->set_pixel_scale(scale); });
 
   connect(glyphs_box_, &QCheckBox::toggled, this, [this](bool on) {
     scene_->set_glyphs_visible(on);
@@ -134,7 +140,8 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     if (side >= 0) look_from(static_cast<ViewSide>(side));
     view_box_->setCurrentIndex(0);
   });
-  view_->set_decoration([this](QPainter& painter, const QSize& size) { draw_marker(painter, size); });
+  view_->set_decoration(
+      [this](QPainter& painter, const QSize& size) { draw_marker(painter, size); });
   // Fewer triangles while the mouse turns the view; full detail for the still frame.
   connect(view_, &VtkView::interaction_started, this, [this]() {
     set_interacting(true);
@@ -143,9 +150,8 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   });
   hover_timer_.setSingleShot(true);
   hover_timer_.setInterval(40);
-  connect(&hover_timer_, &QTimer::timeout, this, [this]() {
-    emit hover_changed(describe(readout_at(hover_x_, hover_y_)));
-  });
+  connect(&hover_timer_, &QTimer::timeout, this,
+          [this]() { emit hover_changed(describe(readout_at(hover_x_, hover_y_))); });
   connect(view_, &VtkView::hovered, this, [this](int x, int y) {
     hover_x_ = x;
     hover_y_ = y;
@@ -155,9 +161,7 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     hover_timer_.stop();
     emit hover_changed(QString());
   });
-  connect(view_, &VtkView::interaction_ended, this, [this]() {
-    set_interacting(false);
-  });
+  connect(view_, &VtkView::interaction_ended, this, [this]() { set_interacting(false); });
 }
 
 ResultView::~ResultView() = default;
@@ -188,7 +192,8 @@ void ResultView::set_quantity(Quantity q) {
 
 void ResultView::set_scale_mode(ScaleMode mode) {
   // Fixed: the colours keep the range on screen now.
-  if (mode == ScaleMode::kFixed) frozen_ = scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
+  if (mode == ScaleMode::kFixed)
+    frozen_ = scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
   scale_mode_ = mode;
   const int index = scale_box_->findData(static_cast<int>(mode));
   if (index >= 0 && scale_box_->currentIndex() != index) scale_box_->setCurrentIndex(index);
@@ -248,7 +253,8 @@ void ResultView::refresh() {
     frozen_ = range_;
     refreeze_ = false;
   }
-  const ValueRange own = scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
+  const ValueRange own =
+      scale_range(scale_mode_, quantity_, range_, frozen_, thresholds_.limit.value_kpa);
   const ColourScale scale(quantity_, fixed_range_ ? *fixed_range_ : own);
   scene_->set_field(values, scale);
   const bool lines = has_threshold_lines(quantity_);
@@ -290,8 +296,10 @@ void ResultView::draw_marker(QPainter& painter, const QSize& size) const {
     const char* name;
     bool main;  // drawn as a full arm; the others only as a label at the tip
   };
-  const Arm arms[] = {{Eigen::Vector3d::UnitX(), "labial", true},   {-Eigen::Vector3d::UnitX(), "lingual", false},
-                      {Eigen::Vector3d::UnitY(), "mesial", true},   {-Eigen::Vector3d::UnitY(), "distal", false},
+  const Arm arms[] = {{Eigen::Vector3d::UnitX(), "labial", true},
+                      {-Eigen::Vector3d::UnitX(), "lingual", false},
+                      {Eigen::Vector3d::UnitY(), "mesial", true},
+                      {-Eigen::Vector3d::UnitY(), "distal", false},
                       {Eigen::Vector3d::UnitZ(), "crown", true}};
   const QColor ink = to_qcolor(cres_label_colour());
   for (const Arm& a : arms) {
@@ -306,10 +314,11 @@ void ResultView::draw_marker(QPainter& painter, const QSize& size) const {
     const double len = std::hypot(away.x(), away.y());
     // A direction pointing at or away from the reader has no room on screen: no label.
     if (len < 0.3 * radius) continue;
-    const QPointF at = len > 1 ? tip + away / len * (0.5 * t.width() * std::abs(away.x() / len) + 4) : tip;
+    const QPointF at =
+        len > 1 ? tip + away / len * (0.5 * t.width() * std::abs(away.x() / len) + 4) : tip;
     painter.setPen(a.main ? ink : ink.darker(130));
-    painter.drawText(QRectF(at.x() - t.width() / 2, at.y() - t.height() / 2, t.width(), t.height()), Qt::AlignCenter,
-                     text);
+    painter.drawText(QRectF(at.x() - t.width() / 2, at.y() - t.height() / 2, t.width(), t.height()),
+                     Qt::AlignCenter, text);
   }
   painter.restore();
 }

@@ -59,8 +59,9 @@ class ResultView : public QWidget {
 
   // Shows a scenario (rebuilds the geometry when `solution` differs from the last one) with
   // `result`; `fixed_range`, when given, replaces the data range (shared comparison scale).
-  void show_result(const analysis::ScenarioSolution& solution, const analysis::ScenarioResult& result,
-                   const analysis::Thresholds& thresholds, const QString& force_text,
+  void show_result(const analysis::ScenarioSolution& solution,
+                   const analysis::ScenarioResult& result, const analysis::Thresholds& thresholds,
+                   const QString& force_text,
                    const std::optional<ValueRange>& fixed_range = std::nullopt);
   void clear();
 
@@ -118,8 +119,8 @@ class ResultView : public QWidget {
   QComboBox* view_box_ = nullptr;
   QComboBox* scale_box_ = nullptr;
   ScaleMode scale_mode_ = ScaleMode::kShown;
-  ValueRange frozen_;       // the kept range of ScaleMode::kFixed
-  bool refreeze_ = false;   // the quantity changed under kFixed: keep the new quantity's range
+  ValueRange frozen_;      // the kept range of ScaleMode::kFixed
+  bool refreeze_ = false;  // the quantity changed under kFixed: keep the new quantity's range
   std::unique_ptr<ModelScene> scene_;
   Quantity quantity_ = Quantity::kPressure;
   const analysis::ScenarioSolution* solution_ = nullptr;

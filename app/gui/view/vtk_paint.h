@@ -6,8 +6,8 @@ class vtkGenericOpenGLRenderWindow;
 
 namespace sharpey::app {
 
-// Renders `window` into the framebuffer bound by the caller (VtkView's frame buffer object): lets VTK
-// re-read the GL state Qt changed, renders, forces an opaque alpha channel so the compositor
+// Renders `window` into the framebuffer bound by the caller (VtkView's frame buffer object): lets
+// VTK re-read the GL state Qt changed, renders, forces an opaque alpha channel so the compositor
 // never blends the view with the window behind it, and restores the state for Qt.
 void render_into_bound_framebuffer(vtkGenericOpenGLRenderWindow* window);
 

@@ -1,15 +1,5 @@
 #include "view/vtk_view.h"
 
-#include <QElapsedTimer>
-#include <algorithm>
-#include <cmath>
-#include <QMouseEvent>
-#include <QOffscreenSurface>
-#include <QOpenGLContext>
-#include <QOpenGLFramebufferObject>
-#include <QPainter>
-#include <QSurfaceFormat>
-#include <QWheelEvent>
 #include <vtkCallbackCommand.h>
 #include <vtkCamera.h>
 #include <vtkCommand.h>
@@ -17,6 +7,17 @@
 #include <vtkGenericRenderWindowInteractor.h>
 #include <vtkInteractorStyleTrackballCamera.h>
 #include <vtkRenderer.h>
+
+#include <QElapsedTimer>
+#include <QMouseEvent>
+#include <QOffscreenSurface>
+#include <QOpenGLContext>
+#include <QOpenGLFramebufferObject>
+#include <QPainter>
+#include <QSurfaceFormat>
+#include <QWheelEvent>
+#include <algorithm>
+#include <cmath>
 
 #include "view/vtk_paint.h"
 
@@ -127,12 +128,14 @@ bool VtkView::make_current() {
     window_->OpenGLInitContext();
     return true;
   }
-  return QOpenGLContext::currentContext() == context_.get() || context_->makeCurrent(surface_.get());
+  return QOpenGLContext::currentContext() == context_.get() ||
+         context_->makeCurrent(surface_.get());
 }
 
 QSize VtkView::device_size() const {
   const qreal scale = devicePixelRatioF() * (quick_ ? 0.5 : 1.0);
-  return {std::max(1, static_cast<int>(width() * scale)), std::max(1, static_cast<int>(height() * scale))};
+  return {std::max(1, static_cast<int>(width() * scale)),
+          std::max(1, static_cast<int>(height() * scale))};
 }
 
 void VtkView::set_quick(bool on) {
@@ -147,7 +150,8 @@ void VtkView::render_frame() {
   if (!make_current()) return;
   const QSize size = device_size();
   if (!fbo_ || fbo_->size() != size) {
-    fbo_ = std::make_unique<QOpenGLFramebufferObject>(size, QOpenGLFramebufferObject::CombinedDepthStencil);
+    fbo_ = std::make_unique<QOpenGLFramebufferObject>(
+        size, QOpenGLFramebufferObject::CombinedDepthStencil);
   }
   interactor_->UpdateSize(size.width(), size.height());
   // Text is sized in points at the window's DPI: half the DPI in a half-resolution frame keeps the
@@ -192,7 +196,8 @@ void VtkView::paintEvent(QPaintEvent*) {
   QPainter painter(this);
   if (frame_.isNull()) {
     painter.fillRect(rect(), palette().window());
-    painter.drawText(rect(), Qt::AlignCenter, QStringLiteral("No OpenGL: the 3D view cannot be drawn."));
+    painter.drawText(rect(), Qt::AlignCenter,
+                     QStringLiteral("No OpenGL: the 3D view cannot be drawn."));
     return;
   }
   if (quick_) {
@@ -217,7 +222,8 @@ void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_dat
       make_current();
       break;
     case vtkCommand::WindowIsCurrentEvent:
-      *static_cast<bool*>(call_data) = context_ && QOpenGLContext::currentContext() == context_.get();
+      *static_cast<bool*>(call_data) =
+          context_ && QOpenGLContext::currentContext() == context_.get();
       break;
     case vtkCommand::WindowSupportsOpenGLEvent:
       *static_cast<int*>(call_data) = 1;
@@ -229,13 +235,16 @@ void VtkView::on_window_event(vtkObject*, unsigned long event_id, void* call_dat
       // A render outside paintEvent (should not happen): show it at the next paint.
       if (!in_paint_) update();
       break;
-    default: break;
+    default:
+      break;
   }
 }
 
 void VtkView::on_style_event(vtkObject*, unsigned long event_id, void*) {
-  if (event_id == vtkCommand::StartInteractionEvent) emit interaction_started();
-  else if (event_id == vtkCommand::EndInteractionEvent) emit interaction_ended();
+  if (event_id == vtkCommand::StartInteractionEvent)
+    emit interaction_started();
+  else if (event_id == vtkCommand::EndInteractionEvent)
+    emit interaction_ended();
 }
 
 void VtkView::on_interactor_render(vtkObject*, unsigned long, void*) {
@@ -246,7 +255,8 @@ void VtkView::on_interactor_render(vtkObject*, unsigned long, void*) {
 bool VtkView::forward_mouse(QMouseEvent* event, unsigned long vtk_event) {
   const qreal dpr = devicePixelRatioF();
   const QPointF p = event->position();
-  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr), static_cast<int>(p.y() * dpr),
+  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr),
+                                        static_cast<int>(p.y() * dpr),
                                         (event->modifiers() & Qt::ControlModifier) ? 1 : 0,
                                         (event->modifiers() & Qt::ShiftModifier) ? 1 : 0, 0,
                                         event->type() == QEvent::MouseButtonDblClick ? 1 : 0);
@@ -257,19 +267,33 @@ bool VtkView::forward_mouse(QMouseEvent* event, unsigned long vtk_event) {
 
 void VtkView::mousePressEvent(QMouseEvent* event) {
   switch (event->button()) {
-    case Qt::LeftButton: forward_mouse(event, vtkCommand::LeftButtonPressEvent); break;
-    case Qt::MiddleButton: forward_mouse(event, vtkCommand::MiddleButtonPressEvent); break;
-    case Qt::RightButton: forward_mouse(event, vtkCommand::RightButtonPressEvent); break;
-    default: break;
+    case Qt::LeftButton:
+      forward_mouse(event, vtkCommand::LeftButtonPressEvent);
+      break;
+    case Qt::MiddleButton:
+      forward_mouse(event, vtkCommand::MiddleButtonPressEvent);
+      break;
+    case Qt::RightButton:
+      forward_mouse(event, vtkCommand::RightButtonPressEvent);
+      break;
+    default:
+      break;
   }
 }
 
 void VtkView::mouseReleaseEvent(QMouseEvent* event) {
   switch (event->button()) {
-    case Qt::LeftButton: forward_mouse(event, vtkCommand::LeftButtonReleaseEvent); break;
-    case Qt::MiddleButton: forward_mouse(event, vtkCommand::MiddleButtonReleaseEvent); break;
-    case Qt::RightButton: forward_mouse(event, vtkCommand::RightButtonReleaseEvent); break;
-    default: break;
+    case Qt::LeftButton:
+      forward_mouse(event, vtkCommand::LeftButtonReleaseEvent);
+      break;
+    case Qt::MiddleButton:
+      forward_mouse(event, vtkCommand::MiddleButtonReleaseEvent);
+      break;
+    case Qt::RightButton:
+      forward_mouse(event, vtkCommand::RightButtonReleaseEvent);
+      break;
+    default:
+      break;
   }
 }
 
@@ -289,12 +313,15 @@ void VtkView::mouseDoubleClickEvent(QMouseEvent* event) {
 void VtkView::wheelEvent(QWheelEvent* event) {
   const qreal dpr = devicePixelRatioF();
   const QPointF p = event->position();
-  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr), static_cast<int>(p.y() * dpr),
+  interactor_->SetEventInformationFlipY(static_cast<int>(p.x() * dpr),
+                                        static_cast<int>(p.y() * dpr),
                                         (event->modifiers() & Qt::ControlModifier) ? 1 : 0,
                                         (event->modifiers() & Qt::ShiftModifier) ? 1 : 0);
   const int delta = event->angleDelta().y();
-  if (delta > 0) interactor_->InvokeEvent(vtkCommand::MouseWheelForwardEvent, event);
-  else if (delta < 0) interactor_->InvokeEvent(vtkCommand::MouseWheelBackwardEvent, event);
+  if (delta > 0)
+    interactor_->InvokeEvent(vtkCommand::MouseWheelForwardEvent, event);
+  else if (delta < 0)
+    interactor_->InvokeEvent(vtkCommand::MouseWheelBackwardEvent, event);
   event->accept();
 }
 

@@ -11,12 +11,13 @@
 // QApplication is created.
 #pragma once
 
+#include <vtkNew.h>
+#include <vtkSmartPointer.h>
+
 #include <QImage>
 #include <QWidget>
 #include <functional>
 #include <memory>
-#include <vtkNew.h>
-#include <vtkSmartPointer.h>
 
 class QOffscreenSurface;
 class QPainter;

@@ -21,9 +21,9 @@ enum class PointKind : unsigned char { kTooth, kPdlLayer, kSocket, kBone };
 
 struct PointInfo {
   PointKind kind = PointKind::kBone;
-  double theta = 0;    // column angle; NaN at a pole
-  double s = 0;        // meridian parameter of the tooth surface (tooth, PDL and socket points)
-  double f = 0;        // fraction across the PDL: 0 tooth surface, 1 socket
+  double theta = 0;  // column angle; NaN at a pole
+  double s = 0;      // meridian parameter of the tooth surface (tooth, PDL and socket points)
+  double f = 0;      // fraction across the PDL: 0 tooth surface, 1 socket
 };
 
 // Marker of helper faces: every face of a PDL element is listed with it in the linear mesh so
@@ -48,9 +48,9 @@ class PointSet {
 
 struct Facet {
   std::array<int, 3> v;
-  int marker;       // FaceMarker, or kOther for the cortical/cancellous interface
-  bool to_tetgen;   // part of the PLC
-  bool output;      // listed as a mesh face
+  int marker;      // FaceMarker, or kOther for the cortical/cancellous interface
+  bool to_tetgen;  // part of the PLC
+  bool output;     // listed as a mesh face
 };
 
 class ModelMesher {
@@ -88,7 +88,7 @@ class ModelMesher {
   int n_columns_ = 0;
   // Tooth rings (from the crown tip to the apex): point indices; poles are rings of one point.
   std::vector<std::vector<int>> rings_;
-  int crest_ring_ = 0, cortical_ring_ = 0;  // indices into rings_
+  int crest_ring_ = 0, cortical_ring_ = 0;          // indices into rings_
   std::vector<std::array<int, 3>> root_triangles_;  // tooth triangles below the crest
   // layer_[k][p]: the point at fraction k / n_layers across the PDL above tooth point p
   // (-1 where p is above the crest). layer_[0][p] = p.

@@ -84,8 +84,7 @@ void ChildProcess::send(int signal) {
 
 ProcessResult ChildProcess::wait(double timeout_s) {
   ProcessResult r;
-  const auto deadline =
-      std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
   while (!reaped_) {
     const pid_t done = ::waitpid(pid_, &status_, WNOHANG);
     if (done == pid_) {
@@ -108,8 +107,7 @@ ProcessResult ChildProcess::wait(double timeout_s) {
 }
 
 bool ChildProcess::wait_for_stderr(const std::string& text, double timeout_s) {
-  const auto deadline =
-      std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::duration<double>(timeout_s);
   while (std::chrono::steady_clock::now() < deadline) {
     if (stderr_so_far().find(text) != std::string::npos) return true;
     if (!reaped_ && ::waitpid(pid_, &status_, WNOHANG) == pid_) {
@@ -131,7 +129,8 @@ std::string coarse_case_json(int n_scenarios) {
   "label": "Invented test case: maxillary central incisor, 100 g lingual",
   "tooth": {"type": "maxillary_central_incisor"},
   "pdl": {"width_mm": 0.2},
-  "scenarios": [)" + scenarios + R"(],
+  "scenarios": [)" +
+         scenarios + R"(],
   "load": {"magnitude": 100, "unit": "g", "direction": "lingual"},
   "mesh": {"preset": "coarse"}
 })";

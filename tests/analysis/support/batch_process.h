@@ -45,7 +45,8 @@ class ChildProcess {
   std::string out_path_, err_path_;
 };
 
-// A small invented incisor case on the coarse mesh: "healthy" and, when n_scenarios is 2, "3 mm loss".
+// A small invented incisor case on the coarse mesh: "healthy" and, when n_scenarios is 2, "3 mm
+// loss".
 std::string coarse_case_json(int n_scenarios);
 
 // Runs sharpey-batch with `args` and waits for it.

@@ -24,7 +24,9 @@ int colour_map_pixels(const QImage& image) {
   return count_pixels(image, [&](const QColor& c) {
     if (c.hsvSaturationF() < 0.25f) return false;
     for (const QColor& p : palette)
-      if (std::abs(c.red() - p.red()) + std::abs(c.green() - p.green()) + std::abs(c.blue() - p.blue()) < 60)
+      if (std::abs(c.red() - p.red()) + std::abs(c.green() - p.green()) +
+              std::abs(c.blue() - p.blue()) <
+          60)
         return true;
     return false;
   });

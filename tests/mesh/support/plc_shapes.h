@@ -50,9 +50,9 @@ inline TriSurface icosphere(const Eigen::Vector3d& center, double radius, int le
                                        {t, 0, -1}, {t, 0, 1}, {-t, 0, -1}, {-t, 0, 1}};
   for (auto& p : unit) p.normalize();
   std::vector<std::array<int, 3>> tris = {
-      {0, 11, 5}, {0, 5, 1},  {0, 1, 7},   {0, 7, 10}, {0, 10, 11}, {1, 5, 9}, {5, 11, 4},
+      {0, 11, 5},  {0, 5, 1},  {0, 1, 7},  {0, 7, 10}, {0, 10, 11}, {1, 5, 9}, {5, 11, 4},
       {11, 10, 2}, {10, 7, 6}, {7, 1, 8},  {3, 9, 4},  {3, 4, 2},   {3, 2, 6}, {3, 6, 8},
-      {3, 8, 9},  {4, 9, 5},  {2, 4, 11}, {6, 2, 10}, {8, 6, 7},   {9, 8, 1}};
+      {3, 8, 9},   {4, 9, 5},  {2, 4, 11}, {6, 2, 10}, {8, 6, 7},   {9, 8, 1}};
   for (int l = 0; l < levels; ++l) {
     std::map<std::pair<int, int>, int> mid;
     auto midpoint = [&](int a, int b) {

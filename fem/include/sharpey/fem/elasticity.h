@@ -9,10 +9,10 @@
 // order. The maths is in docs/fem-solver.md.
 #pragma once
 
-#include "sharpey/fem/material.h"
-#include "sharpey/fem/element.h"
 #include "sharpey/fem/assembly.h"
+#include "sharpey/fem/element.h"
 #include "sharpey/fem/loads.h"
-#include "sharpey/fem/solver.h"
+#include "sharpey/fem/material.h"
 #include "sharpey/fem/recovery.h"
+#include "sharpey/fem/solver.h"
 #include "sharpey/fem/superposition.h"

@@ -16,9 +16,9 @@ namespace sharpey::fem {
 // 4-node elements have one constant value.
 struct RegionField {
   int region = 0;
-  std::vector<int> nodes;                         // global node ids of the region, ascending
+  std::vector<int> nodes;                               // global node ids of the region, ascending
   Eigen::Matrix<double, 6, Eigen::Dynamic> stress_mpa;  // 6 x nodes.size(), Voigt
-  Eigen::Matrix<double, 6, Eigen::Dynamic> strain;      // 6 x nodes.size(), Voigt, engineering shear
+  Eigen::Matrix<double, 6, Eigen::Dynamic> strain;  // 6 x nodes.size(), Voigt, engineering shear
 };
 // u: 3n displacement, mm. Throws InputError when no element has `region` or it has no material.
 RegionField recover_region(const mesh::VolumeMesh& mesh, const MaterialTable& materials,

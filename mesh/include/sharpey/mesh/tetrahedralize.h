@@ -15,20 +15,22 @@ namespace sharpey::mesh {
 // A triangulated piecewise-linear complex: a closed, non-self-intersecting set of triangles
 // (internal interfaces allowed) plus one seed point per region and optional hole points.
 struct Plc {
-  std::vector<Eigen::Vector3d> points;           // mm
-  std::vector<std::array<int, 3>> triangles;     // facets (each one triangle), indices into points
-  std::vector<int> triangle_marker;              // one per triangle, copied to the output faces
+  std::vector<Eigen::Vector3d> points;        // mm
+  std::vector<std::array<int, 3>> triangles;  // facets (each one triangle), indices into points
+  std::vector<int> triangle_marker;           // one per triangle, copied to the output faces
   struct RegionSeed {
     Eigen::Vector3d point;      // a point strictly inside the region
     int region = 0;             // copied to element_region; must be >= 1
     double max_volume_mm3 = 0;  // <= 0: no bound
   };
-  std::vector<RegionSeed> regions;     // at least one; every meshed element must lie in a seeded region
+  std::vector<RegionSeed>
+      regions;  // at least one; every meshed element must lie in a seeded region
   std::vector<Eigen::Vector3d> holes;  // points inside voids to leave unmeshed
 };
 
 struct TetgenOptions {
-  double radius_edge_ratio = 1.6;  // quality bound (TetGen -q), >= 1.0; <= 0 disables quality refinement
+  double radius_edge_ratio =
+      1.6;  // quality bound (TetGen -q), >= 1.0; <= 0 disables quality refinement
   double min_dihedral_deg = 10.0;  // quality bound (TetGen -q), 0 to 18 degrees
   double max_volume_mm3 = 0;       // global bound, <= 0: none
   bool preserve_surface = false;   // no Steiner points on the input triangles (TetGen -Y)
@@ -36,7 +38,7 @@ struct TetgenOptions {
                                    // surfaces ask for 4 nodes and call make_second_order with a
                                    // projection (second_order.h)
   std::string stage = "tetrahedralising the PLC";  // names the step in error messages, e.g.
-                                                    // "tetrahedralising the tooth/PDL/bone model"
+                                                   // "tetrahedralising the tooth/PDL/bone model"
   const std::atomic<bool>* cancel = nullptr;  // when set while TetGen runs: its process is killed
                                               // within 50 ms and tetrahedralize throws Cancelled
 };

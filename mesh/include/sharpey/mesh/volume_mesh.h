@@ -30,9 +30,9 @@ enum FaceMarker : int {
 
 // Tetrahedral mesh of 4-node or 10-node elements in VTK node order:
 // vertices 0-3, then midside nodes on edges (0,1) (1,2) (0,2) (0,3) (1,3) (2,3).
-// Boundary/interface triangles have 3 or 6 nodes in VTK order: vertices 0-2, then (0,1) (1,2) (0,2).
-// Coordinates in mm, in the tooth coordinate system for tooth models (origin on the long axis at
-// the CEJ level, z toward the crown, x labial/buccal, y mesial).
+// Boundary/interface triangles have 3 or 6 nodes in VTK order: vertices 0-2, then (0,1) (1,2)
+// (0,2). Coordinates in mm, in the tooth coordinate system for tooth models (origin on the long
+// axis at the CEJ level, z toward the crown, x labial/buccal, y mesial).
 struct VolumeMesh {
   std::vector<Eigen::Vector3d> nodes;  // mm
   int nodes_per_element = 10;          // 4 or 10
@@ -45,7 +45,9 @@ struct VolumeMesh {
   int n_nodes() const { return static_cast<int>(nodes.size()); }
   int n_elements() const { return static_cast<int>(element_region.size()); }
   int n_faces() const { return static_cast<int>(face_marker.size()); }
-  const int* element(int e) const { return elements.data() + static_cast<size_t>(e) * nodes_per_element; }
+  const int* element(int e) const {
+    return elements.data() + static_cast<size_t>(e) * nodes_per_element;
+  }
   const int* face(int f) const { return faces.data() + static_cast<size_t>(f) * nodes_per_face; }
 };
 

@@ -2,7 +2,8 @@
 //
 // Format: VTK XML UnstructuredGrid version 1.0, data in one appended block in raw binary (host byte
 // order, declared in the header; UInt64 block sizes), readable by VTK 9 and ParaView. Points
-// Float64, connectivity/offsets Int64, types UInt8, `region` / `marker` Int32, extra arrays Float64.
+// Float64, connectivity/offsets Int64, types UInt8, `region` / `marker` Int32, extra arrays
+// Float64.
 #pragma once
 
 #include <Eigen/Core>
@@ -39,7 +40,8 @@ void write_vtu(const std::string& path, const VolumeMesh& mesh, const VtuArrays&
 // the cell array `marker`. Only the nodes used by faces are written (renumbered in ascending
 // order); extra point arrays are given per mesh node (n_nodes tuples) and are reduced the same way;
 // extra cell arrays have one value per face. Atomic and throwing as write_vtu.
-void write_boundary_vtu(const std::string& path, const VolumeMesh& mesh, const VtuArrays& extra = {});
+void write_boundary_vtu(const std::string& path, const VolumeMesh& mesh,
+                        const VtuArrays& extra = {});
 
 // Extracts the sub-mesh of one region (elements, their nodes renumbered in ascending order of the
 // old index, faces kept whose nodes are all in it); `node_map` (may be null) receives, per new
