@@ -707,6 +707,12 @@ CaseSpec read_case(const Json& root) {
                          (spec.schema_version > kCaseSchemaVersion
                               ? " (the file was written by a newer program; update Sharpey)"
                               : ""));
+  if (root.is_object() && root.contains("kind") && root.at("kind") == "multi_root_estimate")
+    throw InputError("kind",
+                     "this is a multi-rooted tooth case (\"kind\": \"multi_root_estimate\"), "
+                     "evaluated by the thin-layer estimate of docs/molars.md: run it with "
+                     "sharpey-batch molar CASE --out FOLDER; run, sweep and the app take "
+                     "single-rooted teeth only");
   spec.label = top.string("label", "");
   spec.notes = top.string("notes", "");
   read_tooth(top.object("tooth"), spec);

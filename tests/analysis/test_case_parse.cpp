@@ -251,6 +251,8 @@ const BadCase kBadCases[] = {
     {"type_vector_short", "load.direction", "[1, 0]", "three numbers"},
     {"type_quadratic", "mesh.quadratic", "\"yes\"", "true or false"},
     {"type_label", "label", "7", "expected a string"},
+    // A multi-rooted case (docs/molars.md) is sent to the command that evaluates it.
+    {"multi_root_kind", "kind", "\"multi_root_estimate\"", "sharpey-batch molar"},
     // Unknown keys, with the closest known one suggested.
     {"unknown_top", "lod", "{}", "did you mean \"load\""},
     {"unknown_nested", "load.magnitud", "50", "did you mean \"magnitude\""},
