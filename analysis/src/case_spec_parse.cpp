@@ -570,60 +570,53 @@ void read_scenarios(Fields& top, CaseSpec& spec) {
         read_scenario(Fields((*list)[i], "scenarios[" + std::to_string(i) + "]"), spec));
 }
 
-void read_load(Fields l, CaseSpec& spec) {
-  LoadSpec& load = spec.load;
-  load.magnitude = l.number("magnitude", load.magnitude);
-  const std::string unit = l.string("unit", to_string(load.unit));
-  try {
-    load.unit = force_unit_from_string(unit);
-  } catch (const InputError& e) {
-    throw InputError(l.path_of("unit"), l.path_of("unit") + ": " + e.what());
-  }
-
-  if (const Json* d = l.find("direction")) {
-    const std::string path = l.path_of("direction");
-    if (d->is_string()) {
-      try {
-        load.direction = named_direction(d->get<std::string>());
-      } catch (const InputError& e) {
-        throw InputError(path, path + ": " + e.what());
-      }
-      load.direction_name = d->get<std::string>();
-    } else if (d->is_array()) {
-      const Eigen::Vector3d v = read_vector(*d, path);
-      const double norm = v.norm();
-      if (!std::isfinite(norm) || norm < 1e-9)
-        throw InputError(path, path + " = " + shown(*d) +
-                                   " has no length; give a non-zero vector [x, y, z] (x labial, "
-                                   "y mesial, z toward the crown) or a name such as \"lingual\"");
-      // Keep a vector that is already unit length bit for bit, so files round-trip exactly.
-      load.direction = std::abs(norm - 1.0) < 1e-14 ? v : Eigen::Vector3d(v / norm);
-      load.direction_name.clear();
-    } else if (d->is_object()) {
-      Fields a(*d, path);
-      const double azimuth = a.required_number("azimuth_deg", "180");
-      const double elevation = a.number("elevation_deg", 0);
-      a.finish();
-      if (!(elevation >= -90 && elevation <= 90))
-        throw InputError(a.path_of("elevation_deg"),
-                         a.path_of("elevation_deg") + " = " + format_number(elevation) +
-                             " deg is outside [-90, 90]; it is the angle above the occlusal "
-                             "(x-y) plane, +90 extrusive, -90 intrusive");
-      if (!std::isfinite(azimuth))
-        throw InputError(a.path_of("azimuth_deg"), a.path_of("azimuth_deg") + " is not finite");
-      const double deg = sharpey::core::kRadiansPerDegree;
-      load.direction = Eigen::Vector3d(std::cos(elevation * deg) * std::cos(azimuth * deg),
-                                       std::cos(elevation * deg) * std::sin(azimuth * deg),
-                                       std::sin(elevation * deg));
-      load.direction_name.clear();
-    } else {
-      type_error(path,
-                 "a name (\"lingual\", ...), a vector [x, y, z] or angles {\"azimuth_deg\", "
-                 "\"elevation_deg\"}",
-                 *d);
+// load.direction: a name, a vector [x, y, z] or angles {azimuth_deg, elevation_deg}.
+void read_direction(const Json& d_value, const std::string& path, LoadSpec& load) {
+  const Json* d = &d_value;
+  if (d->is_string()) {
+    try {
+      load.direction = named_direction(d->get<std::string>());
+    } catch (const InputError& e) {
+      throw InputError(path, path + ": " + e.what());
     }
+    load.direction_name = d->get<std::string>();
+  } else if (d->is_array()) {
+    const Eigen::Vector3d v = read_vector(*d, path);
+    const double norm = v.norm();
+    if (!std::isfinite(norm) || norm < 1e-9)
+      throw InputError(path, path + " = " + shown(*d) +
+                                 " has no length; give a non-zero vector [x, y, z] (x labial, "
+                                 "y mesial, z toward the crown) or a name such as \"lingual\"");
+    // Keep a vector that is already unit length bit for bit, so files round-trip exactly.
+    load.direction = std::abs(norm - 1.0) < 1e-14 ? v : Eigen::Vector3d(v / norm);
+    load.direction_name.clear();
+  } else if (d->is_object()) {
+    Fields a(*d, path);
+    const double azimuth = a.required_number("azimuth_deg", "180");
+    const double elevation = a.number("elevation_deg", 0);
+    a.finish();
+    if (!(elevation >= -90 && elevation <= 90))
+      throw InputError(a.path_of("elevation_deg"),
+                       a.path_of("elevation_deg") + " = " + format_number(elevation) +
+                           " deg is outside [-90, 90]; it is the angle above the occlusal "
+                           "(x-y) plane, +90 extrusive, -90 intrusive");
+    if (!std::isfinite(azimuth))
+      throw InputError(a.path_of("azimuth_deg"), a.path_of("azimuth_deg") + " is not finite");
+    const double deg = sharpey::core::kRadiansPerDegree;
+    load.direction = Eigen::Vector3d(std::cos(elevation * deg) * std::cos(azimuth * deg),
+                                     std::cos(elevation * deg) * std::sin(azimuth * deg),
+                                     std::sin(elevation * deg));
+    load.direction_name.clear();
+  } else {
+    type_error(path,
+               "a name (\"lingual\", ...), a vector [x, y, z] or angles {\"azimuth_deg\", "
+               "\"elevation_deg\"}",
+               *d);
   }
+}
 
+// load.application_height_mm: the height above the CEJ where the force acts (>= 0).
+void read_application_height(Fields& l, LoadSpec& load) {
   if (const Json* h = l.find("application_height_mm")) {
     if (!h->is_number()) type_error(l.path_of("application_height_mm"), "a number", *h);
     load.bracket_height_mm = h->get<double>();
@@ -633,7 +626,10 @@ void read_load(Fields l, CaseSpec& spec) {
                            " mm is negative; give the height above the CEJ where the force acts "
                            "(>= 0 mm) or leave the key out to use the bracket centre");
   }
+}
 
+// load.couple: a moment vector with its unit, or a moment-to-force ratio.
+void read_couple(Fields& l, LoadSpec& load) {
   if (l.has("couple")) {
     Fields c = l.object("couple");
     const bool has_moment = c.has("moment"), has_ratio = c.has("moment_to_force_mm");
@@ -663,7 +659,21 @@ void read_load(Fields l, CaseSpec& spec) {
   } else {
     l.find("couple");  // known key
   }
+}
 
+void read_load(Fields l, CaseSpec& spec) {
+  LoadSpec& load = spec.load;
+  load.magnitude = l.number("magnitude", load.magnitude);
+  const std::string unit = l.string("unit", to_string(load.unit));
+  try {
+    load.unit = force_unit_from_string(unit);
+  } catch (const InputError& e) {
+    throw InputError(l.path_of("unit"), l.path_of("unit") + ": " + e.what());
+  }
+
+  if (const Json* d = l.find("direction")) read_direction(*d, l.path_of("direction"), load);
+  read_application_height(l, load);
+  read_couple(l, load);
   const std::string movement = l.string("movement", to_string(load.preset));
   try {
     load.preset = movement_preset_from_string(movement);

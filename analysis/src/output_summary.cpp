@@ -88,14 +88,13 @@ std::string reading(const CaseSpec& spec, const ScenarioResult& r, bool is_refer
 
 }  // namespace
 
-std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
-                         const AllowanceReport* allowance) {
-  constexpr size_t kWidth = 96;
-  std::ostringstream out;
-  out << "Sharpey report: " << (spec.label.empty() ? "(no label)" : spec.label) << "\n";
-  out << std::string(kWidth, '=') << "\n";
-  out << wrap(caution_text(), kWidth) << "\n";
+namespace {
 
+constexpr size_t kSummaryWidth = 96;
+
+// The model in words: tooth, PDL, bone, force system, mesh and the thresholds with their sources.
+void write_case_header(std::ostream& out, const CaseSpec& spec) {
+  constexpr size_t kWidth = kSummaryWidth;
   const mesh::ToothSpec& tooth = spec.model.tooth;
   out << "Tooth:      ";
   if (tooth.scan)
@@ -128,8 +127,10 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
                   " kPa; source: " + spec.thresholds.limit.source,
               kWidth);
   out << "\n";
+}
 
-  // Table: one row per quantity, one column per scenario.
+// One row per quantity, one column per scenario.
+void write_key_table(std::ostream& out, const std::vector<ScenarioResult>& results) {
   struct Row {
     std::string label;
     std::function<std::string(const ScenarioResult&)> cell;
@@ -192,14 +193,12 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
     out << "\n";
   }
   out << "\n";
-  out << "CRes: "
-      << (results.empty() ||
-                  cres_direction_for(results.front().load) == CresDirection::kLabiolingual
-              ? "for labiolingual forces"
-              : "for mesiodistal forces")
-      << ", measured along the long axis from the alveolar crest.\n";
-  out << "Pressure: PDL hydrostatic pressure, compression positive.\n\n";
+}
 
+// A reading of every scenario against the thresholds, the least bone loss as the reference.
+void write_readings(std::ostream& out, const CaseSpec& spec,
+                    const std::vector<ScenarioResult>& results) {
+  constexpr size_t kWidth = kSummaryWidth;
   out << "Reading against the thresholds\n";
   double least_loss = INFINITY;
   for (const ScenarioResult& r : results) least_loss = std::min(least_loss, r.bone_loss_mm);
@@ -209,6 +208,28 @@ std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>
     reference_taken = reference_taken || is_reference;
     out << wrap(reading(spec, r, is_reference), kWidth, "- ", "  ");
   }
+}
+
+}  // namespace
+
+std::string summary_text(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
+                         const AllowanceReport* allowance) {
+  constexpr size_t kWidth = kSummaryWidth;
+  std::ostringstream out;
+  out << "Sharpey report: " << (spec.label.empty() ? "(no label)" : spec.label) << "\n";
+  out << std::string(kWidth, '=') << "\n";
+  out << wrap(caution_text(), kWidth) << "\n";
+  write_case_header(out, spec);
+  write_key_table(out, results);
+  out << "CRes: "
+      << (results.empty() ||
+                  cres_direction_for(results.front().load) == CresDirection::kLabiolingual
+              ? "for labiolingual forces"
+              : "for mesiodistal forces")
+      << ", measured along the long axis from the alveolar crest.\n";
+  out << "Pressure: PDL hydrostatic pressure, compression positive.\n\n";
+
+  write_readings(out, spec, results);
   // The allowance paragraph ends with the caution itself.
   if (allowance)
     out << "\n" << allowance_summary_text(spec, *allowance, kWidth);
