@@ -181,23 +181,15 @@ const std::vector<char>& pdl_crest_edge_band(const ScenarioSolution& solution) {
   return solution.pdl_edge_band();
 }
 
-namespace detail {
+namespace {
 
-ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
-                        const Thresholds& thresholds, const ScenarioSolution* healthy,
-                        const PressureMeasures* known_reference, const FieldChoice& fields) {
+constexpr double kNan = std::numeric_limits<double>::quiet_NaN();
+
+// Rigid motion of the tooth: exact superposition of the unit cases' fitted motions; the centre
+// of rotation and the crown-tip and apex displacements.
+void evaluate_rigid_motion(const ScenarioSolution& solution, ScenarioResult& r) {
   const mesh::ModelGeometry& g = solution.model().geometry;
   const detail::LoadContext& context = solution.load_context();
-  ScenarioResult r;
-  r.name = solution.scenario().name;
-  r.bone_loss_mm = solution.scenario().loss.horizontal_mm;
-  r.attachment_area_mm2 = solution.attachment_area_mm2();
-  r.cres_labiolingual = solution.cres_labiolingual();
-  r.cres_mesiodistal = solution.cres_mesiodistal();
-  r.load = detail::resolve_load(load, context);
-  r.mf_translation_mm = detail::translation_moment_to_force(load, context);
-
-  // Rigid motion of the tooth: exact superposition of the unit cases' fitted motions.
   const detail::RigidMotion motion = context.response.motion(r.load.force_n, r.load.moment_nmm);
   r.centre_of_rotation_defined = detail::centre_of_rotation(motion, &r.centre_of_rotation);
   if (!r.centre_of_rotation_defined) {
@@ -206,8 +198,11 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   r.crown_tip_displacement_um = 1000.0 * motion.displacement_at(g.crown_tip);
   r.apex_displacement_um = 1000.0 * motion.displacement_at(g.apex);
   r.rotation_deg = kRadToDeg * motion.rotation_rad;
+}
 
-  constexpr double kNan = std::numeric_limits<double>::quiet_NaN();
+// The displacement field and the rms residual of the rigid fit to the embedded root.
+void evaluate_displacement(const ScenarioSolution& solution, const FieldChoice& fields,
+                           ScenarioResult& r) {
   if (fields.displacement) {
     const Eigen::VectorXd u = solution.basis().displacement(r.load.force_n, r.load.moment_nmm);
     r.displacement_mm = Eigen::Map<const Eigen::Matrix3Xd>(u.data(), 3, u.size() / 3);
@@ -217,12 +212,12 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
   } else {
     r.rigid_fit_rms_um = kNan;
   }
+}
 
-  // PDL fields per node.
-  const fem::RegionField field = solution.basis().region_field(r.load.force_n, r.load.moment_nmm);
-  const Eigen::VectorXd p = pdl_pressure_kpa(field);
-  const Eigen::Index n = p.size();
-  r.pressure_kpa.assign(p.data(), p.data() + n);
+// Principal and equivalent strains per PDL node; returns the larger principal magnitude per node
+// (empty when strains are not asked for).
+std::vector<double> evaluate_strain_fields(const fem::RegionField& field, Eigen::Index n,
+                                           const FieldChoice& fields, ScenarioResult& r) {
   std::vector<double> strain_magnitude;
   if (fields.strains) {
     r.max_principal_strain_field.resize(static_cast<size_t>(n));
@@ -242,7 +237,14 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
       r.von_mises_kpa[static_cast<size_t>(i)] =
           1000.0 * fem::von_mises_mpa(field.stress_mpa.col(i));
   }
-  const std::vector<char>& band = pdl_crest_edge_band(solution);
+  return strain_magnitude;
+}
+
+// Peaks outside the crest edge band: tension, strains, the linear-range flag, von Mises.
+void evaluate_peaks(const ScenarioSolution& solution, const Eigen::VectorXd& p,
+                    const std::vector<double>& strain_magnitude, const std::vector<char>& band,
+                    const fem::RegionField& field, const FieldChoice& fields, ScenarioResult& r) {
+  const Eigen::Index n = p.size();
   if (n > 0) {
     double edge_peak = 0;
     max_outside_band(p, band, &edge_peak);
@@ -265,22 +267,25 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     r.volume_beyond_linear_range_percent = kNan;
   }
   if (!fields.von_mises) r.max_von_mises_kpa = kNan;
-  const detail::RootSurfaceSampler& surface = solution.root_surface();
-  const Eigen::VectorXd sampled = surface.sample(p);
-  const PressureMeasures measures = pressure_measures(solution, p, sampled, band);
-  r.pressure_max_compression_kpa = measures.peak_kpa;
-  r.pressure_p95_compression_kpa = measures.p95_kpa;
+}
 
-  // Areas over thresholds, from the same root-surface sampling.
+// Areas over thresholds, from the root-surface sampling of the pressure.
+void evaluate_areas(const detail::RootSurfaceSampler& surface, const Eigen::VectorXd& sampled,
+                    const Thresholds& thresholds, ScenarioResult& r) {
   r.area_above_capillary_mm2 = surface.area_above(sampled, thresholds.capillary.value_kpa);
   r.area_above_limit_mm2 = surface.area_above(sampled, thresholds.limit.value_kpa);
   if (r.attachment_area_mm2 > 0) {
     r.area_above_capillary_percent = 100.0 * r.area_above_capillary_mm2 / r.attachment_area_mm2;
     r.area_above_limit_percent = 100.0 * r.area_above_limit_mm2 / r.attachment_area_mm2;
   }
+}
 
-  // Equivalent force: linear scaling against the healthy scenario under the same load spec
-  // (resolved there on its own centre of resistance).
+// Equivalent force: linear scaling against the healthy scenario under the same load spec
+// (resolved there on its own centre of resistance).
+void evaluate_equivalent_forces(const ScenarioSolution& solution, const LoadSpec& load,
+                                const ScenarioSolution* healthy,
+                                const PressureMeasures* known_reference,
+                                const PressureMeasures& measures, ScenarioResult& r) {
   if (healthy != nullptr) {
     const double force_g = from_newton(load.force_n(), ForceUnit::kGram);
     const PressureMeasures reference = known_reference != nullptr ? *known_reference
@@ -293,6 +298,43 @@ ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
     r.equivalent_force_area_rule_g = detail::equivalent_force_by_area(
         force_g, r.attachment_area_mm2, healthy->attachment_area_mm2());
   }
+}
+
+}  // namespace
+
+namespace detail {
+
+ScenarioResult evaluate(const ScenarioSolution& solution, const LoadSpec& load,
+                        const Thresholds& thresholds, const ScenarioSolution* healthy,
+                        const PressureMeasures* known_reference, const FieldChoice& fields) {
+  const detail::LoadContext& context = solution.load_context();
+  ScenarioResult r;
+  r.name = solution.scenario().name;
+  r.bone_loss_mm = solution.scenario().loss.horizontal_mm;
+  r.attachment_area_mm2 = solution.attachment_area_mm2();
+  r.cres_labiolingual = solution.cres_labiolingual();
+  r.cres_mesiodistal = solution.cres_mesiodistal();
+  r.load = detail::resolve_load(load, context);
+  r.mf_translation_mm = detail::translation_moment_to_force(load, context);
+
+  evaluate_rigid_motion(solution, r);
+  evaluate_displacement(solution, fields, r);
+
+  // PDL fields per node.
+  const fem::RegionField field = solution.basis().region_field(r.load.force_n, r.load.moment_nmm);
+  const Eigen::VectorXd p = pdl_pressure_kpa(field);
+  const Eigen::Index n = p.size();
+  r.pressure_kpa.assign(p.data(), p.data() + n);
+  const std::vector<double> strain_magnitude = evaluate_strain_fields(field, n, fields, r);
+  const std::vector<char>& band = pdl_crest_edge_band(solution);
+  evaluate_peaks(solution, p, strain_magnitude, band, field, fields, r);
+  const detail::RootSurfaceSampler& surface = solution.root_surface();
+  const Eigen::VectorXd sampled = surface.sample(p);
+  const PressureMeasures measures = pressure_measures(solution, p, sampled, band);
+  r.pressure_max_compression_kpa = measures.peak_kpa;
+  r.pressure_p95_compression_kpa = measures.p95_kpa;
+  evaluate_areas(surface, sampled, thresholds, r);
+  evaluate_equivalent_forces(solution, load, healthy, known_reference, measures, r);
   r.root_map = solution.root_map_sampler().sample(p);
   r.root_map.edge_band = root_map_edge_band(solution, band);
   return r;

@@ -3,29 +3,10 @@
 #include <QMetaObject>
 #include <algorithm>
 
+#include "core/worker_priority.h"
 #include "sharpey/error.h"
 
-#ifdef __linux__
-#include <sys/resource.h>
-#include <sys/syscall.h>
-#include <unistd.h>
-#endif
-
 namespace sharpey::app {
-
-namespace {
-
-// The band solves the model many times: it runs a few nice levels below the window's thread (and
-// below nothing else), as the solve job does, so the window stays smooth meanwhile.
-void lower_this_thread_priority() {
-#ifdef __linux__
-  const auto tid = static_cast<id_t>(syscall(SYS_gettid));
-  const int now = getpriority(PRIO_PROCESS, tid);
-  setpriority(PRIO_PROCESS, tid, std::min(19, now + 5));
-#endif
-}
-
-}  // namespace
 
 bool AllowanceJob::LoadKey::operator==(const LoadKey& o) const {
   return direction == o.direction && bracket_height_mm == o.bracket_height_mm &&

@@ -5,30 +5,10 @@
 #include <filesystem>
 #include <system_error>
 
+#include "core/worker_priority.h"
 #include "sharpey/error.h"
 
-#ifdef __linux__
-#include <sys/resource.h>
-#include <sys/syscall.h>
-#include <unistd.h>
-#endif
-
 namespace sharpey::app {
-
-namespace {
-
-// The window's thread comes first: the solve (and the threads it starts: the mesher, the solver's
-// OpenMP team) runs a few nice levels lower, so the first levels on screen stay smooth to use
-// while the others are solved. Best effort: nothing happens where it is not allowed.
-void lower_this_thread_priority() {
-#ifdef __linux__
-  const auto tid = static_cast<id_t>(syscall(SYS_gettid));
-  const int now = getpriority(PRIO_PROCESS, tid);
-  setpriority(PRIO_PROCESS, tid, std::min(19, now + 5));
-#endif
-}
-
-}  // namespace
 
 SolveJob::SolveJob(QObject* parent) : QObject(parent) {}
 
