@@ -29,6 +29,7 @@ left_out=(
   'SweepMpi.TwoRanksWriteTheSingleProcessFileOfADesign'
   'SweepMpi.RunKilledOnThreeRanksResumesOnOneAndIgnoresAnotherSweepsCheckpoints'
   'SweepMpi.BadInputOnSeveralRanksIsSaidOnceAndRunStaysOneProcess'
+  'SweepMpi.InterruptedRankEndsTheJobWithTheInterruptedCodeAndARerunResumes'
 )
 
 # -O2 keeps Eigen's kernels fast enough; -g1 gives file:line in the traces; no NDEBUG, so Eigen's
