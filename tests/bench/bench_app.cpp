@@ -275,7 +275,7 @@ int main(int argc, char** argv) {
   QApplication::processEvents();
   vtk->repaint();
   std::printf(
-      "load change to repainted view: mean %.1f ms, worst %.1f ms over %d changes (target < 50 "
+      "load change to repainted view: mean %.1f ms, worst %.1f ms over %d changes (target < 25 "
       "ms)\n",
       total.mean(), total.worst, n_changes);
   std::printf("  CPU time of the process per load change (all threads): mean %.1f ms\n",
