@@ -88,9 +88,23 @@ class Builder {
       }
     }
   }
+  // Tooth surface, in this order: crown dome, trunk (returns its rim at the furcation plane),
+  // each root (appends its foot ring), furcation roof.
   void tooth_surface();
+  std::vector<int> crown_dome(int n_around);
+  std::vector<int> trunk(const std::vector<int>& cervix, int n_around);
+  std::vector<int> root(size_t r);
+  void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
+  // PDL: offset directions, the points across the layer, the prisms, the free top at the crest.
   void pdl_layer();
+  std::map<int, Eigen::Vector3d> offset_directions(std::map<int, double>* miter) const;
+  std::map<int, std::vector<int>> layer_points();
+  void prisms(const std::map<int, std::vector<int>>& layer);
+  void pdl_crest(const std::map<int, std::vector<int>>& layer);
   void bone_block();
+  // Build: the PLC, TetGen, the linear mesh in our point numbering, the conformity check.
+  Plc make_plc(std::vector<int>* from_plc) const;
+  void check_conforming(const VolumeMesh& linear) const;
 
   const MultiRootTooth& tooth_;
   const MultiRootBone& bone_;
@@ -109,17 +123,26 @@ class Builder {
 
 void Builder::tooth_surface() {
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
-  const double Lc = tooth_.crown_length_mm, T = tooth_.trunk_length_mm;
-  const double zf = -T, zc = outer_crest_z_mm(bone_);
   const int N = std::max(16, 4 * static_cast<int>(std::ceil(ellipse_perimeter(A, B) / (4 * h_))));
-  // Crown: a half-ellipsoid dome over the cervical ellipse, rings from the CEJ up to the pole.
+  const std::vector<int> cervix = crown_dome(N);
+  const std::vector<int> rim = trunk(cervix, N);
+  std::vector<std::vector<int>> feet;
+  for (size_t r = 0; r < tooth_.roots.size(); ++r) feet.push_back(root(r));
+  furcation_roof(rim, feet);
+}
+
+// Crown: a half-ellipsoid dome over the cervical ellipse, rings from the pole down to the CEJ;
+// returns the ring at the CEJ.
+std::vector<int> Builder::crown_dome(int n_around) {
+  const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
+  const double Lc = tooth_.crown_length_mm;
   const int n_crown =
       std::max(3, static_cast<int>(std::ceil(0.5 * kPi * std::max(A, Lc) / (1.5 * h_))));
   std::vector<std::vector<int>> crown;
   for (int k = n_crown - 1; k >= 0; --k) {
     const double phi = 0.5 * kPi * k / n_crown;
     crown.push_back(
-        ring(0, 0, A * std::cos(phi), B * std::cos(phi), Lc * std::sin(phi), N, kTrunkPart));
+        ring(0, 0, A * std::cos(phi), B * std::cos(phi), Lc * std::sin(phi), n_around, kTrunkPart));
   }
   const std::vector<int> top{add({0, 0, Lc}, kTrunkPart)};
   auto dome_out = [&](const Eigen::Vector3d& c) {
@@ -128,14 +151,22 @@ void Builder::tooth_surface() {
   join(top, crown.front(), kCrownSurface, kTrunkPart, dome_out);
   for (size_t k = 0; k + 1 < crown.size(); ++k)
     join(crown[k], crown[k + 1], kCrownSurface, kTrunkPart, dome_out);
-  // Trunk: CEJ -> crest -> furcation plane.
+  return crown.back();
+}
+
+// Trunk: CEJ -> crest -> furcation plane (a ring exactly at the crest when the crest lies on the
+// trunk, which is then recorded as a crest ring); returns the rim at the furcation plane.
+std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
+  const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
+  const double T = tooth_.trunk_length_mm;
+  const double zf = -T, zc = outer_crest_z_mm(bone_);
   auto trunk_ring = [&](double z) {
     const double f = -z / T;
     return ring(0, 0, A + (tooth_.furcation_half_x_mm - A) * f,
-                B + (tooth_.furcation_half_y_mm - B) * f, z, N, kTrunkPart);
+                B + (tooth_.furcation_half_y_mm - B) * f, z, n_around, kTrunkPart);
   };
   auto lateral = [](const Eigen::Vector3d& c) { return Eigen::Vector3d(c.x(), c.y(), 0); };
-  std::vector<int> prev = crown.back();
+  std::vector<int> prev = cervix;
   const bool above =
       zc > zf;  // crest on the trunk; else on the roots (level through the furcation)
   const double z_split = above ? zc : zf;
@@ -154,77 +185,90 @@ void Builder::tooth_surface() {
       prev = r;
     }
   }
-  const std::vector<int> rim = prev;
-  // Roots: rings from the foot down, crowding toward the apex; the apex a pole.
-  std::vector<std::vector<int>> feet;
-  for (size_t r = 0; r < tooth_.roots.size(); ++r) {
-    const RootSpec& spec = tooth_.roots[r];
-    const int part = static_cast<int>(r);
-    const int n = std::max(
-        12, 4 * static_cast<int>(
-                    std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
-    const double slope = std::tan(spec.tilt_deg * kDeg);
-    const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
-    const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
-    auto centre = [&](double t) {
-      return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
-    };
-    auto out = [&](const Eigen::Vector3d& c) {
-      const Eigen::Vector2d o = centre(zf - c.z());
-      return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
-    };
-    // Depths of the rings: above the crest (crest below the furcation plane) uniform, below it
-    // crowding toward the apex; a cylinder ends with a ring at its full length and a flat disc.
-    const double tc = above ? 0.0 : zf - zc;
-    std::vector<double> depths;
-    const int m_up = tc > 0 ? std::max(1, static_cast<int>(std::ceil(tc / h_))) : 0;
-    for (int j = 0; j < m_up; ++j) depths.push_back(tc * j / m_up);
-    const double below = spec.length_mm - tc;
-    const int m_lo = std::max(4, static_cast<int>(std::ceil(below / h_)));
-    for (int j = 0; j < m_lo; ++j) {
-      const double v = static_cast<double>(j) / m_lo;
-      depths.push_back(tc + below * (1 - (1 - v) * (1 - v)));
-    }
-    const bool cylinder = spec.profile == RootProfile::kCylinder;
-    if (cylinder) depths.push_back(spec.length_mm);
-    std::vector<int> prev_r;
-    for (size_t j = 0; j < depths.size(); ++j) {
-      const double t = depths[j];
-      double rho = 1;
-      if (!cylinder)
-        rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
-      const Eigen::Vector2d c = centre(t);
-      std::vector<int> rr =
-          ring(c.x(), c.y(), spec.half_x_mm * rho, spec.half_y_mm * rho, zf - t, n, part);
-      if (j == 0) {
-        feet.push_back(rr);
-      } else {
-        join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
-      }
-      if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
-      prev_r = rr;
-    }
-    const Eigen::Vector2d c = centre(spec.length_mm);
-    const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
-    const size_t before = tris_.size();
-    join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
-      return Eigen::Vector3d(0.2 * (q.x() - c.x()), 0.2 * (q.y() - c.y()), -1.0);
-    });
-    if (cylinder)
-      for (size_t i = before; i < tris_.size(); ++i) {
-        std::array<int, 3> g = tris_[i].v;
-        std::sort(g.begin(), g.end());
-        flat_.insert(g);
-      }
+  return prev;
+}
+
+// Depths below the furcation plane of a root's rings: above the crest (crest below the furcation
+// plane) uniform, below it crowding toward the apex; a cylinder ends with a ring at its full
+// length (closed by a flat disc).
+std::vector<double> root_ring_depths(const RootSpec& spec, double tc, double h) {
+  std::vector<double> depths;
+  const int m_up = tc > 0 ? std::max(1, static_cast<int>(std::ceil(tc / h))) : 0;
+  for (int j = 0; j < m_up; ++j) depths.push_back(tc * j / m_up);
+  const double below = spec.length_mm - tc;
+  const int m_lo = std::max(4, static_cast<int>(std::ceil(below / h)));
+  for (int j = 0; j < m_lo; ++j) {
+    const double v = static_cast<double>(j) / m_lo;
+    depths.push_back(tc + below * (1 - (1 - v) * (1 - v)));
   }
-  // Furcation roof: the rim minus the feet, triangulated in its plane.
+  if (spec.profile == RootProfile::kCylinder) depths.push_back(spec.length_mm);
+  return depths;
+}
+
+// Root r: rings from the foot down, the apex a pole; returns the foot ring.
+std::vector<int> Builder::root(size_t r) {
+  const RootSpec& spec = tooth_.roots[r];
+  const double zf = -tooth_.trunk_length_mm, zc = outer_crest_z_mm(bone_);
+  const bool above = zc > zf;
+  const int part = static_cast<int>(r);
+  const int n = std::max(
+      12, 4 * static_cast<int>(
+                  std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
+  const double slope = std::tan(spec.tilt_deg * kDeg);
+  const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
+  const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
+  auto centre = [&](double t) {
+    return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
+  };
+  auto out = [&](const Eigen::Vector3d& c) {
+    const Eigen::Vector2d o = centre(zf - c.z());
+    return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
+  };
+  const double tc = above ? 0.0 : zf - zc;
+  const std::vector<double> depths = root_ring_depths(spec, tc, h_);
+  const bool cylinder = spec.profile == RootProfile::kCylinder;
+  std::vector<int> foot, prev_r;
+  for (size_t j = 0; j < depths.size(); ++j) {
+    const double t = depths[j];
+    double rho = 1;
+    if (!cylinder)
+      rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
+    const Eigen::Vector2d c = centre(t);
+    std::vector<int> rr =
+        ring(c.x(), c.y(), spec.half_x_mm * rho, spec.half_y_mm * rho, zf - t, n, part);
+    if (j == 0) {
+      foot = rr;
+    } else {
+      join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
+    }
+    if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+    prev_r = rr;
+  }
+  const Eigen::Vector2d c = centre(spec.length_mm);
+  const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
+  const size_t before = tris_.size();
+  join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
+    return Eigen::Vector3d(0.2 * (q.x() - c.x()), 0.2 * (q.y() - c.y()), -1.0);
+  });
+  if (cylinder)
+    for (size_t i = before; i < tris_.size(); ++i) {
+      std::array<int, 3> g = tris_[i].v;
+      std::sort(g.begin(), g.end());
+      flat_.insert(g);
+    }
+  return foot;
+}
+
+// Furcation roof: the rim minus the feet, triangulated in its plane.
+void Builder::furcation_roof(const std::vector<int>& rim,
+                             const std::vector<std::vector<int>>& feet) {
+  const double zf = -tooth_.trunk_length_mm;
+  const bool above = outer_crest_z_mm(bone_) > zf;
   std::vector<std::vector<Eigen::Vector2d>> loops;
   std::vector<int> boundary;
-  for (const std::vector<int>* loop : [&] {
-         std::vector<const std::vector<int>*> l{&rim};
-         for (const auto& f : feet) l.push_back(&f);
-         return l;
-       }()) {
+  std::vector<const std::vector<int>*> outlines{&rim};
+  for (const auto& f : feet) outlines.push_back(&f);
+  for (const std::vector<int>* loop : outlines) {
     loops.emplace_back();
     for (int i : *loop) {
       loops.back().push_back(points_.points()[i].head<2>());
@@ -242,14 +286,27 @@ void Builder::tooth_surface() {
 }
 
 void Builder::pdl_layer() {
+  const std::map<int, std::vector<int>> layer = layer_points();
+  prisms(layer);
+  pdl_crest(layer);
+  // A point inside the PDL, mid-way across at the first root's mid-length.
   const auto& x = points_.points();
-  const double zc = outer_crest_z_mm(bone_);
   const double zf = -tooth_.trunk_length_mm;
-  const double lowest = lowest_apex_z_mm(tooth_);
-  // Normals: area-weighted over the attached triangles, except where the roof meets a wall (the
-  // rim, convex, and the roots' top rings, concave): there the bisector of the roof's and the
-  // wall's mean directions, so that a narrow strip of roof does not tilt the offset, mitred so
-  // that both faces keep the width (the socket has a sharp corner there).
+  for (const auto& [v, l] : layer) {
+    if (part_[v] == 0 && x[v].z() < zf - 0.4 * tooth_.roots[0].length_mm) {
+      hole_ = 0.5 * (x[l.front()] + x[l.back()]);
+      break;
+    }
+  }
+}
+
+// Offset direction per attached vertex: area-weighted over the attached triangles, except where
+// the roof meets a wall (the rim, convex, and the roots' top rings, concave): there the bisector
+// of the roof's and the wall's mean directions, so that a narrow strip of roof does not tilt the
+// offset, mitred so that both faces keep the width (the socket has a sharp corner there). On the
+// crest ring horizontal, so the socket's crest ring stays in the crest plane.
+std::map<int, Eigen::Vector3d> Builder::offset_directions(std::map<int, double>* miter) const {
+  const auto& x = points_.points();
   std::map<int, Eigen::Vector3d> normal, wall, roof;
   for (const Tri& t : tris_) {
     if (t.marker != kRootSurface) continue;
@@ -264,37 +321,60 @@ void Builder::pdl_layer() {
   }
   std::set<int> crest;
   for (const auto& r : crest_rings_) crest.insert(r.begin(), r.end());
-  std::map<int, std::vector<int>> layer;  // per attached vertex: its points across the layer
   for (auto& [v, n] : normal) {
-    double miter = 1.0;
+    double m = 1.0;
     if (roof.count(v) && wall.count(v)) {
       const Eigen::Vector3d r = roof[v].normalized(), w = wall[v].normalized();
       n = (r + w).normalized();
-      miter = 1.0 / std::max(n.dot(r), 0.6);
+      m = 1.0 / std::max(n.dot(r), 0.6);
     }
-    if (crest.count(v)) n.z() = 0;  // the socket's crest ring stays in the crest plane
+    if (crest.count(v)) n.z() = 0;
     n.normalize();
+    (*miter)[v] = m;
+  }
+  return normal;
+}
+
+// Per attached vertex: its points across the layer (the vertex itself first, the socket last),
+// offset by the hourglass width profile of its part.
+std::map<int, std::vector<int>> Builder::layer_points() {
+  std::map<int, double> miter;
+  const std::map<int, Eigen::Vector3d> normal = offset_directions(&miter);
+  const auto& x = points_.points();
+  const double zc = outer_crest_z_mm(bone_);
+  const double zf = -tooth_.trunk_length_mm;
+  const double lowest = lowest_apex_z_mm(tooth_);
+  std::map<int, std::vector<int>> layer;
+  for (const auto& [v, n] : normal) {
     const int part = part_[v];
     const double apex = part >= 0 ? zf - tooth_.roots[part].length_mm : lowest;
     const double top = part >= 0 ? std::min(zc, zf) : zc;
     const double w = detail::pdl_width_profile(bone_.pdl, top, apex, x[v].z());
     std::vector<int> l{v};
     for (int k = 1; k <= layers_; ++k) {
-      const Eigen::Vector3d p = x[v] + (static_cast<double>(k) / layers_) * w * miter * n;
+      const Eigen::Vector3d p = x[v] + (static_cast<double>(k) / layers_) * w * miter[v] * n;
       l.push_back(points_.add(p, detail::PointInfo{}));
     }
     layer[v] = l;
   }
   part_.resize(points_.size(), INT_MIN);
+  return layer;
+}
+
+// Three tetrahedra per prism and layer over each attached triangle (split by sorted vertex
+// numbers, so neighbours share faces), positively oriented; the socket triangles on top.
+void Builder::prisms(const std::map<int, std::vector<int>>& layer) {
+  const auto& x = points_.points();
   const size_t n_tris = tris_.size();
   for (size_t i = 0; i < n_tris; ++i) {
     const Tri t = tris_[i];
     if (t.marker != kRootSurface) continue;
     std::array<int, 3> v = t.v;
     std::sort(v.begin(), v.end());
+    const std::vector<int>&l0 = layer.at(v[0]), &l1 = layer.at(v[1]), &l2 = layer.at(v[2]);
     for (int k = 0; k < layers_; ++k) {
-      const int a = layer[v[0]][k], b = layer[v[1]][k], c = layer[v[2]][k];
-      const int a1 = layer[v[0]][k + 1], b1 = layer[v[1]][k + 1], c1 = layer[v[2]][k + 1];
+      const int a = l0[k], b = l1[k], c = l2[k];
+      const int a1 = l0[k + 1], b1 = l1[k + 1], c1 = l2[k + 1];
       for (const std::array<int, 4>& e :
            {std::array<int, 4>{a, a1, b1, c1}, std::array<int, 4>{a, b, c, c1},
             std::array<int, 4>{a, b, c1, b1}}) {
@@ -303,37 +383,33 @@ void Builder::pdl_layer() {
       }
     }
     const Eigen::Vector3d out = (x[t.v[1]] - x[t.v[0]]).cross(x[t.v[2]] - x[t.v[0]]);
-    tri(layer[t.v[0]][layers_], layer[t.v[1]][layers_], layer[t.v[2]][layers_], kSocketSurface,
-        INT_MIN, out);
+    tri(layer.at(t.v[0])[layers_], layer.at(t.v[1])[layers_], layer.at(t.v[2])[layers_],
+        kSocketSurface, INT_MIN, out);
   }
   for (auto& tet : pdl_tets_) {
     const double vol =
         (x[tet[1]] - x[tet[0]]).dot((x[tet[2]] - x[tet[0]]).cross(x[tet[3]] - x[tet[0]]));
     if (vol < 0) std::swap(tet[1], tet[2]);
   }
-  // Free top of the PDL at the crest, split like the prisms' side faces.
+}
+
+// Free top of the PDL at the crest, split like the prisms' side faces (not given to TetGen);
+// records the socket's crest rings for the bone's top.
+void Builder::pdl_crest(const std::map<int, std::vector<int>>& layer) {
   for (const std::vector<int>& ring_c : crest_rings_) {
     const int n = static_cast<int>(ring_c.size());
     std::vector<int> socket;
     for (int i = 0; i < n; ++i) {
       const int lo = std::min(ring_c[i], ring_c[(i + 1) % n]);
       const int hi = std::max(ring_c[i], ring_c[(i + 1) % n]);
+      const std::vector<int>&l_lo = layer.at(lo), &l_hi = layer.at(hi);
       for (int k = 0; k < layers_; ++k) {
-        tri(layer[lo][k], layer[hi][k], layer[hi][k + 1], kPdlCrest, INT_MIN,
-            Eigen::Vector3d::UnitZ(), false);
-        tri(layer[lo][k], layer[hi][k + 1], layer[lo][k + 1], kPdlCrest, INT_MIN,
-            Eigen::Vector3d::UnitZ(), false);
+        tri(l_lo[k], l_hi[k], l_hi[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
+        tri(l_lo[k], l_hi[k + 1], l_lo[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
       }
-      socket.push_back(layer[ring_c[i]][layers_]);
+      socket.push_back(layer.at(ring_c[i])[layers_]);
     }
     socket_crests_.push_back(socket);
-  }
-  // A point inside the PDL, mid-way across at the first root's mid-length.
-  for (const auto& [v, l] : layer) {
-    if (part_[v] == 0 && x[v].z() < zf - 0.4 * tooth_.roots[0].length_mm) {
-      hole_ = 0.5 * (x[l.front()] + x[l.back()]);
-      break;
-    }
   }
 }
 
@@ -406,13 +482,10 @@ void Builder::bone_block() {
   bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
 }
 
-MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel) {
-  tooth_surface();
-  pdl_layer();
-  bone_block();
-  // PLC: every triangle but the PDL's free top.
+// PLC: every triangle but the PDL's free top; from_plc maps PLC points to ours.
+Plc Builder::make_plc(std::vector<int>* from_plc) const {
   Plc plc;
-  std::vector<int> to_plc(points_.size(), -1), from_plc;
+  std::vector<int> to_plc(points_.size(), -1);
   for (const Tri& t : tris_) {
     if (!t.to_tetgen) continue;
     std::array<int, 3> q{};
@@ -421,45 +494,18 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
       if (i < 0) {
         i = static_cast<int>(plc.points.size());
         plc.points.push_back(points_.points()[t.v[k]]);
-        from_plc.push_back(t.v[k]);
+        from_plc->push_back(t.v[k]);
       }
       q[k] = i;
     }
     plc.triangles.push_back(q);
     plc.triangle_marker.push_back(t.marker);
   }
-  auto bound = [](double e) { return e * e * e / (6.0 * std::sqrt(2.0)); };
-  plc.regions.push_back({Eigen::Vector3d(0, 0, 0.5 * tooth_.crown_length_mm), kTooth,
-                         bound(std::max(2.0 * h_, sizing.bone_edge_mm))});
-  plc.regions.push_back({bone_seed_, kCancellousBone, bound(sizing.bone_edge_mm)});
-  plc.holes.push_back(hole_);
-  TetgenOptions options;
-  options.preserve_surface = true;
-  options.second_order = false;
-  options.cancel = cancel;
-  options.stage = "tetrahedralising the multi-rooted tooth and its bone";
-  std::vector<int> point_node;
-  const VolumeMesh tet = tetrahedralize(plc, options, &point_node);
+  return plc;
+}
 
-  VolumeMesh linear;
-  linear.nodes_per_element = 4;
-  linear.nodes_per_face = 3;
-  linear.nodes = points_.points();
-  std::vector<int> node_map(tet.n_nodes(), -1);
-  for (size_t i = 0; i < point_node.size(); ++i)
-    if (point_node[i] >= 0) node_map[point_node[i]] = from_plc[i];
-  for (int i = 0; i < tet.n_nodes(); ++i) {
-    if (node_map[i] >= 0) continue;
-    node_map[i] = static_cast<int>(linear.nodes.size());
-    linear.nodes.push_back(tet.nodes[i]);
-  }
-  MultiRootMesh out;
-  for (int e = 0; e < tet.n_elements(); ++e) {
-    for (int k = 0; k < 4; ++k) linear.elements.push_back(node_map[tet.element(e)[k]]);
-    linear.element_region.push_back(tet.element_region[e]);
-    out.element_part.push_back(INT_MIN);
-  }
-  // The preserved triangles must be element faces, or the PDL would not conform.
+// The preserved triangles must be element faces, or the PDL would not conform.
+void Builder::check_conforming(const VolumeMesh& linear) const {
   std::set<std::array<int, 3>> faces;
   for (int e = 0; e < linear.n_elements(); ++e) {
     const int* t = linear.element(e);
@@ -481,6 +527,55 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
   if (missing > 0)
     throw MeshError("meshing the multi-rooted tooth: TetGen changed " + std::to_string(missing) +
                     " preserved surface triangles, so the PDL would not conform");
+}
+
+// TetGen's mesh in our point numbering (our points first, TetGen's new ones after); tooth and
+// bone elements get no part.
+VolumeMesh renumbered(const VolumeMesh& tet, const std::vector<Eigen::Vector3d>& points,
+                      const std::vector<int>& point_node, const std::vector<int>& from_plc,
+                      std::vector<int>* element_part) {
+  VolumeMesh linear;
+  linear.nodes_per_element = 4;
+  linear.nodes_per_face = 3;
+  linear.nodes = points;
+  std::vector<int> node_map(tet.n_nodes(), -1);
+  for (size_t i = 0; i < point_node.size(); ++i)
+    if (point_node[i] >= 0) node_map[point_node[i]] = from_plc[i];
+  for (int i = 0; i < tet.n_nodes(); ++i) {
+    if (node_map[i] >= 0) continue;
+    node_map[i] = static_cast<int>(linear.nodes.size());
+    linear.nodes.push_back(tet.nodes[i]);
+  }
+  for (int e = 0; e < tet.n_elements(); ++e) {
+    for (int k = 0; k < 4; ++k) linear.elements.push_back(node_map[tet.element(e)[k]]);
+    linear.element_region.push_back(tet.element_region[e]);
+    element_part->push_back(INT_MIN);
+  }
+  return linear;
+}
+
+MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel) {
+  tooth_surface();
+  pdl_layer();
+  bone_block();
+  std::vector<int> from_plc;
+  Plc plc = make_plc(&from_plc);
+  auto bound = [](double e) { return e * e * e / (6.0 * std::sqrt(2.0)); };
+  plc.regions.push_back({Eigen::Vector3d(0, 0, 0.5 * tooth_.crown_length_mm), kTooth,
+                         bound(std::max(2.0 * h_, sizing.bone_edge_mm))});
+  plc.regions.push_back({bone_seed_, kCancellousBone, bound(sizing.bone_edge_mm)});
+  plc.holes.push_back(hole_);
+  TetgenOptions options;
+  options.preserve_surface = true;
+  options.second_order = false;
+  options.cancel = cancel;
+  options.stage = "tetrahedralising the multi-rooted tooth and its bone";
+  std::vector<int> point_node;
+  const VolumeMesh tet = tetrahedralize(plc, options, &point_node);
+
+  MultiRootMesh out;
+  VolumeMesh linear = renumbered(tet, points_.points(), point_node, from_plc, &out.element_part);
+  check_conforming(linear);
   for (size_t i = 0; i < pdl_tets_.size(); ++i) {
     linear.elements.insert(linear.elements.end(), pdl_tets_[i].begin(), pdl_tets_[i].end());
     linear.element_region.push_back(kPdl);

@@ -340,7 +340,52 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
   return support(hull, d) + support(hull, -d);
 }
 
-void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
+namespace {
+
+// Root i: positive sizes, divergence and taper in range, the foot inside the furcation ellipse
+// and apart from the other feet.
+void validate_root(const MultiRootTooth& tooth, size_t i) {
+  const RootSpec& r = tooth.roots[i];
+  const std::string key = "tooth.roots[" + std::to_string(i) + "]";
+  check_positive(key + ".half_x_mm", r.name + " root buccolingual half-width", r.half_x_mm);
+  check_positive(key + ".half_y_mm", r.name + " root mesiodistal half-width", r.half_y_mm);
+  check_positive(key + ".length_mm", r.name + " root length", r.length_mm);
+  if (!(r.tilt_deg >= 0 && r.tilt_deg <= 30)) {
+    throw InputError(key + ".tilt_deg", r.name + " root divergence " + num(r.tilt_deg) +
+                                            " deg is outside 0 to 30 deg; use a value there");
+  }
+  if (!(r.taper_fullness >= kMinRootTaperFullness && r.taper_fullness <= kMaxRootTaperFullness)) {
+    throw InputError(key + ".taper_fullness",
+                     r.name + " root taper fullness " + num(r.taper_fullness) + " is outside " +
+                         num(kMinRootTaperFullness) + " to " + num(kMaxRootTaperFullness) +
+                         "; use a value there");
+  }
+  for (int k = 0; k < 72; ++k) {
+    const double th = 2 * kPi * k / 72;
+    const double x = r.foot_x_mm + r.half_x_mm * std::cos(th);
+    const double y = r.foot_y_mm + r.half_y_mm * std::sin(th);
+    const double e =
+        std::pow(x / tooth.furcation_half_x_mm, 2) + std::pow(y / tooth.furcation_half_y_mm, 2);
+    if (e > 1) {
+      throw InputError(key, "the " + r.name + " root's foot reaches outside the trunk at the " +
+                                "furcation plane (at x " + num(x) + ", y " + num(y) +
+                                " mm); move the foot toward the axis or narrow the root");
+    }
+    for (size_t j = 0; j < tooth.roots.size(); ++j) {
+      if (j == i) continue;
+      const RootSpec& o = tooth.roots[j];
+      if (std::pow((x - o.foot_x_mm) / o.half_x_mm, 2) +
+              std::pow((y - o.foot_y_mm) / o.half_y_mm, 2) <
+          1) {
+        throw InputError(key, "the feet of the " + r.name + " and " + o.name +
+                                  " roots overlap at the furcation plane; move them apart or "
+                                  "narrow them");
+      }
+    }
+  }
+}
+
+void validate_tooth(const MultiRootTooth& tooth) {
   check_positive("tooth.crown_length_mm", "crown length", tooth.crown_length_mm);
   check_positive("tooth.trunk_length_mm", "root trunk length", tooth.trunk_length_mm);
   check_positive("tooth.cervix_half_x_mm", "cervical buccolingual half-width",
@@ -357,46 +402,17 @@ void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
                      "not " +
                          std::to_string(tooth.roots.size()) + "; give 2 or 3 roots");
   }
-  for (size_t i = 0; i < tooth.roots.size(); ++i) {
-    const RootSpec& r = tooth.roots[i];
-    const std::string key = "tooth.roots[" + std::to_string(i) + "]";
-    check_positive(key + ".half_x_mm", r.name + " root buccolingual half-width", r.half_x_mm);
-    check_positive(key + ".half_y_mm", r.name + " root mesiodistal half-width", r.half_y_mm);
-    check_positive(key + ".length_mm", r.name + " root length", r.length_mm);
-    if (!(r.tilt_deg >= 0 && r.tilt_deg <= 30)) {
-      throw InputError(key + ".tilt_deg", r.name + " root divergence " + num(r.tilt_deg) +
-                                              " deg is outside 0 to 30 deg; use a value there");
-    }
-    if (!(r.taper_fullness >= kMinRootTaperFullness && r.taper_fullness <= kMaxRootTaperFullness)) {
-      throw InputError(key + ".taper_fullness",
-                       r.name + " root taper fullness " + num(r.taper_fullness) + " is outside " +
-                           num(kMinRootTaperFullness) + " to " + num(kMaxRootTaperFullness) +
-                           "; use a value there");
-    }
-    for (int k = 0; k < 72; ++k) {
-      const double th = 2 * kPi * k / 72;
-      const double x = r.foot_x_mm + r.half_x_mm * std::cos(th);
-      const double y = r.foot_y_mm + r.half_y_mm * std::sin(th);
-      const double e =
-          std::pow(x / tooth.furcation_half_x_mm, 2) + std::pow(y / tooth.furcation_half_y_mm, 2);
-      if (e > 1) {
-        throw InputError(key, "the " + r.name + " root's foot reaches outside the trunk at the " +
-                                  "furcation plane (at x " + num(x) + ", y " + num(y) +
-                                  " mm); move the foot toward the axis or narrow the root");
-      }
-      for (size_t j = 0; j < tooth.roots.size(); ++j) {
-        if (j == i) continue;
-        const RootSpec& o = tooth.roots[j];
-        if (std::pow((x - o.foot_x_mm) / o.half_x_mm, 2) +
-                std::pow((y - o.foot_y_mm) / o.half_y_mm, 2) <
-            1) {
-          throw InputError(key, "the feet of the " + r.name + " and " + o.name +
-                                    " roots overlap at the furcation plane; move them apart or "
-                                    "narrow them");
-        }
-      }
-    }
-  }
+  for (size_t i = 0; i < tooth.roots.size(); ++i) validate_root(tooth, i);
+}
+
+double shortest_root_mm(const MultiRootTooth& tooth) {
+  double z = 1e300;
+  for (const RootSpec& r : tooth.roots) z = std::min(z, r.length_mm);
+  return z;
+}
+
+// The crest, the loss and the defect in range; at least 2 mm of the shortest root in bone.
+void validate_bone_level(const MultiRootTooth& tooth, const MultiRootBone& bone) {
   if (!(bone.crest_below_cej_mm >= 0 && bone.crest_below_cej_mm <= 4)) {
     throw InputError("bone.crest_below_cej_mm", "healthy crest depth " +
                                                     num(bone.crest_below_cej_mm) +
@@ -412,11 +428,7 @@ void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
     throw InputError("defect_width_deg", "angular defect width " + num(bone.loss.defect_width_deg) +
                                              " deg is outside 0 to 180 deg; use a value there");
   }
-  const double shortest = [&] {
-    double z = 1e300;
-    for (const RootSpec& r : tooth.roots) z = std::min(z, r.length_mm);
-    return z;
-  }();
+  const double shortest = shortest_root_mm(tooth);
   const double deepest_bone =
       bone.crest_below_cej_mm + bone.loss.horizontal_mm + bone.loss.defect_depth_mm;
   const double limit = tooth.trunk_length_mm + shortest - 2.0;
@@ -429,7 +441,35 @@ void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
                          " mm below the CEJ) in bone; use a bone level of at most " + num(limit) +
                          " mm");
   }
-  const FurcationInvolvement& f = bone.furcation;
+}
+
+// A horizontal depth inside its degree's range from an entrance `through` mm across.
+void validate_furcation_depth(const FurcationInvolvement& f, FurcationEntrance e, double through) {
+  if (f.degree == 3) {
+    if (f.horizontal_mm > 0 && f.horizontal_mm < through) {
+      throw InputError("furcation.horizontal_mm",
+                       "degree III is through and through, but " + num(f.horizontal_mm) +
+                           " mm from the " + to_string(e) + " entrance does not reach across (" +
+                           num(through) + " mm); give 0 (through) or use degree II");
+    }
+    return;
+  }
+  const double d = representative_depth(f);
+  if (f.degree == 1 && d > 3.0) {
+    throw InputError("furcation.horizontal_mm",
+                     "degree I means at most 3 mm horizontally, not " + num(d) +
+                         " mm (Hamp, Nyman and Lindhe 1975, from memory); use degree II or a "
+                         "depth up to 3 mm");
+  }
+  if (f.degree == 2 && (d <= 3.0 || d >= through)) {
+    throw InputError("furcation.horizontal_mm",
+                     "degree II means beyond 3 mm but not through (" + num(through) +
+                         " mm across from the " + to_string(e) + " entrance of this tooth), not " +
+                         num(d) + " mm; use a depth in that range, degree I or degree III");
+  }
+}
+
+void validate_furcation(const MultiRootTooth& tooth, const FurcationInvolvement& f) {
   if (f.degree < 0 || f.degree > 3) {
     throw InputError("furcation.degree", "furcation degree " + std::to_string(f.degree) +
                                              " is not 0 (none), 1, 2 or 3 (Hamp, Nyman and "
@@ -441,6 +481,7 @@ void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
                                                 " needs at least one entrance (buccal, lingual, "
                                                 "mesial or distal)");
   }
+  const double shortest = shortest_root_mm(tooth);
   if (!(f.vertical_mm > 0 && f.vertical_mm <= shortest - 2.0)) {
     throw InputError("furcation.vertical_mm",
                      "furcation lesion depth below the roof " + num(f.vertical_mm) +
@@ -448,46 +489,32 @@ void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
                          " mm (at least 2 mm of the shortest root stays in bone); use a value "
                          "there");
   }
-  for (FurcationEntrance e : f.entrances) {
-    const double through = furcation_through_depth_mm(tooth, e);
-    if (f.degree == 3) {
-      if (f.horizontal_mm > 0 && f.horizontal_mm < through) {
-        throw InputError("furcation.horizontal_mm",
-                         "degree III is through and through, but " + num(f.horizontal_mm) +
-                             " mm from the " + to_string(e) + " entrance does not reach across (" +
-                             num(through) + " mm); give 0 (through) or use degree II");
-      }
-      continue;
-    }
-    const double d = representative_depth(f);
-    if (f.degree == 1 && d > 3.0) {
-      throw InputError("furcation.horizontal_mm",
-                       "degree I means at most 3 mm horizontally, not " + num(d) +
-                           " mm (Hamp, Nyman and Lindhe 1975, from memory); use degree II or a "
-                           "depth up to 3 mm");
-    }
-    if (f.degree == 2 && (d <= 3.0 || d >= through)) {
-      throw InputError("furcation.horizontal_mm",
-                       "degree II means beyond 3 mm but not through (" + num(through) +
-                           " mm across from the " + to_string(e) +
-                           " entrance of this tooth), not " + num(d) +
-                           " mm; use a depth in that range, degree I or degree III");
-    }
-  }
+  for (FurcationEntrance e : f.entrances)
+    validate_furcation_depth(f, e, furcation_through_depth_mm(tooth, e));
 }
 
-std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, int n_around,
-                                                  int n_along) {
-  SHARPEY_ASSERT(n_around >= 8 && n_along >= 2, "too few quadrature points");
-  std::vector<double> gx, gw;
-  detail::gauss_legendre01(n_along, &gx, &gw);
-  std::vector<RootSurfacePoint> out;
-  const double zf = furcation_z(tooth);
+}  // namespace
+
+void validate(const MultiRootTooth& tooth, const MultiRootBone& bone) {
+  validate_tooth(tooth);
+  validate_bone_level(tooth, bone);
+  validate_furcation(tooth, bone.furcation);
+}
+
+namespace {
+
+// Gauss-Legendre abscissae and weights on [0, 1] along each part.
+struct AlongRule {
+  std::vector<double> x, w;
+};
+
+// Trunk: z = -t, half-widths linear from the cervix to the furcation ellipse.
+void add_trunk_points(const MultiRootTooth& tooth, int n_around, const AlongRule& g,
+                      std::vector<RootSurfacePoint>* out) {
   const double dth = 2 * kPi / n_around;
-  // Trunk: z = -t, half-widths linear from the cervix to the furcation ellipse.
   const double T = tooth.trunk_length_mm;
-  for (int j = 0; j < n_along; ++j) {
-    const double t = T * gx[j];
+  for (size_t j = 0; j < g.x.size(); ++j) {
+    const double t = T * g.x[j];
     const double ax =
         tooth.cervix_half_x_mm + (tooth.furcation_half_x_mm - tooth.cervix_half_x_mm) * t / T;
     const double ay =
@@ -502,94 +529,119 @@ std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, i
       RootSurfacePoint p;
       p.x = {ax * std::cos(th), ay * std::sin(th), -t};
       p.normal = n.normalized();
-      p.area_mm2 = n.norm() * dth * T * gw[j];
+      p.area_mm2 = n.norm() * dth * T * g.w[j];
       p.part = kTrunkPart;
       p.angle_rad = th;
-      out.push_back(p);
+      out->push_back(p);
     }
   }
-  // Roots: t = L (1 - (1 - v)^2) smooths the apex (rho ~ (1 - v) there).
-  for (size_t r = 0; r < tooth.roots.size(); ++r) {
-    const RootSpec& spec = tooth.roots[r];
-    const double L = spec.length_mm;
-    for (int j = 0; j < n_along; ++j) {
-      const double v = gx[j];
-      const double t = L * (1 - (1 - v) * (1 - v));
-      const double dt_dv = 2 * L * (1 - v);
-      const RootSlice s = root_slice(spec, t);
-      for (int i = 0; i < n_around; ++i) {
-        const double th = dth * i;
-        const Eigen::Vector3d xth(-s.ax * std::sin(th), s.ay * std::cos(th), 0);
-        const Eigen::Vector3d xt(s.dcx + s.dax * std::cos(th), s.dcy + s.day * std::sin(th), -1);
-        const Eigen::Vector3d n = xt.cross(xth);
-        RootSurfacePoint p;
-        p.x = {s.cx + s.ax * std::cos(th), s.cy + s.ay * std::sin(th), zf - t};
-        p.normal = n.normalized();
-        p.area_mm2 = n.norm() * dth * dt_dv * gw[j];
-        p.part = static_cast<int>(r);
-        p.angle_rad = th;
-        out.push_back(p);
-      }
-    }
-    if (spec.profile == RootProfile::kCylinder) {  // flat disc closing the cylinder
-      const RootSlice s = root_slice(spec, L);
-      for (int j = 0; j < n_along; ++j) {
-        for (int i = 0; i < n_around; ++i) {
-          const double th = dth * i, q = gx[j];
-          RootSurfacePoint p;
-          p.x = {s.cx + s.ax * q * std::cos(th), s.cy + s.ay * q * std::sin(th), zf - L};
-          p.normal = -Eigen::Vector3d::UnitZ();
-          p.area_mm2 = s.ax * s.ay * q * gw[j] * dth;
-          p.part = static_cast<int>(r);
-          out.push_back(p);
-        }
-      }
+}
+
+// Root r: t = L (1 - (1 - v)^2) smooths the apex (rho ~ (1 - v) there); a cylinder is closed by
+// a flat disc.
+void add_root_points(const MultiRootTooth& tooth, size_t r, int n_around, const AlongRule& g,
+                     std::vector<RootSurfacePoint>* out) {
+  const double zf = furcation_z(tooth);
+  const double dth = 2 * kPi / n_around;
+  const RootSpec& spec = tooth.roots[r];
+  const double L = spec.length_mm;
+  for (size_t j = 0; j < g.x.size(); ++j) {
+    const double v = g.x[j];
+    const double t = L * (1 - (1 - v) * (1 - v));
+    const double dt_dv = 2 * L * (1 - v);
+    const RootSlice s = root_slice(spec, t);
+    for (int i = 0; i < n_around; ++i) {
+      const double th = dth * i;
+      const Eigen::Vector3d xth(-s.ax * std::sin(th), s.ay * std::cos(th), 0);
+      const Eigen::Vector3d xt(s.dcx + s.dax * std::cos(th), s.dcy + s.day * std::sin(th), -1);
+      const Eigen::Vector3d n = xt.cross(xth);
+      RootSurfacePoint p;
+      p.x = {s.cx + s.ax * std::cos(th), s.cy + s.ay * std::sin(th), zf - t};
+      p.normal = n.normalized();
+      p.area_mm2 = n.norm() * dth * dt_dv * g.w[j];
+      p.part = static_cast<int>(r);
+      p.angle_rad = th;
+      out->push_back(p);
     }
   }
-  // Furcation roof: the furcation ellipse minus the feet, on a fine polar grid; the weights are
-  // rescaled to the exact area (ellipse minus the feet), the boundary cells being cut crudely.
-  {
-    const int n_r = 2 * n_along, n_t = 2 * n_around;
-    std::vector<double> rx, rw;
-    detail::gauss_legendre01(n_r, &rx, &rw);
-    std::vector<RootSurfacePoint> roof;
-    double sum = 0;
-    for (int j = 0; j < n_r; ++j) {
-      for (int i = 0; i < n_t; ++i) {
-        const double th = 2 * kPi * (i + 0.5) / n_t;
-        const double x = tooth.furcation_half_x_mm * rx[j] * std::cos(th);
-        const double y = tooth.furcation_half_y_mm * rx[j] * std::sin(th);
-        bool in_foot = false;
-        for (const RootSpec& r : tooth.roots)
-          in_foot |= std::pow((x - r.foot_x_mm) / r.half_x_mm, 2) +
-                         std::pow((y - r.foot_y_mm) / r.half_y_mm, 2) <
-                     1;
-        if (in_foot) continue;
-        RootSurfacePoint p;
-        p.x = {x, y, zf};
-        p.normal = -Eigen::Vector3d::UnitZ();
-        p.area_mm2 =
-            tooth.furcation_half_x_mm * tooth.furcation_half_y_mm * rx[j] * rw[j] * 2 * kPi / n_t;
-        p.part = kRoofPart;
-        sum += p.area_mm2;
-        roof.push_back(p);
-      }
+  if (spec.profile != RootProfile::kCylinder) return;
+  const RootSlice s = root_slice(spec, L);
+  for (size_t j = 0; j < g.x.size(); ++j) {
+    for (int i = 0; i < n_around; ++i) {
+      const double th = dth * i, q = g.x[j];
+      RootSurfacePoint p;
+      p.x = {s.cx + s.ax * q * std::cos(th), s.cy + s.ay * q * std::sin(th), zf - L};
+      p.normal = -Eigen::Vector3d::UnitZ();
+      p.area_mm2 = s.ax * s.ay * q * g.w[j] * dth;
+      p.part = static_cast<int>(r);
+      out->push_back(p);
     }
-    double exact = kPi * tooth.furcation_half_x_mm * tooth.furcation_half_y_mm;
-    for (const RootSpec& r : tooth.roots) exact -= kPi * r.half_x_mm * r.half_y_mm;
-    for (RootSurfacePoint& p : roof) p.area_mm2 *= exact / sum;
-    out.insert(out.end(), roof.begin(), roof.end());
   }
-  // Inter-radicular: strictly inside the hull of the roots' sections at the point's height (the
-  // sampled hull lies up to a few hundredths of a mm inside the true one, hence the margin).
+}
+
+// Furcation roof: the furcation ellipse minus the feet, on a fine polar grid; the weights are
+// rescaled to the exact area (ellipse minus the feet), the boundary cells being cut crudely.
+void add_roof_points(const MultiRootTooth& tooth, int n_around, int n_along,
+                     std::vector<RootSurfacePoint>* out) {
+  const double zf = furcation_z(tooth);
+  const int n_r = 2 * n_along, n_t = 2 * n_around;
+  std::vector<double> rx, rw;
+  detail::gauss_legendre01(n_r, &rx, &rw);
+  std::vector<RootSurfacePoint> roof;
+  double sum = 0;
+  for (int j = 0; j < n_r; ++j) {
+    for (int i = 0; i < n_t; ++i) {
+      const double th = 2 * kPi * (i + 0.5) / n_t;
+      const double x = tooth.furcation_half_x_mm * rx[j] * std::cos(th);
+      const double y = tooth.furcation_half_y_mm * rx[j] * std::sin(th);
+      bool in_foot = false;
+      for (const RootSpec& r : tooth.roots)
+        in_foot |= std::pow((x - r.foot_x_mm) / r.half_x_mm, 2) +
+                       std::pow((y - r.foot_y_mm) / r.half_y_mm, 2) <
+                   1;
+      if (in_foot) continue;
+      RootSurfacePoint p;
+      p.x = {x, y, zf};
+      p.normal = -Eigen::Vector3d::UnitZ();
+      p.area_mm2 =
+          tooth.furcation_half_x_mm * tooth.furcation_half_y_mm * rx[j] * rw[j] * 2 * kPi / n_t;
+      p.part = kRoofPart;
+      sum += p.area_mm2;
+      roof.push_back(p);
+    }
+  }
+  double exact = kPi * tooth.furcation_half_x_mm * tooth.furcation_half_y_mm;
+  for (const RootSpec& r : tooth.roots) exact -= kPi * r.half_x_mm * r.half_y_mm;
+  for (RootSurfacePoint& p : roof) p.area_mm2 *= exact / sum;
+  out->insert(out->end(), roof.begin(), roof.end());
+}
+
+// Inter-radicular: strictly inside the hull of the roots' sections at the point's height (the
+// sampled hull lies up to a few hundredths of a mm inside the true one, hence the margin).
+void mark_inter_radicular(const MultiRootTooth& tooth, std::vector<RootSurfacePoint>* points) {
+  const double zf = furcation_z(tooth);
   std::map<double, std::vector<HullPoint>> hulls;  // by height: points share their sections
-  for (RootSurfacePoint& p : out) {
+  for (RootSurfacePoint& p : *points) {
     if (p.part == kTrunkPart) continue;
     const double z = std::min(p.x.z(), zf);
     auto it = hulls.find(z);
     if (it == hulls.end()) it = hulls.emplace(z, roots_hull(tooth, z)).first;
     p.inter_radicular = inside_depth(it->second, p.x.head<2>()) > 0.05;
   }
+}
+
+}  // namespace
+
+std::vector<RootSurfacePoint> root_surface_points(const MultiRootTooth& tooth, int n_around,
+                                                  int n_along) {
+  SHARPEY_ASSERT(n_around >= 8 && n_along >= 2, "too few quadrature points");
+  AlongRule g;
+  detail::gauss_legendre01(n_along, &g.x, &g.w);
+  std::vector<RootSurfacePoint> out;
+  add_trunk_points(tooth, n_around, g, &out);
+  for (size_t r = 0; r < tooth.roots.size(); ++r) add_root_points(tooth, r, n_around, g, &out);
+  add_roof_points(tooth, n_around, n_along, &out);
+  mark_inter_radicular(tooth, &out);
   return out;
 }
 
