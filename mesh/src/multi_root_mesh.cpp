@@ -99,6 +99,7 @@ class Builder {
   void pdl_layer();
   std::map<int, Eigen::Vector3d> offset_directions(std::map<int, double>* miter) const;
   std::map<int, std::vector<int>> layer_points();
+  void spread_foot_corners(std::map<int, Eigen::Vector3d>* offset) const;
   void prisms(const std::map<int, std::vector<int>>& layer);
   void pdl_crest(const std::map<int, std::vector<int>>& layer);
   void bone_block();
@@ -114,7 +115,8 @@ class Builder {
   std::vector<int> part_;
   std::vector<Tri> tris_;
   std::vector<std::vector<int>> crest_rings_, socket_crests_;
-  std::set<std::array<int, 3>> flat_;  // roof and cylinder-end triangles (sorted vertices)
+  std::vector<std::vector<int>> feet_;  // each root's top ring (on the furcation plane)
+  std::set<std::array<int, 3>> flat_;   // roof and cylinder-end triangles (sorted vertices)
   std::vector<std::array<int, 4>> pdl_tets_;
   std::vector<int> pdl_tet_part_;
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
@@ -129,6 +131,7 @@ void Builder::tooth_surface() {
   std::vector<std::vector<int>> feet;
   for (size_t r = 0; r < tooth_.roots.size(); ++r) feet.push_back(root(r));
   furcation_roof(rim, feet);
+  feet_ = feet;
 }
 
 // Crown: a half-ellipsoid dome over the cervical ellipse, rings from the pole down to the CEJ;
@@ -234,8 +237,11 @@ std::vector<int> Builder::root(size_t r) {
     if (!cylinder)
       rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
     const Eigen::Vector2d c = centre(t);
-    std::vector<int> rr =
-        ring(c.x(), c.y(), spec.half_x_mm * rho, spec.half_y_mm * rho, zf - t, n, part);
+    std::vector<int> rr;
+    for (int i = 0; i < n; ++i) {
+      const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
+      rr.push_back(add({c.x() + rho * o.x(), c.y() + rho * o.y(), zf - t}, part));
+    }
     if (j == 0) {
       foot = rr;
     } else {
@@ -344,21 +350,55 @@ std::map<int, std::vector<int>> Builder::layer_points() {
   const double zc = outer_crest_z_mm(bone_);
   const double zf = -tooth_.trunk_length_mm;
   const double lowest = lowest_apex_z_mm(tooth_);
-  std::map<int, std::vector<int>> layer;
+  std::map<int, Eigen::Vector3d> offset;
   for (const auto& [v, n] : normal) {
     const int part = part_[v];
     const double apex = part >= 0 ? zf - tooth_.roots[part].length_mm : lowest;
     const double top = part >= 0 ? std::min(zc, zf) : zc;
     const double w = detail::pdl_width_profile(bone_.pdl, top, apex, x[v].z());
+    offset[v] = w * miter[v] * n;
+  }
+  spread_foot_corners(&offset);
+  std::map<int, std::vector<int>> layer;
+  for (const auto& [v, o] : offset) {
     std::vector<int> l{v};
-    for (int k = 1; k <= layers_; ++k) {
-      const Eigen::Vector3d p = x[v] + (static_cast<double>(k) / layers_) * w * miter[v] * n;
-      l.push_back(points_.add(p, detail::PointInfo{}));
-    }
+    for (int k = 1; k <= layers_; ++k)
+      l.push_back(points_.add(x[v] + (static_cast<double>(k) / layers_) * o, detail::PointInfo{}));
     layer[v] = l;
   }
   part_.resize(points_.size(), INT_MIN);
   return layer;
+}
+
+// The socket's corner at a root's foot lies a width into the roof (horizontally); a roof point
+// closer to the foot than that, offset straight down, would fold the socket's roof over that
+// corner (most often beside a concave furcal face, where the corners' offsets converge). Roof
+// points within three widths of a foot therefore move with the nearest foot corner's horizontal
+// offset, fading linearly with distance: the order across the strip is kept (derived: the
+// moved distance d + h (1 - d / 3w) grows with d while h < 3w) and the vertical offset, hence
+// the layer's width under the roof, is unchanged.
+void Builder::spread_foot_corners(std::map<int, Eigen::Vector3d>* offset) const {
+  const auto& x = points_.points();
+  auto horizontal = [&](int v) {
+    const auto it = offset->find(v);
+    return it == offset->end() ? Eigen::Vector2d::Zero().eval() : it->second.head<2>().eval();
+  };
+  for (auto& [v, o] : *offset) {
+    if (part_[v] != kRoofPart) continue;
+    const Eigen::Vector2d p = x[v].head<2>();
+    double best = 1e300;
+    Eigen::Vector2d h = Eigen::Vector2d::Zero();
+    for (const std::vector<int>& foot : feet_)
+      for (size_t i = 0; i < foot.size(); ++i) {
+        const int a = foot[i], b = foot[(i + 1) % foot.size()];
+        const Eigen::Vector2d xa = x[a].head<2>(), ab = x[b].head<2>() - xa;
+        const double s = std::clamp((p - xa).dot(ab) / ab.squaredNorm(), 0.0, 1.0);
+        const double d = (xa + s * ab - p).norm();
+        if (d < best) best = d, h = (1 - s) * horizontal(a) + s * horizontal(b);
+      }
+    const double reach = 3 * std::abs(o.z());
+    if (best < reach) o.head<2>() += h * (1 - best / reach);
+  }
 }
 
 // Three tetrahedra per prism and layer over each attached triangle (split by sorted vertex

@@ -32,12 +32,24 @@ TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
   // The corners where the roof meets a wall (the trunk's rim, the roots' top rings) are reported
   // apart: from a sharp concave corner the offset surface lies w / sin(half the angle) away
   // (derived; 0.28 mm for a right angle).
+  // Roof nodes closer to a root's foot than the width lie in such a corner's reach too: from a
+  // distance d the socket's corner is sqrt((w - d)^2 + w^2) <= w sqrt(2) away (derived).
   std::map<int, std::pair<double, double>> range, corner;
   const double zf = -tooth.trunk_length_mm;
+  auto near_a_foot = [&](const Eigen::Vector3d& p) {
+    for (const RootSpec& r : tooth.roots)
+      for (int i = 0; i < 720; ++i) {
+        const Eigen::Vector2d q = Eigen::Vector2d(r.foot_x_mm, r.foot_y_mm) +
+                                  root_section_offset(r, 2 * 3.14159265358979 * i / 720);
+        if ((q - p.head<2>()).norm() < 0.2) return true;
+      }
+    return false;
+  };
   for (const PdlWidthSample& w : pdl_width_samples(m.mesh)) {
     const int part = m.node_part[w.node];
     if (part == INT_MIN) continue;  // a midside node
-    const bool at_corner = std::abs(w.root_point.z() - zf) < 1e-9 && part != kRoofPart;
+    const bool on_plane = std::abs(w.root_point.z() - zf) < 1e-9;
+    const bool at_corner = on_plane && (part != kRoofPart || near_a_foot(m.mesh.nodes[w.node]));
     auto it = (at_corner ? corner : range).emplace(part, std::make_pair(1e9, 0.0)).first;
     it->second.first = std::min(it->second.first, w.width_mm);
     it->second.second = std::max(it->second.second, w.width_mm);
@@ -54,7 +66,9 @@ TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
     EXPECT_LT(r.second, 0.21) << name;
   }
   for (const auto& [part, r] : corner) {
-    const std::string name = part >= 0 ? tooth.roots[part].name : "trunk rim";
+    const std::string name = part >= 0           ? tooth.roots[part].name
+                             : part == kRoofPart ? "roof beside a foot"
+                                                 : "trunk rim";
     std::cout << "  " << name << " corner: PDL width " << r.first << " to " << r.second << " mm\n";
     EXPECT_GT(r.first, 0.14) << name;
     EXPECT_LT(r.second, 0.4) << name;  // w / sin(30 deg): corners of at least 60 degrees

@@ -3,6 +3,7 @@
 // degrees and their validation, attachment with bone loss and furcation involvement.
 #include <gtest/gtest.h>
 
+#include <Eigen/Geometry>
 #include <cmath>
 #include <iostream>
 
@@ -34,10 +35,20 @@ TEST_P(HandbookMultiRoot, AreasConvergeWithTheQuadrature) {
     EXPECT_NEAR(a.root_mm2[r], f.root_mm2[r], 0.002 * f.root_mm2[r]);
 }
 
+// Calibration set: Jepsen 1963 (from memory, check-values.md sections 4 and 11). The handbook's
+// taper fullness is the calibration's result; the validation against other sources is below
+// (MultiRootAreaValidation), kept apart.
+TEST_P(HandbookMultiRoot, TaperFullnessIsTheCalibrationOnJepsen) {
+  // derived: multi_root_fullness_for_area recomputed from the handbook's outline.
+  const MultiRootTooth t = multi_root_handbook(GetParam());
+  const double m = multi_root_fullness_for_area(t, jepsen_root_area_mm2(GetParam()));
+  for (const RootSpec& r : t.roots) EXPECT_NEAR(r.taper_fullness, m, 1e-5) << r.name;
+}
+
 TEST_P(HandbookMultiRoot, RootAreaWithinTheSpreadOfJepsen) {
-  // Jepsen 1963 (from memory, check-values.md sections 4 and 11). Bound: the 10 to 25 % spread
-  // between published sources (check-values.md section 4), its upper end: the roots' taper is a
-  // chosen 2.0, not calibrated to this figure.
+  // Jepsen 1963 (from memory). Bound: the 10 to 25 % spread between published sources
+  // (check-values.md section 4). The premolar reaches Jepsen's area exactly (calibrated); the
+  // molars reach the fullest taper in range and fall short by their outlines (docs/molars.md).
   const MultiRootTooth t = multi_root_handbook(GetParam());
   const RootAreas a = root_areas(t, root_surface_points(t));
   const double jepsen = jepsen_root_area_mm2(GetParam());
@@ -48,10 +59,10 @@ TEST_P(HandbookMultiRoot, RootAreaWithinTheSpreadOfJepsen) {
   std::cout << "); Jepsen 1963 (mem) " << jepsen << " mm^2, " << 100 * (a.total_mm2 / jepsen - 1)
             << " %\n";
   RecordProperty("root_area_mm2", std::to_string(a.total_mm2));
-  // Widened to 30 % for the maxillary second molar (observed -25.6 %): the elliptical trunk holds
-  // roots narrower than a second molar's broad, fused-looking ones (docs/molars.md, limits).
-  const double bound = GetParam() == MultiRootType::kMaxillarySecondMolar ? 0.30 : 0.25;
-  EXPECT_NEAR(a.total_mm2, jepsen, bound * jepsen);
+  EXPECT_NEAR(a.total_mm2, jepsen, 0.25 * jepsen);
+  if (t.roots.front().taper_fullness < kMaxRootTaperFullness) {
+    EXPECT_NEAR(a.total_mm2, jepsen, 1e-3);
+  }
 }
 
 INSTANTIATE_TEST_SUITE_P(Teeth, HandbookMultiRoot, ::testing::ValuesIn(all_multi_root_types()),
@@ -94,6 +105,105 @@ TEST(MultiRootAreas, CalibrationReachesAReachableArea) {
   EXPECT_NEAR(root_areas(t, root_surface_points(t)).total_mm2, 234.0, 1e-3);
   const MultiRootTooth molar = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
   EXPECT_EQ(multi_root_fullness_for_area(molar, 431.0), kMaxRootTaperFullness);
+}
+
+// Validation set, apart from the calibration: Limsiriwong et al. 2019, Chiang Mai Dent J 40:57
+// (published, abstract; CBCT, Class I skeletal pattern): maxillary first molar 447.41, second
+// molar 386.26, first premolar 258.70 mm^2 (all root forms). Bound: the 10 to 25 % spread between
+// sources (check-values.md section 4), its upper end.
+struct PublishedArea {
+  MultiRootType type;
+  double area_mm2;
+};
+class MultiRootAreaValidation : public ::testing::TestWithParam<PublishedArea> {};
+
+TEST_P(MultiRootAreaValidation, WithinTheSpreadOfACbctStudy) {
+  const MultiRootTooth t = multi_root_handbook(GetParam().type);
+  const double a = root_areas(t, root_surface_points(t)).total_mm2;
+  const double published = GetParam().area_mm2;
+  std::cout << to_string(GetParam().type) << ": " << a << " mm^2 against " << published
+            << " (Limsiriwong 2019), " << 100 * (a / published - 1) << " %\n";
+  EXPECT_NEAR(a, published, 0.25 * published);
+}
+
+INSTANTIATE_TEST_SUITE_P(
+    Limsiriwong2019, MultiRootAreaValidation,
+    ::testing::Values(PublishedArea{MultiRootType::kMaxillaryFirstMolar, 447.41},
+                      PublishedArea{MultiRootType::kMaxillarySecondMolar, 386.26},
+                      PublishedArea{MultiRootType::kMaxillaryFirstPremolarTwoRoots, 258.70}),
+    [](const ::testing::TestParamInfo<PublishedArea>& p) { return to_string(p.param.type); });
+
+TEST(RootSection, FootAreaAndPerimeterFromTheShape) {
+  // derived, two computations: the closed-form foot area (ellipse less (16/15) a b f) against the
+  // polygon of 20 000 section points; a cylinder's lateral area from the quadrature (analytic
+  // derivatives) against the polygon's perimeter times the length.
+  RootSpec r;
+  r.profile = RootProfile::kCylinder;
+  r.half_x_mm = 3.0;
+  r.half_y_mm = 1.6;
+  r.length_mm = 10;
+  r.foot_y_mm = 2.2;
+  r.furcal_concavity_mm = 0.6;
+  r.furcal_side_deg = -90;
+  double area = 0, perimeter = 0;
+  const int n = 20000;
+  Eigen::Vector2d prev = root_section_offset(r, 0);
+  for (int i = 1; i <= n; ++i) {
+    const Eigen::Vector2d p = root_section_offset(r, 2 * kPi * i / n);
+    area += 0.5 * (prev.x() * p.y() - prev.y() * p.x());
+    perimeter += (p - prev).norm();
+    prev = p;
+  }
+  EXPECT_NEAR(root_foot_area_mm2(r), area, 1e-6 * area);
+  EXPECT_LT(root_foot_area_mm2(r), kPi * 3.0 * 1.6);
+  // The middle of the furcal (distal) face is drawn in by the concavity, the opposite face not.
+  EXPECT_NEAR(root_section_offset(r, -kPi / 2).y(), -1.6 + 0.6, 1e-12);
+  EXPECT_NEAR(root_section_offset(r, kPi / 2).y(), 1.6, 1e-12);
+  MultiRootTooth t;
+  t.furcation_half_x_mm = t.furcation_half_y_mm = 4.4;
+  t.roots = {r};
+  const RootAreas a = root_areas(t, root_surface_points(t, 384, 48));
+  EXPECT_NEAR(a.root_mm2[0], perimeter * 10 + area, 1e-4 * a.root_mm2[0]);
+  EXPECT_NEAR(a.roof_mm2, kPi * 4.4 * 4.4 - root_foot_area_mm2(r), 1e-9 * a.roof_mm2);
+}
+
+TEST(RootSection, TaperedConcaveRootAreaAgreesWithAFineTriangulation) {
+  // derived, two computations: the quadrature (analytic derivatives, including the concavity's
+  // fade along the root) against the area of a fine triangulated surface through the section
+  // points (2000 around, 3000 rings crowding toward the apex), the mandibular first molar's
+  // mesial root.
+  const MultiRootTooth t = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
+  const RootSpec& r = t.roots[0];
+  const double quadrature = root_areas(t, root_surface_points(t)).root_mm2[0];
+  const int n_around = 2000, n_rings = 3000;
+  const double slope = std::tan(r.tilt_deg * kPi / 180);
+  auto point = [&](int i, int j) {
+    const double v = static_cast<double>(j) / n_rings;
+    const double depth = r.length_mm * (1 - (1 - v) * (1 - v));
+    const double rho =
+        std::sqrt(std::max(0.0, 1 - std::pow(depth / r.length_mm, r.taper_fullness)));
+    const Eigen::Vector2d o = root_section_offset(r, 2 * kPi * i / n_around, depth);
+    const double cy = r.foot_y_mm + slope * std::sin(r.tilt_direction_deg * kPi / 180) * depth;
+    const double cx = r.foot_x_mm + slope * std::cos(r.tilt_direction_deg * kPi / 180) * depth;
+    return Eigen::Vector3d(cx + rho * o.x(), cy + rho * o.y(), -depth);
+  };
+  double area = 0;
+  for (int j = 0; j < n_rings; ++j)
+    for (int i = 0; i < n_around; ++i) {
+      const Eigen::Vector3d a = point(i, j), b = point(i + 1, j), c = point(i + 1, j + 1),
+                            d = point(i, j + 1);
+      area += 0.5 * ((b - a).cross(c - a).norm() + (c - a).cross(d - a).norm());
+    }
+  EXPECT_NEAR(quadrature, area, 2e-3 * area);
+}
+
+TEST(RootSection, ConcavityOutOfRangeIsRefused) {
+  MultiRootTooth t = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
+  t.roots[0].furcal_concavity_mm = 1.5;  // more than 0.6 of the 1.8 mm half-width
+  EXPECT_THROW(validate(t, MultiRootBone{}), InputError);
+  t.roots[0].furcal_concavity_mm = 0.5;
+  t.roots[0].furcal_side_deg = 45;
+  EXPECT_THROW(validate(t, MultiRootBone{}), InputError);
 }
 
 TEST(MultiRootAreas, CylindersAndFrustumMatchClosedForms) {
@@ -229,7 +339,7 @@ TEST(MultiRootValidation, FurcationDepthMustFitItsDegree) {
   wide.roots[0].half_x_mm = 4.5;  // reaches outside the trunk
   EXPECT_THROW(validate(wide, MultiRootBone{}), InputError);
   MultiRootTooth touching = t;
-  touching.roots[0].foot_y_mm = 0.5;  // overlaps the distal root
+  touching.roots[0].foot_y_mm = 0.0;  // overlaps the distal root (concave faces and all)
   EXPECT_THROW(validate(touching, MultiRootBone{}), InputError);
   EXPECT_THROW(multi_root_type_from_string("third_molar"), InputError);
   // The maxillary molar has its furcations buccally, mesially and distally, not palatally.

@@ -52,7 +52,27 @@ struct RootSpec {
   double tilt_direction_deg = 0;  // polar angle the apex moves toward (0 buccal, 90 mesial)
   double taper_fullness = 2.0;    // m of rho(u); unused for a cylinder
   RootProfile profile = RootProfile::kTapered;
+  // Concave furcal face (a kidney-shaped section): the face toward furcal_side_deg (0 buccal,
+  // 90 mesial, 180 lingual, 270 distal; a multiple of 90) is drawn in by furcal_concavity_mm at
+  // its middle (at the foot; scaled by rho down the root), the corners keep the ellipse:
+  // v = b (q - f q^4) on that half, q the ellipse's sine across the face, b the half-width
+  // across it and f = furcal_concavity_mm / b (at most 0.6). f > 1/4 makes the face concave
+  // (a flute between two lobes); on a tapered root it fades linearly to the apex. 0: the plain
+  // ellipse.
+  double furcal_concavity_mm = 0;
+  double furcal_side_deg = 0;
 };
+
+// Offset from the section's centre of the point at parameter theta (radians, 0 buccal, pi/2
+// mesial) of a root's section t_mm below the furcation plane, at the foot's size (multiply by
+// rho for the tapered root's size there): the ellipse of half_x_mm, half_y_mm with the furcal
+// concavity above, which on a tapered root fades linearly from the foot to the apex (a cylinder
+// keeps it). d_dtheta and d_dt (optional) receive the derivatives in theta and t_mm.
+Eigen::Vector2d root_section_offset(const RootSpec& root, double theta, double t_mm = 0,
+                                    Eigen::Vector2d* d_dtheta = nullptr,
+                                    Eigen::Vector2d* d_dt = nullptr);
+// Area of the foot's section (the ellipse less the concavity), mm^2.
+double root_foot_area_mm2(const RootSpec& root);
 
 struct MultiRootTooth {
   MultiRootType type = MultiRootType::kMandibularFirstMolar;
