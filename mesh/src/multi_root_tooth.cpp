@@ -344,8 +344,9 @@ MultiRootTooth multi_root_handbook(MultiRootType type) {
 std::string multi_root_handbook_status(MultiRootType type) {
   const std::string wheeler =
       "crown and root lengths and cervical widths: Wheeler's Dental Anatomy Table 1-1 (mem, "
-      "check-values.md section 11); root feet, divergence and taper: chosen to fit the cervix, "
-      "not measured";
+      "check-values.md section 11); root feet and divergence: chosen to fit the cervix, not "
+      "measured; concave furcal faces: mem, their depths chosen; taper: calibrated on Jepsen "
+      "1963 (mem)";
   switch (type) {
     case MultiRootType::kMandibularFirstMolar:
       return wheeler +

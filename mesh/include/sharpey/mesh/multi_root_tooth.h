@@ -13,9 +13,10 @@
 // its flat bottom between the roots is the furcation roof. Each root starts from an elliptical
 // foot on that plane (inside the furcation ellipse, apart from the other feet) and runs down by
 // length_mm along a straight axis tilted by tilt_deg toward tilt_direction_deg; its horizontal
-// sections keep the foot's half-widths times rho(u) = sqrt(1 - (1 - u^2)^m) (u^2 = height above
-// the apex / length, m = taper_fullness, as the single-rooted anatomical root), or stay constant
-// for a cylinder (closed by a flat disc).
+// sections keep the foot's section (an ellipse with a concave furcal face: root_section_offset)
+// times rho(u) = sqrt(1 - (1 - u^2)^m) (u^2 = height above the apex / length, m =
+// taper_fullness, as the single-rooted anatomical root), or stay constant for a cylinder (closed
+// by a flat disc).
 #pragma once
 
 #include <Eigen/Core>
