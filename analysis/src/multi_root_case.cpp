@@ -534,6 +534,15 @@ MultiRootCase load_multi_root_case(const std::string& path) {
   return parse_multi_root_case(s.str(), path);
 }
 
+bool is_multi_root_case_file(const std::string& path) {
+  std::ifstream in(path);
+  if (!in) return false;
+  const Json j = Json::parse(in, nullptr, false);
+  if (j.is_discarded() || !j.is_object()) return false;
+  const auto kind = j.find("kind");
+  return kind != j.end() && kind->is_string() && kind->get<std::string>() == "multi_root_estimate";
+}
+
 std::string multi_root_part_name(const mesh::MultiRootTooth& tooth, int part) {
   if (part == mesh::kTrunkPart) return "trunk";
   if (part == mesh::kRoofPart) return "furcation roof";

@@ -37,15 +37,18 @@
 #include "core/solution_cache_folder.h"
 #include "core/solve_job.h"
 #include "core/units.h"
+#include "sharpey/analysis/multi_root_case.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/error.h"
 #include "view/allowance_view.h"
 #include "view/case_panel.h"
+#include "view/caution_label.h"
 #include "view/comparison_view.h"
 #include "view/findings_panel.h"
 #include "view/icons.h"
 #include "view/import_dialog.h"
 #include "view/load_panel.h"
+#include "view/molar_window.h"
 #include "view/report_writer.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
@@ -216,11 +219,7 @@ void MainWindow::build_layout() {
   outer->addWidget(split, 1);
 
   // The caution, always visible.
-  caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
-  caution_->setWordWrap(true);
-  caution_->setStyleSheet(
-      QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
-                     "border-left: 5px solid #9c6e14;"));
+  caution_ = new_caution_label();
   outer->addWidget(caution_);
   setCentralWidget(central);
 
@@ -676,6 +675,7 @@ void MainWindow::new_case() {
 }
 
 bool MainWindow::open_case(const QString& path) {
+  if (analysis::is_multi_root_case_file(path.toStdString())) return open_molar_case(path);
   try {
     session_->open(path, options_.mesh_override);
   } catch (const Error& e) {
@@ -686,6 +686,23 @@ bool MainWindow::open_case(const QString& path) {
   autosaved_json_.clear();
   remember_recent(path);
   solve();
+  return true;
+}
+
+// A multi-rooted case: shown in its own window (view/molar_window.h); the case in this window
+// stays as it was.
+bool MainWindow::open_molar_case(const QString& path) {
+  if (!molar_) molar_ = new MolarWindow(this);
+  QString error;
+  if (!molar_->open(path, &error)) {
+    show_error(QStringLiteral("Could not open the case"), error);
+    return false;
+  }
+  remember_recent(path);
+  molar_->show();
+  molar_->raise();
+  status_->setText(QStringLiteral("Multi-rooted case %1 shown in its own window.")
+                       .arg(QFileInfo(path).fileName()));
   return true;
 }
 
