@@ -562,7 +562,7 @@ void paint_molar_summary_page(Sheet& sheet, const MolarReportInputs& in) {
          {r.areas.attached_total_mm2, r.result.tooth.peak_compression_kpa,
           r.cres_mesiodistal.below_cej_mm, r.cres_mesiodistal.below_furcation_mm, allowance}});
   }
-  paint_molar_table(pg, sheet.font, QStringLiteral("scenario"), t, 0.34, 3);
+  paint_molar_table(pg, sheet.font, QStringLiteral("scenario"), t, 0.34, 4);
   pg.paragraph(QStringLiteral("Allowances in %1 (couples in %2); each scenario's page gives the "
                               "three molar movements to both thresholds.")
                    .arg(force_unit_label(in.unit), moment_unit_label(in.unit)));
