@@ -90,6 +90,7 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
 void take_molar_screenshots(sharpey::app::MolarWindow& molar, const QString& folder) {
   QDir dir(folder);
   dir.mkpath(QStringLiteral("."));
+  while (molar.busy()) wait_ms(100);  // a finite-element case still meshing and solving
   molar.show_scenario(static_cast<int>(molar.result().scenarios.size()) - 1);
   QApplication::processEvents();
   wait_ms(300);

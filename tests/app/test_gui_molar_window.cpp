@@ -14,6 +14,7 @@
 #include <QTableWidget>
 #include <QTemporaryDir>
 #include <QTest>
+#include <QTimer>
 #include <cmath>
 #include <limits>
 
@@ -228,6 +229,42 @@ TEST_F(MolarWindowTest, ABadMultiRootedFileIsRefusedNamingTheKey) {
       << g_window->last_error().toStdString();
   // The case shown before stays.
   EXPECT_EQ(molar().scenario_list()->count(), 3);
+}
+
+// A case with finite elements is meshed and solved on a worker thread: open() returns at once,
+// the event loop keeps running, and the finite-element table then holds the evaluation's figures
+// (those figures themselves are checked in tests/analysis/test_multi_root_fe*.cpp). One healthy
+// scenario, coarse sizes: one solve, about 10 s.
+TEST_F(MolarWindowTest, AFiniteElementCaseIsEvaluatedInTheBackground) {
+  const QString path = g_dir->filePath("fe_molar.json");
+  QFile f(path);
+  ASSERT_TRUE(f.open(QIODevice::WriteOnly));
+  f.write(R"({"schema_version": 1, "kind": "multi_root_estimate", "label": "invented check",
+             "tooth": {"type": "mandibular_first_molar"}, "scenarios": [{"name": "healthy"}],
+             "load": {"movement": "translation", "magnitude": 1, "unit": "N"},
+             "finite_elements": true})");
+  f.close();
+  MolarWindow window;
+  QString error;
+  ASSERT_TRUE(window.open(path, &error)) << error.toStdString();
+  EXPECT_TRUE(window.busy());
+  int ticks = 0;
+  QTimer timer;
+  QObject::connect(&timer, &QTimer::timeout, [&]() { ++ticks; });
+  timer.start(50);
+  bool done = false;
+  QObject::connect(&window, &MolarWindow::evaluated, [&]() { done = true; });
+  ASSERT_TRUE(QTest::qWaitFor([&]() { return done; }, 600000));
+  EXPECT_GT(ticks, 2);  // the window's thread went on meanwhile
+  ASSERT_TRUE(window.result().scenarios.at(0).has_finite_elements);
+  const analysis::MultiRootFeFigures& fe = window.result().scenarios[0].finite_elements;
+  const QTableWidget* t = window.fe_table();
+  ASSERT_EQ(t->rowCount(), 2 + static_cast<int>(fe.roots.size()) + 1);
+  EXPECT_EQ(cell(t, 0, 0), fe.mesiodistal.below_cej_mm);
+  EXPECT_EQ(cell(t, 1, 0), fe.buccolingual.below_cej_mm);
+  for (size_t k = 0; k < fe.roots.size(); ++k)
+    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 1), fe.roots[k].peak_compression_kpa);
+  EXPECT_EQ(cell(t, t->rowCount() - 1, 1), fe.tooth.peak_compression_kpa);
 }
 
 }  // namespace

@@ -376,7 +376,7 @@ QList<QAction*> MainWindow::build_file_menu(QMenu* file) {
     const QString path = samples.filePath(name);
     samples_menu_->addAction(QFileInfo(name).completeBaseName().replace('_', ' '), this,
                              [this, path]() {
-                               if (maybe_save()) open_case(path);
+                               if (open_keeps_case(path) || maybe_save()) open_case(path);
                              });
   }
   samples_menu_->setEnabled(!samples_menu_->isEmpty());
@@ -650,7 +650,7 @@ void MainWindow::refresh_recent_menu() {
     recent_menu_
         ->addAction(QFileInfo(path).fileName(), this,
                     [this, path]() {
-                      if (maybe_save()) open_case(path);
+                      if (open_keeps_case(path) || maybe_save()) open_case(path);
                     })
         ->setToolTip(path);
   }
@@ -675,7 +675,7 @@ void MainWindow::new_case() {
 }
 
 bool MainWindow::open_case(const QString& path) {
-  if (analysis::is_multi_root_case_file(path.toStdString())) return open_molar_case(path);
+  if (open_keeps_case(path)) return open_molar_case(path);
   try {
     session_->open(path, options_.mesh_override);
   } catch (const Error& e) {
@@ -689,10 +689,20 @@ bool MainWindow::open_case(const QString& path) {
   return true;
 }
 
+// A multi-rooted case opens beside the case here, which then needs no question about saving it.
+bool MainWindow::open_keeps_case(const QString& path) const {
+  return analysis::is_multi_root_case_file(path.toStdString());
+}
+
 // A multi-rooted case: shown in its own window (view/molar_window.h); the case in this window
 // stays as it was.
 bool MainWindow::open_molar_case(const QString& path) {
-  if (!molar_) molar_ = new MolarWindow(this);
+  if (!molar_) {
+    molar_ = new MolarWindow(this);
+    connect(molar_, &MolarWindow::failed, this, [this](const QString& message) {
+      show_error(QStringLiteral("Could not evaluate the case"), message);
+    });
+  }
   QString error;
   if (!molar_->open(path, &error)) {
     show_error(QStringLiteral("Could not open the case"), error);

@@ -170,6 +170,7 @@ class MainWindow : public QMainWindow {
   void apply_pending_load(bool interactive);
   void remember_recent(const QString& path);
   bool open_molar_case(const QString& path);
+  bool open_keeps_case(const QString& path) const;
 
   MainWindowOptions options_;
   std::unique_ptr<CaseSession> session_;

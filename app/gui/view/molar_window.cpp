@@ -14,7 +14,9 @@
 #include <QStandardPaths>
 #include <QStatusBar>
 #include <QTableWidget>
+#include <QThread>
 #include <QVBoxLayout>
+#include <algorithm>
 
 #include "core/units.h"
 #include "sharpey/error.h"
@@ -103,7 +105,14 @@ MolarWindow::MolarWindow(QWidget* parent) : QMainWindow(parent) {
   resize(1500, 940);
 }
 
-MolarWindow::~MolarWindow() = default;
+// A background evaluation cannot be interrupted (the library takes no cancel flag here): wait for
+// it, at most a few tens of seconds for a finite-element case.
+MolarWindow::~MolarWindow() {
+  for (QThread* t : workers_) {
+    t->wait();
+    delete t;
+  }
+}
 
 void MolarWindow::build_menu() {
   QMenu* file = menuBar()->addMenu(QStringLiteral("&File"));
@@ -170,15 +179,64 @@ QWidget* MolarWindow::build_right() {
 }
 
 bool MolarWindow::open(const QString& path, QString* error) {
+  analysis::MultiRootCase spec;
+  analysis::MultiRootCaseResult result;
+  ++generation_;
+  pending_ = 0;
   try {
-    analysis::MultiRootCase spec = analysis::load_multi_root_case(path.toStdString());
-    analysis::MultiRootCaseResult result = analysis::evaluate_multi_root_case(spec);
-    spec_ = std::move(spec);
-    result_ = std::move(result);
+    spec = analysis::load_multi_root_case(path.toStdString());
+    if (spec.finite_elements) {
+      evaluate_in_background(spec, path);
+      return true;
+    }
+    result = analysis::evaluate_multi_root_case(spec);
   } catch (const Error& e) {
     if (error) *error = QString::fromStdString(e.what());
     return false;
   }
+  show_case(spec, result, path);
+  return true;
+}
+
+// Meshing and solving every scenario takes seconds each: on a worker thread, the window usable
+// meanwhile; its result is shown only if no other case was opened since.
+void MolarWindow::evaluate_in_background(const analysis::MultiRootCase& spec, const QString& path) {
+  const int generation = generation_;
+  pending_ = 1;
+  statusBar()->showMessage(QStringLiteral("%1: meshing and solving %2 scenario(s) with finite "
+                                          "elements (about 10 s each)…")
+                               .arg(QFileInfo(path).fileName())
+                               .arg(spec.scenarios.size()));
+  auto result = std::make_shared<analysis::MultiRootCaseResult>();
+  auto message = std::make_shared<QString>();
+  QThread* worker = QThread::create([spec, result, message]() {
+    try {
+      *result = analysis::evaluate_multi_root_case(spec);
+    } catch (const Error& e) {
+      *message = QString::fromStdString(e.what());
+    }
+  });
+  workers_.push_back(worker);
+  connect(worker, &QThread::finished, this, [=]() {
+    workers_.erase(std::find(workers_.begin(), workers_.end(), worker));
+    worker->deleteLater();
+    if (generation != generation_) return;
+    pending_ = 0;
+    if (!message->isEmpty()) {
+      statusBar()->showMessage(*message);
+      emit failed(*message);
+      return;
+    }
+    show_case(spec, *result, path);
+    emit evaluated();
+  });
+  worker->start();
+}
+
+void MolarWindow::show_case(const analysis::MultiRootCase& spec,
+                            const analysis::MultiRootCaseResult& result, const QString& path) {
+  spec_ = spec;
+  result_ = result;
   case_file_ = QFileInfo(path).fileName();
   setWindowTitle(QStringLiteral("Sharpey: %1 (multi-rooted tooth)").arg(case_file_));
   header_->setText(QStringLiteral("<b>%1</b><br>%2<br><i>%3.</i>")
@@ -198,7 +256,6 @@ bool MolarWindow::open(const QString& path, QString* error) {
       QStringLiteral("%1 scenario(s) evaluated by the thin-layer estimate%2.")
           .arg(result_.scenarios.size())
           .arg(spec_.finite_elements ? QStringLiteral(" and by finite elements") : QString()));
-  return true;
 }
 
 void MolarWindow::show_scenario(int index) {

@@ -10,6 +10,7 @@
 
 #include <QMainWindow>
 #include <memory>
+#include <vector>
 
 #include "core/molar_tables.h"
 #include "sharpey/analysis/multi_root_case.h"
@@ -18,6 +19,7 @@ class QComboBox;
 class QLabel;
 class QListWidget;
 class QTableWidget;
+class QThread;
 
 namespace sharpey::app {
 
@@ -33,9 +35,12 @@ class MolarWindow : public QMainWindow {
   ~MolarWindow() override;
 
   // Reads and evaluates the case; false with `error` (the library's message) and nothing changed
-  // on a bad file.
+  // on a bad file. The thin-layer estimate is evaluated at once; a case with finite_elements is
+  // evaluated on a worker thread (busy() meanwhile; evaluated() or failed() when it ends; the
+  // window shows the case when it is done).
   bool open(const QString& path, QString* error);
   bool has_case() const { return !result_.scenarios.empty(); }
+  bool busy() const { return pending_ > 0; }
   void show_scenario(int index);
   int current() const { return current_; }
   void set_force_unit(analysis::ForceUnit unit);
@@ -47,6 +52,11 @@ class MolarWindow : public QMainWindow {
   bool export_report(const QString& path, QString* error);
   QString case_file() const { return case_file_; }
 
+ signals:
+  void evaluated();
+  void failed(const QString& message);
+
+ public:
   // ---- parts, for tests ----
   const analysis::MultiRootCase& spec() const { return spec_; }
   const analysis::MultiRootCaseResult& result() const { return result_; }
@@ -65,11 +75,17 @@ class MolarWindow : public QMainWindow {
   QWidget* build_middle();
   QWidget* build_right();
   void refresh();
+  void show_case(const analysis::MultiRootCase& spec, const analysis::MultiRootCaseResult& result,
+                 const QString& path);
+  void evaluate_in_background(const analysis::MultiRootCase& spec, const QString& path);
   void export_report_dialog();
 
   analysis::MultiRootCase spec_;
   analysis::MultiRootCaseResult result_;
   QString case_file_;
+  int generation_ = 0;             // of the last open(): an older background evaluation is dropped
+  int pending_ = 0;                // background evaluations of the last open() still running
+  std::vector<QThread*> workers_;  // running background evaluations (waited for on close)
   int current_ = 0;
   analysis::ForceUnit unit_ = analysis::ForceUnit::kNewton;
   QLabel* header_ = nullptr;
