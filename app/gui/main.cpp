@@ -87,17 +87,29 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
 }
 
 // A multi-rooted case: its window (the scenario with the most bone lost) and its PDF report.
-void take_molar_screenshots(sharpey::app::MolarWindow& molar, const QString& folder) {
+// False when the case could not be evaluated (its message is printed).
+bool take_molar_screenshots(sharpey::app::MolarWindow& molar, const QString& folder) {
   QDir dir(folder);
   dir.mkpath(QStringLiteral("."));
+  QString failure;
+  const auto on_failed = QObject::connect(&molar, &sharpey::app::MolarWindow::failed,
+                                          [&failure](const QString& m) { failure = m; });
   while (molar.busy()) wait_ms(100);  // a finite-element case still meshing and solving
+  QObject::disconnect(on_failed);
+  if (!molar.has_case()) {
+    std::fprintf(stderr, "sharpey: %s\n", failure.toLocal8Bit().constData());
+    return false;
+  }
   molar.show_scenario(static_cast<int>(molar.result().scenarios.size()) - 1);
   QApplication::processEvents();
   wait_ms(300);
   molar.grab().toImage().save(dir.filePath(QStringLiteral("window_molar.png")));
   QString error;
-  if (!molar.export_report(dir.filePath(QStringLiteral("report_molar.pdf")), &error))
+  if (!molar.export_report(dir.filePath(QStringLiteral("report_molar.pdf")), &error)) {
     std::fprintf(stderr, "sharpey: %s\n", error.toLocal8Bit().constData());
+    return false;
+  }
+  return true;
 }
 
 // The command line, the same for the display-free first pass and the application.
@@ -189,8 +201,7 @@ int main(int argc, char** argv) {
   if (shoot && window.molar_window() && window.molar_window()->isVisible()) {
     const QString folder = parser.value(screenshots);
     QTimer::singleShot(300, &window, [&window, folder]() {
-      take_molar_screenshots(*window.molar_window(), folder);
-      QApplication::exit(0);
+      QApplication::exit(take_molar_screenshots(*window.molar_window(), folder) ? 0 : 4);
     });
   } else if (shoot) {
     const QString folder = parser.value(screenshots);
