@@ -4,6 +4,7 @@
 #include <cmath>
 #include <fstream>
 #include <iomanip>
+#include <limits>
 #include <map>
 #include <nlohmann/json.hpp>
 #include <set>
@@ -12,6 +13,7 @@
 #include "output_text.h"
 #include "sharpey/analysis/multi_root_fe.h"
 #include "sharpey/analysis/study.h"
+#include "sharpey/core/check.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 
@@ -133,139 +135,271 @@ double magnitude_in_base_unit(const MultiRootCase& c) {
                                     c.unit + "\"");
 }
 
-}  // namespace
+// schema_version, kind, label, notes and tooth.type.
+void parse_header(Object& root, MultiRootCase* c) {
+  if (root.number("schema_version", 1) != 1)
+    throw InputError("schema_version", "schema_version must be 1");
+  if (root.text("kind", "") != "multi_root_estimate")
+    throw InputError("kind",
+                     "a multi-rooted tooth case says \"kind\": "
+                     "\"multi_root_estimate\"");
+  c->label = root.text("label", "");
+  c->notes = root.text("notes", "");
+  const Json* tooth = root.find("tooth");
+  if (!tooth) throw InputError("tooth", "the case needs tooth.type, e.g. mandibular_first_molar");
+  Object t(*tooth, "tooth");
+  c->type = mesh::multi_root_type_from_string(t.text("type", ""));
+  t.finish();
+}
 
-MultiRootCase parse_multi_root_case(const std::string& json_text, const std::string& origin) {
-  try {
-    Json j;
+// pdl: the material into the case, the width profile into `pdl`.
+void parse_pdl(Object& root, MultiRootCase* c, mesh::PdlSpec* pdl) {
+  const Json* p = root.find("pdl");
+  if (!p) return;
+  Object po(*p, "pdl");
+  c->pdl.young_modulus_mpa = po.number("young_modulus_mpa", c->pdl.young_modulus_mpa);
+  c->pdl.poisson_ratio = po.number("poisson_ratio", c->pdl.poisson_ratio);
+  if (const Json* w = po.find("width_profile_mm")) {
+    Object wo(*w, "pdl.width_profile_mm");
+    pdl->crest_width_mm = wo.number("crest", pdl->crest_width_mm);
+    pdl->mid_width_mm = wo.number("mid_root", pdl->mid_width_mm);
+    pdl->apex_width_mm = wo.number("apex", pdl->apex_width_mm);
+    wo.finish();
+    for (double w_mm : {pdl->crest_width_mm, pdl->mid_width_mm, pdl->apex_width_mm})
+      if (!(w_mm >= 0.05 && w_mm <= 0.6))
+        throw InputError("pdl.width_profile_mm",
+                         "PDL width " + fixed(w_mm, 3) +
+                             " mm is outside 0.05 to 0.6 mm (published widths 0.1 to 0.4 "
+                             "mm); use a value there");
+  }
+  po.finish();
+}
+
+// scenarios: each parsed and validated against the tooth.
+void parse_scenarios(Object& root, double crest, const mesh::PdlSpec& pdl, MultiRootCase* c) {
+  const Json* scenarios = root.find("scenarios");
+  if (!scenarios || !scenarios->is_array() || scenarios->empty())
+    throw InputError("scenarios", "the case needs a non-empty scenarios list");
+  for (size_t i = 0; i < scenarios->size(); ++i) {
+    MultiRootScenario s;
+    const std::string path = "scenarios[" + std::to_string(i) + "]";
+    s.bone = parse_scenario((*scenarios)[i], path, crest, pdl, &s.name);
     try {
-      j = Json::parse(json_text);
-    } catch (const nlohmann::json::parse_error& e) {
-      throw InputError("file", std::string("not valid JSON: ") + e.what());
-    }
-    Object root(j, "");
-    MultiRootCase c;
-    if (root.number("schema_version", 1) != 1)
-      throw InputError("schema_version", "schema_version must be 1");
-    if (root.text("kind", "") != "multi_root_estimate")
-      throw InputError("kind",
-                       "a multi-rooted tooth case says \"kind\": "
-                       "\"multi_root_estimate\"");
-    c.label = root.text("label", "");
-    c.notes = root.text("notes", "");
-    const Json* tooth = root.find("tooth");
-    if (!tooth) throw InputError("tooth", "the case needs tooth.type, e.g. mandibular_first_molar");
-    {
-      Object t(*tooth, "tooth");
-      c.type = mesh::multi_root_type_from_string(t.text("type", ""));
-      t.finish();
-    }
-    mesh::PdlSpec pdl;
-    if (const Json* p = root.find("pdl")) {
-      Object po(*p, "pdl");
-      c.pdl.young_modulus_mpa = po.number("young_modulus_mpa", c.pdl.young_modulus_mpa);
-      c.pdl.poisson_ratio = po.number("poisson_ratio", c.pdl.poisson_ratio);
-      if (const Json* w = po.find("width_profile_mm")) {
-        Object wo(*w, "pdl.width_profile_mm");
-        pdl.crest_width_mm = wo.number("crest", pdl.crest_width_mm);
-        pdl.mid_width_mm = wo.number("mid_root", pdl.mid_width_mm);
-        pdl.apex_width_mm = wo.number("apex", pdl.apex_width_mm);
-        wo.finish();
-        for (double w_mm : {pdl.crest_width_mm, pdl.mid_width_mm, pdl.apex_width_mm})
-          if (!(w_mm >= 0.05 && w_mm <= 0.6))
-            throw InputError("pdl.width_profile_mm",
-                             "PDL width " + fixed(w_mm, 3) +
-                                 " mm is outside 0.05 to 0.6 mm (published widths 0.1 to 0.4 "
-                                 "mm); use a value there");
-      }
-      po.finish();
-    }
-    double crest = 1.5;
-    if (const Json* b = root.find("bone")) {
-      Object bo(*b, "bone");
-      crest = bo.number("crest_below_cej_mm", crest);
-      bo.finish();
-    }
-    const Json* scenarios = root.find("scenarios");
-    if (!scenarios || !scenarios->is_array() || scenarios->empty())
-      throw InputError("scenarios", "the case needs a non-empty scenarios list");
-    for (size_t i = 0; i < scenarios->size(); ++i) {
-      MultiRootScenario s;
-      const std::string path = "scenarios[" + std::to_string(i) + "]";
-      s.bone = parse_scenario((*scenarios)[i], path, crest, pdl, &s.name);
-      try {
-        mesh::validate(mesh::multi_root_handbook(c.type), s.bone);
-      } catch (const InputError& e) {
-        throw InputError(path + "." + e.key(), path + " (" + s.name + "): " + e.what());
-      }
-      c.scenarios.push_back(s);
-    }
-    const Json* load = root.find("load");
-    if (!load) throw InputError("load", "the case needs load.movement and load.magnitude");
-    {
-      Object lo(*load, "load");
-      c.movement = molar_movement_from_string(lo.text("movement", ""));
-      c.magnitude = lo.number("magnitude", 0);
-      c.unit = lo.text("unit", c.movement == MolarMovement::kUprighting ? "N mm" : "N");
-      if (!(c.magnitude > 0))
-        throw InputError("load.magnitude",
-                         "load.magnitude must be positive, not " + fixed(c.magnitude, 3));
-      lo.finish();
-      magnitude_in_base_unit(c);  // checks the unit
-    }
-    if (const Json* fe = root.find("finite_elements")) {
-      if (!fe->is_boolean())
-        throw InputError("finite_elements",
-                         "finite_elements must be true or false, not " + fe->dump());
-      c.finite_elements = fe->get<bool>();
-    }
-    if (const Json* t = root.find("thresholds")) {
-      Object to(*t, "thresholds");
-      c.thresholds.capillary.value_kpa = to.number("capillary_kpa", 4.7);
-      c.thresholds.limit.value_kpa = to.number("limit_kpa", 16.0);
-      to.finish();
-      if (!(c.thresholds.capillary.value_kpa > 0 &&
-            c.thresholds.limit.value_kpa > c.thresholds.capillary.value_kpa))
-        throw InputError("thresholds", "thresholds must satisfy 0 < capillary_kpa < limit_kpa");
-    }
-    root.finish();
-    if (c.finite_elements) {
-      for (size_t i = 0; i < c.scenarios.size(); ++i) {
-        try {
-          mesh::validate_multi_root_mesh(mesh::multi_root_handbook(c.type), c.scenarios[i].bone);
-        } catch (const InputError& e) {
-          const std::string path = "scenarios[" + std::to_string(i) + "]";
-          throw InputError(path + "." + e.key(),
-                           path + " (" + c.scenarios[i].name + "), finite_elements: " + e.what());
-        }
-      }
-    }
-    // The PDL material is checked by the estimate itself.
-    try {
-      MultiRootThinLayer(mesh::multi_root_handbook(c.type), c.scenarios.front().bone, c.pdl);
+      mesh::validate(mesh::multi_root_handbook(c->type), s.bone);
     } catch (const InputError& e) {
-      if (e.key() != "materials.pdl") throw;
-      throw InputError("pdl", e.what());
+      throw InputError(path + "." + e.key(), path + " (" + s.name + "): " + e.what());
     }
-    return c;
-  } catch (const InputError& e) {
-    throw InputError(e.key(), origin + ": " + e.what());
+    c->scenarios.push_back(s);
   }
 }
 
-MultiRootCase load_multi_root_case(const std::string& path) {
-  std::ifstream in(path);
-  if (!in) throw InputError("file", "cannot read the case file " + path);
-  std::stringstream s;
-  s << in.rdbuf();
-  return parse_multi_root_case(s.str(), path);
+void parse_load(Object& root, MultiRootCase* c) {
+  const Json* load = root.find("load");
+  if (!load) throw InputError("load", "the case needs load.movement and load.magnitude");
+  Object lo(*load, "load");
+  c->movement = molar_movement_from_string(lo.text("movement", ""));
+  c->magnitude = lo.number("magnitude", 0);
+  c->unit = lo.text("unit", c->movement == MolarMovement::kUprighting ? "N mm" : "N");
+  if (!(c->magnitude > 0))
+    throw InputError("load.magnitude",
+                     "load.magnitude must be positive, not " + fixed(c->magnitude, 3));
+  lo.finish();
+  magnitude_in_base_unit(*c);  // checks the unit
 }
 
-void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
-  const mesh::MultiRootTooth tooth = mesh::multi_root_handbook(spec.type);
-  const double magnitude = magnitude_in_base_unit(spec);
+void parse_thresholds(Object& root, MultiRootCase* c) {
+  const Json* t = root.find("thresholds");
+  if (!t) return;
+  Object to(*t, "thresholds");
+  c->thresholds.capillary.value_kpa = to.number("capillary_kpa", 4.7);
+  c->thresholds.limit.value_kpa = to.number("limit_kpa", 16.0);
+  to.finish();
+  if (!(c->thresholds.capillary.value_kpa > 0 &&
+        c->thresholds.limit.value_kpa > c->thresholds.capillary.value_kpa))
+    throw InputError("thresholds", "thresholds must satisfy 0 < capillary_kpa < limit_kpa");
+}
+
+// What the parsed values must satisfy together: every scenario meshable when finite elements are
+// asked for, and a PDL material the estimate accepts.
+void check_model(const MultiRootCase& c) {
+  if (c.finite_elements) {
+    for (size_t i = 0; i < c.scenarios.size(); ++i) {
+      try {
+        mesh::validate_multi_root_mesh(mesh::multi_root_handbook(c.type), c.scenarios[i].bone);
+      } catch (const InputError& e) {
+        const std::string path = "scenarios[" + std::to_string(i) + "]";
+        throw InputError(path + "." + e.key(),
+                         path + " (" + c.scenarios[i].name + "), finite_elements: " + e.what());
+      }
+    }
+  }
+  // The PDL material is checked by the estimate itself.
+  try {
+    MultiRootThinLayer(mesh::multi_root_handbook(c.type), c.scenarios.front().bone, c.pdl);
+  } catch (const InputError& e) {
+    if (e.key() != "materials.pdl") throw;
+    throw InputError("pdl", e.what());
+  }
+}
+
+// ---- evaluation ----
+
+// The case's movement to `threshold_kpa`, from the tooth's peak per unit of the load; negative
+// when the movement compresses nothing.
+double case_allowance(const MultiRootResult& r, double magnitude, double threshold_kpa) {
+  const double per_unit_peak = r.tooth.peak_compression_kpa / magnitude;
+  return per_unit_peak > 0 ? threshold_kpa / per_unit_peak : -1.0;
+}
+
+// Root map: per part, 30-degree sectors around its own centre by 1 mm of depth below the CEJ; the
+// largest compression in each cell (no cell where nothing is attached), ordered by part, depth
+// and sector.
+std::vector<MultiRootMapCell> root_map_cells(const MultiRootThinLayer& model,
+                                             const std::vector<double>& p) {
+  std::map<std::tuple<int, int, int>, double> cells;
+  for (size_t k = 0; k < p.size(); ++k) {
+    const mesh::RootSurfacePoint& q = model.attached_points()[k];
+    if (q.part == mesh::kRoofPart) continue;
+    const int sector = static_cast<int>(std::floor(q.angle_rad / (kPi / 6))) % 12;
+    const int depth = static_cast<int>(std::floor(-q.x.z()));
+    const auto key = std::make_tuple(q.part, depth, sector);
+    const auto it = cells.find(key);
+    if (it == cells.end() || it->second < p[k]) cells[key] = p[k];
+  }
+  std::vector<MultiRootMapCell> out;
+  for (const auto& [key, value] : cells)
+    out.push_back({std::get<0>(key), std::get<1>(key), std::get<2>(key), value});
+  return out;
+}
+
+// The whole root surface with its attachment, and the pressure at the attached points (the
+// model's points are the attached ones of the same quadrature, in the same order).
+void fill_surface(const MultiRootThinLayer& model, const mesh::MultiRootBone& bone,
+                  const std::vector<double>& p, MultiRootScenarioResult* r) {
+  r->surface = mesh::root_surface_points(model.tooth());
+  mesh::attach(model.tooth(), bone, &r->surface);
+  r->surface_pressure_kpa.assign(r->surface.size(), std::numeric_limits<double>::quiet_NaN());
+  size_t k = 0;
+  for (size_t i = 0; i < r->surface.size() && k < p.size(); ++i)
+    if (r->surface[i].attached) r->surface_pressure_kpa[i] = p[k++];
+  SHARPEY_ASSERT(k == p.size(), "the attached points differ from the model's");
+}
+
+MultiRootFeFigures fe_figures(const mesh::MultiRootTooth& tooth, const MultiRootScenario& s,
+                              const fem::Material& pdl, const MultiRootLoad& load) {
+  const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, s.bone);
+  const fem::Material dentin{18600, 0.31}, cancellous{1370, 0.3};
+  const MultiRootFeCres fc = multi_root_fe_cres(m, dentin, pdl, cancellous, tooth.trunk_length_mm);
+  const MultiRootFePressure fp =
+      multi_root_fe_pressure(m, tooth, s.bone, dentin, pdl, cancellous, load);
+  return {fc.n_dofs, fc.buccolingual, fc.mesiodistal, fp.tooth, fp.roots};
+}
+
+MultiRootScenarioResult evaluate_scenario(const MultiRootCase& spec,
+                                          const mesh::MultiRootTooth& tooth, double magnitude,
+                                          const MultiRootScenario& s) {
+  const MultiRootThinLayer model(tooth, s.bone, spec.pdl);
+  const MultiRootLoad load = model.preset(spec.movement, magnitude);
+  MultiRootScenarioResult r;
+  r.name = s.name;
+  r.areas = model.areas();
+  r.result = model.evaluate(load, spec.thresholds);
+  r.cres_buccolingual = model.cres(Eigen::Vector3d::UnitX());
+  r.cres_mesiodistal = model.cres(Eigen::Vector3d::UnitY());
+  r.allowance_capillary = case_allowance(r.result, magnitude, spec.thresholds.capillary.value_kpa);
+  r.allowance_limit = case_allowance(r.result, magnitude, spec.thresholds.limit.value_kpa);
+  for (MolarMovement m :
+       {MolarMovement::kUprighting, MolarMovement::kIntrusion, MolarMovement::kTranslation})
+    r.allowances.push_back({m, model.allowance(m, spec.thresholds.capillary.value_kpa),
+                            model.allowance(m, spec.thresholds.limit.value_kpa)});
+  const std::vector<double> p = model.pressure_kpa(load);
+  r.root_map = root_map_cells(model, p);
+  fill_surface(model, s.bone, p, &r);
+  if (spec.finite_elements) {
+    r.has_finite_elements = true;
+    r.finite_elements = fe_figures(tooth, s, spec.pdl, load);
+  }
+  return r;
+}
+
+// ---- outputs ----
+
+std::string root_map_name(size_t i) { return std::to_string(i) + "_root_map.csv"; }
+
+void write_root_map(const mesh::MultiRootTooth& tooth, const std::vector<MultiRootMapCell>& cells,
+                    const std::string& folder, const std::string& map_name) {
+  std::ofstream csv(folder + "/" + map_name);
+  csv << "# " << caution_text() << "\n"
+      << "# thin-layer estimate, not finite elements (docs/molars.md); pressure_kpa: the "
+         "largest hydrostatic pressure in the cell (compression > 0; negative: the whole cell "
+         "is in tension)\n"
+      << "part,depth_below_cej_mm_from,depth_below_cej_mm_to,sector_deg_from,sector_deg_to,"
+         "pressure_kpa\n";
+  for (const MultiRootMapCell& c : cells)
+    csv << multi_root_part_name(tooth, c.part) << "," << c.depth_mm << "," << c.depth_mm + 1 << ","
+        << 30 * c.sector << "," << 30 * c.sector + 30 << "," << fixed(c.pressure_kpa, 3) << "\n";
+  if (!csv) throw OutputError("cannot write " + folder + "/" + map_name);
+}
+
+Json allowance_json(double a) { return a < 0 ? Json(nullptr) : Json(a); }
+std::string allowance_text(double a) { return a < 0 ? std::string("none") : fixed(a, 2); }
+
+Json figures_json(const RootFigures& f) {
+  Json o;
+  o["name"] = f.name;
+  o["attachment_area_mm2"] = f.attachment_area_mm2;
+  o["peak_compression_kpa"] = f.peak_compression_kpa;
+  o["peak_tension_kpa"] = f.peak_tension_kpa;
+  o["area_above_capillary_mm2"] = f.area_above_capillary_mm2;
+  o["area_above_limit_mm2"] = f.area_above_limit_mm2;
+  o["reaction_n"] = {f.reaction_n.x(), f.reaction_n.y(), f.reaction_n.z()};
+  return o;
+}
+
+Json fe_json(const MultiRootFeFigures& fe) {
+  Json fj;
+  fj["method"] =
+      "finite elements: faceted multi-rooted mesh (coarse sizes), 10-node tetrahedra, dentin "
+      "18.6 GPa, cancellous bone 1.37 GPa; pressure peaks over the PDL nodes more than one "
+      "crest width below the crest";
+  fj["dofs"] = fe.n_dofs;
+  fj["cres_buccolingual_below_cej_mm"] = fe.buccolingual.below_cej_mm;
+  fj["cres_mesiodistal_below_cej_mm"] = fe.mesiodistal.below_cej_mm;
+  fj["tooth_peak_compression_kpa"] = fe.tooth.peak_compression_kpa;
+  for (const RootFigures& f : fe.roots) {
+    Json o;
+    o["name"] = f.name;
+    o["peak_compression_kpa"] = f.peak_compression_kpa;
+    o["peak_tension_kpa"] = f.peak_tension_kpa;
+    fj["roots"].push_back(o);
+  }
+  return fj;
+}
+
+Json scenario_json(const MultiRootCase& spec, const MultiRootScenario& s,
+                   const MultiRootScenarioResult& r, size_t i) {
   const bool couple = spec.movement == MolarMovement::kUprighting;
-  const std::string base_unit = couple ? "N mm" : "N";
+  Json js;
+  js["name"] = s.name;
+  js["horizontal_loss_mm"] = s.bone.loss.horizontal_mm;
+  js["angular_defect_mm"] = s.bone.loss.defect_depth_mm;
+  js["furcation_degree"] = s.bone.furcation.degree;
+  js["attachment_area_mm2"] = r.areas.attached_total_mm2;
+  js["root_area_mm2"] = r.areas.total_mm2;
+  js["cres_buccolingual_below_cej_mm"] = r.cres_buccolingual.below_cej_mm;
+  js["cres_mesiodistal_below_cej_mm"] = r.cres_mesiodistal.below_cej_mm;
+  js["cres_mesiodistal_below_furcation_mm"] = r.cres_mesiodistal.below_furcation_mm;
+  js["allowance_capillary_" + std::string(couple ? "nmm" : "n")] =
+      allowance_json(r.allowance_capillary);
+  js["allowance_limit_" + std::string(couple ? "nmm" : "n")] = allowance_json(r.allowance_limit);
+  js["tooth"] = figures_json(r.result.tooth);
+  for (const RootFigures& f : r.result.roots) js["roots"].push_back(figures_json(f));
+  if (r.has_finite_elements) js["finite_elements"] = fe_json(r.finite_elements);
+  js["root_map"] = root_map_name(i);
+  return js;
+}
+
+Json results_json(const MultiRootCase& spec, const MultiRootCaseResult& r) {
   Json results;
   results["caution"] = caution_text();
   results["caution_method"] =
@@ -279,6 +413,12 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
   results["movement"] = to_string(spec.movement);
   results["magnitude"] = spec.magnitude;
   results["unit"] = spec.unit;
+  for (size_t i = 0; i < r.scenarios.size(); ++i)
+    results["scenarios"].push_back(scenario_json(spec, spec.scenarios[i], r.scenarios[i], i));
+  return results;
+}
+
+std::string summary_header(const MultiRootCase& spec) {
   std::ostringstream txt;
   txt << detail::wrap(caution_text(), 96)
       << detail::wrap(
@@ -301,144 +441,132 @@ void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
                              96)
               : std::string())
       << "\n";
-  for (size_t i = 0; i < spec.scenarios.size(); ++i) {
-    const MultiRootScenario& s = spec.scenarios[i];
-    const MultiRootThinLayer model(tooth, s.bone, spec.pdl);
-    const MultiRootLoad load = model.preset(spec.movement, magnitude);
-    const MultiRootResult r = model.evaluate(load, spec.thresholds);
-    const MultiRootCres cx = model.cres(Eigen::Vector3d::UnitX());
-    const MultiRootCres cy = model.cres(Eigen::Vector3d::UnitY());
-    const double per_unit_peak = r.tooth.peak_compression_kpa / magnitude;
-    // Allowance; JSON null (text "none") when the movement compresses nothing.
-    auto allowance = [&](double threshold) {
-      return per_unit_peak > 0 ? threshold / per_unit_peak : -1.0;
-    };
-    auto allowance_json = [&](double threshold) {
-      const double a = allowance(threshold);
-      return a < 0 ? Json(nullptr) : Json(a);
-    };
-    auto allowance_text = [&](double threshold) {
-      const double a = allowance(threshold);
-      return a < 0 ? std::string("none") : fixed(a, 2);
-    };
-    Json js;
-    js["name"] = s.name;
-    js["horizontal_loss_mm"] = s.bone.loss.horizontal_mm;
-    js["angular_defect_mm"] = s.bone.loss.defect_depth_mm;
-    js["furcation_degree"] = s.bone.furcation.degree;
-    js["attachment_area_mm2"] = model.areas().attached_total_mm2;
-    js["root_area_mm2"] = model.areas().total_mm2;
-    js["cres_buccolingual_below_cej_mm"] = cx.below_cej_mm;
-    js["cres_mesiodistal_below_cej_mm"] = cy.below_cej_mm;
-    js["cres_mesiodistal_below_furcation_mm"] = cy.below_furcation_mm;
-    js["allowance_capillary_" + std::string(couple ? "nmm" : "n")] =
-        allowance_json(spec.thresholds.capillary.value_kpa);
-    js["allowance_limit_" + std::string(couple ? "nmm" : "n")] =
-        allowance_json(spec.thresholds.limit.value_kpa);
-    auto figures = [](const RootFigures& f) {
-      Json o;
-      o["name"] = f.name;
-      o["attachment_area_mm2"] = f.attachment_area_mm2;
-      o["peak_compression_kpa"] = f.peak_compression_kpa;
-      o["peak_tension_kpa"] = f.peak_tension_kpa;
-      o["area_above_capillary_mm2"] = f.area_above_capillary_mm2;
-      o["area_above_limit_mm2"] = f.area_above_limit_mm2;
-      o["reaction_n"] = {f.reaction_n.x(), f.reaction_n.y(), f.reaction_n.z()};
-      return o;
-    };
-    js["tooth"] = figures(r.tooth);
-    for (const RootFigures& f : r.roots) js["roots"].push_back(figures(f));
-    std::string fe_text;
-    if (spec.finite_elements) {
-      const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, s.bone);
-      const fem::Material dentin{18600, 0.31}, cancellous{1370, 0.3};
-      const MultiRootFeCres fc =
-          multi_root_fe_cres(m, dentin, spec.pdl, cancellous, tooth.trunk_length_mm);
-      const MultiRootFePressure fp =
-          multi_root_fe_pressure(m, tooth, s.bone, dentin, spec.pdl, cancellous, load);
-      Json fj;
-      fj["method"] =
-          "finite elements: faceted multi-rooted mesh (coarse sizes), 10-node tetrahedra, dentin "
-          "18.6 GPa, cancellous bone 1.37 GPa; pressure peaks over the PDL nodes more than one "
-          "crest width below the crest";
-      fj["dofs"] = fc.n_dofs;
-      fj["cres_buccolingual_below_cej_mm"] = fc.buccolingual.below_cej_mm;
-      fj["cres_mesiodistal_below_cej_mm"] = fc.mesiodistal.below_cej_mm;
-      fj["tooth_peak_compression_kpa"] = fp.tooth.peak_compression_kpa;
-      std::ostringstream ft;
-      ft << "  finite elements (" << fc.n_dofs << " dofs): CRes "
-         << fixed(fc.mesiodistal.below_cej_mm, 1) << " mm (mesiodistal), "
-         << fixed(fc.buccolingual.below_cej_mm, 1)
-         << " mm (buccolingual) below the CEJ; peak compression";
-      for (const RootFigures& f : fp.roots) {
-        Json o;
-        o["name"] = f.name;
-        o["peak_compression_kpa"] = f.peak_compression_kpa;
-        o["peak_tension_kpa"] = f.peak_tension_kpa;
-        fj["roots"].push_back(o);
-        ft << " " << f.name << " " << fixed(f.peak_compression_kpa, 1) << " kPa";
-      }
-      ft << "\n";
-      fe_text = ft.str();
-      js["finite_elements"] = fj;
-    }
-    const std::string map_name = std::to_string(i) + "_root_map.csv";
-    js["root_map"] = map_name;
-    results["scenarios"].push_back(js);
+  return txt.str();
+}
 
-    txt << "\nScenario " << i << ": " << s.name << "\n"
-        << "  attachment " << fixed(model.areas().attached_total_mm2, 0) << " of "
-        << fixed(model.areas().total_mm2, 0) << " mm^2; CRes " << fixed(cy.below_cej_mm, 1)
-        << " mm below the CEJ for mesiodistal forces (" << fixed(cy.below_furcation_mm, 1)
-        << " mm below the furcation), " << fixed(cx.below_cej_mm, 1)
-        << " mm for buccolingual forces\n"
-        << "  allowance to " << spec.thresholds.limit.value_kpa
-        << " kPa: " << allowance_text(spec.thresholds.limit.value_kpa) << " " << base_unit
-        << " (to " << spec.thresholds.capillary.value_kpa
-        << " kPa: " << allowance_text(spec.thresholds.capillary.value_kpa) << " " << base_unit
-        << ")\n";
-    txt << fe_text;
-    for (const RootFigures& f : r.roots) {
-      txt << "  " << std::left << std::setw(12) << f.name << " attached "
-          << fixed(f.attachment_area_mm2, 0) << " mm^2, peak " << fixed(f.peak_compression_kpa, 1)
-          << " kPa, above " << spec.thresholds.capillary.value_kpa << " kPa "
-          << fixed(f.area_above_capillary_mm2, 1) << " mm^2, above "
-          << spec.thresholds.limit.value_kpa << " kPa " << fixed(f.area_above_limit_mm2, 1)
-          << " mm^2, load carried " << fixed(f.reaction_n.norm(), 2) << " N\n";
-    }
+std::string fe_summary(const MultiRootFeFigures& fe) {
+  std::ostringstream ft;
+  ft << "  finite elements (" << fe.n_dofs << " dofs): CRes "
+     << fixed(fe.mesiodistal.below_cej_mm, 1) << " mm (mesiodistal), "
+     << fixed(fe.buccolingual.below_cej_mm, 1)
+     << " mm (buccolingual) below the CEJ; peak compression";
+  for (const RootFigures& f : fe.roots)
+    ft << " " << f.name << " " << fixed(f.peak_compression_kpa, 1) << " kPa";
+  ft << "\n";
+  return ft.str();
+}
 
-    // Root map: per part, 30-degree sectors around its own centre by 1 mm of depth below the
-    // CEJ; the largest compression in each cell (empty where nothing is attached).
-    const std::vector<double> p = model.pressure_kpa(load);
-    std::map<std::tuple<int, int, int>, double> cells;
-    for (size_t k = 0; k < p.size(); ++k) {
-      const mesh::RootSurfacePoint& q = model.attached_points()[k];
-      if (q.part == mesh::kRoofPart) continue;
-      const int sector = static_cast<int>(std::floor(q.angle_rad / (kPi / 6))) % 12;
-      const int depth = static_cast<int>(std::floor(-q.x.z()));
-      const auto key = std::make_tuple(q.part, depth, sector);
-      const auto it = cells.find(key);
-      if (it == cells.end() || it->second < p[k]) cells[key] = p[k];
-    }
-    std::ofstream csv(folder + "/" + map_name);
-    csv << "# " << caution_text() << "\n"
-        << "# thin-layer estimate, not finite elements (docs/molars.md); pressure_kpa: the "
-           "largest hydrostatic pressure in the cell (compression > 0; negative: the whole cell "
-           "is in tension)\n"
-        << "part,depth_below_cej_mm_from,depth_below_cej_mm_to,sector_deg_from,sector_deg_to,"
-           "pressure_kpa\n";
-    for (const auto& [key, value] : cells) {
-      const auto [part, depth, sector] = key;
-      csv << (part == mesh::kTrunkPart ? std::string("trunk") : tooth.roots[part].name) << ","
-          << depth << "," << depth + 1 << "," << 30 * sector << "," << 30 * sector + 30 << ","
-          << fixed(value, 3) << "\n";
-    }
-    if (!csv) throw OutputError("cannot write " + folder + "/" + map_name);
+std::string scenario_summary(const MultiRootCase& spec, const std::string& base_unit,
+                             const MultiRootScenarioResult& r, size_t i) {
+  const double capillary = spec.thresholds.capillary.value_kpa;
+  const double limit = spec.thresholds.limit.value_kpa;
+  std::ostringstream txt;
+  txt << "\nScenario " << i << ": " << r.name << "\n"
+      << "  attachment " << fixed(r.areas.attached_total_mm2, 0) << " of "
+      << fixed(r.areas.total_mm2, 0) << " mm^2; CRes " << fixed(r.cres_mesiodistal.below_cej_mm, 1)
+      << " mm below the CEJ for mesiodistal forces ("
+      << fixed(r.cres_mesiodistal.below_furcation_mm, 1) << " mm below the furcation), "
+      << fixed(r.cres_buccolingual.below_cej_mm, 1) << " mm for buccolingual forces\n"
+      << "  allowance to " << limit << " kPa: " << allowance_text(r.allowance_limit) << " "
+      << base_unit << " (to " << capillary << " kPa: " << allowance_text(r.allowance_capillary)
+      << " " << base_unit << ")\n";
+  if (r.has_finite_elements) txt << fe_summary(r.finite_elements);
+  for (const RootFigures& f : r.result.roots) {
+    txt << "  " << std::left << std::setw(12) << f.name << " attached "
+        << fixed(f.attachment_area_mm2, 0) << " mm^2, peak " << fixed(f.peak_compression_kpa, 1)
+        << " kPa, above " << capillary << " kPa " << fixed(f.area_above_capillary_mm2, 1)
+        << " mm^2, above " << limit << " kPa " << fixed(f.area_above_limit_mm2, 1)
+        << " mm^2, load carried " << fixed(f.reaction_n.norm(), 2) << " N\n";
   }
+  return txt.str();
+}
+
+std::string summary_text(const MultiRootCase& spec, const MultiRootCaseResult& r) {
+  std::string txt = summary_header(spec);
+  for (size_t i = 0; i < r.scenarios.size(); ++i)
+    txt += scenario_summary(spec, r.base_unit, r.scenarios[i], i);
+  return txt;
+}
+
+}  // namespace
+
+MultiRootCase parse_multi_root_case(const std::string& json_text, const std::string& origin) {
+  try {
+    Json j;
+    try {
+      j = Json::parse(json_text);
+    } catch (const nlohmann::json::parse_error& e) {
+      throw InputError("file", std::string("not valid JSON: ") + e.what());
+    }
+    Object root(j, "");
+    MultiRootCase c;
+    parse_header(root, &c);
+    mesh::PdlSpec pdl;
+    parse_pdl(root, &c, &pdl);
+    double crest = 1.5;
+    if (const Json* b = root.find("bone")) {
+      Object bo(*b, "bone");
+      crest = bo.number("crest_below_cej_mm", crest);
+      bo.finish();
+    }
+    parse_scenarios(root, crest, pdl, &c);
+    parse_load(root, &c);
+    if (const Json* fe = root.find("finite_elements")) {
+      if (!fe->is_boolean())
+        throw InputError("finite_elements",
+                         "finite_elements must be true or false, not " + fe->dump());
+      c.finite_elements = fe->get<bool>();
+    }
+    parse_thresholds(root, &c);
+    root.finish();
+    check_model(c);
+    return c;
+  } catch (const InputError& e) {
+    throw InputError(e.key(), origin + ": " + e.what());
+  }
+}
+
+MultiRootCase load_multi_root_case(const std::string& path) {
+  std::ifstream in(path);
+  if (!in) throw InputError("file", "cannot read the case file " + path);
+  std::stringstream s;
+  s << in.rdbuf();
+  return parse_multi_root_case(s.str(), path);
+}
+
+bool is_multi_root_case_file(const std::string& path) {
+  std::ifstream in(path);
+  if (!in) return false;
+  const Json j = Json::parse(in, nullptr, false);
+  if (j.is_discarded() || !j.is_object()) return false;
+  const auto kind = j.find("kind");
+  return kind != j.end() && kind->is_string() && kind->get<std::string>() == "multi_root_estimate";
+}
+
+std::string multi_root_part_name(const mesh::MultiRootTooth& tooth, int part) {
+  if (part == mesh::kTrunkPart) return "trunk";
+  if (part == mesh::kRoofPart) return "furcation roof";
+  return tooth.roots.at(static_cast<size_t>(part)).name;
+}
+
+MultiRootCaseResult evaluate_multi_root_case(const MultiRootCase& spec) {
+  MultiRootCaseResult out;
+  out.tooth = mesh::multi_root_handbook(spec.type);
+  out.magnitude = magnitude_in_base_unit(spec);
+  out.base_unit = spec.movement == MolarMovement::kUprighting ? "N mm" : "N";
+  for (const MultiRootScenario& s : spec.scenarios)
+    out.scenarios.push_back(evaluate_scenario(spec, out.tooth, out.magnitude, s));
+  return out;
+}
+
+void run_multi_root_case(const MultiRootCase& spec, const std::string& folder) {
+  const MultiRootCaseResult r = evaluate_multi_root_case(spec);
+  for (size_t i = 0; i < r.scenarios.size(); ++i)
+    write_root_map(r.tooth, r.scenarios[i].root_map, folder, root_map_name(i));
   std::ofstream json_out(folder + "/multi_root_results.json");
-  json_out << results.dump(2) << "\n";
+  json_out << results_json(spec, r).dump(2) << "\n";
   std::ofstream txt_out(folder + "/multi_root_summary.txt");
-  txt_out << txt.str();
+  txt_out << summary_text(spec, r);
   if (!json_out || !txt_out) throw OutputError("cannot write the report into " + folder);
 }
 

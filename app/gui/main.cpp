@@ -18,6 +18,7 @@
 #include "sharpey/startup/freed_memory.h"
 #include "view/allowance_view.h"
 #include "view/main_window.h"
+#include "view/molar_window.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
 #include "view/vtk_view.h"
@@ -83,6 +84,32 @@ void take_screenshots(sharpey::app::MainWindow& window, const QString& folder) {
   window.grab().toImage().save(dir.filePath(QStringLiteral("window_allowance.png")));
   window.show_view(ViewKind::k3D);
   window.export_report(dir.filePath(QStringLiteral("report.pdf")));
+}
+
+// A multi-rooted case: its window (the scenario with the most bone lost) and its PDF report.
+// False when the case could not be evaluated (its message is printed).
+bool take_molar_screenshots(sharpey::app::MolarWindow& molar, const QString& folder) {
+  QDir dir(folder);
+  dir.mkpath(QStringLiteral("."));
+  QString failure;
+  const auto on_failed = QObject::connect(&molar, &sharpey::app::MolarWindow::failed,
+                                          [&failure](const QString& m) { failure = m; });
+  while (molar.busy()) wait_ms(100);  // a finite-element case still meshing and solving
+  QObject::disconnect(on_failed);
+  if (!molar.has_case()) {
+    std::fprintf(stderr, "sharpey: %s\n", failure.toLocal8Bit().constData());
+    return false;
+  }
+  molar.show_scenario(static_cast<int>(molar.result().scenarios.size()) - 1);
+  QApplication::processEvents();
+  wait_ms(300);
+  molar.grab().toImage().save(dir.filePath(QStringLiteral("window_molar.png")));
+  QString error;
+  if (!molar.export_report(dir.filePath(QStringLiteral("report_molar.pdf")), &error)) {
+    std::fprintf(stderr, "sharpey: %s\n", error.toLocal8Bit().constData());
+    return false;
+  }
+  return true;
 }
 
 // The command line, the same for the display-free first pass and the application.
@@ -171,7 +198,12 @@ int main(int argc, char** argv) {
       return 2;
     }
   }
-  if (shoot) {
+  if (shoot && window.molar_window() && window.molar_window()->isVisible()) {
+    const QString folder = parser.value(screenshots);
+    QTimer::singleShot(300, &window, [&window, folder]() {
+      QApplication::exit(take_molar_screenshots(*window.molar_window(), folder) ? 0 : 4);
+    });
+  } else if (shoot) {
     const QString folder = parser.value(screenshots);
     QObject::connect(&window, &sharpey::app::MainWindow::solve_finished, &window,
                      [&window, folder]() {

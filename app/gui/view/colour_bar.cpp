@@ -34,6 +34,13 @@ QColor to_qcolor(const Rgb& rgb) {
                           static_cast<float>(rgb[2]));
 }
 
+std::vector<BarMark> pressure_threshold_marks(const analysis::Thresholds& thresholds) {
+  return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"),
+           to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
+          {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()),
+           Qt::SolidLine, 3.0}};
+}
+
 ColourBar::ColourBar(QWidget* parent) : QWidget(parent) {
   setMinimumWidth(132);
   setSizePolicy(QSizePolicy::Fixed, QSizePolicy::Expanding);

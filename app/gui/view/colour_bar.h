@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "core/colour_map.h"
+#include "sharpey/analysis/case_spec.h"
 
 namespace sharpey::app {
 
@@ -60,5 +61,9 @@ class ColourBar : public QWidget {
 };
 
 QColor to_qcolor(const Rgb& rgb);
+
+// The two pressure thresholds as bar marks: capillary dashed slate, limit solid black (the
+// iso-lines' styles).
+std::vector<BarMark> pressure_threshold_marks(const analysis::Thresholds& thresholds);
 
 }  // namespace sharpey::app

@@ -37,15 +37,18 @@
 #include "core/solution_cache_folder.h"
 #include "core/solve_job.h"
 #include "core/units.h"
+#include "sharpey/analysis/multi_root_case.h"
 #include "sharpey/analysis/report_output.h"
 #include "sharpey/error.h"
 #include "view/allowance_view.h"
 #include "view/case_panel.h"
+#include "view/caution_label.h"
 #include "view/comparison_view.h"
 #include "view/findings_panel.h"
 #include "view/icons.h"
 #include "view/import_dialog.h"
 #include "view/load_panel.h"
+#include "view/molar_window.h"
 #include "view/report_writer.h"
 #include "view/result_view.h"
 #include "view/root_map_view.h"
@@ -216,11 +219,7 @@ void MainWindow::build_layout() {
   outer->addWidget(split, 1);
 
   // The caution, always visible.
-  caution_ = new QLabel(QString::fromStdString(analysis::caution_text()));
-  caution_->setWordWrap(true);
-  caution_->setStyleSheet(
-      QStringLiteral("background: #f6e7c1; color: #463200; padding: 6px; "
-                     "border-left: 5px solid #9c6e14;"));
+  caution_ = new_caution_label();
   outer->addWidget(caution_);
   setCentralWidget(central);
 
@@ -377,7 +376,7 @@ QList<QAction*> MainWindow::build_file_menu(QMenu* file) {
     const QString path = samples.filePath(name);
     samples_menu_->addAction(QFileInfo(name).completeBaseName().replace('_', ' '), this,
                              [this, path]() {
-                               if (maybe_save()) open_case(path);
+                               if (open_keeps_case(path) || maybe_save()) open_case(path);
                              });
   }
   samples_menu_->setEnabled(!samples_menu_->isEmpty());
@@ -651,7 +650,7 @@ void MainWindow::refresh_recent_menu() {
     recent_menu_
         ->addAction(QFileInfo(path).fileName(), this,
                     [this, path]() {
-                      if (maybe_save()) open_case(path);
+                      if (open_keeps_case(path) || maybe_save()) open_case(path);
                     })
         ->setToolTip(path);
   }
@@ -676,6 +675,7 @@ void MainWindow::new_case() {
 }
 
 bool MainWindow::open_case(const QString& path) {
+  if (open_keeps_case(path)) return open_molar_case(path);
   try {
     session_->open(path, options_.mesh_override);
   } catch (const Error& e) {
@@ -686,6 +686,33 @@ bool MainWindow::open_case(const QString& path) {
   autosaved_json_.clear();
   remember_recent(path);
   solve();
+  return true;
+}
+
+// A multi-rooted case opens beside the case here, which then needs no question about saving it.
+bool MainWindow::open_keeps_case(const QString& path) const {
+  return analysis::is_multi_root_case_file(path.toStdString());
+}
+
+// A multi-rooted case: shown in its own window (view/molar_window.h); the case in this window
+// stays as it was.
+bool MainWindow::open_molar_case(const QString& path) {
+  if (!molar_) {
+    molar_ = new MolarWindow(this);
+    connect(molar_, &MolarWindow::failed, this, [this](const QString& message) {
+      show_error(QStringLiteral("Could not evaluate the case"), message);
+    });
+  }
+  QString error;
+  if (!molar_->open(path, &error)) {
+    show_error(QStringLiteral("Could not open the case"), error);
+    return false;
+  }
+  remember_recent(path);
+  molar_->show();
+  molar_->raise();
+  status_->setText(QStringLiteral("Multi-rooted case %1 shown in its own window.")
+                       .arg(QFileInfo(path).fileName()));
   return true;
 }
 

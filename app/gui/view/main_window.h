@@ -33,6 +33,7 @@ class CasePanel;
 class ComparisonView;
 class FindingsPanel;
 class LoadPanel;
+class MolarWindow;
 class ResultView;
 class RootMapView;
 class SolveJob;
@@ -58,7 +59,8 @@ class MainWindow : public QMainWindow {
 
   // ---- files ----
   void new_case();
-  // Opens a case file and starts meshing and solving it. False (and an error) on a bad file.
+  // Opens a case file and starts meshing and solving it. False (and an error) on a bad file. A
+  // multi-rooted case (kind "multi_root_estimate") opens in its own window (molar_window()).
   bool open_case(const QString& path);
   bool save();
   bool save_as(const QString& path);
@@ -107,6 +109,8 @@ class MainWindow : public QMainWindow {
   CasePanel* case_panel() const { return case_panel_; }
   FindingsPanel* findings() const { return findings_; }
   AllowanceView* allowance_view() const { return allowance_; }
+  // The window of the multi-rooted case opened last (null before the first).
+  MolarWindow* molar_window() const { return molar_; }
   QTabWidget* tabs() const { return tabs_; }
   QLabel* caution_label() const { return caution_; }
   QLabel* hover_label() const { return hover_; }
@@ -165,6 +169,8 @@ class MainWindow : public QMainWindow {
   bool end_discarded_job();
   void apply_pending_load(bool interactive);
   void remember_recent(const QString& path);
+  bool open_molar_case(const QString& path);
+  bool open_keeps_case(const QString& path) const;
 
   MainWindowOptions options_;
   std::unique_ptr<CaseSession> session_;
@@ -178,6 +184,7 @@ class MainWindow : public QMainWindow {
   ComparisonView* comparison_ = nullptr;
   FindingsPanel* findings_ = nullptr;
   AllowanceView* allowance_ = nullptr;  // the force-allowance tab
+  MolarWindow* molar_ = nullptr;        // a window of its own, child of this one
   QTabWidget* tabs_ = nullptr;
   QToolBox* left_panels_ = nullptr;
   QComboBox* scenario_box_ = nullptr;

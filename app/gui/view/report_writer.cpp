@@ -10,12 +10,14 @@
 #include <functional>
 
 #include "core/allowance_table.h"
+#include "core/molar_tables.h"
 #include "core/scenario_table.h"
 #include "core/units.h"
 #include "core/verdict.h"
 #include "view/allowance_view.h"
 #include "view/case_panel.h"
 #include "view/findings_panel.h"
+#include "view/molar_root_maps.h"
 #include "view/root_map_view.h"
 #include "view/trend_plot.h"
 
@@ -209,6 +211,28 @@ void paint_caution_box(Page& pg) {
   pg.y = box.bottom() + line;
 }
 
+// The two thresholds with their values and sources.
+void paint_thresholds(Page& pg, const analysis::Thresholds& t, int label_width) {
+  pg.rows({{QStringLiteral("capillary pressure"),
+            with_unit(t.capillary.value_kpa, QStringLiteral("kPa"), 1) +
+                QStringLiteral(". Source: ") + QString::fromStdString(t.capillary.source)},
+           {QStringLiteral("physiological limit"),
+            with_unit(t.limit.value_kpa, QStringLiteral("kPa"), 1) + QStringLiteral(". Source: ") +
+                QString::fromStdString(t.limit.source)}},
+          label_width);
+}
+
+// The first page's top: the title, the case label, the file and date, the caution box.
+void paint_title(Page& pg, const QString& title, const std::string& label,
+                 const QString& case_file) {
+  pg.heading(title, 2.0);
+  pg.paragraph(QString::fromStdString(label), Qt::black, true);
+  pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
+                   .arg(case_file,
+                        QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))));
+  paint_caution_box(pg);
+}
+
 // The verdict's headline on its coloured band, then its words.
 void paint_verdict(Page& pg, const QFont& font, const Verdict& v) {
   QPainter& painter = *pg.p;
@@ -229,7 +253,7 @@ void paint_verdict(Page& pg, const QFont& font, const Verdict& v) {
 // A table: a bold header line, then rows on alternate tints; column c spans xs[c] to xs[c + 1],
 // the first column left-aligned, the others right-aligned.
 void paint_table(Page& pg, const QFont& font, const std::vector<int>& xs, const QStringList& header,
-                 const std::vector<QStringList>& rows) {
+                 const std::vector<QStringList>& rows, int header_lines = 1) {
   QPainter& painter = *pg.p;
   const int line = pg.line;
   const auto alignment = [](int c) {
@@ -238,10 +262,20 @@ void paint_table(Page& pg, const QFont& font, const std::vector<int>& xs, const 
   QFont bold = font;
   bold.setBold(true);
   painter.setFont(bold);
-  for (int c = 0; c < header.size(); ++c)
-    painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line), alignment(c), header[c]);
+  // A header of several lines wraps its titles, each ending on the bottom line.
+  for (int c = 0; c < header.size(); ++c) {
+    if (header_lines == 1) {
+      painter.drawText(QRect(xs[c], pg.y, xs[c + 1] - xs[c], line), alignment(c), header[c]);
+    } else {
+      const int inset = c == 0 ? 0 : line / 4;
+      painter.drawText(
+          QRect(xs[c] + inset, pg.y, xs[c + 1] - xs[c] - inset, header_lines * line),
+          (c == 0 ? Qt::AlignLeft : Qt::AlignRight) | Qt::AlignBottom | Qt::TextWordWrap,
+          header[c]);
+    }
+  }
   painter.setFont(font);
-  pg.y += line + line / 4;
+  pg.y += header_lines * line + line / 4;
   for (size_t row = 0; row < rows.size(); ++row) {
     if (row % 2 == 0)
       painter.fillRect(QRect(pg.body.left(), pg.y, pg.body.width(), line), QColor(240, 238, 232));
@@ -255,12 +289,7 @@ void paint_table(Page& pg, const QFont& font, const std::vector<int>& xs, const 
 void paint_summary_page(Sheet& sheet, const ReportInputs& in, const analysis::ScenarioResult& r) {
   const analysis::CaseSpec& spec = *in.spec;
   Page pg = sheet.begin();
-  pg.heading(QStringLiteral("Sharpey report"), 2.0);
-  pg.paragraph(QString::fromStdString(spec.label), Qt::black, true);
-  pg.paragraph(QStringLiteral("Case file: %1. Written %2.")
-                   .arg(in.case_file,
-                        QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"))));
-  paint_caution_box(pg);
+  paint_title(pg, QStringLiteral("Sharpey report"), spec.label, in.case_file);
   if (in.stale) {
     pg.paragraph(
         QStringLiteral("Note: the case geometry was edited after the last solve; the results "
@@ -273,15 +302,7 @@ void paint_summary_page(Sheet& sheet, const ReportInputs& in, const analysis::Sc
   pg.paragraph(describe(in.load) + '.');
   pg.paragraph(describe_resolved(r, in.load.unit).replace(QLatin1Char('\n'), QLatin1Char(' ')));
   pg.heading(QStringLiteral("Thresholds and their sources"));
-  pg.rows(
-      {{QStringLiteral("capillary pressure"),
-        with_unit(spec.thresholds.capillary.value_kpa, QStringLiteral("kPa"), 1) +
-            QStringLiteral(". Source: ") +
-            QString::fromStdString(spec.thresholds.capillary.source)},
-       {QStringLiteral("physiological limit"),
-        with_unit(spec.thresholds.limit.value_kpa, QStringLiteral("kPa"), 1) +
-            QStringLiteral(". Source: ") + QString::fromStdString(spec.thresholds.limit.source)}},
-      sheet.body.width() / 4);
+  paint_thresholds(pg, spec.thresholds, sheet.body.width() / 4);
   pg.heading(QStringLiteral("Reading for %1").arg(QString::fromStdString(r.name)));
   paint_verdict(pg, sheet.font, judge(r, spec.thresholds));
   if (r.beyond_linear_range) {
@@ -447,6 +468,134 @@ void paint_allowance_pages(Sheet& sheet, const ReportInputs& in) {
   }
 }
 
+// Opens `path` as an A4 PDF at 300 dpi, lets `paint` fill its pages and returns their number
+// (0 and `error` when the file cannot be written).
+int write_pdf(const QString& path, const QString& title, int total_pages, const QString& case_file,
+              QString* error, const std::function<void(Sheet&)>& paint) {
+  QPdfWriter writer(path);
+  writer.setPageSize(QPageSize(QPageSize::A4));
+  writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
+  writer.setResolution(300);
+  writer.setTitle(title);
+  writer.setCreator(QStringLiteral("Sharpey"));
+  QPainter painter;
+  if (!painter.begin(&writer)) {
+    if (error)
+      *error =
+          QStringLiteral("cannot write %1 (no permission, or the folder does not exist)").arg(path);
+    return 0;
+  }
+  QFont font(QStringLiteral("DejaVu Sans"));
+  font.setPointSizeF(9.5);
+  painter.setFont(font);
+  const QRect page = painter.viewport();
+  const int line = painter.fontMetrics().height();
+  // The body ends half a line above the footer, whatever the caution's length.
+  const QRect body(page.left(), page.top(), page.width(),
+                   page.height() - footer_height(painter, page) - line / 2);
+  Sheet sheet{&writer, &painter, font, page, body, line, 0, total_pages, case_file};
+  paint(sheet);
+  painter.end();
+  return sheet.pages;
+}
+
+// ---- the multi-rooted report ----
+
+// A MolarTable as a report table: the row names in a first column a third of the body wide.
+void paint_molar_table(Page& pg, const QFont& font, const QString& corner, const MolarTable& t,
+                       double name_share = 0.3, int header_lines = 2) {
+  if (t.rows.empty()) return;
+  const QRect& body = pg.body;
+  std::vector<int> xs = {body.left(), body.left() + static_cast<int>(body.width() * name_share)};
+  const int n = static_cast<int>(t.columns.size());
+  for (int c = 1; c <= n; ++c) xs.push_back(xs[1] + (body.right() - xs[1]) * c / n);
+  QStringList header = {corner};
+  header << t.columns;
+  std::vector<QStringList> rows;
+  for (size_t r = 0; r < t.rows.size(); ++r) {
+    QStringList cells = {t.rows[r].name};
+    for (size_t c = 0; c < t.rows[r].values.size(); ++c)
+      cells << molar_cell_text(t.rows[r].values[c], t.decimals_at(r, c));
+    rows.push_back(cells);
+  }
+  QFont small = font;
+  small.setPointSizeF(font.pointSizeF() * 0.85);
+  pg.p->setFont(small);
+  paint_table(pg, small, xs, header, rows, header_lines);
+  pg.p->setFont(font);
+  pg.y += pg.line / 2;
+}
+
+// Page 1: the case, the method, the thresholds, and the scenarios side by side.
+void paint_molar_summary_page(Sheet& sheet, const MolarReportInputs& in) {
+  const analysis::MultiRootCase& spec = *in.spec;
+  Page pg = sheet.begin();
+  paint_title(pg, QStringLiteral("Sharpey report: multi-rooted tooth"), spec.label, in.case_file);
+  pg.heading(QStringLiteral("Case and method"));
+  pg.paragraph(describe_molar_case(spec) + QStringLiteral(". PDL E %1 MPa, \u03bd %2.")
+                                               .arg(spec.pdl.young_modulus_mpa, 0, 'f', 2)
+                                               .arg(spec.pdl.poisson_ratio, 0, 'f', 2));
+  pg.paragraph(molar_method_label() + QStringLiteral(" (docs/molars.md)."), QColor(120, 60, 0),
+               true);
+  if (spec.finite_elements)
+    pg.paragraph(QStringLiteral(
+        "The tables marked \"finite elements\" come from a finite-element model of the same "
+        "tooth (faceted multi-rooted mesh, coarse sizes)."));
+  if (!spec.notes.empty()) pg.paragraph(QString::fromStdString(spec.notes));
+  pg.heading(QStringLiteral("Thresholds and their sources"));
+  paint_thresholds(pg, spec.thresholds, sheet.body.width() / 4);
+  pg.heading(QStringLiteral("Scenarios (thin-layer estimate)"));
+  MolarTable t;
+  t.columns = {QStringLiteral("attached (mm²)"), QStringLiteral("peak compression (kPa)"),
+               QStringLiteral("CRes (mesiodistal) below the CEJ (mm)"),
+               QStringLiteral("CRes below the furcation (mm)"),
+               QStringLiteral("%1 allowance to %2 kPa")
+                   .arg(QString::fromStdString(analysis::to_string(spec.movement)))
+                   .arg(spec.thresholds.limit.value_kpa)};
+  t.decimals = {1, 1, 2, 2, force_decimals(in.unit)};
+  for (const analysis::MultiRootScenarioResult& r : in.result->scenarios) {
+    double allowance = 0;
+    for (const MolarRow& row : molar_allowance_table(r, spec.thresholds, in.unit).rows)
+      if (row.name == molar_movement_label(spec.movement, in.unit)) allowance = row.values[1];
+    t.rows.push_back(
+        {QString::fromStdString(r.name),
+         {r.areas.attached_total_mm2, r.result.tooth.peak_compression_kpa,
+          r.cres_mesiodistal.below_cej_mm, r.cres_mesiodistal.below_furcation_mm, allowance}});
+  }
+  paint_molar_table(pg, sheet.font, QStringLiteral("scenario"), t, 0.34, 4);
+  pg.paragraph(QStringLiteral("Allowances in %1 (couples in %2); each scenario's page gives the "
+                              "three molar movements to both thresholds.")
+                   .arg(force_unit_label(in.unit), moment_unit_label(in.unit)));
+  sheet.finish();
+}
+
+// One page per scenario: its 3D view, the per-root, CRes, allowance (and finite-element)
+// tables and the root maps side by side.
+void paint_molar_scenario_page(Sheet& sheet, const MolarReportInputs& in, size_t k) {
+  const analysis::MultiRootScenarioResult& r = in.result->scenarios[k];
+  const analysis::Thresholds& thresholds = in.spec->thresholds;
+  const QRect& body = sheet.body;
+  Page pg = sheet.begin();
+  pg.heading(QStringLiteral("Scenario %1: %2").arg(k + 1).arg(QString::fromStdString(r.name)));
+  pg.paragraph(QStringLiteral("Thin-layer estimate under %1.").arg(describe_molar_case(*in.spec)));
+  if (k < in.views.size()) pg.image(in.views[k], body.height() / 4);
+  paint_molar_table(pg, sheet.font, QStringLiteral("per root"),
+                    molar_root_table(r, thresholds, in.unit));
+  paint_molar_table(pg, sheet.font, QStringLiteral("centre of resistance"), molar_cres_table(r));
+  paint_molar_table(pg, sheet.font, QStringLiteral("allowance"),
+                    molar_allowance_table(r, thresholds, in.unit));
+  if (r.has_finite_elements)
+    paint_molar_table(pg, sheet.font, QStringLiteral("finite elements"), molar_fe_table(r));
+  MolarRootMaps maps;
+  maps.set_maps(
+      molar_map_parts(in.result->tooth, r.root_map), thresholds,
+      QStringLiteral("Root maps, %1 (thin-layer estimate)").arg(QString::fromStdString(r.name)));
+  const int map_height = std::min(body.bottom() - pg.y, body.width() / 2);
+  paint_scaled(*sheet.painter, sheet.font, body, pg.y, map_height,
+               [&maps](QPainter& p, const QRect& area) { maps.paint_into(p, area); });
+  sheet.finish();
+}
+
 }  // namespace
 
 int report_page_count(const ReportInputs& in) {
@@ -464,37 +613,34 @@ int write_report(const QString& path, const ReportInputs& in, QString* error) {
   const auto& results = *in.results;
   const int current = std::clamp(in.current, 0, static_cast<int>(results.size()) - 1);
   const analysis::ScenarioResult& r = results[static_cast<size_t>(current)];
-
-  QPdfWriter writer(path);
-  writer.setPageSize(QPageSize(QPageSize::A4));
-  writer.setPageMargins(QMarginsF(16, 14, 16, 14), QPageLayout::Millimeter);
-  writer.setResolution(300);
   // The force system as set, beside the case label (which may name an older one).
-  writer.setTitle(QStringLiteral("Sharpey report: %1 (%2)")
-                      .arg(QString::fromStdString(in.spec->label), describe(in.load)));
-  writer.setCreator(QStringLiteral("Sharpey"));
-  QPainter painter;
-  if (!painter.begin(&writer)) {
-    if (error)
-      *error =
-          QStringLiteral("cannot write %1 (no permission, or the folder does not exist)").arg(path);
+  const QString title = QStringLiteral("Sharpey report: %1 (%2)")
+                            .arg(QString::fromStdString(in.spec->label), describe(in.load));
+  return write_pdf(path, title, report_page_count(in), in.case_file, error, [&](Sheet& sheet) {
+    paint_summary_page(sheet, in, r);
+    paint_level_page(sheet, in, r);
+    paint_comparison_page(sheet, in);
+    if (has_allowances(in)) paint_allowance_pages(sheet, in);
+  });
+}
+
+int molar_report_page_count(const MolarReportInputs& in) {
+  return in.result ? 1 + static_cast<int>(in.result->scenarios.size()) : 0;
+}
+
+int write_molar_report(const QString& path, const MolarReportInputs& in, QString* error) {
+  if (!in.spec || !in.result || in.result->scenarios.empty()) {
+    if (error) *error = QStringLiteral("there is no multi-rooted case to report; open one first");
     return 0;
   }
-  QFont font(QStringLiteral("DejaVu Sans"));
-  font.setPointSizeF(9.5);
-  painter.setFont(font);
-  const QRect page = painter.viewport();
-  const int line = painter.fontMetrics().height();
-  // The body ends half a line above the footer, whatever the caution's length.
-  const QRect body(page.left(), page.top(), page.width(),
-                   page.height() - footer_height(painter, page) - line / 2);
-  Sheet sheet{&writer, &painter, font, page, body, line, 0, report_page_count(in), in.case_file};
-  paint_summary_page(sheet, in, r);
-  paint_level_page(sheet, in, r);
-  paint_comparison_page(sheet, in);
-  if (has_allowances(in)) paint_allowance_pages(sheet, in);
-  painter.end();
-  return sheet.pages;
+  const QString title = QStringLiteral("Sharpey report, multi-rooted tooth: %1")
+                            .arg(QString::fromStdString(in.spec->label));
+  return write_pdf(path, title, molar_report_page_count(in), in.case_file, error,
+                   [&](Sheet& sheet) {
+                     paint_molar_summary_page(sheet, in);
+                     for (size_t k = 0; k < in.result->scenarios.size(); ++k)
+                       paint_molar_scenario_page(sheet, in, k);
+                   });
 }
 
 }  // namespace sharpey::app

@@ -11,6 +11,7 @@
 #include "core/load_controls.h"
 #include "sharpey/analysis/allowance_band.h"
 #include "sharpey/analysis/force_allowance.h"
+#include "sharpey/analysis/multi_root_case.h"
 #include "sharpey/analysis/study.h"
 
 namespace sharpey::app {
@@ -40,5 +41,22 @@ inline constexpr int kAllowanceLevelsPerPage = 2;
 // Number of pages write_report produces for `inputs`: kReportPages, plus one page per
 // kAllowanceLevelsPerPage levels when every level has its allowances.
 int report_page_count(const ReportInputs& inputs);
+
+// The multi-rooted report (a case of kind "multi_root_estimate", view/molar_window.h): page 1 the
+// case, the method (thin-layer estimate) and the scenarios side by side; then a page per scenario
+// with its 3D view, the per-root, centre-of-resistance and allowance tables (and the
+// finite-element figures when the case asks for them) and the root maps side by side. The caution
+// on every page.
+struct MolarReportInputs {
+  const analysis::MultiRootCase* spec = nullptr;
+  const analysis::MultiRootCaseResult* result = nullptr;
+  analysis::ForceUnit unit = analysis::ForceUnit::kNewton;  // forces and couples shown in it
+  QString case_file;
+  std::vector<QImage> views;  // the 3D view of each scenario (missing ones: none drawn)
+};
+int write_molar_report(const QString& path, const MolarReportInputs& inputs,
+                       QString* error = nullptr);
+// 1 + the number of scenarios.
+int molar_report_page_count(const MolarReportInputs& inputs);
 
 }  // namespace sharpey::app

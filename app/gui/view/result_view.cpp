@@ -21,10 +21,7 @@ bool has_threshold_lines(Quantity q) { return q == Quantity::kPressure; }
 
 std::vector<BarMark> threshold_marks(const analysis::Thresholds& thresholds, Quantity q) {
   if (!has_threshold_lines(q)) return {};
-  return {{thresholds.capillary.value_kpa, QStringLiteral("capillary"),
-           to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
-          {thresholds.limit.value_kpa, QStringLiteral("limit"), to_qcolor(limit_line_colour()),
-           Qt::SolidLine, 3.0}};
+  return pressure_threshold_marks(thresholds);
 }
 
 QString band_note(const ValueRange& shown, const ValueRange& band, const QString& unit) {

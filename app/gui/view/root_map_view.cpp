@@ -224,10 +224,7 @@ void RootMapView::paint_into(QPainter& painter, const QRect& area) const {
   n_segments_ = paint_outlines(painter, map_, plot, thresholds_);
   paint_map_axes(painter, map_, area, plot, text, line);
   paint_map_legend(painter, plot.left(), title_rect.bottom() + line / 2 + 4, thresholds_, text);
-  const std::vector<BarMark> marks = {{thresholds_.capillary.value_kpa, QStringLiteral("capillary"),
-                                       to_qcolor(capillary_line_colour()), Qt::DashLine, 2.0},
-                                      {thresholds_.limit.value_kpa, QStringLiteral("limit"),
-                                       to_qcolor(limit_line_colour()), Qt::SolidLine, 3.0}};
+  const std::vector<BarMark> marks = pressure_threshold_marks(thresholds_);
   ColourBar::draw(
       painter,
       QRect(plot.right() + 8, plot.top() - 3 * line, bar_width, plot.height() + 3 * line + line),
