@@ -18,12 +18,15 @@ constexpr int kLeader = 8;  // px between a threshold name and the bar, for its 
 
 // `font` made smaller by `factor`, in the unit it is given in: a pixel-sized font (the PDF report
 // paints with one) has no point size, and giving it one (6 pt at 300 dpi) made the labels huge.
+// The floor (6 pt or 6 px, for legibility) never makes the result larger than `font` itself.
 QFont smaller(const QFont& font, double factor) {
   QFont out = font;
   if (font.pointSizeF() > 0) {
-    out.setPointSizeF(std::max(6.0, font.pointSizeF() * factor));
+    const double pt = font.pointSizeF();
+    out.setPointSizeF(std::max(std::min(6.0, pt), pt * factor));
   } else if (font.pixelSize() > 0) {
-    out.setPixelSize(std::max(6, static_cast<int>(std::lround(font.pixelSize() * factor))));
+    const int px = font.pixelSize();
+    out.setPixelSize(std::max(std::min(6, px), static_cast<int>(std::lround(px * factor))));
   }
   return out;
 }

@@ -12,7 +12,11 @@
 #include <vtkUnsignedCharArray.h>
 
 #include <QPainter>
+#include <algorithm>
 #include <cmath>
+#include <map>
+#include <utility>
+#include <vector>
 
 #include "view/colour_bar.h"
 #include "view/vtk_view.h"
@@ -48,6 +52,35 @@ void paint_legend(QPainter& p, const QSize& size, const QString& title) {
                             "mesial to the right. Thin-layer estimate."));
 }
 
+// The trunk's and each root's quadrature points lie on rings (one height, one count around):
+// neighbouring rings of a part with the same count are joined by quads, so the surface reads as a
+// surface. The roof and a cylinder's end disc are not rings; they stay points.
+std::vector<std::vector<vtkIdType>> ring_quads(const std::vector<mesh::RootSurfacePoint>& surface,
+                                               std::vector<bool>* in_quad) {
+  std::map<std::pair<int, double>, std::vector<vtkIdType>> rings;  // (part, z) -> point ids
+  for (size_t i = 0; i < surface.size(); ++i) {
+    if (surface[i].part == mesh::kRoofPart) continue;
+    rings[{surface[i].part, surface[i].x.z()}].push_back(static_cast<vtkIdType>(i));
+  }
+  for (auto& [key, ids] : rings)
+    std::sort(ids.begin(), ids.end(), [&](vtkIdType a, vtkIdType b) {
+      return surface[a].angle_rad < surface[b].angle_rad;
+    });
+  std::vector<std::vector<vtkIdType>> quads;
+  for (auto below = rings.begin(); below != rings.end(); ++below) {
+    const auto above = std::next(below);
+    if (above == rings.end() || above->first.first != below->first.first) continue;
+    const std::vector<vtkIdType>&a = below->second, &b = above->second;
+    if (a.size() != b.size() || a.size() < 3) continue;
+    for (size_t k = 0; k < a.size(); ++k) {
+      const size_t next = (k + 1) % a.size();
+      quads.push_back({a[k], a[next], b[next], b[k]});
+      for (const vtkIdType id : quads.back()) (*in_quad)[static_cast<size_t>(id)] = true;
+    }
+  }
+  return quads;
+}
+
 }  // namespace
 
 MolarScene::MolarScene(VtkView* view) : view_(view) {
@@ -57,23 +90,25 @@ MolarScene::MolarScene(VtkView* view) : view_(view) {
   scene->SetBackground(bottom[0], bottom[1], bottom[2]);
   scene->SetBackground2(top[0], top[1], top[2]);
   actor_ = vtkSmartPointer<vtkActor>::New();
-  actor_->GetProperty()->SetRepresentationToPoints();
   actor_->GetProperty()->RenderPointsAsSpheresOn();
-  actor_->GetProperty()->SetPointSize(6.0f);
+  actor_->GetProperty()->SetPointSize(4.0f);
   scene->AddActor(actor_);
 }
 
 void MolarScene::show(const analysis::MultiRootScenarioResult& r, const ColourScale& scale,
                       const QString& title) {
   vtkNew<vtkPoints> points;
-  vtkNew<vtkCellArray> vertices;
+  vtkNew<vtkCellArray> vertices, quads;
   vtkNew<vtkUnsignedCharArray> colours;
+  std::vector<bool> in_quad(r.surface.size(), false);
+  for (const std::vector<vtkIdType>& q : ring_quads(r.surface, &in_quad))
+    quads->InsertNextCell(static_cast<vtkIdType>(q.size()), q.data());
   colours->SetNumberOfComponents(3);
   n_attached_ = n_lost_ = 0;
   for (size_t i = 0; i < r.surface.size(); ++i) {
     const Eigen::Vector3d& x = r.surface[i].x;
     const vtkIdType id = points->InsertNextPoint(x.x(), x.y(), x.z());
-    vertices->InsertNextCell(1, &id);
+    if (!in_quad[i]) vertices->InsertNextCell(1, &id);
     const bool attached = r.surface[i].attached;
     const Rgb c = attached ? scale.colour(r.surface_pressure_kpa[i]) : lost_surface_colour();
     colours->InsertNextTuple3(byte(c[0]), byte(c[1]), byte(c[2]));
@@ -82,6 +117,7 @@ void MolarScene::show(const analysis::MultiRootScenarioResult& r, const ColourSc
   vtkNew<vtkPolyData> poly;
   poly->SetPoints(points);
   poly->SetVerts(vertices);
+  poly->SetPolys(quads);
   poly->GetPointData()->SetScalars(colours);
   vtkNew<vtkPolyDataMapper> mapper;
   mapper->SetInputData(poly);
