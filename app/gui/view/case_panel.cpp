@@ -41,6 +41,19 @@ QString tooth_name(int tooth_type) {
 
 CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), session_(session) {
   auto* outer = new QVBoxLayout(this);
+  build_case_form(outer);
+  build_levels(outer);
+  build_defect_form(outer);
+  build_materials(outer);
+  build_thresholds(outer);
+  build_solve(outer);
+  connect_case_form();
+  connect_levels();
+  reload();
+}
+
+// Label, tooth, ligament width and mesh preset.
+void CasePanel::build_case_form(QVBoxLayout* outer) {
   auto* form = new QFormLayout;
   form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
   label_ = new QLineEdit;
@@ -66,7 +79,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   preset_->setToolTip(QStringLiteral("Mesh fineness: coarse is quick, fine is slow"));
   form->addRow(QStringLiteral("Mesh"), preset_);
   outer->addLayout(form);
+}
 
+// The bone-level table and the row that adds or removes a level.
+void CasePanel::build_levels(QVBoxLayout* outer) {
   outer->addWidget(new QLabel(QStringLiteral("<b>Bone levels</b> (tick two to four to compare)")));
   levels_ = new QTableWidget(0, 4);
   levels_->setHorizontalHeaderLabels({QStringLiteral("compare"), QStringLiteral("name"),
@@ -86,13 +102,15 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   new_loss_->setDecimals(1);
   new_loss_->setValue(5.0);
   new_loss_->setSuffix(QStringLiteral(" mm"));
-  auto* add = new QPushButton(QStringLiteral("Add level"));
-  auto* remove = new QPushButton(QStringLiteral("Remove"));
+  add_level_ = new QPushButton(QStringLiteral("Add level"));
+  remove_level_ = new QPushButton(QStringLiteral("Remove"));
   add_row->addWidget(new_loss_);
-  add_row->addWidget(add);
-  add_row->addWidget(remove);
+  add_row->addWidget(add_level_);
+  add_row->addWidget(remove_level_);
   outer->addLayout(add_row);
+}
 
+void CasePanel::build_defect_form(QVBoxLayout* outer) {
   // Angular defect of the selected level (case file: scenarios[i].angular_defect).
   defect_title_ = new QLabel;
   outer->addWidget(defect_title_);
@@ -116,6 +134,12 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   defect->addRow(QStringLiteral("Width"), defect_width_);
   outer->addLayout(defect);
 
+  connect(defect_depth_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
+  connect(defect_width_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
+  connect(defect_surface_, &QComboBox::currentIndexChanged, this, [this]() { defect_edited(); });
+}
+
+void CasePanel::build_materials(QVBoxLayout* outer) {
   // Materials (case file: pdl.material, bone.cortical_material, bone.cancellous_material).
   outer->addWidget(new QLabel(QStringLiteral("<b>Materials</b> (linear elastic)")));
   auto* materials = new QFormLayout;
@@ -142,7 +166,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     connect(nu, &QDoubleSpinBox::valueChanged, this, [this, i]() { material_edited(i); });
   }
   outer->addLayout(materials);
+}
 
+// The two thresholds with their sources.
+void CasePanel::build_thresholds(QVBoxLayout* outer) {
   outer->addWidget(new QLabel(QStringLiteral("<b>Pressure thresholds</b>")));
   auto* thresholds = new QFormLayout;
   capillary_ = new QDoubleSpinBox;
@@ -166,6 +193,15 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   thresholds->addRow(limit_source_);
   outer->addLayout(thresholds);
 
+  auto thresholds_edited = [this]() {
+    if (!updating_) session_->set_thresholds(capillary_->value(), limit_->value());
+  };
+  connect(capillary_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
+  connect(limit_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
+}
+
+// The stale notice and the solve button.
+void CasePanel::build_solve(QVBoxLayout* outer) {
   stale_ = new QLabel;
   stale_->setWordWrap(true);
   stale_->setStyleSheet(QStringLiteral("background: #f6e7c1; color: #5b4100; padding: 4px;"));
@@ -175,6 +211,10 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
   outer->addWidget(solve_);
   outer->addStretch(1);
 
+  connect(solve_, &QPushButton::clicked, this, &CasePanel::solve_requested);
+}
+
+void CasePanel::connect_case_form() {
   connect(label_, &QLineEdit::editingFinished, this, [this]() {
     if (!updating_) session_->set_label(label_->text());
   });
@@ -189,12 +229,11 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     if (!updating_)
       session_->set_mesh_preset(static_cast<mesh::MeshPreset>(preset_->currentData().toInt()));
   });
-  auto thresholds_edited = [this]() {
-    if (!updating_) session_->set_thresholds(capillary_->value(), limit_->value());
-  };
-  connect(capillary_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
-  connect(limit_, &QDoubleSpinBox::valueChanged, this, thresholds_edited);
-  connect(add, &QPushButton::clicked, this, [this]() {
+}
+
+// Add, remove, rename, re-level or tick a level for comparison; the defect form follows the row.
+void CasePanel::connect_levels() {
+  connect(add_level_, &QPushButton::clicked, this, [this]() {
     ScenarioList list = session_->levels();
     try {
       list.add(new_loss_->value());
@@ -205,7 +244,7 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     }
     reload_levels();
   });
-  connect(remove, &QPushButton::clicked, this, [this]() {
+  connect(remove_level_, &QPushButton::clicked, this, [this]() {
     const int row = levels_->currentRow();
     if (row < 0) return;
     ScenarioList list = session_->levels();
@@ -232,12 +271,7 @@ CasePanel::CasePanel(CaseSession* session, QWidget* parent) : QWidget(parent), s
     }
     levels_edited();
   });
-  connect(solve_, &QPushButton::clicked, this, &CasePanel::solve_requested);
   connect(levels_, &QTableWidget::currentCellChanged, this, [this]() { reload_defect(); });
-  connect(defect_depth_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
-  connect(defect_width_, &QDoubleSpinBox::valueChanged, this, [this]() { defect_edited(); });
-  connect(defect_surface_, &QComboBox::currentIndexChanged, this, [this]() { defect_edited(); });
-  reload();
 }
 
 void CasePanel::reload_defect() {

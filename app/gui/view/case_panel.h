@@ -13,6 +13,7 @@ class QLabel;
 class QLineEdit;
 class QPushButton;
 class QTableWidget;
+class QVBoxLayout;
 
 namespace sharpey::app {
 
@@ -37,6 +38,14 @@ class CasePanel : public QWidget {
   void edit_refused(const QString& title, const QString& message);
 
  private:
+  void build_case_form(QVBoxLayout* outer);
+  void build_levels(QVBoxLayout* outer);
+  void build_defect_form(QVBoxLayout* outer);
+  void build_materials(QVBoxLayout* outer);
+  void build_thresholds(QVBoxLayout* outer);
+  void build_solve(QVBoxLayout* outer);
+  void connect_case_form();
+  void connect_levels();
   void reload_levels();
   void levels_edited();
   void reload_defect();
@@ -51,6 +60,8 @@ class CasePanel : public QWidget {
   QComboBox* preset_ = nullptr;
   QTableWidget* levels_ = nullptr;
   QDoubleSpinBox* new_loss_ = nullptr;
+  QPushButton* add_level_ = nullptr;
+  QPushButton* remove_level_ = nullptr;
   QLabel* defect_title_ = nullptr;
   QDoubleSpinBox* defect_depth_ = nullptr;
   QComboBox* defect_surface_ = nullptr;

@@ -69,7 +69,15 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   auto* outer = new QVBoxLayout(this);
   outer->setContentsMargins(0, 0, 0, 0);
   outer->setSpacing(2);
+  QToolButton* reset = build_options(outer);
+  build_view(outer);
+  connect_options(reset);
+  connect_view_events();
+}
 
+// The row of display options above the view: quantity, bone, section, force system, colour range,
+// view side and reset. Returns the reset button for connect_options().
+QToolButton* ResultView::build_options(QVBoxLayout* outer) {
   options_ = new QWidget;
   auto* opt = new QHBoxLayout(options_);
   opt->setContentsMargins(4, 2, 4, 2);
@@ -111,7 +119,11 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   opt->addWidget(view_box_);
   opt->addWidget(reset);
   outer->addWidget(options_);
+  return reset;
+}
 
+// The VTK view with the colour bar beside it, and the scene drawn in it.
+void ResultView::build_view(QVBoxLayout* outer) {
   auto* row = new QHBoxLayout;
   row->setSpacing(0);
   view_ = new VtkView;
@@ -124,7 +136,9 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
   // Half-resolution frames: pixel sizes follow, so labels and lines keep their look on screen.
   connect(view_, &VtkView::pixel_scale_changed, this,
           [this](double scale) { scene_->set_pixel_scale(scale); });
+}
 
+void ResultView::connect_options(QToolButton* reset) {
   connect(glyphs_box_, &QCheckBox::toggled, this, [this](bool on) {
     scene_->set_glyphs_visible(on);
     view_->update();
@@ -137,6 +151,10 @@ ResultView::ResultView(QWidget* parent) : QWidget(parent) {
     if (side >= 0) look_from(static_cast<ViewSide>(side));
     view_box_->setCurrentIndex(0);
   });
+}
+
+// Decoration, hover read-out and the lighter frames while the mouse turns the view.
+void ResultView::connect_view_events() {
   view_->set_decoration(
       [this](QPainter& painter, const QSize& size) { draw_marker(painter, size); });
   // Fewer triangles while the mouse turns the view; full detail for the still frame.

@@ -20,6 +20,8 @@ class QCheckBox;
 class QComboBox;
 class QHBoxLayout;
 class QPainter;
+class QToolButton;
+class QVBoxLayout;
 
 namespace sharpey::app {
 
@@ -107,6 +109,10 @@ class ResultView : public QWidget {
   void hover_changed(const QString& text);
 
  private:
+  QToolButton* build_options(QVBoxLayout* outer);
+  void build_view(QVBoxLayout* outer);
+  void connect_options(QToolButton* reset);
+  void connect_view_events();
   void refresh();
 
   VtkView* view_ = nullptr;
