@@ -7,9 +7,8 @@
 //     walls of the plates (interface): tensor grids whose columns are the grids' boundary points.
 // Column i of a radial grid joins the socket ring's uniform column i to boundary point i of R_in
 // (the extra socket columns around an angular defect join the grid's first row: add_socket_grid);
-// the
-// corners of R_in sit on columns k1, N/2 - k1, N/2 + k1 and N - k1 so that opposite edges carry
-// the same points.
+// the corners of R_in sit on columns k1, N/2 - k1, N/2 + k1 and N - k1 so that opposite edges
+// carry the same points.
 #include <Eigen/Geometry>
 #include <algorithm>
 #include <cmath>
