@@ -512,7 +512,14 @@ void ModelMesher::add_zipper(const std::vector<int>& p, const std::vector<int>& 
 }
 
 void ModelMesher::build_pdl_layer() {
-  const ToothShape& shape = frame_.shape();
+  add_pdl_points();
+  const std::vector<int> rank = prism_split_rank();
+  add_pdl_prisms(rank);
+  add_pdl_free_top(rank);
+  hole_ = frame_.pdl_point(0.0, 0.5 * (crest_s_[0] - 1.0), 0.5);
+}
+
+void ModelMesher::add_pdl_points() {
   const int n_layers = frame_.sizes().pdl_layers;
   layer_.assign(n_layers + 1, std::vector<int>(points_.size(), -1));
   for (int p = 0; p < points_.size(); ++p) layer_[0][p] = p;
@@ -528,13 +535,44 @@ void ModelMesher::build_pdl_layer() {
       }
     }
   }
+}
 
-  // Prisms between consecutive layers over each root triangle, three tetrahedra each. Every side
-  // quad is split along the diagonal from its lower-index root vertex on the inner layer to the
-  // higher-index one on the outer layer, so neighbouring prisms share their split faces.
+// Without an angular defect the point index. With one, the order of (ring, |angle|), which the
+// mirror image y -> -y keeps: mirrored defects (mesial and distal) then get mirror-image PDL
+// elements (two points of one triangle never share both keys: a column and its mirror image are
+// never neighbours). Meshes without a defect keep the index order they have always had.
+std::vector<int> ModelMesher::prism_split_rank() const {
+  std::vector<int> rank(points_.size());
+  for (int p = 0; p < points_.size(); ++p) rank[p] = p;
+  if (column_theta_.size() == static_cast<size_t>(n_columns_)) return rank;
+  struct Key {
+    int ring;
+    double angle;
+    int point;
+  };
+  std::vector<Key> keys;
+  for (size_t r = crest_ring_; r < rings_.size(); ++r) {
+    for (int p : rings_[r]) {
+      const double theta = points_.info()[p].theta;
+      keys.push_back(
+          {static_cast<int>(r), std::isnan(theta) ? 0.0 : std::abs(wrap_angle(theta)), p});
+    }
+  }
+  std::sort(keys.begin(), keys.end(), [](const Key& a, const Key& b) {
+    return a.ring != b.ring ? a.ring < b.ring : a.angle < b.angle;
+  });
+  for (size_t k = 0; k < keys.size(); ++k) rank[keys[k].point] = static_cast<int>(k);
+  return rank;
+}
+
+// Prisms between consecutive layers over each root triangle, three tetrahedra each. Every side
+// quad is split along the diagonal from its lower-ranked root vertex on the inner layer to the
+// higher-ranked one on the outer layer, so neighbouring prisms share their split faces.
+void ModelMesher::add_pdl_prisms(const std::vector<int>& rank) {
+  const int n_layers = frame_.sizes().pdl_layers;
   for (const auto& t : root_triangles_) {
     std::array<int, 3> v = t;
-    std::sort(v.begin(), v.end());
+    std::sort(v.begin(), v.end(), [&](int a, int b) { return rank[a] < rank[b]; });
     for (int k = 0; k < n_layers; ++k) {
       const int a = layer_[k][v[0]], b = layer_[k][v[1]], c = layer_[k][v[2]];
       const int a1 = layer_[k + 1][v[0]], b1 = layer_[k + 1][v[1]], c1 = layer_[k + 1][v[2]];
@@ -551,13 +589,18 @@ void ModelMesher::build_pdl_layer() {
         (x[tet[1]] - x[tet[0]]).dot((x[tet[2]] - x[tet[0]]).cross(x[tet[3]] - x[tet[0]]));
     if (v < 0) std::swap(tet[1], tet[2]);
   }
+}
 
-  // Free top of the PDL between the root's crest ring and the socket's, split like the prisms.
+// Free top of the PDL between the root's crest ring and the socket's, split like the prisms.
+void ModelMesher::add_pdl_free_top(const std::vector<int>& rank) {
+  const ToothShape& shape = frame_.shape();
+  const int n_layers = frame_.sizes().pdl_layers;
   const std::vector<int>& crest = rings_[crest_ring_];
   const int n = static_cast<int>(crest.size());
   for (int i = 0; i < n; ++i) {
-    const int lo = std::min(crest[i], crest[(i + 1) % n]);
-    const int hi = std::max(crest[i], crest[(i + 1) % n]);
+    const int p = crest[i], q = crest[(i + 1) % n];
+    const int lo = rank[p] < rank[q] ? p : q;
+    const int hi = rank[p] < rank[q] ? q : p;
     const PointInfo& info = points_.info()[crest[i]];
     Eigen::Vector3d xt, xs;
     shape.frame(info.theta, info.s, nullptr, &xt, &xs);
@@ -571,7 +614,6 @@ void ModelMesher::build_pdl_layer() {
       }
     }
   }
-  hole_ = frame_.pdl_point(0.0, 0.5 * (crest_s_[0] - 1.0), 0.5);
 }
 
 }  // namespace sharpey::mesh::detail

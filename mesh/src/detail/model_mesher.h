@@ -80,6 +80,11 @@ class ModelMesher {
   // Column indices (into column_theta_) of the points of a ring of `count` points.
   std::vector<int> ring_columns(const RingSpec& spec) const;
   void build_pdl_layer();
+  void add_pdl_points();
+  // Rank of each point in the order that splits the PDL prisms (see add_pdl_prisms).
+  std::vector<int> prism_split_rank() const;
+  void add_pdl_prisms(const std::vector<int>& rank);
+  void add_pdl_free_top(const std::vector<int>& rank);
   // The socket points (outer PDL layer) of tooth ring `ring`, every column.
   std::vector<int> socket_ring(int ring) const;
   // The points of a ring of every column at the uniform columns.
