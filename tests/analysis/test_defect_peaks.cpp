@@ -67,8 +67,10 @@ LoadSpec translation_g(double grams, double y_sign) {
 // (13.845 vs 13.619 kPa) / 0.27 % / 0.09 %; mesial 0.24 % / 1.65 % (13.847 vs 13.622 kPa) /
 // 0.08 %; labial 0.29 % / 0.28 % / 0.12 %; lingual 0.30 % / 0.30 % / 0.12 %. The extra columns
 // are nearly as close on the standard preset as on the fine one (0.10 vs 0.09 mm at the cervix),
-// so near the floor this compares meshes that differ mainly in the rest of the model; the coarse
-// preset (0.2 mm, one element across the PDL) gives 17.2 kPa there (docs/verification.md).
+// so near the floor this compares meshes that differ mainly in the rest of the model; halving the
+// fine preset's extra-column spacing moved its compression by 0.3 % (13.619 -> 13.577 kPa, a
+// one-off run); the coarse preset (0.2 mm, one element across the PDL) gives 17.2 kPa there
+// (docs/verification.md).
 // History of the peak on the defect's side (the distal defect's compression, about 0.3 to 0.7 mm
 // below the defect's floor): with the band measured straight down from the crest the peaks did not
 // converge at all (tension 16.6 / 16.2 / 24.9 kPa on coarse / standard / fine); with the 3D band
