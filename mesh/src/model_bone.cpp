@@ -5,9 +5,10 @@
 //     thickness lower;
 //   labial and lingual faces (free), mesial, distal and basal faces (fixed), and the two inner
 //     walls of the plates (interface): tensor grids whose columns are the grids' boundary points.
-// Column i of a radial grid joins the socket ring's point i to boundary point i of R_in; the
-// corners of R_in sit on columns k1, N/2 - k1, N/2 + k1 and N - k1 so that opposite edges carry
-// the same points.
+// Column i of a radial grid joins the socket ring's uniform column i to boundary point i of R_in
+// (the extra socket columns around an angular defect join the grid's first row: add_socket_grid);
+// the corners of R_in sit on columns k1, N/2 - k1, N/2 + k1 and N - k1 so that opposite edges
+// carry the same points.
 #include <Eigen/Geometry>
 #include <algorithm>
 #include <cmath>
@@ -49,7 +50,6 @@ std::vector<double> uniform_nodes(double a, double b, int n) {
 
 void ModelMesher::build_bone() {
   const int N = n_columns_;
-  const int n_layers = frame_.sizes().pdl_layers;
   const double h = frame_.sizes().pdl_edge_mm;
   const double tc = frame_.cortical_thickness();
   const double xB = frame_.x_labial(), xBi = frame_.x_labial_inner();
@@ -57,11 +57,10 @@ void ModelMesher::build_bone() {
   const double yM = frame_.y_mesial(), yD = frame_.y_distal(), zb = frame_.z_base();
   const PointInfo bone{PointKind::kBone, 0, 0};
 
-  std::vector<int> socket_crest(N), socket_cortical(N);
-  for (int i = 0; i < N; ++i) {
-    socket_crest[i] = layer_[n_layers][rings_[crest_ring_][i]];
-    socket_cortical[i] = layer_[n_layers][rings_[cortical_ring_][i]];
-  }
+  // The socket's crest and cortical rings (every column) and the crest ring's uniform columns.
+  const std::vector<int> crest_all = socket_ring(crest_ring_);
+  const std::vector<int> cortical_all = socket_ring(cortical_ring_);
+  const std::vector<int> socket_crest = uniform_subset(crest_all);
 
   // Boundary of R_in, one point per column.
   const double perimeter = 2 * ((xBi - xLi) + (yM - yD));
@@ -96,7 +95,8 @@ void ModelMesher::build_bone() {
   std::vector<double> sorted = gaps;
   std::nth_element(sorted.begin(), sorted.begin() + N / 2, sorted.end());
   const int K = std::max(2, static_cast<int>(std::lround(sorted[N / 2] / (1.2 * h))));
-  auto radial_grid = [&](const std::vector<int>& inner, double offset, int marker, bool output) {
+  auto radial_grid = [&](const std::vector<int>& ring, double offset, int marker, bool output) {
+    const std::vector<int> inner = uniform_subset(ring);
     std::vector<std::vector<int>> rows(K + 1, std::vector<int>(N));
     rows[0] = inner;
     for (int k = 1; k <= K; ++k) {
@@ -109,9 +109,7 @@ void ModelMesher::build_bone() {
       }
     }
     const size_t first = facets_.size();
-    add_grid(rows, true, marker, true, output, [](const Eigen::Vector3d&) {
-      return Eigen::Vector3d::Zero().eval();  // keep the construction order's orientation
-    });
+    add_socket_grid(rows, ring, marker, output);
     // Unfolded, all triangles project with the same orientation; a fold means the socket comes
     // too close to the inner face of a plate.
     int n_up = 0, n_down = 0;
@@ -129,8 +127,8 @@ void ModelMesher::build_bone() {
     }
     for (size_t f = first; f < facets_.size(); ++f) orient(&facets_[f], up);
   };
-  radial_grid(socket_crest, 0.0, kFreeBone, true);
-  radial_grid(socket_cortical, tc, kOther, false);
+  radial_grid(crest_all, 0.0, kFreeBone, true);
+  radial_grid(cortical_all, tc, kOther, false);
 
   // Top strips over the labial and lingual plates.
   const int n_strip = std::max(1, static_cast<int>(std::lround(tc / h)));

@@ -210,8 +210,11 @@ ToothPlacement principal_axis_proposal(const SurfaceMesh& s) {
   return p;
 }
 
-RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string& key, int n_theta,
-                                   int n_z) {
+namespace {
+
+// Heights where the long axis crosses the surface; throws when the axis does not run through the
+// tooth from below the CEJ to above it, or when the surface reaches beyond its two crossings.
+std::vector<double> check_axis(const SurfaceMesh& surface, const std::string& key) {
   const std::vector<double> crossings = axis_crossings(surface);
   if (crossings.size() < 2 || !(crossings.front() < 0 && crossings.back() > 0)) {
     throw InputError(key,
@@ -233,22 +236,42 @@ RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string
                               ", so that part of the tooth would be lost; place the " +
                               (root ? "apex" : "crown-tip") + " landmark at the tooth's end");
   }
-  RadialToothSurface r;
-  r.n_theta = n_theta;
-  r.n_z = n_z;
-  r.apex_z_mm = crossings.front();
-  r.tip_z_mm = crossings.back();
-  r.radius_mm.assign(static_cast<size_t>(n_theta) * n_z, 0.0);
-  std::vector<double> r_min(r.radius_mm.size(), std::numeric_limits<double>::infinity());
-  const int mid = (n_z - 1) / 2;
-  auto z_of_row = [&](int i) {
-    const double s = -1.0 + 2.0 * i / (n_z - 1);
-    return s < 0 ? r.apex_z_mm * (1 - (s + 1) * (s + 1)) : r.tip_z_mm * (1 - (1 - s) * (1 - s));
-  };
-  std::vector<double> row_z(n_z);
-  for (int i = 0; i < n_z; ++i) row_z[i] = z_of_row(i);
-  row_z[mid] = 0.0;
+  return crossings;
+}
 
+// Where the rays of row i (height z) cross the segment q0-q1 (the triangle's cut by the row's
+// plane): the largest radius per ray into r.radius_mm, the smallest into r_min.
+void cut_segment(const Eigen::Vector2d& q0, const Eigen::Vector2d& q1, int i, RadialToothSurface* r,
+                 std::vector<double>* r_min) {
+  const int n_theta = r->n_theta;
+  const Eigen::Vector2d e = q1 - q0;
+  double a0 = std::atan2(q0.y(), q0.x());
+  double span = std::atan2(q1.y(), q1.x()) - a0;
+  if (span > kPi) span -= 2 * kPi;
+  if (span < -kPi) span += 2 * kPi;
+  if (span < 0) {
+    a0 += span;
+    span = -span;
+  }
+  const int j0 = static_cast<int>(std::ceil(a0 / (2 * kPi) * n_theta - 1e-12));
+  const int j1 = static_cast<int>(std::floor((a0 + span) / (2 * kPi) * n_theta + 1e-12));
+  for (int jj = j0; jj <= j1; ++jj) {
+    const int j = ((jj % n_theta) + n_theta) % n_theta;
+    const double theta = 2 * kPi * j / n_theta;
+    const Eigen::Vector2d d(std::cos(theta), std::sin(theta));
+    const double den = cross2(d, e);
+    if (std::abs(den) < 1e-15) continue;
+    const double rr = cross2(q0, e) / den;
+    if (rr < 0) continue;
+    const size_t idx = static_cast<size_t>(i) * n_theta + j;
+    r->radius_mm[idx] = std::max(r->radius_mm[idx], rr);
+    (*r_min)[idx] = std::min((*r_min)[idx], rr);
+  }
+}
+
+// Cuts every triangle by the planes of the rows (heights row_z) that it spans.
+void cut_triangles(const SurfaceMesh& surface, const std::vector<double>& row_z,
+                   RadialToothSurface* r, std::vector<double>* r_min) {
   for (const auto& t : surface.triangles) {
     const Eigen::Vector3d* p[3] = {&surface.vertices[t[0]], &surface.vertices[t[1]],
                                    &surface.vertices[t[2]]};
@@ -269,33 +292,16 @@ RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string
         if (n_q == 1 && (x - q[0]).squaredNorm() < 1e-24) continue;
         q[n_q++] = x;
       }
-      if (n_q < 2) continue;
-      const Eigen::Vector2d e = q[1] - q[0];
-      double a0 = std::atan2(q[0].y(), q[0].x());
-      double span = std::atan2(q[1].y(), q[1].x()) - a0;
-      if (span > kPi) span -= 2 * kPi;
-      if (span < -kPi) span += 2 * kPi;
-      if (span < 0) {
-        a0 += span;
-        span = -span;
-      }
-      const int j0 = static_cast<int>(std::ceil(a0 / (2 * kPi) * n_theta - 1e-12));
-      const int j1 = static_cast<int>(std::floor((a0 + span) / (2 * kPi) * n_theta + 1e-12));
-      for (int jj = j0; jj <= j1; ++jj) {
-        const int j = ((jj % n_theta) + n_theta) % n_theta;
-        const double theta = 2 * kPi * j / n_theta;
-        const Eigen::Vector2d d(std::cos(theta), std::sin(theta));
-        const double den = cross2(d, e);
-        if (std::abs(den) < 1e-15) continue;
-        const double rr = cross2(q[0], e) / den;
-        if (rr < 0) continue;
-        const size_t idx = static_cast<size_t>(i) * n_theta + j;
-        r.radius_mm[idx] = std::max(r.radius_mm[idx], rr);
-        r_min[idx] = std::min(r_min[idx], rr);
-      }
+      if (n_q == 2) cut_segment(q[0], q[1], i, r, r_min);
     }
   }
-  for (int i = 1; i + 1 < n_z; ++i) {
+}
+
+// Every ray of every inner row must have met the surface, and at radii close together.
+void check_radius_table(const RadialToothSurface& r, const std::vector<double>& r_min,
+                        const std::vector<double>& row_z, const std::string& key) {
+  const int n_theta = r.n_theta;
+  for (int i = 1; i + 1 < r.n_z; ++i) {
     for (int j = 0; j < n_theta; ++j) {
       const size_t idx = static_cast<size_t>(i) * n_theta + j;
       const double theta_deg = 360.0 * j / n_theta;
@@ -318,23 +324,52 @@ RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string
       }
     }
   }
-  // Two passes of a [1 2 1] / 4 filter in each direction: removes scan noise at the grid spacing
-  // (a few tenths of a mm) so that the normals the PDL offset follows are smooth. The poles stay 0.
+}
+
+// Two passes of a [1 2 1] / 4 filter in each direction: removes scan noise at the grid spacing
+// (a few tenths of a mm) so that the normals the PDL offset follows are smooth. The poles stay 0.
+void smooth_radius_table(RadialToothSurface* r) {
+  const int n_theta = r->n_theta, n_z = r->n_z;
   for (int pass = 0; pass < 2; ++pass) {
-    std::vector<double> f = r.radius_mm;
+    std::vector<double> f = r->radius_mm;
     for (int i = 1; i + 1 < n_z; ++i)
       for (int j = 0; j < n_theta; ++j)
         f[static_cast<size_t>(i) * n_theta + j] =
-            0.25 * (r.radius(i, (j + n_theta - 1) % n_theta) + 2 * r.radius(i, j) +
-                    r.radius(i, (j + 1) % n_theta));
+            0.25 * (r->radius(i, (j + n_theta - 1) % n_theta) + 2 * r->radius(i, j) +
+                    r->radius(i, (j + 1) % n_theta));
     std::vector<double> g = f;
     for (int i = 2; i + 2 < n_z; ++i)
       for (int j = 0; j < n_theta; ++j) {
         const size_t idx = static_cast<size_t>(i) * n_theta + j;
         g[idx] = 0.25 * (f[idx - n_theta] + 2 * f[idx] + f[idx + n_theta]);
       }
-    r.radius_mm = g;
+    r->radius_mm = g;
   }
+}
+
+}  // namespace
+
+RadialToothSurface resample_radial(const SurfaceMesh& surface, const std::string& key, int n_theta,
+                                   int n_z) {
+  const std::vector<double> crossings = check_axis(surface, key);
+  RadialToothSurface r;
+  r.n_theta = n_theta;
+  r.n_z = n_z;
+  r.apex_z_mm = crossings.front();
+  r.tip_z_mm = crossings.back();
+  r.radius_mm.assign(static_cast<size_t>(n_theta) * n_z, 0.0);
+  std::vector<double> r_min(r.radius_mm.size(), std::numeric_limits<double>::infinity());
+  const int mid = (n_z - 1) / 2;
+  auto z_of_row = [&](int i) {
+    const double s = -1.0 + 2.0 * i / (n_z - 1);
+    return s < 0 ? r.apex_z_mm * (1 - (s + 1) * (s + 1)) : r.tip_z_mm * (1 - (1 - s) * (1 - s));
+  };
+  std::vector<double> row_z(n_z);
+  for (int i = 0; i < n_z; ++i) row_z[i] = z_of_row(i);
+  row_z[mid] = 0.0;
+  cut_triangles(surface, row_z, &r, &r_min);
+  check_radius_table(r, r_min, row_z, key);
+  smooth_radius_table(&r);
   return r;
 }
 

@@ -8,6 +8,7 @@
 #include <array>
 #include <atomic>
 #include <unordered_map>
+#include <utility>
 #include <vector>
 
 #include "model_frame.h"
@@ -53,6 +54,9 @@ struct Facet {
   bool output;     // listed as a mesh face
 };
 
+// One ring of the tooth surface (model_surfaces.cpp).
+struct RingSpec;
+
 class ModelMesher {
  public:
   explicit ModelMesher(const ModelFrame& frame);
@@ -64,7 +68,32 @@ class ModelMesher {
  private:
   // model_surfaces.cpp
   void build_tooth_surface();
+  void layout_columns();
+  // Rings from the crown tip to the CEJ; returns the indices of the pad's upper and lower rings.
+  std::pair<int, int> add_crown_ring_specs(std::vector<RingSpec>* specs) const;
+  // Rings from below the CEJ to the apex (sets crest_ring_ and cortical_ring_).
+  void add_root_ring_specs(std::vector<RingSpec>* specs);
+  void set_ring_counts(std::vector<RingSpec>* specs, int pad_hi_ring) const;
+  void add_ring_points(const std::vector<RingSpec>& specs);
+  void add_ring_triangles(const std::vector<RingSpec>& specs, int pad_hi_ring, int pad_lo_ring,
+                          int cej_ring);
+  // Column indices (into column_theta_) of the points of a ring of `count` points.
+  std::vector<int> ring_columns(const RingSpec& spec) const;
   void build_pdl_layer();
+  void add_pdl_points();
+  // Rank of each point in the order that splits the PDL prisms (see add_pdl_prisms).
+  std::vector<int> prism_split_rank() const;
+  void add_pdl_prisms(const std::vector<int>& rank);
+  void add_pdl_free_top(const std::vector<int>& rank);
+  // The socket points (outer PDL layer) of tooth ring `ring`, every column.
+  std::vector<int> socket_ring(int ring) const;
+  // The points of a ring of every column at the uniform columns.
+  std::vector<int> uniform_subset(const std::vector<int>& all_columns) const;
+  // A radial grid of the bone top from the socket: rows[0] holds the uniform columns of `ring`
+  // (every column); the extra columns of an angular defect join rows[1] directly. Triangles keep
+  // the construction order's orientation (see add_grid).
+  void add_socket_grid(const std::vector<std::vector<int>>& rows, const std::vector<int>& ring,
+                       int marker, bool output);
   // model_bone.cpp
   void build_bone();
   // model_build.cpp
@@ -81,11 +110,23 @@ class ModelMesher {
   void add_grid(const std::vector<std::vector<int>>& rows, bool closed, int marker, bool to_tetgen,
                 bool output, const Outward& outward);
   void orient(Facet* f, const Eigen::Vector3d& outward) const;
+  // Triangles between two closed rows of points p and q whose column indices (ascending, both
+  // starting at column 0) differ, one row holding every column of the other: oriented like
+  // add_grid's (p the first row). Each point of the finer row between two consecutive points of
+  // the coarser one joins the nearer of the two (the middle one both), so that mirror-image
+  // column layouts give mirror-image triangles.
+  void add_zipper(const std::vector<int>& p, const std::vector<int>& p_columns,
+                  const std::vector<int>& q, const std::vector<int>& q_columns, int n_columns,
+                  int marker, bool to_tetgen, bool output);
 
   const ModelFrame& frame_;
   PointSet points_;
   std::vector<Facet> facets_;
-  int n_columns_ = 0;
+  int n_columns_ = 0;  // uniform columns: angle 2 pi i / n_columns_
+  // Every column (uniform ones plus the extra ones around an angular defect), by ascending angle
+  // theta; uniform_column_[i]: the index of uniform column i among them.
+  std::vector<double> column_theta_;
+  std::vector<int> uniform_column_;
   // Tooth rings (from the crown tip to the apex): point indices; poles are rings of one point.
   std::vector<std::vector<int>> rings_;
   int crest_ring_ = 0, cortical_ring_ = 0;          // indices into rings_
@@ -94,7 +135,7 @@ class ModelMesher {
   // (-1 where p is above the crest). layer_[0][p] = p.
   std::vector<std::vector<int>> layer_;
   std::vector<std::array<int, 4>> pdl_tets_;
-  std::vector<double> crest_s_, cortical_s_;  // per column
+  std::vector<double> crest_s_, cortical_s_;  // per column (of column_theta_)
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
   std::vector<Plc::RegionSeed> seeds_;
 };

@@ -61,71 +61,81 @@ Dual2 lift(const Dual2& s, double v, double dv_ds) { return chain(s, v, dv_ds); 
 ToothShape::ToothShape(const ToothSpec& tooth, double healthy_crest_depth_mm)
     : ideal_(tooth.ideal_root) {
   if (tooth.scan) {
-    scan_owner_ = tooth.scan;
-    scan_ = scan_owner_.get();
-    root_length_ = -scan_->apex_z_mm;
-    crown_length_ = scan_->tip_z_mm;
-    // The bracket pad must stay below the incisal or occlusal rounding: the top fifth of the
-    // crown is treated as that rounding.
-    crown_body_top_ = 0.8 * crown_length_;
-    crown_cap_ = crown_length_ - crown_body_top_;
-    s_cap_ = 1.0 - std::sqrt(0.2);
-    scan_mean_.resize(scan_->n_z);
-    for (int i = 0; i < scan_->n_z; ++i) {
-      double sum = 0;
-      for (int j = 0; j < scan_->n_theta; ++j) sum += scan_->radius(i, j);
-      scan_mean_[i] = sum / scan_->n_theta;
-    }
-    init_arc_table();
-    return;
+    init_scan(tooth.scan);
+  } else {
+    init_crown(tooth, init_root(tooth, healthy_crest_depth_mm));
   }
+  init_arc_table();
+}
+
+void ToothShape::init_scan(const std::shared_ptr<const RadialToothSurface>& scan) {
+  scan_owner_ = scan;
+  scan_ = scan_owner_.get();
+  root_length_ = -scan_->apex_z_mm;
+  crown_length_ = scan_->tip_z_mm;
+  // The bracket pad must stay below the incisal or occlusal rounding: the top fifth of the
+  // crown is treated as that rounding.
+  crown_body_top_ = 0.8 * crown_length_;
+  crown_cap_ = crown_length_ - crown_body_top_;
+  s_cap_ = 1.0 - std::sqrt(0.2);
+  scan_mean_.resize(scan_->n_z);
+  for (int i = 0; i < scan_->n_z; ++i) {
+    double sum = 0;
+    for (int j = 0; j < scan_->n_theta; ++j) sum += scan_->radius(i, j);
+    scan_mean_[i] = sum / scan_->n_theta;
+  }
+}
+
+double ToothShape::init_root(const ToothSpec& tooth, double healthy_crest_depth_mm) {
   const ToothDimensions& d = tooth.dimensions;
   crown_length_ = d.crown_length_mm;
-  double crown_radius = 0;  // idealised crown: cylinder radius
   if (ideal_ == IdealRoot::kNone) {
     root_length_ = d.root_length_mm;
     root_a_ = 0.5 * d.cervix_labiolingual_mm;
     root_b_ = 0.5 * d.cervix_mesiodistal_mm;
     fullness_ = d.root_taper_fullness;
-  } else {
-    root_length_ = tooth.ideal_length_mm;
-    radius_ = tooth.ideal_radius_mm;
-    const double L = root_length_, R = radius_;
-    const double crest_height = L - healthy_crest_depth_mm;  // crest above the apex
-    switch (ideal_) {
-      case IdealRoot::kCylinder: {
-        cap_ = R / 3.0;
-        u1_ = cap_ * kPi / 2 / (cap_ * kPi / 2 + L - cap_);
-        crown_radius = R;
-        break;
-      }
-      case IdealRoot::kCone: {
-        tip_radius_ = 0.05 * R;
-        delta_ = 0;
-        for (int it = 0; it < 100; ++it) {
-          k_ = R / (crest_height + delta_);
-          alpha_ = std::atan(k_);
-          delta_ = tip_radius_ * (1.0 / std::sin(alpha_) - 1.0);
-        }
-        tip_center_ = tip_radius_ / std::sin(alpha_);
-        tip_tangent_ = tip_radius_ * std::cos(alpha_) * std::cos(alpha_) / std::sin(alpha_);
-        const double cap_arc = tip_radius_ * (kPi / 2 - alpha_);
-        const double cone_arc = (L + delta_ - tip_tangent_) / std::cos(alpha_);
-        u1_ = cap_arc / (cap_arc + cone_arc);
-        crown_radius = k_ * (L + delta_);
-        break;
-      }
-      case IdealRoot::kParaboloid: {
-        k_ = R / std::sqrt(crest_height);
-        crown_radius = k_ * std::sqrt(L);
-        break;
-      }
-      case IdealRoot::kNone:
-        break;
-    }
+    return 0;
   }
+  root_length_ = tooth.ideal_length_mm;
+  radius_ = tooth.ideal_radius_mm;
+  const double L = root_length_, R = radius_;
+  const double crest_height = L - healthy_crest_depth_mm;  // crest above the apex
+  switch (ideal_) {
+    case IdealRoot::kCylinder:
+      cap_ = R / 3.0;
+      u1_ = cap_ * kPi / 2 / (cap_ * kPi / 2 + L - cap_);
+      return R;
+    case IdealRoot::kCone:
+      return init_cone_root(crest_height);
+    case IdealRoot::kParaboloid:
+      k_ = R / std::sqrt(crest_height);
+      return k_ * std::sqrt(L);
+    case IdealRoot::kNone:
+      break;
+  }
+  return 0;
+}
 
+double ToothShape::init_cone_root(double crest_height) {
+  const double L = root_length_, R = radius_;
+  tip_radius_ = 0.05 * R;
+  delta_ = 0;
+  for (int it = 0; it < 100; ++it) {
+    k_ = R / (crest_height + delta_);
+    alpha_ = std::atan(k_);
+    delta_ = tip_radius_ * (1.0 / std::sin(alpha_) - 1.0);
+  }
+  tip_center_ = tip_radius_ / std::sin(alpha_);
+  tip_tangent_ = tip_radius_ * std::cos(alpha_) * std::cos(alpha_) / std::sin(alpha_);
+  const double cap_arc = tip_radius_ * (kPi / 2 - alpha_);
+  const double cone_arc = (L + delta_ - tip_tangent_) / std::cos(alpha_);
+  u1_ = cap_arc / (cap_arc + cone_arc);
+  return k_ * (L + delta_);
+}
+
+void ToothShape::init_crown(const ToothSpec& tooth, double crown_radius) {
   if (ideal_ == IdealRoot::kNone) {
+    const ToothDimensions& d = tooth.dimensions;
     const CrownProportions p = crown_proportions(tooth.type);
     const double Lc = crown_length_;
     a_cervix_ = 0.5 * d.cervix_labiolingual_mm;
@@ -146,7 +156,6 @@ ToothShape::ToothShape(const ToothSpec& tooth, double healthy_crest_depth_mm)
   crown_body_top_ = crown_length_ - crown_cap_;
   // Match the parameter speed of body and cap at their joint.
   s_cap_ = crown_body_top_ / (crown_body_top_ + crown_cap_ * kPi / 2);
-  init_arc_table();
 }
 
 void ToothShape::init_arc_table() {

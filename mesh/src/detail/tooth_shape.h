@@ -27,6 +27,7 @@
 #pragma once
 
 #include <Eigen/Core>
+#include <memory>
 #include <vector>
 
 #include "dual.h"
@@ -93,6 +94,12 @@ class ToothShape {
   template <class T>
   Section<T> scan_section(const T& s) const;
   void scan_radius(double theta, double s, double* r, double* r_theta, double* r_s) const;
+  // Construction steps: a scanned tooth; otherwise the root (returns the idealised crown's
+  // radius, 0 for an anatomical tooth; a cone root through init_cone_root) and then the crown.
+  void init_scan(const std::shared_ptr<const RadialToothSurface>& scan);
+  double init_root(const ToothSpec& tooth, double healthy_crest_depth_mm);
+  double init_cone_root(double crest_height);
+  void init_crown(const ToothSpec& tooth, double crown_radius);
   void init_arc_table();
 
   const RadialToothSurface* scan_ = nullptr;
