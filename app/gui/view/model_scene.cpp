@@ -30,8 +30,8 @@
 #include <cmath>
 
 #include "core/display_mesh.h"
-#include "sharpey/analysis/report_output.h"
 #include "sharpey/core/constants.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 
