@@ -17,7 +17,7 @@ mkdir -p "$build/objects" "$build/corpus" "$build/artifacts"
 # with libFuzzer's main.
 sources=(
   analysis/src/case_spec.cpp analysis/src/case_spec_parse.cpp analysis/src/case_spec_validate.cpp
-  analysis/src/case_spec_vary.cpp analysis/src/case_spec_write.cpp analysis/src/output_atomic.cpp
+  analysis/src/case_spec_vary.cpp analysis/src/case_spec_write.cpp analysis/src/write_file_atomic.cpp
   mesh/src/model_validate.cpp mesh/src/model_names.cpp mesh/src/model_queries.cpp
   mesh/src/tooth_library.cpp mesh/src/detail/tooth_shape.cpp mesh/src/detail/model_frame.cpp
   mesh/src/tooth_surface.cpp mesh/src/cgal/tooth_surface_read.cpp

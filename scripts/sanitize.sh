@@ -1,9 +1,9 @@
 #!/usr/bin/env bash
-# Sanitizer run: builds the mesh, fem and analysis libraries, sharpey-batch and their tests with
-# AddressSanitizer + UndefinedBehaviorSanitizer (SHARPEY_SANITIZE=ON, no GUI) in build-asan/ and runs
-# the tests that take seconds rather than minutes. A memory error, a leak or undefined behaviour in
-# any process (test programs and the sharpey-batch runs they start) fails the run; every report is
-# printed at the end with its stack trace.
+# Sanitizer run: builds the mesh, fem, analysis and output libraries, sharpey-batch and their tests
+# with AddressSanitizer + UndefinedBehaviorSanitizer (SHARPEY_SANITIZE=ON, no GUI) in build-asan/
+# and runs the tests that take seconds rather than minutes. A memory error, a leak or undefined
+# behaviour in any process (test programs and the sharpey-batch runs they start) fails the run;
+# every report is printed at the end with its stack trace.
 # Usage: ./scripts/sanitize.sh [extra ctest arguments, e.g. -R fem_]
 source "$(dirname "$0")/common.sh"
 sharpey_install_packages

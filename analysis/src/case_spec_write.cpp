@@ -6,7 +6,7 @@
 
 #include "case_spec_keys.h"
 #include "sharpey/analysis/case_spec.h"
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/analysis/write_file_atomic.h"
 
 namespace sharpey::analysis {
 

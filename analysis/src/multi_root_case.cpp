@@ -10,7 +10,7 @@
 #include <set>
 #include <sstream>
 
-#include "output_text.h"
+#include "sharpey/analysis/detail/output_text.h"
 #include "sharpey/analysis/multi_root_fe.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/core/check.h"

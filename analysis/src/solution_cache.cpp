@@ -12,7 +12,7 @@
 #include <type_traits>
 #include <vector>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/analysis/write_file_atomic.h"
 #include "sharpey/error.h"
 
 #ifndef SHARPEY_VERSION

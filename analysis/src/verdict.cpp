@@ -4,7 +4,7 @@
 #include <cmath>
 #include <cstdio>
 
-#include "output_text.h"
+#include "sharpey/analysis/detail/output_text.h"
 
 namespace sharpey::analysis {
 

@@ -9,8 +9,8 @@
 #include <typeinfo>
 #include <utility>
 
-#include "sharpey/analysis/report_output.h"
 #include "sharpey/error.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::batch {
 

@@ -14,9 +14,9 @@
 #include "failure.h"
 #include "interrupt.h"
 #include "mpi_world.h"
-#include "sharpey/analysis/report_output.h"
 #include "sharpey/analysis/study.h"
 #include "sharpey/error.h"
+#include "sharpey/output/report_output.h"
 #include "sharpey/startup/blas_kernels.h"
 #include "sharpey/startup/freed_memory.h"
 

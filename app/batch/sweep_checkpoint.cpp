@@ -6,7 +6,7 @@
 #include <fstream>
 #include <sstream>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::batch {
 

@@ -75,24 +75,16 @@ void reap(pid_t pid, ChildOutcome* outcome) {
   if (WIFSIGNALED(status)) outcome->signal = WTERMSIG(status);
 }
 
-}  // namespace
-
-ChildOutcome run_program(const std::string& program, const std::vector<std::string>& args,
-                         const std::string& input, const std::atomic<bool>* cancel) {
-  ChildOutcome outcome;
-  // One socket pair carries both directions (the child's stdin and stdout): send() with
-  // MSG_NOSIGNAL reports a child that died before reading its input as EPIPE, not as a SIGPIPE
-  // that would end this program.
-  int fds[2];
-  if (::socketpair(AF_UNIX, SOCK_STREAM | SOCK_CLOEXEC, 0, fds) != 0) {
-    outcome.error = std::string("socketpair() failed: ") + std::strerror(errno);
-    return outcome;
-  }
+// Starts `program` with `args` by posix_spawn, `child_fd` as its standard input and output, in a
+// process group of its own with the usual signals at their default action and none blocked.
+// Returns posix_spawn's error number (0 when started) and the child's id in `pid`.
+int spawn_child(const std::string& program, const std::vector<std::string>& args, int child_fd,
+                pid_t* pid) {
   posix_spawn_file_actions_t actions;
   posix_spawnattr_t attributes;
   posix_spawn_file_actions_init(&actions);
-  posix_spawn_file_actions_adddup2(&actions, fds[1], STDIN_FILENO);
-  posix_spawn_file_actions_adddup2(&actions, fds[1], STDOUT_FILENO);
+  posix_spawn_file_actions_adddup2(&actions, child_fd, STDIN_FILENO);
+  posix_spawn_file_actions_adddup2(&actions, child_fd, STDOUT_FILENO);
   posix_spawnattr_init(&attributes);
   sigset_t none, defaults;
   sigemptyset(&none);
@@ -108,29 +100,25 @@ ChildOutcome run_program(const std::string& program, const std::vector<std::stri
   std::vector<char*> argv;
   for (std::string& a : argv_text) argv.push_back(a.data());
   argv.push_back(nullptr);
-  pid_t pid = -1;
   const int spawn_error =
-      ::posix_spawn(&pid, program.c_str(), &actions, &attributes, argv.data(), environ);
+      ::posix_spawn(pid, program.c_str(), &actions, &attributes, argv.data(), environ);
   posix_spawn_file_actions_destroy(&actions);
   posix_spawnattr_destroy(&attributes);
-  ::close(fds[1]);
-  if (spawn_error != 0) {
-    ::close(fds[0]);
-    outcome.error = "cannot start \"" + program + "\": " + std::strerror(spawn_error);
-    return outcome;
-  }
-  outcome.started = true;
-  outcome.pid = pid;
+  return spawn_error;
+}
 
-  const int fd = fds[0];
+// Writes `input` to the child through `fd` and collects its output into `outcome` until the child
+// closes its end, or kills it (SIGKILL) once `cancel` is set.
+void exchange(int fd, pid_t pid, const std::string& input, const std::atomic<bool>* cancel,
+              ChildOutcome* outcome) {
   size_t written = 0;
   bool input_open = true;
   char buffer[1 << 16];
   for (;;) {
     if (cancel != nullptr && cancel->load()) {
       ::kill(pid, SIGKILL);
-      outcome.cancelled = true;
-      break;
+      outcome->cancelled = true;
+      return;
     }
     if (input_open && written == input.size()) {
       ::shutdown(fd, SHUT_WR);  // the child reads to the end of its input
@@ -138,7 +126,7 @@ ChildOutcome run_program(const std::string& program, const std::vector<std::stri
     }
     pollfd p{fd, static_cast<short>(POLLIN | (input_open ? POLLOUT : 0)), 0};
     const int ready = ::poll(&p, 1, 50);  // 50 ms: the longest a cancel request waits
-    if (ready < 0 && errno != EINTR) break;
+    if (ready < 0 && errno != EINTR) return;
     if (ready <= 0) continue;
     if (input_open && (p.revents & POLLOUT)) {
       const ssize_t n =
@@ -152,13 +140,39 @@ ChildOutcome run_program(const std::string& program, const std::vector<std::stri
     if (p.revents & (POLLIN | POLLHUP | POLLERR)) {
       const ssize_t n = ::recv(fd, buffer, sizeof buffer, MSG_DONTWAIT);
       if (n > 0) {
-        outcome.output.append(buffer, static_cast<size_t>(n));
+        outcome->output.append(buffer, static_cast<size_t>(n));
       } else if (n == 0 || (errno != EINTR && errno != EAGAIN)) {
-        break;  // the child closed its end: it has ended (or is ending)
+        return;  // the child closed its end: it has ended (or is ending)
       }
     }
   }
-  ::close(fd);
+}
+
+}  // namespace
+
+ChildOutcome run_program(const std::string& program, const std::vector<std::string>& args,
+                         const std::string& input, const std::atomic<bool>* cancel) {
+  ChildOutcome outcome;
+  // One socket pair carries both directions (the child's stdin and stdout): send() with
+  // MSG_NOSIGNAL reports a child that died before reading its input as EPIPE, not as a SIGPIPE
+  // that would end this program.
+  int fds[2];
+  if (::socketpair(AF_UNIX, SOCK_STREAM | SOCK_CLOEXEC, 0, fds) != 0) {
+    outcome.error = std::string("socketpair() failed: ") + std::strerror(errno);
+    return outcome;
+  }
+  pid_t pid = -1;
+  const int spawn_error = spawn_child(program, args, fds[1], &pid);
+  ::close(fds[1]);
+  if (spawn_error != 0) {
+    ::close(fds[0]);
+    outcome.error = "cannot start \"" + program + "\": " + std::strerror(spawn_error);
+    return outcome;
+  }
+  outcome.started = true;
+  outcome.pid = pid;
+  exchange(fds[0], pid, input, cancel, &outcome);
+  ::close(fds[0]);
   reap(pid, &outcome);
   return outcome;
 }

@@ -9,7 +9,7 @@
 #include <sstream>
 #include <string>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 #include "support/batch_process.h"
 #include "support/results_keys.h"
 

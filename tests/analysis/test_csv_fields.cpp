@@ -6,7 +6,7 @@
 #include <string>
 #include <vector>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 namespace {

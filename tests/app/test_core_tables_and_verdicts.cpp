@@ -7,7 +7,7 @@
 #include "core/quantity.h"
 #include "core/scenario_table.h"
 #include "core/verdict.h"
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 namespace {

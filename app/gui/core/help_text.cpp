@@ -1,6 +1,6 @@
 #include "core/help_text.h"
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 

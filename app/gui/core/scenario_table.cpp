@@ -3,7 +3,7 @@
 #include <cmath>
 #include <limits>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 

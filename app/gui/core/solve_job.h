@@ -66,6 +66,26 @@ class SolveJob : public QObject {
  private:
   void join();
   void adopt_arrived();
+  // The worker's steps (worker thread; `spec` and `cache` are the worker's own).
+  template <typename Fn>
+  void post(Fn&& fn);
+  void run(const analysis::CaseSpec& spec, const analysis::SolutionCache* cache);
+  void solve_levels(const analysis::CaseSpec& spec, const analysis::SolutionCache* cache);
+  // Level k from the cache, or solved on its own when its entry cannot be read.
+  std::unique_ptr<analysis::ScenarioSolution> read_or_solve(const analysis::CaseSpec& spec, int k,
+                                                            const analysis::SolutionCache& cache,
+                                                            bool* from_cache);
+  // Level k, the next one `solver` solves.
+  std::unique_ptr<analysis::ScenarioSolution> solve_next(const analysis::CaseSpec& spec, int k,
+                                                         analysis::StudySolver& solver);
+  // Hands level k to this object's thread, then saves it to the cache when it was solved.
+  void hand_over(const analysis::CaseSpec& spec, int k, const analysis::SolutionCache* cache,
+                 std::unique_ptr<analysis::ScenarioSolution> solution, bool from_cache);
+  // Progress of level k: `local` in [0, 1] of that level.
+  void level_progress(const analysis::CaseSpec& spec, int k, const std::string& stage,
+                      double local);
+  // Why level k's saved solution was not used or not saved (shown by cache_notes).
+  void note(const analysis::CaseSpec& spec, int k, const std::string& why);
   std::thread worker_;
   std::atomic<bool> cancel_{false};
   bool running_ = false;

@@ -2,7 +2,7 @@
 
 #include <QLabel>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 

@@ -112,46 +112,68 @@ void ComparisonView::clear() {
 void ComparisonView::show_session(const CaseSession& session, const QString& force_text) {
   last_session_ = &session;
   last_force_text_ = force_text;
-  const auto& results = session.results();
+  const std::vector<int> wanted = compared_levels(session);
+  if (wanted.size() != cells_.size()) make_cells(static_cast<int>(wanted.size()));
+  shown_ = wanted;
+  ValueRange band{0, 0};
+  ValueRange range = shared_range(session, wanted, &band);
+  const double limit_kpa = session.spec().thresholds.limit.value_kpa;
+  const bool per_level = scale_mode_ == ScaleMode::kPerLevel;
+  range = scale_range(scale_mode_, quantity_, range, range, limit_kpa);
+  show_cells(session, force_text, per_level ? std::nullopt : std::optional<ValueRange>(range));
+  bar_->setVisible(!per_level);  // per level: each cell shows its own bar
+  const ColourScale scale(quantity_, range);
+  bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
+  bar_->set_marks(threshold_marks(session.spec().thresholds, quantity_));
+  bar_->set_note(band_note(range, band, unit_label(quantity_)));
+  fill_table(session.results());
+}
+
+std::vector<int> ComparisonView::compared_levels(const CaseSession& session) {
+  const int n_results = static_cast<int>(session.results().size());
   std::vector<int> wanted;
   for (int i : session.levels().compared())
-    if (i < static_cast<int>(results.size())) wanted.push_back(i);
+    if (i < n_results) wanted.push_back(i);
   if (wanted.size() < 2) {  // fewer than two chosen: the first ones
     wanted.clear();
-    for (int i = 0; i < std::min<int>(ScenarioList::kMaxCompared, static_cast<int>(results.size()));
-         ++i)
+    for (int i = 0; i < std::min<int>(ScenarioList::kMaxCompared, n_results); ++i)
       wanted.push_back(i);
   }
-  if (wanted.size() != cells_.size()) {
-    for (const Cell& c : cells_) c.box->deleteLater();
-    cells_.clear();
-    const int n = static_cast<int>(wanted.size());
-    const int columns = n <= 2 ? n : 2;
-    for (int k = 0; k < n; ++k) {
-      Cell cell;
-      cell.box = new QWidget;
-      auto* v = new QVBoxLayout(cell.box);
-      v->setContentsMargins(0, 0, 0, 0);
-      v->setSpacing(0);
-      cell.title = new QLabel;
-      cell.title->setAlignment(Qt::AlignCenter);
-      cell.title->setStyleSheet(
-          QStringLiteral("font-weight: bold; padding: 2px; background: #e6e2d8;"));
-      cell.view = new ResultView;
-      cell.view->set_options_visible(false);
-      cell.view->set_bar_visible(false);
-      cell.view->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
-      cell.view->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
-      v->addWidget(cell.title);
-      v->addWidget(cell.view, 1);
-      grid_->addWidget(cell.box, k / columns, k % columns);
-      cells_.push_back(cell);
-    }
-    link_cameras();
+  return wanted;
+}
+
+void ComparisonView::make_cells(int n) {
+  for (const Cell& c : cells_) c.box->deleteLater();
+  cells_.clear();
+  const int columns = n <= 2 ? n : 2;
+  for (int k = 0; k < n; ++k) {
+    Cell cell;
+    cell.box = new QWidget;
+    auto* v = new QVBoxLayout(cell.box);
+    v->setContentsMargins(0, 0, 0, 0);
+    v->setSpacing(0);
+    cell.title = new QLabel;
+    cell.title->setAlignment(Qt::AlignCenter);
+    cell.title->setStyleSheet(
+        QStringLiteral("font-weight: bold; padding: 2px; background: #e6e2d8;"));
+    cell.view = new ResultView;
+    cell.view->set_options_visible(false);
+    cell.view->set_bar_visible(false);
+    cell.view->set_bone_style(static_cast<BoneStyle>(bone_box_->currentData().toInt()));
+    cell.view->set_section(static_cast<SectionPlane>(section_box_->currentData().toInt()));
+    v->addWidget(cell.title);
+    v->addWidget(cell.view, 1);
+    grid_->addWidget(cell.box, k / columns, k % columns);
+    cells_.push_back(cell);
   }
-  shown_ = wanted;
+  link_cameras();
+}
+
+ValueRange ComparisonView::shared_range(const CaseSession& session, const std::vector<int>& wanted,
+                                        ValueRange* band_range) const {
   // One scale over every shown scenario, each range shown as the 3D view defines it
   // (core/quantity.h: outside the crest edge band).
+  const auto& results = session.results();
   ValueRange range{0, 0}, band{0, 0};
   bool first = true;
   for (int i : wanted) {
@@ -166,28 +188,28 @@ void ComparisonView::show_session(const CaseSession& session, const QString& for
     band = first ? b : merge(band, b);
     first = false;
   }
-  const double limit_kpa = session.spec().thresholds.limit.value_kpa;
-  const bool per_level = scale_mode_ == ScaleMode::kPerLevel;
-  range = scale_range(scale_mode_, quantity_, range, range, limit_kpa);
-  for (size_t k = 0; k < wanted.size(); ++k) {
-    const int i = wanted[k];
+  *band_range = band;
+  return range;
+}
+
+void ComparisonView::show_cells(const CaseSession& session, const QString& force_text,
+                                const std::optional<ValueRange>& shared) {
+  const auto& results = session.results();
+  for (size_t k = 0; k < shown_.size(); ++k) {
+    const int i = shown_[k];
     const auto* s = session.solution(i);
     if (!s) continue;
-    cells_[k].view->set_bar_visible(per_level);
+    cells_[k].view->set_bar_visible(!shared);
     const auto& r = results[static_cast<size_t>(i)];
     cells_[k].title->setText(QStringLiteral("%1  \u2013  peak compression %2 kPa")
                                  .arg(QString::fromStdString(r.name))
                                  .arg(r.pressure_max_compression_kpa, 0, 'f', 1));
     cells_[k].view->set_quantity(quantity_);
-    cells_[k].view->show_result(*s, r, session.spec().thresholds, force_text,
-                                per_level ? std::nullopt : std::optional<ValueRange>(range));
+    cells_[k].view->show_result(*s, r, session.spec().thresholds, force_text, shared);
   }
-  bar_->setVisible(!per_level);  // per level: each cell shows its own bar
-  const ColourScale scale(quantity_, range);
-  bar_->set_scale(scale, label(quantity_), unit_label(quantity_));
-  bar_->set_marks(threshold_marks(session.spec().thresholds, quantity_));
-  bar_->set_note(band_note(range, band, unit_label(quantity_)));
+}
 
+void ComparisonView::fill_table(const std::vector<analysis::ScenarioResult>& results) {
   table_ = make_table(results);
   plot_->set_table(table_);
   table_widget_->clear();

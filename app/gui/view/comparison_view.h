@@ -4,6 +4,7 @@
 
 #include <QImage>
 #include <QWidget>
+#include <optional>
 #include <vector>
 
 #include "core/quantity.h"
@@ -52,6 +53,18 @@ class ComparisonView : public QWidget {
   QImage grab_views();
 
  private:
+  // show_session's steps.
+  // The levels to show: the session's choice, or the first ones when fewer than two are chosen.
+  static std::vector<int> compared_levels(const CaseSession& session);
+  void make_cells(int n);  // n cells in a grid of two columns, cameras linked
+  // The quantity's range over the `wanted` levels outside the crest edge band, and in
+  // `band_range` the range inside it.
+  ValueRange shared_range(const CaseSession& session, const std::vector<int>& wanted,
+                          ValueRange* band_range) const;
+  // The shown levels in their cells; `shared`: the one colour range (none: per level).
+  void show_cells(const CaseSession& session, const QString& force_text,
+                  const std::optional<ValueRange>& shared);
+  void fill_table(const std::vector<analysis::ScenarioResult>& results);
   void fit_table_width();
   void link_cameras();
   struct Cell {

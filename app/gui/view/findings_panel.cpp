@@ -6,7 +6,7 @@
 #include <cmath>
 
 #include "core/units.h"
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 

@@ -58,7 +58,21 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
     : QDialog(parent), start_folder_(start_folder), scene_(std::make_unique<Scene>()) {
   setWindowTitle(QStringLiteral("Import a tooth surface"));
   auto* layout = new QHBoxLayout(this);
+  add_view(layout);
+  auto* side = new QVBoxLayout;
+  layout->addLayout(side);
+  auto* form = new QFormLayout;
+  side->addLayout(form);
+  add_file_rows(form);
+  add_axis_rows(form);
+  add_swap_boxes(side);
+  add_tooth_and_confirmation(side);
+  add_message_and_buttons(side);
+  refresh();
+}
 
+// The 3D preview: the surface, and the axis drawn over it.
+void ImportDialog::add_view(QHBoxLayout* layout) {
   view_ = new VtkView;
   view_->setMinimumSize(420, 420);
   layout->addWidget(view_, 1);
@@ -69,12 +83,10 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
   r->SetBackground2(top[0], top[1], top[2]);
   r->AddActor(scene_->surface);
   view_->overlay()->AddActor(scene_->axis);
+}
 
-  auto* side = new QVBoxLayout;
-  layout->addLayout(side);
-  auto* form = new QFormLayout;
-  side->addLayout(form);
-
+// The surface file and its chooser.
+void ImportDialog::add_file_rows(QFormLayout* form) {
   file_label_ = new QLabel(QStringLiteral("none"));
   file_label_->setWordWrap(true);
   auto* choose = new QPushButton(QStringLiteral("Choose surface\u2026"));
@@ -86,7 +98,10 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
   });
   form->addRow(QStringLiteral("Surface"), file_label_);
   form->addRow(QString(), choose);
+}
 
+// Where the axis comes from: landmarks from a case file or the proposal from the shape.
+void ImportDialog::add_axis_rows(QFormLayout* form) {
   axis_label_ = new QLabel;
   axis_label_->setWordWrap(true);
   landmarks_button_ = new QPushButton(QStringLiteral("Landmarks from a case\u2026"));
@@ -106,7 +121,10 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
   axis_buttons->addWidget(proposal_button_);
   form->addRow(QStringLiteral("Axis"), axis_label_);
   form->addRow(QString(), axis_buttons);
+}
 
+// The three boxes that turn the axis round.
+void ImportDialog::add_swap_boxes(QVBoxLayout* side) {
   swap_crown_ = new QCheckBox(QStringLiteral("Crown and apex the other way round"));
   swap_labial_ = new QCheckBox(QStringLiteral("Labial and lingual the other way round"));
   swap_mesial_ = new QCheckBox(QStringLiteral("Mesial and distal the other way round"));
@@ -123,7 +141,10 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
       refresh();
     });
   }
+}
 
+// The tooth type, the summary and the confirmation of the axis.
+void ImportDialog::add_tooth_and_confirmation(QVBoxLayout* side) {
   auto* form2 = new QFormLayout;
   side->addLayout(form2);
   tooth_ = new QComboBox;
@@ -145,7 +166,10 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
     create_->setEnabled(on && import_.has_surface());
   });
   side->addWidget(confirm_);
+}
 
+// The message line, Cancel and Create case.
+void ImportDialog::add_message_and_buttons(QVBoxLayout* side) {
   message_ = new QLabel;
   message_->setWordWrap(true);
   message_->setTextInteractionFlags(Qt::TextSelectableByMouse);
@@ -163,7 +187,6 @@ ImportDialog::ImportDialog(const QString& start_folder, QWidget* parent)
   buttons->addWidget(cancel);
   buttons->addWidget(create_);
   side->addLayout(buttons);
-  refresh();
 }
 
 ImportDialog::~ImportDialog() = default;
@@ -219,7 +242,6 @@ bool ImportDialog::create_case() {
 
 void ImportDialog::refresh() {
   Scene& s = *scene_;
-  vtkRenderer* r = view_->renderer();
   vtkRenderer* o = view_->overlay();
   for (auto& a : s.marks) o->RemoveActor(a);
   for (auto& t : s.labels) o->RemoveActor(t);
@@ -229,6 +251,26 @@ void ImportDialog::refresh() {
   const bool have = import_.has_surface();
   s.surface->SetVisibility(have);
   s.axis->SetVisibility(have);
+  refresh_controls(have);
+  if (!have) {
+    summary_->clear();
+    view_->update();
+    return;
+  }
+  const mesh::SurfaceMesh& surface = *import_.surface();
+  show_surface(surface);
+  const std::vector<ShownLandmark> marks = import_.shown_landmarks();
+  const double length = import_.length_mm();
+  show_axis_and_landmarks(marks, length);
+  aim_camera(marks, length);
+  summary_->setText(QStringLiteral("%1 triangles, %2 mm long along the axis.")
+                        .arg(surface.triangles.size())
+                        .arg(length, 0, 'f', 1));
+  view_->update();
+}
+
+// Buttons and boxes enabled as the import allows; the file and axis labels.
+void ImportDialog::refresh_controls(bool have) {
   landmarks_button_->setEnabled(have);
   proposal_button_->setEnabled(import_.axis_source() == AxisSource::kLandmarks);
   for (QCheckBox* box : {swap_crown_, swap_labial_, swap_mesial_, confirm_}) box->setEnabled(have);
@@ -248,14 +290,11 @@ void ImportDialog::refresh() {
                          "sides are a guess, check them"));
       break;
   }
-  if (!have) {
-    summary_->clear();
-    view_->update();
-    return;
-  }
+}
 
-  // The surface in tooth coordinates.
-  const mesh::SurfaceMesh& surface = *import_.surface();
+// The surface in tooth coordinates.
+void ImportDialog::show_surface(const mesh::SurfaceMesh& surface) {
+  Scene& s = *scene_;
   const std::vector<Eigen::Vector3d> v = import_.placed_vertices();
   vtkNew<vtkPoints> points;
   points->SetNumberOfPoints(static_cast<vtkIdType>(v.size()));
@@ -274,10 +313,26 @@ void ImportDialog::refresh() {
   s.surface->SetMapper(mapper);
   s.surface->GetProperty()->SetColor(kSurfaceColour[0], kSurfaceColour[1], kSurfaceColour[2]);
   s.surface->GetProperty()->SetOpacity(0.55);  // the axis inside stays visible
+}
 
-  // The axis from apex to crown tip, and the landmarks.
-  const std::vector<ShownLandmark> marks = import_.shown_landmarks();
-  const double length = import_.length_mm();
+// A name at `at` in the overlay, in a box like the main view's labels.
+void ImportDialog::add_label(const QString& text, const Eigen::Vector3d& at, const Rgb& colour) {
+  auto t = vtkSmartPointer<vtkBillboardTextActor3D>::New();
+  t->SetInput(text.toUtf8().constData());
+  t->SetPosition(at.x(), at.y(), at.z());
+  const Rgb box = label_box_colour();
+  t->GetTextProperty()->SetFontSize(14);
+  t->GetTextProperty()->SetColor(colour[0], colour[1], colour[2]);
+  t->GetTextProperty()->SetBackgroundColor(box[0], box[1], box[2]);
+  t->GetTextProperty()->SetBackgroundOpacity(label_box_opacity());
+  view_->overlay()->AddActor(t);
+  scene_->labels.push_back(t);
+}
+
+// The axis from apex to crown tip, and the landmarks with their names.
+void ImportDialog::show_axis_and_landmarks(const std::vector<ShownLandmark>& marks, double length) {
+  Scene& s = *scene_;
+  vtkRenderer* o = view_->overlay();
   vtkNew<vtkLineSource> line;
   line->SetPoint1(marks[0].point_mm.data());
   line->SetPoint2(marks[1].point_mm.data());
@@ -290,18 +345,6 @@ void ImportDialog::refresh() {
   s.axis->SetMapper(axis_mapper);
   s.axis->GetProperty()->SetColor(kAxisColour[0], kAxisColour[1], kAxisColour[2]);
 
-  auto label = [&](const QString& text, const Eigen::Vector3d& at, const Rgb& colour) {
-    auto t = vtkSmartPointer<vtkBillboardTextActor3D>::New();
-    t->SetInput(text.toUtf8().constData());
-    t->SetPosition(at.x(), at.y(), at.z());
-    const Rgb box = label_box_colour();
-    t->GetTextProperty()->SetFontSize(14);
-    t->GetTextProperty()->SetColor(colour[0], colour[1], colour[2]);
-    t->GetTextProperty()->SetBackgroundColor(box[0], box[1], box[2]);
-    t->GetTextProperty()->SetBackgroundOpacity(label_box_opacity());
-    o->AddActor(t);
-    s.labels.push_back(t);
-  };
   for (size_t i = 0; i < marks.size(); ++i) {
     const Rgb& colour = i < 2 ? kAxisColour : kCejColour;
     vtkNew<vtkSphereSource> ball;
@@ -320,16 +363,20 @@ void ImportDialog::refresh() {
   // Side names beyond the CEJ points (the way the tooth coordinate system says they lie), and the
   // crown name above the crown tip.
   const double out = 0.18 * length;
-  label(QStringLiteral("labial"), marks[2].point_mm + Eigen::Vector3d(out, 0, 0), kSideColour);
-  label(QStringLiteral("lingual"), marks[3].point_mm + Eigen::Vector3d(-out, 0, 0), kSideColour);
-  label(QStringLiteral("mesial"), marks[4].point_mm + Eigen::Vector3d(0, out, 0), kSideColour);
-  label(QStringLiteral("distal"), marks[5].point_mm + Eigen::Vector3d(0, -out, 0), kSideColour);
-  label(QStringLiteral("crown"), marks[1].point_mm + Eigen::Vector3d(0, 0, 0.08 * length),
-        kAxisColour);
-  label(QStringLiteral("apex"), marks[0].point_mm + Eigen::Vector3d(0, 0, -0.08 * length),
-        kAxisColour);
+  add_label(QStringLiteral("labial"), marks[2].point_mm + Eigen::Vector3d(out, 0, 0), kSideColour);
+  add_label(QStringLiteral("lingual"), marks[3].point_mm + Eigen::Vector3d(-out, 0, 0),
+            kSideColour);
+  add_label(QStringLiteral("mesial"), marks[4].point_mm + Eigen::Vector3d(0, out, 0), kSideColour);
+  add_label(QStringLiteral("distal"), marks[5].point_mm + Eigen::Vector3d(0, -out, 0), kSideColour);
+  add_label(QStringLiteral("crown"), marks[1].point_mm + Eigen::Vector3d(0, 0, 0.08 * length),
+            kAxisColour);
+  add_label(QStringLiteral("apex"), marks[0].point_mm + Eigen::Vector3d(0, 0, -0.08 * length),
+            kAxisColour);
+}
 
-  // Seen from mesiolabial and above, the crown up, so all four sides' names show.
+// Seen from mesiolabial and above, the crown up, so all four sides' names show.
+void ImportDialog::aim_camera(const std::vector<ShownLandmark>& marks, double length) {
+  vtkRenderer* r = view_->renderer();
   vtkCamera* camera = r->GetActiveCamera();
   camera->SetFocalPoint(0, 0, 0.5 * (marks[0].point_mm.z() + marks[1].point_mm.z()));
   camera->SetPosition(1.9 * length, 1.1 * length, 1.7 * length);
@@ -337,11 +384,6 @@ void ImportDialog::refresh() {
   r->ResetCamera();
   camera->Zoom(0.8);  // room for the crown and side names around the surface
   r->ResetCameraClippingRange();
-
-  summary_->setText(QStringLiteral("%1 triangles, %2 mm long along the axis.")
-                        .arg(surface.triangles.size())
-                        .arg(length, 0, 'f', 1));
-  view_->update();
 }
 
 }  // namespace sharpey::app

@@ -8,13 +8,18 @@
 #include <QDialog>
 #include <memory>
 #include <optional>
+#include <vector>
 
+#include "core/colour_map.h"
 #include "core/surface_import.h"
 
 class QCheckBox;
 class QComboBox;
+class QFormLayout;
+class QHBoxLayout;
 class QLabel;
 class QPushButton;
+class QVBoxLayout;
 
 namespace sharpey::app {
 
@@ -51,7 +56,20 @@ class ImportDialog : public QDialog {
   const std::optional<analysis::CaseSpec>& built_case() const { return case_; }
 
  private:
+  // The constructor's steps, in the dialog's order.
+  void add_view(QHBoxLayout* layout);
+  void add_file_rows(QFormLayout* form);
+  void add_axis_rows(QFormLayout* form);
+  void add_swap_boxes(QVBoxLayout* side);
+  void add_tooth_and_confirmation(QVBoxLayout* side);
+  void add_message_and_buttons(QVBoxLayout* side);
+  // Shows the import's state: controls, surface, axis and landmarks, camera.
   void refresh();
+  void refresh_controls(bool have_surface);
+  void show_surface(const mesh::SurfaceMesh& surface);
+  void show_axis_and_landmarks(const std::vector<ShownLandmark>& marks, double length_mm);
+  void add_label(const QString& text, const Eigen::Vector3d& at, const Rgb& colour);
+  void aim_camera(const std::vector<ShownLandmark>& marks, double length_mm);
   void show_message(const QString& text, bool is_error);
 
   QString start_folder_;

@@ -29,8 +29,18 @@ QDoubleSpinBox* spin(double lo, double hi, int decimals, const QString& suffix) 
 LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   auto* form = new QFormLayout(this);
   form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
+  add_force_rows(form);
+  add_direction_rows(form);
+  add_application_rows(form);
+  add_couple_rows(form);
+  add_preset_rows(form);
+  connect_force_controls();
+  connect_couple_controls();
+  sync_widgets();
+}
 
-  // Magnitude.
+// Magnitude: field, unit and slider.
+void LoadPanel::add_force_rows(QFormLayout* form) {
   auto* mag_row = new QWidget;
   auto* mag = new QHBoxLayout(mag_row);
   mag->setContentsMargins(0, 0, 0, 0);
@@ -46,8 +56,10 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   slider_->setRange(0, kSliderSteps);
   slider_->setToolTip(QStringLiteral("Drag to change the force; colours and numbers follow"));
   form->addRow(QString(), slider_);
+}
 
-  // Direction.
+// Direction: named or free angles.
+void LoadPanel::add_direction_rows(QFormLayout* form) {
   direction_ = new QComboBox;
   for (DirectionChoice d : all_direction_choices())
     direction_->addItem(label(d), static_cast<int>(d));
@@ -66,14 +78,18 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   angles->addWidget(new QLabel(QStringLiteral("el")));
   angles->addWidget(elevation_, 1);
   form->addRow(QString(), angle_row);
+}
 
-  // Point of application.
+// Point of application.
+void LoadPanel::add_application_rows(QFormLayout* form) {
   at_pad_ = new QCheckBox(QStringLiteral("at the bracket centre"));
   form->addRow(QStringLiteral("Applied"), at_pad_);
   height_ = spin(0, 15, 1, QStringLiteral(" mm above CEJ"));
   form->addRow(QString(), height_);
+}
 
-  // Couple.
+// Couple: none, a moment or a moment-to-force ratio.
+void LoadPanel::add_couple_rows(QFormLayout* form) {
   couple_ = new QComboBox;
   for (auto k :
        {analysis::CoupleKind::kNone, analysis::CoupleKind::kMoment, analysis::CoupleKind::kRatio})
@@ -101,8 +117,10 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
                      "divided by the force"));
   rrow->addWidget(ratio_, 1);
   form->addRow(QString(), ratio_row_);
+}
 
-  // Movement preset.
+// Movement preset, its note and the force system resolved by the library.
+void LoadPanel::add_preset_rows(QFormLayout* form) {
   preset_ = new QComboBox;
   for (auto p : panel_presets()) preset_->addItem(label(p), static_cast<int>(p));
   preset_->setToolTip(QStringLiteral("Sets the couple from this scenario's centre of resistance"));
@@ -116,7 +134,10 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
   resolved_->setTextInteractionFlags(Qt::TextSelectableByMouse);
   resolved_->setStyleSheet(QStringLiteral("color: #2f3b47; background: #eef1f4; padding: 4px;"));
   form->addRow(resolved_);
+}
 
+// Magnitude, unit, direction and point of application write into controls_.
+void LoadPanel::connect_force_controls() {
   connect(slider_, &QSlider::valueChanged, this, [this](int position) {
     if (updating_) return;
     controls_.magnitude = magnitude_from_slider(position, controls_.unit);
@@ -155,6 +176,10 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
     controls_.bracket_height_mm = v;
     edited(false);
   });
+}
+
+// Couple, moment, ratio and preset write into controls_.
+void LoadPanel::connect_couple_controls() {
   connect(couple_, &QComboBox::currentIndexChanged, this, [this]() {
     if (updating_) return;
     controls_.couple = static_cast<analysis::CoupleKind>(couple_->currentData().toInt());
@@ -176,7 +201,6 @@ LoadPanel::LoadPanel(QWidget* parent) : QWidget(parent) {
     controls_.preset = static_cast<analysis::MovementPreset>(preset_->currentData().toInt());
     edited(false);
   });
-  sync_widgets();
 }
 
 void LoadPanel::set_controls(const LoadControls& controls) {

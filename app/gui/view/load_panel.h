@@ -11,6 +11,7 @@
 class QCheckBox;
 class QComboBox;
 class QDoubleSpinBox;
+class QFormLayout;
 class QLabel;
 class QSlider;
 
@@ -41,6 +42,14 @@ class LoadPanel : public QWidget {
   void changed(const sharpey::app::LoadControls& controls, bool interactive);
 
  private:
+  // The constructor's steps: each adds its rows to `form`, in the panel's order.
+  void add_force_rows(QFormLayout* form);
+  void add_direction_rows(QFormLayout* form);
+  void add_application_rows(QFormLayout* form);
+  void add_couple_rows(QFormLayout* form);
+  void add_preset_rows(QFormLayout* form);
+  void connect_force_controls();
+  void connect_couple_controls();
   void sync_widgets();
   void edited(bool interactive);
 

@@ -30,8 +30,8 @@
 #include <cmath>
 
 #include "core/display_mesh.h"
-#include "sharpey/analysis/report_output.h"
 #include "sharpey/core/constants.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::app {
 
@@ -595,11 +595,11 @@ void ModelScene::set_iso_levels(double capillary, double limit, bool visible) {
   d.update_iso_lines();
 }
 
-void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result,
-                                 const QString& force_text) {
-  Impl& d = *impl_;
-  QElapsedTimer timer;
-  timer.start();
+namespace {
+
+// What the glyph geometry is built from: the force's and the couple's directions, the point of
+// application, the CRes and the centre of rotation (the magnitudes only label the arrow).
+std::vector<double> glyph_key_of(const analysis::ScenarioResult& result) {
   const analysis::ResolvedLoad& load = result.load;
   const analysis::CentreOfResistance& cres_of = analysis::cres_for(result);
   std::vector<double> key;
@@ -611,98 +611,116 @@ void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result,
   add(cres_of.point);
   key.push_back(result.centre_of_rotation_defined ? 1.0 : 0.0);
   add(result.centre_of_rotation.allFinite() ? result.centre_of_rotation : Eigen::Vector3d::Zero());
+  return key;
+}
+
+// The force as an arrow of fixed length at its point of application, labelled at its far end;
+// empty for no force.
+void build_force_arrow(Part& arrow_part, vtkBillboardTextActor3D* label,
+                       const analysis::ResolvedLoad& load, const Eigen::Vector3d& bracket_normal,
+                       const QString& force_text) {
+  const double arrow_length = 7.0;  // mm, fixed; the label gives the magnitude
+  const double f = load.force_n.norm();
+  if (!(f > 0)) {
+    arrow_part.data->Initialize();
+    label->SetInput("");
+    return;
+  }
+  const Eigen::Vector3d dir = load.force_n / f;
+  const Eigen::Vector3d p = load.application_point;
+  // Keep the arrow outside the crown: tip at the bracket when it pushes into the tooth.
+  const bool pushes = dir.dot(bracket_normal) < 0;
+  const Eigen::Vector3d base = pushes ? Eigen::Vector3d(p - arrow_length * dir) : p;
+  vtkNew<vtkArrowSource> arrow;
+  arrow->SetTipResolution(24);
+  arrow->SetShaftResolution(24);
+  arrow->SetTipLength(0.3);
+  arrow->SetTipRadius(0.1);
+  arrow->SetShaftRadius(0.035);
+  vtkNew<vtkTransformPolyDataFilter> place;
+  place->SetInputConnection(arrow->GetOutputPort());
+  place->SetTransform(frame_along(base, dir, arrow_length));
+  copy_output(arrow_part.data, place);
+  // Label at the far end of the arrow, away from the crown.
+  const Eigen::Vector3d tail = pushes ? base : Eigen::Vector3d(p + arrow_length * dir);
+  label->SetPosition(tail.x(), tail.y(), tail.z() + 1.0);
+  label->SetInput(force_text.toUtf8().constData());
+}
+
+// The couple alone, as an arc about its axis beside the bracket (right-hand rule) with a cone at
+// its end. Precondition: a couple of non-zero norm.
+void build_couple_arc(Part& arc_part, Part& head_part, const analysis::ResolvedLoad& load,
+                      const Eigen::Vector3d& bracket_normal) {
+  const Eigen::Vector3d axis = load.couple_nmm / load.couple_nmm.norm();
+  Eigen::Vector3d helper =
+      std::abs(axis.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
+  const Eigen::Vector3d u = helper.cross(axis).normalized();
+  const Eigen::Vector3d v = axis.cross(u);
+  const Eigen::Vector3d centre = load.application_point + 2.5 * bracket_normal;
+  const double radius = 3.0;
+  const int n = 48;
+  const double sweep = 1.5 * sharpey::core::kPi;
+  std::vector<Segment3> segments;
+  Eigen::Vector3d previous = centre + radius * u;
+  for (int i = 1; i <= n; ++i) {
+    const double a = sweep * i / n;
+    const Eigen::Vector3d q = centre + radius * (std::cos(a) * u + std::sin(a) * v);
+    segments.emplace_back(previous, q);
+    previous = q;
+  }
+  vtkNew<vtkPolyData> arc;
+  fill_segments(arc, segments);
+  vtkNew<vtkTubeFilter> tube;
+  tube->SetInputData(arc);
+  tube->SetRadius(0.18);
+  tube->SetNumberOfSides(12);
+  copy_output(arc_part.data, tube);
+  const Eigen::Vector3d tangent = -std::sin(sweep) * u + std::cos(sweep) * v;
+  vtkNew<vtkConeSource> head;
+  head->SetResolution(24);
+  head->SetHeight(1.2);
+  head->SetRadius(0.5);
+  head->SetCenter(previous.x(), previous.y(), previous.z());
+  head->SetDirection(tangent.x(), tangent.y(), tangent.z());
+  copy_output(head_part.data, head);
+}
+
+// A ball of `radius_mm` at `c` with its label; `resolution` facets around and along.
+void build_centre_marker(Part& part, vtkBillboardTextActor3D* label, const Eigen::Vector3d& c,
+                         double radius_mm, int resolution) {
+  vtkNew<vtkSphereSource> ball;
+  ball->SetCenter(c.x(), c.y(), c.z());
+  ball->SetRadius(radius_mm);
+  ball->SetThetaResolution(resolution);
+  ball->SetPhiResolution(resolution);
+  copy_output(part.data, ball);
+  label->SetPosition(c.x(), c.y(), c.z());
+}
+
+}  // namespace
+
+void ModelScene::set_load_glyphs(const analysis::ScenarioResult& result,
+                                 const QString& force_text) {
+  Impl& d = *impl_;
+  QElapsedTimer timer;
+  timer.start();
+  const analysis::ResolvedLoad& load = result.load;
+  std::vector<double> key = glyph_key_of(result);
   if (key == d.glyph_key) {
-    d.arrow_label->SetInput(f_norm > 0 ? force_text.toUtf8().constData() : "");
+    d.arrow_label->SetInput(load.force_n.norm() > 0 ? force_text.toUtf8().constData() : "");
     d.timings.glyphs_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
     return;
   }
-  d.glyph_key = key;
-  const double arrow_length = 7.0;  // mm, fixed; the label gives the magnitude
-  const double f = load.force_n.norm();
-  if (f > 0) {
-    const Eigen::Vector3d dir = load.force_n / f;
-    const Eigen::Vector3d p = load.application_point;
-    // Keep the arrow outside the crown: tip at the bracket when it pushes into the tooth.
-    const bool pushes = dir.dot(d.geometry.bracket_normal) < 0;
-    const Eigen::Vector3d base = pushes ? Eigen::Vector3d(p - arrow_length * dir) : p;
-    vtkNew<vtkArrowSource> arrow;
-    arrow->SetTipResolution(24);
-    arrow->SetShaftResolution(24);
-    arrow->SetTipLength(0.3);
-    arrow->SetTipRadius(0.1);
-    arrow->SetShaftRadius(0.035);
-    vtkNew<vtkTransformPolyDataFilter> place;
-    place->SetInputConnection(arrow->GetOutputPort());
-    place->SetTransform(frame_along(base, dir, arrow_length));
-    copy_output(d.arrow.data, place);
-    // Label at the far end of the arrow, away from the crown.
-    const Eigen::Vector3d tail = pushes ? base : Eigen::Vector3d(p + arrow_length * dir);
-    d.arrow_label->SetPosition(tail.x(), tail.y(), tail.z() + 1.0);
-    d.arrow_label->SetInput(force_text.toUtf8().constData());
-  } else {
-    d.arrow.data->Initialize();
-    d.arrow_label->SetInput("");
-  }
-
-  // The couple alone, as an arc about its axis beside the bracket (right-hand rule).
-  const double m = load.couple_nmm.norm();
-  d.couple_shown = m > 1e-9;
-  if (d.couple_shown) {
-    const Eigen::Vector3d axis = load.couple_nmm / m;
-    Eigen::Vector3d helper =
-        std::abs(axis.z()) < 0.9 ? Eigen::Vector3d::UnitZ() : Eigen::Vector3d::UnitX();
-    const Eigen::Vector3d u = helper.cross(axis).normalized();
-    const Eigen::Vector3d v = axis.cross(u);
-    const Eigen::Vector3d centre = load.application_point + 2.5 * d.geometry.bracket_normal;
-    const double radius = 3.0;
-    const int n = 48;
-    const double sweep = 1.5 * sharpey::core::kPi;
-    std::vector<Segment3> segments;
-    Eigen::Vector3d previous = centre + radius * u;
-    for (int i = 1; i <= n; ++i) {
-      const double a = sweep * i / n;
-      const Eigen::Vector3d q = centre + radius * (std::cos(a) * u + std::sin(a) * v);
-      segments.emplace_back(previous, q);
-      previous = q;
-    }
-    vtkNew<vtkPolyData> arc;
-    fill_segments(arc, segments);
-    vtkNew<vtkTubeFilter> tube;
-    tube->SetInputData(arc);
-    tube->SetRadius(0.18);
-    tube->SetNumberOfSides(12);
-    copy_output(d.couple_arc.data, tube);
-    const Eigen::Vector3d tangent = -std::sin(sweep) * u + std::cos(sweep) * v;
-    vtkNew<vtkConeSource> head;
-    head->SetResolution(24);
-    head->SetHeight(1.2);
-    head->SetRadius(0.5);
-    head->SetCenter(previous.x(), previous.y(), previous.z());
-    head->SetDirection(tangent.x(), tangent.y(), tangent.z());
-    copy_output(d.couple_head.data, head);
-  }
-
-  const analysis::CentreOfResistance& cres = analysis::cres_for(result);
-  vtkNew<vtkSphereSource> cres_ball;
-  cres_ball->SetCenter(cres.point.x(), cres.point.y(), cres.point.z());
-  cres_ball->SetRadius(0.55);
-  cres_ball->SetThetaResolution(24);
-  cres_ball->SetPhiResolution(24);
-  copy_output(d.cres.data, cres_ball);
-  d.cres_label->SetPosition(cres.point.x(), cres.point.y(), cres.point.z());
-
+  d.glyph_key = std::move(key);
+  build_force_arrow(d.arrow, d.arrow_label, load, d.geometry.bracket_normal, force_text);
+  d.couple_shown = load.couple_nmm.norm() > 1e-9;
+  if (d.couple_shown)
+    build_couple_arc(d.couple_arc, d.couple_head, load, d.geometry.bracket_normal);
+  build_centre_marker(d.cres, d.cres_label, analysis::cres_for(result).point, 0.55, 24);
   d.crot_shown = result.centre_of_rotation_defined && result.centre_of_rotation.allFinite() &&
                  result.centre_of_rotation.norm() < 60.0;
-  if (d.crot_shown) {
-    const Eigen::Vector3d& c = result.centre_of_rotation;
-    vtkNew<vtkSphereSource> ball;
-    ball->SetCenter(c.x(), c.y(), c.z());
-    ball->SetRadius(0.45);
-    ball->SetThetaResolution(4);  // a faceted marker, told apart from the CRes ball
-    ball->SetPhiResolution(4);
-    copy_output(d.crot.data, ball);
-    d.crot_label->SetPosition(c.x(), c.y(), c.z());
-  }
+  // A faceted marker, told apart from the CRes ball.
+  if (d.crot_shown) build_centre_marker(d.crot, d.crot_label, result.centre_of_rotation, 0.45, 4);
   d.apply_visibility();
   d.timings.glyphs_ms = static_cast<double>(timer.nsecsElapsed()) * 1e-6;
 }

@@ -93,14 +93,11 @@ void check_binary_stl_length(const std::string& path, const std::string& bytes,
 // 10 million binary STL triangles; scans of one tooth need far fewer.
 constexpr std::uintmax_t kMaxSurfaceFileBytes = 500u * 1000 * 1000;
 
-}  // namespace
+using Polygons = std::vector<std::vector<std::size_t>>;
 
-SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) {
-  const std::string ext = lower_extension(path);
-  if (ext != "stl" && ext != "ply" && ext != "obj") {
-    throw InputError(key, "tooth surface " + path + ": unknown file type '." + ext +
-                              "'; use an STL (binary or ASCII), PLY or OBJ file");
-  }
+// The file before CGAL reads it: only a regular file of sensible size, not empty, and (for a
+// binary STL) as long as its header says.
+void check_surface_file(const std::string& path, const std::string& ext, const std::string& key) {
   {
     // Only a regular file of sensible size: a device or pipe named by a case file must not hang
     // or exhaust memory.
@@ -132,9 +129,14 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
         key, "tooth surface " + path + ": the file is empty (0 bytes); export the surface again");
   }
   if (ext == "stl") check_binary_stl_length(path, bytes, key);
+}
 
-  std::vector<Point> points;
-  std::vector<std::vector<std::size_t>> polygons;
+// CGAL's polygon soup of the file: finite coordinates, valid indices, triangles only, equal
+// positions merged.
+void read_triangle_soup(const std::string& path, const std::string& ext, const std::string& key,
+                        std::vector<Point>* points_out, Polygons* polygons_out) {
+  std::vector<Point>& points = *points_out;
+  Polygons& polygons = *polygons_out;
   bool ok = false;
   try {
     ok = CGAL::IO::read_polygon_soup(path, points, polygons, CGAL::parameters::verbose(false));
@@ -170,17 +172,12 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
   }
   // STL repeats each vertex in every triangle: merge equal positions (exactly equal only).
   PMP::merge_duplicate_points_in_polygon_soup(points, polygons);
+}
 
-  const size_t n_tri = polygons.size();
-  if (n_tri < static_cast<size_t>(kMinScanTriangles)) {
-    throw InputError(key, "tooth surface " + path + ": too few triangles (" +
-                              std::to_string(n_tri) + "); a scanned tooth needs at least " +
-                              std::to_string(kMinScanTriangles) +
-                              " to carry its shape; export at a finer resolution");
-  }
-
-  // Size and units, before the topology: a file in metres has every triangle nearly degenerate
-  // at the tolerances below.
+// Size and units, before the topology: a file in metres has every triangle nearly degenerate
+// at the tolerances of the later checks.
+void check_size_and_units(const std::vector<Point>& points, const std::string& path,
+                          const std::string& key) {
   Eigen::Vector3d lo = Eigen::Vector3d::Constant(1e300), hi = -lo;
   for (const auto& p : points) {
     const Eigen::Vector3d q(p.x(), p.y(), p.z());
@@ -207,9 +204,12 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
                               " mm for a whole single-rooted tooth; check the units and that the "
                               "file holds one whole tooth");
   }
+}
 
-  // Degenerate triangles: a repeated corner or (near) zero area relative to the longest edge.
-  for (size_t f = 0; f < n_tri; ++f) {
+// Degenerate triangles: a repeated corner or (near) zero area relative to the longest edge.
+void check_degenerate_triangles(const std::vector<Point>& points, const Polygons& polygons,
+                                const std::string& path, const std::string& key) {
+  for (size_t f = 0; f < polygons.size(); ++f) {
     const auto& t = polygons[f];
     const Point &a = points[t[0]], &b = points[t[1]], &c = points[t[2]];
     const Kernel::Vector_3 n = CGAL::cross_product(b - a, c - a);
@@ -223,9 +223,12 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
                                 "remove degenerate faces) and export again");
     }
   }
+}
 
-  // Edges: boundary (one triangle), non-manifold (more than two), inconsistent orientation
-  // (two triangles running the edge the same way).
+// Edges: boundary (one triangle), non-manifold (more than two), inconsistent orientation
+// (two triangles running the edge the same way).
+void check_edges(const std::vector<Point>& points, const Polygons& polygons,
+                 const std::string& path, const std::string& key) {
   std::map<std::pair<size_t, size_t>, std::pair<int, int>>
       edges;  // (lo, hi) -> (forward, backward)
   for (const auto& t : polygons) {
@@ -268,6 +271,11 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
                  " edge(s) where neighbouring triangles face opposite ways, the first at " +
                  at(*first_flipped) + "; re-orient the faces consistently and export again");
   }
+}
+
+// CGAL's checks: one closed, valid surface that does not pass through itself and faces outward.
+void check_closed_surface(const std::vector<Point>& points, const Polygons& polygons,
+                          const std::string& path, const std::string& key) {
   if (!PMP::is_polygon_soup_a_polygon_mesh(polygons)) {
     throw InputError(key,
                      "tooth surface " + path +
@@ -303,7 +311,31 @@ SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) 
                               ": inverted orientation: the triangles face inward (their normals "
                               "point into the tooth); flip all face normals and export again");
   }
+}
 
+}  // namespace
+
+SurfaceMesh read_tooth_surface(const std::string& path, const std::string& key) {
+  const std::string ext = lower_extension(path);
+  if (ext != "stl" && ext != "ply" && ext != "obj") {
+    throw InputError(key, "tooth surface " + path + ": unknown file type '." + ext +
+                              "'; use an STL (binary or ASCII), PLY or OBJ file");
+  }
+  check_surface_file(path, ext, key);
+  std::vector<Point> points;
+  Polygons polygons;
+  read_triangle_soup(path, ext, key, &points, &polygons);
+  const size_t n_tri = polygons.size();
+  if (n_tri < static_cast<size_t>(kMinScanTriangles)) {
+    throw InputError(key, "tooth surface " + path + ": too few triangles (" +
+                              std::to_string(n_tri) + "); a scanned tooth needs at least " +
+                              std::to_string(kMinScanTriangles) +
+                              " to carry its shape; export at a finer resolution");
+  }
+  check_size_and_units(points, path, key);
+  check_degenerate_triangles(points, polygons, path, key);
+  check_edges(points, polygons, path, key);
+  check_closed_surface(points, polygons, path, key);
   SurfaceMesh out;
   out.vertices.reserve(points.size());
   for (const auto& p : points) out.vertices.emplace_back(p.x(), p.y(), p.z());

@@ -201,80 +201,82 @@ double signed_volume(const std::vector<Eigen::Vector3d>& x, const int* t) {
   return (x[t[1]] - x[t[0]]).dot((x[t[2]] - x[t[0]]).cross(x[t[3]] - x[t[0]])) / 6.0;
 }
 
-// Converts TetGen's output to a linear VolumeMesh: compact nodes, positive volumes, region ids,
-// face markers and face orientation.
-VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<int>* point_node) {
-  const Plc& plc = ctx.plc;
-  if (out.numberoftetrahedra <= 0)
-    fail(ctx, "TetGen produced no elements (is the surface closed?)");
-  if (out.numberofcorners != 4) fail(ctx, "TetGen returned elements that are not 4-node");
-  if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
-    fail(ctx, "TetGen returned no region attributes");
-  }
+// Keeps only the nodes used by elements, in TetGen's order; returns TetGen's point index -> node
+// (-1 for a point no element uses).
+std::vector<int> copy_used_nodes(const Context& ctx, const tetgenio& out, VolumeMesh* mesh) {
   const int n_tets = out.numberoftetrahedra;
   const int n_in_nodes = out.numberofpoints;
-
-  // Keep only nodes used by elements, in TetGen's order.
   std::vector<int> new_index(static_cast<size_t>(n_in_nodes), -1);
   for (int i = 0; i < 4 * n_tets; ++i) {
     const int v = out.tetrahedronlist[i];
     if (v < 0 || v >= n_in_nodes) fail(ctx, "TetGen returned an element node out of range");
     new_index[static_cast<size_t>(v)] = 0;
   }
-  VolumeMesh mesh;
-  mesh.nodes_per_element = 4;
-  mesh.nodes_per_face = 3;
   for (int v = 0; v < n_in_nodes; ++v) {
     if (new_index[static_cast<size_t>(v)] < 0) continue;
-    new_index[static_cast<size_t>(v)] = mesh.n_nodes();
+    new_index[static_cast<size_t>(v)] = mesh->n_nodes();
     const REAL* p = out.pointlist + 3 * static_cast<size_t>(v);
-    mesh.nodes.emplace_back(p[0], p[1], p[2]);
+    mesh->nodes.emplace_back(p[0], p[1], p[2]);
   }
+  return new_index;
+}
 
-  if (point_node != nullptr) {
-    // TetGen lists the input points first, in input order; check the coordinates all the same.
-    point_node->assign(plc.points.size(), -1);
-    for (size_t i = 0; i < plc.points.size() && i < static_cast<size_t>(n_in_nodes); ++i) {
-      const REAL* p = out.pointlist + 3 * i;
-      if (Eigen::Vector3d(p[0], p[1], p[2]) == plc.points[i]) (*point_node)[i] = new_index[i];
-    }
+// The node of each input point (-1 when it is not a mesh node).
+void map_input_points(const Plc& plc, const tetgenio& out, const std::vector<int>& new_index,
+                      std::vector<int>* point_node) {
+  // TetGen lists the input points first, in input order; check the coordinates all the same.
+  point_node->assign(plc.points.size(), -1);
+  for (size_t i = 0; i < plc.points.size() && i < static_cast<size_t>(out.numberofpoints); ++i) {
+    const REAL* p = out.pointlist + 3 * i;
+    if (Eigen::Vector3d(p[0], p[1], p[2]) == plc.points[i]) (*point_node)[i] = new_index[i];
   }
+}
 
+// Elements with positive volume and their region ids; every element must lie in a seeded region.
+void copy_elements(const Context& ctx, const tetgenio& out, const std::vector<int>& new_index,
+                   VolumeMesh* mesh) {
   std::vector<int> seeded;
-  for (const auto& seed : plc.regions) seeded.push_back(seed.region);
+  for (const auto& seed : ctx.plc.regions) seeded.push_back(seed.region);
   std::sort(seeded.begin(), seeded.end());
-
-  mesh.elements.resize(static_cast<size_t>(n_tets) * 4);
-  mesh.element_region.resize(static_cast<size_t>(n_tets));
+  const int n_tets = out.numberoftetrahedra;
+  mesh->elements.resize(static_cast<size_t>(n_tets) * 4);
+  mesh->element_region.resize(static_cast<size_t>(n_tets));
   int n_unseeded = 0;
   for (int e = 0; e < n_tets; ++e) {
-    int* t = mesh.elements.data() + 4 * static_cast<size_t>(e);
+    int* t = mesh->elements.data() + 4 * static_cast<size_t>(e);
     for (int k = 0; k < 4; ++k)
       t[k] = new_index[static_cast<size_t>(out.tetrahedronlist[4 * e + k])];
-    if (signed_volume(mesh.nodes, t) < 0) std::swap(t[1], t[2]);
+    if (signed_volume(mesh->nodes, t) < 0) std::swap(t[1], t[2]);
     const double attr =
         out.tetrahedronattributelist[static_cast<size_t>(e) * out.numberoftetrahedronattributes];
     const int region = static_cast<int>(std::lround(attr));
     if (!std::binary_search(seeded.begin(), seeded.end(), region)) ++n_unseeded;
-    mesh.element_region[static_cast<size_t>(e)] = region;
+    mesh->element_region[static_cast<size_t>(e)] = region;
   }
   if (n_unseeded > 0) {
     fail(ctx, std::to_string(n_unseeded) + " of " + std::to_string(n_tets) +
                   " elements lie in no seeded region (a closed sub-volume has no region seed or "
                   "hole point, or a seed lies outside its region)");
   }
+}
 
-  // Faces: TetGen's subfaces (pieces of the input triangles) with their facet markers.
+using FaceIndex = std::unordered_map<TriangleKey, int, TriangleKeyHash>;
+
+// Faces: TetGen's subfaces (pieces of the input triangles) with their facet markers; returns the
+// face of each sorted node triple.
+FaceIndex copy_faces(const Context& ctx, const tetgenio& out, const std::vector<int>& new_index,
+                     VolumeMesh* mesh) {
   const int n_faces = out.numberoftrifaces;
+  const int n_in_nodes = out.numberofpoints;
   if (n_faces <= 0 || out.trifacelist == nullptr || out.trifacemarkerlist == nullptr) {
     fail(ctx, "TetGen returned no boundary faces");
   }
-  std::unordered_map<TriangleKey, int, TriangleKeyHash> face_of_key;
+  FaceIndex face_of_key;
   face_of_key.reserve(static_cast<size_t>(n_faces) * 2);
-  mesh.faces.resize(static_cast<size_t>(n_faces) * 3);
-  mesh.face_marker.resize(static_cast<size_t>(n_faces));
+  mesh->faces.resize(static_cast<size_t>(n_faces) * 3);
+  mesh->face_marker.resize(static_cast<size_t>(n_faces));
   for (int f = 0; f < n_faces; ++f) {
-    int* tri = mesh.faces.data() + 3 * static_cast<size_t>(f);
+    int* tri = mesh->faces.data() + 3 * static_cast<size_t>(f);
     for (int k = 0; k < 3; ++k) {
       const int v = out.trifacelist[3 * f + k];
       if (v < 0 || v >= n_in_nodes || new_index[static_cast<size_t>(v)] < 0) {
@@ -282,16 +284,21 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
       }
       tri[k] = new_index[static_cast<size_t>(v)];
     }
-    mesh.face_marker[static_cast<size_t>(f)] = out.trifacemarkerlist[f];
+    mesh->face_marker[static_cast<size_t>(f)] = out.trifacemarkerlist[f];
     face_of_key.emplace(TriangleKey(tri[0], tri[1], tri[2]), f);
   }
+  return face_of_key;
+}
 
-  // Orient each face outward from the adjacent element with the smallest region id.
-  std::vector<int> owner_region(static_cast<size_t>(n_faces), std::numeric_limits<int>::max());
-  std::vector<int> n_adjacent(static_cast<size_t>(n_faces), 0);
-  for (int e = 0; e < n_tets; ++e) {
-    const int* t = mesh.element(e);
-    const int region = mesh.element_region[static_cast<size_t>(e)];
+// Orients each face outward from the adjacent element with the smallest region id; every face
+// must belong to an element.
+void orient_faces(const Context& ctx, const FaceIndex& face_of_key, VolumeMesh* mesh) {
+  const size_t n_faces = mesh->face_marker.size();
+  std::vector<int> owner_region(n_faces, std::numeric_limits<int>::max());
+  std::vector<int> n_adjacent(n_faces, 0);
+  for (int e = 0; e < mesh->n_elements(); ++e) {
+    const int* t = mesh->element(e);
+    const int region = mesh->element_region[static_cast<size_t>(e)];
     for (const auto& lf : core::kTetFaces) {  // outward for positive volume
       const auto it = face_of_key.find(TriangleKey(t[lf[0]], t[lf[1]], t[lf[2]]));
       if (it == face_of_key.end()) continue;
@@ -299,17 +306,34 @@ VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<i
       ++n_adjacent[f];
       if (region >= owner_region[f]) continue;
       owner_region[f] = region;
-      int* tri = mesh.faces.data() + 3 * f;
+      int* tri = mesh->faces.data() + 3 * f;
       tri[0] = t[lf[0]];
       tri[1] = t[lf[1]];
       tri[2] = t[lf[2]];
     }
   }
-  for (int f = 0; f < n_faces; ++f) {
-    if (n_adjacent[static_cast<size_t>(f)] == 0) {
-      fail(ctx, "TetGen returned a face that belongs to no element");
-    }
+  for (size_t f = 0; f < n_faces; ++f) {
+    if (n_adjacent[f] == 0) fail(ctx, "TetGen returned a face that belongs to no element");
   }
+}
+
+// Converts TetGen's output to a linear VolumeMesh: compact nodes, positive volumes, region ids,
+// face markers and face orientation.
+VolumeMesh convert_output(const Context& ctx, const tetgenio& out, std::vector<int>* point_node) {
+  if (out.numberoftetrahedra <= 0)
+    fail(ctx, "TetGen produced no elements (is the surface closed?)");
+  if (out.numberofcorners != 4) fail(ctx, "TetGen returned elements that are not 4-node");
+  if (out.numberoftetrahedronattributes < 1 || out.tetrahedronattributelist == nullptr) {
+    fail(ctx, "TetGen returned no region attributes");
+  }
+  VolumeMesh mesh;
+  mesh.nodes_per_element = 4;
+  mesh.nodes_per_face = 3;
+  const std::vector<int> new_index = copy_used_nodes(ctx, out, &mesh);
+  if (point_node != nullptr) map_input_points(ctx.plc, out, new_index, point_node);
+  copy_elements(ctx, out, new_index, &mesh);
+  const FaceIndex face_of_key = copy_faces(ctx, out, new_index, &mesh);
+  orient_faces(ctx, face_of_key, &mesh);
   return mesh;
 }
 

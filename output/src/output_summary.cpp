@@ -5,10 +5,10 @@
 #include <functional>
 #include <sstream>
 
-#include "output_text.h"
-#include "sharpey/analysis/allowance_output.h"
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/analysis/detail/output_text.h"
 #include "sharpey/analysis/verdict.h"
+#include "sharpey/output/allowance_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 

@@ -1,6 +1,6 @@
 // Plain-text helpers shared by the report writers (summary.txt and its allowance paragraph) and
 // the verdict's words.
-// Internal to the analysis library.
+// Internal to the analysis and output libraries (a detail header, not their interface).
 #pragma once
 
 #include <cmath>

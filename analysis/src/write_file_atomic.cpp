@@ -1,5 +1,7 @@
 // Atomic file writing: temporary file in the destination folder, flushed to disk, then renamed
 // over the destination (rename is atomic within one file system on POSIX).
+#include "sharpey/analysis/write_file_atomic.h"
+
 #include <fcntl.h>
 #include <unistd.h>
 
@@ -8,8 +10,6 @@
 #include <cstring>
 #include <filesystem>
 #include <string>
-
-#include "sharpey/analysis/report_output.h"
 
 namespace sharpey::analysis {
 

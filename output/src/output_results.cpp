@@ -5,8 +5,8 @@
 #include <nlohmann/json.hpp>
 #include <utility>
 
-#include "sharpey/analysis/allowance_output.h"
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/allowance_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 

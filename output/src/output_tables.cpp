@@ -5,7 +5,7 @@
 #include <functional>
 #include <sstream>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 

@@ -11,7 +11,7 @@
 #include <string>
 #include <system_error>
 
-#include "sharpey/analysis/report_output.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 

@@ -3,8 +3,8 @@
 #include <string>
 #include <unordered_map>
 
-#include "sharpey/analysis/report_output.h"
 #include "sharpey/mesh/vtu_writer.h"
+#include "sharpey/output/report_output.h"
 
 namespace sharpey::analysis {
 

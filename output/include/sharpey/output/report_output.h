@@ -1,5 +1,6 @@
 // Report files of a solved case: results.json, summary.csv, the plain-text summary, root-map CSV,
-// sweep CSV and the .vtu fields, plus atomic file writing. Shared by the batch command and the
+// sweep CSV and the .vtu fields, plus the staged output folder (atomic file writing is
+// sharpey/analysis/write_file_atomic.h, included here). Shared by the batch command and the
 // desktop app's export. Every output carries analysis::caution_text(). Never prints.
 #pragma once
 
@@ -8,6 +9,7 @@
 
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/study.h"
+#include "sharpey/analysis/write_file_atomic.h"
 #include "sharpey/error.h"
 #include "sharpey/fem/elasticity.h"
 #include "sharpey/mesh/mesh_statistics.h"
@@ -16,11 +18,6 @@ namespace sharpey::analysis {
 
 // A report file could not be written (sharpey/error.h); also known by its former name here.
 using sharpey::OutputError;
-
-// Writes `content` to `path` through a temporary file in the same folder and a rename, so `path`
-// is either absent, its old content or the complete new content, even if the process is killed.
-// Throws OutputError naming the path and the system's reason.
-void write_file_atomic(const std::string& path, const std::string& content);
 
 // An output folder filled all at once. Files are written into a staging folder beside `folder`
 // (".<name>.partial-<pid>" in the same parent, so renames stay on one file system); commit() then
@@ -77,8 +74,8 @@ const CentreOfResistance& cres_for(const ScenarioResult& result);
 // pdl_pressure_kpa {max_compression, max_tension, p95_compression}, area_above_capillary_mm2,
 // area_above_limit_mm2, max_principal_strain, crown_tip_displacement_um, equivalent_force_g, and
 // more). `facts` may be empty or hold one entry per result.
-// With `allowance` (allowance_output.h), a top-level "allowance" object after "thresholds"
-// (allowance_json()); the other keys are unchanged.
+// With `allowance` (sharpey/output/allowance_output.h), a top-level "allowance" object after
+// "thresholds" (allowance_json()); the other keys are unchanged.
 struct AllowanceReport;
 std::string results_json(const CaseSpec& spec, const std::vector<ScenarioResult>& results,
                          const std::vector<ScenarioFacts>& facts,
