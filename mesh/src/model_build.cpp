@@ -81,6 +81,7 @@ VolumeMesh ModelMesher::build_linear(const std::atomic<bool>* cancel) {
   TetgenOptions options;
   options.preserve_surface = true;
   options.second_order = false;
+  options.radius_edge_ratio = frame_.sizes().solid_radius_edge_ratio;
   options.cancel = cancel;
   const VolumeMesh tet = tetrahedralize(plc, options);
 

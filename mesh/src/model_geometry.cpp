@@ -104,53 +104,75 @@ void gauss_legendre01(int n, std::vector<double>* nodes, std::vector<double>* we
   }
 }
 
-ModelGeometry integrate_geometry(const ModelFrame& frame) {
+namespace {
+
+// The quadrature shared by every surface integral of one model: n_theta columns around the long
+// axis, Gauss-Legendre panels along the meridian split at the shape's knots.
+struct BandQuadrature {
+  int n_theta;
+  LineRule rule;
+  std::vector<double> knots;
+  explicit BandQuadrature(const ModelFrame& frame)
+      : n_theta(frame.spec().loss.defect_depth_mm > 0 ? 240 : 96),
+        rule(24, 5),
+        knots(frame.shape().knots()) {}
+  double band(const std::function<double(double)>& s_lo, const std::function<double(double)>& s_hi,
+              const std::function<double(double, double)>& f) const {
+    return integrate_band(n_theta, rule, knots, s_lo, s_hi, f);
+  }
+};
+
+double apex_s(double) { return -1.0; }
+double cej_s(double) { return 0.0; }
+
+// Heights, lengths, crown tip, apex and bracket of the parametric definition.
+void set_reference_points(const ModelFrame& frame, ModelGeometry* g) {
   const ToothShape& shape = frame.shape();
-  const bool defect = frame.spec().loss.defect_depth_mm > 0;
-  const int n_theta = defect ? 240 : 96;
-  const LineRule rule(24, 5);
-  const std::vector<double> knots = shape.knots();
-
-  ModelGeometry g;
-  g.cej_z_mm = 0;
-  g.crest_z_mm = frame.crest_z();
-  g.defect_bottom_z_mm = frame.crest_z() - frame.spec().loss.defect_depth_mm;
-  g.apex_z_mm = frame.apex_z();
-  g.root_length_mm = shape.root_length();
-  g.embedded_length_mm = frame.crest_z() - frame.apex_z();
-  g.crown_tip = shape.point(0, 1.0);
-  g.apex = shape.point(0, -1.0);
+  g->cej_z_mm = 0;
+  g->crest_z_mm = frame.crest_z();
+  g->defect_bottom_z_mm = frame.crest_z() - frame.spec().loss.defect_depth_mm;
+  g->apex_z_mm = frame.apex_z();
+  g->root_length_mm = shape.root_length();
+  g->embedded_length_mm = frame.crest_z() - frame.apex_z();
+  g->crown_tip = shape.point(0, 1.0);
+  g->apex = shape.point(0, -1.0);
   const double s_bracket = shape.s_of_z(frame.bracket_z());
-  g.bracket_center = shape.point(0, s_bracket);
-  g.bracket_normal = shape.normal(0, s_bracket);
+  g->bracket_center = shape.point(0, s_bracket);
+  g->bracket_normal = shape.normal(0, s_bracket);
+}
 
+// Whole root, attached and exposed root areas.
+void set_root_areas(const ModelFrame& frame, const BandQuadrature& q, ModelGeometry* g) {
+  const ToothShape& shape = frame.shape();
   auto area_density = [&](double theta, double s) {
     Eigen::Vector3d x, xt, xs;
     shape.frame(theta, s, &x, &xt, &xs);
     return xt.cross(xs).norm();
   };
-  auto apex = [](double) { return -1.0; };
-  auto cej = [](double) { return 0.0; };
   auto crest = [&](double theta) { return frame.crest_s(theta); };
-  g.root_area_mm2 = integrate_band(n_theta, rule, knots, apex, cej, area_density);
-  g.attachment_area_mm2 = integrate_band(n_theta, rule, knots, apex, crest, area_density);
-  g.exposed_root_area_mm2 = integrate_band(n_theta, rule, knots, crest, cej, area_density);
+  g->root_area_mm2 = q.band(apex_s, cej_s, area_density);
+  g->attachment_area_mm2 = q.band(apex_s, crest, area_density);
+  g->exposed_root_area_mm2 = q.band(crest, cej_s, area_density);
+}
 
-  // Tooth: V = 1/3 closed-surface integral of x . n dA.
+// Tooth: V = 1/3 closed-surface integral of x . n dA.
+double tooth_volume(const ModelFrame& frame, const BandQuadrature& q) {
+  const ToothShape& shape = frame.shape();
   auto flux = [&](double theta, double s) {
     Eigen::Vector3d x, xt, xs;
     shape.frame(theta, s, &x, &xt, &xs);
     return x.dot(xt.cross(xs)) / 3.0;
   };
   const double s_cap = shape.s_of_z(shape.crown_body_top());
-  g.tooth_volume_mm3 =
-      integrate_band(n_theta, rule, knots, apex, cej, flux) +
-      integrate_band(
-          n_theta, rule, knots, cej, [&](double) { return s_cap; }, flux) +
-      integrate_band(
-          n_theta, rule, knots, [&](double) { return s_cap; }, [](double) { return 1.0; }, flux);
+  return q.band(apex_s, cej_s, flux) +
+         q.band(
+             cej_s, [&](double) { return s_cap; }, flux) +
+         q.band([&](double) { return s_cap; }, [](double) { return 1.0; }, flux);
+}
 
-  // PDL: the map (theta, s, t) -> root point + t w n, t in [0, 1]; its Jacobian is quadratic in t.
+// PDL: the map (theta, s, t) -> root point + t w n, t in [0, 1]; its Jacobian is quadratic in t.
+double pdl_volume(const ModelFrame& frame, const BandQuadrature& q) {
+  const ToothShape& shape = frame.shape();
   std::vector<double> tx, tw;
   gauss_legendre01(2, &tx, &tw);
   auto pdl_density = [&](double theta, double s) {
@@ -166,53 +188,81 @@ ModelGeometry integrate_geometry(const ModelFrame& frame) {
     }
     return v;
   };
-  g.pdl_volume_mm3 = integrate_band(n_theta, rule, knots, apex, crest, pdl_density);
+  auto crest = [&](double theta) { return frame.crest_s(theta); };
+  return q.band(apex_s, crest, pdl_density);
+}
 
-  // Bone: divergence theorem with the field (0, 0, z) over the block minus the socket cavity.
-  // V = int_rect top - int_opening top - z_base * A_rect - int_socket z n_z dA, where the socket
-  // surface runs from the apex to the ring `ring_s` and the opening is that ring's projection.
+// Area of the socket opening bounded by the ring `ring_s`, and its integral of the defect weight
+// (inside it the top is crest - depth * weight(polar angle)): the star-shaped region bounded by
+// the ring, integrated in the ring's parameter theta.
+void socket_opening(const ModelFrame& frame, const std::function<double(double)>& ring_s,
+                    double* open_area, double* open_weighted) {
+  *open_area = 0;
+  *open_weighted = 0;
+  const int n_ring = 512;
+  for (int i = 0; i < n_ring; ++i) {
+    const double theta = 2 * kPi * (i + 0.5) / n_ring;
+    auto ring = [&](double th) { return frame.socket_point(th, ring_s(th)); };
+    const Eigen::Vector3d c = ring(theta);
+    const Eigen::Vector3d dc = (ring(theta + kFdStep) - ring(theta - kFdStep)) / (2 * kFdStep);
+    const double sector = 0.5 * (c.x() * dc.y() - c.y() * dc.x());
+    *open_area += sector;
+    *open_weighted += sector * frame.defect_weight(std::atan2(c.y(), c.x()));
+  }
+  *open_area *= 2 * kPi / n_ring;
+  *open_weighted *= 2 * kPi / n_ring;
+}
+
+// Bone between x0 and x1 below its top lowered by `top_offset`, less the socket cavity up to the
+// ring `ring_s`: divergence theorem with the field (0, 0, z) over the block minus the cavity.
+// V = int_rect top - int_opening top - z_base * A_rect - int_socket z n_z dA, where the socket
+// surface runs from the apex to the ring and the opening is that ring's projection.
+double bone_block_volume(const ModelFrame& frame, const BandQuadrature& q, double x0, double x1,
+                         double top_offset, const std::function<double(double)>& ring_s) {
+  const bool defect = frame.spec().loss.defect_depth_mm > 0;
   auto socket_z_flux = [&](double theta, double s) {
     auto map = [&](double th, double ss) { return frame.socket_point(th, ss); };
     Eigen::Vector3d pt, ps;
     fd_tangents(map, theta, s, &pt, &ps);
     return frame.socket_point(theta, s).z() * pt.cross(ps).z();
   };
-  auto block_part = [&](double x0, double x1, double top_offset,
-                        const std::function<double(double)>& ring_s) {
-    const double y0 = frame.y_distal(), y1 = frame.y_mesial();
-    const double rect_area = (x1 - x0) * (y1 - y0);
-    const double top =
-        defect ? integrate_rectangle(x0, x1, y0, y1, 0.1,
-                                     [&](double x, double y) { return frame.bone_top(x, y); })
-               : frame.crest_z() * rect_area;
-    // Opening: inside it the top is crest - depth * weight(polar angle); integrate over the
-    // star-shaped region bounded by the ring, in the ring's parameter theta.
-    double open_area = 0, open_weighted = 0;
-    const int n_ring = 512;
-    for (int i = 0; i < n_ring; ++i) {
-      const double theta = 2 * kPi * (i + 0.5) / n_ring;
-      auto ring = [&](double th) { return frame.socket_point(th, ring_s(th)); };
-      const Eigen::Vector3d c = ring(theta);
-      const Eigen::Vector3d dc = (ring(theta + kFdStep) - ring(theta - kFdStep)) / (2 * kFdStep);
-      const double sector = 0.5 * (c.x() * dc.y() - c.y() * dc.x());
-      open_area += sector;
-      open_weighted += sector * frame.defect_weight(std::atan2(c.y(), c.x()));
-    }
-    open_area *= 2 * kPi / n_ring;
-    open_weighted *= 2 * kPi / n_ring;
-    const double open_top =
-        frame.crest_z() * open_area - frame.spec().loss.defect_depth_mm * open_weighted;
-    const double socket = integrate_band(n_theta, rule, knots, apex, ring_s, socket_z_flux);
-    return (top - top_offset * rect_area) - (open_top - top_offset * open_area) -
-           frame.z_base() * (rect_area - open_area) - socket - frame.z_base() * open_area;
-  };
-  g.bone_volume_mm3 = block_part(frame.x_lingual(), frame.x_labial(), 0.0, crest);
-  g.cancellous_volume_mm3 =
-      block_part(frame.x_lingual_inner(), frame.x_labial_inner(), frame.cortical_thickness(),
-                 [&](double theta) { return frame.cortical_s(theta); });
-  g.cortical_volume_mm3 = g.bone_volume_mm3 - g.cancellous_volume_mm3;
-  g.bone_min = {frame.x_lingual(), frame.y_distal(), frame.z_base()};
-  g.bone_max = {frame.x_labial(), frame.y_mesial(), frame.crest_z()};
+  const double y0 = frame.y_distal(), y1 = frame.y_mesial();
+  const double rect_area = (x1 - x0) * (y1 - y0);
+  const double top =
+      defect ? integrate_rectangle(x0, x1, y0, y1, 0.1,
+                                   [&](double x, double y) { return frame.bone_top(x, y); })
+             : frame.crest_z() * rect_area;
+  double open_area = 0, open_weighted = 0;
+  socket_opening(frame, ring_s, &open_area, &open_weighted);
+  const double open_top =
+      frame.crest_z() * open_area - frame.spec().loss.defect_depth_mm * open_weighted;
+  const double socket = q.band(apex_s, ring_s, socket_z_flux);
+  return (top - top_offset * rect_area) - (open_top - top_offset * open_area) -
+         frame.z_base() * (rect_area - open_area) - socket - frame.z_base() * open_area;
+}
+
+// Bone, cortical and cancellous volumes and the block's corners.
+void set_bone(const ModelFrame& frame, const BandQuadrature& q, ModelGeometry* g) {
+  g->bone_volume_mm3 = bone_block_volume(frame, q, frame.x_lingual(), frame.x_labial(), 0.0,
+                                         [&](double theta) { return frame.crest_s(theta); });
+  g->cancellous_volume_mm3 = bone_block_volume(
+      frame, q, frame.x_lingual_inner(), frame.x_labial_inner(), frame.cortical_thickness(),
+      [&](double theta) { return frame.cortical_s(theta); });
+  g->cortical_volume_mm3 = g->bone_volume_mm3 - g->cancellous_volume_mm3;
+  g->bone_min = {frame.x_lingual(), frame.y_distal(), frame.z_base()};
+  g->bone_max = {frame.x_labial(), frame.y_mesial(), frame.crest_z()};
+}
+
+}  // namespace
+
+ModelGeometry integrate_geometry(const ModelFrame& frame) {
+  const BandQuadrature q(frame);
+  ModelGeometry g;
+  set_reference_points(frame, &g);
+  set_root_areas(frame, q, &g);
+  g.tooth_volume_mm3 = tooth_volume(frame, q);
+  g.pdl_volume_mm3 = pdl_volume(frame, q);
+  set_bone(frame, q, &g);
   return g;
 }
 

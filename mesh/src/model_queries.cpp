@@ -17,7 +17,7 @@ MeshSizes resolve_sizing(const MeshSizing& sizing) {
       s = {0.9, 3.0, 3.0, 1};
       break;
     case MeshPreset::kStandard:
-      s = {0.65, 2.0, 2.0, 2};
+      s = {0.65, 2.0, 2.0, 2, 2.5};
       break;
     case MeshPreset::kFine:
       s = {0.38, 1.5, 1.5, 2};

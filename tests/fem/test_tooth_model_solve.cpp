@@ -255,8 +255,9 @@ double relative_difference(double a, double reference) {
 // In the edge band the linear-elastic pressure is singular (bonded corner of a nearly
 // incompressible layer): its nodal maximum grows as the layers get thinner (measured at the
 // standard surface spacing: 43.9 kPa with two layers, 58.8 kPa with three), so it is printed, not
-// compared. Measured (Release): standard 93 093 dofs, fine 247 791 dofs; peak 52.17 vs 52.21 kPa
-// (0.08 %); crown tip 2.5049e-2 vs 2.5054e-2 mm (0.02 %); see docs/verification.md.
+// compared. Measured (Release): standard 83 631 dofs (93 093 before issue 18's grading), fine
+// 247 791 dofs; peak 52.17 vs 52.21 kPa (0.08 %); crown tip 2.5048e-2 vs 2.5054e-2 mm (0.03 %);
+// see docs/verification.md.
 TEST(ToothModelSolve, StandardPresetPeakPressureAndCrownTipWithinFivePercentOfFine) {
   const ConvergenceFigures standard = lingual_tipping(mesh::MeshPreset::kStandard);
   const ConvergenceFigures fine = lingual_tipping(mesh::MeshPreset::kFine);

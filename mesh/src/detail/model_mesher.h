@@ -47,6 +47,8 @@ class PointSet {
   std::unordered_map<long long, std::vector<int>> cells_;
 };
 
+struct BoneLayout;  // model_bone.cpp
+
 struct Facet {
   std::array<int, 3> v;
   int marker;      // FaceMarker, or kOther for the cortical/cancellous interface
@@ -96,6 +98,19 @@ class ModelMesher {
                        int marker, bool output);
   // model_bone.cpp
   void build_bone();
+  int bone_point(double x, double y, double z);
+  int radial_ring_count(const std::vector<int>& inner, const BoneLayout& b) const;
+  void add_radial_grid(const std::vector<int>& ring, double offset, int marker, bool output,
+                       int n_rings, const BoneLayout& b);
+  void check_unfolded(size_t first) const;
+  void add_plate_strips(const BoneLayout& b);
+  std::vector<double> column_z(const BoneLayout& b, double x, double y, bool with_upper) const;
+  void add_side_face(const BoneLayout& b, const std::vector<double>& xs,
+                     const std::vector<double>& ys, bool with_upper, int marker, bool output,
+                     const Eigen::Vector3d& outward);
+  void add_side_faces(const BoneLayout& b);
+  void add_bone_base(const BoneLayout& b);
+  void set_region_seeds();
   // model_build.cpp
   Plc make_plc(std::vector<int>* plc_to_point) const;
 

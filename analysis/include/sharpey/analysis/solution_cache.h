@@ -33,7 +33,7 @@ constexpr std::uint32_t kSolutionFileVersion = 1;
 // Revision of the numerics that produce a solution (mesher, elements, solver, recovery). Part of
 // every key: raise it with any change that alters a solved scenario, so older entries stop
 // matching (the program version is part of the key as well).
-constexpr int kSolutionNumericsRevision = 1;
+constexpr int kSolutionNumericsRevision = 2;  // 2: graded standard preset (issue 18)
 
 // What determines scenario `scenario_index` of `spec` once solved, as text (exact: numbers in
 // hexadecimal floating point): the program version and numerics revision, the tooth, ligament,
