@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <climits>
 #include <cmath>
+#include <functional>
 #include <map>
 #include <set>
 
@@ -33,10 +34,73 @@ double ellipse_perimeter(double a, double b) {
   return kPi * (a + b) * (1 + 3 * h / (10 + std::sqrt(4 - 3 * h)));
 }
 
+// A root's axis point t_mm below the furcation plane (horizontal position).
+Eigen::Vector2d root_centre(const RootSpec& spec, double t) {
+  const double slope = std::tan(spec.tilt_deg * kDeg);
+  const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
+  const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
+  return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
+}
+
+// Points per ring around a root (a multiple of four, at least 12).
+int root_ring_size(const RootSpec& spec, double h) {
+  return std::max(
+      12,
+      4 * static_cast<int>(std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h))));
+}
+
+// Point i of n of a root's ring t_mm below the furcation plane (horizontal position).
+Eigen::Vector2d root_ring_point(const RootSpec& spec, double t, int i, int n) {
+  double rho = 1;
+  if (spec.profile != RootProfile::kCylinder)
+    rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
+  const Eigen::Vector2d c = root_centre(spec, t);
+  const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
+  return Eigen::Vector2d(c.x() + rho * o.x(), c.y() + rho * o.y());
+}
+
+// Convex hull (counter-clockwise, no collinear points) by the monotone chain.
+std::vector<Eigen::Vector2d> convex_hull(std::vector<Eigen::Vector2d> p) {
+  std::sort(p.begin(), p.end(), [](const Eigen::Vector2d& a, const Eigen::Vector2d& b) {
+    return a.x() < b.x() || (a.x() == b.x() && a.y() < b.y());
+  });
+  auto cross = [](const Eigen::Vector2d& o, const Eigen::Vector2d& a, const Eigen::Vector2d& b) {
+    return (a.x() - o.x()) * (b.y() - o.y()) - (a.y() - o.y()) * (b.x() - o.x());
+  };
+  std::vector<Eigen::Vector2d> h(2 * p.size());
+  size_t k = 0;
+  for (size_t i = 0; i < p.size(); ++i) {
+    while (k >= 2 && cross(h[k - 2], h[k - 1], p[i]) <= 0) --k;
+    h[k++] = p[i];
+  }
+  for (size_t i = p.size() - 1, t = k + 1; i > 0; --i) {
+    while (k >= t && cross(h[k - 2], h[k - 1], p[i - 1]) <= 0) --k;
+    h[k++] = p[i - 1];
+  }
+  h.resize(k - 1);
+  return h;
+}
+
+// Depth of q inside a convex counter-clockwise polygon (negative outside).
+double inside_depth(const std::vector<Eigen::Vector2d>& hull, const Eigen::Vector2d& q) {
+  double d = 1e300;
+  for (size_t i = 0; i < hull.size(); ++i) {
+    const Eigen::Vector2d e = hull[(i + 1) % hull.size()] - hull[i];
+    d = std::min(d, (e.x() * (q.y() - hull[i].y()) - e.y() * (q.x() - hull[i].x())) / e.norm());
+  }
+  return d;
+}
+
 class Builder {
  public:
   Builder(const MultiRootTooth& tooth, const MultiRootBone& bone, const MultiRootMeshSizing& s)
-      : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {}
+      : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {
+    // A degree III lesion under an outer crest below the furcation plane: the septum's top
+    // lowered to vertical_mm below the roof across the furcation (validate_multi_root_mesh).
+    lesion_ = bone.furcation.degree == 3 && bone.septum_to_roof;
+    t_out_ = -tooth.trunk_length_mm - outer_crest_z_mm(bone);
+    t_in_ = bone.furcation.vertical_mm;
+  }
 
   MultiRootMesh build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel);
 
@@ -95,6 +159,21 @@ class Builder {
   std::vector<int> trunk(const std::vector<int>& cervix, int n_around);
   std::vector<int> root(size_t r);
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
+  // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
+  // roots' order around it; the markers of a root's new band of triangles; the free faces of the
+  // PDL at the lesion's edge and the socket's loops and walls for the bone's top.
+  void classify_hull();
+  bool inner_column(size_t r, int i) const {
+    const std::vector<char>& o = outer_[r];
+    return !(o[i] && o[(i + 1) % o.size()]);
+  }
+  void mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r);
+  void free_strip(int u, int v, const Eigen::Vector3d& outward,
+                  const std::map<int, std::vector<int>>& layer);
+  void pdl_lesion(const std::map<int, std::vector<int>>& layer);
+  using Planar = std::function<void(const std::vector<std::vector<Eigen::Vector2d>>&,
+                                    const std::vector<int>&, double, int, const Eigen::Vector3d&)>;
+  void lesion_bone_top(const Planar& planar);
   // PDL: offset directions, the points across the layer, the prisms, the free top at the crest.
   void pdl_layer();
   std::map<int, Eigen::Vector3d> offset_directions(std::map<int, double>* miter) const;
@@ -121,11 +200,21 @@ class Builder {
   std::vector<int> pdl_tet_part_;
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
+  bool lesion_ = false;
+  double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
+  std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
+  std::vector<int> order_, arc_start_, arc_end_;        // roots counter-clockwise; their outer arcs
+  std::vector<std::vector<std::vector<int>>> rings_;    // per root, its rings from the foot down
+  std::vector<std::vector<double>> ring_t_;             // and their depths
+  std::set<int> horizontal_;                            // offset horizontally (the bone's tops)
+  std::vector<int> outer_top_, inner_top_;              // socket loops at the crest, septum top
+  std::vector<std::array<std::vector<int>, 2>> walls_;  // socket columns, bottom to top
 };
 
 void Builder::tooth_surface() {
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const int N = std::max(16, 4 * static_cast<int>(std::ceil(ellipse_perimeter(A, B) / (4 * h_))));
+  if (lesion_) classify_hull();
   const std::vector<int> cervix = crown_dome(N);
   const std::vector<int> rim = trunk(cervix, N);
   std::vector<std::vector<int>> feet;
@@ -209,49 +298,58 @@ std::vector<double> root_ring_depths(const RootSpec& spec, double tc, double h) 
   return depths;
 }
 
+// With a lesion: rings exactly at both levels (t1, t2 below the furcation plane, either order),
+// uniform above and between them, crowding toward the apex below.
+std::vector<double> root_ring_depths_lesion(const RootSpec& spec, double t1, double t2, double h) {
+  const double a = std::min(t1, t2), b = std::max(t1, t2);
+  std::vector<double> depths;
+  const int m1 = std::max(1, static_cast<int>(std::ceil(a / h)));
+  for (int j = 0; j < m1; ++j) depths.push_back(a * j / m1);
+  const int m2 = std::max(1, static_cast<int>(std::ceil((b - a) / h)));
+  for (int j = 0; j < m2; ++j) depths.push_back(a + (b - a) * j / m2);
+  for (double t : root_ring_depths(spec, b, h))
+    if (t >= b) depths.push_back(t);
+  return depths;
+}
+
 // Root r: rings from the foot down, the apex a pole; returns the foot ring.
 std::vector<int> Builder::root(size_t r) {
   const RootSpec& spec = tooth_.roots[r];
   const double zf = -tooth_.trunk_length_mm, zc = outer_crest_z_mm(bone_);
   const bool above = zc > zf;
   const int part = static_cast<int>(r);
-  const int n = std::max(
-      12, 4 * static_cast<int>(
-                  std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
-  const double slope = std::tan(spec.tilt_deg * kDeg);
-  const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
-  const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
-  auto centre = [&](double t) {
-    return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
-  };
+  const int n = root_ring_size(spec, h_);
   auto out = [&](const Eigen::Vector3d& c) {
-    const Eigen::Vector2d o = centre(zf - c.z());
+    const Eigen::Vector2d o = root_centre(spec, zf - c.z());
     return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
   };
   const double tc = above ? 0.0 : zf - zc;
-  const std::vector<double> depths = root_ring_depths(spec, tc, h_);
+  const std::vector<double> depths =
+      lesion_ ? root_ring_depths_lesion(spec, t_out_, t_in_, h_) : root_ring_depths(spec, tc, h_);
   const bool cylinder = spec.profile == RootProfile::kCylinder;
   std::vector<int> foot, prev_r;
+  rings_.emplace_back();
+  ring_t_.emplace_back();
   for (size_t j = 0; j < depths.size(); ++j) {
     const double t = depths[j];
-    double rho = 1;
-    if (!cylinder)
-      rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
-    const Eigen::Vector2d c = centre(t);
     std::vector<int> rr;
     for (int i = 0; i < n; ++i) {
-      const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
-      rr.push_back(add({c.x() + rho * o.x(), c.y() + rho * o.y(), zf - t}, part));
+      const Eigen::Vector2d p = root_ring_point(spec, t, i, n);
+      rr.push_back(add({p.x(), p.y(), zf - t}, part));
     }
     if (j == 0) {
       foot = rr;
     } else {
+      const size_t first = tris_.size();
       join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
+      if (lesion_) mark_lesion_band(r, first, t, rr);
     }
-    if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+    if (!above && !lesion_ && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+    rings_.back().push_back(rr);
+    ring_t_.back().push_back(t);
     prev_r = rr;
   }
-  const Eigen::Vector2d c = centre(spec.length_mm);
+  const Eigen::Vector2d c = root_centre(spec, spec.length_mm);
   const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
   const size_t before = tris_.size();
   join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
@@ -264,6 +362,69 @@ std::vector<int> Builder::root(size_t r) {
       flat_.insert(g);
     }
   return foot;
+}
+
+// Degree III lesion: a ring point is outer when it lies on the hull of the roots' rings (within
+// the thin layer's 0.05 mm margin, multi_root_tooth.cpp) at the crest's or the septum's depth;
+// each root's outer points must form one arc (start to end counter-clockwise), the roots are
+// ordered counter-clockwise around the mean of their feet.
+void Builder::classify_hull() {
+  const size_t R = tooth_.roots.size();
+  outer_.assign(R, {});
+  for (size_t r = 0; r < R; ++r) outer_[r].assign(root_ring_size(tooth_.roots[r], h_), 0);
+  for (double t : {t_out_, t_in_}) {
+    std::vector<Eigen::Vector2d> all;
+    for (size_t r = 0; r < R; ++r)
+      for (size_t i = 0; i < outer_[r].size(); ++i)
+        all.push_back(root_ring_point(tooth_.roots[r], t, static_cast<int>(i),
+                                      static_cast<int>(outer_[r].size())));
+    const std::vector<Eigen::Vector2d> hull = convex_hull(all);
+    size_t k = 0;
+    for (size_t r = 0; r < R; ++r)
+      for (size_t i = 0; i < outer_[r].size(); ++i)
+        outer_[r][i] |= inside_depth(hull, all[k++]) <= 0.05;
+  }
+  Eigen::Vector2d mean = Eigen::Vector2d::Zero();
+  for (const RootSpec& spec : tooth_.roots)
+    mean += Eigen::Vector2d(spec.foot_x_mm, spec.foot_y_mm) / R;
+  arc_start_.assign(R, -1);
+  arc_end_.assign(R, -1);
+  for (size_t r = 0; r < R; ++r) {
+    const std::vector<char>& o = outer_[r];
+    const int n = static_cast<int>(o.size());
+    int starts = 0;
+    for (int i = 0; i < n; ++i) {
+      if (o[i] && !o[(i + n - 1) % n]) ++starts, arc_start_[r] = i;
+      if (o[i] && !o[(i + 1) % n]) arc_end_[r] = i;
+    }
+    if (starts != 1)
+      throw MeshError("meshing the furcation lesion: root " + std::to_string(r + 1) +
+                      " meets the "
+                      "roots' hull in " +
+                      std::to_string(starts) + " arcs instead of one");
+    order_.push_back(static_cast<int>(r));
+  }
+  auto angle = [&](int r) {
+    return std::atan2(tooth_.roots[r].foot_y_mm - mean.y(), tooth_.roots[r].foot_x_mm - mean.x());
+  };
+  std::sort(order_.begin(), order_.end(), [&](int a, int b) { return angle(a) < angle(b); });
+}
+
+// Markers of the band of triangles join() just added to root r (two per column, column order),
+// the lower ring at depth t: attached below the crest on the outer columns, below the septum's
+// top on the inner ones. Records the points of the bone's two tops (offset horizontally).
+void Builder::mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r) {
+  const int n = static_cast<int>(ring_r.size());
+  for (int i = 0; i < n; ++i) {
+    const double top = inner_column(r, i) ? t_in_ : t_out_;
+    for (int k = 0; k < 2; ++k)
+      tris_[first + 2 * i + k].marker = t > top + 1e-12 ? kRootSurface : kExposedRoot;
+  }
+  for (int i = 0; i < n; ++i) {
+    const bool inner = inner_column(r, i) || inner_column(r, (i + n - 1) % n);
+    if (std::abs(t - t_out_) < 1e-12 && outer_[r][i]) horizontal_.insert(ring_r[i]);
+    if (std::abs(t - t_in_) < 1e-12 && inner) horizontal_.insert(ring_r[i]);
+  }
 }
 
 // Furcation roof: the rim minus the feet, triangulated in its plane.
@@ -295,7 +456,11 @@ void Builder::furcation_roof(const std::vector<int>& rim,
 void Builder::pdl_layer() {
   const std::map<int, std::vector<int>> layer = layer_points();
   prisms(layer);
-  pdl_crest(layer);
+  if (lesion_) {
+    pdl_lesion(layer);
+  } else {
+    pdl_crest(layer);
+  }
   // A point inside the PDL, mid-way across at the first root's mid-length.
   const auto& x = points_.points();
   const double zf = -tooth_.trunk_length_mm;
@@ -328,6 +493,7 @@ std::map<int, Eigen::Vector3d> Builder::offset_directions(std::map<int, double>*
   }
   std::set<int> crest;
   for (const auto& r : crest_rings_) crest.insert(r.begin(), r.end());
+  crest.insert(horizontal_.begin(), horizontal_.end());
   for (auto& [v, n] : normal) {
     double m = 1.0;
     if (roof.count(v) && wall.count(v)) {
@@ -441,16 +607,79 @@ void Builder::pdl_crest(const std::map<int, std::vector<int>>& layer) {
     const int n = static_cast<int>(ring_c.size());
     std::vector<int> socket;
     for (int i = 0; i < n; ++i) {
-      const int lo = std::min(ring_c[i], ring_c[(i + 1) % n]);
-      const int hi = std::max(ring_c[i], ring_c[(i + 1) % n]);
-      const std::vector<int>&l_lo = layer.at(lo), &l_hi = layer.at(hi);
-      for (int k = 0; k < layers_; ++k) {
-        tri(l_lo[k], l_hi[k], l_hi[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
-        tri(l_lo[k], l_hi[k + 1], l_lo[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
-      }
+      free_strip(ring_c[i], ring_c[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
       socket.push_back(layer.at(ring_c[i])[layers_]);
     }
     socket_crests_.push_back(socket);
+  }
+}
+
+// The PDL's free face across the layer over the root edge u-v (kPdlCrest, not given to TetGen),
+// split like the prisms' side faces.
+void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
+                         const std::map<int, std::vector<int>>& layer) {
+  const std::vector<int>&l_lo = layer.at(std::min(u, v)), &l_hi = layer.at(std::max(u, v));
+  for (int k = 0; k < layers_; ++k) {
+    tri(l_lo[k], l_hi[k], l_hi[k + 1], kPdlCrest, INT_MIN, outward, false);
+    tri(l_lo[k], l_hi[k + 1], l_lo[k + 1], kPdlCrest, INT_MIN, outward, false);
+  }
+}
+
+// Degree III lesion: the PDL's free faces along the crest ring (outer columns), the septum's top
+// ring (inner columns) and the vertical edges between them where outer meets inner; the socket's
+// loops at both tops (outer: the outer arcs counter-clockwise, jumping from root to root along
+// the hull; inner: the inner arcs, the roots in the reverse order) and, per hull edge, the two
+// socket columns joined by a bone wall.
+void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
+  const auto& x = points_.points();
+  auto level = [&](size_t r, double t) {
+    const std::vector<double>& d = ring_t_[r];
+    return static_cast<size_t>(
+        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
+        d.begin());
+  };
+  auto socket = [&](int v) { return layer.at(v)[layers_]; };
+  std::vector<std::vector<int>> column(2 * order_.size());  // end of root k, start of root k
+  for (size_t r = 0; r < rings_.size(); ++r) {
+    const std::vector<std::vector<int>>& R = rings_[r];
+    const size_t jc = level(r, t_out_), js = level(r, t_in_);
+    const int n = static_cast<int>(R[jc].size());
+    for (int i = 0; i < n; ++i) {
+      const std::vector<int>& ring_r = inner_column(r, i) ? R[js] : R[jc];
+      free_strip(ring_r[i], ring_r[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
+    }
+    const bool inner_lower = t_in_ > t_out_;  // in the band the outer columns stay attached
+    for (int b : {arc_start_[r], arc_end_[r]}) {
+      const int side = (b == arc_start_[r]) == inner_lower ? (b + n - 1) % n : (b + 1) % n;
+      for (size_t j = std::min(jc, js); j < std::max(jc, js); ++j)
+        free_strip(R[j][b], R[j + 1][b], x[R[j][side]] - x[R[j][b]], layer);
+    }
+    const size_t k = std::find(order_.begin(), order_.end(), static_cast<int>(r)) - order_.begin();
+    for (int e : {0, 1}) {
+      const int b = e == 0 ? arc_end_[r] : arc_start_[r];
+      for (size_t j = std::max(jc, js) + 1; j-- > std::min(jc, js);)
+        column[2 * k + e].push_back(socket(R[j][b]));  // bottom to top
+    }
+  }
+  const size_t R = order_.size();
+  for (size_t k = 0; k < R; ++k) {
+    const size_t r = order_[k];
+    const std::vector<int>& ring_c = rings_[r][level(r, t_out_)];
+    const int n = static_cast<int>(ring_c.size());
+    for (int i = arc_start_[r];; i = (i + 1) % n) {
+      outer_top_.push_back(socket(ring_c[i]));
+      if (i == arc_end_[r]) break;
+    }
+    walls_.push_back({column[2 * k], column[2 * ((k + 1) % R) + 1]});
+  }
+  for (size_t k = R; k-- > 0;) {
+    const size_t r = order_[k];
+    const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
+    const int n = static_cast<int>(ring_s.size());
+    for (int i = arc_end_[r];; i = (i + 1) % n) {
+      inner_top_.push_back(socket(ring_s[i]));
+      if (i == arc_start_[r]) break;
+    }
   }
 }
 
@@ -492,7 +721,9 @@ void Builder::bone_block() {
   // Top: the rectangle around the socket's crest ring.
   std::vector<std::vector<Eigen::Vector2d>> top_loops{rect};
   std::vector<int> known(rect.size(), -1);
-  for (const std::vector<int>& loop : socket_crests_) {
+  std::vector<std::vector<int>> holes = socket_crests_;
+  if (lesion_) holes.push_back(outer_top_);
+  for (const std::vector<int>& loop : holes) {
     top_loops.emplace_back();
     for (int v : loop) {
       top_loops.back().push_back(x[v].head<2>());
@@ -500,6 +731,7 @@ void Builder::bone_block() {
     }
   }
   planar(top_loops, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
+  if (lesion_) lesion_bone_top(planar);
   planar({rect}, {}, zb, kFixedBone, -Eigen::Vector3d::UnitZ());
   // Sides.
   const int nz = std::max(2, static_cast<int>(std::ceil((zc - zb) / (2 * h_))));
@@ -521,6 +753,36 @@ void Builder::bone_block() {
       }
   }
   bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
+}
+
+// Degree III lesion: the septum's top (a plane at its level inside the inner socket loop) and,
+// per hull edge, a wall of bone between the two roots' socket columns (zipped bottom to top, no
+// new points), facing into the lesion when the septum lies below the crest, out of it otherwise.
+void Builder::lesion_bone_top(const Planar& planar) {
+  const auto& x = points_.points();
+  std::vector<Eigen::Vector2d> loop;
+  for (int v : inner_top_) loop.push_back(x[v].head<2>());
+  planar({loop}, inner_top_, -tooth_.trunk_length_mm - t_in_, kFreeBone, Eigen::Vector3d::UnitZ());
+  Eigen::Vector3d mean = Eigen::Vector3d::Zero();
+  for (int v : inner_top_) mean += x[v] / static_cast<double>(inner_top_.size());
+  for (const auto& [P, Q] : walls_) {
+    const Eigen::Vector3d d = x[Q.front()] - x[P.front()];
+    Eigen::Vector3d out(d.y(), -d.x(), 0);
+    if (out.dot(mean - x[P.front()]) < 0) out = -out;  // toward the lesion
+    if (t_in_ < t_out_) out = -out;
+    size_t i = 0, j = 0;
+    while (i + 1 < P.size() || j + 1 < Q.size()) {
+      const bool step_p =
+          j + 1 >= Q.size() || (i + 1 < P.size() && x[P[i + 1]].z() <= x[Q[j + 1]].z());
+      if (step_p) {
+        tri(P[i], Q[j], P[i + 1], kFreeBone, INT_MIN, out);
+        ++i;
+      } else {
+        tri(P[i], Q[j], Q[j + 1], kFreeBone, INT_MIN, out);
+        ++j;
+      }
+    }
+  }
 }
 
 // PLC: every triangle but the PDL's free top; from_plc maps PLC points to ours.
@@ -640,16 +902,32 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
-  if (bone.furcation.degree != 0 || bone.loss.defect_depth_mm > 0)
+  if (bone.loss.defect_depth_mm > 0)
+    throw InputError("angular_defect.depth_mm",
+                     "the multi-rooted mesh does not cover angular defects yet; use the "
+                     "thin-layer estimate (finite_elements false) for this scenario");
+  const int degree = bone.furcation.degree;
+  if ((degree == 1 || degree == 2) && bone.septum_to_roof)
     throw InputError("furcation.degree",
-                     "the multi-rooted mesh covers horizontal loss only so far (no furcation "
-                     "lesion, no angular defect); use the thin-layer estimate for those");
+                     "the multi-rooted mesh covers degree III furcation lesions only so far (the "
+                     "septum lowered across the whole furcation), not degree I or II; use the "
+                     "thin-layer estimate (finite_elements false) for this scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
                      "furcation plane; change the horizontal loss a little");
-  if (gap < 0 && bone.septum_to_roof)
+  const bool lesion = degree == 3 && bone.septum_to_roof;
+  if (lesion && gap > 0)
+    throw InputError("furcation.degree",
+                     "a degree III furcation lesion is meshed with the outer crest below the "
+                     "furcation plane only (above it the lesion would be a closed tunnel in the "
+                     "bone); add horizontal loss or use the thin-layer estimate");
+  if (lesion && std::abs(gap + bone.furcation.vertical_mm) < 0.3)
+    throw InputError("furcation.vertical_mm",
+                     "the multi-rooted mesh needs the septum's top in a degree III lesion at "
+                     "least 0.3 mm above or below the outer crest; change vertical_mm a little");
+  if (gap < 0 && bone.septum_to_roof && !lesion)
     throw InputError("bone_loss_mm",
                      "with the crest below the furcation plane the mesh covers a level crest "
                      "through the furcation only (septum_to_roof false); a septum up to the roof "
