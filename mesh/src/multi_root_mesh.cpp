@@ -10,6 +10,7 @@
 #include "detail/model_frame.h"
 #include "detail/model_mesher.h"
 #include "detail/planar_triangulation.h"
+#include "multi_root_hull.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/multi_root_tooth.h"
@@ -57,38 +58,6 @@ Eigen::Vector2d root_ring_point(const RootSpec& spec, double t, int i, int n) {
   const Eigen::Vector2d c = root_centre(spec, t);
   const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
   return Eigen::Vector2d(c.x() + rho * o.x(), c.y() + rho * o.y());
-}
-
-// Convex hull (counter-clockwise, no collinear points) by the monotone chain.
-std::vector<Eigen::Vector2d> convex_hull(std::vector<Eigen::Vector2d> p) {
-  std::sort(p.begin(), p.end(), [](const Eigen::Vector2d& a, const Eigen::Vector2d& b) {
-    return a.x() < b.x() || (a.x() == b.x() && a.y() < b.y());
-  });
-  auto cross = [](const Eigen::Vector2d& o, const Eigen::Vector2d& a, const Eigen::Vector2d& b) {
-    return (a.x() - o.x()) * (b.y() - o.y()) - (a.y() - o.y()) * (b.x() - o.x());
-  };
-  std::vector<Eigen::Vector2d> h(2 * p.size());
-  size_t k = 0;
-  for (size_t i = 0; i < p.size(); ++i) {
-    while (k >= 2 && cross(h[k - 2], h[k - 1], p[i]) <= 0) --k;
-    h[k++] = p[i];
-  }
-  for (size_t i = p.size() - 1, t = k + 1; i > 0; --i) {
-    while (k >= t && cross(h[k - 2], h[k - 1], p[i - 1]) <= 0) --k;
-    h[k++] = p[i - 1];
-  }
-  h.resize(k - 1);
-  return h;
-}
-
-// Depth of q inside a convex counter-clockwise polygon (negative outside).
-double inside_depth(const std::vector<Eigen::Vector2d>& hull, const Eigen::Vector2d& q) {
-  double d = 1e300;
-  for (size_t i = 0; i < hull.size(); ++i) {
-    const Eigen::Vector2d e = hull[(i + 1) % hull.size()] - hull[i];
-    d = std::min(d, (e.x() * (q.y() - hull[i].y()) - e.y() * (q.x() - hull[i].x())) / e.norm());
-  }
-  return d;
 }
 
 class Builder {
@@ -373,16 +342,17 @@ void Builder::classify_hull() {
   outer_.assign(R, {});
   for (size_t r = 0; r < R; ++r) outer_[r].assign(root_ring_size(tooth_.roots[r], h_), 0);
   for (double t : {t_out_, t_in_}) {
-    std::vector<Eigen::Vector2d> all;
+    std::vector<detail::HullPoint> all;
     for (size_t r = 0; r < R; ++r)
       for (size_t i = 0; i < outer_[r].size(); ++i)
-        all.push_back(root_ring_point(tooth_.roots[r], t, static_cast<int>(i),
-                                      static_cast<int>(outer_[r].size())));
-    const std::vector<Eigen::Vector2d> hull = convex_hull(all);
+        all.push_back({root_ring_point(tooth_.roots[r], t, static_cast<int>(i),
+                                       static_cast<int>(outer_[r].size())),
+                       static_cast<int>(r)});
+    const std::vector<detail::HullPoint> hull = detail::convex_hull(all);
     size_t k = 0;
     for (size_t r = 0; r < R; ++r)
       for (size_t i = 0; i < outer_[r].size(); ++i)
-        outer_[r][i] |= inside_depth(hull, all[k++]) <= 0.05;
+        outer_[r][i] |= detail::inside_depth(hull, all[k++].p) <= 0.05;
   }
   Eigen::Vector2d mean = Eigen::Vector2d::Zero();
   for (const RootSpec& spec : tooth_.roots)
