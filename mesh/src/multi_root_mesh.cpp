@@ -126,6 +126,8 @@ class Builder {
   void tooth_surface();
   std::vector<int> crown_dome(int n_around);
   std::vector<int> trunk(const std::vector<int>& cervix, int n_around);
+  std::vector<int> trunk_with_defect(const std::vector<int>& cervix, int n_around);
+  double crest_z(const Eigen::Vector2d& p) const;
   std::vector<int> root(size_t r);
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
   // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
@@ -140,8 +142,10 @@ class Builder {
   void free_strip(int u, int v, const Eigen::Vector3d& outward,
                   const std::map<int, std::vector<int>>& layer);
   void pdl_lesion(const std::map<int, std::vector<int>>& layer);
-  using Planar = std::function<void(const std::vector<std::vector<Eigen::Vector2d>>&,
-                                    const std::vector<int>&, double, int, const Eigen::Vector3d&)>;
+  using ZOf = std::function<double(const Eigen::Vector2d&)>;  // height of a planar face's point
+  using Planar =
+      std::function<void(const std::vector<std::vector<Eigen::Vector2d>>&, const std::vector<int>&,
+                         const ZOf&, int, const Eigen::Vector3d&)>;
   void lesion_bone_top(const Planar& planar);
   // PDL: offset directions, the points across the layer, the prisms, the free top at the crest.
   void pdl_layer();
@@ -219,6 +223,7 @@ std::vector<int> Builder::crown_dome(int n_around) {
 // Trunk: CEJ -> crest -> furcation plane (a ring exactly at the crest when the crest lies on the
 // trunk, which is then recorded as a crest ring); returns the rim at the furcation plane.
 std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
+  if (bone_.loss.defect_depth_mm > 0) return trunk_with_defect(cervix, n_around);
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const double T = tooth_.trunk_length_mm;
   const double zf = -T, zc = outer_crest_z_mm(bone_);
@@ -247,6 +252,50 @@ std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
       prev = r;
     }
   }
+  return prev;
+}
+
+// Crest height (z) over the point p: the outer crest lowered by the angular defect's profile at
+// p's polar angle around the tooth's axis (as the thin layer's attach()).
+double Builder::crest_z(const Eigen::Vector2d& p) const {
+  if (bone_.loss.defect_depth_mm <= 0) return outer_crest_z_mm(bone_);
+  return outer_crest_z_mm(bone_) -
+         bone_.loss.defect_depth_mm * detail::defect_weight(bone_.loss, std::atan2(p.y(), p.x()));
+}
+
+// Trunk with an angular defect (the crest on the trunk everywhere): the crest ring follows the
+// defect's profile (each point at the crest over its own polar angle, found by three fixed-point
+// steps, as the ring's sections change with height), the rings above and below it spread evenly
+// between the CEJ, that ring and the furcation plane.
+std::vector<int> Builder::trunk_with_defect(const std::vector<int>& cervix, int n_around) {
+  const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
+  const double T = tooth_.trunk_length_mm, zf = -T;
+  auto point = [&](int i, double z) {
+    const double f = -z / T, th = 2 * kPi * i / n_around;
+    return Eigen::Vector3d((A + (tooth_.furcation_half_x_mm - A) * f) * std::cos(th),
+                           (B + (tooth_.furcation_half_y_mm - B) * f) * std::sin(th), z);
+  };
+  std::vector<double> crest(n_around, outer_crest_z_mm(bone_));
+  for (int i = 0; i < n_around; ++i)
+    for (int step = 0; step < 3; ++step) crest[i] = crest_z(point(i, crest[i]).head<2>());
+  const double lowest = *std::min_element(crest.begin(), crest.end());
+  const double highest = *std::max_element(crest.begin(), crest.end());
+  auto lateral = [](const Eigen::Vector3d& c) { return Eigen::Vector3d(c.x(), c.y(), 0); };
+  auto next_ring = [&](const std::vector<int>& prev, int marker, auto z_of) {
+    std::vector<int> r;
+    for (int i = 0; i < n_around; ++i) r.push_back(add(point(i, z_of(i)), kTrunkPart));
+    join(prev, r, marker, kTrunkPart, lateral);
+    return r;
+  };
+  std::vector<int> prev = cervix;
+  const int n1 = std::max(1, static_cast<int>(std::ceil(-lowest / h_)));
+  for (int k = 1; k <= n1; ++k)
+    prev = next_ring(prev, kExposedRoot, [&](int i) { return crest[i] * k / n1; });
+  crest_rings_.push_back(prev);
+  const int n2 = std::max(1, static_cast<int>(std::ceil((highest - zf) / h_)));
+  for (int k = 1; k <= n2; ++k)
+    prev =
+        next_ring(prev, kRootSurface, [&](int i) { return crest[i] + (zf - crest[i]) * k / n2; });
   return prev;
 }
 
@@ -678,14 +727,15 @@ void Builder::bone_block() {
     }
   }
   auto planar = [&](const std::vector<std::vector<Eigen::Vector2d>>& loops,
-                    const std::vector<int>& known, double z, int marker,
+                    const std::vector<int>& known, const ZOf& z_of, int marker,
                     const Eigen::Vector3d& out) {
     std::vector<Eigen::Vector2d> p2;
     const auto t2 = detail::triangulate_planar(loops, hb, &p2);
     std::vector<int> idx(p2.size());
     for (size_t i = 0; i < p2.size(); ++i)
-      idx[i] =
-          i < known.size() && known[i] >= 0 ? known[i] : add({p2[i].x(), p2[i].y(), z}, INT_MIN);
+      idx[i] = i < known.size() && known[i] >= 0
+                   ? known[i]
+                   : add({p2[i].x(), p2[i].y(), z_of(p2[i])}, INT_MIN);
     for (const auto& t : t2) tri(idx[t[0]], idx[t[1]], idx[t[2]], marker, INT_MIN, out);
   };
   // Top: the rectangle around the socket's crest ring.
@@ -700,9 +750,13 @@ void Builder::bone_block() {
       known.push_back(v);
     }
   }
-  planar(top_loops, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
+  // The top follows the crest (lowered by an angular defect over its polar angle).
+  const ZOf top = [&](const Eigen::Vector2d& p) { return crest_z(p); };
+  planar(top_loops, known, top, kFreeBone, Eigen::Vector3d::UnitZ());
   if (lesion_) lesion_bone_top(planar);
-  planar({rect}, {}, zb, kFixedBone, -Eigen::Vector3d::UnitZ());
+  planar(
+      {rect}, {}, [&](const Eigen::Vector2d&) { return zb; }, kFixedBone,
+      -Eigen::Vector3d::UnitZ());
   // Sides.
   const int nz = std::max(2, static_cast<int>(std::ceil((zc - zb) / (2 * h_))));
   const std::array<Eigen::Vector3d, 4> outward{-Eigen::Vector3d::UnitY(), Eigen::Vector3d::UnitX(),
@@ -711,9 +765,9 @@ void Builder::bone_block() {
   for (int s = 0; s < 4; ++s) {
     std::vector<std::vector<int>> rows;
     for (int j = 0; j <= nz; ++j) {
-      const double z = zb + (zc - zb) * j / nz;
       std::vector<int> row;
-      for (const Eigen::Vector2d& p : side_pts[s]) row.push_back(add({p.x(), p.y(), z}, INT_MIN));
+      for (const Eigen::Vector2d& p : side_pts[s])
+        row.push_back(add({p.x(), p.y(), zb + (top(p) - zb) * j / nz}, INT_MIN));
       rows.push_back(row);
     }
     for (int j = 0; j < nz; ++j)
@@ -732,7 +786,10 @@ void Builder::lesion_bone_top(const Planar& planar) {
   const auto& x = points_.points();
   std::vector<Eigen::Vector2d> loop;
   for (int v : inner_top_) loop.push_back(x[v].head<2>());
-  planar({loop}, inner_top_, -tooth_.trunk_length_mm - t_in_, kFreeBone, Eigen::Vector3d::UnitZ());
+  const double zs = -tooth_.trunk_length_mm - t_in_;
+  planar(
+      {loop}, inner_top_, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
+      Eigen::Vector3d::UnitZ());
   Eigen::Vector3d mean = Eigen::Vector3d::Zero();
   for (int v : inner_top_) mean += x[v] / static_cast<double>(inner_top_.size());
   for (const auto& [P, Q] : walls_) {
@@ -872,11 +929,17 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
-  if (bone.loss.defect_depth_mm > 0)
-    throw InputError("angular_defect.depth_mm",
-                     "the multi-rooted mesh does not cover angular defects yet; use the "
-                     "thin-layer estimate (finite_elements false) for this scenario");
   const int degree = bone.furcation.degree;
+  const double gap_defect =
+      outer_crest_z_mm(bone) - bone.loss.defect_depth_mm + tooth.trunk_length_mm;
+  if (bone.loss.defect_depth_mm > 0 && (gap_defect < 0.3 || degree != 0))
+    throw InputError("angular_defect.depth_mm",
+                     "the multi-rooted mesh covers an angular defect only with the crest on the "
+                     "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
+                     "here " +
+                         std::to_string(gap_defect) +
+                         " mm) and no furcation lesion; use "
+                         "the thin-layer estimate (finite_elements false) for this scenario");
   if ((degree == 1 || degree == 2) && bone.septum_to_roof)
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree III furcation lesions only so far (the "

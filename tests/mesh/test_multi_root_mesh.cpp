@@ -18,8 +18,9 @@ namespace sharpey::mesh {
 namespace {
 
 // Conforming and valid (checked inside the mesher), PDL width and volume per root; volume_bound
-// relative to area x width.
-void check_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone, double volume_bound) {
+// relative to area x width. Returns the trunk's PDL volume and 0.2 x its attached area (mm^3).
+std::pair<double, double> check_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                                     double volume_bound) {
   const MultiRootMesh m = build_multi_root_mesh(tooth, bone);
   const MeshStatistics s = measure(m.mesh);
   std::cout << to_string(tooth.type) << ": " << s.n_nodes << " nodes, " << s.n_elements
@@ -124,6 +125,14 @@ void check_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone, double v
               << " mm^3, area x width " << expected << " mm^3\n";
     EXPECT_NEAR(volume[static_cast<int>(r)], expected, volume_bound * expected);
   }
+  // The trunk's (the crest and an angular defect's floor lie on it): within 12 %, widened from
+  // the roots' 8 % after 8.4 % was observed on the healthy mandibular molars (the mitred corner
+  // where the trunk's rim meets the roof adds to the trunk's prisms).
+  const double trunk = 0.2 * areas.attached_trunk_mm2;
+  std::cout << "  trunk: PDL volume " << volume[kTrunkPart] << " mm^3, area x width " << trunk
+            << " mm^3\n";
+  EXPECT_NEAR(volume[kTrunkPart], trunk, 0.12 * trunk + 1e-9);
+  return {volume[kTrunkPart], trunk};
 }
 
 class MultiRootMeshTest : public ::testing::TestWithParam<MultiRootType> {};
@@ -148,6 +157,22 @@ TEST_P(MultiRootMeshTest, DegreeThreeLesionConformingAndPdlWidth) {
   // inner and outer by whole columns of the ring (on the roots' hull at either level), the thin
   // layer by the hull at each height.
   check_mesh(tooth, bone, 0.08);
+}
+
+// Angular defect on the trunk: 0.5 mm above the furcation plane at its floor, mesial, 60 degrees
+// wide (the crest ring and the bone's top follow the cos^2 profile).
+TEST_P(MultiRootMeshTest, AngularDefectConformingAndPdlWidth) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.defect_depth_mm = tooth.trunk_length_mm - bone.crest_below_cej_mm - 0.5;
+  bone.loss.defect_surface = ToothSurface::kMesial;
+  const auto [v_defect, a_defect] = check_mesh(tooth, bone, 0.08);
+  // What the defect removes from the trunk's PDL against what it removes from the thin layer's
+  // attachment (derived: area x width), within 10 % (observed, printed).
+  const auto [v_healthy, a_healthy] = check_mesh(tooth, MultiRootBone{}, 0.08);
+  std::cout << "  the defect removes " << v_healthy - v_defect << " mm^3 of PDL, area x width "
+            << a_healthy - a_defect << " mm^3\n";
+  EXPECT_NEAR(v_healthy - v_defect, a_healthy - a_defect, 0.1 * (a_healthy - a_defect));
 }
 
 // The septum's top above the outer crest (a lesion 1 mm deep under a crest 1.5 mm below the
@@ -177,7 +202,7 @@ TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
   b.furcation.vertical_mm = 1.4;  // septum's top 0.1 mm above the crest (1.5 mm below the roof)
   EXPECT_THROW(build_multi_root_mesh(tooth, b), InputError);
   MultiRootBone defect;
-  defect.loss.defect_depth_mm = 2;
+  defect.loss.defect_depth_mm = 1.4;  // floor 0.1 mm above the furcation plane
   EXPECT_THROW(build_multi_root_mesh(tooth, defect), InputError);
   MultiRootBone deep;
   deep.loss.horizontal_mm = 3;  // crest below the furcation plane
