@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <climits>
 #include <cmath>
+#include <cstdio>
 #include <functional>
 #include <map>
 #include <set>
@@ -926,6 +927,14 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
 
 }  // namespace
 
+namespace {
+std::string mm(double v) {
+  char text[32];
+  std::snprintf(text, sizeof text, "%.2f mm", v);
+  return text;
+}
+}  // namespace
+
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
@@ -937,9 +946,9 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
                      "the multi-rooted mesh covers an angular defect only with the crest on the "
                      "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
                      "here " +
-                         std::to_string(gap_defect) +
-                         " mm) and no furcation lesion; use "
-                         "the thin-layer estimate (finite_elements false) for this scenario");
+                         mm(gap_defect) +
+                         ") and no furcation lesion; use the thin-layer estimate "
+                         "(finite_elements false) for this scenario");
   if ((degree == 1 || degree == 2) && bone.septum_to_roof)
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree III furcation lesions only so far (the "

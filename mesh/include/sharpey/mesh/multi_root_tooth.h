@@ -195,8 +195,10 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // level crest through the furcation (septum_to_roof false), or below it with a degree III lesion
 // (the septum's top vertical_mm below the roof, at least 0.3 mm from the crest: each root's
 // ring columns on the roots' hull attached below the crest, the others below the septum's top;
-// free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md). No angular defect, no
-// degree I or II lesion; anything else throws InputError naming what is not yet meshed.
+// free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
+// floor stays at least 0.3 mm above the furcation plane (the crest ring and the bone's top follow
+// the profile), without a lesion. No degree I or II lesion, no defect reaching the roots;
+// anything else throws InputError naming what is not yet meshed.
 struct MultiRootMeshSizing {
   double edge_mm = 0.9;       // along the root surfaces
   double bone_edge_mm = 3.0;  // inside the bone block
