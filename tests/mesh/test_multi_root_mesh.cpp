@@ -191,6 +191,47 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
                            return to_string(p.param);
                          });
 
+// Robustness: degree III lesions over a grid of crest and septum levels, and angular defects of
+// several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
+// or is refused with an InputError, never a MeshError.
+TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
+  int n_meshed = 0, n_refused = 0;
+  for (MultiRootType type : all_multi_root_types()) {
+    const MultiRootTooth tooth = multi_root_handbook(type);
+    const double gap = tooth.trunk_length_mm - 1.5;  // healthy crest above the furcation plane
+    std::vector<MultiRootBone> bones;
+    for (double below : {0.5, 1.5, 2.5})
+      for (double vertical : {0.5, 1.0, 2.0, 3.0, 4.0}) {
+        MultiRootBone b;
+        b.loss.horizontal_mm = gap + below;
+        b.furcation.degree = 3;
+        b.furcation.vertical_mm = vertical;
+        bones.push_back(b);
+      }
+    for (ToothSurface surface : {ToothSurface::kMesial, ToothSurface::kLabial})
+      for (double floor : {0.4, 1.0}) {
+        MultiRootBone b;
+        b.loss.defect_depth_mm = gap - floor;
+        b.loss.defect_surface = surface;
+        b.loss.defect_width_deg = 90;
+        if (b.loss.defect_depth_mm > 0) bones.push_back(b);
+      }
+    for (const MultiRootBone& b : bones) {
+      try {
+        validate_multi_root_mesh(tooth, b);
+      } catch (const InputError&) {
+        ++n_refused;
+        continue;
+      }
+      EXPECT_NO_THROW(build_multi_root_mesh(tooth, b))
+          << to_string(type) << ", loss " << b.loss.horizontal_mm << " mm, septum "
+          << b.furcation.vertical_mm << " mm below the roof, defect " << b.loss.defect_depth_mm;
+      ++n_meshed;
+    }
+  }
+  std::cout << n_meshed << " meshed, " << n_refused << " refused (InputError)\n";
+}
+
 TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
   const MultiRootTooth tooth = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
   MultiRootBone b;
