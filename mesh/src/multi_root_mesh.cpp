@@ -67,9 +67,12 @@ class Builder {
       : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {
     // A degree III lesion under an outer crest below the furcation plane: the septum's top
     // lowered to vertical_mm below the roof across the furcation (validate_multi_root_mesh).
-    lesion_ = bone.furcation.degree == 3 && bone.septum_to_roof;
+    // The same with the septum at the roof (t_in_ 0, no lesion): attached inside the roots' hull
+    // up to the roof, the roof outside it free.
     t_out_ = -tooth.trunk_length_mm - outer_crest_z_mm(bone);
-    t_in_ = bone.furcation.vertical_mm;
+    lesion_ = bone.septum_to_roof &&
+              (bone.furcation.degree == 3 || (bone.furcation.degree == 0 && t_out_ > 0));
+    t_in_ = bone.furcation.degree == 3 ? bone.furcation.vertical_mm : 0.0;
   }
 
   MultiRootMesh build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel);
@@ -131,6 +134,7 @@ class Builder {
   double crest_z(const Eigen::Vector2d& p) const;
   std::vector<int> root(size_t r);
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
+  void roof_domain(const std::vector<std::vector<int>>& outlines, int marker);
   // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
   // roots' order around it; the markers of a root's new band of triangles; the free faces of the
   // PDL at the lesion's edge and the socket's loops and walls for the bone's top.
@@ -322,7 +326,7 @@ std::vector<double> root_ring_depths(const RootSpec& spec, double tc, double h) 
 std::vector<double> root_ring_depths_lesion(const RootSpec& spec, double t1, double t2, double h) {
   const double a = std::min(t1, t2), b = std::max(t1, t2);
   std::vector<double> depths;
-  const int m1 = std::max(1, static_cast<int>(std::ceil(a / h)));
+  const int m1 = a > 0 ? std::max(1, static_cast<int>(std::ceil(a / h))) : 0;
   for (int j = 0; j < m1; ++j) depths.push_back(a * j / m1);
   const int m2 = std::max(1, static_cast<int>(std::ceil((b - a) / h)));
   for (int j = 0; j < m2; ++j) depths.push_back(a + (b - a) * j / m2);
@@ -452,13 +456,42 @@ void Builder::furcation_roof(const std::vector<int>& rim,
                              const std::vector<std::vector<int>>& feet) {
   const double zf = -tooth_.trunk_length_mm;
   const bool above = outer_crest_z_mm(bone_) > zf;
+  if (!lesion_ || t_in_ > 0) {
+    std::vector<std::vector<int>> outlines{rim};
+    outlines.insert(outlines.end(), feet.begin(), feet.end());
+    roof_domain(outlines, above ? kRootSurface : kExposedRoot);
+    return;
+  }
+  // The septum at the roof under a crest below it: attached inside the roots' hull (the feet's
+  // inner arcs joined along the hull), free outside it.
+  std::vector<int> outer, inner;
+  for (int r : order_) {
+    const int n = static_cast<int>(feet[r].size());
+    for (int i = arc_start_[r];; i = (i + 1) % n) {
+      outer.push_back(feet[r][i]);
+      if (i == arc_end_[r]) break;
+    }
+  }
+  for (size_t k = order_.size(); k-- > 0;) {
+    const int r = order_[k], n = static_cast<int>(feet[r].size());
+    for (int i = arc_end_[r];; i = (i + 1) % n) {
+      inner.push_back(feet[r][i]);
+      if (i == arc_start_[r]) break;
+    }
+  }
+  roof_domain({rim, outer}, kExposedRoot);
+  roof_domain({inner}, kRootSurface);
+}
+
+// Roof triangles in the domain bounded by the outlines (the first the outer boundary, the others
+// holes), triangulated in the furcation plane.
+void Builder::roof_domain(const std::vector<std::vector<int>>& outlines, int marker) {
+  const double zf = -tooth_.trunk_length_mm;
   std::vector<std::vector<Eigen::Vector2d>> loops;
   std::vector<int> boundary;
-  std::vector<const std::vector<int>*> outlines{&rim};
-  for (const auto& f : feet) outlines.push_back(&f);
-  for (const std::vector<int>* loop : outlines) {
+  for (const std::vector<int>& loop : outlines) {
     loops.emplace_back();
-    for (int i : *loop) {
+    for (int i : loop) {
       loops.back().push_back(points_.points()[i].head<2>());
       boundary.push_back(i);
     }
@@ -469,8 +502,7 @@ void Builder::furcation_roof(const std::vector<int>& rim,
   for (size_t i = 0; i < pts2.size(); ++i)
     index[i] = i < boundary.size() ? boundary[i] : add({pts2[i].x(), pts2[i].y(), zf}, kRoofPart);
   for (const auto& t : roof)
-    tri(index[t[0]], index[t[1]], index[t[2]], above ? kRootSurface : kExposedRoot, kRoofPart,
-        -Eigen::Vector3d::UnitZ());
+    tri(index[t[0]], index[t[1]], index[t[2]], marker, kRoofPart, -Eigen::Vector3d::UnitZ());
 }
 
 void Builder::pdl_layer() {
@@ -665,6 +697,7 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
     const size_t jc = level(r, t_out_), js = level(r, t_in_);
     const int n = static_cast<int>(R[jc].size());
     for (int i = 0; i < n; ++i) {
+      if (inner_column(r, i) && t_in_ == 0) continue;  // the septum at the roof: attached on
       const std::vector<int>& ring_r = inner_column(r, i) ? R[js] : R[jc];
       free_strip(ring_r[i], ring_r[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
     }
@@ -691,8 +724,13 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
       if (i == arc_end_[r]) break;
     }
     walls_.push_back({column[2 * k], column[2 * ((k + 1) % R) + 1]});
+    if (t_in_ == 0) {  // the roof's PDL ends along the hull edge
+      const size_t r2 = order_[(k + 1) % R];
+      free_strip(rings_[r][0][arc_end_[r]], rings_[r2][0][arc_start_[r2]],
+                 -Eigen::Vector3d::UnitZ(), layer);
+    }
   }
-  for (size_t k = R; k-- > 0;) {
+  for (size_t k = R; k-- > 0 && t_in_ > 0;) {
     const size_t r = order_[k];
     const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
     const int n = static_cast<int>(ring_s.size());
@@ -788,11 +826,15 @@ void Builder::lesion_bone_top(const Planar& planar) {
   std::vector<Eigen::Vector2d> loop;
   for (int v : inner_top_) loop.push_back(x[v].head<2>());
   const double zs = -tooth_.trunk_length_mm - t_in_;
-  planar(
-      {loop}, inner_top_, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
-      Eigen::Vector3d::UnitZ());
   Eigen::Vector3d mean = Eigen::Vector3d::Zero();
-  for (int v : inner_top_) mean += x[v] / static_cast<double>(inner_top_.size());
+  if (t_in_ > 0) {
+    planar(
+        {loop}, inner_top_, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
+        Eigen::Vector3d::UnitZ());
+    for (int v : inner_top_) mean += x[v] / static_cast<double>(inner_top_.size());
+  } else {  // the septum's top is the socket's roof
+    for (const auto& [P, Q] : walls_) mean += (x[P.front()] + x[Q.front()]) / (2.0 * walls_.size());
+  }
   for (const auto& [P, Q] : walls_) {
     const Eigen::Vector3d d = x[Q.front()] - x[P.front()];
     Eigen::Vector3d out(d.y(), -d.x(), 0);
@@ -969,11 +1011,6 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
     throw InputError("furcation.vertical_mm",
                      "the multi-rooted mesh needs the septum's top in a degree III lesion at "
                      "least 0.3 mm above or below the outer crest; change vertical_mm a little");
-  if (gap < 0 && bone.septum_to_roof && !lesion)
-    throw InputError("bone_loss_mm",
-                     "with the crest below the furcation plane the mesh covers a level crest "
-                     "through the furcation only (septum_to_roof false); a septum up to the roof "
-                     "is not meshed yet: use the thin-layer estimate");
   if (!(sizing.edge_mm >= 0.2 && sizing.edge_mm <= 2.0) || sizing.pdl_layers < 1 ||
       sizing.pdl_layers > 3 || !(sizing.bone_edge_mm >= sizing.edge_mm))
     throw InputError("mesh",

@@ -2,7 +2,7 @@
 // lowered across the furcation, mesh/multi_root_mesh.cpp): equilibrium, the CRes against the
 // thin-layer estimate, and how the CRes, the peak compression per unit load and the allowance
 // move as the lesion deepens (mandibular first molar, 3 mm of horizontal loss; coarse sizes,
-// four solves).
+// five solves).
 #include <gtest/gtest.h>
 
 #include <iostream>
@@ -16,24 +16,25 @@ TEST(MultiRootFeFurcation, DegreeThreeLesionFollowsTheThinLayerAndDeepensMonoton
   const mesh::MultiRootTooth tooth =
       mesh::multi_root_handbook(mesh::MultiRootType::kMandibularFirstMolar);
   const fem::Material stiff{1e5, 0.3}, pdl{0.47, 0.45};
-  // The outer crest 4.5 mm below the CEJ (1.5 mm below the furcation plane). First the crest
-  // level through the furcation (no lesion: the septum at the outer crest), then degree III with
-  // the septum's top 1, 3 and 5 mm below the roof; 1.5 mm would equal the level crest.
+  // The outer crest 4.5 mm below the CEJ (1.5 mm below the furcation plane). The septum at the
+  // roof (no lesion), degree III with the septum's top 1 mm below the roof, the crest level
+  // through the furcation (the septum at the outer crest: 1.5 mm), then 3 and 5 mm.
   struct Scenario {
     const char* name;
     bool septum_to_roof;
     double vertical_mm;
   };
   double last_cres = 0, last_peak = 0, last_thin_cres = 0;
-  for (const Scenario& s : {Scenario{"degree III, septum 1 mm below the roof", true, 1.0},
+  for (const Scenario& s : {Scenario{"no lesion, the septum at the roof", true, 0.0},
+                            Scenario{"degree III, septum 1 mm below the roof", true, 1.0},
                             Scenario{"level crest through the furcation", false, 3.0},
                             Scenario{"degree III, septum 3 mm below the roof", true, 3.0},
                             Scenario{"degree III, septum 5 mm below the roof", true, 5.0}}) {
     mesh::MultiRootBone bone;
     bone.loss.horizontal_mm = 3;
     bone.septum_to_roof = s.septum_to_roof;
-    bone.furcation.degree = s.septum_to_roof ? 3 : 0;
-    bone.furcation.vertical_mm = s.vertical_mm;
+    bone.furcation.degree = s.septum_to_roof && s.vertical_mm > 0 ? 3 : 0;
+    if (s.vertical_mm > 0) bone.furcation.vertical_mm = s.vertical_mm;
     const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, bone);
     const MultiRootFeCres fe = multi_root_fe_cres(m, stiff, pdl, stiff, tooth.trunk_length_mm);
     const MultiRootThinLayer thin(tooth, bone, pdl);
