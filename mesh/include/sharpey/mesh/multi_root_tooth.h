@@ -192,7 +192,8 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // kTooth, kPdl, kCancellousBone; face markers as build_tooth_model's. Midside nodes of 10-node
 // elements at edge midpoints.
 // Covered so far: the outer crest at least 0.3 mm above the furcation plane, or below it with a
-// level crest through the furcation (septum_to_roof false), or below it with a degree III lesion
+// level crest through the furcation (septum_to_roof false), with the septum at the roof (the roof
+// attached inside the roots' hull, free outside it), or with a degree III lesion
 // (the septum's top vertical_mm below the roof, at least 0.3 mm from the crest: each root's
 // ring columns on the roots' hull attached below the crest, the others below the septum's top;
 // free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
