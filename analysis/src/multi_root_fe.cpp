@@ -100,16 +100,20 @@ MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& m, const fem::Mate
 
 namespace {
 
-// PDL nodes left out of the peaks: within one crest width below the crest and, with a degree III
-// lesion or an angular defect (mesh/multi_root_mesh.cpp), within one crest width of the PDL's
-// free faces (kPdlCrest: the lowered crest, the lesion's edge), the free edge's band as in the
-// single-rooted results.
-std::vector<char> free_edge_band(const mesh::MultiRootMesh& m, const mesh::MultiRootBone& bone,
+// PDL nodes left out of the peaks: within one crest width below the crest and, with a furcation
+// lesion, the septum at the roof under a lower crest or an angular defect
+// (mesh/multi_root_mesh.cpp), within one crest width of the PDL's free faces (kPdlCrest: the
+// lowered crest, the lesion's and the septum's edges), the free edge's band as in the single-rooted
+// results.
+std::vector<char> free_edge_band(const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
+                                 const mesh::MultiRootBone& bone,
                                  const std::vector<int>& pdl_nodes) {
   const double band_top = mesh::outer_crest_z_mm(bone) - bone.pdl.crest_width_mm;
   std::vector<char> band(pdl_nodes.size(), 0);
   for (size_t i = 0; i < band.size(); ++i) band[i] = m.mesh.nodes[pdl_nodes[i]].z() > band_top;
-  if ((bone.furcation.degree == 3 && bone.septum_to_roof) || bone.loss.defect_depth_mm > 0) {
+  const bool below = mesh::outer_crest_z_mm(bone) < -tooth.trunk_length_mm;
+  if ((bone.septum_to_roof && (bone.furcation.degree > 0 || below)) ||
+      bone.loss.defect_depth_mm > 0) {
     const std::vector<double> d = mesh::distance_to_faces(m.mesh, pdl_nodes, mesh::kPdlCrest);
     for (size_t i = 0; i < band.size(); ++i) band[i] |= d[i] < bone.pdl.crest_width_mm;
   }
@@ -160,7 +164,7 @@ MultiRootFePressure multi_root_fe_pressure(
     fig.name = r.name;
     out.roots.push_back(fig);
   }
-  const std::vector<char> band = free_edge_band(m, bone, field.nodes);
+  const std::vector<char> band = free_edge_band(m, tooth, bone, field.nodes);
   for (size_t i = 0; i < field.nodes.size(); ++i) {
     const int v = field.nodes[i];
     if (band[i]) continue;

@@ -70,9 +70,12 @@ class Builder {
     // The same with the septum at the roof (t_in_ 0, no lesion): attached inside the roots' hull
     // up to the roof, the roof outside it free.
     t_out_ = -tooth.trunk_length_mm - outer_crest_z_mm(bone);
-    lesion_ = bone.septum_to_roof &&
-              (bone.furcation.degree == 3 || (bone.furcation.degree == 0 && t_out_ > 0));
-    t_in_ = bone.furcation.degree == 3 ? bone.furcation.vertical_mm : 0.0;
+    // Degree I or II (two roots, one entrance): the septum's top lowered to vertical_mm below the
+    // roof from the entrance up to the horizontal depth, at the roof beyond it.
+    const int degree = bone.furcation.degree;
+    partial_ = bone.septum_to_roof && (degree == 1 || degree == 2) && t_out_ > 0;
+    lesion_ = bone.septum_to_roof && (degree == 3 || partial_ || (degree == 0 && t_out_ > 0));
+    t_in_ = degree > 0 ? bone.furcation.vertical_mm : 0.0;
   }
 
   MultiRootMesh build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel);
@@ -143,10 +146,12 @@ class Builder {
     const std::vector<char>& o = outer_[r];
     return !(o[i] && o[(i + 1) % o.size()]);
   }
+  void partial_lesion_columns();
   void mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r);
   void free_strip(int u, int v, const Eigen::Vector3d& outward,
                   const std::map<int, std::vector<int>>& layer);
   void pdl_lesion(const std::map<int, std::vector<int>>& layer);
+  void lesion_floor(const std::map<int, std::vector<int>>& layer);
   using ZOf = std::function<double(const Eigen::Vector2d&)>;  // height of a planar face's point
   using Planar =
       std::function<void(const std::vector<std::vector<Eigen::Vector2d>>&, const std::vector<int>&,
@@ -178,15 +183,22 @@ class Builder {
   std::vector<int> pdl_tet_part_;
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
-  bool lesion_ = false;
-  double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
-  std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
-  std::vector<int> order_, arc_start_, arc_end_;        // roots counter-clockwise; their outer arcs
-  std::vector<std::vector<std::vector<int>>> rings_;    // per root, its rings from the foot down
-  std::vector<std::vector<double>> ring_t_;             // and their depths
-  std::set<int> horizontal_;                            // offset horizontally (the bone's tops)
-  std::vector<int> outer_top_, inner_top_;              // socket loops at the crest, septum top
-  std::vector<std::array<std::vector<int>, 2>> walls_;  // socket columns, bottom to top
+  bool lesion_ = false, partial_ = false;
+  std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
+  int k_entrance_ = 0;                    // partial: the hull edge order_[k] -> order_[k + 1]
+  int stop_p_ = 0, stop_q_ = 0;  // partial: where the lesion ends on those two roots (vertex)
+  double t_out_ = 0, t_in_ = 0;  // outer crest and septum top below the furcation plane
+  std::vector<std::vector<char>> outer_;              // per root and ring index: on the roots' hull
+  std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
+  std::vector<std::vector<std::vector<int>>> rings_;  // per root, its rings from the foot down
+  std::vector<std::vector<double>> ring_t_;           // and their depths
+  std::set<int> horizontal_;                          // offset horizontally (the bone's tops)
+  std::vector<int> outer_top_, inner_top_;            // socket loops at the crest, septum top
+  struct Wall {
+    std::vector<int> p, q;   // socket columns, bottom to top
+    Eigen::Vector3d toward;  // a point on the lower side (the wall faces it)
+  };
+  std::vector<Wall> walls_;
 };
 
 void Builder::tooth_surface() {
@@ -432,6 +444,53 @@ void Builder::classify_hull() {
     return std::atan2(tooth_.roots[r].foot_y_mm - mean.y(), tooth_.roots[r].foot_x_mm - mean.x());
   };
   std::sort(order_.begin(), order_.end(), [&](int a, int b) { return angle(a) < angle(b); });
+  top_.assign(R, {});
+  for (size_t r = 0; r < R; ++r)
+    for (size_t i = 0; i < outer_[r].size(); ++i)
+      top_[r].push_back(inner_column(r, static_cast<int>(i)) ? (partial_ ? 0.0 : t_in_) : t_out_);
+  if (partial_) partial_lesion_columns();
+}
+
+// Degree I or II: the entrance's hull edge (the one facing the probing direction), and the inner
+// columns whose foot-level midpoint lies within the horizontal depth of the entrance (measured
+// from the roots' hull along the probing direction, as the thin layer does), contiguous from the
+// entrance on each of its two roots.
+void Builder::partial_lesion_columns() {
+  const FurcationInvolvement& f = bone_.furcation;
+  const FurcationEntrance e = f.entrances.front();
+  const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
+                            : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
+                            : e == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
+                                                               : Eigen::Vector2d(0, -1);
+  const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
+  auto foot = [&](int r, int i) {
+    const int n = static_cast<int>(top_[r].size());
+    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
+  };
+  double support = -1e300;
+  for (size_t r = 0; r < top_.size(); ++r)
+    for (size_t i = 0; i < top_[r].size(); ++i)
+      support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
+  auto in_lesion = [&](int r, int c) {
+    return support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
+  };
+  const int P0 = order_[0], Q0 = order_[1];
+  const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
+  const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
+  k_entrance_ = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
+  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
+  const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
+  int c = arc_end_[P];
+  for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
+  stop_p_ = c;
+  c = (arc_start_[Q] + nq - 1) % nq;
+  for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
+  stop_q_ = (c + 1) % nq;
+  if (!inner_column(P, stop_p_) || !inner_column(Q, (stop_q_ + nq - 1) % nq) ||
+      (stop_p_ == arc_end_[P] && stop_q_ == arc_start_[Q]))
+    throw MeshError("meshing the furcation lesion: its horizontal depth " + std::to_string(depth) +
+                    " mm covers none or all of the roots' inner faces on the mesh's rings; "
+                    "change horizontal_mm a little");
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
@@ -439,13 +498,12 @@ void Builder::classify_hull() {
 // top on the inner ones. Records the points of the bone's two tops (offset horizontally).
 void Builder::mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r) {
   const int n = static_cast<int>(ring_r.size());
-  for (int i = 0; i < n; ++i) {
-    const double top = inner_column(r, i) ? t_in_ : t_out_;
+  const std::vector<double>& top = top_[r];
+  for (int i = 0; i < n; ++i)
     for (int k = 0; k < 2; ++k)
-      tris_[first + 2 * i + k].marker = t > top + 1e-12 ? kRootSurface : kExposedRoot;
-  }
+      tris_[first + 2 * i + k].marker = t > top[i] + 1e-12 ? kRootSurface : kExposedRoot;
   for (int i = 0; i < n; ++i) {
-    const bool inner = inner_column(r, i) || inner_column(r, (i + n - 1) % n);
+    const bool inner = top[i] == t_in_ || top[(i + n - 1) % n] == t_in_;
     if (std::abs(t - t_out_) < 1e-12 && outer_[r][i]) horizontal_.insert(ring_r[i]);
     if (std::abs(t - t_in_) < 1e-12 && inner) horizontal_.insert(ring_r[i]);
   }
@@ -456,7 +514,7 @@ void Builder::furcation_roof(const std::vector<int>& rim,
                              const std::vector<std::vector<int>>& feet) {
   const double zf = -tooth_.trunk_length_mm;
   const bool above = outer_crest_z_mm(bone_) > zf;
-  if (!lesion_ || t_in_ > 0) {
+  if (!lesion_ || (t_in_ > 0 && !partial_)) {
     std::vector<std::vector<int>> outlines{rim};
     outlines.insert(outlines.end(), feet.begin(), feet.end());
     roof_domain(outlines, above ? kRootSurface : kExposedRoot);
@@ -480,7 +538,26 @@ void Builder::furcation_roof(const std::vector<int>& rim,
     }
   }
   roof_domain({rim, outer}, kExposedRoot);
-  roof_domain({inner}, kRootSurface);
+  if (!partial_) {
+    roof_domain({inner}, kRootSurface);
+    return;
+  }
+  // Degree I or II: free from the entrance to the lesion's end on its two roots, attached beyond.
+  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
+  auto arc = [&](int r, int from, int to, std::vector<int>* out) {
+    const int n = static_cast<int>(feet[r].size());
+    for (int i = from;; i = (i + 1) % n) {
+      out->push_back(feet[r][i]);
+      if (i == to) break;
+    }
+  };
+  std::vector<int> lesion, septum;
+  arc(P, arc_end_[P], stop_p_, &lesion);
+  arc(Q, stop_q_, arc_start_[Q], &lesion);
+  arc(P, stop_p_, arc_start_[P], &septum);
+  arc(Q, arc_end_[Q], stop_q_, &septum);
+  roof_domain({lesion}, kExposedRoot);
+  roof_domain({septum}, kRootSurface);
 }
 
 // Roof triangles in the domain bounded by the outlines (the first the outer boundary, the others
@@ -691,54 +768,93 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
         d.begin());
   };
   auto socket = [&](int v) { return layer.at(v)[layers_]; };
-  std::vector<std::vector<int>> column(2 * order_.size());  // end of root k, start of root k
+  // Socket points of root r's vertex b between depths t1 and t2, bottom to top.
+  auto column = [&](size_t r, int b, double t1, double t2) {
+    std::vector<int> c;
+    const size_t j1 = level(r, t1), j2 = level(r, t2);
+    for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
+      c.push_back(socket(rings_[r][j][b]));
+    return c;
+  };
   for (size_t r = 0; r < rings_.size(); ++r) {
     const std::vector<std::vector<int>>& R = rings_[r];
-    const size_t jc = level(r, t_out_), js = level(r, t_in_);
-    const int n = static_cast<int>(R[jc].size());
+    const std::vector<double>& top = top_[r];
+    const int n = static_cast<int>(top.size());
     for (int i = 0; i < n; ++i) {
-      if (inner_column(r, i) && t_in_ == 0) continue;  // the septum at the roof: attached on
-      const std::vector<int>& ring_r = inner_column(r, i) ? R[js] : R[jc];
+      if (top[i] == 0) continue;  // the septum at the roof: attached on
+      const std::vector<int>& ring_r = R[level(r, top[i])];
       free_strip(ring_r[i], ring_r[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
     }
-    const bool inner_lower = t_in_ > t_out_;  // in the band the outer columns stay attached
-    for (int b : {arc_start_[r], arc_end_[r]}) {
-      const int side = (b == arc_start_[r]) == inner_lower ? (b + n - 1) % n : (b + 1) % n;
-      for (size_t j = std::min(jc, js); j < std::max(jc, js); ++j)
-        free_strip(R[j][b], R[j + 1][b], x[R[j][side]] - x[R[j][b]], layer);
-    }
-    const size_t k = std::find(order_.begin(), order_.end(), static_cast<int>(r)) - order_.begin();
-    for (int e : {0, 1}) {
-      const int b = e == 0 ? arc_end_[r] : arc_start_[r];
-      for (size_t j = std::max(jc, js) + 1; j-- > std::min(jc, js);)
-        column[2 * k + e].push_back(socket(R[j][b]));  // bottom to top
+    for (int i = 0; i < n; ++i) {  // where two columns' tops differ: the free side between them
+      const int prev = (i + n - 1) % n;
+      if (top[prev] == top[i]) continue;
+      const int side = top[i] > top[prev] ? (i + 1) % n : prev;
+      const size_t j1 = level(r, top[prev]), j2 = level(r, top[i]);
+      for (size_t j = std::min(j1, j2); j < std::max(j1, j2); ++j)
+        free_strip(R[j][i], R[j + 1][i], x[R[j][side]] - x[R[j][i]], layer);
     }
   }
+  Eigen::Vector3d centre = Eigen::Vector3d::Zero();
+  for (const RootSpec& spec : tooth_.roots)
+    centre += Eigen::Vector3d(spec.foot_x_mm, spec.foot_y_mm, 0) / tooth_.roots.size();
   const size_t R = order_.size();
   for (size_t k = 0; k < R; ++k) {
-    const size_t r = order_[k];
+    const size_t r = order_[k], r2 = order_[(k + 1) % R];
     const std::vector<int>& ring_c = rings_[r][level(r, t_out_)];
-    const int n = static_cast<int>(ring_c.size());
+    const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
     for (int i = arc_start_[r];; i = (i + 1) % n) {
       outer_top_.push_back(socket(ring_c[i]));
       if (i == arc_end_[r]) break;
     }
-    walls_.push_back({column[2 * k], column[2 * ((k + 1) % R) + 1]});
-    if (t_in_ == 0) {  // the roof's PDL ends along the hull edge
-      const size_t r2 = order_[(k + 1) % R];
+    const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
+    if (t_a != t_b)
+      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
+    Wall w{column(r, arc_end_[r], t_out_, t_a), column(r2, arc_start_[r2], t_out_, t_a), centre};
+    if (t_a < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
+    walls_.push_back(w);
+    if (t_a == 0)  // the roof's PDL ends along the hull edge
       free_strip(rings_[r][0][arc_end_[r]], rings_[r2][0][arc_start_[r2]],
                  -Eigen::Vector3d::UnitZ(), layer);
-    }
   }
-  for (size_t k = R; k-- > 0 && t_in_ > 0;) {
-    const size_t r = order_[k];
+  lesion_floor(layer);
+}
+
+// The lesion's floor: the socket's loop at the septum's top (degree III: the inner arcs, the
+// roots in the reverse order; degree I or II: the lesion's arcs on its two roots), and for
+// degree I or II the back wall from the floor up to the socket's roof with the roof's PDL
+// ending along it.
+void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
+  auto level = [&](size_t r, double t) {
+    const std::vector<double>& d = ring_t_[r];
+    return static_cast<size_t>(
+        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
+        d.begin());
+  };
+  auto socket = [&](int v) { return layer.at(v)[layers_]; };
+  auto arc = [&](size_t r, int from, int to) {
     const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
     const int n = static_cast<int>(ring_s.size());
-    for (int i = arc_end_[r];; i = (i + 1) % n) {
+    for (int i = from;; i = (i + 1) % n) {
       inner_top_.push_back(socket(ring_s[i]));
-      if (i == arc_start_[r]) break;
+      if (i == to) break;
     }
+  };
+  if (t_in_ == 0) return;
+  if (!partial_) {
+    for (size_t k = order_.size(); k-- > 0;)
+      arc(order_[k], arc_end_[order_[k]], arc_start_[order_[k]]);
+    return;
   }
+  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
+  arc(P, arc_end_[P], stop_p_);
+  arc(Q, stop_q_, arc_start_[Q]);
+  const auto& x = points_.points();
+  std::vector<int> p, q;
+  for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_]));
+  for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_]));
+  const Eigen::Vector3d entrance = x[rings_[P][0][arc_end_[P]]];
+  walls_.push_back(Wall{p, q, entrance});
+  free_strip(rings_[P][0][stop_p_], rings_[Q][0][stop_q_], -Eigen::Vector3d::UnitZ(), layer);
 }
 
 void Builder::bone_block() {
@@ -826,20 +942,14 @@ void Builder::lesion_bone_top(const Planar& planar) {
   std::vector<Eigen::Vector2d> loop;
   for (int v : inner_top_) loop.push_back(x[v].head<2>());
   const double zs = -tooth_.trunk_length_mm - t_in_;
-  Eigen::Vector3d mean = Eigen::Vector3d::Zero();
-  if (t_in_ > 0) {
+  if (!inner_top_.empty())  // else the septum's top is the socket's roof
     planar(
         {loop}, inner_top_, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
         Eigen::Vector3d::UnitZ());
-    for (int v : inner_top_) mean += x[v] / static_cast<double>(inner_top_.size());
-  } else {  // the septum's top is the socket's roof
-    for (const auto& [P, Q] : walls_) mean += (x[P.front()] + x[Q.front()]) / (2.0 * walls_.size());
-  }
-  for (const auto& [P, Q] : walls_) {
+  for (const auto& [P, Q, toward] : walls_) {
     const Eigen::Vector3d d = x[Q.front()] - x[P.front()];
     Eigen::Vector3d out(d.y(), -d.x(), 0);
-    if (out.dot(mean - x[P.front()]) < 0) out = -out;  // toward the lesion
-    if (t_in_ < t_out_) out = -out;
+    if (out.dot(toward - x[P.front()]) < 0) out = -out;  // toward the lower side
     size_t i = 0, j = 0;
     while (i + 1 < P.size() || j + 1 < Q.size()) {
       const bool step_p =
@@ -991,17 +1101,22 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
                          mm(gap_defect) +
                          ") and no furcation lesion; use the thin-layer estimate "
                          "(finite_elements false) for this scenario");
-  if ((degree == 1 || degree == 2) && bone.septum_to_roof)
+  const double gap0 = outer_crest_z_mm(bone) + tooth.trunk_length_mm;
+  if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
+      (tooth.roots.size() != 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
+       bone.furcation.entrances.size() != 1 || gap0 > 0))
     throw InputError("furcation.degree",
-                     "the multi-rooted mesh covers degree III furcation lesions only so far (the "
-                     "septum lowered across the whole furcation), not degree I or II; use the "
-                     "thin-layer estimate (finite_elements false) for this scenario");
+                     "the multi-rooted mesh covers degree I and II furcation lesions only on the "
+                     "mandibular molars, from one entrance, with the outer crest below the "
+                     "furcation plane (the two-rooted premolar's narrow roof gave inverted "
+                     "elements); use the thin-layer estimate (finite_elements false) for this "
+                     "scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
                      "furcation plane; change the horizontal loss a little");
-  const bool lesion = degree == 3 && bone.septum_to_roof;
+  const bool lesion = degree > 0 && bone.septum_to_roof;
   if (lesion && gap > 0)
     throw InputError("furcation.degree",
                      "a degree III furcation lesion is meshed with the outer crest below the "
@@ -1009,7 +1124,7 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
                      "bone); add horizontal loss or use the thin-layer estimate");
   if (lesion && std::abs(gap + bone.furcation.vertical_mm) < 0.3)
     throw InputError("furcation.vertical_mm",
-                     "the multi-rooted mesh needs the septum's top in a degree III lesion at "
+                     "the multi-rooted mesh needs the septum's top in a furcation lesion at "
                      "least 0.3 mm above or below the outer crest; change vertical_mm a little");
   if (!(sizing.edge_mm >= 0.2 && sizing.edge_mm <= 2.0) || sizing.pdl_layers < 1 ||
       sizing.pdl_layers > 3 || !(sizing.bone_edge_mm >= sizing.edge_mm))

@@ -1,8 +1,8 @@
-// Finite elements on a multi-rooted tooth with a degree III furcation lesion (the septum's top
-// lowered across the furcation, mesh/multi_root_mesh.cpp): equilibrium, the CRes against the
-// thin-layer estimate, and how the CRes, the peak compression per unit load and the allowance
-// move as the lesion deepens (mandibular first molar, 3 mm of horizontal loss; coarse sizes,
-// five solves).
+// Finite elements on a multi-rooted tooth with furcation lesions of degree I, II and III (the
+// septum's top lowered from the entrance, or across the furcation; mesh/multi_root_mesh.cpp):
+// equilibrium, the CRes against the thin-layer estimate, and how the CRes, the peak compression per
+// unit load and the allowance move as the lesion deepens (mandibular first molar, 3 mm of
+// horizontal loss; coarse sizes, five solves).
 #include <gtest/gtest.h>
 
 #include <iostream>
@@ -12,29 +12,28 @@
 namespace sharpey::analysis {
 namespace {
 
-TEST(MultiRootFeFurcation, DegreeThreeLesionFollowsTheThinLayerAndDeepensMonotonically) {
+TEST(MultiRootFeFurcation, LesionsFollowTheThinLayerAndDeepenMonotonically) {
   const mesh::MultiRootTooth tooth =
       mesh::multi_root_handbook(mesh::MultiRootType::kMandibularFirstMolar);
   const fem::Material stiff{1e5, 0.3}, pdl{0.47, 0.45};
   // The outer crest 4.5 mm below the CEJ (1.5 mm below the furcation plane). The septum at the
-  // roof (no lesion), degree III with the septum's top 1 mm below the roof, the crest level
-  // through the furcation (the septum at the outer crest: 1.5 mm), then 3 and 5 mm.
+  // roof (no lesion); degree I (2 mm) and II (4 mm) from the buccal entrance and degree III, the
+  // septum's top 3 mm below the roof inside the lesion; degree III 5 mm below the roof.
   struct Scenario {
     const char* name;
-    bool septum_to_roof;
+    int degree;
     double vertical_mm;
   };
   double last_cres = 0, last_peak = 0, last_thin_cres = 0;
-  for (const Scenario& s : {Scenario{"no lesion, the septum at the roof", true, 0.0},
-                            Scenario{"degree III, septum 1 mm below the roof", true, 1.0},
-                            Scenario{"level crest through the furcation", false, 3.0},
-                            Scenario{"degree III, septum 3 mm below the roof", true, 3.0},
-                            Scenario{"degree III, septum 5 mm below the roof", true, 5.0}}) {
+  for (const Scenario& s : {Scenario{"no lesion, the septum at the roof", 0, 3.0},
+                            Scenario{"degree I, 2 mm from the buccal entrance", 1, 3.0},
+                            Scenario{"degree II, 4 mm from the buccal entrance", 2, 3.0},
+                            Scenario{"degree III, septum 3 mm below the roof", 3, 3.0},
+                            Scenario{"degree III, septum 5 mm below the roof", 3, 5.0}}) {
     mesh::MultiRootBone bone;
     bone.loss.horizontal_mm = 3;
-    bone.septum_to_roof = s.septum_to_roof;
-    bone.furcation.degree = s.septum_to_roof && s.vertical_mm > 0 ? 3 : 0;
-    if (s.vertical_mm > 0) bone.furcation.vertical_mm = s.vertical_mm;
+    bone.furcation.degree = s.degree;
+    bone.furcation.vertical_mm = s.vertical_mm;
     const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, bone);
     const MultiRootFeCres fe = multi_root_fe_cres(m, stiff, pdl, stiff, tooth.trunk_length_mm);
     const MultiRootThinLayer thin(tooth, bone, pdl);
