@@ -233,7 +233,8 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
                            return to_string(p.param);
                          });
 
-// Robustness: degree III lesions over a grid of crest and septum levels, and angular defects of
+// Robustness: degree III lesions over a grid of crest and septum levels, degree I and II lesions
+// of several depths from either entrance on the mandibular molars, and angular defects of
 // several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
 // or is refused with an InputError, never a MeshError.
 TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
@@ -250,6 +251,19 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
         b.furcation.vertical_mm = vertical > 0 ? vertical : 3.0;
         bones.push_back(b);
       }
+    const bool mandibular = type == MultiRootType::kMandibularFirstMolar ||
+                            type == MultiRootType::kMandibularSecondMolar;
+    for (double below : {0.5, 2.5})
+      for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual})
+        for (double depth : {1.0, 2.0, 3.0, 3.5, 4.5}) {
+          if (!mandibular) break;
+          MultiRootBone b;
+          b.loss.horizontal_mm = gap + below;
+          b.furcation.degree = depth <= 3.0 ? 1 : 2;
+          b.furcation.horizontal_mm = depth;
+          b.furcation.entrances = {e};
+          bones.push_back(b);
+        }
     for (ToothSurface surface : {ToothSurface::kMesial, ToothSurface::kLabial})
       for (double floor : {0.4, 1.0}) {
         MultiRootBone b;
