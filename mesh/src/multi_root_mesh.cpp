@@ -147,6 +147,13 @@ class Builder {
     return !(o[i] && o[(i + 1) % o.size()]);
   }
   void partial_lesion_columns();
+  // Index of root r's ring at depth t below the furcation plane (one lies there exactly).
+  size_t ring_level(size_t r, double t) const {
+    const std::vector<double>& d = ring_t_[r];
+    return static_cast<size_t>(
+        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
+        d.begin());
+  }
   void mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r);
   void free_strip(int u, int v, const Eigen::Vector3d& outward,
                   const std::map<int, std::vector<int>>& layer);
@@ -761,12 +768,7 @@ void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
 // socket columns joined by a bone wall.
 void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   const auto& x = points_.points();
-  auto level = [&](size_t r, double t) {
-    const std::vector<double>& d = ring_t_[r];
-    return static_cast<size_t>(
-        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
-        d.begin());
-  };
+  auto level = [&](size_t r, double t) { return ring_level(r, t); };
   auto socket = [&](int v) { return layer.at(v)[layers_]; };
   // Socket points of root r's vertex b between depths t1 and t2, bottom to top.
   auto column = [&](size_t r, int b, double t1, double t2) {
@@ -824,12 +826,7 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
 // degree I or II the back wall from the floor up to the socket's roof with the roof's PDL
 // ending along it.
 void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
-  auto level = [&](size_t r, double t) {
-    const std::vector<double>& d = ring_t_[r];
-    return static_cast<size_t>(
-        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
-        d.begin());
-  };
+  auto level = [&](size_t r, double t) { return ring_level(r, t); };
   auto socket = [&](int v) { return layer.at(v)[layers_]; };
   auto arc = [&](size_t r, int from, int to) {
     const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
