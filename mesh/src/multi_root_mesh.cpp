@@ -1,6 +1,7 @@
 // build_multi_root_mesh(): faceted tooth surface, structured PDL prisms, bone box, TetGen.
 #include <Eigen/Geometry>
 #include <algorithm>
+#include <array>
 #include <climits>
 #include <cmath>
 #include <cstdio>
@@ -192,15 +193,18 @@ class Builder {
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
   bool lesion_ = false, partial_ = false;
   std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
-  int k_entrance_ = 0;                    // partial: the hull edge order_[k] -> order_[k + 1]
-  int stop_p_ = 0, stop_q_ = 0;  // partial: where the lesion ends on those two roots (vertex)
-  double t_out_ = 0, t_in_ = 0;  // outer crest and septum top below the furcation plane
-  std::vector<std::vector<char>> outer_;              // per root and ring index: on the roots' hull
+  // Partial: per hull edge k (order_[k] -> order_[k + 1]), whether a lesion enters there and
+  // where it ends on those two roots (vertex indices).
+  std::array<bool, 2> entrance_{false, false};
+  std::array<int, 2> stop_p_{0, 0}, stop_q_{0, 0};
+  double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
+  std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
   std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
   std::vector<std::vector<std::vector<int>>> rings_;  // per root, its rings from the foot down
   std::vector<std::vector<double>> ring_t_;           // and their depths
   std::set<int> horizontal_;                          // offset horizontally (the bone's tops)
-  std::vector<int> outer_top_, inner_top_;            // socket loops at the crest, septum top
+  std::vector<int> outer_top_;                        // socket loop at the crest
+  std::vector<std::vector<int>> floors_;              // socket loops at the septum's top
   struct Wall {
     std::vector<int> p, q;   // socket columns, bottom to top
     Eigen::Vector3d toward;  // a point on the lower side (the wall faces it)
@@ -464,40 +468,44 @@ void Builder::classify_hull() {
 // entrance on each of its two roots.
 void Builder::partial_lesion_columns() {
   const FurcationInvolvement& f = bone_.furcation;
-  const FurcationEntrance e = f.entrances.front();
-  const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
-                            : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
-                            : e == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
-                                                               : Eigen::Vector2d(0, -1);
   const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
   auto foot = [&](int r, int i) {
     const int n = static_cast<int>(top_[r].size());
     return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
   };
-  double support = -1e300;
-  for (size_t r = 0; r < top_.size(); ++r)
-    for (size_t i = 0; i < top_[r].size(); ++i)
-      support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
-  auto in_lesion = [&](int r, int c) {
-    return support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
-  };
-  const int P0 = order_[0], Q0 = order_[1];
-  const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
-  const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
-  k_entrance_ = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
-  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
-  const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
-  int c = arc_end_[P];
-  for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
-  stop_p_ = c;
-  c = (arc_start_[Q] + nq - 1) % nq;
-  for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
-  stop_q_ = (c + 1) % nq;
-  if (!inner_column(P, stop_p_) || !inner_column(Q, (stop_q_ + nq - 1) % nq) ||
-      (stop_p_ == arc_end_[P] && stop_q_ == arc_start_[Q]))
-    throw MeshError("meshing the furcation lesion: its horizontal depth " + std::to_string(depth) +
-                    " mm covers none or all of the roots' inner faces on the mesh's rings; "
-                    "change horizontal_mm a little");
+  for (FurcationEntrance e : f.entrances) {
+    const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
+                              : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
+                              : e == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
+                                                                 : Eigen::Vector2d(0, -1);
+    double support = -1e300;
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (size_t i = 0; i < top_[r].size(); ++i)
+        support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
+    auto in_lesion = [&](int r, int c) {
+      return top_[r][c] == 0 && support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
+    };
+    const int P0 = order_[0], Q0 = order_[1];
+    const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
+    const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
+    const int k = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
+    const int P = order_[k], Q = order_[(k + 1) % 2];
+    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
+    int c = arc_end_[P];
+    for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
+    stop_p_[k] = c;
+    c = (arc_start_[Q] + nq - 1) % nq;
+    for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
+    stop_q_[k] = (c + 1) % nq;
+    entrance_[k] = true;
+    if (!inner_column(P, stop_p_[k]) || top_[P][stop_p_[k]] != 0 ||
+        !inner_column(Q, (stop_q_[k] + nq - 1) % nq) || top_[Q][(stop_q_[k] + nq - 1) % nq] != 0 ||
+        (stop_p_[k] == arc_end_[P] && stop_q_[k] == arc_start_[Q]))
+      throw MeshError("meshing the furcation lesion: its horizontal depth " +
+                      std::to_string(depth) +
+                      " mm covers none or all of the roots' inner faces on the mesh's rings (or "
+                      "two lesions meet); change horizontal_mm a little, or use degree III");
+  }
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
@@ -549,8 +557,8 @@ void Builder::furcation_roof(const std::vector<int>& rim,
     roof_domain({inner}, kRootSurface);
     return;
   }
-  // Degree I or II: free from the entrance to the lesion's end on its two roots, attached beyond.
-  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
+  // Degree I or II: free from each entrance to the lesion's end on its two roots, attached
+  // beyond (the septum's loop: each root's inner arc less its lesions, in the inner loop's order).
   auto arc = [&](int r, int from, int to, std::vector<int>* out) {
     const int n = static_cast<int>(feet[r].size());
     for (int i = from;; i = (i + 1) % n) {
@@ -558,12 +566,20 @@ void Builder::furcation_roof(const std::vector<int>& rim,
       if (i == to) break;
     }
   };
-  std::vector<int> lesion, septum;
-  arc(P, arc_end_[P], stop_p_, &lesion);
-  arc(Q, stop_q_, arc_start_[Q], &lesion);
-  arc(P, stop_p_, arc_start_[P], &septum);
-  arc(Q, arc_end_[Q], stop_q_, &septum);
-  roof_domain({lesion}, kExposedRoot);
+  std::vector<int> septum;
+  for (int k = 1; k >= 0; --k) {
+    const int r = order_[k], before = 1 - k;  // hull edge `before` ends at r's arc start
+    arc(r, entrance_[k] ? stop_p_[k] : arc_end_[r],
+        entrance_[before] ? stop_q_[before] : arc_start_[r], &septum);
+  }
+  for (int k = 0; k < 2; ++k) {
+    if (!entrance_[k]) continue;
+    const int P = order_[k], Q = order_[1 - k];
+    std::vector<int> lesion;
+    arc(P, arc_end_[P], stop_p_[k], &lesion);
+    arc(Q, stop_q_[k], arc_start_[Q], &lesion);
+    roof_domain({lesion}, kExposedRoot);
+  }
   roof_domain({septum}, kRootSurface);
 }
 
@@ -828,30 +844,35 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
 void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
   auto level = [&](size_t r, double t) { return ring_level(r, t); };
   auto socket = [&](int v) { return layer.at(v)[layers_]; };
-  auto arc = [&](size_t r, int from, int to) {
+  auto arc = [&](size_t r, int from, int to, std::vector<int>* out) {
     const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
     const int n = static_cast<int>(ring_s.size());
     for (int i = from;; i = (i + 1) % n) {
-      inner_top_.push_back(socket(ring_s[i]));
+      out->push_back(socket(ring_s[i]));
       if (i == to) break;
     }
   };
   if (t_in_ == 0) return;
   if (!partial_) {
+    floors_.emplace_back();
     for (size_t k = order_.size(); k-- > 0;)
-      arc(order_[k], arc_end_[order_[k]], arc_start_[order_[k]]);
+      arc(order_[k], arc_end_[order_[k]], arc_start_[order_[k]], &floors_.back());
     return;
   }
-  const int P = order_[k_entrance_], Q = order_[(k_entrance_ + 1) % 2];
-  arc(P, arc_end_[P], stop_p_);
-  arc(Q, stop_q_, arc_start_[Q]);
   const auto& x = points_.points();
-  std::vector<int> p, q;
-  for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_]));
-  for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_]));
-  const Eigen::Vector3d entrance = x[rings_[P][0][arc_end_[P]]];
-  walls_.push_back(Wall{p, q, entrance});
-  free_strip(rings_[P][0][stop_p_], rings_[Q][0][stop_q_], -Eigen::Vector3d::UnitZ(), layer);
+  for (int k = 0; k < 2; ++k) {
+    if (!entrance_[k]) continue;
+    const int P = order_[k], Q = order_[1 - k];
+    floors_.emplace_back();
+    arc(P, arc_end_[P], stop_p_[k], &floors_.back());
+    arc(Q, stop_q_[k], arc_start_[Q], &floors_.back());
+    std::vector<int> p, q;
+    for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_[k]]));
+    for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_[k]]));
+    walls_.push_back(Wall{p, q, x[rings_[P][0][arc_end_[P]]]});  // facing the entrance
+    free_strip(rings_[P][0][stop_p_[k]], rings_[Q][0][stop_q_[k]], -Eigen::Vector3d::UnitZ(),
+               layer);
+  }
 }
 
 void Builder::bone_block() {
@@ -936,13 +957,14 @@ void Builder::bone_block() {
 // new points), facing into the lesion when the septum lies below the crest, out of it otherwise.
 void Builder::lesion_bone_top(const Planar& planar) {
   const auto& x = points_.points();
-  std::vector<Eigen::Vector2d> loop;
-  for (int v : inner_top_) loop.push_back(x[v].head<2>());
   const double zs = -tooth_.trunk_length_mm - t_in_;
-  if (!inner_top_.empty())  // else the septum's top is the socket's roof
+  for (const std::vector<int>& floor : floors_) {  // none: the septum's top is the socket's roof
+    std::vector<Eigen::Vector2d> loop;
+    for (int v : floor) loop.push_back(x[v].head<2>());
     planar(
-        {loop}, inner_top_, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
+        {loop}, floor, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
         Eigen::Vector3d::UnitZ());
+  }
   for (const auto& [P, Q, toward] : walls_) {
     const Eigen::Vector3d d = x[Q.front()] - x[P.front()];
     Eigen::Vector3d out(d.y(), -d.x(), 0);
@@ -1098,17 +1120,16 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
                          mm(gap_defect) +
                          ") and no furcation lesion; use the thin-layer estimate "
                          "(finite_elements false) for this scenario");
-  const double gap0 = outer_crest_z_mm(bone) + tooth.trunk_length_mm;
+  const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
       (tooth.roots.size() != 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
-       bone.furcation.entrances.size() != 1 || gap0 > 0))
+       gap > 0))
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree I and II furcation lesions only on the "
-                     "mandibular molars, from one entrance, with the outer crest below the "
+                     "mandibular molars, with the outer crest below the "
                      "furcation plane (the two-rooted premolar's narrow roof gave inverted "
                      "elements); use the thin-layer estimate (finite_elements false) for this "
                      "scenario");
-  const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "

@@ -194,8 +194,8 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // Covered so far: the outer crest at least 0.3 mm above the furcation plane, or below it with a
 // level crest through the furcation (septum_to_roof false), with the septum at the roof (the roof
 // attached inside the roots' hull, free outside it), with a degree I or II lesion on a
-// mandibular molar from one entrance (the lesion's columns and roof from the entrance to the
-// horizontal depth), or with a degree III lesion
+// mandibular molar (the lesion's columns and roof from each entrance to the horizontal depth),
+// or with a degree III lesion
 // (the septum's top vertical_mm below the roof, at least 0.3 mm from the crest: each root's
 // ring columns on the roots' hull attached below the crest, the others below the septum's top;
 // free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
