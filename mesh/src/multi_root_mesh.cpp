@@ -410,10 +410,12 @@ std::vector<int> Builder::root(size_t r) {
   return foot;
 }
 
-// Degree III lesion: a ring point is outer when it lies on the hull of the roots' rings (within
-// the thin layer's 0.05 mm margin, multi_root_tooth.cpp) at the crest's or the septum's depth;
-// each root's outer points must form one arc (start to end counter-clockwise), the roots are
-// ordered counter-clockwise around the mean of their feet.
+// Two-level attachment (a lesion, or the septum at the roof under a lower crest): a ring point is
+// outer when it lies on the hull of the roots' rings (within the thin layer's 0.05 mm margin,
+// multi_root_tooth.cpp) at the crest's or the septum's depth; each root's outer points must form
+// one arc (start to end counter-clockwise), the roots are ordered counter-clockwise around the
+// mean of their feet. Each column's attachment starts at the crest (outer), at the septum's top
+// (inside a lesion) or at the roof (the septum at the roof).
 void Builder::classify_hull() {
   const size_t R = tooth_.roots.size();
   outer_.assign(R, {});
@@ -509,8 +511,8 @@ void Builder::partial_lesion_columns() {
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
-// the lower ring at depth t: attached below the crest on the outer columns, below the septum's
-// top on the inner ones. Records the points of the bone's two tops (offset horizontally).
+// the lower ring at depth t: attached below the column's top (top_). Records the points of the
+// bone's two tops (offset horizontally).
 void Builder::mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r) {
   const int n = static_cast<int>(ring_r.size());
   const std::vector<double>& top = top_[r];
@@ -777,11 +779,11 @@ void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
   }
 }
 
-// Degree III lesion: the PDL's free faces along the crest ring (outer columns), the septum's top
-// ring (inner columns) and the vertical edges between them where outer meets inner; the socket's
-// loops at both tops (outer: the outer arcs counter-clockwise, jumping from root to root along
-// the hull; inner: the inner arcs, the roots in the reverse order) and, per hull edge, the two
-// socket columns joined by a bone wall.
+// Two-level attachment: the PDL's free faces along each column's top ring (none where the septum
+// reaches the roof), down the vertical edges where two columns' tops differ, and along the roof's
+// hull edges where the septum meets the roof; the socket's loop at the crest (the outer arcs
+// counter-clockwise, jumping from root to root along the hull) and, per hull edge, the two socket
+// columns joined by a bone wall; then the lesion's floor (lesion_floor).
 void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   const auto& x = points_.points();
   auto level = [&](size_t r, double t) { return ring_level(r, t); };
@@ -952,9 +954,9 @@ void Builder::bone_block() {
   bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
 }
 
-// Degree III lesion: the septum's top (a plane at its level inside the inner socket loop) and,
-// per hull edge, a wall of bone between the two roots' socket columns (zipped bottom to top, no
-// new points), facing into the lesion when the septum lies below the crest, out of it otherwise.
+// Two-level attachment: the lesions' floors (planes at the septum's top inside their socket
+// loops) and the walls of bone between two roots' socket columns (zipped bottom to top, no new
+// points), each facing its lower side.
 void Builder::lesion_bone_top(const Planar& planar) {
   const auto& x = points_.points();
   const double zs = -tooth_.trunk_length_mm - t_in_;
