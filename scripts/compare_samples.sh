@@ -32,9 +32,11 @@ for sample in "${samples[@]}"; do
   for side in old new; do
     binary=$old
     [ $side = new ] && binary=$new
-    command=run
-    grep -q '"kind": *"multi_root_estimate"' "$sample" && command=molar  # docs/molars.md
-    "$binary" $command "$sample" --out "$work/$name.$side" --quiet
+    # A multi-rooted case goes through `molar` (docs/molars.md), which prints no progress and
+    # takes no --quiet (older binaries refuse it); `run` is quietened.
+    command=(run --quiet)
+    grep -q '"kind": *"multi_root_estimate"' "$sample" && command=(molar)
+    "$binary" "${command[0]}" "$sample" --out "$work/$name.$side" "${command[@]:1}"
   done
   for file in $(cd "$work/$name.old" && ls | grep -v '\.vtu$'); do
     [ -f "$work/$name.old/$file" ] || continue

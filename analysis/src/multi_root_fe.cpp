@@ -9,6 +9,7 @@
 #include "sharpey/fem/assembly.h"
 #include "sharpey/fem/recovery.h"
 #include "sharpey/fem/solver.h"
+#include "sharpey/mesh/surface_distance.h"
 
 namespace sharpey::analysis {
 namespace {
@@ -97,6 +98,30 @@ MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& m, const fem::Mate
   return out;
 }
 
+namespace {
+
+// PDL nodes left out of the peaks: within one crest width below the crest and, with a furcation
+// lesion, the septum at the roof under a lower crest or an angular defect
+// (mesh/multi_root_mesh.cpp), within one crest width of the PDL's free faces (kPdlCrest: the
+// lowered crest, the lesion's and the septum's edges), the free edge's band as in the single-rooted
+// results.
+std::vector<char> free_edge_band(const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
+                                 const mesh::MultiRootBone& bone,
+                                 const std::vector<int>& pdl_nodes) {
+  const double band_top = mesh::outer_crest_z_mm(bone) - bone.pdl.crest_width_mm;
+  std::vector<char> band(pdl_nodes.size(), 0);
+  for (size_t i = 0; i < band.size(); ++i) band[i] = m.mesh.nodes[pdl_nodes[i]].z() > band_top;
+  const bool below = mesh::outer_crest_z_mm(bone) < -tooth.trunk_length_mm;
+  if ((bone.septum_to_roof && (bone.furcation.degree > 0 || below)) ||
+      bone.loss.defect_depth_mm > 0) {
+    const std::vector<double> d = mesh::distance_to_faces(m.mesh, pdl_nodes, mesh::kPdlCrest);
+    for (size_t i = 0; i < band.size(); ++i) band[i] |= d[i] < bone.pdl.crest_width_mm;
+  }
+  return band;
+}
+
+}  // namespace
+
 MultiRootFePressure multi_root_fe_pressure(
     const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
     const mesh::MultiRootBone& bone, const fem::Material& tooth_material, const fem::Material& pdl,
@@ -139,10 +164,10 @@ MultiRootFePressure multi_root_fe_pressure(
     fig.name = r.name;
     out.roots.push_back(fig);
   }
-  const double band_top = mesh::outer_crest_z_mm(bone) - bone.pdl.crest_width_mm;
+  const std::vector<char> band = free_edge_band(m, tooth, bone, field.nodes);
   for (size_t i = 0; i < field.nodes.size(); ++i) {
     const int v = field.nodes[i];
-    if (mesh.nodes[v].z() > band_top) continue;
+    if (band[i]) continue;
     const double p = fem::hydrostatic_pressure_kpa(field.stress_mpa.col(i));
     for (RootFigures* fig : {&out.tooth, part[v] >= 0 ? &out.roots[part[v]] : nullptr}) {
       if (!fig) continue;

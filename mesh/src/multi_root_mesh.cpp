@@ -1,14 +1,18 @@
 // build_multi_root_mesh(): faceted tooth surface, structured PDL prisms, bone box, TetGen.
 #include <Eigen/Geometry>
 #include <algorithm>
+#include <array>
 #include <climits>
 #include <cmath>
+#include <cstdio>
+#include <functional>
 #include <map>
 #include <set>
 
 #include "detail/model_frame.h"
 #include "detail/model_mesher.h"
 #include "detail/planar_triangulation.h"
+#include "multi_root_hull.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/multi_root_tooth.h"
@@ -33,10 +37,47 @@ double ellipse_perimeter(double a, double b) {
   return kPi * (a + b) * (1 + 3 * h / (10 + std::sqrt(4 - 3 * h)));
 }
 
+// A root's axis point t_mm below the furcation plane (horizontal position).
+Eigen::Vector2d root_centre(const RootSpec& spec, double t) {
+  const double slope = std::tan(spec.tilt_deg * kDeg);
+  const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
+  const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
+  return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
+}
+
+// Points per ring around a root (a multiple of four, at least 12).
+int root_ring_size(const RootSpec& spec, double h) {
+  return std::max(
+      12,
+      4 * static_cast<int>(std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h))));
+}
+
+// Point i of n of a root's ring t_mm below the furcation plane (horizontal position).
+Eigen::Vector2d root_ring_point(const RootSpec& spec, double t, int i, int n) {
+  double rho = 1;
+  if (spec.profile != RootProfile::kCylinder)
+    rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
+  const Eigen::Vector2d c = root_centre(spec, t);
+  const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
+  return Eigen::Vector2d(c.x() + rho * o.x(), c.y() + rho * o.y());
+}
+
 class Builder {
  public:
   Builder(const MultiRootTooth& tooth, const MultiRootBone& bone, const MultiRootMeshSizing& s)
-      : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {}
+      : tooth_(tooth), bone_(bone), h_(s.edge_mm), layers_(s.pdl_layers) {
+    // A degree III lesion under an outer crest below the furcation plane: the septum's top
+    // lowered to vertical_mm below the roof across the furcation (validate_multi_root_mesh).
+    // The same with the septum at the roof (t_in_ 0, no lesion): attached inside the roots' hull
+    // up to the roof, the roof outside it free.
+    t_out_ = -tooth.trunk_length_mm - outer_crest_z_mm(bone);
+    // Degree I or II (two roots, one entrance): the septum's top lowered to vertical_mm below the
+    // roof from the entrance up to the horizontal depth, at the roof beyond it.
+    const int degree = bone.furcation.degree;
+    partial_ = bone.septum_to_roof && (degree == 1 || degree == 2) && t_out_ > 0;
+    lesion_ = bone.septum_to_roof && (degree == 3 || partial_ || (degree == 0 && t_out_ > 0));
+    t_in_ = degree > 0 ? bone.furcation.vertical_mm : 0.0;
+  }
 
   MultiRootMesh build(const MultiRootMeshSizing& sizing, const std::atomic<bool>* cancel);
 
@@ -93,8 +134,37 @@ class Builder {
   void tooth_surface();
   std::vector<int> crown_dome(int n_around);
   std::vector<int> trunk(const std::vector<int>& cervix, int n_around);
+  std::vector<int> trunk_with_defect(const std::vector<int>& cervix, int n_around);
+  double crest_z(const Eigen::Vector2d& p) const;
   std::vector<int> root(size_t r);
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
+  void roof_domain(const std::vector<std::vector<int>>& outlines, int marker);
+  // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
+  // roots' order around it; the markers of a root's new band of triangles; the free faces of the
+  // PDL at the lesion's edge and the socket's loops and walls for the bone's top.
+  void classify_hull();
+  bool inner_column(size_t r, int i) const {
+    const std::vector<char>& o = outer_[r];
+    return !(o[i] && o[(i + 1) % o.size()]);
+  }
+  void partial_lesion_columns();
+  // Index of root r's ring at depth t below the furcation plane (one lies there exactly).
+  size_t ring_level(size_t r, double t) const {
+    const std::vector<double>& d = ring_t_[r];
+    return static_cast<size_t>(
+        std::find_if(d.begin(), d.end(), [&](double v) { return std::abs(v - t) < 1e-12; }) -
+        d.begin());
+  }
+  void mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r);
+  void free_strip(int u, int v, const Eigen::Vector3d& outward,
+                  const std::map<int, std::vector<int>>& layer);
+  void pdl_lesion(const std::map<int, std::vector<int>>& layer);
+  void lesion_floor(const std::map<int, std::vector<int>>& layer);
+  using ZOf = std::function<double(const Eigen::Vector2d&)>;  // height of a planar face's point
+  using Planar =
+      std::function<void(const std::vector<std::vector<Eigen::Vector2d>>&, const std::vector<int>&,
+                         const ZOf&, int, const Eigen::Vector3d&)>;
+  void lesion_bone_top(const Planar& planar);
   // PDL: offset directions, the points across the layer, the prisms, the free top at the crest.
   void pdl_layer();
   std::map<int, Eigen::Vector3d> offset_directions(std::map<int, double>* miter) const;
@@ -121,11 +191,31 @@ class Builder {
   std::vector<int> pdl_tet_part_;
   Eigen::Vector3d hole_ = Eigen::Vector3d::Zero();
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
+  bool lesion_ = false, partial_ = false;
+  std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
+  // Partial: per hull edge k (order_[k] -> order_[k + 1]), whether a lesion enters there and
+  // where it ends on those two roots (vertex indices).
+  std::array<bool, 2> entrance_{false, false};
+  std::array<int, 2> stop_p_{0, 0}, stop_q_{0, 0};
+  double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
+  std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
+  std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
+  std::vector<std::vector<std::vector<int>>> rings_;  // per root, its rings from the foot down
+  std::vector<std::vector<double>> ring_t_;           // and their depths
+  std::set<int> horizontal_;                          // offset horizontally (the bone's tops)
+  std::vector<int> outer_top_;                        // socket loop at the crest
+  std::vector<std::vector<int>> floors_;              // socket loops at the septum's top
+  struct Wall {
+    std::vector<int> p, q;   // socket columns, bottom to top
+    Eigen::Vector3d toward;  // a point on the lower side (the wall faces it)
+  };
+  std::vector<Wall> walls_;
 };
 
 void Builder::tooth_surface() {
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const int N = std::max(16, 4 * static_cast<int>(std::ceil(ellipse_perimeter(A, B) / (4 * h_))));
+  if (lesion_) classify_hull();
   const std::vector<int> cervix = crown_dome(N);
   const std::vector<int> rim = trunk(cervix, N);
   std::vector<std::vector<int>> feet;
@@ -161,6 +251,7 @@ std::vector<int> Builder::crown_dome(int n_around) {
 // Trunk: CEJ -> crest -> furcation plane (a ring exactly at the crest when the crest lies on the
 // trunk, which is then recorded as a crest ring); returns the rim at the furcation plane.
 std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
+  if (bone_.loss.defect_depth_mm > 0) return trunk_with_defect(cervix, n_around);
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const double T = tooth_.trunk_length_mm;
   const double zf = -T, zc = outer_crest_z_mm(bone_);
@@ -192,6 +283,50 @@ std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
   return prev;
 }
 
+// Crest height (z) over the point p: the outer crest lowered by the angular defect's profile at
+// p's polar angle around the tooth's axis (as the thin layer's attach()).
+double Builder::crest_z(const Eigen::Vector2d& p) const {
+  if (bone_.loss.defect_depth_mm <= 0) return outer_crest_z_mm(bone_);
+  return outer_crest_z_mm(bone_) -
+         bone_.loss.defect_depth_mm * detail::defect_weight(bone_.loss, std::atan2(p.y(), p.x()));
+}
+
+// Trunk with an angular defect (the crest on the trunk everywhere): the crest ring follows the
+// defect's profile (each point at the crest over its own polar angle, found by three fixed-point
+// steps, as the ring's sections change with height), the rings above and below it spread evenly
+// between the CEJ, that ring and the furcation plane.
+std::vector<int> Builder::trunk_with_defect(const std::vector<int>& cervix, int n_around) {
+  const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
+  const double T = tooth_.trunk_length_mm, zf = -T;
+  auto point = [&](int i, double z) {
+    const double f = -z / T, th = 2 * kPi * i / n_around;
+    return Eigen::Vector3d((A + (tooth_.furcation_half_x_mm - A) * f) * std::cos(th),
+                           (B + (tooth_.furcation_half_y_mm - B) * f) * std::sin(th), z);
+  };
+  std::vector<double> crest(n_around, outer_crest_z_mm(bone_));
+  for (int i = 0; i < n_around; ++i)
+    for (int step = 0; step < 3; ++step) crest[i] = crest_z(point(i, crest[i]).head<2>());
+  const double lowest = *std::min_element(crest.begin(), crest.end());
+  const double highest = *std::max_element(crest.begin(), crest.end());
+  auto lateral = [](const Eigen::Vector3d& c) { return Eigen::Vector3d(c.x(), c.y(), 0); };
+  auto next_ring = [&](const std::vector<int>& prev, int marker, auto z_of) {
+    std::vector<int> r;
+    for (int i = 0; i < n_around; ++i) r.push_back(add(point(i, z_of(i)), kTrunkPart));
+    join(prev, r, marker, kTrunkPart, lateral);
+    return r;
+  };
+  std::vector<int> prev = cervix;
+  const int n1 = std::max(1, static_cast<int>(std::ceil(-lowest / h_)));
+  for (int k = 1; k <= n1; ++k)
+    prev = next_ring(prev, kExposedRoot, [&](int i) { return crest[i] * k / n1; });
+  crest_rings_.push_back(prev);
+  const int n2 = std::max(1, static_cast<int>(std::ceil((highest - zf) / h_)));
+  for (int k = 1; k <= n2; ++k)
+    prev =
+        next_ring(prev, kRootSurface, [&](int i) { return crest[i] + (zf - crest[i]) * k / n2; });
+  return prev;
+}
+
 // Depths below the furcation plane of a root's rings: above the crest (crest below the furcation
 // plane) uniform, below it crowding toward the apex; a cylinder ends with a ring at its full
 // length (closed by a flat disc).
@@ -209,49 +344,58 @@ std::vector<double> root_ring_depths(const RootSpec& spec, double tc, double h) 
   return depths;
 }
 
+// With a lesion: rings exactly at both levels (t1, t2 below the furcation plane, either order),
+// uniform above and between them, crowding toward the apex below.
+std::vector<double> root_ring_depths_lesion(const RootSpec& spec, double t1, double t2, double h) {
+  const double a = std::min(t1, t2), b = std::max(t1, t2);
+  std::vector<double> depths;
+  const int m1 = a > 0 ? std::max(1, static_cast<int>(std::ceil(a / h))) : 0;
+  for (int j = 0; j < m1; ++j) depths.push_back(a * j / m1);
+  const int m2 = std::max(1, static_cast<int>(std::ceil((b - a) / h)));
+  for (int j = 0; j < m2; ++j) depths.push_back(a + (b - a) * j / m2);
+  for (double t : root_ring_depths(spec, b, h))
+    if (t >= b) depths.push_back(t);
+  return depths;
+}
+
 // Root r: rings from the foot down, the apex a pole; returns the foot ring.
 std::vector<int> Builder::root(size_t r) {
   const RootSpec& spec = tooth_.roots[r];
   const double zf = -tooth_.trunk_length_mm, zc = outer_crest_z_mm(bone_);
   const bool above = zc > zf;
   const int part = static_cast<int>(r);
-  const int n = std::max(
-      12, 4 * static_cast<int>(
-                  std::ceil(ellipse_perimeter(spec.half_x_mm, spec.half_y_mm) / (4 * h_))));
-  const double slope = std::tan(spec.tilt_deg * kDeg);
-  const double dx = slope * std::cos(spec.tilt_direction_deg * kDeg);
-  const double dy = slope * std::sin(spec.tilt_direction_deg * kDeg);
-  auto centre = [&](double t) {
-    return Eigen::Vector2d(spec.foot_x_mm + dx * t, spec.foot_y_mm + dy * t);
-  };
+  const int n = root_ring_size(spec, h_);
   auto out = [&](const Eigen::Vector3d& c) {
-    const Eigen::Vector2d o = centre(zf - c.z());
+    const Eigen::Vector2d o = root_centre(spec, zf - c.z());
     return Eigen::Vector3d(c.x() - o.x(), c.y() - o.y(), -0.05 * spec.half_x_mm);
   };
   const double tc = above ? 0.0 : zf - zc;
-  const std::vector<double> depths = root_ring_depths(spec, tc, h_);
+  const std::vector<double> depths =
+      lesion_ ? root_ring_depths_lesion(spec, t_out_, t_in_, h_) : root_ring_depths(spec, tc, h_);
   const bool cylinder = spec.profile == RootProfile::kCylinder;
   std::vector<int> foot, prev_r;
+  rings_.emplace_back();
+  ring_t_.emplace_back();
   for (size_t j = 0; j < depths.size(); ++j) {
     const double t = depths[j];
-    double rho = 1;
-    if (!cylinder)
-      rho = std::sqrt(std::max(0.0, 1 - std::pow(t / spec.length_mm, spec.taper_fullness)));
-    const Eigen::Vector2d c = centre(t);
     std::vector<int> rr;
     for (int i = 0; i < n; ++i) {
-      const Eigen::Vector2d o = root_section_offset(spec, 2 * kPi * i / n, t);
-      rr.push_back(add({c.x() + rho * o.x(), c.y() + rho * o.y(), zf - t}, part));
+      const Eigen::Vector2d p = root_ring_point(spec, t, i, n);
+      rr.push_back(add({p.x(), p.y(), zf - t}, part));
     }
     if (j == 0) {
       foot = rr;
     } else {
+      const size_t first = tris_.size();
       join(prev_r, rr, t <= tc + 1e-12 ? kExposedRoot : kRootSurface, part, out);
+      if (lesion_) mark_lesion_band(r, first, t, rr);
     }
-    if (!above && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+    if (!above && !lesion_ && std::abs(t - tc) < 1e-12) crest_rings_.push_back(rr);
+    rings_.back().push_back(rr);
+    ring_t_.back().push_back(t);
     prev_r = rr;
   }
-  const Eigen::Vector2d c = centre(spec.length_mm);
+  const Eigen::Vector2d c = root_centre(spec, spec.length_mm);
   const std::vector<int> apex{add({c.x(), c.y(), zf - spec.length_mm}, part)};
   const size_t before = tris_.size();
   join(prev_r, apex, kRootSurface, part, [&](const Eigen::Vector3d& q) {
@@ -266,18 +410,190 @@ std::vector<int> Builder::root(size_t r) {
   return foot;
 }
 
+// Two-level attachment (a lesion, or the septum at the roof under a lower crest): a ring point is
+// outer when it lies on the hull of the roots' rings (within the thin layer's 0.05 mm margin,
+// multi_root_tooth.cpp) at the crest's or the septum's depth; each root's outer points must form
+// one arc (start to end counter-clockwise), the roots are ordered counter-clockwise around the
+// mean of their feet. Each column's attachment starts at the crest (outer), at the septum's top
+// (inside a lesion) or at the roof (the septum at the roof).
+void Builder::classify_hull() {
+  const size_t R = tooth_.roots.size();
+  outer_.assign(R, {});
+  for (size_t r = 0; r < R; ++r) outer_[r].assign(root_ring_size(tooth_.roots[r], h_), 0);
+  for (double t : {t_out_, t_in_}) {
+    std::vector<detail::HullPoint> all;
+    for (size_t r = 0; r < R; ++r)
+      for (size_t i = 0; i < outer_[r].size(); ++i)
+        all.push_back({root_ring_point(tooth_.roots[r], t, static_cast<int>(i),
+                                       static_cast<int>(outer_[r].size())),
+                       static_cast<int>(r)});
+    const std::vector<detail::HullPoint> hull = detail::convex_hull(all);
+    size_t k = 0;
+    for (size_t r = 0; r < R; ++r)
+      for (size_t i = 0; i < outer_[r].size(); ++i)
+        outer_[r][i] |= detail::inside_depth(hull, all[k++].p) <= 0.05;
+  }
+  Eigen::Vector2d mean = Eigen::Vector2d::Zero();
+  for (const RootSpec& spec : tooth_.roots)
+    mean += Eigen::Vector2d(spec.foot_x_mm, spec.foot_y_mm) / R;
+  arc_start_.assign(R, -1);
+  arc_end_.assign(R, -1);
+  for (size_t r = 0; r < R; ++r) {
+    const std::vector<char>& o = outer_[r];
+    const int n = static_cast<int>(o.size());
+    int starts = 0;
+    for (int i = 0; i < n; ++i) {
+      if (o[i] && !o[(i + n - 1) % n]) ++starts, arc_start_[r] = i;
+      if (o[i] && !o[(i + 1) % n]) arc_end_[r] = i;
+    }
+    if (starts != 1)
+      throw MeshError("meshing the furcation lesion: root " + std::to_string(r + 1) +
+                      " meets the "
+                      "roots' hull in " +
+                      std::to_string(starts) + " arcs instead of one");
+    order_.push_back(static_cast<int>(r));
+  }
+  auto angle = [&](int r) {
+    return std::atan2(tooth_.roots[r].foot_y_mm - mean.y(), tooth_.roots[r].foot_x_mm - mean.x());
+  };
+  std::sort(order_.begin(), order_.end(), [&](int a, int b) { return angle(a) < angle(b); });
+  top_.assign(R, {});
+  for (size_t r = 0; r < R; ++r)
+    for (size_t i = 0; i < outer_[r].size(); ++i)
+      top_[r].push_back(inner_column(r, static_cast<int>(i)) ? (partial_ ? 0.0 : t_in_) : t_out_);
+  if (partial_) partial_lesion_columns();
+}
+
+// Degree I or II: the entrance's hull edge (the one facing the probing direction), and the inner
+// columns whose foot-level midpoint lies within the horizontal depth of the entrance (measured
+// from the roots' hull along the probing direction, as the thin layer does), contiguous from the
+// entrance on each of its two roots.
+void Builder::partial_lesion_columns() {
+  const FurcationInvolvement& f = bone_.furcation;
+  const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
+  auto foot = [&](int r, int i) {
+    const int n = static_cast<int>(top_[r].size());
+    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
+  };
+  for (FurcationEntrance e : f.entrances) {
+    const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
+                              : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
+                              : e == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
+                                                                 : Eigen::Vector2d(0, -1);
+    double support = -1e300;
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (size_t i = 0; i < top_[r].size(); ++i)
+        support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
+    auto in_lesion = [&](int r, int c) {
+      return top_[r][c] == 0 && support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
+    };
+    const int P0 = order_[0], Q0 = order_[1];
+    const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
+    const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
+    const int k = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
+    const int P = order_[k], Q = order_[(k + 1) % 2];
+    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
+    int c = arc_end_[P];
+    for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
+    stop_p_[k] = c;
+    c = (arc_start_[Q] + nq - 1) % nq;
+    for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
+    stop_q_[k] = (c + 1) % nq;
+    entrance_[k] = true;
+    if (!inner_column(P, stop_p_[k]) || top_[P][stop_p_[k]] != 0 ||
+        !inner_column(Q, (stop_q_[k] + nq - 1) % nq) || top_[Q][(stop_q_[k] + nq - 1) % nq] != 0 ||
+        (stop_p_[k] == arc_end_[P] && stop_q_[k] == arc_start_[Q]))
+      throw MeshError("meshing the furcation lesion: its horizontal depth " +
+                      std::to_string(depth) +
+                      " mm covers none or all of the roots' inner faces on the mesh's rings (or "
+                      "two lesions meet); change horizontal_mm a little, or use degree III");
+  }
+}
+
+// Markers of the band of triangles join() just added to root r (two per column, column order),
+// the lower ring at depth t: attached below the column's top (top_). Records the points of the
+// bone's two tops (offset horizontally).
+void Builder::mark_lesion_band(size_t r, size_t first, double t, const std::vector<int>& ring_r) {
+  const int n = static_cast<int>(ring_r.size());
+  const std::vector<double>& top = top_[r];
+  for (int i = 0; i < n; ++i)
+    for (int k = 0; k < 2; ++k)
+      tris_[first + 2 * i + k].marker = t > top[i] + 1e-12 ? kRootSurface : kExposedRoot;
+  for (int i = 0; i < n; ++i) {
+    const bool inner = top[i] == t_in_ || top[(i + n - 1) % n] == t_in_;
+    if (std::abs(t - t_out_) < 1e-12 && outer_[r][i]) horizontal_.insert(ring_r[i]);
+    if (std::abs(t - t_in_) < 1e-12 && inner) horizontal_.insert(ring_r[i]);
+  }
+}
+
 // Furcation roof: the rim minus the feet, triangulated in its plane.
 void Builder::furcation_roof(const std::vector<int>& rim,
                              const std::vector<std::vector<int>>& feet) {
   const double zf = -tooth_.trunk_length_mm;
   const bool above = outer_crest_z_mm(bone_) > zf;
+  if (!lesion_ || (t_in_ > 0 && !partial_)) {
+    std::vector<std::vector<int>> outlines{rim};
+    outlines.insert(outlines.end(), feet.begin(), feet.end());
+    roof_domain(outlines, above ? kRootSurface : kExposedRoot);
+    return;
+  }
+  // The septum at the roof under a crest below it: attached inside the roots' hull (the feet's
+  // inner arcs joined along the hull), free outside it.
+  std::vector<int> outer, inner;
+  for (int r : order_) {
+    const int n = static_cast<int>(feet[r].size());
+    for (int i = arc_start_[r];; i = (i + 1) % n) {
+      outer.push_back(feet[r][i]);
+      if (i == arc_end_[r]) break;
+    }
+  }
+  for (size_t k = order_.size(); k-- > 0;) {
+    const int r = order_[k], n = static_cast<int>(feet[r].size());
+    for (int i = arc_end_[r];; i = (i + 1) % n) {
+      inner.push_back(feet[r][i]);
+      if (i == arc_start_[r]) break;
+    }
+  }
+  roof_domain({rim, outer}, kExposedRoot);
+  if (!partial_) {
+    roof_domain({inner}, kRootSurface);
+    return;
+  }
+  // Degree I or II: free from each entrance to the lesion's end on its two roots, attached
+  // beyond (the septum's loop: each root's inner arc less its lesions, in the inner loop's order).
+  auto arc = [&](int r, int from, int to, std::vector<int>* out) {
+    const int n = static_cast<int>(feet[r].size());
+    for (int i = from;; i = (i + 1) % n) {
+      out->push_back(feet[r][i]);
+      if (i == to) break;
+    }
+  };
+  std::vector<int> septum;
+  for (int k = 1; k >= 0; --k) {
+    const int r = order_[k], before = 1 - k;  // hull edge `before` ends at r's arc start
+    arc(r, entrance_[k] ? stop_p_[k] : arc_end_[r],
+        entrance_[before] ? stop_q_[before] : arc_start_[r], &septum);
+  }
+  for (int k = 0; k < 2; ++k) {
+    if (!entrance_[k]) continue;
+    const int P = order_[k], Q = order_[1 - k];
+    std::vector<int> lesion;
+    arc(P, arc_end_[P], stop_p_[k], &lesion);
+    arc(Q, stop_q_[k], arc_start_[Q], &lesion);
+    roof_domain({lesion}, kExposedRoot);
+  }
+  roof_domain({septum}, kRootSurface);
+}
+
+// Roof triangles in the domain bounded by the outlines (the first the outer boundary, the others
+// holes), triangulated in the furcation plane.
+void Builder::roof_domain(const std::vector<std::vector<int>>& outlines, int marker) {
+  const double zf = -tooth_.trunk_length_mm;
   std::vector<std::vector<Eigen::Vector2d>> loops;
   std::vector<int> boundary;
-  std::vector<const std::vector<int>*> outlines{&rim};
-  for (const auto& f : feet) outlines.push_back(&f);
-  for (const std::vector<int>* loop : outlines) {
+  for (const std::vector<int>& loop : outlines) {
     loops.emplace_back();
-    for (int i : *loop) {
+    for (int i : loop) {
       loops.back().push_back(points_.points()[i].head<2>());
       boundary.push_back(i);
     }
@@ -288,14 +604,17 @@ void Builder::furcation_roof(const std::vector<int>& rim,
   for (size_t i = 0; i < pts2.size(); ++i)
     index[i] = i < boundary.size() ? boundary[i] : add({pts2[i].x(), pts2[i].y(), zf}, kRoofPart);
   for (const auto& t : roof)
-    tri(index[t[0]], index[t[1]], index[t[2]], above ? kRootSurface : kExposedRoot, kRoofPart,
-        -Eigen::Vector3d::UnitZ());
+    tri(index[t[0]], index[t[1]], index[t[2]], marker, kRoofPart, -Eigen::Vector3d::UnitZ());
 }
 
 void Builder::pdl_layer() {
   const std::map<int, std::vector<int>> layer = layer_points();
   prisms(layer);
-  pdl_crest(layer);
+  if (lesion_) {
+    pdl_lesion(layer);
+  } else {
+    pdl_crest(layer);
+  }
   // A point inside the PDL, mid-way across at the first root's mid-length.
   const auto& x = points_.points();
   const double zf = -tooth_.trunk_length_mm;
@@ -328,6 +647,7 @@ std::map<int, Eigen::Vector3d> Builder::offset_directions(std::map<int, double>*
   }
   std::set<int> crest;
   for (const auto& r : crest_rings_) crest.insert(r.begin(), r.end());
+  crest.insert(horizontal_.begin(), horizontal_.end());
   for (auto& [v, n] : normal) {
     double m = 1.0;
     if (roof.count(v) && wall.count(v)) {
@@ -441,16 +761,119 @@ void Builder::pdl_crest(const std::map<int, std::vector<int>>& layer) {
     const int n = static_cast<int>(ring_c.size());
     std::vector<int> socket;
     for (int i = 0; i < n; ++i) {
-      const int lo = std::min(ring_c[i], ring_c[(i + 1) % n]);
-      const int hi = std::max(ring_c[i], ring_c[(i + 1) % n]);
-      const std::vector<int>&l_lo = layer.at(lo), &l_hi = layer.at(hi);
-      for (int k = 0; k < layers_; ++k) {
-        tri(l_lo[k], l_hi[k], l_hi[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
-        tri(l_lo[k], l_hi[k + 1], l_lo[k + 1], kPdlCrest, INT_MIN, Eigen::Vector3d::UnitZ(), false);
-      }
+      free_strip(ring_c[i], ring_c[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
       socket.push_back(layer.at(ring_c[i])[layers_]);
     }
     socket_crests_.push_back(socket);
+  }
+}
+
+// The PDL's free face across the layer over the root edge u-v (kPdlCrest, not given to TetGen),
+// split like the prisms' side faces.
+void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
+                         const std::map<int, std::vector<int>>& layer) {
+  const std::vector<int>&l_lo = layer.at(std::min(u, v)), &l_hi = layer.at(std::max(u, v));
+  for (int k = 0; k < layers_; ++k) {
+    tri(l_lo[k], l_hi[k], l_hi[k + 1], kPdlCrest, INT_MIN, outward, false);
+    tri(l_lo[k], l_hi[k + 1], l_lo[k + 1], kPdlCrest, INT_MIN, outward, false);
+  }
+}
+
+// Two-level attachment: the PDL's free faces along each column's top ring (none where the septum
+// reaches the roof), down the vertical edges where two columns' tops differ, and along the roof's
+// hull edges where the septum meets the roof; the socket's loop at the crest (the outer arcs
+// counter-clockwise, jumping from root to root along the hull) and, per hull edge, the two socket
+// columns joined by a bone wall; then the lesion's floor (lesion_floor).
+void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
+  const auto& x = points_.points();
+  auto level = [&](size_t r, double t) { return ring_level(r, t); };
+  auto socket = [&](int v) { return layer.at(v)[layers_]; };
+  // Socket points of root r's vertex b between depths t1 and t2, bottom to top.
+  auto column = [&](size_t r, int b, double t1, double t2) {
+    std::vector<int> c;
+    const size_t j1 = level(r, t1), j2 = level(r, t2);
+    for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
+      c.push_back(socket(rings_[r][j][b]));
+    return c;
+  };
+  for (size_t r = 0; r < rings_.size(); ++r) {
+    const std::vector<std::vector<int>>& R = rings_[r];
+    const std::vector<double>& top = top_[r];
+    const int n = static_cast<int>(top.size());
+    for (int i = 0; i < n; ++i) {
+      if (top[i] == 0) continue;  // the septum at the roof: attached on
+      const std::vector<int>& ring_r = R[level(r, top[i])];
+      free_strip(ring_r[i], ring_r[(i + 1) % n], Eigen::Vector3d::UnitZ(), layer);
+    }
+    for (int i = 0; i < n; ++i) {  // where two columns' tops differ: the free side between them
+      const int prev = (i + n - 1) % n;
+      if (top[prev] == top[i]) continue;
+      const int side = top[i] > top[prev] ? (i + 1) % n : prev;
+      const size_t j1 = level(r, top[prev]), j2 = level(r, top[i]);
+      for (size_t j = std::min(j1, j2); j < std::max(j1, j2); ++j)
+        free_strip(R[j][i], R[j + 1][i], x[R[j][side]] - x[R[j][i]], layer);
+    }
+  }
+  Eigen::Vector3d centre = Eigen::Vector3d::Zero();
+  for (const RootSpec& spec : tooth_.roots)
+    centre += Eigen::Vector3d(spec.foot_x_mm, spec.foot_y_mm, 0) / tooth_.roots.size();
+  const size_t R = order_.size();
+  for (size_t k = 0; k < R; ++k) {
+    const size_t r = order_[k], r2 = order_[(k + 1) % R];
+    const std::vector<int>& ring_c = rings_[r][level(r, t_out_)];
+    const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
+    for (int i = arc_start_[r];; i = (i + 1) % n) {
+      outer_top_.push_back(socket(ring_c[i]));
+      if (i == arc_end_[r]) break;
+    }
+    const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
+    if (t_a != t_b)
+      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
+    Wall w{column(r, arc_end_[r], t_out_, t_a), column(r2, arc_start_[r2], t_out_, t_a), centre};
+    if (t_a < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
+    walls_.push_back(w);
+    if (t_a == 0)  // the roof's PDL ends along the hull edge
+      free_strip(rings_[r][0][arc_end_[r]], rings_[r2][0][arc_start_[r2]],
+                 -Eigen::Vector3d::UnitZ(), layer);
+  }
+  lesion_floor(layer);
+}
+
+// The lesion's floor: the socket's loop at the septum's top (degree III: the inner arcs, the
+// roots in the reverse order; degree I or II: the lesion's arcs on its two roots), and for
+// degree I or II the back wall from the floor up to the socket's roof with the roof's PDL
+// ending along it.
+void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
+  auto level = [&](size_t r, double t) { return ring_level(r, t); };
+  auto socket = [&](int v) { return layer.at(v)[layers_]; };
+  auto arc = [&](size_t r, int from, int to, std::vector<int>* out) {
+    const std::vector<int>& ring_s = rings_[r][level(r, t_in_)];
+    const int n = static_cast<int>(ring_s.size());
+    for (int i = from;; i = (i + 1) % n) {
+      out->push_back(socket(ring_s[i]));
+      if (i == to) break;
+    }
+  };
+  if (t_in_ == 0) return;
+  if (!partial_) {
+    floors_.emplace_back();
+    for (size_t k = order_.size(); k-- > 0;)
+      arc(order_[k], arc_end_[order_[k]], arc_start_[order_[k]], &floors_.back());
+    return;
+  }
+  const auto& x = points_.points();
+  for (int k = 0; k < 2; ++k) {
+    if (!entrance_[k]) continue;
+    const int P = order_[k], Q = order_[1 - k];
+    floors_.emplace_back();
+    arc(P, arc_end_[P], stop_p_[k], &floors_.back());
+    arc(Q, stop_q_[k], arc_start_[Q], &floors_.back());
+    std::vector<int> p, q;
+    for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_[k]]));
+    for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_[k]]));
+    walls_.push_back(Wall{p, q, x[rings_[P][0][arc_end_[P]]]});  // facing the entrance
+    free_strip(rings_[P][0][stop_p_[k]], rings_[Q][0][stop_q_[k]], -Eigen::Vector3d::UnitZ(),
+               layer);
   }
 }
 
@@ -479,28 +902,36 @@ void Builder::bone_block() {
     }
   }
   auto planar = [&](const std::vector<std::vector<Eigen::Vector2d>>& loops,
-                    const std::vector<int>& known, double z, int marker,
+                    const std::vector<int>& known, const ZOf& z_of, int marker,
                     const Eigen::Vector3d& out) {
     std::vector<Eigen::Vector2d> p2;
     const auto t2 = detail::triangulate_planar(loops, hb, &p2);
     std::vector<int> idx(p2.size());
     for (size_t i = 0; i < p2.size(); ++i)
-      idx[i] =
-          i < known.size() && known[i] >= 0 ? known[i] : add({p2[i].x(), p2[i].y(), z}, INT_MIN);
+      idx[i] = i < known.size() && known[i] >= 0
+                   ? known[i]
+                   : add({p2[i].x(), p2[i].y(), z_of(p2[i])}, INT_MIN);
     for (const auto& t : t2) tri(idx[t[0]], idx[t[1]], idx[t[2]], marker, INT_MIN, out);
   };
   // Top: the rectangle around the socket's crest ring.
   std::vector<std::vector<Eigen::Vector2d>> top_loops{rect};
   std::vector<int> known(rect.size(), -1);
-  for (const std::vector<int>& loop : socket_crests_) {
+  std::vector<std::vector<int>> holes = socket_crests_;
+  if (lesion_) holes.push_back(outer_top_);
+  for (const std::vector<int>& loop : holes) {
     top_loops.emplace_back();
     for (int v : loop) {
       top_loops.back().push_back(x[v].head<2>());
       known.push_back(v);
     }
   }
-  planar(top_loops, known, zc, kFreeBone, Eigen::Vector3d::UnitZ());
-  planar({rect}, {}, zb, kFixedBone, -Eigen::Vector3d::UnitZ());
+  // The top follows the crest (lowered by an angular defect over its polar angle).
+  const ZOf top = [&](const Eigen::Vector2d& p) { return crest_z(p); };
+  planar(top_loops, known, top, kFreeBone, Eigen::Vector3d::UnitZ());
+  if (lesion_) lesion_bone_top(planar);
+  planar(
+      {rect}, {}, [&](const Eigen::Vector2d&) { return zb; }, kFixedBone,
+      -Eigen::Vector3d::UnitZ());
   // Sides.
   const int nz = std::max(2, static_cast<int>(std::ceil((zc - zb) / (2 * h_))));
   const std::array<Eigen::Vector3d, 4> outward{-Eigen::Vector3d::UnitY(), Eigen::Vector3d::UnitX(),
@@ -509,9 +940,9 @@ void Builder::bone_block() {
   for (int s = 0; s < 4; ++s) {
     std::vector<std::vector<int>> rows;
     for (int j = 0; j <= nz; ++j) {
-      const double z = zb + (zc - zb) * j / nz;
       std::vector<int> row;
-      for (const Eigen::Vector2d& p : side_pts[s]) row.push_back(add({p.x(), p.y(), z}, INT_MIN));
+      for (const Eigen::Vector2d& p : side_pts[s])
+        row.push_back(add({p.x(), p.y(), zb + (top(p) - zb) * j / nz}, INT_MIN));
       rows.push_back(row);
     }
     for (int j = 0; j < nz; ++j)
@@ -521,6 +952,38 @@ void Builder::bone_block() {
       }
   }
   bone_seed_ = Eigen::Vector3d(xB - 0.3, yM - 0.3, zb + 0.3);
+}
+
+// Two-level attachment: the lesions' floors (planes at the septum's top inside their socket
+// loops) and the walls of bone between two roots' socket columns (zipped bottom to top, no new
+// points), each facing its lower side.
+void Builder::lesion_bone_top(const Planar& planar) {
+  const auto& x = points_.points();
+  const double zs = -tooth_.trunk_length_mm - t_in_;
+  for (const std::vector<int>& floor : floors_) {  // none: the septum's top is the socket's roof
+    std::vector<Eigen::Vector2d> loop;
+    for (int v : floor) loop.push_back(x[v].head<2>());
+    planar(
+        {loop}, floor, [&](const Eigen::Vector2d&) { return zs; }, kFreeBone,
+        Eigen::Vector3d::UnitZ());
+  }
+  for (const auto& [P, Q, toward] : walls_) {
+    const Eigen::Vector3d d = x[Q.front()] - x[P.front()];
+    Eigen::Vector3d out(d.y(), -d.x(), 0);
+    if (out.dot(toward - x[P.front()]) < 0) out = -out;  // toward the lower side
+    size_t i = 0, j = 0;
+    while (i + 1 < P.size() || j + 1 < Q.size()) {
+      const bool step_p =
+          j + 1 >= Q.size() || (i + 1 < P.size() && x[P[i + 1]].z() <= x[Q[j + 1]].z());
+      if (step_p) {
+        tri(P[i], Q[j], P[i + 1], kFreeBone, INT_MIN, out);
+        ++i;
+      } else {
+        tri(P[i], Q[j], Q[j + 1], kFreeBone, INT_MIN, out);
+        ++j;
+      }
+    }
+  }
 }
 
 // PLC: every triangle but the PDL's free top; from_plc maps PLC points to ours.
@@ -637,23 +1100,52 @@ MultiRootMesh Builder::build(const MultiRootMeshSizing& sizing, const std::atomi
 
 }  // namespace
 
+namespace {
+std::string mm(double v) {
+  char text[32];
+  std::snprintf(text, sizeof text, "%.2f mm", v);
+  return text;
+}
+}  // namespace
+
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
-  if (bone.furcation.degree != 0 || bone.loss.defect_depth_mm > 0)
-    throw InputError("furcation.degree",
-                     "the multi-rooted mesh covers horizontal loss only so far (no furcation "
-                     "lesion, no angular defect); use the thin-layer estimate for those");
+  const int degree = bone.furcation.degree;
+  const double gap_defect =
+      outer_crest_z_mm(bone) - bone.loss.defect_depth_mm + tooth.trunk_length_mm;
+  if (bone.loss.defect_depth_mm > 0 && (gap_defect < 0.3 || degree != 0))
+    throw InputError("angular_defect.depth_mm",
+                     "the multi-rooted mesh covers an angular defect only with the crest on the "
+                     "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
+                     "here " +
+                         mm(gap_defect) +
+                         ") and no furcation lesion; use the thin-layer estimate "
+                         "(finite_elements false) for this scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
+  if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
+      (tooth.roots.size() != 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
+       gap > 0))
+    throw InputError("furcation.degree",
+                     "the multi-rooted mesh covers degree I and II furcation lesions only on the "
+                     "mandibular molars, with the outer crest below the "
+                     "furcation plane (the two-rooted premolar's narrow roof gave inverted "
+                     "elements); use the thin-layer estimate (finite_elements false) for this "
+                     "scenario");
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
                      "furcation plane; change the horizontal loss a little");
-  if (gap < 0 && bone.septum_to_roof)
-    throw InputError("bone_loss_mm",
-                     "with the crest below the furcation plane the mesh covers a level crest "
-                     "through the furcation only (septum_to_roof false); a septum up to the roof "
-                     "is not meshed yet: use the thin-layer estimate");
+  const bool lesion = degree > 0 && bone.septum_to_roof;
+  if (lesion && gap > 0)
+    throw InputError("furcation.degree",
+                     "a degree III furcation lesion is meshed with the outer crest below the "
+                     "furcation plane only (above it the lesion would be a closed tunnel in the "
+                     "bone); add horizontal loss or use the thin-layer estimate");
+  if (lesion && std::abs(gap + bone.furcation.vertical_mm) < 0.3)
+    throw InputError("furcation.vertical_mm",
+                     "the multi-rooted mesh needs the septum's top in a furcation lesion at "
+                     "least 0.3 mm above or below the outer crest; change vertical_mm a little");
   if (!(sizing.edge_mm >= 0.2 && sizing.edge_mm <= 2.0) || sizing.pdl_layers < 1 ||
       sizing.pdl_layers > 3 || !(sizing.bone_edge_mm >= sizing.edge_mm))
     throw InputError("mesh",

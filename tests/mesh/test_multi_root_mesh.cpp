@@ -4,6 +4,8 @@
 #include <gtest/gtest.h>
 
 #include <Eigen/Geometry>
+#include <algorithm>
+#include <array>
 #include <climits>
 #include <iostream>
 #include <map>
@@ -15,19 +17,49 @@
 namespace sharpey::mesh {
 namespace {
 
-class MultiRootMeshTest : public ::testing::TestWithParam<MultiRootType> {};
-
-TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
-  const MultiRootTooth tooth = multi_root_handbook(GetParam());
-  const MultiRootBone bone;  // healthy, uniform 0.2 mm PDL
+// Conforming and valid (checked inside the mesher), PDL width and volume per root; volume_bound
+// relative to area x width. Returns the trunk's PDL volume and 0.2 x its attached area (mm^3).
+std::pair<double, double> check_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
+                                     double volume_bound, double roof_bound_mm3 = 0) {
   const MultiRootMesh m = build_multi_root_mesh(tooth, bone);
   const MeshStatistics s = measure(m.mesh);
-  std::cout << to_string(GetParam()) << ": " << s.n_nodes << " nodes, " << s.n_elements
+  std::cout << to_string(tooth.type) << ": " << s.n_nodes << " nodes, " << s.n_elements
             << " elements (tooth " << s.elements_per_region.at(kTooth) << ", PDL "
             << s.elements_per_region.at(kPdl) << ", bone "
             << s.elements_per_region.at(kCancellousBone) << "), min Jacobian ratio "
             << s.min_jacobian_ratio << "\n";
   EXPECT_EQ(s.n_inverted_elements, 0);
+  // The PDL is closed (derived): every face of a PDL element not shared with another is a
+  // marked face, on the root (attached), the socket, or free (kPdlCrest: the crest and, with a
+  // lesion, its edge).
+  std::map<std::array<int, 3>, int> pdl_faces, marked;
+  for (int e = 0; e < m.mesh.n_elements(); ++e) {
+    if (m.mesh.element_region[e] != kPdl) continue;
+    const int* t = m.mesh.element(e);
+    for (const auto& f :
+         {std::array<int, 3>{t[0], t[1], t[2]}, std::array<int, 3>{t[0], t[1], t[3]},
+          std::array<int, 3>{t[0], t[2], t[3]}, std::array<int, 3>{t[1], t[2], t[3]}}) {
+      std::array<int, 3> g = f;
+      std::sort(g.begin(), g.end());
+      ++pdl_faces[g];
+    }
+  }
+  for (int f = 0; f < m.mesh.n_faces(); ++f) {
+    std::array<int, 3> g{m.mesh.face(f)[0], m.mesh.face(f)[1], m.mesh.face(f)[2]};
+    std::sort(g.begin(), g.end());
+    marked[g] = m.mesh.face_marker[f];
+  }
+  int open = 0, n_free = 0;
+  for (const auto& [g, count] : pdl_faces) {
+    if (count != 1) continue;
+    const auto it = marked.find(g);
+    const bool ok = it != marked.end() && (it->second == kRootSurface ||
+                                           it->second == kSocketSurface || it->second == kPdlCrest);
+    open += !ok;
+    n_free += ok && it->second == kPdlCrest;
+  }
+  std::cout << "  PDL boundary: " << n_free << " free faces, " << open << " unmarked\n";
+  EXPECT_EQ(open, 0);
   // PDL width per part: from every root-surface node to the socket surface.
   // The corners where the roof meets a wall (the trunk's rim, the roots' top rings) are reported
   // apart: from a sharp concave corner the offset surface lies w / sin(half the angle) away
@@ -91,8 +123,122 @@ TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
     const double expected = 0.2 * areas.attached_root_mm2[r];
     std::cout << "  " << tooth.roots[r].name << ": PDL volume " << volume[static_cast<int>(r)]
               << " mm^3, area x width " << expected << " mm^3\n";
-    EXPECT_NEAR(volume[static_cast<int>(r)], expected, 0.08 * expected);
+    EXPECT_NEAR(volume[static_cast<int>(r)], expected, volume_bound * expected);
   }
+  const double roof = 0.2 * areas.attached_roof_mm2;
+  std::cout << "  roof: PDL volume " << volume[kRoofPart] << " mm^3, area x width " << roof
+            << " mm^3\n";
+  // Within 10 % (widened from the roots' 8 %: observed -1.6 to +9.0 %, the latter on the
+  // two-rooted premolar's roof of 5 to 12 mm^2, where the mitred corners weigh most).
+  EXPECT_NEAR(volume[kRoofPart], roof, std::max(0.1 * roof, roof_bound_mm3) + 1e-9);
+  // The trunk's (the crest and an angular defect's floor lie on it): within 12 %, widened from
+  // the roots' 8 % after 8.4 % was observed on the healthy mandibular molars (the mitred corner
+  // where the trunk's rim meets the roof adds to the trunk's prisms).
+  const double trunk = 0.2 * areas.attached_trunk_mm2;
+  std::cout << "  trunk: PDL volume " << volume[kTrunkPart] << " mm^3, area x width " << trunk
+            << " mm^3\n";
+  EXPECT_NEAR(volume[kTrunkPart], trunk, 0.12 * trunk + 1e-9);
+  return {volume[kTrunkPart], trunk};
+}
+
+class MultiRootMeshTest : public ::testing::TestWithParam<MultiRootType> {};
+
+TEST_P(MultiRootMeshTest, ConformingValidAndPdlWidthPerRoot) {
+  const MultiRootBone bone;  // healthy, uniform 0.2 mm PDL
+  check_mesh(multi_root_handbook(GetParam()), bone, 0.08);
+}
+
+// Degree III furcation lesion: the outer crest 1.5 mm below the furcation plane, the septum's
+// top 3 mm below the roof (the default vertical_mm) across the whole furcation.
+TEST_P(MultiRootMeshTest, DegreeThreeLesionConformingAndPdlWidth) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+  bone.furcation.degree = 3;
+  bone.furcation.entrances = {tooth.roots.size() == 3           ? FurcationEntrance::kMesial
+                              : tooth.roots[0].foot_y_mm != 0.0 ? FurcationEntrance::kBuccal
+                                                                : FurcationEntrance::kMesial};
+  // Volume against the thin layer's attached area, the same 8 % as healthy (observed within
+  // 5 %, the maxillary second molar's buccal roots lowest): the mesh splits the roots' faces into
+  // inner and outer by whole columns of the ring (on the roots' hull at either level), the thin
+  // layer by the hull at each height.
+  check_mesh(tooth, bone, 0.08);
+}
+
+// The septum at the roof under a crest 1.5 mm below the furcation plane (no lesion): the roof
+// attached inside the roots' hull, free outside it.
+TEST_P(MultiRootMeshTest, SeptumAtTheRoofUnderALowCrest) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+  check_mesh(tooth, bone, 0.08);
+}
+
+// Angular defect on the trunk: 0.5 mm above the furcation plane at its floor, mesial, 60 degrees
+// wide (the crest ring and the bone's top follow the cos^2 profile).
+TEST_P(MultiRootMeshTest, AngularDefectConformingAndPdlWidth) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.defect_depth_mm = tooth.trunk_length_mm - bone.crest_below_cej_mm - 0.5;
+  bone.loss.defect_surface = ToothSurface::kMesial;
+  const auto [v_defect, a_defect] = check_mesh(tooth, bone, 0.08);
+  // What the defect removes from the trunk's PDL against what it removes from the thin layer's
+  // attachment (derived: area x width), within 10 % (observed, printed).
+  const auto [v_healthy, a_healthy] = check_mesh(tooth, MultiRootBone{}, 0.08);
+  std::cout << "  the defect removes " << v_healthy - v_defect << " mm^3 of PDL, area x width "
+            << a_healthy - a_defect << " mm^3\n";
+  EXPECT_NEAR(v_healthy - v_defect, a_healthy - a_defect, 0.1 * (a_healthy - a_defect));
+}
+
+// Degree I and II lesions on the mandibular molars (one entrance, then degree I from both; the
+// outer crest 1.5 mm below
+// the furcation plane, the septum's top 3 mm below the roof inside the lesion, at the roof beyond
+// it). The roof's volume: the mesh ends each lesion at a ring point, the thin layer at the
+// horizontal depth: the lesion's back edge moves by up to half a ring spacing (0.45 mm at the
+// 0.9 mm edge) across a gap of at most 2 mm between the roots, so up to 0.9 mm^2 of roof, 0.18
+// mm^3 of PDL per lesion (derived); observed 0.113 mm^3 (one lesion), 0.162 (two).
+TEST(MultiRootMeshLesion, DegreeOneAndTwoOnTheMandibularMolars) {
+  for (MultiRootType type :
+       {MultiRootType::kMandibularFirstMolar, MultiRootType::kMandibularSecondMolar})
+    for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual})
+      for (int degree : {1, 2}) {
+        const MultiRootTooth tooth = multi_root_handbook(type);
+        MultiRootBone bone;
+        bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+        bone.furcation.degree = degree;
+        bone.furcation.entrances = {e};
+        std::cout << "degree " << degree << " from the " << to_string(e) << " entrance\n";
+        check_mesh(tooth, bone, 0.08, 0.18);
+      }
+  for (MultiRootType type :
+       {MultiRootType::kMandibularFirstMolar, MultiRootType::kMandibularSecondMolar}) {
+    // Degree I from both entrances at once: two lesions, the septum at the roof between them.
+    const MultiRootTooth tooth = multi_root_handbook(type);
+    MultiRootBone bone;
+    bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+    bone.furcation.degree = 1;
+    bone.furcation.entrances = {FurcationEntrance::kBuccal, FurcationEntrance::kLingual};
+    std::cout << "degree I from both entrances\n";
+    check_mesh(tooth, bone, 0.08, 0.36);
+  }
+  const MultiRootTooth premolar =
+      multi_root_handbook(MultiRootType::kMaxillaryFirstPremolarTwoRoots);
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = premolar.trunk_length_mm;
+  bone.furcation.degree = 1;
+  bone.furcation.entrances = {FurcationEntrance::kMesial};
+  EXPECT_THROW(build_multi_root_mesh(premolar, bone), InputError);
+}
+
+// The septum's top above the outer crest (a lesion 1 mm deep under a crest 1.5 mm below the
+// furcation plane): the septum stands up between the roots.
+TEST(MultiRootMeshLesion, SeptumAboveTheCrest) {
+  const MultiRootTooth tooth = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = 3;
+  bone.furcation.degree = 3;
+  bone.furcation.vertical_mm = 1;
+  check_mesh(tooth, bone, 0.08);
 }
 
 INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi_root_types()),
@@ -100,14 +246,77 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
                            return to_string(p.param);
                          });
 
+// Robustness: degree III lesions over a grid of crest and septum levels, degree I and II lesions
+// of several depths from either entrance on the mandibular molars, and angular defects of
+// several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
+// or is refused with an InputError, never a MeshError.
+TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
+  int n_meshed = 0, n_refused = 0;
+  for (MultiRootType type : all_multi_root_types()) {
+    const MultiRootTooth tooth = multi_root_handbook(type);
+    const double gap = tooth.trunk_length_mm - 1.5;  // healthy crest above the furcation plane
+    std::vector<MultiRootBone> bones;
+    for (double below : {0.5, 1.5, 2.5})
+      for (double vertical : {0.0, 0.5, 1.0, 2.0, 3.0, 4.0}) {  // 0: the septum at the roof
+        MultiRootBone b;
+        b.loss.horizontal_mm = gap + below;
+        b.furcation.degree = vertical > 0 ? 3 : 0;
+        b.furcation.vertical_mm = vertical > 0 ? vertical : 3.0;
+        bones.push_back(b);
+      }
+    const bool mandibular = type == MultiRootType::kMandibularFirstMolar ||
+                            type == MultiRootType::kMandibularSecondMolar;
+    for (double below : {0.5, 2.5})
+      for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual})
+        for (double depth : {1.0, 2.0, 3.0, 3.5, 4.5}) {
+          if (!mandibular) break;
+          MultiRootBone b;
+          b.loss.horizontal_mm = gap + below;
+          b.furcation.degree = depth <= 3.0 ? 1 : 2;
+          b.furcation.horizontal_mm = depth;
+          b.furcation.entrances = {e};
+          bones.push_back(b);
+        }
+    for (ToothSurface surface : {ToothSurface::kMesial, ToothSurface::kLabial})
+      for (double floor : {0.4, 1.0}) {
+        MultiRootBone b;
+        b.loss.defect_depth_mm = gap - floor;
+        b.loss.defect_surface = surface;
+        b.loss.defect_width_deg = 90;
+        if (b.loss.defect_depth_mm > 0) bones.push_back(b);
+      }
+    for (const MultiRootBone& b : bones) {
+      try {
+        validate_multi_root_mesh(tooth, b);
+      } catch (const InputError&) {
+        ++n_refused;
+        continue;
+      }
+      EXPECT_NO_THROW(build_multi_root_mesh(tooth, b))
+          << to_string(type) << ", loss " << b.loss.horizontal_mm << " mm, septum "
+          << b.furcation.vertical_mm << " mm below the roof, defect " << b.loss.defect_depth_mm;
+      ++n_meshed;
+    }
+  }
+  std::cout << n_meshed << " meshed, " << n_refused << " refused (InputError)\n";
+}
+
 TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
   const MultiRootTooth tooth = multi_root_handbook(MultiRootType::kMandibularFirstMolar);
   MultiRootBone b;
   b.furcation.degree = 2;
   EXPECT_THROW(build_multi_root_mesh(tooth, b), InputError);
-  MultiRootBone deep;
-  deep.loss.horizontal_mm = 3;  // crest below the furcation plane
-  EXPECT_THROW(build_multi_root_mesh(tooth, deep), InputError);
+  b.furcation.degree = 3;  // under a crest above the furcation plane: a closed tunnel
+  EXPECT_THROW(build_multi_root_mesh(tooth, b), InputError);
+  b.loss.horizontal_mm = 3;
+  b.furcation.vertical_mm = 1.4;  // septum's top 0.1 mm above the crest (1.5 mm below the roof)
+  EXPECT_THROW(build_multi_root_mesh(tooth, b), InputError);
+  MultiRootBone defect;
+  defect.loss.defect_depth_mm = 1.4;  // floor 0.1 mm above the furcation plane
+  EXPECT_THROW(build_multi_root_mesh(tooth, defect), InputError);
+  MultiRootBone near;
+  near.loss.horizontal_mm = 1.4;  // crest 0.1 mm below the furcation plane
+  EXPECT_THROW(build_multi_root_mesh(tooth, near), InputError);
 }
 
 }  // namespace

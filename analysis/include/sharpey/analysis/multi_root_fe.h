@@ -29,8 +29,10 @@ MultiRootFeCres multi_root_fe_cres(const mesh::MultiRootMesh& mesh, const fem::M
 // Finite-element PDL hydrostatic pressure per part under `load` (a force through a point plus a
 // couple, spread over the crown's nodes as the unit cases are): the largest compression and
 // tension over the PDL nodes of each root (as RootFigures; attachment and reaction fields are
-// left 0), skipping the nodes within one crest width below the crest (the free edge's band, as
-// the single-rooted results do). `tooth` entry over every PDL node outside the band.
+// left 0), skipping the nodes within one crest width below the crest and, with a furcation
+// lesion, the septum at the roof under a lower crest or an angular defect, within one crest
+// width of the PDL's free faces (the free edge's
+// band, as the single-rooted results do). `tooth` entry over every PDL node outside the band.
 struct MultiRootFePressure {
   RootFigures tooth;
   std::vector<RootFigures> roots;

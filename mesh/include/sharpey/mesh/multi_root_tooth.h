@@ -191,8 +191,18 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // kFixedBone, the others kFreeBone; TetGen for tooth and bone with the PDL as a hole. Regions
 // kTooth, kPdl, kCancellousBone; face markers as build_tooth_model's. Midside nodes of 10-node
 // elements at edge midpoints.
-// Covered so far: the outer crest above the furcation plane (at least 0.3 mm), no angular defect,
-// no furcation lesion; anything else throws InputError naming what is not yet meshed.
+// Covered so far: the outer crest at least 0.3 mm above the furcation plane, or below it with a
+// level crest through the furcation (septum_to_roof false), with the septum at the roof (the roof
+// attached inside the roots' hull, free outside it), with a degree I or II lesion on a
+// mandibular molar (the lesion's columns and roof from each entrance to the horizontal depth),
+// or with a degree III lesion
+// (the septum's top vertical_mm below the roof, at least 0.3 mm from the crest: each root's
+// ring columns on the roots' hull attached below the crest, the others below the septum's top;
+// free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
+// floor stays at least 0.3 mm above the furcation plane (the crest ring and the bone's top follow
+// the profile), without a lesion. No degree I or II lesion on the maxillary teeth, no defect
+// reaching the roots;
+// anything else throws InputError naming what is not yet meshed.
 struct MultiRootMeshSizing {
   double edge_mm = 0.9;       // along the root surfaces
   double bone_edge_mm = 3.0;  // inside the bone block
