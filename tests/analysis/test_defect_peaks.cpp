@@ -63,9 +63,10 @@ LoadSpec translation_g(double grams, double y_sign) {
 // Derived (mesh convergence): the acceptance, both peaks (and the 95th percentile) within
 // 5 % between the standard and fine presets, for a defect on each of the four surfaces under a
 // 150 g distal translation (the project's standard-versus-fine acceptance, docs/verification.md).
-// Measured 2026-12-03 (standard vs fine; compression / tension / 95th percentile): distal 1.66 %
-// (13.845 vs 13.619 kPa) / 0.27 % / 0.09 %; mesial 0.24 % / 1.65 % (13.847 vs 13.622 kPa) /
-// 0.08 %; labial 0.29 % / 0.28 % / 0.12 %; lingual 0.30 % / 0.30 % / 0.12 %. The extra columns
+// Measured 2026-12-03 on the graded standard preset (standard vs fine; compression / tension /
+// 95th percentile): distal 1.53 % (13.827 vs 13.619 kPa) / 0.29 % / 0.05 %; mesial 0.23 % /
+// 1.51 % (13.828 vs 13.622 kPa) / 0.05 %; labial 0.26 % / 0.26 % / 0.11 %; lingual 0.25 % /
+// 0.25 % / 0.09 % (before the grading: distal 1.66 %, mesial tension 1.65 %). The extra columns
 // are nearly as close on the standard preset as on the fine one (0.10 vs 0.09 mm at the cervix),
 // so near the floor this compares meshes that differ mainly in the rest of the model; halving the
 // fine preset's extra-column spacing moved its compression by 0.3 % (13.619 -> 13.577 kPa, a
