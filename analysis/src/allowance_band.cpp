@@ -2,15 +2,12 @@
 
 #include <algorithm>
 #include <cmath>
-#include <future>
 #include <limits>
-#include <memory>
 #include <numeric>
 #include <sstream>
-#include <system_error>
 
+#include "allowance_band_solve.h"
 #include "sharpey/error.h"
-#include "study_memory.h"
 
 namespace sharpey::analysis {
 
@@ -332,34 +329,18 @@ const MovementBand& ScenarioBand::of(MovementPreset movement) const {
               "'");
 }
 
-AllowanceBand allowance_band(const Study& study, const BandOptions& options,
-                             const ProgressCallback& progress, const std::atomic<bool>* cancel) {
-  const CaseSpec& spec = study.spec();
-  if (!study.complete())
-    throw Error("allowance_band: the study is not complete; solve every scenario first");
-  validate_band(spec, options);
-  check_cancel(cancel);
+namespace {
 
-  AllowanceBand band;
-  band.options = options;
-  band.nominal = nominal_allowances(study);
-  const int n_scenarios = static_cast<int>(spec.scenarios.size());
+// Every solve of the band in a fixed order: the samples (scenario by scenario), then the
+// sensitivity runs (each varied input low, then high, per scenario). Results are gathered in this
+// order, so the band does not depend on how the solves are scheduled.
+std::vector<detail::BandJob> plan_band_jobs(const CaseSpec& spec, const BandOptions& options,
+                                            const std::vector<std::vector<double>>& rows) {
   const std::vector<BandInputRange>& ranges = options.ranges;
-  std::vector<double> nominal_values(ranges.size());
-  for (size_t i = 0; i < ranges.size(); ++i) nominal_values[i] = ranges[i].nominal;
-
-  // Every solve in a fixed order: the samples (scenario by scenario), then the sensitivity runs
-  // (each varied input low, then high, per scenario). The results are gathered in this order, so
-  // the band does not depend on scheduling.
-  struct Job {
-    std::vector<double> values;
-    int scenario = 0;
-    std::string what;
-    bool geometric = false;  // meshed anew (geometry differs from the study's)
-  };
-  std::vector<Job> jobs;
+  const int n_scenarios = static_cast<int>(spec.scenarios.size());
+  std::vector<detail::BandJob> jobs;
   const auto add_job = [&](std::vector<double> values, int k, std::string what) {
-    Job j;
+    detail::BandJob j;
     for (size_t i = 0; i < ranges.size(); ++i)
       j.geometric = j.geometric || (ranges[i].changes_geometry() && values[i] != ranges[i].nominal);
     j.values = std::move(values);
@@ -367,129 +348,55 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
     j.what = std::move(what);
     jobs.push_back(std::move(j));
   };
-  const std::vector<std::vector<double>> rows = band_sample_inputs(options);
   for (int j = 0; j < options.n_samples; ++j)
     for (int k = 0; k < n_scenarios; ++k)
       add_job(rows[static_cast<size_t>(j)], k,
               "band sample " + std::to_string(j + 1) + "/" + std::to_string(options.n_samples));
-  std::vector<size_t> sensitivity_inputs;
-  if (options.sensitivity) {
-    for (size_t i = 0; i < ranges.size(); ++i) {
-      if (!ranges[i].varies()) continue;
-      sensitivity_inputs.push_back(i);
-      for (int k = 0; k < n_scenarios; ++k) {
-        for (const bool high : {false, true}) {
-          std::vector<double> values = nominal_values;
-          values[i] = high ? ranges[i].high : ranges[i].low;
-          add_job(std::move(values), k,
-                  "sensitivity to " + to_string(ranges[i].input) + (high ? " (high)" : " (low)"));
-        }
+  if (!options.sensitivity) return jobs;
+  std::vector<double> nominal_values(ranges.size());
+  for (size_t i = 0; i < ranges.size(); ++i) nominal_values[i] = ranges[i].nominal;
+  for (size_t i = 0; i < ranges.size(); ++i) {
+    if (!ranges[i].varies()) continue;
+    for (int k = 0; k < n_scenarios; ++k) {
+      for (const bool high : {false, true}) {
+        std::vector<double> values = nominal_values;
+        values[i] = high ? ranges[i].high : ranges[i].low;
+        add_job(std::move(values), k,
+                "sensitivity to " + to_string(ranges[i].input) + (high ? " (high)" : " (low)"));
       }
     }
   }
+  return jobs;
+}
 
-  // The mesher runs in a process of its own and the solver on both cores: the next geometric
-  // job's model is meshed on a second thread while the current job is solved (as StudySolver
-  // does), or on this thread when no thread can be started. Meshing is deterministic, so this
-  // changes the time only.
-  const auto build = [&](size_t i) {
-    const Job& job = jobs[i];
-    const CaseSpec sample = band_sample_case(spec, ranges, job.values);
-    return detail::build_scenario_model(scenario_model(sample, job.scenario),
-                                        sample.scenarios[static_cast<size_t>(job.scenario)].name,
-                                        cancel);
-  };
-  const auto start_meshing = [&build](size_t i) {
-    try {
-      return std::async(std::launch::async, build, i);
-    } catch (const std::system_error&) {
-      return std::async(std::launch::deferred, build, i);
-    }
-  };
-  // Order of execution (results are stored by job index, so the band does not depend on it): the
-  // geometric jobs first, then the material-only jobs scenario by scenario. Consecutive
-  // material-only jobs of a scenario share its mesh, so one solver is refactorised from one to the
-  // next (ordering and symbolic analysis once per scenario, fem::LinearElasticSolver::refactorise)
-  // and released before the next scenario's: at most one extra factor is alive at a time.
-  std::vector<size_t> order(jobs.size());
-  std::iota(order.begin(), order.end(), size_t{0});
-  std::stable_sort(order.begin(), order.end(), [&jobs](size_t a, size_t b) {
-    const int ka = jobs[a].geometric ? -1 : jobs[a].scenario;
-    const int kb = jobs[b].geometric ? -1 : jobs[b].scenario;
-    return ka < kb;
-  });
-  const auto next_geometric = [&jobs, &order](size_t after_step) {
-    for (size_t step = after_step + 1; step < order.size(); ++step)
-      if (jobs[order[step]].geometric) return order[step];
-    return jobs.size();
-  };
-  std::vector<ScenarioAllowances> solved(jobs.size());
-  size_t ahead_index = jobs.size();
-  std::future<mesh::ToothModel> ahead;  // its destructor waits for the mesher on any exception
-  std::unique_ptr<fem::LinearElasticSolver> reused;  // material-only jobs of one scenario
-  for (size_t step = 0; step < order.size(); ++step) {
-    check_cancel(cancel);
-    const size_t i = order[step];
-    const Job& job = jobs[i];
-    const CaseSpec sample = band_sample_case(spec, ranges, job.values);
-    const std::string stage = job.what + ", scenario " + std::to_string(job.scenario + 1) + "/" +
-                              std::to_string(n_scenarios) + ": ";
-    const ProgressCallback inner = [&](const std::string& st, double f) {
-      if (progress)
-        progress(stage + st, (static_cast<double>(step) + std::clamp(f, 0.0, 1.0)) /
-                                 static_cast<double>(jobs.size()));
-    };
-    mesh::ToothModel model;
-    if (job.geometric) {
-      inner("mesh", 0.0);
-      if (ahead_index == i) {
-        ahead_index = jobs.size();
-        model = ahead.get();
-      } else {
-        model = build(i);
-      }
-      ++band.n_remeshed;
-    } else {
-      model = study.solutions()[static_cast<size_t>(job.scenario)]->model();
-    }
-    const size_t next = next_geometric(step);
-    if (next < jobs.size() && ahead_index != next) {
-      ahead = start_meshing(next);
-      ahead_index = next;
-    }
-    if (job.geometric) {
-      const ScenarioSolution solution(sample, job.scenario, std::move(model), inner, cancel);
-      solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
-    } else {
-      if (reused) ++band.n_refactorised;
-      const ScenarioSolution solution(sample, job.scenario, std::move(model), &reused, inner,
-                                      cancel);
-      solved[i] = scenario_allowances(solution, sample.load, sample.thresholds);
-      const bool more = step + 1 < order.size() && !jobs[order[step + 1]].geometric &&
-                        jobs[order[step + 1]].scenario == job.scenario;
-      if (!more) reused.reset();  // this scenario's last material-only job: free the factor
-    }
-    ++band.n_solves;
-  }
-
-  size_t at = 0;
-  for (int j = 0; j < options.n_samples; ++j) {
+// The samples' allowances, from the solved jobs starting at *at (advanced past them).
+std::vector<BandSample> gather_samples(const std::vector<std::vector<double>>& rows,
+                                       int n_scenarios, std::vector<ScenarioAllowances>* solved,
+                                       size_t* at) {
+  std::vector<BandSample> samples;
+  for (const std::vector<double>& row : rows) {
     BandSample sample;
-    sample.inputs = rows[static_cast<size_t>(j)];
-    for (int k = 0; k < n_scenarios; ++k) sample.allowances.push_back(std::move(solved[at++]));
-    band.samples.push_back(std::move(sample));
+    sample.inputs = row;
+    for (int k = 0; k < n_scenarios; ++k)
+      sample.allowances.push_back(std::move((*solved)[(*at)++]));
+    samples.push_back(std::move(sample));
   }
+  return samples;
+}
 
-  // Percentiles per scenario, movement and criterion, gathered in sample order.
+// Percentiles per scenario, movement and criterion, over the samples in sample order.
+std::vector<ScenarioBand> scenario_bands(const std::vector<ScenarioAllowances>& nominal,
+                                         const std::vector<BandSample>& samples) {
   const std::vector<MovementPreset> movements = all_movement_presets();
-  for (int k = 0; k < n_scenarios; ++k) {
+  std::vector<ScenarioBand> bands;
+  for (size_t k = 0; k < nominal.size(); ++k) {
     ScenarioBand sb;
-    sb.scenario = band.nominal[static_cast<size_t>(k)].scenario;
-    sb.bone_loss_mm = band.nominal[static_cast<size_t>(k)].bone_loss_mm;
+    sb.scenario = nominal[k].scenario;
+    sb.bone_loss_mm = nominal[k].bone_loss_mm;
     for (size_t m = 0; m < movements.size(); ++m) {
       PercentileSets sets;
-      for (const BandSample& s : band.samples) {
-        const MovementAllowance& a = s.allowances[static_cast<size_t>(k)].movements[m];
+      for (const BandSample& s : samples) {
+        const MovementAllowance& a = s.allowances[k].movements[m];
         sets.peak_capillary.push_back(a.peak_capillary_n);
         sets.peak_limit.push_back(a.peak_limit_n);
         sets.p95_capillary.push_back(a.p95_capillary_n);
@@ -503,42 +410,87 @@ AllowanceBand allowance_band(const Study& study, const BandOptions& options,
       mb.p95_limit = band_percentiles(sets.p95_limit);
       sb.movements.push_back(mb);
     }
-    band.scenarios.push_back(std::move(sb));
+    bands.push_back(std::move(sb));
   }
+  return bands;
+}
 
-  if (options.sensitivity) {
-    for (const size_t i : sensitivity_inputs) {
-      const BandInputRange& r = ranges[i];
-      InputSensitivity s;
-      s.input = r.input;
-      s.low = r.low;
-      s.high = r.high;
-      for (int k = 0; k < n_scenarios; ++k) {
-        s.at_low.push_back(std::move(solved[at++]));
-        s.at_high.push_back(std::move(solved[at++]));
-      }
-      for (int k = 0; k < n_scenarios; ++k) {
-        double sum = 0;
-        int n = 0;
-        for (size_t m = 0; m < movements.size(); ++m) {
-          const double nominal = band.nominal[static_cast<size_t>(k)].movements[m].peak_limit_n;
-          if (!std::isfinite(nominal)) continue;  // not limited by compression
-          const double lo = s.at_low[static_cast<size_t>(k)].movements[m].peak_limit_n;
-          const double hi = s.at_high[static_cast<size_t>(k)].movements[m].peak_limit_n;
-          if (!std::isfinite(lo) || !std::isfinite(hi)) continue;
-          sum += std::abs(hi - lo) / nominal;
-          ++n;
-        }
-        s.swing.push_back(n > 0 ? sum / n : 0.0);
-      }
-      s.mean_swing = std::accumulate(s.swing.begin(), s.swing.end(), 0.0) / n_scenarios;
-      band.sensitivity.push_back(std::move(s));
-    }
-    std::stable_sort(band.sensitivity.begin(), band.sensitivity.end(),
-                     [](const InputSensitivity& a, const InputSensitivity& b) {
-                       return a.mean_swing > b.mean_swing;
-                     });
+// Mean over the movements limited by compression of |allowance(high) - allowance(low)| / nominal
+// (peak compression against the upper limit) in one scenario.
+double scenario_swing(const ScenarioAllowances& nominal, const ScenarioAllowances& low,
+                      const ScenarioAllowances& high) {
+  double sum = 0;
+  int n = 0;
+  for (size_t m = 0; m < nominal.movements.size(); ++m) {
+    const double at_nominal = nominal.movements[m].peak_limit_n;
+    if (!std::isfinite(at_nominal)) continue;  // not limited by compression
+    const double lo = low.movements[m].peak_limit_n, hi = high.movements[m].peak_limit_n;
+    if (!std::isfinite(lo) || !std::isfinite(hi)) continue;
+    sum += std::abs(hi - lo) / at_nominal;
+    ++n;
   }
+  return n > 0 ? sum / n : 0.0;
+}
+
+// The one-at-a-time runs of every varied input, from the solved jobs starting at *at, ranked by
+// their mean swing (largest first, ties in input order).
+std::vector<InputSensitivity> sensitivity_ranking(const std::vector<BandInputRange>& ranges,
+                                                  const std::vector<ScenarioAllowances>& nominal,
+                                                  std::vector<ScenarioAllowances>* solved,
+                                                  size_t* at) {
+  std::vector<InputSensitivity> ranking;
+  for (const BandInputRange& r : ranges) {
+    if (!r.varies()) continue;
+    InputSensitivity s;
+    s.input = r.input;
+    s.low = r.low;
+    s.high = r.high;
+    for (size_t k = 0; k < nominal.size(); ++k) {
+      s.at_low.push_back(std::move((*solved)[(*at)++]));
+      s.at_high.push_back(std::move((*solved)[(*at)++]));
+    }
+    for (size_t k = 0; k < nominal.size(); ++k)
+      s.swing.push_back(scenario_swing(nominal[k], s.at_low[k], s.at_high[k]));
+    s.mean_swing =
+        std::accumulate(s.swing.begin(), s.swing.end(), 0.0) / static_cast<double>(nominal.size());
+    ranking.push_back(std::move(s));
+  }
+  std::stable_sort(ranking.begin(), ranking.end(),
+                   [](const InputSensitivity& a, const InputSensitivity& b) {
+                     return a.mean_swing > b.mean_swing;
+                   });
+  return ranking;
+}
+
+}  // namespace
+
+AllowanceBand allowance_band(const Study& study, const BandOptions& options,
+                             const ProgressCallback& progress, const std::atomic<bool>* cancel) {
+  const CaseSpec& spec = study.spec();
+  if (!study.complete())
+    throw Error("allowance_band: the study is not complete; solve every scenario first");
+  validate_band(spec, options);
+  check_cancel(cancel);
+
+  AllowanceBand band;
+  band.options = options;
+  band.nominal = nominal_allowances(study);
+  const std::vector<std::vector<double>> rows = band_sample_inputs(options);
+  const std::vector<detail::BandJob> jobs = plan_band_jobs(spec, options, rows);
+  detail::BandSolveCounts counts;
+  std::vector<ScenarioAllowances> solved =
+      detail::solve_band_jobs(study, options.ranges, jobs, progress, cancel, &counts);
+  band.n_solves = counts.n_solves;
+  band.n_remeshed = counts.n_remeshed;
+  band.n_refactorised = counts.n_refactorised;
+  band.n_workers = counts.n_workers;
+  band.stage_times = counts.stage_times;
+
+  size_t at = 0;
+  band.samples = gather_samples(rows, static_cast<int>(spec.scenarios.size()), &solved, &at);
+  band.scenarios = scenario_bands(band.nominal, band.samples);
+  if (options.sensitivity)
+    band.sensitivity = sensitivity_ranking(options.ranges, band.nominal, &solved, &at);
   if (progress) progress("band done", 1.0);
   return band;
 }

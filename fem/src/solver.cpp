@@ -215,9 +215,19 @@ std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
   return perm;
 }
 
+// METIS keeps its random number generator in global state (GKlib's, seeded at the start of each
+// ordering), so two orderings at once in one process draw from the same sequence and may give
+// different permutations, hence different round-off (solvers built side by side: the allowance
+// band's workers). One ordering at a time in the process; the rest of a solve runs in parallel.
+std::mutex& ordering_mutex() {
+  static std::mutex m;
+  return m;
+}
+
 // Symbolic analysis of A under the ordering `configure` set up.
 cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Ordering ordering,
                         cholmod_common* common) {
+  const std::lock_guard<std::mutex> lock(ordering_mutex());
   if (ordering != Ordering::kMetisNodes) return cholmod_l_analyze(A, common);
   std::vector<SuiteSparse_long> perm = nodal_metis_permutation(A, free_dofs, common);
   if (perm.empty()) return nullptr;

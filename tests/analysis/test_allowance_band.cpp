@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 #include <omp.h>
 
+#include <algorithm>
 #include <cmath>
 #include <memory>
 
@@ -164,8 +165,11 @@ class HealthyIncisorBand : public ::testing::Test {
 };
 std::unique_ptr<Study> HealthyIncisorBand::study_;
 
-// Every range zero: every sample is the nominal case (the study's mesh reused), so every
-// percentile equals the nominal allowance (derived).
+// Every range zero: every sample is the nominal case (the study's mesh reused), so the samples
+// are equal bit for bit (same case, same arithmetic: derived) and every percentile equals the
+// nominal allowance (derived). Against the nominal the check is 1e-10 relative, widened from
+// 1e-12: the study was solved with the caller's threads (two here) and the band's samples on one
+// thread each, which changes the last bits (observed: up to 4e-12 relative).
 TEST_F(HealthyIncisorBand, CollapsesOntoNominalWhenEveryRangeIsZero) {
   const AllowanceBand band = allowance_band(*study_, fixed_ranges(study_->spec(), 2));
   EXPECT_EQ(band.n_solves, 2);
@@ -183,18 +187,19 @@ TEST_F(HealthyIncisorBand, CollapsesOntoNominalWhenEveryRangeIsZero) {
           EXPECT_TRUE(std::isinf(p.p10) && std::isinf(p.p90));
           continue;
         }
-        EXPECT_NEAR(p.p10, n, 1e-12 * n);
-        EXPECT_NEAR(p.p50, n, 1e-12 * n);
-        EXPECT_NEAR(p.p90, n, 1e-12 * n);
+        EXPECT_EQ(p.p10, p.p90);
+        EXPECT_EQ(p.p50, p.p90);
+        EXPECT_NEAR(p.p50, n, 1e-10 * n);
       }
     }
   }
 }
 
-// Two computations: samples that change materials only are solved on the study's mesh by one
-// solver refactorised from sample to sample (ordering and symbolic analysis reused); each must
-// equal a ScenarioSolution built afresh for that sample's case (same mesh, same pattern and
-// ordering, same arithmetic: bit for bit; checked to 1e-12 relative).
+// Two computations: samples that change materials only are solved on the study's mesh, each
+// worker's run of them by one solver refactorised from sample to sample (ordering and symbolic
+// analysis reused); each must equal a ScenarioSolution built afresh for that sample's case on one
+// thread, as the band's workers solve (same mesh, same pattern and ordering, same arithmetic: bit
+// for bit, derived).
 TEST_F(HealthyIncisorBand, MaterialOnlySamplesReuseTheFactorisationAndEqualFreshSolves) {
   BandOptions o = fixed_ranges(study_->spec(), 3);
   const BandOptions defaults = band_options(study_->spec());
@@ -206,7 +211,11 @@ TEST_F(HealthyIncisorBand, MaterialOnlySamplesReuseTheFactorisationAndEqualFresh
   const AllowanceBand band = allowance_band(*study_, o);
   EXPECT_EQ(band.n_solves, 3);
   EXPECT_EQ(band.n_remeshed, 0);
-  EXPECT_EQ(band.n_refactorised, 2);  // the first sample analyses, the next two refactorise
+  // One run of samples per worker; the first of each run analyses, the others refactorise.
+  EXPECT_EQ(band.n_workers, std::min(omp_get_max_threads(), 3));
+  EXPECT_EQ(band.n_refactorised, 3 - band.n_workers);
+  const int threads = omp_get_max_threads();
+  set_threads(1);
   for (size_t j = 0; j < band.samples.size(); ++j) {
     const CaseSpec sample = band_sample_case(study_->spec(), o.ranges, band.samples[j].inputs);
     const ScenarioSolution fresh(sample, 0, study_->solutions()[0]->model(), nullptr, nullptr);
@@ -215,21 +224,20 @@ TEST_F(HealthyIncisorBand, MaterialOnlySamplesReuseTheFactorisationAndEqualFresh
       const MovementAllowance& a = band.samples[j].allowances[0].movements[m];
       const MovementAllowance& b = expected.movements[m];
       SCOPED_TRACE("sample " + std::to_string(j) + " " + to_string(a.movement));
-      EXPECT_NEAR(a.peak_kpa_per_n, b.peak_kpa_per_n, 1e-12 * std::abs(b.peak_kpa_per_n));
-      EXPECT_NEAR(a.p95_kpa_per_n, b.p95_kpa_per_n, 1e-12 * std::abs(b.p95_kpa_per_n));
-      EXPECT_NEAR(a.crown_tip_um_per_n, b.crown_tip_um_per_n,
-                  1e-12 * std::abs(expected.movements[0].crown_tip_um_per_n));
+      EXPECT_EQ(a.peak_kpa_per_n, b.peak_kpa_per_n);
+      EXPECT_EQ(a.p95_kpa_per_n, b.p95_kpa_per_n);
+      EXPECT_EQ(a.crown_tip_um_per_n, b.crown_tip_um_per_n);
     }
   }
+  set_threads(threads);
 }
 
-// Default ranges, two samples: the same seed gives the same band bit for bit at a fixed thread
-// count. Between one and two threads the results differ in the last bits: the fem library's
-// partitioned assembly and its stress recovery sum per thread, and OpenBLAS's threaded kernels
-// inside CHOLMOD's factorisation split their sums by thread count (measured: both sources change
-// the last bits). So across thread counts the band agrees to round-off (1e-9 relative), not bit for
-// bit; the sampling plan and the order results are gathered in do not depend on threads at all.
-TEST_F(HealthyIncisorBand, ReproducibleForAFixedSeed) {
+// Default ranges, two samples (each remeshed): the band is the same bit for bit for a fixed seed
+// at one and at two threads, and run twice (issue 11's acceptance point). Every sample is solved on
+// one thread (OpenMP 1 on its worker, OpenBLAS 1 while the band runs) whatever the caller's count;
+// the count only sets how many samples are solved at once, and the results are gathered in sample
+// order (derived: same arithmetic in the same order).
+TEST_F(HealthyIncisorBand, ReproducibleBitForBitForAFixedSeedAtAnyThreadCount) {
   BandOptions o = band_options(study_->spec());
   o.n_samples = 2;
   o.sensitivity = false;
@@ -241,31 +249,35 @@ TEST_F(HealthyIncisorBand, ReproducibleForAFixedSeed) {
   const AllowanceBand one_thread = allowance_band(*study_, o);
   set_threads(threads);
   EXPECT_EQ(first.n_remeshed, 2);
+  EXPECT_EQ(first.n_workers, 2);
+  EXPECT_EQ(one_thread.n_workers, 1);
   ASSERT_EQ(first.samples.size(), 2u);
-  for (size_t j = 0; j < first.samples.size(); ++j) {
-    EXPECT_EQ(first.samples[j].inputs, again.samples[j].inputs);
-    EXPECT_EQ(first.samples[j].inputs, one_thread.samples[j].inputs);
-    for (size_t m = 0; m < first.samples[j].allowances[0].movements.size(); ++m) {
-      const MovementAllowance& a = first.samples[j].allowances[0].movements[m];
-      const MovementAllowance& b = again.samples[j].allowances[0].movements[m];
-      const MovementAllowance& c = one_thread.samples[j].allowances[0].movements[m];
-      SCOPED_TRACE("sample " + std::to_string(j) + " " + to_string(a.movement));
-      EXPECT_EQ(a.peak_kpa_per_n, b.peak_kpa_per_n);  // bit for bit
-      EXPECT_EQ(a.p95_kpa_per_n, b.p95_kpa_per_n);
-      EXPECT_EQ(a.crown_tip_um_per_n, b.crown_tip_um_per_n);
-      EXPECT_NEAR(a.peak_kpa_per_n, c.peak_kpa_per_n, 1e-9 * a.peak_kpa_per_n);  // round-off
-      EXPECT_NEAR(a.p95_kpa_per_n, c.p95_kpa_per_n, 1e-9 * a.p95_kpa_per_n);
-      // Rotation about the long axis leaves the crown tip (on the axis) still: its few nanometres
-      // per newton are round-off, compared on the scale of the tipping displacement.
-      const double tip_scale = first.samples[j].allowances[0].movements[0].crown_tip_um_per_n;
-      EXPECT_NEAR(a.crown_tip_um_per_n, c.crown_tip_um_per_n, 1e-9 * tip_scale);
+  for (const AllowanceBand* other : {&again, &one_thread}) {
+    SCOPED_TRACE(other == &again ? "two threads, again" : "one thread");
+    for (size_t j = 0; j < first.samples.size(); ++j) {
+      EXPECT_EQ(first.samples[j].inputs, other->samples[j].inputs);
+      for (size_t m = 0; m < first.samples[j].allowances[0].movements.size(); ++m) {
+        const MovementAllowance& a = first.samples[j].allowances[0].movements[m];
+        const MovementAllowance& b = other->samples[j].allowances[0].movements[m];
+        SCOPED_TRACE("sample " + std::to_string(j) + " " + to_string(a.movement));
+        EXPECT_EQ(a.peak_kpa_per_n, b.peak_kpa_per_n);  // bit for bit
+        EXPECT_EQ(a.p95_kpa_per_n, b.p95_kpa_per_n);
+        EXPECT_EQ(a.peak_tension_kpa_per_n, b.peak_tension_kpa_per_n);
+        EXPECT_EQ(a.crown_tip_um_per_n, b.crown_tip_um_per_n);
+        EXPECT_EQ(a.peak_limit_n, b.peak_limit_n);
+      }
     }
-  }
-  for (size_t m = 0; m < first.scenarios[0].movements.size(); ++m) {
-    const MovementBand& a = first.scenarios[0].movements[m];
-    const MovementBand& b = again.scenarios[0].movements[m];
-    EXPECT_EQ(a.peak_limit.p10, b.peak_limit.p10);
-    EXPECT_EQ(a.p95_capillary.p90, b.p95_capillary.p90);
+    for (size_t m = 0; m < first.scenarios[0].movements.size(); ++m) {
+      const MovementBand& a = first.scenarios[0].movements[m];
+      const MovementBand& b = other->scenarios[0].movements[m];
+      for (auto measure : {AllowanceMeasure::kPeak, AllowanceMeasure::kP95}) {
+        for (auto which : {AllowanceThreshold::kCapillary, AllowanceThreshold::kLimit}) {
+          EXPECT_EQ(a.of(measure, which).p10, b.of(measure, which).p10);
+          EXPECT_EQ(a.of(measure, which).p50, b.of(measure, which).p50);
+          EXPECT_EQ(a.of(measure, which).p90, b.of(measure, which).p90);
+        }
+      }
+    }
   }
 }
 
@@ -338,6 +350,32 @@ TEST_F(HealthyIncisorBand, PdlModulusAloneMovesPressureAllowanceLittleAndDisplac
 TEST_F(HealthyIncisorBand, CancelledBeforeTheFirstSolve) {
   std::atomic<bool> cancel{true};
   EXPECT_THROW(allowance_band(*study_, fixed_ranges(study_->spec(), 3), {}, &cancel), Cancelled);
+}
+
+// Cancelled while two workers mesh and solve (the flag set from the progress callback, which the
+// workers call): Cancelled, no sample finished afterwards is reported, every worker stopped, and
+// the progress fraction never went back.
+TEST_F(HealthyIncisorBand, CancelledWhileWorkersSolve) {
+  BandOptions o = band_options(study_->spec());
+  o.n_samples = 4;
+  o.sensitivity = false;
+  std::atomic<bool> cancel{false};
+  double last = 0;
+  bool monotone = true;
+  int n_calls = 0;
+  const ProgressCallback progress = [&](const std::string& stage, double fraction) {
+    monotone = monotone && fraction >= last;
+    last = fraction;
+    ++n_calls;
+    if (stage.find("factorise") != std::string::npos) cancel = true;
+  };
+  const int threads = omp_get_max_threads();
+  set_threads(2);
+  EXPECT_THROW(allowance_band(*study_, o, progress, &cancel), Cancelled);
+  set_threads(threads);
+  EXPECT_TRUE(monotone);
+  EXPECT_GT(n_calls, 0);
+  EXPECT_LT(last, 1.0);
 }
 
 }  // namespace

@@ -107,6 +107,18 @@ struct InputSensitivity {
   double mean_swing = 0;  // over the scenarios: the ranking key
 };
 
+// Time per stage of the band's solves, summed over them, s. Several workers solve at once, so the
+// sums exceed the band's wall time (about n_workers times).
+struct BandStageTimes {
+  double mesh_s = 0;             // meshing (TetGen in its process, second-order nodes)
+  double assembly_s = 0;         // stiffness assembly (fem::SolverStatistics::assembly_s)
+  double analyse_s = 0;          // ordering and symbolic analysis (not repeated by refactorising)
+  double factorise_s = 0;        // numeric factorisation
+  double unit_loads_s = 0;       // the unit load cases: solves and PDL fields
+  double post_processing_s = 0;  // root nodes, edge band, root surface and root map samplers
+  double evaluate_s = 0;         // the movements' allowances
+};
+
 struct AllowanceBand {
   BandOptions options;
   std::vector<ScenarioAllowances> nominal;  // one per scenario
@@ -118,8 +130,12 @@ struct AllowanceBand {
   int n_solves = 0;    // scenario solves the band needed (samples and sensitivity)
   int n_remeshed = 0;  // of those, solves that meshed a new model (geometry changed)
   // Of the others (materials changed only), solves that refactorised the previous material-only
-  // solve's solver (numeric factorisation only; the first of each scenario analyses afresh).
+  // solve's solver (numeric factorisation only). A scenario's material-only solves are cut into
+  // one run per worker and the first of each run analyses afresh, so this is their number minus
+  // min(n_workers, their number), per scenario.
   int n_refactorised = 0;
+  int n_workers = 0;  // solves run side by side (the caller's thread count, at most one per solve)
+  BandStageTimes stage_times;
 };
 
 // Checks `options` against `spec`: sample count (1 to kMaxBandSamples), every range finite, low <=
@@ -138,14 +154,19 @@ std::vector<std::vector<double>> band_sample_inputs(const BandOptions& options);
 CaseSpec band_sample_case(const CaseSpec& spec, const std::vector<BandInputRange>& ranges,
                           const std::vector<double>& values);
 
-// The band of every scenario of `study` (which must be complete). Samples and sensitivity runs are
-// solved one after the other in a fixed order and gathered in sample order: the band does not
-// depend on how the work is scheduled. A sample that changes only materials reuses the study's
-// mesh of that scenario (the fem library has no way to reuse a symbolic factorisation, so it is
-// factorised anew); one that changes the geometry is meshed anew, on a second thread while the
-// previous one is solved (meshing is deterministic: only the time changes). progress("band sample
-// i/n ...", fraction); Cancelled when *cancel becomes true (checked between and inside solves).
-// Throws InputError (validate_band), MeshError, SolverError.
+// The band of every scenario of `study` (which must be complete). The solves (samples, then the
+// sensitivity runs) are gathered in sample order whatever the order they ran in, and every solve
+// runs on one thread: the band is the same bit for bit for a fixed seed at any thread count.
+// Parallelism comes from solving several samples at once: as many workers as the calling thread's
+// OpenMP thread count (omp_get_max_threads(), the count the caller set for its solves), each with
+// its own mesher process and factor. While the band runs, OpenBLAS is set to one thread for the
+// whole process (its count is process-wide) and restored afterwards. A sample that changes only
+// materials reuses the study's mesh of that scenario and, within a worker's run of such samples,
+// the symbolic factorisation (fem::LinearElasticSolver::refactorise); one that changes the
+// geometry is meshed anew. Peak memory: up to n_workers factors at once (about 1.1 GB each for the
+// standard incisor). progress("band sample i/n, scenario k/K: stage", fraction), called from the
+// workers one call at a time; Cancelled when *cancel becomes true (checked between and inside
+// solves; meshers are killed). Throws InputError (validate_band), MeshError, SolverError.
 AllowanceBand allowance_band(const Study& study, const BandOptions& options,
                              const ProgressCallback& progress = {},
                              const std::atomic<bool>* cancel = nullptr);
