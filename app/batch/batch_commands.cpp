@@ -17,6 +17,7 @@
 #include "failure.h"
 #include "interrupt.h"
 #include "mpi_world.h"
+#include "multi_root_sweep.h"
 #include "progress.h"
 #include "sharpey/analysis/case_spec.h"
 #include "sharpey/analysis/multi_root_case.h"
@@ -113,7 +114,30 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
 
 }  // namespace
 
+namespace {
+
+// `run` of a multi-rooted case: what `molar` does, after refusing the options that only a
+// single-rooted case takes.
+void run_multi_root(const CommonOptions& options) {
+  if (options.band)
+    throw InputError("--band",
+                     "--band computes the allowance band of a single-rooted case; a multi-rooted "
+                     "case reports its allowances per movement without a band (docs/molars.md): "
+                     "leave --band out");
+  if (!options.mesh_preset.empty())
+    throw InputError("--mesh-preset",
+                     "--mesh-preset " + options.mesh_preset +
+                         ": a multi-rooted case has no mesh preset (its finite-element model, "
+                         "finite_elements: true, has sizes of its own; docs/molars.md); leave "
+                         "--mesh-preset out");
+  check_out_dir(options);
+  molar_command(options);
+}
+
+}  // namespace
+
 void run_command(const CommonOptions& options) {
+  if (analysis::is_multi_root_case_file(options.case_path)) return run_multi_root(options);
   Progress progress(options.quiet);
   CaseSpec spec = analysis::parse_case(case_text(options), options.case_path, case_folder(options));
   if (options.band) spec.band.enabled = true;
@@ -237,14 +261,21 @@ std::string factor_text(const std::vector<analysis::CaseVariation>& variations) 
   return text;
 }
 
-// One combination of a sweep: its values of the varied keys and its checked case.
+// One combination of a sweep: its values of the varied keys and its checked case (a multi-rooted
+// sweep: its case text and the case, or its failure record).
 struct Combination {
   std::vector<std::string> values;
   CaseSpec spec;
+  std::string text;
+  MultiRootCombination molar;
 };
 
 struct SweepPlan {
+  bool multi_root = false;                // multi-rooted cases (multi_root_sweep.h)
   CaseSpec base;                          // the base case (with the design applied)
+  std::string base_text;                  // the same as case-file text
+  size_t n_invalid = 0;                   // multi-rooted: combinations with a failure record
+  std::string first_invalid;              // ... the first one's record
   std::vector<std::string> keys;          // varied keys, model keys first
   std::vector<Combination> combinations;  // in table order
   // Model m is combinations [model_begin[m], model_begin[m + 1]); one more entry than models.
@@ -254,27 +285,45 @@ struct SweepPlan {
 // The base case with the design applied, and the variations of the design and the --vary
 // options, the keys that change the model first.
 struct SweepInputs {
+  bool multi_root = false;
   std::string base_text;
   CaseSpec base;
   std::vector<analysis::CaseVariation> variations;
 };
 
+// A multi-rooted base case's text, checked (its own errors first) with the options it refuses.
+std::string multi_root_case_text(const CommonOptions& options) {
+  check_out_dir(options);
+  if (!options.mesh_preset.empty())
+    throw InputError("--mesh-preset",
+                     "--mesh-preset " + options.mesh_preset +
+                         ": a multi-rooted case has no mesh preset (its finite-element model, "
+                         "finite_elements: true, has sizes of its own; docs/molars.md); leave "
+                         "--mesh-preset out");
+  const std::string text = analysis::read_case_text(options.case_path);
+  analysis::parse_multi_root_case(text, options.case_path);
+  return text;
+}
+
 SweepInputs read_sweep_inputs(const CommonOptions& options, const SweepOptions& sweep) {
   SweepInputs in;
-  in.base_text = case_text(options);
+  in.multi_root = analysis::is_multi_root_case_file(options.case_path);
+  in.base_text = in.multi_root ? multi_root_case_text(options) : case_text(options);
   if (!sweep.design_path.empty()) {
     const analysis::StudyDesign design = analysis::parse_study_design(
-        analysis::read_case_text(sweep.design_path), sweep.design_path);
-    analysis::parse_case(in.base_text, options.case_path,
-                         case_folder(options));  // report the case's own errors first
+        analysis::read_case_text(sweep.design_path), sweep.design_path, in.multi_root);
+    if (!in.multi_root)
+      analysis::parse_case(in.base_text, options.case_path,
+                           case_folder(options));  // report the case's own errors first
     in.base_text = analysis::apply_study_design(in.base_text, design);
     in.variations = design.variations;
   }
-  in.base = analysis::parse_case(in.base_text,
-                                 sweep.design_path.empty()
-                                     ? options.case_path
-                                     : options.case_path + " with " + sweep.design_path,
-                                 case_folder(options));
+  if (!in.multi_root)  // a multi-rooted sweep checks each combination, and records the invalid
+    in.base = analysis::parse_case(in.base_text,
+                                   sweep.design_path.empty()
+                                       ? options.case_path
+                                       : options.case_path + " with " + sweep.design_path,
+                                   case_folder(options));
 
   for (const std::string& v : sweep.vary) {
     analysis::CaseVariation parsed = analysis::parse_variation(v);
@@ -314,6 +363,25 @@ size_t count_combinations(const std::vector<analysis::CaseVariation>& variations
   return n_combinations;
 }
 
+// Reads and checks the case of combination `c` (0-based) into `combo`: a bad value fails the
+// sweep at once; in a multi-rooted sweep it becomes the combination's failure record.
+void check_combination(const SweepInputs& in, const std::string& text, const std::string& origin,
+                       size_t c, const CommonOptions& options, const SweepOptions& sweep,
+                       Combination& combo) {
+  if (in.multi_root) {
+    combo.text = text;
+    combo.molar = check_multi_root_combination(text, static_cast<int>(c + 1));
+    return;
+  }
+  try {
+    combo.spec = analysis::parse_case(text, origin, case_folder(options));
+  } catch (const InputError& e) {
+    throw InputError(e.key(), std::string(e.what()) + (sweep.design_path.empty()
+                                                           ? " (from --vary)"
+                                                           : " (from the design or --vary)"));
+  }
+}
+
 // Every combination, built and checked before any solve so that a bad value fails at once; the
 // last key varies fastest.
 std::vector<Combination> expand_combinations(const SweepInputs& in, const CommonOptions& options,
@@ -332,14 +400,8 @@ std::vector<Combination> expand_combinations(const SweepInputs& in, const Common
       combo.values.push_back(value);
       description += (description.empty() ? "" : ", ") + variations[k].key + "=" + value;
     }
-    try {
-      combo.spec = analysis::parse_case(text, options.case_path + " with " + description,
-                                        case_folder(options));
-    } catch (const InputError& e) {
-      throw InputError(e.key(), std::string(e.what()) + (sweep.design_path.empty()
-                                                             ? " (from --vary)"
-                                                             : " (from the design or --vary)"));
-    }
+    check_combination(in, text, options.case_path + " with " + description, c, options, sweep,
+                      combo);
     combinations.push_back(std::move(combo));
     for (size_t k = variations.size(); k-- > 0;) {  // odometer, last key fastest
       if (++digit[k] < variations[k].values.size()) break;
@@ -351,10 +413,17 @@ std::vector<Combination> expand_combinations(const SweepInputs& in, const Common
 
 // Models: runs of consecutive combinations with the same model (the unit of work, solved once).
 // Model m is combinations [begin[m], begin[m + 1]).
-std::vector<size_t> group_into_models(const std::vector<Combination>& combinations) {
+// A multi-rooted model is its combinations' model_key; each invalid combination is one of its own.
+std::vector<size_t> group_into_models(const std::vector<Combination>& combinations,
+                                      bool multi_root) {
   std::vector<size_t> model_begin;
   CaseSpec previous;
   for (size_t c = 0; c < combinations.size(); ++c) {
+    if (multi_root) {
+      if (c == 0 || combinations[c].molar.model_key != combinations[c - 1].molar.model_key)
+        model_begin.push_back(c);
+      continue;
+    }
     CaseSpec model = model_of(combinations[c].spec);
     if (c == 0 || model != previous) model_begin.push_back(c);
     previous = std::move(model);
@@ -368,10 +437,22 @@ std::vector<size_t> group_into_models(const std::vector<Combination>& combinatio
 SweepPlan plan_sweep(const CommonOptions& options, const SweepOptions& sweep) {
   SweepInputs in = read_sweep_inputs(options, sweep);
   SweepPlan plan;
+  plan.multi_root = in.multi_root;
   plan.combinations = expand_combinations(in, options, sweep);
-  plan.model_begin = group_into_models(plan.combinations);
+  plan.model_begin = group_into_models(plan.combinations, in.multi_root);
   for (const auto& v : in.variations) plan.keys.push_back(v.key);
   plan.base = std::move(in.base);
+  plan.base_text = std::move(in.base_text);
+  for (const Combination& c : plan.combinations) {
+    if (c.molar.failure.empty()) continue;
+    if (plan.n_invalid++ == 0) plan.first_invalid = c.molar.failure;
+  }
+  // A sweep with nothing valid to run is a mistake of the design or the case, not a result.
+  if (plan.multi_root && plan.n_invalid == plan.combinations.size())
+    throw InputError(
+        plan.combinations.front().molar.failure_key,
+        "every combination of the sweep is invalid; the first: " + plan.first_invalid +
+            (sweep.design_path.empty() ? " (from --vary)" : " (from the design or --vary)"));
   return plan;
 }
 
@@ -390,7 +471,7 @@ void open_sweep_folder(const CommonOptions& options, const SweepOptions& sweep, 
   std::vector<std::string> case_json;
   for (const Combination& c : s.plan.combinations) {
     values.push_back(c.values);
-    case_json.push_back(analysis::case_to_json(c.spec));
+    case_json.push_back(s.plan.multi_root ? c.text : analysis::case_to_json(c.spec));
   }
   // The thread count changes the last digits (solver_threads.h): rows of another count are
   // another sweep's.
@@ -444,14 +525,40 @@ std::vector<int> models_left(const SweepStart& s, MpiWorld& world) {
   return left;
 }
 
-// Solves model m and evaluates each of its combinations on each bone level: its table rows.
-std::string solve_model_rows(const SweepPlan& plan, int m, Progress& progress) {
+// "model 3 of 10 (combination 9 of 30)": model m's progress prefix.
+std::string model_label(const SweepPlan& plan, int m) {
   const size_t n_models = plan.model_begin.size() - 1;
   const size_t first = plan.model_begin[static_cast<size_t>(m)];
+  return "model " + std::to_string(m + 1) + " of " + std::to_string(n_models) + " (combination " +
+         std::to_string(first + 1) + " of " + std::to_string(plan.combinations.size()) + ")";
+}
+
+// A multi-rooted model's rows: each of its combinations evaluated as `molar` evaluates a case
+// (the thin-layer estimate in milliseconds, finite elements on request), or its failure record.
+std::string multi_root_model_rows(const SweepPlan& plan, int m, Progress& progress) {
+  const size_t first = plan.model_begin[static_cast<size_t>(m)];
   const size_t last = plan.model_begin[static_cast<size_t>(m) + 1];
-  const std::string prefix = "model " + std::to_string(m + 1) + " of " + std::to_string(n_models) +
-                             " (combination " + std::to_string(first + 1) + " of " +
-                             std::to_string(plan.combinations.size()) + ")";
+  const std::string prefix = model_label(plan, m);
+  std::string rows;
+  for (size_t c = first; c < last; ++c) {
+    const Combination& combo = plan.combinations[c];
+    progress.report(prefix + (!combo.molar.failure.empty()       ? ": invalid, recorded"
+                              : combo.molar.spec.finite_elements ? ": estimate and finite elements"
+                                                                 : ": thin-layer estimate"),
+                    static_cast<double>(c - first) / static_cast<double>(last - first));
+    rows += in_model_stage(
+        [&] { return multi_root_sweep_rows(static_cast<int>(c + 1), combo.values, combo.molar); });
+    stop_if_interrupted();
+  }
+  return rows;
+}
+
+// Solves model m and evaluates each of its combinations on each bone level: its table rows.
+std::string solve_model_rows(const SweepPlan& plan, int m, Progress& progress) {
+  if (plan.multi_root) return multi_root_model_rows(plan, m, progress);
+  const size_t first = plan.model_begin[static_cast<size_t>(m)];
+  const size_t last = plan.model_begin[static_cast<size_t>(m) + 1];
+  const std::string prefix = model_label(plan, m);
   const analysis::Study study = in_model_stage([&] {
     return analysis::Study(
         plan.combinations[first].spec,
@@ -476,6 +583,26 @@ std::string solve_model_rows(const SweepPlan& plan, int m, Progress& progress) {
   return piece.rows_text();
 }
 
+// Writes the sweep's tables into `out` from every model's rows: sweep.csv and sweep_case.json, and
+// for a multi-rooted sweep sweep.json. Returns the names written.
+std::vector<std::string> write_sweep_tables(const SweepPlan& plan,
+                                            const std::map<int, std::string>& rows_of_model,
+                                            const analysis::StagedFolder& out) {
+  std::string rows;
+  for (const auto& [m, model_rows] : rows_of_model) rows += model_rows;  // in model order
+  if (plan.multi_root) {
+    analysis::write_file_atomic(out.path("sweep.csv"), multi_root_sweep_csv(plan.keys, rows));
+    analysis::write_file_atomic(out.path("sweep.json"), multi_root_sweep_json(plan.keys, rows));
+    analysis::write_file_atomic(out.path("sweep_case.json"), plan.base_text + "\n");
+    return {"sweep.csv", "sweep.json", "sweep_case.json"};
+  }
+  analysis::SweepTable table(plan.keys);
+  table.add_rows_text(rows);
+  analysis::write_file_atomic(out.path("sweep.csv"), table.csv());
+  analysis::save_case(plan.base, out.path("sweep_case.json"));
+  return {"sweep.csv", "sweep_case.json"};
+}
+
 }  // namespace
 
 void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiWorld& world) {
@@ -491,6 +618,10 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     progress.note("resuming: " + plural(static_cast<size_t>(n_resumed), "model") + " of " +
                   std::to_string(n_models) + " already solved (checkpoints in " + options.out_dir +
                   ")");
+  if (plan.n_invalid > 0)
+    progress.note(
+        plural(plan.n_invalid, "combination") + " of " + std::to_string(plan.combinations.size()) +
+        " invalid, kept as failure records in sweep.csv (the first: " + plan.first_invalid + ")");
   if (world.root() && world.size() > 1)
     std::fprintf(stderr, "sharpey-batch: %s over %d ranks (%s)\n",
                  plural(left.size(), "model").c_str(), world.size(),
@@ -539,19 +670,16 @@ void sweep_command(const CommonOptions& options, const SweepOptions& sweep, MpiW
     std::this_thread::sleep_for(std::chrono::milliseconds(20));
   }
 
-  analysis::SweepTable table(plan.keys);
-  for (const auto& [m, rows] : rows_of_model) table.add_rows_text(rows);  // in model order
   progress.note(
       plural(plan.combinations.size(), "combination") + ", " +
       plural(static_cast<size_t>(study_progress.n_solved()), "model") + " solved" +
       (n_resumed > 0 ? ", " + std::to_string(n_resumed) + " resumed from checkpoints"
                      : std::string()) +
       (world.size() > 1 ? " on " + std::to_string(world.size()) + " ranks" : std::string()));
-  analysis::write_file_atomic(start.out->path("sweep.csv"), table.csv());
-  analysis::save_case(plan.base, start.out->path("sweep_case.json"));
+  const std::vector<std::string> written = write_sweep_tables(plan, rows_of_model, *start.out);
   stop_if_interrupted();
   start.out->commit();
-  announce(options.out_dir, {"sweep.csv", "sweep_case.json"});
+  announce(options.out_dir, written);
 }
 
 void mesh_command(const CommonOptions& options) {
