@@ -61,6 +61,16 @@ void check_out_dir(const CommonOptions& options) {
                                   (out / "results").string());
 }
 
+// A multi-rooted case has no mesh preset to override.
+void refuse_mesh_preset_of_multi_root(const CommonOptions& options) {
+  if (!options.mesh_preset.empty())
+    throw InputError("--mesh-preset",
+                     "--mesh-preset " + options.mesh_preset +
+                         ": a multi-rooted case has no mesh preset (its finite-element model, "
+                         "finite_elements: true, has sizes of its own; docs/molars.md); leave "
+                         "--mesh-preset out");
+}
+
 // The folder a tooth.surface file is relative to: the case file's.
 std::string case_folder(const CommonOptions& options) {
   return std::filesystem::path(options.case_path).parent_path().string();
@@ -124,12 +134,7 @@ void run_multi_root(const CommonOptions& options) {
                      "--band computes the allowance band of a single-rooted case; a multi-rooted "
                      "case reports its allowances per movement without a band (docs/molars.md): "
                      "leave --band out");
-  if (!options.mesh_preset.empty())
-    throw InputError("--mesh-preset",
-                     "--mesh-preset " + options.mesh_preset +
-                         ": a multi-rooted case has no mesh preset (its finite-element model, "
-                         "finite_elements: true, has sizes of its own; docs/molars.md); leave "
-                         "--mesh-preset out");
+  refuse_mesh_preset_of_multi_root(options);
   check_out_dir(options);
   molar_command(options);
 }
@@ -294,12 +299,7 @@ struct SweepInputs {
 // A multi-rooted base case's text, checked (its own errors first) with the options it refuses.
 std::string multi_root_case_text(const CommonOptions& options) {
   check_out_dir(options);
-  if (!options.mesh_preset.empty())
-    throw InputError("--mesh-preset",
-                     "--mesh-preset " + options.mesh_preset +
-                         ": a multi-rooted case has no mesh preset (its finite-element model, "
-                         "finite_elements: true, has sizes of its own; docs/molars.md); leave "
-                         "--mesh-preset out");
+  refuse_mesh_preset_of_multi_root(options);
   const std::string text = analysis::read_case_text(options.case_path);
   analysis::parse_multi_root_case(text, options.case_path);
   return text;
