@@ -721,8 +721,9 @@ CaseSpec read_case(const Json& root) {
     throw InputError("kind",
                      "this is a multi-rooted tooth case (\"kind\": \"multi_root_estimate\"), "
                      "evaluated by the thin-layer estimate of docs/molars.md: run it with "
-                     "sharpey-batch molar CASE --out FOLDER, or open it in the app (a window "
-                     "of its own); run and sweep take single-rooted teeth only");
+                     "sharpey-batch run (or molar) CASE --out FOLDER, sweep it with sharpey-batch "
+                     "sweep, or open it in the app (a window of its own); the mesh command and "
+                     "the single-rooted study take single-rooted teeth only");
   spec.label = top.string("label", "");
   spec.notes = top.string("notes", "");
   read_tooth(top.object("tooth"), spec);

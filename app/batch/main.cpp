@@ -1,4 +1,4 @@
-// sharpey-batch: headless runs of Sharpey case files (run, sweep, mesh). Exit codes in
+// sharpey-batch: headless runs of Sharpey case files (run, sweep, mesh, molar). Exit codes in
 // exit_codes.h, documented in --help and docs/case-format.md.
 #include <CLI/CLI.hpp>
 #include <cstdio>
@@ -31,6 +31,8 @@ constexpr const char* kFooter = R"(Examples:
   sharpey-batch sweep samples/maxillary_central_incisor_bone_loss.json --out out/sweep \
       --vary load.magnitude=50,100,150 --vary pdl.material.young_modulus_mpa=0.05,0.47,0.7
   sharpey-batch mesh samples/mandibular_second_premolar_intrusion.json --out out/premolar-mesh
+  sharpey-batch sweep samples/invented_mandibular_first_molar_uprighting.json --out out/molar-sweep \
+      --design samples/invented_study_design_molar_furcation.json
 
 Exit codes:
   0  success
@@ -98,7 +100,8 @@ Commands add_commands(CLI::App& app, CommonOptions& options, SweepOptions& sweep
   c.run = app.add_subcommand(
       "run",
       "mesh and solve every scenario; write results.json, summary.csv, summary.txt, "
-      "allowance.csv, case.json and per scenario the model and PDL .vtu and the root-map CSV");
+      "allowance.csv, case.json and per scenario the model and PDL .vtu and the root-map CSV (a "
+      "multi-rooted case: what molar writes)");
   add_common(c.run);
   c.run->add_flag("--band", options.band,
                   "also compute the force allowance's variability band (case key allowance.band; "
@@ -107,7 +110,8 @@ Commands add_commands(CLI::App& app, CommonOptions& options, SweepOptions& sweep
   c.sweep = app.add_subcommand(
       "sweep",
       "full-factorial sweep over case keys; write sweep.csv (one row per combination "
-      "and scenario)");
+      "and scenario; a multi-rooted case also sweep.json, and an invalid combination is a "
+      "failure record)");
   add_common(c.sweep);
   c.sweep->add_option("--vary", sweep_options.vary,
                       "KEY=V1,V2,... : a dotted case-file key and its values, e.g. "

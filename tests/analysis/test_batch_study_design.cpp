@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "sharpey/analysis/case_spec.h"
+#include "sharpey/analysis/multi_root_case.h"
 #include "sharpey/analysis/study_design.h"
 #include "sharpey/error.h"
 #include "support/batch_process.h"
@@ -56,6 +57,43 @@ TEST(StudyDesign, ExpandsToTheVariedKeysAndTheBoneLevelsAsScenarios) {
   EXPECT_EQ(analysis::parse_case(varied).label, "true");
 }
 
+TEST(StudyDesign, MultiRootedDesignVariesTheFirstScenario) {
+  const analysis::StudyDesign d = parse_study_design(R"({
+    "label": "Invented design",
+    "teeth": ["mandibular_first_molar", "maxillary_first_molar"],
+    "bone_levels_mm": [0, 3],
+    "furcation_degrees": [0, 1, 2, 3],
+    "angular_defects_mm": [0, 2],
+    "materials": {"pdl.poisson_ratio": [0.45, 0.49]},
+    "also_vary": {"finite_elements": [false, true], "scenarios[0].furcation.entrances":
+                  [["buccal"], ["buccal", "lingual"]]},
+    "movements": ["uprighting", "translation"]
+  })",
+                                                     "design", /*multi_rooted=*/true);
+  // The design's order: tooth, the scenario factors, materials, others, movement.
+  std::vector<std::string> keys;
+  for (const auto& v : d.variations) keys.push_back(v.key);
+  EXPECT_EQ(keys,
+            (std::vector<std::string>{
+                "tooth.type", "scenarios[0].horizontal_loss_mm", "scenarios[0].furcation.degree",
+                "scenarios[0].angular_defect.depth_mm", "pdl.poisson_ratio", "finite_elements",
+                "scenarios[0].furcation.entrances", "load.movement"}));
+  EXPECT_TRUE(d.bone_levels_mm.empty());  // varied keys, not a scenario list
+  const std::string base = R"({"kind": "multi_root_estimate",
+      "tooth": {"type": "mandibular_first_molar"},
+      "scenarios": [{"name": "healthy"}, {"name": "3 mm", "horizontal_loss_mm": 3}],
+      "load": {"movement": "uprighting", "magnitude": 10, "unit": "N mm"}})";
+  const std::string applied = analysis::apply_study_design(base, d);
+  // The first scenario alone, renamed; the unit dropped, so translation takes N.
+  const std::string translation = analysis::set_case_value(
+      analysis::set_case_value(applied, "load.movement", "translation"), "load.magnitude", "1");
+  const analysis::MultiRootCase c = analysis::parse_multi_root_case(translation);
+  ASSERT_EQ(c.scenarios.size(), 1u);
+  EXPECT_EQ(c.scenarios[0].name, "varied by the design");
+  EXPECT_EQ(c.unit, "N");
+  EXPECT_EQ(analysis::parse_multi_root_case(applied).unit, "N mm");
+}
+
 struct BadDesign {
   const char* name;
   const char* json;
@@ -94,6 +132,54 @@ const BadDesign kBadDesigns[] = {
      "newer program"},
     {"varies_nothing", R"({"label": "x"})", "design.teeth", "varies nothing"},
 };
+
+// A multi-rooted design (the base case is multi-rooted): its own movements, units and materials.
+class StudyDesignBadMultiRooted : public ::testing::TestWithParam<BadDesign> {};
+
+TEST_P(StudyDesignBadMultiRooted, NamesTheKeyTheValueAndTheFix) {
+  const BadDesign& b = GetParam();
+  try {
+    parse_study_design(b.json, "d.json", /*multi_rooted=*/true);
+    FAIL() << "accepted " << b.json;
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), b.key);
+    EXPECT_NE(std::string(e.what()).find(b.fragment), std::string::npos) << e.what();
+  }
+}
+
+const BadDesign kBadMultiRootedDesigns[] = {
+    {"single_rooted_movement", R"({"movements": ["controlled_tipping"]})", "design.movements",
+     "use uprighting, intrusion or translation"},
+    {"single_rooted_material", R"({"materials": {"pdl.material.young_modulus_mpa": [1]}})",
+     "design.materials.pdl.material.young_modulus_mpa", "pdl.young_modulus_mpa or"},
+    {"bad_unit", R"({"forces": [1], "force_unit": "kN"})", "design.force_unit", "\"N mm\""},
+    {"negative_degree", R"({"furcation_degrees": [0, -1]})", "design.furcation_degrees",
+     "furcation degree -1"},
+    {"negative_defect", R"({"angular_defects_mm": [-2]})", "design.angular_defects_mm", "-2"},
+    {"other_scenario", R"({"also_vary": {"scenarios[1].horizontal_loss_mm": [1]}})",
+     "design.also_vary.scenarios[1].horizontal_loss_mm", "set by the design's own factors"},
+    {"factor_twice",
+     R"({"bone_levels_mm": [1], "also_vary": {"scenarios[0].horizontal_loss_mm": [2]}})",
+     "design.also_vary.scenarios[0].horizontal_loss_mm", "varied twice"},
+};
+
+INSTANTIATE_TEST_SUITE_P(Design, StudyDesignBadMultiRooted,
+                         ::testing::ValuesIn(kBadMultiRootedDesigns),
+                         [](const ::testing::TestParamInfo<BadDesign>& p) {
+                           return std::string(p.param.name);
+                         });
+
+TEST(StudyDesign, MultiRootedFactorsAreRefusedOnASingleRootedCase) {
+  try {
+    parse_study_design(R"({"furcation_degrees": [0, 1]})", "d.json");
+    FAIL() << "accepted";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "design.furcation_degrees");
+    EXPECT_NE(std::string(e.what()).find("this base case is single-rooted: remove it"),
+              std::string::npos)
+        << e.what();
+  }
+}
 
 INSTANTIATE_TEST_SUITE_P(Design, StudyDesignBad, ::testing::ValuesIn(kBadDesigns),
                          [](const ::testing::TestParamInfo<BadDesign>& p) {

@@ -1,7 +1,8 @@
 // Multi-rooted tooth case files: the thin-layer estimate (multi_root_thin_layer.h) of a molar or
 // the two-rooted maxillary first premolar over bone-level scenarios with furcation involvement,
 // and its report (multi_root_results.json, multi_root_summary.txt, a root map per scenario).
-// Schema: docs/molars.md, "Case file". Run by `sharpey-batch molar CASE --out DIR`.
+// Schema: docs/molars.md, "Case file". Run by `sharpey-batch molar` (or `run`) CASE --out DIR;
+// swept by `sharpey-batch sweep` (docs/sweeps.md, "Multi-rooted teeth").
 #pragma once
 
 #include <string>
