@@ -721,7 +721,7 @@ CaseSpec read_case(const Json& root) {
     throw InputError("kind",
                      "this is a multi-rooted tooth case (\"kind\": \"multi_root_estimate\"), "
                      "evaluated by the thin-layer estimate of docs/molars.md: run it with "
-                     "sharpey-batch run (or molar) CASE --out FOLDER, sweep it with sharpey-batch "
+                     "sharpey-batch molar (or run) CASE --out FOLDER, sweep it with sharpey-batch "
                      "sweep, or open it in the app (a window of its own); the mesh command and "
                      "the single-rooted study take single-rooted teeth only");
   spec.label = top.string("label", "");
