@@ -2,9 +2,9 @@
 // furcation degrees 0 to III at 0, 3 and 5 mm loss, thin-layer estimate) through the sweep
 // machinery: one row per sample, the same figures as a direct `molar` run of each combination's
 // case to the printed digits, the CRes moving apically and the allowance falling with the degree;
-// invalid combinations as failure records; two MPI ranks and a killed run resumed give the same
-// bytes; `run` of a multi-rooted case writes what `molar` writes. mpirun as root needs
-// OMPI_ALLOW_RUN_AS_ROOT(_CONFIRM), set in the ctest entry's ENVIRONMENT.
+// invalid combinations as failure records; two MPI ranks and a killed or interrupted run resumed
+// give the same bytes; `run` of a multi-rooted case writes what `molar` writes. mpirun as root
+// needs OMPI_ALLOW_RUN_AS_ROOT(_CONFIRM), set in the ctest entry's ENVIRONMENT.
 #include <gtest/gtest.h>
 #include <signal.h>
 
@@ -197,6 +197,23 @@ TEST_F(SweepMolarSample, TwoRanksAndAResumedRunWriteTheSameBytes) {
   EXPECT_EQ(read_file(*folder_ / "killed/sweep.csv"), csv_);
   EXPECT_EQ(list_folder(*folder_ / "killed"),
             (std::vector<std::string>{"sweep.csv", "sweep.json", "sweep_case.json"}));
+}
+
+// Ctrl-C (SIGINT to itself after its third checkpoint) stops the sweep with the interrupted code,
+// keeping the checkpoints; the rerun resumes from them.
+TEST_F(SweepMolarSample, InterruptedRunKeepsItsCheckpointsAndResumes) {
+  const std::vector<std::string> sweep = {
+      "sweep", sample_path(kCase), "--design", sample_path(kDesign), "--out", *folder_ / "stopped"};
+  ChildProcess stopped(batch_binary(), sweep,
+                       {"SHARPEY_TEST_KILL_AFTER_MODELS=3", "SHARPEY_TEST_KILL_SIGNAL=INT"});
+  const ProcessResult r = stopped.wait(600);
+  EXPECT_EQ(r.exit_code, 6) << r.err;  // interrupted (exit_codes.h)
+  EXPECT_NE(r.err.find("run the same command again to resume"), std::string::npos) << r.err;
+  const ProcessResult resumed = run_batch(sweep);
+  ASSERT_EQ(resumed.exit_code, 0) << resumed.err;
+  EXPECT_NE(resumed.err.find("resuming: 3 models of 12 already solved"), std::string::npos)
+      << resumed.err;
+  EXPECT_EQ(read_file(*folder_ / "stopped/sweep.csv"), csv_);
 }
 
 TEST(SweepMolar, InvalidCombinationsAreFailureRecordsNamingTheKey) {
