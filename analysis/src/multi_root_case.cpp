@@ -535,9 +535,15 @@ MultiRootCase load_multi_root_case(const std::string& path) {
 }
 
 bool is_multi_root_case_file(const std::string& path) {
-  std::ifstream in(path);
-  if (!in) return false;
-  const Json j = Json::parse(in, nullptr, false);
+  // Through the case reader's bounded read: a pipe, a device or an oversized file is not a case
+  // (the caller's own reader then refuses it) and must neither block nor fill memory here.
+  std::string text;
+  try {
+    text = read_case_text(path);
+  } catch (const InputError&) {
+    return false;
+  }
+  const Json j = Json::parse(text, nullptr, false);
   if (j.is_discarded() || !j.is_object()) return false;
   const auto kind = j.find("kind");
   return kind != j.end() && kind->is_string() && kind->get<std::string>() == "multi_root_estimate";

@@ -122,10 +122,6 @@ void announce(const std::string& folder, const std::vector<std::string>& files) 
   std::cout << '\n';
 }
 
-}  // namespace
-
-namespace {
-
 // `run` of a multi-rooted case: what `molar` does, after refusing the options that only a
 // single-rooted case takes.
 void run_multi_root(const CommonOptions& options) {

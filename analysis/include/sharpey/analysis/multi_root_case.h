@@ -40,7 +40,8 @@ MultiRootCase parse_multi_root_case(const std::string& json_text,
                                     const std::string& origin = "case");
 MultiRootCase load_multi_root_case(const std::string& path);
 // True when `path` holds a JSON object whose "kind" is "multi_root_estimate" (false for anything
-// else, an unreadable file or not JSON: the caller's own reader then says what is wrong).
+// else, an unreadable file, not a regular file, a file over the case reader's size limit or not
+// JSON: the caller's own reader then says what is wrong). Never blocks on a pipe.
 bool is_multi_root_case_file(const std::string& path);
 
 // One cell of a scenario's root map: on part `part` (mesh::kTrunkPart or a root index; the roof is
