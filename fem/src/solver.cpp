@@ -53,13 +53,16 @@ bool blas_is_openmp_threaded() {
 // missing part. So there the regions stay parallel (OMP_THREAD_LIMIT, set by the programs at
 // start, caps CHOLMOD's teams at the cores), and the team OpenBLAS asks for (the calling thread's
 // thread count) is made one it will get: no dynamic adjustment, no more than the thread limit.
+// A calling thread with one OpenMP thread (the allowance band's workers, a sweep's solves) gets one
+// BLAS thread from that build (OpenBLAS 0.3.21 runs on one thread when the caller's count or its
+// own is 1, and then opens no team): there the regions are serialised as with the other builds.
 class CholmodOpenMpSettings {
  public:
   CholmodOpenMpSettings()
       : levels_(omp_get_max_active_levels()),
         dynamic_(omp_get_dynamic()),
         n_threads_(omp_get_max_threads()) {
-    if (!blas_is_openmp_threaded()) {
+    if (!blas_is_openmp_threaded() || n_threads_ == 1) {
       omp_set_max_active_levels(0);
       return;
     }

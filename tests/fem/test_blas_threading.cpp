@@ -126,6 +126,19 @@ TEST(BlasThreading, ThreadedFactorisationFinishes) {
   }
 }
 
+// derived: a calling thread with one OpenMP thread while OpenBLAS is set to several (a band's
+// worker beside the app's solves): the solver then serialises CHOLMOD's regions, which is safe
+// only because OpenBLAS follows the caller's count; it finishes with a direct solve's residual.
+TEST(BlasThreading, OneThreadCallerFinishes) {
+  const mesh::VolumeMesh m = block_mesh();
+  const Eigen::VectorXd f = block_load(m.n_nodes());
+  set_threads(2);
+  omp_set_num_threads(1);
+  const LinearElasticSolver solver(m, kMaterials, fix_faces(m, testing::kZetaMin));
+  solver.solve(f);
+  EXPECT_LT(solver.statistics().last_relative_residual, 1e-12);
+}
+
 // derived: two solves at once on two threads of the program (the app solving while a band winds
 // down), each asking OpenBLAS for several threads, both finish with a direct solve's residual.
 TEST(BlasThreading, TwoSolvesAtOnceFinish) {
