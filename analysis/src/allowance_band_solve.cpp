@@ -33,9 +33,10 @@ double seconds_since(Clock::time_point t0) {
 // same time (the app solving new levels while a cancelled band winds down) also get one BLAS
 // thread meanwhile: slower, and their last bits may differ from a solve with more threads.
 // The OpenMP-threaded OpenBLAS takes a calling thread's count from its OpenMP thread count, but
-// 0.3.21 keeps it in one global variable too and returns at once when that is 1: the same process-
-// wide setting serves both builds. There openblas_set_num_threads also sets the calling thread's
-// OpenMP thread count, which is put back here (the band's caller keeps its own).
+// 0.3.21 keeps it in one global variable too and runs on the calling thread alone when that is 1
+// (num_cpu_avail): the same process-wide setting serves both builds. There openblas_set_num_threads
+// also sets the calling thread's OpenMP thread count, which is put back here (the band's caller
+// keeps its own).
 class SingleThreadedBlas {
  public:
   SingleThreadedBlas() {

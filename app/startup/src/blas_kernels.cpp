@@ -70,9 +70,9 @@ std::vector<std::pair<std::string, std::string>> settings_for_restart() {
   }
   // libgomp's waiting threads spin (by default some 300 000 rounds) before they sleep, and never
   // give their core away meanwhile. On cores shared with other programs the thread that has the
-  // work then waits for the spinner's time slice: the standard incisor's factorisation took 38 s
-  // instead of 6 at a load of 6 on two cores (docs/fem-solver.md, "Speed"). Waiting threads that
-  // sleep at once cost a wake-up per parallel region instead. A choice the user made is kept.
+  // work then waits for the spinner's time slice: the standard incisor's factorisation took 41 s
+  // instead of 5 to 8 at a load of 6 on two cores (docs/fem-solver.md, "Speed"). Waiting threads
+  // that sleep at once cost a wake-up per parallel region instead. A choice the user made is kept.
   if (std::getenv("OMP_WAIT_POLICY") == nullptr && std::getenv("GOMP_SPINCOUNT") == nullptr &&
       blas_threading() == BlasThreading::kOpenMp) {
     settings.emplace_back("OMP_WAIT_POLICY", "passive");
