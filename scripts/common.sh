@@ -7,9 +7,9 @@ SHARPEY_BUILD=${SHARPEY_BUILD:-$SHARPEY_ROOT/build}
 
 # Debian 12 packages Sharpey needs to build, test and run.
 SHARPEY_PACKAGES=(cmake ninja-build g++ pkg-config qt6-base-dev libvtk9-dev libeigen3-dev
-  libtet1.5-dev libsuitesparse-dev libopenblas-dev libgtest-dev nlohmann-json3-dev libcli11-dev
-  libqt6opengl6-dev libgl1-mesa-dri fonts-dejavu-core xvfb xauth poppler-utils clang-14
-  libclang-rt-14-dev libopenmpi-dev openmpi-bin libcgal-dev clang-format-14)
+  libtet1.5-dev libsuitesparse-dev libopenblas-dev libopenblas0-openmp libgtest-dev
+  nlohmann-json3-dev libcli11-dev libqt6opengl6-dev libgl1-mesa-dri fonts-dejavu-core xvfb xauth
+  poppler-utils clang-14 libclang-rt-14-dev libopenmpi-dev openmpi-bin libcgal-dev clang-format-14)
 
 sharpey_install_packages() {
   local missing=()

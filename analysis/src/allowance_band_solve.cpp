@@ -32,18 +32,24 @@ double seconds_since(Clock::time_point t0) {
 // BLAS links (with another BLAS this does nothing). Other solves of the process that run at the
 // same time (the app solving new levels while a cancelled band winds down) also get one BLAS
 // thread meanwhile: slower, and their last bits may differ from a solve with more threads.
+// The OpenMP-threaded OpenBLAS takes a calling thread's count from its OpenMP thread count, but
+// 0.3.21 keeps it in one global variable too and runs on the calling thread alone when that is 1
+// (num_cpu_avail): the same process-wide setting serves both builds. There openblas_set_num_threads
+// also sets the calling thread's OpenMP thread count, which is put back here (the band's caller
+// keeps its own).
 class SingleThreadedBlas {
  public:
   SingleThreadedBlas() {
     const std::lock_guard<std::mutex> lock(state().mutex);
     if (state().n_active++ == 0 && set_ != nullptr) {
       state().saved = get_ != nullptr ? get_() : 0;
-      set_(1);
+      set_keeping_openmp(1);
     }
   }
   ~SingleThreadedBlas() {
     const std::lock_guard<std::mutex> lock(state().mutex);
-    if (--state().n_active == 0 && set_ != nullptr && state().saved > 0) set_(state().saved);
+    if (--state().n_active == 0 && set_ != nullptr && state().saved > 0)
+      set_keeping_openmp(state().saved);
   }
   SingleThreadedBlas(const SingleThreadedBlas&) = delete;
   SingleThreadedBlas& operator=(const SingleThreadedBlas&) = delete;
@@ -57,6 +63,11 @@ class SingleThreadedBlas {
   static State& state() {
     static State s;
     return s;
+  }
+  void set_keeping_openmp(int n_blas_threads) const {
+    const int n_openmp_threads = omp_get_max_threads();
+    set_(n_blas_threads);
+    omp_set_num_threads(n_openmp_threads);
   }
   using GetThreads = int (*)();
   using SetThreads = void (*)(int);

@@ -2,6 +2,7 @@
 #include "sharpey/fem/solver.h"
 
 #include <cholmod.h>
+#include <dlfcn.h>
 #include <omp.h>
 
 #include <algorithm>
@@ -27,22 +28,59 @@ double seconds_since(Clock::time_point t0) {
   return std::chrono::duration<double>(Clock::now() - t0).count();
 }
 
+// How OpenBLAS runs its threads: openblas_get_parallel() is 2 for the OpenMP-threaded build (1
+// pthreads, 0 serial). Looked up at run time, so any BLAS links; decided once per process.
+bool blas_is_openmp_threaded() {
+  static const bool openmp = [] {
+    using GetParallel = int (*)();
+    const auto fn = reinterpret_cast<GetParallel>(::dlsym(RTLD_DEFAULT, "openblas_get_parallel"));
+    return fn != nullptr && fn() == 2;
+  }();
+  return openmp;
+}
+
+// The OpenMP settings of the calling thread while CHOLMOD factorises or solves, undone at the end
+// of the scope (all three are per-task settings: other threads are not affected).
+//
 // CHOLMOD 3.0's supernodal factorisation and solves open OpenMP regions with a fixed team of
 // CHOLMOD_OMP_NUM_THREADS = 4 (compiled into Debian's library) for the scatter of each update into
-// its target supernode: thousands of short regions, on two cores beside OpenBLAS's own threads.
-// Measured on the standard incisor (docs/fem-solver.md, "Speed"): with these regions run by the
-// calling thread alone the factorisation needs less CPU and system time and gives the same bits.
-// Affects the calling thread only (max-active-levels is a per-task setting) and is undone at the
-// end of the scope.
-class SerialOpenMpRegions {
+// its target supernode: thousands of short regions. With the pthreads or serial OpenBLAS they run
+// on the calling thread alone (max-active-levels 0): measured on the standard incisor
+// (docs/fem-solver.md, "Speed"), less CPU and system time and the same bits.
+//
+// With the OpenMP-threaded OpenBLAS that would hang: its threads are OpenMP threads too, and a
+// threaded dsyrk whose region gets fewer threads than it split the work into waits forever for the
+// missing part. So there the regions stay parallel (OMP_THREAD_LIMIT, set by the programs at
+// start, caps CHOLMOD's teams at the cores), and the team OpenBLAS asks for (the calling thread's
+// thread count) is made one it will get: no dynamic adjustment, no more than the thread limit.
+// A calling thread with one OpenMP thread (the allowance band's workers, a sweep's solves) gets one
+// BLAS thread from that build (OpenBLAS 0.3.21 runs on one thread when the caller's count or its
+// own is 1, and then opens no team): there the regions are serialised as with the other builds.
+class CholmodOpenMpSettings {
  public:
-  SerialOpenMpRegions() : levels_(omp_get_max_active_levels()) { omp_set_max_active_levels(0); }
-  ~SerialOpenMpRegions() { omp_set_max_active_levels(levels_); }
-  SerialOpenMpRegions(const SerialOpenMpRegions&) = delete;
-  SerialOpenMpRegions& operator=(const SerialOpenMpRegions&) = delete;
+  CholmodOpenMpSettings()
+      : levels_(omp_get_max_active_levels()),
+        dynamic_(omp_get_dynamic()),
+        n_threads_(omp_get_max_threads()) {
+    if (!blas_is_openmp_threaded() || n_threads_ == 1) {
+      omp_set_max_active_levels(0);
+      return;
+    }
+    omp_set_dynamic(0);
+    omp_set_num_threads(std::max(1, std::min(n_threads_, omp_get_thread_limit())));
+  }
+  ~CholmodOpenMpSettings() {
+    omp_set_max_active_levels(levels_);
+    omp_set_dynamic(dynamic_);
+    omp_set_num_threads(n_threads_);
+  }
+  CholmodOpenMpSettings(const CholmodOpenMpSettings&) = delete;
+  CholmodOpenMpSettings& operator=(const CholmodOpenMpSettings&) = delete;
 
  private:
   int levels_;
+  int dynamic_;
+  int n_threads_;
 };
 
 const char* component_name(int c) { return c == 0 ? "x" : (c == 1 ? "y" : "z"); }
@@ -404,7 +442,7 @@ void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, 
   const auto t0 = Clock::now();
   int ok = 0;
   {
-    const SerialOpenMpRegions serial;
+    const CholmodOpenMpSettings openmp_settings;
     ok = cholmod_l_factorize(A.get(), L.get(), common.get());
   }
   stats.factorise_s = seconds_since(t0);
@@ -495,7 +533,7 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
     }
     detail::DensePtr X;
     {
-      const SerialOpenMpRegions serial;
+      const CholmodOpenMpSettings openmp_settings;
       X = detail::own(cholmod_l_solve(CHOLMOD_A, L.get(), B.get(), common.get()), common);
     }
     B.reset();

@@ -3,7 +3,11 @@
 #include <dlfcn.h>
 #include <unistd.h>
 
+#include <cstdio>
 #include <cstdlib>
+#include <string>
+#include <utility>
+#include <vector>
 
 namespace sharpey::startup {
 
@@ -32,18 +36,72 @@ std::string better_blas_core(const std::string& current_core) {
   return "";
 }
 
-void use_fast_blas_kernels(char** argv) {
+BlasThreading blas_threading() {
+  using GetParallel = int (*)();
+  const auto fn = reinterpret_cast<GetParallel>(dlsym(RTLD_DEFAULT, "openblas_get_parallel"));
+  if (!fn) return BlasThreading::kNotOpenBlas;
+  switch (fn()) {
+    case 0:
+      return BlasThreading::kSerial;
+    case 2:
+      return BlasThreading::kOpenMp;
+    default:
+      return BlasThreading::kPthreads;
+  }
+}
+
+namespace {
+
+// The environment variables to set before the program starts again (name, value); none when the
+// program runs as it should already.
+std::vector<std::pair<std::string, std::string>> settings_for_restart() {
+  std::vector<std::pair<std::string, std::string>> settings;
   // A machine that sets either variable has chosen its kernels on purpose (some processors need a
   // particular choice); leave it alone.
-  if (std::getenv("OPENBLAS_CORETYPE") != nullptr || std::getenv("OPENBLAS_L2_SIZE") != nullptr ||
-      argv == nullptr) {
-    return;
+  if (std::getenv("OPENBLAS_CORETYPE") == nullptr && std::getenv("OPENBLAS_L2_SIZE") == nullptr) {
+    const std::string better = better_blas_core(blas_core_name());
+    if (!better.empty()) settings.emplace_back("OPENBLAS_CORETYPE", better);
   }
-  const std::string better = better_blas_core(blas_core_name());
-  if (better.empty()) return;
-  if (setenv("OPENBLAS_CORETYPE", better.c_str(), 1) != 0) return;
-  execv("/proc/self/exe", argv);
-  // Still here: the re-execution failed; carry on with the kernels OpenBLAS chose.
+  if (std::getenv("OMP_THREAD_LIMIT") == nullptr && blas_threading() == BlasThreading::kOpenMp) {
+    // The processors online, not those this process is bound to: a thread count fixed by the
+    // program (a sweep's --threads) then gets the same team, and the same bits, on any binding.
+    const long n_processors = sysconf(_SC_NPROCESSORS_ONLN);
+    settings.emplace_back("OMP_THREAD_LIMIT", std::to_string(n_processors > 0 ? n_processors : 1));
+  }
+  // libgomp's waiting threads spin (by default some 300 000 rounds) before they sleep, and never
+  // give their core away meanwhile. On cores shared with other programs the thread that has the
+  // work then waits for the spinner's time slice: the standard incisor's factorisation took 41 s
+  // instead of 5 to 8 at a load of 6 on two cores (docs/fem-solver.md, "Speed"). Waiting threads
+  // that sleep at once cost a wake-up per parallel region instead. A choice the user made is kept.
+  if (std::getenv("OMP_WAIT_POLICY") == nullptr && std::getenv("GOMP_SPINCOUNT") == nullptr &&
+      blas_threading() == BlasThreading::kOpenMp) {
+    settings.emplace_back("OMP_WAIT_POLICY", "passive");
+  }
+  return settings;
+}
+
+void note_other_blas() {
+  const BlasThreading threading = blas_threading();
+  if (threading == BlasThreading::kOpenMp) return;
+  const char* which = threading == BlasThreading::kNotOpenBlas ? "a BLAS other than OpenBLAS"
+                      : threading == BlasThreading::kSerial    ? "the serial OpenBLAS"
+                                                               : "the pthreads OpenBLAS";
+  std::fprintf(stderr,
+               "note: running on %s, not the OpenMP-threaded OpenBLAS (Debian package "
+               "libopenblas0-openmp): same results, more system time\n",
+               which);
+}
+
+}  // namespace
+
+void use_fast_blas_kernels(char** argv) {
+  if (argv == nullptr) return;
+  bool changed = false;
+  for (const auto& [name, value] : settings_for_restart())
+    changed = setenv(name.c_str(), value.c_str(), 1) == 0 || changed;
+  if (changed) execv("/proc/self/exe", argv);
+  // Not restarted (nothing to change, or the re-execution failed): carry on as loaded.
+  note_other_blas();
 }
 
 }  // namespace sharpey::startup
