@@ -13,6 +13,7 @@
 #include "detail/model_mesher.h"
 #include "detail/planar_triangulation.h"
 #include "multi_root_hull.h"
+#include "multi_root_lesion_loops.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/multi_root_tooth.h"
@@ -148,6 +149,8 @@ class Builder {
     return !(o[i] && o[(i + 1) % o.size()]);
   }
   void partial_lesion_columns();
+  void partial_lesion_loops(const std::vector<std::vector<int>>& label,
+                            const std::vector<Eigen::Vector2d>& direction);
   // Index of root r's ring at depth t below the furcation plane (one lies there exactly).
   size_t ring_level(size_t r, double t) const {
     const std::vector<double>& d = ring_t_[r];
@@ -193,10 +196,10 @@ class Builder {
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
   bool lesion_ = false, partial_ = false;
   std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
-  // Partial: per hull edge k (order_[k] -> order_[k + 1]), whether a lesion enters there and
-  // where it ends on those two roots (vertex indices).
-  std::array<bool, 2> entrance_{false, false};
-  std::array<int, 2> stop_p_{0, 0}, stop_q_{0, 0};
+  // Partial: the roof's inner loop (root, ring index of each point) split into the lesions' and
+  // the septum's loops (multi_root_lesion_loops.h).
+  std::vector<std::array<int, 2>> inner_loop_;
+  detail::InnerLoopSplit split_;
   double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
   std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
   std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
@@ -464,17 +467,22 @@ void Builder::classify_hull() {
   if (partial_) partial_lesion_columns();
 }
 
-// Degree I or II: the entrance's hull edge (the one facing the probing direction), and the inner
+// Degree I or II: each entrance's hull edge (the one facing its probing direction) and the inner
 // columns whose foot-level midpoint lies within the horizontal depth of the entrance (measured
-// from the roots' hull along the probing direction, as the thin layer does), contiguous from the
-// entrance on each of its two roots.
+// from the roots' hull along the probing direction, as the thin layer does), on every root; a
+// hull edge belongs to a lesion when its midpoint does, and so do the two columns beside it (the
+// lesion opens to that side of the furcation, or stays behind it, on both roots alike).
 void Builder::partial_lesion_columns() {
   const FurcationInvolvement& f = bone_.furcation;
   const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
+  const int R = static_cast<int>(order_.size());
   auto foot = [&](int r, int i) {
     const int n = static_cast<int>(top_[r].size());
     return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
   };
+  std::vector<std::vector<int>> label(top_.size());
+  for (size_t r = 0; r < top_.size(); ++r) label[r].assign(top_[r].size(), -1);
+  std::vector<Eigen::Vector2d> direction(R, Eigen::Vector2d::Zero());
   for (FurcationEntrance e : f.entrances) {
     const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
                               : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
@@ -484,30 +492,60 @@ void Builder::partial_lesion_columns() {
     for (size_t r = 0; r < top_.size(); ++r)
       for (size_t i = 0; i < top_[r].size(); ++i)
         support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
-    auto in_lesion = [&](int r, int c) {
-      return top_[r][c] == 0 && support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
+    auto within = [&](const Eigen::Vector2d& p) { return support - p.dot(d) <= depth; };
+    // The entrance: the hull edge whose midpoint lies farthest along d.
+    auto hull_mid = [&](int k) {
+      const int P = order_[k], Q = order_[(k + 1) % R];
+      return (0.5 * (foot(P, arc_end_[P]) + foot(Q, arc_start_[Q]))).eval();
     };
-    const int P0 = order_[0], Q0 = order_[1];
-    const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
-    const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
-    const int k = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
-    const int P = order_[k], Q = order_[(k + 1) % 2];
-    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
-    int c = arc_end_[P];
-    for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
-    stop_p_[k] = c;
-    c = (arc_start_[Q] + nq - 1) % nq;
-    for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
-    stop_q_[k] = (c + 1) % nq;
-    entrance_[k] = true;
-    if (!inner_column(P, stop_p_[k]) || top_[P][stop_p_[k]] != 0 ||
-        !inner_column(Q, (stop_q_[k] + nq - 1) % nq) || top_[Q][(stop_q_[k] + nq - 1) % nq] != 0 ||
-        (stop_p_[k] == arc_end_[P] && stop_q_[k] == arc_start_[Q]))
-      throw MeshError("meshing the furcation lesion: its horizontal depth " +
-                      std::to_string(depth) +
-                      " mm covers none or all of the roots' inner faces on the mesh's rings (or "
-                      "two lesions meet); change horizontal_mm a little, or use degree III");
+    int k = 0;
+    for (int j = 1; j < R; ++j)
+      if (hull_mid(j).dot(d) > hull_mid(k).dot(d)) k = j;
+    direction[k] = d;
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (int c = 0; c < static_cast<int>(top_[r].size()); ++c)
+        if (inner_column(r, c) && within(0.5 * (foot(r, c) + foot(r, c + 1))))
+          label[r][c] = label[r][c] < 0 ? k : R;  // R: two lesions meet (split_inner_loop)
+    for (int j = 0; j < R; ++j) {
+      const int P = order_[j], Q = order_[(j + 1) % R], nq = static_cast<int>(top_[Q].size());
+      int& p = label[P][arc_end_[P]];
+      int& q = label[Q][(arc_start_[Q] + nq - 1) % nq];
+      if (within(hull_mid(j)) || j == k) {
+        p = q = k;
+      } else {
+        p = p == k ? -1 : p;
+        q = q == k ? -1 : q;
+      }
+    }
   }
+  for (size_t r = 0; r < top_.size(); ++r)
+    for (size_t c = 0; c < top_[r].size(); ++c)
+      if (label[r][c] >= 0) top_[r][c] = t_in_;
+  partial_lesion_loops(label, direction);
+}
+
+// The roof's inner loop (each root's inner arc in the reverse of the roots' order, joined along
+// the hull) with its edges' labels, split into the lesions' and the septum's loops; a lesion's
+// loop starts where it enters (its hull edge's end on order_[k]).
+void Builder::partial_lesion_loops(const std::vector<std::vector<int>>& label,
+                                   const std::vector<Eigen::Vector2d>& direction) {
+  const int R = static_cast<int>(order_.size());
+  std::vector<Eigen::Vector2d> pts;
+  std::vector<int> edge_label, entry(R, -1);
+  for (int k = R; k-- > 0;) {
+    const int r = order_[k], n = static_cast<int>(top_[r].size());
+    for (int i = arc_end_[r];; i = (i + 1) % n) {
+      if (i == arc_end_[r]) entry[k] = static_cast<int>(pts.size());
+      inner_loop_.push_back({r, i});
+      pts.push_back(root_ring_point(tooth_.roots[r], 0.0, i, n));
+      // Column i, then (at the arc's start) the hull edge, labelled as the column before it.
+      edge_label.push_back(label[r][i == arc_start_[r] ? (i + n - 1) % n : i]);
+      if (i == arc_start_[r]) break;
+    }
+  }
+  for (int& l : edge_label)
+    if (l >= R) throw MeshError("meshing the furcation lesion: two lesions meet; use degree III");
+  split_ = detail::split_inner_loop(pts, edge_label, direction, entry);
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
@@ -559,30 +597,14 @@ void Builder::furcation_roof(const std::vector<int>& rim,
     roof_domain({inner}, kRootSurface);
     return;
   }
-  // Degree I or II: free from each entrance to the lesion's end on its two roots, attached
-  // beyond (the septum's loop: each root's inner arc less its lesions, in the inner loop's order).
-  auto arc = [&](int r, int from, int to, std::vector<int>* out) {
-    const int n = static_cast<int>(feet[r].size());
-    for (int i = from;; i = (i + 1) % n) {
-      out->push_back(feet[r][i]);
-      if (i == to) break;
-    }
+  // Degree I or II: each lesion's loop free, the septum's loops attached.
+  auto ids = [&](const std::vector<int>& loop) {
+    std::vector<int> out;
+    for (int m : loop) out.push_back(feet[inner_loop_[m][0]][inner_loop_[m][1]]);
+    return out;
   };
-  std::vector<int> septum;
-  for (int k = 1; k >= 0; --k) {
-    const int r = order_[k], before = 1 - k;  // hull edge `before` ends at r's arc start
-    arc(r, entrance_[k] ? stop_p_[k] : arc_end_[r],
-        entrance_[before] ? stop_q_[before] : arc_start_[r], &septum);
-  }
-  for (int k = 0; k < 2; ++k) {
-    if (!entrance_[k]) continue;
-    const int P = order_[k], Q = order_[1 - k];
-    std::vector<int> lesion;
-    arc(P, arc_end_[P], stop_p_[k], &lesion);
-    arc(Q, stop_q_[k], arc_start_[Q], &lesion);
-    roof_domain({lesion}, kExposedRoot);
-  }
-  roof_domain({septum}, kRootSurface);
+  for (const std::vector<int>& loop : split_.lesion_loops) roof_domain({ids(loop)}, kExposedRoot);
+  for (const std::vector<int>& loop : split_.septum_loops) roof_domain({ids(loop)}, kRootSurface);
 }
 
 // Roof triangles in the domain bounded by the outlines (the first the outer boundary, the others
@@ -862,18 +884,26 @@ void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
     return;
   }
   const auto& x = points_.points();
-  for (int k = 0; k < 2; ++k) {
-    if (!entrance_[k]) continue;
-    const int P = order_[k], Q = order_[1 - k];
+  auto column = [&](int m) {  // socket points from the septum's top up to the roof
+    const auto [r, i] = inner_loop_[m];
+    std::vector<int> c;
+    for (size_t j = level(r, t_in_) + 1; j-- > 0;) c.push_back(socket(rings_[r][j][i]));
+    return c;
+  };
+  for (size_t l = 0; l < split_.lesion_loops.size(); ++l) {
     floors_.emplace_back();
-    arc(P, arc_end_[P], stop_p_[k], &floors_.back());
-    arc(Q, stop_q_[k], arc_start_[Q], &floors_.back());
-    std::vector<int> p, q;
-    for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_[k]]));
-    for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_[k]]));
-    walls_.push_back(Wall{p, q, x[rings_[P][0][arc_end_[P]]]});  // facing the entrance
-    free_strip(rings_[P][0][stop_p_[k]], rings_[Q][0][stop_q_[k]], -Eigen::Vector3d::UnitZ(),
-               layer);
+    for (int m : split_.lesion_loops[l])
+      floors_.back().push_back(
+          socket(rings_[inner_loop_[m][0]][level(inner_loop_[m][0], t_in_)][inner_loop_[m][1]]));
+    for (const auto& [a, b] : split_.cuts[l]) {
+      // The back wall faces the lesion (on lesion_side of a -> b at the roof).
+      const Eigen::Vector3d pa = x[rings_[inner_loop_[a][0]][0][inner_loop_[a][1]]];
+      const Eigen::Vector3d pb = x[rings_[inner_loop_[b][0]][0][inner_loop_[b][1]]];
+      const Eigen::Vector3d left(pa.y() - pb.y(), pb.x() - pa.x(), 0);
+      walls_.push_back(Wall{column(a), column(b), 0.5 * (pa + pb) + split_.lesion_side[l] * left});
+      free_strip(rings_[inner_loop_[a][0]][0][inner_loop_[a][1]],
+                 rings_[inner_loop_[b][0]][0][inner_loop_[b][1]], -Eigen::Vector3d::UnitZ(), layer);
+    }
   }
 }
 
@@ -1108,6 +1138,47 @@ std::string mm(double v) {
 }
 }  // namespace
 
+// Degree I or II on a three-rooted tooth: how deep (mm, from the entrance along its probing
+// direction, as the thin layer measures) a lesion can reach while its back edge runs across the
+// furcation from one of the entrance's two roots to the other: up to the third root, and up to
+// where the roots' hull leaves either of the two for the third (deeper, the back edge would end on
+// the hull's other sides, which the mesh does not split). Feet sampled at 360 points each.
+double partial_lesion_reach_mm(const MultiRootTooth& tooth, FurcationEntrance entrance) {
+  std::vector<detail::HullPoint> pts;
+  for (size_t r = 0; r < tooth.roots.size(); ++r) {
+    const RootSpec& spec = tooth.roots[r];
+    for (int i = 0; i < 360; ++i)
+      pts.push_back({Eigen::Vector2d(spec.foot_x_mm, spec.foot_y_mm) +
+                         root_section_offset(spec, 2 * kPi * i / 360),
+                     static_cast<int>(r)});
+  }
+  const std::vector<detail::HullPoint> hull = detail::convex_hull(pts);
+  const Eigen::Vector2d d = entrance == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
+                            : entrance == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
+                            : entrance == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
+                                                                      : Eigen::Vector2d(0, -1);
+  double support = -1e300;
+  for (const detail::HullPoint& h : hull) support = std::max(support, h.p.dot(d));
+  const size_t H = hull.size();
+  size_t best = H;  // the entrance: the edge between two roots whose midpoint lies farthest along d
+  for (size_t i = 0; i < H; ++i)
+    if (hull[i].root != hull[(i + 1) % H].root &&
+        (best == H ||
+         (hull[i].p + hull[(i + 1) % H].p).dot(d) > (hull[best].p + hull[(best + 1) % H].p).dot(d)))
+      best = i;
+  const int a = hull[best].root, b = hull[(best + 1) % H].root;
+  double reach = 1e300;
+  for (const detail::HullPoint& q : pts)
+    if (q.root != a && q.root != b) reach = std::min(reach, support - q.p.dot(d));
+  for (size_t i = 0; i < H; ++i) {
+    const detail::HullPoint &p = hull[i], &q = hull[(i + 1) % H];
+    if (i == best || p.root == q.root) continue;
+    if (p.root == a || p.root == b) reach = std::min(reach, support - p.p.dot(d));
+    if (q.root == a || q.root == b) reach = std::min(reach, support - q.p.dot(d));
+  }
+  return reach;
+}
+
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
@@ -1124,14 +1195,29 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
                          "(finite_elements false) for this scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
-      (tooth.roots.size() != 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
+      (tooth.roots.size() < 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
        gap > 0))
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree I and II furcation lesions only on the "
-                     "mandibular molars, with the outer crest below the "
-                     "furcation plane (the two-rooted premolar's narrow roof gave inverted "
-                     "elements); use the thin-layer estimate (finite_elements false) for this "
-                     "scenario");
+                     "molars, with the outer crest below the furcation plane (the two-rooted "
+                     "premolar's narrow roof gave inverted elements); use the thin-layer estimate "
+                     "(finite_elements false) for this scenario");
+  if ((degree == 1 || degree == 2) && bone.septum_to_roof && tooth.roots.size() == 3)
+    for (FurcationEntrance e : bone.furcation.entrances) {
+      const double reach = partial_lesion_reach_mm(tooth, e);
+      const double depth = bone.furcation.horizontal_mm > 0 ? bone.furcation.horizontal_mm
+                                                            : (degree == 1 ? 2.0 : 4.0);
+      if (depth > reach)
+        throw InputError("furcation.horizontal_mm",
+                         "on this " + to_string(tooth.type) +
+                             " the multi-rooted mesh covers a furcation lesion from the " +
+                             to_string(e) + " entrance up to " + mm(reach) + " deep (here " +
+                             mm(depth) +
+                             "): deeper, the lesion's back edge would end on the roots' hull "
+                             "between another pair of roots, which the mesh does not split yet; "
+                             "use at most " +
+                             mm(reach) + ", or the thin-layer estimate (finite_elements false)");
+    }
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "
