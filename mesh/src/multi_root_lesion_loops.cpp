@@ -104,7 +104,9 @@ InnerLoopSplit split_once(const std::vector<Eigen::Vector2d>& loop,
       s.cuts.emplace_back();
       s.lesion_loops.push_back(walk(start, L, edge_label, partner, &used, &s.cuts.back()));
       s.lesion_label.push_back(L);
-      s.lesion_side.push_back(signed_area(loop, s.lesion_loops.back()) > 0 ? 1 : -1);
+      const double area = signed_area(loop, s.lesion_loops.back());
+      s.lesion_side.push_back(area > 0 ? 1 : -1);
+      s.lesion_area_mm2.push_back(std::abs(area));
     }
   }
   for (int m = 0; m < M; ++m)

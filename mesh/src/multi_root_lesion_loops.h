@@ -19,6 +19,7 @@ struct InnerLoopSplit {
   // resumes at b; the lesion lies on lesion_side (+1 left, -1 right) of a -> b.
   std::vector<std::vector<std::array<int, 2>>> cuts;
   std::vector<int> lesion_side;
+  std::vector<double> lesion_area_mm2;  // enclosed by each lesion loop
 };
 
 // loop: the inner loop's points (mm, in the plane; closed, counter-clockwise or not);

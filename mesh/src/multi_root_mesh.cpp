@@ -151,6 +151,9 @@ class Builder {
   void partial_lesion_columns();
   void partial_lesion_loops(const std::vector<std::vector<int>>& label,
                             const std::vector<Eigen::Vector2d>& direction);
+  void split_hull_edges(const std::vector<std::vector<int>>& label,
+                        const std::vector<Eigen::Vector2d>& direction,
+                        const std::vector<double>& level);
   // Index of root r's ring at depth t below the furcation plane (one lies there exactly).
   size_t ring_level(size_t r, double t) const {
     const std::vector<double>& d = ring_t_[r];
@@ -198,8 +201,32 @@ class Builder {
   std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
   // Partial: the roof's inner loop (root, ring index of each point) split into the lesions' and
   // the septum's loops (multi_root_lesion_loops.h).
+  // ring index i of root r as {r, i}, a hull edge's split point as {-1, k}.
   std::vector<std::array<int, 2>> inner_loop_;
   detail::InnerLoopSplit split_;
+  // Per hull edge k: where a lesion's back edge crosses it (when the lesion holds one end of the
+  // edge only): the roof point, and the bone's column below its socket point (bottom to top,
+  // with the depths below the furcation plane, the socket point's as 0).
+  struct HullSplit {
+    bool active = false;
+    int roof = -1;
+    double s = 0.5;  // along the edge, from order_[k]'s arc end
+    Eigen::Vector2d xy = Eigen::Vector2d::Zero();
+    std::vector<int> column;
+    std::vector<double> column_t;
+  };
+  std::vector<HullSplit> hull_split_;
+  std::vector<int> entry_;  // per lesion label: its loop's first point in inner_loop_
+  std::vector<int> hull_column(int k, double t1, double t2) const;
+  void split_columns(const std::map<int, std::vector<int>>& layer);
+  std::vector<int> socket_column(size_t r, int b, double t1, double t2,
+                                 const std::map<int, std::vector<int>>& layer) const;
+  void hull_edge_walls(size_t k, const Eigen::Vector3d& centre,
+                       const std::map<int, std::vector<int>>& layer);
+  int roof_vertex(int m) const {
+    const auto& v = inner_loop_[m];
+    return v[0] >= 0 ? rings_[v[0]][0][v[1]] : hull_split_[v[1]].roof;
+  }
   double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
   std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
   std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
@@ -483,6 +510,7 @@ void Builder::partial_lesion_columns() {
   std::vector<std::vector<int>> label(top_.size());
   for (size_t r = 0; r < top_.size(); ++r) label[r].assign(top_[r].size(), -1);
   std::vector<Eigen::Vector2d> direction(R, Eigen::Vector2d::Zero());
+  std::vector<double> level(R, 0.0);  // the back edge's line: p . direction = level
   for (FurcationEntrance e : f.entrances) {
     const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
                               : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
@@ -492,7 +520,6 @@ void Builder::partial_lesion_columns() {
     for (size_t r = 0; r < top_.size(); ++r)
       for (size_t i = 0; i < top_[r].size(); ++i)
         support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
-    auto within = [&](const Eigen::Vector2d& p) { return support - p.dot(d) <= depth; };
     // The entrance: the hull edge whose midpoint lies farthest along d.
     auto hull_mid = [&](int k) {
       const int P = order_[k], Q = order_[(k + 1) % R];
@@ -502,26 +529,95 @@ void Builder::partial_lesion_columns() {
     for (int j = 1; j < R; ++j)
       if (hull_mid(j).dot(d) > hull_mid(k).dot(d)) k = j;
     direction[k] = d;
+    // Where the back edge's line runs along a root's face (within 30 degrees) closer than two
+    // ligament widths beyond it, or passes within two widths of a root's tip, the septum's strip
+    // there would be thinner than the socket's layer and the back wall would cut into it: the
+    // face or tip goes into the lesion and the line moves two widths past it (a few passes, as the
+    // moved line may meet another face).
+    const double clear = 2 * bone_.pdl.crest_width_mm;
+    double reach = depth;
+    for (int pass = 0; pass < 4; ++pass) {
+      double deeper = reach;
+      for (size_t r = 0; r < top_.size(); ++r)
+        for (int c = 0; c < static_cast<int>(top_[r].size()); ++c) {
+          const Eigen::Vector2d p = foot(r, c), q = foot(r, c + 1);
+          const double mid = support - 0.5 * (p + q).dot(d);
+          if (inner_column(r, c) && mid > reach && mid <= reach + clear &&
+              std::abs((q - p).normalized().dot(d)) < 0.5)
+            deeper = std::max(deeper, support - std::min(p.dot(d), q.dot(d)) + clear);
+          // A root's tip (deepest or shallowest point of its ring along d) within two widths of
+          // the line, on either side: the back wall would graze it.
+          const Eigen::Vector2d o = foot(r, c - 1);
+          const double tip = support - p.dot(d);
+          const bool extreme = (o.dot(d) - p.dot(d)) * (q.dot(d) - p.dot(d)) > 0;
+          const int n = static_cast<int>(top_[r].size());
+          if (inner_column(r, c) && inner_column(r, (c + n - 1) % n) && extreme &&
+              std::abs(tip - reach) < clear)
+            deeper = std::max(deeper, tip + clear);
+        }
+      if (deeper == reach) break;
+      reach = deeper;
+    }
+    auto within = [&](const Eigen::Vector2d& p) { return support - p.dot(d) <= reach; };
     for (size_t r = 0; r < top_.size(); ++r)
       for (int c = 0; c < static_cast<int>(top_[r].size()); ++c)
         if (inner_column(r, c) && within(0.5 * (foot(r, c) + foot(r, c + 1))))
           label[r][c] = label[r][c] < 0 ? k : R;  // R: two lesions meet (split_inner_loop)
-    for (int j = 0; j < R; ++j) {
-      const int P = order_[j], Q = order_[(j + 1) % R], nq = static_cast<int>(top_[Q].size());
-      int& p = label[P][arc_end_[P]];
-      int& q = label[Q][(arc_start_[Q] + nq - 1) % nq];
-      if (within(hull_mid(j)) || j == k) {
-        p = q = k;
-      } else {
-        p = p == k ? -1 : p;
-        q = q == k ? -1 : q;
-      }
+    level[k] = support - reach;
+    // The lesion enters at its hull edge on both roots.
+    const int P = order_[k], Q = order_[(k + 1) % R], nq = static_cast<int>(top_[Q].size());
+    label[P][arc_end_[P]] = label[Q][(arc_start_[Q] + nq - 1) % nq] = k;
+  }
+  // A piece of a lesion cut off beside a hull edge or a root (the back edge's line crossing the
+  // roof twice there) smaller than kMinPiece of roof goes to the septum: its walls would pass
+  // within a socket's width of the roots.
+  constexpr double kMinPiece = 0.5;  // mm^2
+  for (int pass = 0;; ++pass) {
+    split_hull_edges(label, direction, level);
+    partial_lesion_loops(label, direction);
+    bool changed = false;
+    for (size_t l = 0; l < split_.lesion_loops.size(); ++l) {
+      const std::vector<int>& loop = split_.lesion_loops[l];
+      if (split_.lesion_area_mm2[l] >= kMinPiece || pass > 3 ||
+          std::find(loop.begin(), loop.end(), entry_[split_.lesion_label[l]]) != loop.end())
+        continue;
+      for (int m : loop)
+        if (inner_loop_[m][0] >= 0) label[inner_loop_[m][0]][inner_loop_[m][1]] = -1;
+      changed = true;
     }
+    if (!changed) break;
   }
   for (size_t r = 0; r < top_.size(); ++r)
     for (size_t c = 0; c < top_[r].size(); ++c)
       if (label[r][c] >= 0) top_[r][c] = t_in_;
-  partial_lesion_loops(label, direction);
+  for (HullSplit& h : hull_split_)
+    if (h.active) h.roof = add({h.xy.x(), h.xy.y(), -tooth_.trunk_length_mm}, kRoofPart);
+}
+
+// A hull edge whose two columns differ (a lesion on one root's side only): the lesion's back edge
+// crosses it where the line p . direction = level does (kept 15 % of the edge from either end), a
+// new roof point there.
+void Builder::split_hull_edges(const std::vector<std::vector<int>>& label,
+                               const std::vector<Eigen::Vector2d>& direction,
+                               const std::vector<double>& level) {
+  const int R = static_cast<int>(order_.size());
+  hull_split_.assign(R, HullSplit{});
+  for (int j = 0; j < R; ++j) {
+    const int P = order_[j], Q = order_[(j + 1) % R];
+    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
+    const int lp = label[P][arc_end_[P]], lq = label[Q][(arc_start_[Q] + nq - 1) % nq];
+    if (lp == lq) continue;
+    if (lp >= 0 && lq >= 0)
+      throw MeshError("meshing the furcation lesion: two lesions meet on the roots' hull");
+    const int L = std::max(lp, lq);
+    const Eigen::Vector2d a = root_ring_point(tooth_.roots[P], 0.0, arc_end_[P], np);
+    const Eigen::Vector2d b = root_ring_point(tooth_.roots[Q], 0.0, arc_start_[Q], nq);
+    const double along = (b - a).dot(direction[L]);
+    const double s = std::abs(along) < 1e-9 ? 0.5 : (level[L] - a.dot(direction[L])) / along;
+    hull_split_[j].active = true;
+    hull_split_[j].s = std::clamp(s, 0.15, 0.85);
+    hull_split_[j].xy = a + hull_split_[j].s * (b - a);
+  }
 }
 
 // The roof's inner loop (each root's inner arc in the reverse of the roots' order, joined along
@@ -532,20 +628,117 @@ void Builder::partial_lesion_loops(const std::vector<std::vector<int>>& label,
   const int R = static_cast<int>(order_.size());
   std::vector<Eigen::Vector2d> pts;
   std::vector<int> edge_label, entry(R, -1);
+  inner_loop_.clear();
   for (int k = R; k-- > 0;) {
     const int r = order_[k], n = static_cast<int>(top_[r].size());
     for (int i = arc_end_[r];; i = (i + 1) % n) {
       if (i == arc_end_[r]) entry[k] = static_cast<int>(pts.size());
       inner_loop_.push_back({r, i});
       pts.push_back(root_ring_point(tooth_.roots[r], 0.0, i, n));
-      // Column i, then (at the arc's start) the hull edge, labelled as the column before it.
+      // Column i, then (at the arc's start) the hull edge, labelled as the column before it up
+      // to its split point, as the next root's last column beyond.
       edge_label.push_back(label[r][i == arc_start_[r] ? (i + n - 1) % n : i]);
       if (i == arc_start_[r]) break;
+    }
+    const int j = (k + R - 1) % R;  // the hull edge from order_[j]'s arc end to r's arc start
+    if (hull_split_[j].active) {
+      inner_loop_.push_back({-1, j});
+      pts.push_back(hull_split_[j].xy);
+      edge_label.push_back(label[order_[j]][arc_end_[order_[j]]]);
     }
   }
   for (int& l : edge_label)
     if (l >= R) throw MeshError("meshing the furcation lesion: two lesions meet; use degree III");
   split_ = detail::split_inner_loop(pts, edge_label, direction, entry);
+  entry_ = entry;
+}
+
+// Socket points of root r's vertex b between depths t1 and t2 below the furcation plane, bottom
+// to top.
+std::vector<int> Builder::socket_column(size_t r, int b, double t1, double t2,
+                                        const std::map<int, std::vector<int>>& layer) const {
+  std::vector<int> c;
+  const size_t j1 = ring_level(r, t1), j2 = ring_level(r, t2);
+  for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
+    c.push_back(layer.at(rings_[r][j][b])[layers_]);
+  return c;
+}
+
+// The bone's column below a hull edge's split point: at the depths of the roots' rings down to
+// the lower of the crest and the septum's top, each point on the segment joining the two roots'
+// ring points there at the split's fraction (the roots diverge: a vertical column would run into
+// one of them), topped by the split point's socket point.
+void Builder::split_columns(const std::map<int, std::vector<int>>& layer) {
+  const double bottom = std::max(t_in_, t_out_);
+  const int R = static_cast<int>(order_.size());
+  const auto& x = points_.points();
+  for (int k = 0; k < R; ++k) {
+    HullSplit& h = hull_split_[k];
+    if (h.roof < 0) continue;
+    const int top = layer.at(h.roof)[layers_];
+    const int P = order_[k], Q = order_[(k + 1) % R];
+    const std::vector<double>& depths = ring_t_[P];
+    for (size_t j = depths.size(); j-- > 1;) {
+      if (depths[j] > bottom + 1e-12) continue;
+      const Eigen::Vector3d a = x[rings_[P][j][arc_end_[P]]];
+      const Eigen::Vector3d b = x[rings_[Q][ring_level(Q, depths[j])][arc_start_[Q]]];
+      h.column.push_back(add(a + h.s * (b - a), INT_MIN));
+      h.column_t.push_back(depths[j]);
+    }
+    h.column.push_back(top);
+    h.column_t.push_back(0.0);
+  }
+}
+
+// Hull edge k's split column between depths t1 and t2 (0: its socket point), bottom to top.
+std::vector<int> Builder::hull_column(int k, double t1, double t2) const {
+  const HullSplit& h = hull_split_[k];
+  std::vector<int> c;
+  for (size_t j = 0; j < h.column.size(); ++j)
+    if (h.column_t[j] >= std::min(t1, t2) - 1e-12 && h.column_t[j] <= std::max(t1, t2) + 1e-12)
+      c.push_back(h.column[j]);
+  return c;
+}
+
+// Hull edge k (order_[k]'s arc end to the next root's arc start): the socket's crest loop along
+// order_[k]'s outer arc (and the edge's split point), the wall of bone from the crest to the
+// columns' tops facing the lower side (two walls, meeting at the split column, when a lesion holds
+// one end only), and the roof's PDL ending along the part where the septum reaches the roof.
+void Builder::hull_edge_walls(size_t k, const Eigen::Vector3d& centre,
+                              const std::map<int, std::vector<int>>& layer) {
+  const auto& x = points_.points();
+  const size_t R = order_.size();
+  const size_t r = order_[k], r2 = order_[(k + 1) % R];
+  const std::vector<int>& ring_c = rings_[r][ring_level(r, t_out_)];
+  const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
+  for (int i = arc_start_[r];; i = (i + 1) % n) {
+    outer_top_.push_back(layer.at(ring_c[i])[layers_]);
+    if (i == arc_end_[r]) break;
+  }
+  const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
+  const int foot_a = rings_[r][0][arc_end_[r]], foot_b = rings_[r2][0][arc_start_[r2]];
+  auto wall = [&](std::vector<int> p, std::vector<int> q, double t) {
+    Wall w{std::move(p), std::move(q), centre};
+    if (t < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
+    walls_.push_back(w);
+  };
+  const bool split = partial_ && hull_split_[k].roof >= 0;
+  if (!split) {
+    if (t_a != t_b)
+      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
+    wall(socket_column(r, arc_end_[r], t_out_, t_a, layer),
+         socket_column(r2, arc_start_[r2], t_out_, t_a, layer), t_a);
+    if (t_a == 0)  // the roof's PDL ends along the hull edge
+      free_strip(foot_a, foot_b, -Eigen::Vector3d::UnitZ(), layer);
+    return;
+  }
+  const int c = hull_split_[k].roof;
+  outer_top_.push_back(hull_column(static_cast<int>(k), t_out_, t_out_).front());
+  wall(socket_column(r, arc_end_[r], t_out_, t_a, layer),
+       hull_column(static_cast<int>(k), t_out_, t_a), t_a);
+  wall(hull_column(static_cast<int>(k), t_out_, t_b),
+       socket_column(r2, arc_start_[r2], t_out_, t_b, layer), t_b);
+  free_strip(t_a == 0 ? foot_a : foot_b, c, -Eigen::Vector3d::UnitZ(), layer);
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
@@ -578,12 +771,13 @@ void Builder::furcation_roof(const std::vector<int>& rim,
   // The septum at the roof under a crest below it: attached inside the roots' hull (the feet's
   // inner arcs joined along the hull), free outside it.
   std::vector<int> outer, inner;
-  for (int r : order_) {
-    const int n = static_cast<int>(feet[r].size());
+  for (size_t k = 0; k < order_.size(); ++k) {
+    const int r = order_[k], n = static_cast<int>(feet[r].size());
     for (int i = arc_start_[r];; i = (i + 1) % n) {
       outer.push_back(feet[r][i]);
       if (i == arc_end_[r]) break;
     }
+    if (partial_ && hull_split_[k].roof >= 0) outer.push_back(hull_split_[k].roof);
   }
   for (size_t k = order_.size(); k-- > 0;) {
     const int r = order_[k], n = static_cast<int>(feet[r].size());
@@ -600,7 +794,7 @@ void Builder::furcation_roof(const std::vector<int>& rim,
   // Degree I or II: each lesion's loop free, the septum's loops attached.
   auto ids = [&](const std::vector<int>& loop) {
     std::vector<int> out;
-    for (int m : loop) out.push_back(feet[inner_loop_[m][0]][inner_loop_[m][1]]);
+    for (int m : loop) out.push_back(roof_vertex(m));
     return out;
   };
   for (const std::vector<int>& loop : split_.lesion_loops) roof_domain({ids(loop)}, kExposedRoot);
@@ -809,15 +1003,6 @@ void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
 void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   const auto& x = points_.points();
   auto level = [&](size_t r, double t) { return ring_level(r, t); };
-  auto socket = [&](int v) { return layer.at(v)[layers_]; };
-  // Socket points of root r's vertex b between depths t1 and t2, bottom to top.
-  auto column = [&](size_t r, int b, double t1, double t2) {
-    std::vector<int> c;
-    const size_t j1 = level(r, t1), j2 = level(r, t2);
-    for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
-      c.push_back(socket(rings_[r][j][b]));
-    return c;
-  };
   for (size_t r = 0; r < rings_.size(); ++r) {
     const std::vector<std::vector<int>>& R = rings_[r];
     const std::vector<double>& top = top_[r];
@@ -839,25 +1024,8 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   Eigen::Vector3d centre = Eigen::Vector3d::Zero();
   for (const RootSpec& spec : tooth_.roots)
     centre += Eigen::Vector3d(spec.foot_x_mm, spec.foot_y_mm, 0) / tooth_.roots.size();
-  const size_t R = order_.size();
-  for (size_t k = 0; k < R; ++k) {
-    const size_t r = order_[k], r2 = order_[(k + 1) % R];
-    const std::vector<int>& ring_c = rings_[r][level(r, t_out_)];
-    const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
-    for (int i = arc_start_[r];; i = (i + 1) % n) {
-      outer_top_.push_back(socket(ring_c[i]));
-      if (i == arc_end_[r]) break;
-    }
-    const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
-    if (t_a != t_b)
-      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
-    Wall w{column(r, arc_end_[r], t_out_, t_a), column(r2, arc_start_[r2], t_out_, t_a), centre};
-    if (t_a < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
-    walls_.push_back(w);
-    if (t_a == 0)  // the roof's PDL ends along the hull edge
-      free_strip(rings_[r][0][arc_end_[r]], rings_[r2][0][arc_start_[r2]],
-                 -Eigen::Vector3d::UnitZ(), layer);
-  }
+  if (partial_) split_columns(layer);
+  for (size_t k = 0; k < order_.size(); ++k) hull_edge_walls(k, centre, layer);
   lesion_floor(layer);
 }
 
@@ -884,25 +1052,21 @@ void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
     return;
   }
   const auto& x = points_.points();
-  auto column = [&](int m) {  // socket points from the septum's top up to the roof
+  // Socket (or bone) points from the septum's top up to depth t (0: the roof).
+  auto column = [&](int m, double t) {
     const auto [r, i] = inner_loop_[m];
-    std::vector<int> c;
-    for (size_t j = level(r, t_in_) + 1; j-- > 0;) c.push_back(socket(rings_[r][j][i]));
-    return c;
+    return r >= 0 ? socket_column(r, i, t_in_, t, layer) : hull_column(i, t_in_, t);
   };
   for (size_t l = 0; l < split_.lesion_loops.size(); ++l) {
     floors_.emplace_back();
-    for (int m : split_.lesion_loops[l])
-      floors_.back().push_back(
-          socket(rings_[inner_loop_[m][0]][level(inner_loop_[m][0], t_in_)][inner_loop_[m][1]]));
+    for (int m : split_.lesion_loops[l]) floors_.back().push_back(column(m, t_in_).front());
     for (const auto& [a, b] : split_.cuts[l]) {
       // The back wall faces the lesion (on lesion_side of a -> b at the roof).
-      const Eigen::Vector3d pa = x[rings_[inner_loop_[a][0]][0][inner_loop_[a][1]]];
-      const Eigen::Vector3d pb = x[rings_[inner_loop_[b][0]][0][inner_loop_[b][1]]];
+      const Eigen::Vector3d pa = x[roof_vertex(a)], pb = x[roof_vertex(b)];
       const Eigen::Vector3d left(pa.y() - pb.y(), pb.x() - pa.x(), 0);
-      walls_.push_back(Wall{column(a), column(b), 0.5 * (pa + pb) + split_.lesion_side[l] * left});
-      free_strip(rings_[inner_loop_[a][0]][0][inner_loop_[a][1]],
-                 rings_[inner_loop_[b][0]][0][inner_loop_[b][1]], -Eigen::Vector3d::UnitZ(), layer);
+      walls_.push_back(
+          Wall{column(a, 0.0), column(b, 0.0), 0.5 * (pa + pb) + split_.lesion_side[l] * left});
+      free_strip(roof_vertex(a), roof_vertex(b), -Eigen::Vector3d::UnitZ(), layer);
     }
   }
 }
@@ -1139,10 +1303,10 @@ std::string mm(double v) {
 }  // namespace
 
 // Degree I or II on a three-rooted tooth: how deep (mm, from the entrance along its probing
-// direction, as the thin layer measures) a lesion can reach while its back edge runs across the
-// furcation from one of the entrance's two roots to the other: up to the third root, and up to
-// where the roots' hull leaves either of the two for the third (deeper, the back edge would end on
-// the hull's other sides, which the mesh does not split). Feet sampled at 360 points each.
+// direction, as the thin layer measures) a lesion can reach before its back edge meets the third
+// root (the root not beside the entrance). Feet sampled at 360 points each. The mesh allows 0.7 mm
+// less: the 0.3 mm margin of its other levels and two ligament widths, by which the back edge
+// moves past a face or tip it grazes (partial_lesion_columns).
 double partial_lesion_reach_mm(const MultiRootTooth& tooth, FurcationEntrance entrance) {
   std::vector<detail::HullPoint> pts;
   for (size_t r = 0; r < tooth.roots.size(); ++r) {
@@ -1170,12 +1334,6 @@ double partial_lesion_reach_mm(const MultiRootTooth& tooth, FurcationEntrance en
   double reach = 1e300;
   for (const detail::HullPoint& q : pts)
     if (q.root != a && q.root != b) reach = std::min(reach, support - q.p.dot(d));
-  for (size_t i = 0; i < H; ++i) {
-    const detail::HullPoint &p = hull[i], &q = hull[(i + 1) % H];
-    if (i == best || p.root == q.root) continue;
-    if (p.root == a || p.root == b) reach = std::min(reach, support - p.p.dot(d));
-    if (q.root == a || q.root == b) reach = std::min(reach, support - q.p.dot(d));
-  }
   return reach;
 }
 
@@ -1196,27 +1354,28 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
       (tooth.roots.size() < 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
-       gap > 0))
+       tooth.type == MultiRootType::kMaxillarySecondMolar || gap > 0))
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree I and II furcation lesions only on the "
-                     "molars, with the outer crest below the furcation plane (the two-rooted "
-                     "premolar's narrow roof gave inverted elements); use the thin-layer estimate "
+                     "mandibular molars and the maxillary first molar, with the outer crest below "
+                     "the furcation plane (the two-rooted premolar's narrow roof gave inverted "
+                     "elements; on the maxillary second molar's close roots the lesion's back "
+                     "edge could not keep clear of them); use the thin-layer estimate "
                      "(finite_elements false) for this scenario");
   if ((degree == 1 || degree == 2) && bone.septum_to_roof && tooth.roots.size() == 3)
     for (FurcationEntrance e : bone.furcation.entrances) {
       const double reach = partial_lesion_reach_mm(tooth, e);
       const double depth = bone.furcation.horizontal_mm > 0 ? bone.furcation.horizontal_mm
                                                             : (degree == 1 ? 2.0 : 4.0);
-      if (depth > reach)
-        throw InputError("furcation.horizontal_mm",
-                         "on this " + to_string(tooth.type) +
-                             " the multi-rooted mesh covers a furcation lesion from the " +
-                             to_string(e) + " entrance up to " + mm(reach) + " deep (here " +
-                             mm(depth) +
-                             "): deeper, the lesion's back edge would end on the roots' hull "
-                             "between another pair of roots, which the mesh does not split yet; "
-                             "use at most " +
-                             mm(reach) + ", or the thin-layer estimate (finite_elements false)");
+      if (depth > reach - 0.7)
+        throw InputError(
+            "furcation.horizontal_mm",
+            "on this " + to_string(tooth.type) +
+                " the multi-rooted mesh covers a furcation lesion from the " + to_string(e) +
+                " entrance up to " + mm(reach - 0.7) + " deep (here " + mm(depth) +
+                "): deeper, its back edge would reach the third root, whose faces the "
+                "mesh does not split; use at most " +
+                mm(reach - 0.7) + ", or the thin-layer estimate (finite_elements false)");
     }
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",

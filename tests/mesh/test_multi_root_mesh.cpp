@@ -230,6 +230,42 @@ TEST(MultiRootMeshLesion, DegreeOneAndTwoOnTheMandibularMolars) {
   EXPECT_THROW(build_multi_root_mesh(premolar, bone), InputError);
 }
 
+// Degree I and II lesions on the maxillary first molar from each of its three entrances (the outer
+// crest 1.5 mm below the furcation plane, the septum's top 3 mm below the roof inside the lesion):
+// the back edge crosses the furcation from root to root, or from a root to the roots' hull
+// between the other two (split there), and keeps two ligament widths from the roots' faces and
+// tips. Degree II from the buccal entrance only: from the others the mesh stops at 3.0 and 2.88
+// mm, 0.7 mm before the third root (validate_multi_root_mesh). The maxillary second molar is
+// refused (its close roots: the back edge moved past them, the lesion grew far beyond the thin
+// layer's, one inverted element at 1.5 mm mesially).
+// The roof's volume: the mesh's back edge lies up to half a ring spacing (0.45 mm) from the thin
+// layer's, or two widths (0.4 mm) past a grazed face or tip, across at most 5 mm of furcation:
+// up to 0.85 x 5 = 4.3 mm^2 of roof, 0.85 mm^3 of PDL per lesion (derived).
+TEST(MultiRootMeshLesion, DegreeOneAndTwoOnTheMaxillaryFirstMolar) {
+  struct Case {
+    MultiRootType type;
+    FurcationEntrance entrance;
+    double depth_mm;
+  };
+  for (const Case& c :
+       {Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kBuccal, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kBuccal, 4},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kMesial, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kDistal, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kMesial, 2.8},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kDistal, 2.6}}) {
+    const MultiRootTooth tooth = multi_root_handbook(c.type);
+    MultiRootBone bone;
+    bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+    bone.furcation.degree = c.depth_mm <= 3 ? 1 : 2;
+    bone.furcation.horizontal_mm = c.depth_mm;
+    bone.furcation.entrances = {c.entrance};
+    std::cout << to_string(c.type) << ", degree " << bone.furcation.degree << ", " << c.depth_mm
+              << " mm from the " << to_string(c.entrance) << " entrance\n";
+    check_mesh(tooth, bone, 0.08, 0.85);
+  }
+}
+
 // The septum's top above the outer crest (a lesion 1 mm deep under a crest 1.5 mm below the
 // furcation plane): the septum stands up between the roots.
 TEST(MultiRootMeshLesion, SeptumAboveTheCrest) {
@@ -247,7 +283,8 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
                          });
 
 // Robustness: degree III lesions over a grid of crest and septum levels, degree I and II lesions
-// of several depths from either entrance on the mandibular molars, and angular defects of
+// of several depths from each entrance on the mandibular molars and the maxillary first molar
+// (refused past the depth validate_multi_root_mesh allows), and angular defects of
 // several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
 // or is refused with an InputError, never a MeshError.
 TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
@@ -266,10 +303,17 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
       }
     const bool mandibular = type == MultiRootType::kMandibularFirstMolar ||
                             type == MultiRootType::kMandibularSecondMolar;
+    const bool maxillary = type == MultiRootType::kMaxillaryFirstMolar;
+    const std::vector<FurcationEntrance> entrances =
+        maxillary
+            ? std::vector<FurcationEntrance>{FurcationEntrance::kBuccal, FurcationEntrance::kMesial,
+                                             FurcationEntrance::kDistal}
+            : std::vector<FurcationEntrance>{FurcationEntrance::kBuccal,
+                                             FurcationEntrance::kLingual};
     for (double below : {0.5, 2.5})
-      for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual})
+      for (FurcationEntrance e : entrances)
         for (double depth : {1.0, 2.0, 3.0, 3.5, 4.5}) {
-          if (!mandibular) break;
+          if (!mandibular && !maxillary) break;
           MultiRootBone b;
           b.loss.horizontal_mm = gap + below;
           b.furcation.degree = depth <= 3.0 ? 1 : 2;
@@ -317,6 +361,21 @@ TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
   MultiRootBone near;
   near.loss.horizontal_mm = 1.4;  // crest 0.1 mm below the furcation plane
   EXPECT_THROW(build_multi_root_mesh(tooth, near), InputError);
+  // A degree II lesion from the maxillary first molar's mesial entrance, 4 mm deep: its back edge
+  // would reach the distobuccal root (allowed up to 3.0 mm there); refused naming the key.
+  const MultiRootTooth upper = multi_root_handbook(MultiRootType::kMaxillaryFirstMolar);
+  MultiRootBone deep;
+  deep.loss.horizontal_mm = upper.trunk_length_mm;
+  deep.furcation.degree = 2;
+  deep.furcation.horizontal_mm = 4;
+  deep.furcation.entrances = {FurcationEntrance::kMesial};
+  try {
+    validate_multi_root_mesh(upper, deep);
+    ADD_FAILURE() << "a lesion reaching the third root was not refused";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "furcation.horizontal_mm");
+    std::cout << e.what() << "\n";
+  }
 }
 
 }  // namespace
