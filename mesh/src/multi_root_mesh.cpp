@@ -149,6 +149,14 @@ class Builder {
     return !(o[i] && o[(i + 1) % o.size()]);
   }
   void partial_lesion_columns();
+  Eigen::Vector2d foot_point(int r, int i) const {
+    const int n = static_cast<int>(top_[r].size());
+    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
+  }
+  double lesion_reach(const Eigen::Vector2d& d, double support, double depth) const;
+  void settle_lesion_loops(std::vector<std::vector<int>>* labels,
+                           const std::vector<Eigen::Vector2d>& direction,
+                           const std::vector<double>& level);
   void partial_lesion_loops(const std::vector<std::vector<int>>& label,
                             const std::vector<Eigen::Vector2d>& direction);
   void split_hull_edges(const std::vector<std::vector<int>>& label,
@@ -496,17 +504,15 @@ void Builder::classify_hull() {
 
 // Degree I or II: each entrance's hull edge (the one facing its probing direction) and the inner
 // columns whose foot-level midpoint lies within the horizontal depth of the entrance (measured
-// from the roots' hull along the probing direction, as the thin layer does), on every root; a
-// hull edge belongs to a lesion when its midpoint does, and so do the two columns beside it (the
-// lesion opens to that side of the furcation, or stays behind it, on both roots alike).
+// from the roots' hull along the probing direction, as the thin layer does; deepened where the
+// back edge would graze a root: lesion_reach), on every root, the entrance's two columns always.
+// A hull edge whose two columns differ is split where the back edge crosses it
+// (split_hull_edges); small pieces cut off beside a root go to the septum (settle_lesion_loops).
 void Builder::partial_lesion_columns() {
   const FurcationInvolvement& f = bone_.furcation;
   const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
   const int R = static_cast<int>(order_.size());
-  auto foot = [&](int r, int i) {
-    const int n = static_cast<int>(top_[r].size());
-    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
-  };
+  auto foot = [&](int r, int i) { return foot_point(r, i); };
   std::vector<std::vector<int>> label(top_.size());
   for (size_t r = 0; r < top_.size(); ++r) label[r].assign(top_[r].size(), -1);
   std::vector<Eigen::Vector2d> direction(R, Eigen::Vector2d::Zero());
@@ -529,35 +535,7 @@ void Builder::partial_lesion_columns() {
     for (int j = 1; j < R; ++j)
       if (hull_mid(j).dot(d) > hull_mid(k).dot(d)) k = j;
     direction[k] = d;
-    // Where the back edge's line runs along a root's face (within 30 degrees) closer than two
-    // ligament widths beyond it, or passes within two widths of a root's tip, the septum's strip
-    // there would be thinner than the socket's layer and the back wall would cut into it: the
-    // face or tip goes into the lesion and the line moves two widths past it (a few passes, as the
-    // moved line may meet another face).
-    const double clear = 2 * bone_.pdl.crest_width_mm;
-    double reach = depth;
-    for (int pass = 0; pass < 4; ++pass) {
-      double deeper = reach;
-      for (size_t r = 0; r < top_.size(); ++r)
-        for (int c = 0; c < static_cast<int>(top_[r].size()); ++c) {
-          const Eigen::Vector2d p = foot(r, c), q = foot(r, c + 1);
-          const double mid = support - 0.5 * (p + q).dot(d);
-          if (inner_column(r, c) && mid > reach && mid <= reach + clear &&
-              std::abs((q - p).normalized().dot(d)) < 0.5)
-            deeper = std::max(deeper, support - std::min(p.dot(d), q.dot(d)) + clear);
-          // A root's tip (deepest or shallowest point of its ring along d) within two widths of
-          // the line, on either side: the back wall would graze it.
-          const Eigen::Vector2d o = foot(r, c - 1);
-          const double tip = support - p.dot(d);
-          const bool extreme = (o.dot(d) - p.dot(d)) * (q.dot(d) - p.dot(d)) > 0;
-          const int n = static_cast<int>(top_[r].size());
-          if (inner_column(r, c) && inner_column(r, (c + n - 1) % n) && extreme &&
-              std::abs(tip - reach) < clear)
-            deeper = std::max(deeper, tip + clear);
-        }
-      if (deeper == reach) break;
-      reach = deeper;
-    }
+    const double reach = lesion_reach(d, support, depth);
     auto within = [&](const Eigen::Vector2d& p) { return support - p.dot(d) <= reach; };
     for (size_t r = 0; r < top_.size(); ++r)
       for (int c = 0; c < static_cast<int>(top_[r].size()); ++c)
@@ -568,6 +546,55 @@ void Builder::partial_lesion_columns() {
     const int P = order_[k], Q = order_[(k + 1) % R], nq = static_cast<int>(top_[Q].size());
     label[P][arc_end_[P]] = label[Q][(arc_start_[Q] + nq - 1) % nq] = k;
   }
+  settle_lesion_loops(&label, direction, level);
+  for (size_t r = 0; r < top_.size(); ++r)
+    for (size_t c = 0; c < top_[r].size(); ++c)
+      if (label[r][c] >= 0) top_[r][c] = t_in_;
+  for (HullSplit& h : hull_split_)
+    if (h.active) h.roof = add({h.xy.x(), h.xy.y(), -tooth_.trunk_length_mm}, kRoofPart);
+}
+
+// The depth to which a lesion from direction d (support: the roots' farthest foot point along d)
+// takes the roots' columns: the requested depth, deepened as follows.
+// Where the back edge's line runs along a root's face (within 30 degrees) closer than two
+// ligament widths beyond it, or passes within two widths of a root's tip, the septum's strip
+// there would be thinner than the socket's layer and the back wall would cut into it: the
+// face or tip goes into the lesion and the line moves two widths past it (a few passes, as the
+// moved line may meet another face).
+double Builder::lesion_reach(const Eigen::Vector2d& d, double support, double depth) const {
+  auto foot = [&](int r, int i) { return foot_point(r, i); };
+  const double clear = 2 * bone_.pdl.crest_width_mm;
+  double reach = depth;
+  for (int pass = 0; pass < 4; ++pass) {
+    double deeper = reach;
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (int c = 0; c < static_cast<int>(top_[r].size()); ++c) {
+        const Eigen::Vector2d p = foot(r, c), q = foot(r, c + 1);
+        const double mid = support - 0.5 * (p + q).dot(d);
+        if (inner_column(r, c) && mid > reach && mid <= reach + clear &&
+            std::abs((q - p).normalized().dot(d)) < 0.5)
+          deeper = std::max(deeper, support - std::min(p.dot(d), q.dot(d)) + clear);
+        // A root's tip (deepest or shallowest point of its ring along d) within two widths of
+        // the line, on either side: the back wall would graze it.
+        const Eigen::Vector2d o = foot(r, c - 1);
+        const double tip = support - p.dot(d);
+        const bool extreme = (o.dot(d) - p.dot(d)) * (q.dot(d) - p.dot(d)) > 0;
+        const int n = static_cast<int>(top_[r].size());
+        if (inner_column(r, c) && inner_column(r, (c + n - 1) % n) && extreme &&
+            std::abs(tip - reach) < clear)
+          deeper = std::max(deeper, tip + clear);
+      }
+    if (deeper == reach) break;
+    reach = deeper;
+  }
+  return reach;
+}
+
+// Lesion and septum loops across the roof for the labelled columns (hull splits included).
+void Builder::settle_lesion_loops(std::vector<std::vector<int>>* labels,
+                                  const std::vector<Eigen::Vector2d>& direction,
+                                  const std::vector<double>& level) {
+  std::vector<std::vector<int>>& label = *labels;
   // A piece of a lesion cut off beside a hull edge or a root (the back edge's line crossing the
   // roof twice there) smaller than kMinPiece of roof goes to the septum: its walls would pass
   // within a socket's width of the roots.
@@ -587,11 +614,6 @@ void Builder::partial_lesion_columns() {
     }
     if (!changed) break;
   }
-  for (size_t r = 0; r < top_.size(); ++r)
-    for (size_t c = 0; c < top_[r].size(); ++c)
-      if (label[r][c] >= 0) top_[r][c] = t_in_;
-  for (HullSplit& h : hull_split_)
-    if (h.active) h.roof = add({h.xy.x(), h.xy.y(), -tooth_.trunk_length_mm}, kRoofPart);
 }
 
 // A hull edge whose two columns differ (a lesion on one root's side only): the lesion's back edge
