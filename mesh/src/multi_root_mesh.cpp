@@ -138,6 +138,8 @@ class Builder {
   std::vector<int> trunk_with_defect(const std::vector<int>& cervix, int n_around);
   double crest_z(const Eigen::Vector2d& p) const;
   std::vector<int> root(size_t r);
+  std::vector<double> crest_depths(size_t r, int n) const;
+  double warped_depth(const RootSpec& spec, double t, double crest_t) const;
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
   void roof_domain(const std::vector<std::vector<int>>& outlines, int marker);
   // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
@@ -289,7 +291,8 @@ std::vector<int> Builder::crown_dome(int n_around) {
 // Trunk: CEJ -> crest -> furcation plane (a ring exactly at the crest when the crest lies on the
 // trunk, which is then recorded as a crest ring); returns the rim at the furcation plane.
 std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
-  if (bone_.loss.defect_depth_mm > 0) return trunk_with_defect(cervix, n_around);
+  if (bone_.loss.defect_depth_mm > 0 && outer_crest_z_mm(bone_) > -tooth_.trunk_length_mm)
+    return trunk_with_defect(cervix, n_around);
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const double T = tooth_.trunk_length_mm;
   const double zf = -T, zc = outer_crest_z_mm(bone_);
@@ -396,6 +399,29 @@ std::vector<double> root_ring_depths_lesion(const RootSpec& spec, double t1, dou
   return depths;
 }
 
+// An angular defect under an outer crest below the furcation plane (the septum at the roof): per
+// point i of root r's rings, the depth below the furcation plane of the crest over its polar angle
+// around the tooth's axis (three fixed-point steps, as the root's sections move with depth);
+// t_out_ everywhere without a defect.
+std::vector<double> Builder::crest_depths(size_t r, int n) const {
+  std::vector<double> crest(n, t_out_);
+  if (!lesion_ || bone_.loss.defect_depth_mm <= 0) return crest;
+  const double zf = -tooth_.trunk_length_mm;
+  for (int i = 0; i < n; ++i)
+    for (int step = 0; step < 3; ++step)
+      crest[i] = zf - crest_z(root_ring_point(tooth_.roots[r], crest[i], i, n));
+  return crest;
+}
+
+// A ring's depth t (its ring at t_out_ the crest ring) at a point whose crest lies crest_t below
+// the furcation plane: the rings above the crest spread evenly from the foot to it, those below
+// from it to the apex in the same proportions.
+double Builder::warped_depth(const RootSpec& spec, double t, double crest_t) const {
+  if (crest_t == t_out_) return t;
+  if (t <= t_out_) return t * crest_t / t_out_;
+  return crest_t + (spec.length_mm - crest_t) * (t - t_out_) / (spec.length_mm - t_out_);
+}
+
 // Root r: rings from the foot down, the apex a pole; returns the foot ring.
 std::vector<int> Builder::root(size_t r) {
   const RootSpec& spec = tooth_.roots[r];
@@ -411,6 +437,7 @@ std::vector<int> Builder::root(size_t r) {
   const std::vector<double> depths =
       lesion_ ? root_ring_depths_lesion(spec, t_out_, t_in_, h_) : root_ring_depths(spec, tc, h_);
   const bool cylinder = spec.profile == RootProfile::kCylinder;
+  const std::vector<double> crest = crest_depths(r, n);
   std::vector<int> foot, prev_r;
   rings_.emplace_back();
   ring_t_.emplace_back();
@@ -418,8 +445,9 @@ std::vector<int> Builder::root(size_t r) {
     const double t = depths[j];
     std::vector<int> rr;
     for (int i = 0; i < n; ++i) {
-      const Eigen::Vector2d p = root_ring_point(spec, t, i, n);
-      rr.push_back(add({p.x(), p.y(), zf - t}, part));
+      const double ti = warped_depth(spec, t, crest[i]);
+      const Eigen::Vector2d p = root_ring_point(spec, ti, i, n);
+      rr.push_back(add({p.x(), p.y(), zf - ti}, part));
     }
     if (j == 0) {
       foot = rr;
@@ -1365,14 +1393,19 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
   const int degree = bone.furcation.degree;
   const double gap_defect =
       outer_crest_z_mm(bone) - bone.loss.defect_depth_mm + tooth.trunk_length_mm;
-  if (bone.loss.defect_depth_mm > 0 && (gap_defect < 0.3 || degree != 0))
+  const double crest_gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;
+  // On the trunk everywhere, or on the roots everywhere (the outer crest already below the
+  // furcation plane, the septum at the roof): the crest ring follows the profile.
+  const bool on_roots = crest_gap <= -0.3 && bone.septum_to_roof;
+  if (bone.loss.defect_depth_mm > 0 && ((gap_defect < 0.3 && !on_roots) || degree != 0))
     throw InputError("angular_defect.depth_mm",
                      "the multi-rooted mesh covers an angular defect only with the crest on the "
                      "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
                      "here " +
                          mm(gap_defect) +
-                         ") and no furcation lesion; use the thin-layer estimate "
-                         "(finite_elements false) for this scenario");
+                         ") or, with horizontal loss taking the crest at least 0.3 mm below the "
+                         "furcation plane, on the roots everywhere, and no furcation lesion; use "
+                         "the thin-layer estimate (finite_elements false) for this scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
       (tooth.roots.size() < 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||

@@ -190,6 +190,19 @@ TEST_P(MultiRootMeshTest, AngularDefectConformingAndPdlWidth) {
   EXPECT_NEAR(v_healthy - v_defect, a_healthy - a_defect, 0.1 * (a_healthy - a_defect));
 }
 
+// Angular defect on the roots: horizontal loss takes the crest 1.5 mm below the furcation plane
+// (the septum at the roof), a mesial defect 60 degrees wide lowers it 2 mm more (the roots' crest
+// ring and the bone's top follow the cos^2 profile; the roots' rings above and below it spread
+// in proportion).
+TEST_P(MultiRootMeshTest, AngularDefectOnTheRootsConformingAndPdlWidth) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+  bone.loss.defect_depth_mm = 2;
+  bone.loss.defect_surface = ToothSurface::kMesial;
+  check_mesh(tooth, bone, 0.08);
+}
+
 // Degree I and II lesions on the mandibular molars (one entrance, then degree I from both; the
 // outer crest 1.5 mm below
 // the furcation plane, the septum's top 3 mm below the roof inside the lesion, at the roof beyond
@@ -285,7 +298,8 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
 // Robustness: degree III lesions over a grid of crest and septum levels, degree I and II lesions
 // of several depths from each entrance on the mandibular molars and the maxillary first molar
 // (refused past the depth validate_multi_root_mesh allows), and angular defects of
-// several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
+// several depths and surfaces (on the trunk, and on the roots under a crest below the furcation
+// plane), on every tooth: each either meshes (conforming, checked inside)
 // or is refused with an InputError, never a MeshError.
 TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
   int n_meshed = 0, n_refused = 0;
@@ -329,6 +343,16 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
         b.loss.defect_width_deg = 90;
         if (b.loss.defect_depth_mm > 0) bones.push_back(b);
       }
+    for (ToothSurface surface : {ToothSurface::kMesial, ToothSurface::kLabial})
+      for (double below : {0.5, 1.5})
+        for (double depth : {1.0, 3.0}) {  // on the roots, under a crest below the plane
+          MultiRootBone b;
+          b.loss.horizontal_mm = gap + below;
+          b.loss.defect_depth_mm = depth;
+          b.loss.defect_surface = surface;
+          b.loss.defect_width_deg = 90;
+          bones.push_back(b);
+        }
     for (const MultiRootBone& b : bones) {
       try {
         validate_multi_root_mesh(tooth, b);
