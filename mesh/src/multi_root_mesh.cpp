@@ -414,12 +414,23 @@ std::vector<double> Builder::crest_depths(size_t r, int n) const {
 }
 
 // A ring's depth t (its ring at t_out_ the crest ring) at a point whose crest lies crest_t below
-// the furcation plane: the rings above the crest spread evenly from the foot to it, those below
-// from it to the apex in the same proportions.
+// the furcation plane: piecewise linear through the foot, the crest ring (to crest_t), the
+// septum's top in a lesion (unmoved, a plane) and the apex, so the rings between two of these
+// spread in the same proportions (validate_multi_root_mesh keeps the crest 0.6 mm above a lower
+// septum's top).
 double Builder::warped_depth(const RootSpec& spec, double t, double crest_t) const {
   if (crest_t == t_out_) return t;
-  if (t <= t_out_) return t * crest_t / t_out_;
-  return crest_t + (spec.length_mm - crest_t) * (t - t_out_) / (spec.length_mm - t_out_);
+  std::vector<std::pair<double, double>> knots{{0.0, 0.0}, {t_out_, crest_t}};
+  if (t_in_ > 0) knots.emplace_back(t_in_, t_in_);
+  knots.emplace_back(spec.length_mm, spec.length_mm);
+  std::sort(knots.begin(), knots.end());
+  for (size_t k = 1; k < knots.size(); ++k)
+    if (t <= knots[k].first) {
+      const auto [t0, d0] = knots[k - 1];
+      const auto [t1, d1] = knots[k];
+      return d0 + (d1 - d0) * (t - t0) / (t1 - t0);
+    }
+  return t;
 }
 
 // Root r: rings from the foot down, the apex a pole; returns the foot ring.
@@ -1397,15 +1408,26 @@ void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& 
   // On the trunk everywhere, or on the roots everywhere (the outer crest already below the
   // furcation plane, the septum at the roof): the crest ring follows the profile.
   const bool on_roots = crest_gap <= -0.3 && bone.septum_to_roof;
-  if (bone.loss.defect_depth_mm > 0 && ((gap_defect < 0.3 && !on_roots) || degree != 0))
-    throw InputError("angular_defect.depth_mm",
-                     "the multi-rooted mesh covers an angular defect only with the crest on the "
-                     "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
-                     "here " +
-                         mm(gap_defect) +
-                         ") or, with horizontal loss taking the crest at least 0.3 mm below the "
-                         "furcation plane, on the roots everywhere, and no furcation lesion; use "
-                         "the thin-layer estimate (finite_elements false) for this scenario");
+  // With a lesion whose septum's top lies below the crest: the defect's floor at least 0.6 mm
+  // above it (the septum's top stays a plane; at 0.5 mm a sliver of bone was cut off between
+  // the walls, TetGen left it unseeded).
+  const double floor_t = -crest_gap + bone.loss.defect_depth_mm;
+  const bool clear_of_septum = degree == 0 || bone.furcation.vertical_mm < -crest_gap ||
+                               floor_t <= bone.furcation.vertical_mm - 0.6;
+  if (bone.loss.defect_depth_mm > 0 &&
+      ((gap_defect < 0.3 && !on_roots) || (degree != 0 && !on_roots) || !clear_of_septum))
+    throw InputError(
+        "angular_defect.depth_mm",
+        "the multi-rooted mesh covers an angular defect only with the crest on the "
+        "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
+        "here " +
+            mm(gap_defect) +
+            ") and no furcation lesion, or, with horizontal loss taking the crest at "
+            "least 0.3 mm below the furcation plane, on the roots everywhere (with a "
+            "furcation lesion its floor at least 0.6 mm above the septum's top, here " +
+            mm(bone.furcation.vertical_mm - floor_t) +
+            "); use the thin-layer estimate (finite_elements false) for this "
+            "scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
       (tooth.roots.size() < 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||

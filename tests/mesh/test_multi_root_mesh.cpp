@@ -203,6 +203,31 @@ TEST_P(MultiRootMeshTest, AngularDefectOnTheRootsConformingAndPdlWidth) {
   check_mesh(tooth, bone, 0.08);
 }
 
+// An angular defect on the roots with a furcation lesion (the crest 1.5 mm below the furcation
+// plane, the septum's top 3 mm below the roof in the lesion, a mesial defect 0.9 mm deep: its
+// floor 0.6 mm above the septum's top, the least the mesh takes): degree III on the mandibular
+// first molar, degree I (2 mm) on the mandibular first molar, degree II (4 mm) on the maxillary
+// first molar, both from the buccal entrance. Roof bound as for the lesions alone.
+TEST(MultiRootMeshLesion, AngularDefectWithALesion) {
+  struct Case {
+    MultiRootType type;
+    int degree;
+    double roof_bound_mm3;
+  };
+  for (const Case& c : {Case{MultiRootType::kMandibularFirstMolar, 3, 0},
+                        Case{MultiRootType::kMandibularFirstMolar, 1, 0.18},
+                        Case{MultiRootType::kMaxillaryFirstMolar, 2, 0.85}}) {
+    const MultiRootTooth tooth = multi_root_handbook(c.type);
+    MultiRootBone bone;
+    bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+    bone.loss.defect_depth_mm = 0.9;
+    bone.loss.defect_surface = ToothSurface::kMesial;
+    bone.furcation.degree = c.degree;
+    std::cout << to_string(c.type) << ", degree " << c.degree << " with a mesial defect\n";
+    check_mesh(tooth, bone, 0.08, c.roof_bound_mm3);
+  }
+}
+
 // Degree I and II lesions on the mandibular molars (one entrance, then degree I from both; the
 // outer crest 1.5 mm below
 // the furcation plane, the septum's top 3 mm below the roof inside the lesion, at the roof beyond
@@ -352,6 +377,11 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
           b.loss.defect_surface = surface;
           b.loss.defect_width_deg = 90;
           bones.push_back(b);
+          for (int degree : {1, 3}) {  // with a lesion (refused when too deep for it)
+            b.loss.defect_depth_mm = depth - 0.5;
+            b.furcation.degree = degree;
+            bones.push_back(b);
+          }
         }
     for (const MultiRootBone& b : bones) {
       try {
