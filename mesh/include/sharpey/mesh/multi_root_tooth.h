@@ -201,8 +201,11 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // ring columns on the roots' hull attached below the crest, the others below the septum's top;
 // free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
 // floor stays at least 0.3 mm above the furcation plane (the crest ring and the bone's top follow
-// the profile), without a lesion. No degree I or II lesion on the maxillary second molar or the
-// premolar, no defect reaching the roots;
+// the profile), without a lesion, or one on the roots under an outer crest at least 0.3 mm below
+// the furcation plane (the septum at the roof, or a lesion whose septum's top lies below the
+// crest or at least 0.6 mm below the defect's floor). No degree I or II lesion on the maxillary
+// second molar or the premolar, no defect reaching the roots from a crest above the furcation
+// plane;
 // anything else throws InputError naming what is not yet meshed.
 struct MultiRootMeshSizing {
   double edge_mm = 0.9;       // along the root surfaces
