@@ -13,6 +13,7 @@
 #include "detail/model_mesher.h"
 #include "detail/planar_triangulation.h"
 #include "multi_root_hull.h"
+#include "multi_root_lesion_loops.h"
 #include "sharpey/core/constants.h"
 #include "sharpey/error.h"
 #include "sharpey/mesh/multi_root_tooth.h"
@@ -137,6 +138,8 @@ class Builder {
   std::vector<int> trunk_with_defect(const std::vector<int>& cervix, int n_around);
   double crest_z(const Eigen::Vector2d& p) const;
   std::vector<int> root(size_t r);
+  std::vector<double> crest_depths(size_t r, int n) const;
+  double warped_depth(const RootSpec& spec, double t, double crest_t) const;
   void furcation_roof(const std::vector<int>& rim, const std::vector<std::vector<int>>& feet);
   void roof_domain(const std::vector<std::vector<int>>& outlines, int marker);
   // Degree III lesion: which ring points of each root lie on the roots' hull (outer) and the
@@ -148,6 +151,19 @@ class Builder {
     return !(o[i] && o[(i + 1) % o.size()]);
   }
   void partial_lesion_columns();
+  Eigen::Vector2d foot_point(int r, int i) const {
+    const int n = static_cast<int>(top_[r].size());
+    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
+  }
+  double lesion_reach(const Eigen::Vector2d& d, double support, double depth) const;
+  void settle_lesion_loops(std::vector<std::vector<int>>* labels,
+                           const std::vector<Eigen::Vector2d>& direction,
+                           const std::vector<double>& level);
+  void partial_lesion_loops(const std::vector<std::vector<int>>& label,
+                            const std::vector<Eigen::Vector2d>& direction);
+  void split_hull_edges(const std::vector<std::vector<int>>& label,
+                        const std::vector<Eigen::Vector2d>& direction,
+                        const std::vector<double>& level);
   // Index of root r's ring at depth t below the furcation plane (one lies there exactly).
   size_t ring_level(size_t r, double t) const {
     const std::vector<double>& d = ring_t_[r];
@@ -193,10 +209,34 @@ class Builder {
   Eigen::Vector3d bone_seed_ = Eigen::Vector3d::Zero();
   bool lesion_ = false, partial_ = false;
   std::vector<std::vector<double>> top_;  // per root and column: depth where attachment starts
-  // Partial: per hull edge k (order_[k] -> order_[k + 1]), whether a lesion enters there and
-  // where it ends on those two roots (vertex indices).
-  std::array<bool, 2> entrance_{false, false};
-  std::array<int, 2> stop_p_{0, 0}, stop_q_{0, 0};
+  // Partial: the roof's inner loop (root, ring index of each point) split into the lesions' and
+  // the septum's loops (multi_root_lesion_loops.h).
+  // ring index i of root r as {r, i}, a hull edge's split point as {-1, k}.
+  std::vector<std::array<int, 2>> inner_loop_;
+  detail::InnerLoopSplit split_;
+  // Per hull edge k: where a lesion's back edge crosses it (when the lesion holds one end of the
+  // edge only): the roof point, and the bone's column below its socket point (bottom to top,
+  // with the depths below the furcation plane, the socket point's as 0).
+  struct HullSplit {
+    bool active = false;
+    int roof = -1;
+    double s = 0.5;  // along the edge, from order_[k]'s arc end
+    Eigen::Vector2d xy = Eigen::Vector2d::Zero();
+    std::vector<int> column;
+    std::vector<double> column_t;
+  };
+  std::vector<HullSplit> hull_split_;
+  std::vector<int> entry_;  // per lesion label: its loop's first point in inner_loop_
+  std::vector<int> hull_column(int k, double t1, double t2) const;
+  void split_columns(const std::map<int, std::vector<int>>& layer);
+  std::vector<int> socket_column(size_t r, int b, double t1, double t2,
+                                 const std::map<int, std::vector<int>>& layer) const;
+  void hull_edge_walls(size_t k, const Eigen::Vector3d& centre,
+                       const std::map<int, std::vector<int>>& layer);
+  int roof_vertex(int m) const {
+    const auto& v = inner_loop_[m];
+    return v[0] >= 0 ? rings_[v[0]][0][v[1]] : hull_split_[v[1]].roof;
+  }
   double t_out_ = 0, t_in_ = 0;           // outer crest and septum top below the furcation plane
   std::vector<std::vector<char>> outer_;  // per root and ring index: on the roots' hull
   std::vector<int> order_, arc_start_, arc_end_;      // roots counter-clockwise; their outer arcs
@@ -251,7 +291,8 @@ std::vector<int> Builder::crown_dome(int n_around) {
 // Trunk: CEJ -> crest -> furcation plane (a ring exactly at the crest when the crest lies on the
 // trunk, which is then recorded as a crest ring); returns the rim at the furcation plane.
 std::vector<int> Builder::trunk(const std::vector<int>& cervix, int n_around) {
-  if (bone_.loss.defect_depth_mm > 0) return trunk_with_defect(cervix, n_around);
+  if (bone_.loss.defect_depth_mm > 0 && outer_crest_z_mm(bone_) > -tooth_.trunk_length_mm)
+    return trunk_with_defect(cervix, n_around);
   const double A = tooth_.cervix_half_x_mm, B = tooth_.cervix_half_y_mm;
   const double T = tooth_.trunk_length_mm;
   const double zf = -T, zc = outer_crest_z_mm(bone_);
@@ -358,6 +399,40 @@ std::vector<double> root_ring_depths_lesion(const RootSpec& spec, double t1, dou
   return depths;
 }
 
+// An angular defect under an outer crest below the furcation plane (the septum at the roof): per
+// point i of root r's rings, the depth below the furcation plane of the crest over its polar angle
+// around the tooth's axis (three fixed-point steps, as the root's sections move with depth);
+// t_out_ everywhere without a defect.
+std::vector<double> Builder::crest_depths(size_t r, int n) const {
+  std::vector<double> crest(n, t_out_);
+  if (!lesion_ || bone_.loss.defect_depth_mm <= 0) return crest;
+  const double zf = -tooth_.trunk_length_mm;
+  for (int i = 0; i < n; ++i)
+    for (int step = 0; step < 3; ++step)
+      crest[i] = zf - crest_z(root_ring_point(tooth_.roots[r], crest[i], i, n));
+  return crest;
+}
+
+// A ring's depth t (its ring at t_out_ the crest ring) at a point whose crest lies crest_t below
+// the furcation plane: piecewise linear through the foot, the crest ring (to crest_t), the
+// septum's top in a lesion (unmoved, a plane) and the apex, so the rings between two of these
+// spread in the same proportions (validate_multi_root_mesh keeps the crest 0.6 mm above a lower
+// septum's top).
+double Builder::warped_depth(const RootSpec& spec, double t, double crest_t) const {
+  if (crest_t == t_out_) return t;
+  std::vector<std::pair<double, double>> knots{{0.0, 0.0}, {t_out_, crest_t}};
+  if (t_in_ > 0) knots.emplace_back(t_in_, t_in_);
+  knots.emplace_back(spec.length_mm, spec.length_mm);
+  std::sort(knots.begin(), knots.end());
+  for (size_t k = 1; k < knots.size(); ++k)
+    if (t <= knots[k].first) {
+      const auto [t0, d0] = knots[k - 1];
+      const auto [t1, d1] = knots[k];
+      return d0 + (d1 - d0) * (t - t0) / (t1 - t0);
+    }
+  return t;
+}
+
 // Root r: rings from the foot down, the apex a pole; returns the foot ring.
 std::vector<int> Builder::root(size_t r) {
   const RootSpec& spec = tooth_.roots[r];
@@ -373,6 +448,7 @@ std::vector<int> Builder::root(size_t r) {
   const std::vector<double> depths =
       lesion_ ? root_ring_depths_lesion(spec, t_out_, t_in_, h_) : root_ring_depths(spec, tc, h_);
   const bool cylinder = spec.profile == RootProfile::kCylinder;
+  const std::vector<double> crest = crest_depths(r, n);
   std::vector<int> foot, prev_r;
   rings_.emplace_back();
   ring_t_.emplace_back();
@@ -380,8 +456,9 @@ std::vector<int> Builder::root(size_t r) {
     const double t = depths[j];
     std::vector<int> rr;
     for (int i = 0; i < n; ++i) {
-      const Eigen::Vector2d p = root_ring_point(spec, t, i, n);
-      rr.push_back(add({p.x(), p.y(), zf - t}, part));
+      const double ti = warped_depth(spec, t, crest[i]);
+      const Eigen::Vector2d p = root_ring_point(spec, ti, i, n);
+      rr.push_back(add({p.x(), p.y(), zf - ti}, part));
     }
     if (j == 0) {
       foot = rr;
@@ -464,17 +541,21 @@ void Builder::classify_hull() {
   if (partial_) partial_lesion_columns();
 }
 
-// Degree I or II: the entrance's hull edge (the one facing the probing direction), and the inner
+// Degree I or II: each entrance's hull edge (the one facing its probing direction) and the inner
 // columns whose foot-level midpoint lies within the horizontal depth of the entrance (measured
-// from the roots' hull along the probing direction, as the thin layer does), contiguous from the
-// entrance on each of its two roots.
+// from the roots' hull along the probing direction, as the thin layer does; deepened where the
+// back edge would graze a root: lesion_reach), on every root, the entrance's two columns always.
+// A hull edge whose two columns differ is split where the back edge crosses it
+// (split_hull_edges); small pieces cut off beside a root go to the septum (settle_lesion_loops).
 void Builder::partial_lesion_columns() {
   const FurcationInvolvement& f = bone_.furcation;
   const double depth = f.horizontal_mm > 0 ? f.horizontal_mm : (f.degree == 1 ? 2.0 : 4.0);
-  auto foot = [&](int r, int i) {
-    const int n = static_cast<int>(top_[r].size());
-    return root_ring_point(tooth_.roots[r], 0.0, ((i % n) + n) % n, n);
-  };
+  const int R = static_cast<int>(order_.size());
+  auto foot = [&](int r, int i) { return foot_point(r, i); };
+  std::vector<std::vector<int>> label(top_.size());
+  for (size_t r = 0; r < top_.size(); ++r) label[r].assign(top_[r].size(), -1);
+  std::vector<Eigen::Vector2d> direction(R, Eigen::Vector2d::Zero());
+  std::vector<double> level(R, 0.0);  // the back edge's line: p . direction = level
   for (FurcationEntrance e : f.entrances) {
     const Eigen::Vector2d d = e == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
                               : e == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
@@ -484,30 +565,241 @@ void Builder::partial_lesion_columns() {
     for (size_t r = 0; r < top_.size(); ++r)
       for (size_t i = 0; i < top_[r].size(); ++i)
         support = std::max(support, foot(static_cast<int>(r), static_cast<int>(i)).dot(d));
-    auto in_lesion = [&](int r, int c) {
-      return top_[r][c] == 0 && support - 0.5 * (foot(r, c) + foot(r, c + 1)).dot(d) <= depth;
+    // The entrance: the hull edge whose midpoint lies farthest along d.
+    auto hull_mid = [&](int k) {
+      const int P = order_[k], Q = order_[(k + 1) % R];
+      return (0.5 * (foot(P, arc_end_[P]) + foot(Q, arc_start_[Q]))).eval();
     };
-    const int P0 = order_[0], Q0 = order_[1];
-    const Eigen::Vector2d mid = 0.5 * (foot(P0, arc_end_[P0]) + foot(Q0, arc_start_[Q0]));
-    const Eigen::Vector2d mid2 = 0.5 * (foot(Q0, arc_end_[Q0]) + foot(P0, arc_start_[P0]));
-    const int k = mid.dot(d) >= mid2.dot(d) ? 0 : 1;
-    const int P = order_[k], Q = order_[(k + 1) % 2];
-    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
-    int c = arc_end_[P];
-    for (; inner_column(P, c) && in_lesion(P, c); c = (c + 1) % np) top_[P][c] = t_in_;
-    stop_p_[k] = c;
-    c = (arc_start_[Q] + nq - 1) % nq;
-    for (; inner_column(Q, c) && in_lesion(Q, c); c = (c + nq - 1) % nq) top_[Q][c] = t_in_;
-    stop_q_[k] = (c + 1) % nq;
-    entrance_[k] = true;
-    if (!inner_column(P, stop_p_[k]) || top_[P][stop_p_[k]] != 0 ||
-        !inner_column(Q, (stop_q_[k] + nq - 1) % nq) || top_[Q][(stop_q_[k] + nq - 1) % nq] != 0 ||
-        (stop_p_[k] == arc_end_[P] && stop_q_[k] == arc_start_[Q]))
-      throw MeshError("meshing the furcation lesion: its horizontal depth " +
-                      std::to_string(depth) +
-                      " mm covers none or all of the roots' inner faces on the mesh's rings (or "
-                      "two lesions meet); change horizontal_mm a little, or use degree III");
+    int k = 0;
+    for (int j = 1; j < R; ++j)
+      if (hull_mid(j).dot(d) > hull_mid(k).dot(d)) k = j;
+    direction[k] = d;
+    const double reach = lesion_reach(d, support, depth);
+    auto within = [&](const Eigen::Vector2d& p) { return support - p.dot(d) <= reach; };
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (int c = 0; c < static_cast<int>(top_[r].size()); ++c)
+        if (inner_column(r, c) && within(0.5 * (foot(r, c) + foot(r, c + 1))))
+          label[r][c] = label[r][c] < 0 ? k : R;  // R: two lesions meet (split_inner_loop)
+    level[k] = support - reach;
+    // The lesion enters at its hull edge on both roots.
+    const int P = order_[k], Q = order_[(k + 1) % R], nq = static_cast<int>(top_[Q].size());
+    label[P][arc_end_[P]] = label[Q][(arc_start_[Q] + nq - 1) % nq] = k;
   }
+  settle_lesion_loops(&label, direction, level);
+  for (size_t r = 0; r < top_.size(); ++r)
+    for (size_t c = 0; c < top_[r].size(); ++c)
+      if (label[r][c] >= 0) top_[r][c] = t_in_;
+  for (HullSplit& h : hull_split_)
+    if (h.active) h.roof = add({h.xy.x(), h.xy.y(), -tooth_.trunk_length_mm}, kRoofPart);
+}
+
+// The depth to which a lesion from direction d (support: the roots' farthest foot point along d)
+// takes the roots' columns: the requested depth, deepened as follows.
+// Where the back edge's line runs along a root's face (within 30 degrees) closer than two
+// ligament widths beyond it, or passes within two widths of a root's tip, the septum's strip
+// there would be thinner than the socket's layer and the back wall would cut into it: the
+// face or tip goes into the lesion and the line moves two widths past it (a few passes, as the
+// moved line may meet another face).
+double Builder::lesion_reach(const Eigen::Vector2d& d, double support, double depth) const {
+  auto foot = [&](int r, int i) { return foot_point(r, i); };
+  const double clear = 2 * bone_.pdl.crest_width_mm;
+  double reach = depth;
+  for (int pass = 0; pass < 4; ++pass) {
+    double deeper = reach;
+    for (size_t r = 0; r < top_.size(); ++r)
+      for (int c = 0; c < static_cast<int>(top_[r].size()); ++c) {
+        const Eigen::Vector2d p = foot(r, c), q = foot(r, c + 1);
+        const double mid = support - 0.5 * (p + q).dot(d);
+        if (inner_column(r, c) && mid > reach && mid <= reach + clear &&
+            std::abs((q - p).normalized().dot(d)) < 0.5)
+          deeper = std::max(deeper, support - std::min(p.dot(d), q.dot(d)) + clear);
+        // A root's tip (deepest or shallowest point of its ring along d) within two widths of
+        // the line, on either side: the back wall would graze it.
+        const Eigen::Vector2d o = foot(r, c - 1);
+        const double tip = support - p.dot(d);
+        const bool extreme = (o.dot(d) - p.dot(d)) * (q.dot(d) - p.dot(d)) > 0;
+        const int n = static_cast<int>(top_[r].size());
+        if (inner_column(r, c) && inner_column(r, (c + n - 1) % n) && extreme &&
+            std::abs(tip - reach) < clear)
+          deeper = std::max(deeper, tip + clear);
+      }
+    if (deeper == reach) break;
+    reach = deeper;
+  }
+  return reach;
+}
+
+// Lesion and septum loops across the roof for the labelled columns (hull splits included).
+void Builder::settle_lesion_loops(std::vector<std::vector<int>>* labels,
+                                  const std::vector<Eigen::Vector2d>& direction,
+                                  const std::vector<double>& level) {
+  std::vector<std::vector<int>>& label = *labels;
+  // A piece of a lesion cut off beside a hull edge or a root (the back edge's line crossing the
+  // roof twice there) smaller than kMinPiece of roof goes to the septum: its walls would pass
+  // within a socket's width of the roots.
+  constexpr double kMinPiece = 0.5;  // mm^2
+  for (int pass = 0;; ++pass) {
+    split_hull_edges(label, direction, level);
+    partial_lesion_loops(label, direction);
+    bool changed = false;
+    for (size_t l = 0; l < split_.lesion_loops.size(); ++l) {
+      const std::vector<int>& loop = split_.lesion_loops[l];
+      if (split_.lesion_area_mm2[l] >= kMinPiece || pass > 3 ||
+          std::find(loop.begin(), loop.end(), entry_[split_.lesion_label[l]]) != loop.end())
+        continue;
+      for (int m : loop)
+        if (inner_loop_[m][0] >= 0) label[inner_loop_[m][0]][inner_loop_[m][1]] = -1;
+      changed = true;
+    }
+    if (!changed) break;
+  }
+}
+
+// A hull edge whose two columns differ (a lesion on one root's side only): the lesion's back edge
+// crosses it where the line p . direction = level does (kept 15 % of the edge from either end), a
+// new roof point there.
+void Builder::split_hull_edges(const std::vector<std::vector<int>>& label,
+                               const std::vector<Eigen::Vector2d>& direction,
+                               const std::vector<double>& level) {
+  const int R = static_cast<int>(order_.size());
+  hull_split_.assign(R, HullSplit{});
+  for (int j = 0; j < R; ++j) {
+    const int P = order_[j], Q = order_[(j + 1) % R];
+    const int np = static_cast<int>(top_[P].size()), nq = static_cast<int>(top_[Q].size());
+    const int lp = label[P][arc_end_[P]], lq = label[Q][(arc_start_[Q] + nq - 1) % nq];
+    if (lp == lq) continue;
+    if (lp >= 0 && lq >= 0)
+      throw MeshError("meshing the furcation lesion: two lesions meet on the roots' hull");
+    const int L = std::max(lp, lq);
+    const Eigen::Vector2d a = root_ring_point(tooth_.roots[P], 0.0, arc_end_[P], np);
+    const Eigen::Vector2d b = root_ring_point(tooth_.roots[Q], 0.0, arc_start_[Q], nq);
+    const double along = (b - a).dot(direction[L]);
+    const double s = std::abs(along) < 1e-9 ? 0.5 : (level[L] - a.dot(direction[L])) / along;
+    hull_split_[j].active = true;
+    hull_split_[j].s = std::clamp(s, 0.15, 0.85);
+    hull_split_[j].xy = a + hull_split_[j].s * (b - a);
+  }
+}
+
+// The roof's inner loop (each root's inner arc in the reverse of the roots' order, joined along
+// the hull) with its edges' labels, split into the lesions' and the septum's loops; a lesion's
+// loop starts where it enters (its hull edge's end on order_[k]).
+void Builder::partial_lesion_loops(const std::vector<std::vector<int>>& label,
+                                   const std::vector<Eigen::Vector2d>& direction) {
+  const int R = static_cast<int>(order_.size());
+  std::vector<Eigen::Vector2d> pts;
+  std::vector<int> edge_label, entry(R, -1);
+  inner_loop_.clear();
+  for (int k = R; k-- > 0;) {
+    const int r = order_[k], n = static_cast<int>(top_[r].size());
+    for (int i = arc_end_[r];; i = (i + 1) % n) {
+      if (i == arc_end_[r]) entry[k] = static_cast<int>(pts.size());
+      inner_loop_.push_back({r, i});
+      pts.push_back(root_ring_point(tooth_.roots[r], 0.0, i, n));
+      // Column i, then (at the arc's start) the hull edge, labelled as the column before it up
+      // to its split point, as the next root's last column beyond.
+      edge_label.push_back(label[r][i == arc_start_[r] ? (i + n - 1) % n : i]);
+      if (i == arc_start_[r]) break;
+    }
+    const int j = (k + R - 1) % R;  // the hull edge from order_[j]'s arc end to r's arc start
+    if (hull_split_[j].active) {
+      inner_loop_.push_back({-1, j});
+      pts.push_back(hull_split_[j].xy);
+      edge_label.push_back(label[order_[j]][arc_end_[order_[j]]]);
+    }
+  }
+  for (int& l : edge_label)
+    if (l >= R) throw MeshError("meshing the furcation lesion: two lesions meet; use degree III");
+  split_ = detail::split_inner_loop(pts, edge_label, direction, entry);
+  entry_ = entry;
+}
+
+// Socket points of root r's vertex b between depths t1 and t2 below the furcation plane, bottom
+// to top.
+std::vector<int> Builder::socket_column(size_t r, int b, double t1, double t2,
+                                        const std::map<int, std::vector<int>>& layer) const {
+  std::vector<int> c;
+  const size_t j1 = ring_level(r, t1), j2 = ring_level(r, t2);
+  for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
+    c.push_back(layer.at(rings_[r][j][b])[layers_]);
+  return c;
+}
+
+// The bone's column below a hull edge's split point: at the depths of the roots' rings down to
+// the lower of the crest and the septum's top, each point on the segment joining the two roots'
+// ring points there at the split's fraction (the roots diverge: a vertical column would run into
+// one of them), topped by the split point's socket point.
+void Builder::split_columns(const std::map<int, std::vector<int>>& layer) {
+  const double bottom = std::max(t_in_, t_out_);
+  const int R = static_cast<int>(order_.size());
+  const auto& x = points_.points();
+  for (int k = 0; k < R; ++k) {
+    HullSplit& h = hull_split_[k];
+    if (h.roof < 0) continue;
+    const int top = layer.at(h.roof)[layers_];
+    const int P = order_[k], Q = order_[(k + 1) % R];
+    const std::vector<double>& depths = ring_t_[P];
+    for (size_t j = depths.size(); j-- > 1;) {
+      if (depths[j] > bottom + 1e-12) continue;
+      const Eigen::Vector3d a = x[rings_[P][j][arc_end_[P]]];
+      const Eigen::Vector3d b = x[rings_[Q][ring_level(Q, depths[j])][arc_start_[Q]]];
+      h.column.push_back(add(a + h.s * (b - a), INT_MIN));
+      h.column_t.push_back(depths[j]);
+    }
+    h.column.push_back(top);
+    h.column_t.push_back(0.0);
+  }
+}
+
+// Hull edge k's split column between depths t1 and t2 (0: its socket point), bottom to top.
+std::vector<int> Builder::hull_column(int k, double t1, double t2) const {
+  const HullSplit& h = hull_split_[k];
+  std::vector<int> c;
+  for (size_t j = 0; j < h.column.size(); ++j)
+    if (h.column_t[j] >= std::min(t1, t2) - 1e-12 && h.column_t[j] <= std::max(t1, t2) + 1e-12)
+      c.push_back(h.column[j]);
+  return c;
+}
+
+// Hull edge k (order_[k]'s arc end to the next root's arc start): the socket's crest loop along
+// order_[k]'s outer arc (and the edge's split point), the wall of bone from the crest to the
+// columns' tops facing the lower side (two walls, meeting at the split column, when a lesion holds
+// one end only), and the roof's PDL ending along the part where the septum reaches the roof.
+void Builder::hull_edge_walls(size_t k, const Eigen::Vector3d& centre,
+                              const std::map<int, std::vector<int>>& layer) {
+  const auto& x = points_.points();
+  const size_t R = order_.size();
+  const size_t r = order_[k], r2 = order_[(k + 1) % R];
+  const std::vector<int>& ring_c = rings_[r][ring_level(r, t_out_)];
+  const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
+  for (int i = arc_start_[r];; i = (i + 1) % n) {
+    outer_top_.push_back(layer.at(ring_c[i])[layers_]);
+    if (i == arc_end_[r]) break;
+  }
+  const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
+  const int foot_a = rings_[r][0][arc_end_[r]], foot_b = rings_[r2][0][arc_start_[r2]];
+  auto wall = [&](std::vector<int> p, std::vector<int> q, double t) {
+    Wall w{std::move(p), std::move(q), centre};
+    if (t < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
+    walls_.push_back(w);
+  };
+  const bool split = partial_ && hull_split_[k].roof >= 0;
+  if (!split) {
+    if (t_a != t_b)
+      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
+    wall(socket_column(r, arc_end_[r], t_out_, t_a, layer),
+         socket_column(r2, arc_start_[r2], t_out_, t_a, layer), t_a);
+    if (t_a == 0)  // the roof's PDL ends along the hull edge
+      free_strip(foot_a, foot_b, -Eigen::Vector3d::UnitZ(), layer);
+    return;
+  }
+  const int c = hull_split_[k].roof;
+  outer_top_.push_back(hull_column(static_cast<int>(k), t_out_, t_out_).front());
+  wall(socket_column(r, arc_end_[r], t_out_, t_a, layer),
+       hull_column(static_cast<int>(k), t_out_, t_a), t_a);
+  wall(hull_column(static_cast<int>(k), t_out_, t_b),
+       socket_column(r2, arc_start_[r2], t_out_, t_b, layer), t_b);
+  free_strip(t_a == 0 ? foot_a : foot_b, c, -Eigen::Vector3d::UnitZ(), layer);
 }
 
 // Markers of the band of triangles join() just added to root r (two per column, column order),
@@ -540,12 +832,13 @@ void Builder::furcation_roof(const std::vector<int>& rim,
   // The septum at the roof under a crest below it: attached inside the roots' hull (the feet's
   // inner arcs joined along the hull), free outside it.
   std::vector<int> outer, inner;
-  for (int r : order_) {
-    const int n = static_cast<int>(feet[r].size());
+  for (size_t k = 0; k < order_.size(); ++k) {
+    const int r = order_[k], n = static_cast<int>(feet[r].size());
     for (int i = arc_start_[r];; i = (i + 1) % n) {
       outer.push_back(feet[r][i]);
       if (i == arc_end_[r]) break;
     }
+    if (partial_ && hull_split_[k].roof >= 0) outer.push_back(hull_split_[k].roof);
   }
   for (size_t k = order_.size(); k-- > 0;) {
     const int r = order_[k], n = static_cast<int>(feet[r].size());
@@ -559,30 +852,14 @@ void Builder::furcation_roof(const std::vector<int>& rim,
     roof_domain({inner}, kRootSurface);
     return;
   }
-  // Degree I or II: free from each entrance to the lesion's end on its two roots, attached
-  // beyond (the septum's loop: each root's inner arc less its lesions, in the inner loop's order).
-  auto arc = [&](int r, int from, int to, std::vector<int>* out) {
-    const int n = static_cast<int>(feet[r].size());
-    for (int i = from;; i = (i + 1) % n) {
-      out->push_back(feet[r][i]);
-      if (i == to) break;
-    }
+  // Degree I or II: each lesion's loop free, the septum's loops attached.
+  auto ids = [&](const std::vector<int>& loop) {
+    std::vector<int> out;
+    for (int m : loop) out.push_back(roof_vertex(m));
+    return out;
   };
-  std::vector<int> septum;
-  for (int k = 1; k >= 0; --k) {
-    const int r = order_[k], before = 1 - k;  // hull edge `before` ends at r's arc start
-    arc(r, entrance_[k] ? stop_p_[k] : arc_end_[r],
-        entrance_[before] ? stop_q_[before] : arc_start_[r], &septum);
-  }
-  for (int k = 0; k < 2; ++k) {
-    if (!entrance_[k]) continue;
-    const int P = order_[k], Q = order_[1 - k];
-    std::vector<int> lesion;
-    arc(P, arc_end_[P], stop_p_[k], &lesion);
-    arc(Q, stop_q_[k], arc_start_[Q], &lesion);
-    roof_domain({lesion}, kExposedRoot);
-  }
-  roof_domain({septum}, kRootSurface);
+  for (const std::vector<int>& loop : split_.lesion_loops) roof_domain({ids(loop)}, kExposedRoot);
+  for (const std::vector<int>& loop : split_.septum_loops) roof_domain({ids(loop)}, kRootSurface);
 }
 
 // Roof triangles in the domain bounded by the outlines (the first the outer boundary, the others
@@ -787,15 +1064,6 @@ void Builder::free_strip(int u, int v, const Eigen::Vector3d& outward,
 void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   const auto& x = points_.points();
   auto level = [&](size_t r, double t) { return ring_level(r, t); };
-  auto socket = [&](int v) { return layer.at(v)[layers_]; };
-  // Socket points of root r's vertex b between depths t1 and t2, bottom to top.
-  auto column = [&](size_t r, int b, double t1, double t2) {
-    std::vector<int> c;
-    const size_t j1 = level(r, t1), j2 = level(r, t2);
-    for (size_t j = std::max(j1, j2) + 1; j-- > std::min(j1, j2);)
-      c.push_back(socket(rings_[r][j][b]));
-    return c;
-  };
   for (size_t r = 0; r < rings_.size(); ++r) {
     const std::vector<std::vector<int>>& R = rings_[r];
     const std::vector<double>& top = top_[r];
@@ -817,25 +1085,8 @@ void Builder::pdl_lesion(const std::map<int, std::vector<int>>& layer) {
   Eigen::Vector3d centre = Eigen::Vector3d::Zero();
   for (const RootSpec& spec : tooth_.roots)
     centre += Eigen::Vector3d(spec.foot_x_mm, spec.foot_y_mm, 0) / tooth_.roots.size();
-  const size_t R = order_.size();
-  for (size_t k = 0; k < R; ++k) {
-    const size_t r = order_[k], r2 = order_[(k + 1) % R];
-    const std::vector<int>& ring_c = rings_[r][level(r, t_out_)];
-    const int n = static_cast<int>(ring_c.size()), n2 = static_cast<int>(top_[r2].size());
-    for (int i = arc_start_[r];; i = (i + 1) % n) {
-      outer_top_.push_back(socket(ring_c[i]));
-      if (i == arc_end_[r]) break;
-    }
-    const double t_a = top_[r][arc_end_[r]], t_b = top_[r2][(arc_start_[r2] + n2 - 1) % n2];
-    if (t_a != t_b)
-      throw MeshError("meshing the furcation lesion: it reaches one root only at a hull edge");
-    Wall w{column(r, arc_end_[r], t_out_, t_a), column(r2, arc_start_[r2], t_out_, t_a), centre};
-    if (t_a < t_out_) w.toward = 2 * x[w.p.front()] - centre;  // the septum stands up
-    walls_.push_back(w);
-    if (t_a == 0)  // the roof's PDL ends along the hull edge
-      free_strip(rings_[r][0][arc_end_[r]], rings_[r2][0][arc_start_[r2]],
-                 -Eigen::Vector3d::UnitZ(), layer);
-  }
+  if (partial_) split_columns(layer);
+  for (size_t k = 0; k < order_.size(); ++k) hull_edge_walls(k, centre, layer);
   lesion_floor(layer);
 }
 
@@ -862,18 +1113,22 @@ void Builder::lesion_floor(const std::map<int, std::vector<int>>& layer) {
     return;
   }
   const auto& x = points_.points();
-  for (int k = 0; k < 2; ++k) {
-    if (!entrance_[k]) continue;
-    const int P = order_[k], Q = order_[1 - k];
+  // Socket (or bone) points from the septum's top up to depth t (0: the roof).
+  auto column = [&](int m, double t) {
+    const auto [r, i] = inner_loop_[m];
+    return r >= 0 ? socket_column(r, i, t_in_, t, layer) : hull_column(i, t_in_, t);
+  };
+  for (size_t l = 0; l < split_.lesion_loops.size(); ++l) {
     floors_.emplace_back();
-    arc(P, arc_end_[P], stop_p_[k], &floors_.back());
-    arc(Q, stop_q_[k], arc_start_[Q], &floors_.back());
-    std::vector<int> p, q;
-    for (size_t j = level(P, t_in_) + 1; j-- > 0;) p.push_back(socket(rings_[P][j][stop_p_[k]]));
-    for (size_t j = level(Q, t_in_) + 1; j-- > 0;) q.push_back(socket(rings_[Q][j][stop_q_[k]]));
-    walls_.push_back(Wall{p, q, x[rings_[P][0][arc_end_[P]]]});  // facing the entrance
-    free_strip(rings_[P][0][stop_p_[k]], rings_[Q][0][stop_q_[k]], -Eigen::Vector3d::UnitZ(),
-               layer);
+    for (int m : split_.lesion_loops[l]) floors_.back().push_back(column(m, t_in_).front());
+    for (const auto& [a, b] : split_.cuts[l]) {
+      // The back wall faces the lesion (on lesion_side of a -> b at the roof).
+      const Eigen::Vector3d pa = x[roof_vertex(a)], pb = x[roof_vertex(b)];
+      const Eigen::Vector3d left(pa.y() - pb.y(), pb.x() - pa.x(), 0);
+      walls_.push_back(
+          Wall{column(a, 0.0), column(b, 0.0), 0.5 * (pa + pb) + split_.lesion_side[l] * left});
+      free_strip(roof_vertex(a), roof_vertex(b), -Eigen::Vector3d::UnitZ(), layer);
+    }
   }
 }
 
@@ -1108,30 +1363,97 @@ std::string mm(double v) {
 }
 }  // namespace
 
+// Degree I or II on a three-rooted tooth: how deep (mm, from the entrance along its probing
+// direction, as the thin layer measures) a lesion can reach before its back edge meets the third
+// root (the root not beside the entrance). Feet sampled at 360 points each. The mesh allows 0.7 mm
+// less: the 0.3 mm margin of its other levels and two ligament widths, by which the back edge
+// moves past a face or tip it grazes (partial_lesion_columns).
+double partial_lesion_reach_mm(const MultiRootTooth& tooth, FurcationEntrance entrance) {
+  std::vector<detail::HullPoint> pts;
+  for (size_t r = 0; r < tooth.roots.size(); ++r) {
+    const RootSpec& spec = tooth.roots[r];
+    for (int i = 0; i < 360; ++i)
+      pts.push_back({Eigen::Vector2d(spec.foot_x_mm, spec.foot_y_mm) +
+                         root_section_offset(spec, 2 * kPi * i / 360),
+                     static_cast<int>(r)});
+  }
+  const std::vector<detail::HullPoint> hull = detail::convex_hull(pts);
+  const Eigen::Vector2d d = entrance == FurcationEntrance::kBuccal    ? Eigen::Vector2d(1, 0)
+                            : entrance == FurcationEntrance::kLingual ? Eigen::Vector2d(-1, 0)
+                            : entrance == FurcationEntrance::kMesial  ? Eigen::Vector2d(0, 1)
+                                                                      : Eigen::Vector2d(0, -1);
+  double support = -1e300;
+  for (const detail::HullPoint& h : hull) support = std::max(support, h.p.dot(d));
+  const size_t H = hull.size();
+  size_t best = H;  // the entrance: the edge between two roots whose midpoint lies farthest along d
+  for (size_t i = 0; i < H; ++i)
+    if (hull[i].root != hull[(i + 1) % H].root &&
+        (best == H ||
+         (hull[i].p + hull[(i + 1) % H].p).dot(d) > (hull[best].p + hull[(best + 1) % H].p).dot(d)))
+      best = i;
+  const int a = hull[best].root, b = hull[(best + 1) % H].root;
+  double reach = 1e300;
+  for (const detail::HullPoint& q : pts)
+    if (q.root != a && q.root != b) reach = std::min(reach, support - q.p.dot(d));
+  return reach;
+}
+
 void validate_multi_root_mesh(const MultiRootTooth& tooth, const MultiRootBone& bone,
                               const MultiRootMeshSizing& sizing) {
   validate(tooth, bone);
   const int degree = bone.furcation.degree;
   const double gap_defect =
       outer_crest_z_mm(bone) - bone.loss.defect_depth_mm + tooth.trunk_length_mm;
-  if (bone.loss.defect_depth_mm > 0 && (gap_defect < 0.3 || degree != 0))
-    throw InputError("angular_defect.depth_mm",
-                     "the multi-rooted mesh covers an angular defect only with the crest on the "
-                     "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
-                     "here " +
-                         mm(gap_defect) +
-                         ") and no furcation lesion; use the thin-layer estimate "
-                         "(finite_elements false) for this scenario");
+  const double crest_gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;
+  // On the trunk everywhere, or on the roots everywhere (the outer crest already below the
+  // furcation plane, the septum at the roof): the crest ring follows the profile.
+  const bool on_roots = crest_gap <= -0.3 && bone.septum_to_roof;
+  // With a lesion whose septum's top lies below the crest: the defect's floor at least 0.6 mm
+  // above it (the septum's top stays a plane; at 0.5 mm a sliver of bone was cut off between
+  // the walls, TetGen left it unseeded).
+  const double floor_t = -crest_gap + bone.loss.defect_depth_mm;
+  const bool clear_of_septum = degree == 0 || bone.furcation.vertical_mm < -crest_gap ||
+                               floor_t <= bone.furcation.vertical_mm - 0.6;
+  if (bone.loss.defect_depth_mm > 0 &&
+      ((gap_defect < 0.3 && !on_roots) || (degree != 0 && !on_roots) || !clear_of_septum))
+    throw InputError(
+        "angular_defect.depth_mm",
+        "the multi-rooted mesh covers an angular defect only with the crest on the "
+        "trunk everywhere (its floor at least 0.3 mm above the furcation plane, "
+        "here " +
+            mm(gap_defect) +
+            ") and no furcation lesion, or, with horizontal loss taking the crest at "
+            "least 0.3 mm below the furcation plane, on the roots everywhere (with a "
+            "furcation lesion its floor at least 0.6 mm above the septum's top, here " +
+            mm(bone.furcation.vertical_mm - floor_t) +
+            "); use the thin-layer estimate (finite_elements false) for this "
+            "scenario");
   const double gap = outer_crest_z_mm(bone) + tooth.trunk_length_mm;  // crest above the plane
   if ((degree == 1 || degree == 2) && bone.septum_to_roof &&
-      (tooth.roots.size() != 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
-       gap > 0))
+      (tooth.roots.size() < 2 || tooth.type == MultiRootType::kMaxillaryFirstPremolarTwoRoots ||
+       tooth.type == MultiRootType::kMaxillarySecondMolar || gap > 0))
     throw InputError("furcation.degree",
                      "the multi-rooted mesh covers degree I and II furcation lesions only on the "
-                     "mandibular molars, with the outer crest below the "
-                     "furcation plane (the two-rooted premolar's narrow roof gave inverted "
-                     "elements); use the thin-layer estimate (finite_elements false) for this "
-                     "scenario");
+                     "mandibular molars and the maxillary first molar, with the outer crest below "
+                     "the furcation plane (the two-rooted premolar's narrow roof gave inverted "
+                     "elements; on the maxillary second molar's close roots the lesion's back "
+                     "edge could not keep clear of them); use the thin-layer estimate "
+                     "(finite_elements false) for this scenario");
+  if ((degree == 1 || degree == 2) && bone.septum_to_roof && tooth.roots.size() == 3)
+    for (FurcationEntrance e : bone.furcation.entrances) {
+      const double reach = partial_lesion_reach_mm(tooth, e);
+      const double depth = bone.furcation.horizontal_mm > 0 ? bone.furcation.horizontal_mm
+                                                            : (degree == 1 ? 2.0 : 4.0);
+      if (depth > reach - 0.7)
+        throw InputError(
+            "furcation.horizontal_mm",
+            "on this " + to_string(tooth.type) +
+                " the multi-rooted mesh covers a furcation lesion from the " + to_string(e) +
+                " entrance up to " + mm(reach - 0.7) + " deep (here " + mm(depth) +
+                "): deeper, its back edge would reach the third root, whose faces the "
+                "mesh does not split; use at most " +
+                mm(reach - 0.7) + ", or the thin-layer estimate (finite_elements false)");
+    }
   if (std::abs(gap) < 0.3)
     throw InputError("bone_loss_mm",
                      "the multi-rooted mesh needs the crest at least 0.3 mm above or below the "

@@ -190,6 +190,44 @@ TEST_P(MultiRootMeshTest, AngularDefectConformingAndPdlWidth) {
   EXPECT_NEAR(v_healthy - v_defect, a_healthy - a_defect, 0.1 * (a_healthy - a_defect));
 }
 
+// Angular defect on the roots: horizontal loss takes the crest 1.5 mm below the furcation plane
+// (the septum at the roof), a mesial defect 60 degrees wide lowers it 2 mm more (the roots' crest
+// ring and the bone's top follow the cos^2 profile; the roots' rings above and below it spread
+// in proportion).
+TEST_P(MultiRootMeshTest, AngularDefectOnTheRootsConformingAndPdlWidth) {
+  const MultiRootTooth tooth = multi_root_handbook(GetParam());
+  MultiRootBone bone;
+  bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+  bone.loss.defect_depth_mm = 2;
+  bone.loss.defect_surface = ToothSurface::kMesial;
+  check_mesh(tooth, bone, 0.08);
+}
+
+// An angular defect on the roots with a furcation lesion (the crest 1.5 mm below the furcation
+// plane, the septum's top 3 mm below the roof in the lesion, a mesial defect 0.9 mm deep: its
+// floor 0.6 mm above the septum's top, the least the mesh takes): degree III on the mandibular
+// first molar, degree I (2 mm) on the mandibular first molar, degree II (4 mm) on the maxillary
+// first molar, both from the buccal entrance. Roof bound as for the lesions alone.
+TEST(MultiRootMeshLesion, AngularDefectWithALesion) {
+  struct Case {
+    MultiRootType type;
+    int degree;
+    double roof_bound_mm3;
+  };
+  for (const Case& c : {Case{MultiRootType::kMandibularFirstMolar, 3, 0},
+                        Case{MultiRootType::kMandibularFirstMolar, 1, 0.18},
+                        Case{MultiRootType::kMaxillaryFirstMolar, 2, 0.85}}) {
+    const MultiRootTooth tooth = multi_root_handbook(c.type);
+    MultiRootBone bone;
+    bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+    bone.loss.defect_depth_mm = 0.9;
+    bone.loss.defect_surface = ToothSurface::kMesial;
+    bone.furcation.degree = c.degree;
+    std::cout << to_string(c.type) << ", degree " << c.degree << " with a mesial defect\n";
+    check_mesh(tooth, bone, 0.08, c.roof_bound_mm3);
+  }
+}
+
 // Degree I and II lesions on the mandibular molars (one entrance, then degree I from both; the
 // outer crest 1.5 mm below
 // the furcation plane, the septum's top 3 mm below the roof inside the lesion, at the roof beyond
@@ -230,6 +268,42 @@ TEST(MultiRootMeshLesion, DegreeOneAndTwoOnTheMandibularMolars) {
   EXPECT_THROW(build_multi_root_mesh(premolar, bone), InputError);
 }
 
+// Degree I and II lesions on the maxillary first molar from each of its three entrances (the outer
+// crest 1.5 mm below the furcation plane, the septum's top 3 mm below the roof inside the lesion):
+// the back edge crosses the furcation from root to root, or from a root to the roots' hull
+// between the other two (split there), and keeps two ligament widths from the roots' faces and
+// tips. Degree II from the buccal entrance only: from the others the mesh stops at 3.0 and 2.88
+// mm, 0.7 mm before the third root (validate_multi_root_mesh). The maxillary second molar is
+// refused (its close roots: the back edge moved past them, the lesion grew far beyond the thin
+// layer's, one inverted element at 1.5 mm mesially).
+// The roof's volume: the mesh's back edge lies up to half a ring spacing (0.45 mm) from the thin
+// layer's, or two widths (0.4 mm) past a grazed face or tip, across at most 5 mm of furcation:
+// up to 0.85 x 5 = 4.3 mm^2 of roof, 0.85 mm^3 of PDL per lesion (derived).
+TEST(MultiRootMeshLesion, DegreeOneAndTwoOnTheMaxillaryFirstMolar) {
+  struct Case {
+    MultiRootType type;
+    FurcationEntrance entrance;
+    double depth_mm;
+  };
+  for (const Case& c :
+       {Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kBuccal, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kBuccal, 4},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kMesial, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kDistal, 2},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kMesial, 2.8},
+        Case{MultiRootType::kMaxillaryFirstMolar, FurcationEntrance::kDistal, 2.6}}) {
+    const MultiRootTooth tooth = multi_root_handbook(c.type);
+    MultiRootBone bone;
+    bone.loss.horizontal_mm = tooth.trunk_length_mm + 1.5 - bone.crest_below_cej_mm;
+    bone.furcation.degree = c.depth_mm <= 3 ? 1 : 2;
+    bone.furcation.horizontal_mm = c.depth_mm;
+    bone.furcation.entrances = {c.entrance};
+    std::cout << to_string(c.type) << ", degree " << bone.furcation.degree << ", " << c.depth_mm
+              << " mm from the " << to_string(c.entrance) << " entrance\n";
+    check_mesh(tooth, bone, 0.08, 0.85);
+  }
+}
+
 // The septum's top above the outer crest (a lesion 1 mm deep under a crest 1.5 mm below the
 // furcation plane): the septum stands up between the roots.
 TEST(MultiRootMeshLesion, SeptumAboveTheCrest) {
@@ -247,8 +321,10 @@ INSTANTIATE_TEST_SUITE_P(Teeth, MultiRootMeshTest, ::testing::ValuesIn(all_multi
                          });
 
 // Robustness: degree III lesions over a grid of crest and septum levels, degree I and II lesions
-// of several depths from either entrance on the mandibular molars, and angular defects of
-// several depths and surfaces, on every tooth: each either meshes (conforming, checked inside)
+// of several depths from each entrance on the mandibular molars and the maxillary first molar
+// (refused past the depth validate_multi_root_mesh allows), and angular defects of
+// several depths and surfaces (on the trunk, and on the roots under a crest below the furcation
+// plane), on every tooth: each either meshes (conforming, checked inside)
 // or is refused with an InputError, never a MeshError.
 TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
   int n_meshed = 0, n_refused = 0;
@@ -266,10 +342,17 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
       }
     const bool mandibular = type == MultiRootType::kMandibularFirstMolar ||
                             type == MultiRootType::kMandibularSecondMolar;
+    const bool maxillary = type == MultiRootType::kMaxillaryFirstMolar;
+    const std::vector<FurcationEntrance> entrances =
+        maxillary
+            ? std::vector<FurcationEntrance>{FurcationEntrance::kBuccal, FurcationEntrance::kMesial,
+                                             FurcationEntrance::kDistal}
+            : std::vector<FurcationEntrance>{FurcationEntrance::kBuccal,
+                                             FurcationEntrance::kLingual};
     for (double below : {0.5, 2.5})
-      for (FurcationEntrance e : {FurcationEntrance::kBuccal, FurcationEntrance::kLingual})
+      for (FurcationEntrance e : entrances)
         for (double depth : {1.0, 2.0, 3.0, 3.5, 4.5}) {
-          if (!mandibular) break;
+          if (!mandibular && !maxillary) break;
           MultiRootBone b;
           b.loss.horizontal_mm = gap + below;
           b.furcation.degree = depth <= 3.0 ? 1 : 2;
@@ -285,6 +368,21 @@ TEST(MultiRootMeshLesion, EveryToothMeshesAGridOfLesionsAndDefects) {
         b.loss.defect_width_deg = 90;
         if (b.loss.defect_depth_mm > 0) bones.push_back(b);
       }
+    for (ToothSurface surface : {ToothSurface::kMesial, ToothSurface::kLabial})
+      for (double below : {0.5, 1.5})
+        for (double depth : {1.0, 3.0}) {  // on the roots, under a crest below the plane
+          MultiRootBone b;
+          b.loss.horizontal_mm = gap + below;
+          b.loss.defect_depth_mm = depth;
+          b.loss.defect_surface = surface;
+          b.loss.defect_width_deg = 90;
+          bones.push_back(b);
+          for (int degree : {1, 3}) {  // with a lesion (refused when too deep for it)
+            b.loss.defect_depth_mm = depth - 0.5;
+            b.furcation.degree = degree;
+            bones.push_back(b);
+          }
+        }
     for (const MultiRootBone& b : bones) {
       try {
         validate_multi_root_mesh(tooth, b);
@@ -317,6 +415,21 @@ TEST(MultiRootMeshLimits, RefusesWhatItDoesNotMeshYet) {
   MultiRootBone near;
   near.loss.horizontal_mm = 1.4;  // crest 0.1 mm below the furcation plane
   EXPECT_THROW(build_multi_root_mesh(tooth, near), InputError);
+  // A degree II lesion from the maxillary first molar's mesial entrance, 4 mm deep: its back edge
+  // would reach the distobuccal root (allowed up to 3.0 mm there); refused naming the key.
+  const MultiRootTooth upper = multi_root_handbook(MultiRootType::kMaxillaryFirstMolar);
+  MultiRootBone deep;
+  deep.loss.horizontal_mm = upper.trunk_length_mm;
+  deep.furcation.degree = 2;
+  deep.furcation.horizontal_mm = 4;
+  deep.furcation.entrances = {FurcationEntrance::kMesial};
+  try {
+    validate_multi_root_mesh(upper, deep);
+    ADD_FAILURE() << "a lesion reaching the third root was not refused";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key(), "furcation.horizontal_mm");
+    std::cout << e.what() << "\n";
+  }
 }
 
 }  // namespace

@@ -194,14 +194,18 @@ double furcation_through_depth_mm(const MultiRootTooth& tooth, FurcationEntrance
 // Covered so far: the outer crest at least 0.3 mm above the furcation plane, or below it with a
 // level crest through the furcation (septum_to_roof false), with the septum at the roof (the roof
 // attached inside the roots' hull, free outside it), with a degree I or II lesion on a
-// mandibular molar (the lesion's columns and roof from each entrance to the horizontal depth),
-// or with a degree III lesion
+// mandibular molar or on the maxillary first molar up to 0.7 mm short of its third root (the
+// lesion's columns and roof from each entrance to the horizontal depth, its back edge a straight
+// cut across the roof, split on the roots' hull where it crosses it), or with a degree III lesion
 // (the septum's top vertical_mm below the roof, at least 0.3 mm from the crest: each root's
 // ring columns on the roots' hull attached below the crest, the others below the septum's top;
 // free PDL faces, kPdlCrest, along the lesion's edge; docs/molars.md); an angular defect whose
 // floor stays at least 0.3 mm above the furcation plane (the crest ring and the bone's top follow
-// the profile), without a lesion. No degree I or II lesion on the maxillary teeth, no defect
-// reaching the roots;
+// the profile), without a lesion, or one on the roots under an outer crest at least 0.3 mm below
+// the furcation plane (the septum at the roof, or a lesion whose septum's top lies below the
+// crest or at least 0.6 mm below the defect's floor). No degree I or II lesion on the maxillary
+// second molar or the premolar, no defect reaching the roots from a crest above the furcation
+// plane;
 // anything else throws InputError naming what is not yet meshed.
 struct MultiRootMeshSizing {
   double edge_mm = 0.9;       // along the root surfaces
