@@ -218,10 +218,10 @@ TEST_F(SweepMolarSample, InterruptedRunKeepsItsCheckpointsAndResumes) {
 
 TEST(SweepMolar, InvalidCombinationsAreFailureRecordsNamingTheKey) {
   TempFolder folder("sweep-molar-bad");
-  // Degree 5 does not exist; degree II on a maxillary molar cannot be meshed yet
+  // Degree 5 does not exist; degree II on the maxillary second molar cannot be meshed yet
   // (finite_elements), while on the mandibular molar it can: one finite-element solve.
   write_file(folder / "design.json", R"({"label": "Invented test design",
-      "teeth": ["mandibular_first_molar", "maxillary_first_molar"], "bone_levels_mm": [3],
+      "teeth": ["mandibular_first_molar", "maxillary_second_molar"], "bone_levels_mm": [3],
       "furcation_degrees": [2, 5], "also_vary": {"finite_elements": [true]}})");
   const ProcessResult r = run_batch(
       {"sweep", sample_path(kCase), "--design", folder / "design.json", "--out", folder / "out"});
