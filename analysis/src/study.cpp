@@ -22,13 +22,19 @@ void require_scenarios(const CaseSpec& spec) {
 
 }  // namespace
 
-// The mesher is single-threaded while assembly and factorisation use both cores: scenario k + 1 is
-// meshed on a second thread while scenario k is solved (at most one mesher runs at a time, so
-// memory stays at one model being meshed plus the solved ones). Progress is reported from the
-// calling thread only.
+// The mesher and METIS are single-threaded while assembly and factorisation use both cores:
+// scenario k + 1 is meshed and its nodes ordered (fem::order_nodes: the mesh is all METIS needs, a
+// few MB) on a second thread while scenario k is solved. At most one scenario is prepared at a
+// time, so memory stays at one model being meshed plus the solved ones; the stiffness matrix and
+// the factor of scenario k + 1 are only made once scenario k is done. Progress is reported from
+// the calling thread only.
 struct StudySolver::Ahead {
-  int index = 0;  // the scenario being meshed
-  std::future<mesh::ToothModel> model;
+  struct Prepared {
+    mesh::ToothModel model;
+    std::vector<int> node_order;
+  };
+  int index = 0;  // the scenario being prepared
+  std::future<Prepared> prepared;
 };
 
 StudySolver::StudySolver(CaseSpec spec, const std::atomic<bool>* cancel)
@@ -51,7 +57,10 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     mesh::ModelSpec m = spec_.model;
     const Scenario& scenario = spec_.scenarios[static_cast<size_t>(k)];
     m.loss = scenario.loss;
-    return detail::build_scenario_model(m, scenario.name, cancel_);
+    Ahead::Prepared p{detail::build_scenario_model(m, scenario.name, cancel_), {}};
+    if (cancel_ != nullptr && cancel_->load()) return p;  // the caller throws Cancelled
+    p.node_order = fem::order_nodes(p.model.mesh, detail::scenario_constraints(p.model.mesh));
+    return p;
   };
   // No second thread to be had (thread or memory limits): mesh on this thread when get() asks.
   const auto start_meshing = [&build](int k) {
@@ -72,25 +81,28 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     if (cancelled()) throw Cancelled();
     ahead_ = std::make_unique<Ahead>();
     ahead_->index = k;
-    ahead_->model = start_meshing(k);
+    ahead_->prepared = start_meshing(k);
   }
   const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
                              spec_.scenarios[static_cast<size_t>(k)].name + "): ";
   overall(prefix + "mesh", 0.0);
   // get() rethrows the mesher's exception; the future is then empty, so a later call meshes anew.
-  std::future<mesh::ToothModel> pending = std::move(ahead_->model);
+  std::future<Ahead::Prepared> pending = std::move(ahead_->prepared);
   ahead_.reset();
-  mesh::ToothModel model = pending.get();
+  Ahead::Prepared prepared = pending.get();
   if (cancelled()) throw Cancelled();
   if (k + 1 < n) {
     ahead_ = std::make_unique<Ahead>();
     ahead_->index = k + 1;
-    ahead_->model = start_meshing(k + 1);
+    ahead_->prepared = start_meshing(k + 1);
   }
   const ProgressCallback local = [&](const std::string& stage, double fraction) {
     overall(prefix + stage, fraction);
   };
-  auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(model), local, cancel_);
+  ScenarioOptions options;
+  options.node_order = std::move(prepared.node_order);
+  auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(prepared.model), local,
+                                                     cancel_, std::move(options));
   ++next_;
   if (done() && progress) progress("done", 1.0);
   return solution;

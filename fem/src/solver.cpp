@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <functional>
 #include <map>
 #include <mutex>
 #include <set>
@@ -16,6 +17,7 @@
 
 #include "detail/cholmod_handles.h"
 #include "detail/kinematics.h"
+#include "detail/node_graph.h"
 #include "sharpey/core/check.h"
 #include "sharpey/error.h"
 
@@ -156,39 +158,53 @@ cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
   return A;
 }
 
-// METIS nested dissection of the graph whose vertices are the nodes with free dofs (two nodes
-// adjacent when any of their dofs couple in A), expanded to the dofs: a node's free dofs stay
-// consecutive. `free_dofs` maps A's columns to global dofs (node = dof / 3). Returns an empty
-// vector when METIS fails (the caller then reports CHOLMOD's status).
-std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
-                                                      const std::vector<int>& free_dofs,
-                                                      cholmod_common* common) {
-  const long nf = static_cast<long>(A->ncol);
-  std::vector<long> node_of(static_cast<size_t>(nf));
-  std::vector<long> first_col;  // compact node -> its first column
-  for (long j = 0; j < nf; ++j) {
-    const int node = free_dofs[static_cast<size_t>(j)] / 3;
-    if (j == 0 || node != free_dofs[static_cast<size_t>(j - 1)] / 3) first_col.push_back(j);
-    node_of[static_cast<size_t>(j)] = static_cast<long>(first_col.size()) - 1;
-  }
-  const long nn = static_cast<long>(first_col.size());
-  // Upper-triangle node pattern, column by column, without duplicates.
-  const long* Ap = static_cast<const long*>(A->p);
-  const long* Ai = static_cast<const long*>(A->i);
-  std::vector<std::vector<long>> cols(static_cast<size_t>(nn));
-  for (long j = 0; j < nf; ++j) {
-    const long cj = node_of[static_cast<size_t>(j)];
-    for (long q = Ap[j]; q < Ap[j + 1]; ++q) {
-      const long ci = node_of[static_cast<size_t>(Ai[q])];
-      cols[static_cast<size_t>(std::max(ci, cj))].push_back(std::min(ci, cj));
+// METIS keeps its random number generator in global state (GKlib's, seeded at the start of each
+// ordering), so two orderings at once in one process draw from the same sequence and may give
+// different permutations, hence different round-off (solvers built side by side: the allowance
+// band's workers, a study ordering the next scenario ahead). One ordering at a time in the
+// process; the rest of a solve runs in parallel.
+std::mutex& ordering_mutex() {
+  static std::mutex m;
+  return m;
+}
+
+// Node adjacency (each node's neighbours, itself included, ascending) read off the pattern of a
+// stiffness matrix made of dense 3 x 3 node blocks: the rows of each node's first column.
+detail::NodeGraph node_adjacency(const Eigen::SparseMatrix<double>& K) {
+  const int n = static_cast<int>(K.cols() / 3);
+  detail::NodeGraph g;
+  g.ptr.assign(static_cast<size_t>(n) + 1, 0);
+  for (int j = 0; j < n; ++j) {
+    g.ptr[static_cast<size_t>(j) + 1] = g.ptr[static_cast<size_t>(j)];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(K, 3 * j); it; ++it) {
+      if (it.row() % 3 != 0) continue;
+      g.adjacent.push_back(static_cast<int>(it.row() / 3));
+      ++g.ptr[static_cast<size_t>(j) + 1];
     }
   }
+  return g;
+}
+
+// METIS nested dissection (through CHOLMOD) of the graph of the nodes flagged in `ordered` (the
+// nodes with free dofs), two nodes adjacent when they share an element. Returns the flagged node
+// ids in elimination order; empty when METIS fails (the caller reports CHOLMOD's status).
+std::vector<int> metis_node_order(const detail::NodeGraph& g, const std::vector<char>& ordered,
+                                  cholmod_common* common) {
+  const int n = static_cast<int>(ordered.size());
+  std::vector<long> compact(static_cast<size_t>(n), -1);
+  std::vector<int> node_of;  // compact index -> node id
   long nnz = 0;
-  for (auto& c : cols) {
-    std::sort(c.begin(), c.end());
-    c.erase(std::unique(c.begin(), c.end()), c.end());
-    nnz += static_cast<long>(c.size());
+  for (int i = 0; i < n; ++i) {
+    if (!ordered[static_cast<size_t>(i)]) continue;
+    compact[static_cast<size_t>(i)] = static_cast<long>(node_of.size());
+    node_of.push_back(i);
+    for (long long q = g.ptr[static_cast<size_t>(i)]; q < g.ptr[static_cast<size_t>(i) + 1]; ++q) {
+      const int a = g.adjacent[static_cast<size_t>(q)];
+      if (a <= i && ordered[static_cast<size_t>(a)]) ++nnz;
+    }
   }
+  const long nn = static_cast<long>(node_of.size());
+  // Upper triangle with the diagonal, columns ascending: the pattern of the free block by nodes.
   const detail::SparsePtr G(
       cholmod_l_allocate_sparse(static_cast<size_t>(nn), static_cast<size_t>(nn),
                                 static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_PATTERN, common),
@@ -199,38 +215,75 @@ std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
   long q = 0;
   for (long j = 0; j < nn; ++j) {
     Gp[j] = q;
-    for (long i : cols[static_cast<size_t>(j)]) Gi[q++] = i;
+    const int i = node_of[static_cast<size_t>(j)];
+    for (long long r = g.ptr[static_cast<size_t>(i)]; r < g.ptr[static_cast<size_t>(i) + 1]; ++r) {
+      const long c = compact[static_cast<size_t>(g.adjacent[static_cast<size_t>(r)])];
+      if (c >= 0 && c <= j) Gi[q++] = c;
+    }
   }
   Gp[nn] = q;
-  std::vector<SuiteSparse_long> node_perm(static_cast<size_t>(nn));
-  if (!cholmod_l_metis(G.get(), nullptr, 0, 0, node_perm.data(), common)) return {};
+  std::vector<SuiteSparse_long> perm(static_cast<size_t>(nn));
+  {
+    const std::lock_guard<std::mutex> lock(ordering_mutex());
+    if (!cholmod_l_metis(G.get(), nullptr, 0, 0, perm.data(), common)) return {};
+  }
+  std::vector<int> order(static_cast<size_t>(nn));
+  for (long k = 0; k < nn; ++k)
+    order[static_cast<size_t>(k)] = node_of[static_cast<size_t>(perm[k])];
+  return order;
+}
+
+// The nodes with at least one free dof (free_dofs: ascending global dofs), among n_nodes.
+std::vector<char> nodes_of_dofs(const std::vector<int>& free_dofs, int n_nodes) {
+  std::vector<char> flag(static_cast<size_t>(n_nodes), 0);
+  for (int d : free_dofs) flag[static_cast<size_t>(d / 3)] = 1;
+  return flag;
+}
+
+// A node ordering expanded to A's columns, each node's free dofs kept together in ascending
+// order. Throws InputError unless `node_order` names every node with a free dof exactly once and
+// no other node (a given ordering computed on another mesh or other constraints).
+std::vector<SuiteSparse_long> dof_permutation(const std::vector<int>& node_order,
+                                              const std::vector<int>& free_dofs, int n_nodes) {
+  std::vector<long> first(static_cast<size_t>(n_nodes) + 1, -1);  // node -> its first column
+  for (size_t j = free_dofs.size(); j-- > 0;)
+    first[static_cast<size_t>(free_dofs[j] / 3)] = static_cast<long>(j);
   std::vector<SuiteSparse_long> perm;
-  perm.reserve(static_cast<size_t>(nf));
-  for (SuiteSparse_long c : node_perm) {
-    for (long j = first_col[static_cast<size_t>(c)]; j < nf && node_of[static_cast<size_t>(j)] == c;
+  perm.reserve(free_dofs.size());
+  const auto bad = [] {
+    return InputError("node_order",
+                      "the given node ordering does not match this model's mesh and constraints; "
+                      "compute it with fem::order_nodes on the same mesh and constraints");
+  };
+  for (int node : node_order) {
+    SHARPEY_CHECK(node >= 0 && node < n_nodes && first[static_cast<size_t>(node)] >= 0, bad());
+    for (long j = first[static_cast<size_t>(node)];
+         j < static_cast<long>(free_dofs.size()) && free_dofs[static_cast<size_t>(j)] / 3 == node;
          ++j) {
       perm.push_back(j);
     }
+    first[static_cast<size_t>(node)] = -1;  // a node named twice is caught above
   }
+  SHARPEY_CHECK(perm.size() == free_dofs.size(), bad());
   return perm;
 }
 
-// METIS keeps its random number generator in global state (GKlib's, seeded at the start of each
-// ordering), so two orderings at once in one process draw from the same sequence and may give
-// different permutations, hence different round-off (solvers built side by side: the allowance
-// band's workers). One ordering at a time in the process; the rest of a solve runs in parallel.
-std::mutex& ordering_mutex() {
-  static std::mutex m;
-  return m;
-}
-
-// Symbolic analysis of A under the ordering `configure` set up.
+// Ordering and symbolic analysis of A under the ordering `configure` set up. kMetisNodes orders
+// the node graph `g` (or takes `given`, a node ordering computed ahead) and lets CHOLMOD postorder
+// it; the other orderings are CHOLMOD's own.
 cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Ordering ordering,
-                        cholmod_common* common) {
-  const std::lock_guard<std::mutex> lock(ordering_mutex());
-  if (ordering != Ordering::kMetisNodes) return cholmod_l_analyze(A, common);
-  std::vector<SuiteSparse_long> perm = nodal_metis_permutation(A, free_dofs, common);
-  if (perm.empty()) return nullptr;
+                        const std::function<detail::NodeGraph()>& node_graph,
+                        const std::vector<int>& given, int n_nodes, cholmod_common* common) {
+  if (ordering != Ordering::kMetisNodes) {
+    const std::lock_guard<std::mutex> lock(ordering_mutex());
+    return cholmod_l_analyze(A, common);
+  }
+  std::vector<int> node_order = given;
+  if (node_order.empty()) {
+    node_order = metis_node_order(node_graph(), nodes_of_dofs(free_dofs, n_nodes), common);
+    if (node_order.empty()) return nullptr;
+  }
+  std::vector<SuiteSparse_long> perm = dof_permutation(node_order, free_dofs, n_nodes);
   return cholmod_l_analyze_p(A, perm.data(), nullptr, 0, common);
 }
 }  // namespace
@@ -379,12 +432,19 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   if (nf == 0) return;  // everything prescribed: nothing to solve
 
   configure(common.get(), options.ordering);
+  SHARPEY_CHECK(options.node_order.empty() || options.ordering == Ordering::kMetisNodes,
+                InputError("node_order", "a given node ordering needs the ordering metis-nodes (" +
+                                             to_string(options.ordering) +
+                                             " was asked for); leave node_order empty"));
 
   std::vector<double> diagonal;
   detail::SparsePtr A = free_block(&diagonal);
 
   auto t0 = Clock::now();
-  L = detail::own(analyse(A.get(), free_dofs, options.ordering, common.get()), common);
+  const auto node_graph = [&mesh] { return detail::build_node_graph(mesh); };
+  L = detail::own(analyse(A.get(), free_dofs, options.ordering, node_graph, options.node_order,
+                          n_nodes, common.get()),
+                  common);
   stats.analyse_s = seconds_since(t0);
   if (!L || common->status < CHOLMOD_OK) {
     throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " +
@@ -600,6 +660,39 @@ Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
   return impl_->K * u - f;
 }
 
+std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
+                             const std::vector<DofConstraint>& constraints) {
+  const int n = mesh.n_nodes();
+  std::vector<char> fixed(3 * static_cast<size_t>(n), 0);
+  for (size_t i = 0; i < constraints.size(); ++i) {
+    const DofConstraint& c = constraints[i];
+    SHARPEY_CHECK(
+        c.node >= 0 && c.node < n && c.component >= 0 && c.component <= 2,
+        InputError("constraints[" + std::to_string(i) + "]",
+                   "constraint " + std::to_string(i) + " names node " + std::to_string(c.node) +
+                       " component " + std::to_string(c.component) + ", outside this mesh of " +
+                       std::to_string(n) +
+                       " nodes; use a node of the mesh and 0, 1 "
+                       "or 2 for x, y or z"));
+    fixed[3 * static_cast<size_t>(c.node) + static_cast<size_t>(c.component)] = 1;
+  }
+  std::vector<char> used(static_cast<size_t>(n), 0);
+  for (int v : mesh.elements) used[static_cast<size_t>(v)] = 1;
+  std::vector<char> ordered(static_cast<size_t>(n), 0);
+  for (size_t i = 0; i < used.size(); ++i) {
+    ordered[i] = used[i] && !(fixed[3 * i] && fixed[3 * i + 1] && fixed[3 * i + 2]);
+  }
+  detail::CholmodCommon common;
+  configure(common.get(), Ordering::kMetisNodes);
+  std::vector<int> order = metis_node_order(detail::build_node_graph(mesh), ordered, common.get());
+  const bool none = std::find(ordered.begin(), ordered.end(), 1) == ordered.end();
+  if (order.empty() && !none) {
+    throw SolverError("the fill-reducing ordering of the mesh's nodes failed: " +
+                      cholmod_status_text(common->status));
+  }
+  return order;
+}
+
 OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
                                    const std::vector<DofConstraint>& constraints,
                                    Ordering ordering) {
@@ -628,8 +721,9 @@ OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
   const detail::SparsePtr A =
       detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
   const auto t0 = Clock::now();
-  const detail::FactorPtr L =
-      detail::own(analyse(A.get(), free_dofs, ordering, common.get()), common);
+  const auto node_graph = [&K] { return node_adjacency(K); };
+  const detail::FactorPtr L = detail::own(
+      analyse(A.get(), free_dofs, ordering, node_graph, {}, n_dofs / 3, common.get()), common);
   out.analyse_s = seconds_since(t0);
   const int status = common->status;
   if (L) {

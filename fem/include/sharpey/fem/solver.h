@@ -27,6 +27,10 @@ std::string to_string(Ordering ordering);  // "auto", "amd", "metis", "nesdis", 
 struct SolverOptions {
   // Chosen by measurement on 10-node tooth and block meshes (docs/fem-solver.md).
   Ordering ordering = Ordering::kMetisNodes;
+  // With kMetisNodes: the node ordering computed ahead by order_nodes() on the same mesh and
+  // constraints (node ids in elimination order), used instead of ordering the nodes again; the
+  // result is the same to the last bit. Empty: the solver orders the nodes itself.
+  std::vector<int> node_order;
   AssemblyOptions assembly;
   // A solve whose relative residual exceeds this throws SolverError.
   double max_relative_residual = 1e-6;
@@ -107,6 +111,16 @@ class LinearElasticSolver {
   struct Impl;
   Impl* impl_;
 };
+
+// The fill-reducing node ordering the solver computes for kMetisNodes (METIS nested dissection of
+// the graph of the nodes with a free dof, two nodes adjacent when they share an element): node ids
+// in elimination order. Needs the mesh and the constraints only, not the stiffness matrix, so it
+// can be computed ahead (a study orders the next scenario's mesh while this one factorises) and
+// passed in SolverOptions::node_order. Throws InputError for a constraint outside the mesh,
+// SolverError when METIS fails. One ordering runs at a time in the process (METIS keeps global
+// state); a call waits for another thread's ordering to finish.
+std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
+                             const std::vector<DofConstraint>& constraints);
 
 // Fill and work of the factorisation under one ordering, from CHOLMOD's symbolic analysis only (no
 // numeric factorisation): for choosing an ordering by measurement (bench_assembly).
