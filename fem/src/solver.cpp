@@ -7,12 +7,13 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <functional>
+#include <future>
 #include <map>
 #include <mutex>
 #include <set>
 #include <sstream>
 #include <string>
+#include <system_error>
 #include <utility>
 
 #include "detail/cholmod_handles.h"
@@ -268,20 +269,14 @@ std::vector<SuiteSparse_long> dof_permutation(const std::vector<int>& node_order
   return perm;
 }
 
-// Ordering and symbolic analysis of A under the ordering `configure` set up. kMetisNodes orders
-// the node graph `g` (or takes `given`, a node ordering computed ahead) and lets CHOLMOD postorder
-// it; the other orderings are CHOLMOD's own.
+// Ordering and symbolic analysis of A under the ordering `configure` set up. kMetisNodes takes
+// `node_order` (the nodes in elimination order) and lets CHOLMOD postorder it; the other orderings
+// are CHOLMOD's own.
 cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Ordering ordering,
-                        const std::function<detail::NodeGraph()>& node_graph,
-                        const std::vector<int>& given, int n_nodes, cholmod_common* common) {
+                        const std::vector<int>& node_order, int n_nodes, cholmod_common* common) {
   if (ordering != Ordering::kMetisNodes) {
     const std::lock_guard<std::mutex> lock(ordering_mutex());
     return cholmod_l_analyze(A, common);
-  }
-  std::vector<int> node_order = given;
-  if (node_order.empty()) {
-    node_order = metis_node_order(node_graph(), nodes_of_dofs(free_dofs, n_nodes), common);
-    if (node_order.empty()) return nullptr;
   }
   std::vector<SuiteSparse_long> perm = dof_permutation(node_order, free_dofs, n_nodes);
   return cholmod_l_analyze_p(A, perm.data(), nullptr, 0, common);
@@ -322,8 +317,12 @@ struct LinearElasticSolver::Impl {
   void assemble(const mesh::VolumeMesh& mesh);
   // The upper triangle of the free-free block of K (its diagonal into *diagonal).
   detail::SparsePtr free_block(std::vector<double>* diagonal);
-  // Ordering and symbolic analysis (L), then the numeric factorisation.
-  void factorise(const mesh::VolumeMesh& mesh);
+  // kMetisNodes without a given node ordering: order_nodes() started on a second thread, so that
+  // METIS runs beside the assembly (an empty future otherwise).
+  std::future<std::vector<int>> start_ordering(const mesh::VolumeMesh& mesh) const;
+  // Ordering (the node ordering given, or taken from `ordering`) and symbolic analysis (L), then
+  // the numeric factorisation.
+  void factorise(const mesh::VolumeMesh& mesh, std::future<std::vector<int>>* ordering);
   // Numeric factorisation of A into the analysed L, with the checks of the pivots.
   void factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
                          const std::vector<double>& diagonal);
@@ -427,7 +426,22 @@ detail::SparsePtr LinearElasticSolver::Impl::free_block(std::vector<double>* dia
   return A;
 }
 
-void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
+std::future<std::vector<int>> LinearElasticSolver::Impl::start_ordering(
+    const mesh::VolumeMesh& mesh) const {
+  if (options.ordering != Ordering::kMetisNodes || !options.node_order.empty() ||
+      free_dofs.empty()) {
+    return {};
+  }
+  const auto order = [&mesh, this] { return order_nodes(mesh, constraints); };
+  try {
+    return std::async(std::launch::async, order);
+  } catch (const std::system_error&) {  // no second thread to be had: order when asked
+    return std::async(std::launch::deferred, order);
+  }
+}
+
+void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh,
+                                          std::future<std::vector<int>>* ordering) {
   const long nf = static_cast<long>(free_dofs.size());
   if (nf == 0) return;  // everything prescribed: nothing to solve
 
@@ -440,10 +454,12 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   std::vector<double> diagonal;
   detail::SparsePtr A = free_block(&diagonal);
 
-  auto t0 = Clock::now();
-  const auto node_graph = [&mesh] { return detail::build_node_graph(mesh); };
-  L = detail::own(analyse(A.get(), free_dofs, options.ordering, node_graph, options.node_order,
-                          n_nodes, common.get()),
+  auto t0 = Clock::now();  // the wait for the ordering thread included
+  std::vector<int> node_order = options.node_order;
+  if (options.ordering == Ordering::kMetisNodes && node_order.empty()) {
+    node_order = ordering->valid() ? ordering->get() : order_nodes(mesh, constraints);
+  }
+  L = detail::own(analyse(A.get(), free_dofs, options.ordering, node_order, n_nodes, common.get()),
                   common);
   stats.analyse_s = seconds_since(t0);
   if (!L || common->status < CHOLMOD_OK) {
@@ -607,9 +623,11 @@ LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
     impl_->n_nodes = mesh.n_nodes();
     impl_->stats.requested_ordering = to_string(options.ordering);
     impl_->materials = materials;
-    impl_->assemble(mesh);
     impl_->set_constraints(mesh);
-    impl_->factorise(mesh);
+    // A pending ordering's future waits for its thread when an exception leaves this scope.
+    std::future<std::vector<int>> ordering = impl_->start_ordering(mesh);
+    impl_->assemble(mesh);
+    impl_->factorise(mesh, &ordering);
   } catch (...) {
     delete impl_;
     throw;
@@ -684,7 +702,11 @@ std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
   }
   detail::CholmodCommon common;
   configure(common.get(), Ordering::kMetisNodes);
-  std::vector<int> order = metis_node_order(detail::build_node_graph(mesh), ordered, common.get());
+  std::vector<int> order;
+  {
+    const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
+    order = metis_node_order(detail::build_node_graph(mesh), ordered, common.get());
+  }
   const bool none = std::find(ordered.begin(), ordered.end(), 1) == ordered.end();
   if (order.empty() && !none) {
     throw SolverError("the fill-reducing ordering of the mesh's nodes failed: " +
@@ -721,9 +743,16 @@ OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
   const detail::SparsePtr A =
       detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
   const auto t0 = Clock::now();
-  const auto node_graph = [&K] { return node_adjacency(K); };
-  const detail::FactorPtr L = detail::own(
-      analyse(A.get(), free_dofs, ordering, node_graph, {}, n_dofs / 3, common.get()), common);
+  std::vector<int> node_order;
+  if (ordering == Ordering::kMetisNodes) {
+    node_order =
+        metis_node_order(node_adjacency(K), nodes_of_dofs(free_dofs, n_dofs / 3), common.get());
+  }
+  const detail::FactorPtr L =
+      detail::own(ordering == Ordering::kMetisNodes && node_order.empty()
+                      ? nullptr
+                      : analyse(A.get(), free_dofs, ordering, node_order, n_dofs / 3, common.get()),
+                  common);
   out.analyse_s = seconds_since(t0);
   const int status = common->status;
   if (L) {
