@@ -1,5 +1,6 @@
 #include "sharpey/analysis/study.h"
 
+#include <exception>
 #include <future>
 #include <sstream>
 #include <system_error>
@@ -22,16 +23,16 @@ void require_scenarios(const CaseSpec& spec) {
 
 }  // namespace
 
-// The mesher and METIS are single-threaded while assembly and factorisation use both cores:
-// scenario k + 1 is meshed and its nodes ordered (fem::order_nodes: the mesh is all METIS needs, a
-// few MB) on a second thread while scenario k is solved. At most one scenario is prepared at a
-// time, so memory stays at one model being meshed plus the solved ones; the stiffness matrix and
-// the factor of scenario k + 1 are only made once scenario k is done. Progress is reported from
-// the calling thread only.
+// The mesher, METIS and CHOLMOD's symbolic analysis are single-threaded while assembly and
+// factorisation use both cores: scenario k + 1 is meshed, ordered and analysed
+// (fem::SymbolicFactorisation: the mesh is all they need; tens of MB) on a second thread while
+// scenario k is solved. At most one scenario is prepared at a time, so memory stays at one model
+// being prepared plus the solved ones; the stiffness matrix and the numeric factor of scenario
+// k + 1 are only made once scenario k is done. Progress is reported from the calling thread only.
 struct StudySolver::Ahead {
   struct Prepared {
     mesh::ToothModel model;
-    std::vector<int> node_order;
+    std::shared_ptr<const fem::SymbolicFactorisation> symbolic;
   };
   int index = 0;  // the scenario being prepared
   std::future<Prepared> prepared;
@@ -59,7 +60,13 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     m.loss = scenario.loss;
     Ahead::Prepared p{detail::build_scenario_model(m, scenario.name, cancel_), {}};
     if (cancel_ != nullptr && cancel_->load()) return p;  // the caller throws Cancelled
-    p.node_order = fem::order_nodes(p.model.mesh, detail::scenario_constraints(p.model.mesh));
+    try {
+      p.symbolic = std::make_shared<const fem::SymbolicFactorisation>(
+          p.model.mesh, detail::scenario_constraints(p.model.mesh));
+    } catch (const std::exception&) {
+      // Out of memory here (or any failure of the analysis): the scenario's solver analyses on
+      // its own thread instead and reports a failure there, with its usual message and type.
+    }
     return p;
   };
   // No second thread to be had (thread or memory limits): mesh on this thread when get() asks.
@@ -100,7 +107,7 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     overall(prefix + stage, fraction);
   };
   ScenarioOptions options;
-  options.node_order = std::move(prepared.node_order);
+  options.symbolic = std::move(prepared.symbolic);
   auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(prepared.model), local,
                                                      cancel_, std::move(options));
   ++next_;

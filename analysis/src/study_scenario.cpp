@@ -147,7 +147,7 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
       held->refactorise(m, materials_);  // same mesh, new materials: numeric factorisation only
     } else {
       fem::SolverOptions solver_options;
-      solver_options.node_order = options.node_order;
+      solver_options.symbolic = options.symbolic;
       held = std::make_unique<fem::LinearElasticSolver>(
           m, materials_, detail::scenario_constraints(m), solver_options);
     }

@@ -283,6 +283,14 @@ cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Or
 }
 }  // namespace
 
+struct SymbolicFactorisation::Impl {
+  std::vector<int> free_dofs;
+  detail::CholmodCommon common;  // before L: destroyed after it
+  detail::FactorPtr L;
+  double gflop = 0, analyse_s = 0;
+  long long factor_nonzeros = 0;
+};
+
 std::string to_string(Ordering ordering) {
   switch (ordering) {
     case Ordering::kAuto:
@@ -323,12 +331,17 @@ struct LinearElasticSolver::Impl {
   // Ordering (the node ordering given, or taken from `ordering`) and symbolic analysis (L), then
   // the numeric factorisation.
   void factorise(const mesh::VolumeMesh& mesh, std::future<std::vector<int>>* ordering);
+  // L from a symbolic factorisation computed ahead (a copy: the given one stays unchanged).
+  void take_symbolic(const SymbolicFactorisation& given);
   // Numeric factorisation of A into the analysed L, with the checks of the pivots.
   void factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
                          const std::vector<double>& diagonal);
   [[noreturn]] void throw_not_positive_definite(const mesh::VolumeMesh& mesh, long k_permuted,
                                                 double pivot_ratio) const;
   Eigen::MatrixXd solve(const Eigen::MatrixXd& F);
+  // ||(K u - f)_free|| / rhs_norm, the worst of the columns of U and F.
+  double worst_relative_residual(const Eigen::MatrixXd& U, const Eigen::MatrixXd& F,
+                                 const std::vector<double>& rhs_norm) const;
 };
 
 void LinearElasticSolver::Impl::set_constraints(const mesh::VolumeMesh& mesh) {
@@ -429,7 +442,7 @@ detail::SparsePtr LinearElasticSolver::Impl::free_block(std::vector<double>* dia
 std::future<std::vector<int>> LinearElasticSolver::Impl::start_ordering(
     const mesh::VolumeMesh& mesh) const {
   if (options.ordering != Ordering::kMetisNodes || !options.node_order.empty() ||
-      free_dofs.empty()) {
+      options.symbolic || free_dofs.empty()) {
     return {};
   }
   const auto order = [&mesh, this] { return order_nodes(mesh, constraints); };
@@ -454,6 +467,11 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh,
   std::vector<double> diagonal;
   detail::SparsePtr A = free_block(&diagonal);
 
+  if (options.symbolic) {
+    take_symbolic(*options.symbolic);
+    factorise_numeric(mesh, std::move(A), diagonal);
+    return;
+  }
   auto t0 = Clock::now();  // the wait for the ordering thread included
   std::vector<int> node_order = options.node_order;
   if (options.ordering == Ordering::kMetisNodes && node_order.empty()) {
@@ -471,6 +489,27 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh,
   stats.factorisation_gflop = common->fl / 1e9;
   stats.factor_nonzeros = static_cast<long long>(common->lnz);
   factorise_numeric(mesh, std::move(A), diagonal);
+}
+
+void LinearElasticSolver::Impl::take_symbolic(const SymbolicFactorisation& given) {
+  const SymbolicFactorisation::Impl& s = given.impl();
+  SHARPEY_CHECK(s.free_dofs == free_dofs && s.L && options.ordering == Ordering::kMetisNodes &&
+                    options.node_order.empty(),
+                InputError("symbolic",
+                           "the given symbolic factorisation does not match this "
+                           "model's mesh and constraints, or another ordering was "
+                           "asked for; compute it on the same mesh and constraints "
+                           "with the ordering metis-nodes"));
+  const auto t0 = Clock::now();
+  L = detail::own(cholmod_l_copy_factor(s.L.get(), common.get()), common);
+  if (!L) {
+    throw SolverError("could not copy the symbolic factorisation: " +
+                      cholmod_status_text(common->status));
+  }
+  stats.analyse_s = seconds_since(t0);
+  stats.ordering = "metis-nodes";
+  stats.factorisation_gflop = s.gflop;
+  stats.factor_nonzeros = s.factor_nonzeros;
 }
 
 void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
@@ -530,6 +569,28 @@ void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, 
   factor_valid = true;
 }
 
+double LinearElasticSolver::Impl::worst_relative_residual(
+    const Eigen::MatrixXd& U, const Eigen::MatrixXd& F, const std::vector<double>& rhs_norm) const {
+  const int n_dofs = 3 * n_nodes;
+  const long m = F.cols();
+  const long nf = static_cast<long>(free_dofs.size());
+  // Relative residual over the free dofs, the worst of the columns. The columns' products are
+  // independent (each is the one K * U gives, the same bits), so the cores share them.
+  Eigen::MatrixXd R(n_dofs, m);
+#pragma omp parallel for schedule(static) if (m > 1)
+  for (long j = 0; j < m; ++j) R.col(j) = K * U.col(j) - F.col(j);
+  double worst = 0;
+  for (long j = 0; j < m; ++j) {
+    double norm2 = 0;
+    for (long i = 0; i < nf; ++i)
+      norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
+    const double bn = rhs_norm[static_cast<size_t>(j)];
+    const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
+    worst = std::max(worst, rel);
+  }
+  return worst;
+}
+
 Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   const int n_dofs = 3 * n_nodes;
   SHARPEY_ASSERT(F.rows() == n_dofs, "LinearElasticSolver::solve: the load has " +
@@ -542,7 +603,10 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   if (m == 0) return U;
   if (!F.allFinite()) throw InputError("f", "the load vector contains a non-finite value");
   ++stats.n_solves;
-  const Eigen::VectorXd K_prescribed = K * prescribed;
+  // K u_c; skipped when every prescribed value is zero (a held bone: the usual case), which gives
+  // the same zeros without a pass over K.
+  const Eigen::VectorXd K_prescribed =
+      prescribed.isZero(0.0) ? Eigen::VectorXd::Zero(n_dofs).eval() : (K * prescribed).eval();
   std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
   if (nf > 0) {
     if (!factor_valid) {
@@ -583,20 +647,7 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
       for (long i = 0; i < nf; ++i) U(free_dofs[static_cast<size_t>(i)], j) = Xx[i + j * nf];
     }
   }
-  // Relative residual over the free dofs, the worst of the columns. The columns' products are
-  // independent (each is the one K * U gives, the same bits), so the cores share them.
-  Eigen::MatrixXd R(n_dofs, m);
-#pragma omp parallel for schedule(static) if (m > 1)
-  for (long j = 0; j < m; ++j) R.col(j) = K * U.col(j) - F.col(j);
-  double worst = 0;
-  for (long j = 0; j < m; ++j) {
-    double norm2 = 0;
-    for (long i = 0; i < nf; ++i)
-      norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
-    const double bn = rhs_norm[static_cast<size_t>(j)];
-    const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
-    worst = std::max(worst, rel);
-  }
+  const double worst = worst_relative_residual(U, F, rhs_norm);
   stats.last_relative_residual = worst;
   stats.last_solve_s = seconds_since(t0);
   if (!(worst <= options.max_relative_residual)) {
@@ -681,10 +732,18 @@ Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
   return impl_->K * u - f;
 }
 
-std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
-                             const std::vector<DofConstraint>& constraints) {
+namespace {
+
+// The free dofs (ascending) of a mesh under its constraints, as the solver takes them: every dof
+// of a node used by an element and not named by a constraint. InputError for a constraint outside
+// the mesh.
+std::vector<int> free_dofs_of(const mesh::VolumeMesh& mesh,
+                              const std::vector<DofConstraint>& constraints) {
   const int n = mesh.n_nodes();
-  std::vector<char> fixed(3 * static_cast<size_t>(n), 0);
+  std::vector<char> fixed(3 * static_cast<size_t>(n), 1);
+  for (int v : mesh.elements) {
+    for (int c = 0; c < 3; ++c) fixed[3 * static_cast<size_t>(v) + static_cast<size_t>(c)] = 0;
+  }
   for (size_t i = 0; i < constraints.size(); ++i) {
     const DofConstraint& c = constraints[i];
     SHARPEY_CHECK(
@@ -693,30 +752,108 @@ std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
                    "constraint " + std::to_string(i) + " names node " + std::to_string(c.node) +
                        " component " + std::to_string(c.component) + ", outside this mesh of " +
                        std::to_string(n) +
-                       " nodes; use a node of the mesh and 0, 1 "
-                       "or 2 for x, y or z"));
+                       " nodes; use a node of the mesh and 0, 1 or 2 for x, "
+                       "y or z"));
     fixed[3 * static_cast<size_t>(c.node) + static_cast<size_t>(c.component)] = 1;
   }
-  std::vector<char> used(static_cast<size_t>(n), 0);
-  for (int v : mesh.elements) used[static_cast<size_t>(v)] = 1;
-  std::vector<char> ordered(static_cast<size_t>(n), 0);
-  for (size_t i = 0; i < used.size(); ++i) {
-    ordered[i] = used[i] && !(fixed[3 * i] && fixed[3 * i + 1] && fixed[3 * i + 2]);
+  std::vector<int> free_dofs;
+  for (size_t d = 0; d < fixed.size(); ++d) {
+    if (!fixed[d]) free_dofs.push_back(static_cast<int>(d));
   }
-  detail::CholmodCommon common;
-  configure(common.get(), Ordering::kMetisNodes);
-  std::vector<int> order;
-  {
-    const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
-    order = metis_node_order(detail::build_node_graph(mesh), ordered, common.get());
-  }
-  const bool none = std::find(ordered.begin(), ordered.end(), 1) == ordered.end();
-  if (order.empty() && !none) {
+  return free_dofs;
+}
+
+// The node ordering of the mesh's graph `g` restricted to the nodes of `free_dofs`, on the calling
+// thread alone (it may run beside a factorisation). SolverError when METIS fails.
+std::vector<int> node_order_of(const detail::NodeGraph& g, const std::vector<int>& free_dofs,
+                               int n_nodes, cholmod_common* common) {
+  std::vector<int> order = metis_node_order(g, nodes_of_dofs(free_dofs, n_nodes), common);
+  if (order.empty() && !free_dofs.empty()) {
     throw SolverError("the fill-reducing ordering of the mesh's nodes failed: " +
                       cholmod_status_text(common->status));
   }
   return order;
 }
+
+// The pattern of the free-free block's upper triangle from the node graph: node a's dof c' couples
+// with node b's dof c when a and b share an element. The same rows, in the same order, as
+// free_block_upper gives from the assembled K.
+cholmod_sparse* free_block_pattern(const detail::NodeGraph& g, const std::vector<int>& free_dofs,
+                                   int n_nodes, cholmod_common* common) {
+  std::vector<long> free_of(3 * static_cast<size_t>(n_nodes), -1);
+  for (size_t j = 0; j < free_dofs.size(); ++j)
+    free_of[static_cast<size_t>(free_dofs[j])] = static_cast<long>(j);
+  const auto rows = [&](int dof, const auto& visit) {
+    const int node = dof / 3;
+    for (long long q = g.ptr[static_cast<size_t>(node)]; q < g.ptr[static_cast<size_t>(node) + 1];
+         ++q) {
+      const int a = g.adjacent[static_cast<size_t>(q)];
+      if (a > node) break;
+      for (int c = 0; c < 3 && 3 * a + c <= dof; ++c) {
+        const long r = free_of[3 * static_cast<size_t>(a) + static_cast<size_t>(c)];
+        if (r >= 0) visit(r);
+      }
+    }
+  };
+  size_t nnz = 0;
+  for (int dof : free_dofs) rows(dof, [&nnz](long) { ++nnz; });
+  const size_t nf = free_dofs.size();
+  cholmod_sparse* A = cholmod_l_allocate_sparse(nf, nf, nnz, 1, 1, 1, CHOLMOD_PATTERN, common);
+  if (!A) return nullptr;
+  long* Ap = static_cast<long*>(A->p);
+  long* Ai = static_cast<long*>(A->i);
+  long q = 0;
+  for (size_t j = 0; j < nf; ++j) {
+    Ap[j] = q;
+    rows(free_dofs[j], [&](long r) { Ai[q++] = r; });
+  }
+  Ap[nf] = q;
+  return A;
+}
+
+}  // namespace
+
+std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
+                             const std::vector<DofConstraint>& constraints) {
+  const std::vector<int> free_dofs = free_dofs_of(mesh, constraints);
+  detail::CholmodCommon common;
+  configure(common.get(), Ordering::kMetisNodes);
+  const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
+  return node_order_of(detail::build_node_graph(mesh), free_dofs, mesh.n_nodes(), common.get());
+}
+
+SymbolicFactorisation::SymbolicFactorisation(const mesh::VolumeMesh& mesh,
+                                             const std::vector<DofConstraint>& constraints)
+    : impl_(std::make_unique<Impl>()) {
+  const auto t0 = Clock::now();
+  Impl& s = *impl_;
+  s.free_dofs = free_dofs_of(mesh, constraints);
+  if (s.free_dofs.empty()) return;
+  cholmod_common* common = s.common.get();
+  configure(common, Ordering::kMetisNodes);
+  const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
+  const detail::NodeGraph g = detail::build_node_graph(mesh);
+  const std::vector<int> order = node_order_of(g, s.free_dofs, mesh.n_nodes(), common);
+  const detail::SparsePtr A =
+      detail::own(free_block_pattern(g, s.free_dofs, mesh.n_nodes(), common), s.common);
+  if (A) {
+    s.L = detail::own(
+        analyse(A.get(), s.free_dofs, Ordering::kMetisNodes, order, mesh.n_nodes(), common),
+        s.common);
+  }
+  if (!s.L || common->status < CHOLMOD_OK) {
+    throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " +
+                      cholmod_status_text(common->status));
+  }
+  s.gflop = common->fl / 1e9;
+  s.factor_nonzeros = static_cast<long long>(common->lnz);
+  s.analyse_s = seconds_since(t0);
+}
+
+SymbolicFactorisation::~SymbolicFactorisation() = default;
+double SymbolicFactorisation::factorisation_gflop() const { return impl_->gflop; }
+long long SymbolicFactorisation::factor_nonzeros() const { return impl_->factor_nonzeros; }
+double SymbolicFactorisation::analyse_s() const { return impl_->analyse_s; }
 
 OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
                                    const std::vector<DofConstraint>& constraints,

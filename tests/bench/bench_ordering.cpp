@@ -1,10 +1,11 @@
 // Benchmark (prints, not a test): the analysis stage of the incisor's bone levels. For each level
 // (horizontal loss 0, 2, 4 and 6 mm, the sample case's) on one preset it meshes and assembles the
-// model, then times the node ordering alone (fem::order_nodes: node graph and METIS, what a study
-// computes ahead on its second thread) and the whole analysis (fem::estimate_ordering: the
-// ordering and CHOLMOD's symbolic factorisation), and prints the factorisation work and the
-// entries of L that the ordering gives. No numeric factorisation: a few seconds per level. Other
-// processes slow every time down (check `uptime`); the GFlop and nnz(L) do not depend on the
+// model, then times the node ordering alone (fem::order_nodes: node graph and METIS, what the
+// solver runs beside the assembly), the whole analysis (fem::estimate_ordering: the ordering
+// and CHOLMOD's symbolic factorisation, from K) and the same from the mesh alone
+// (fem::SymbolicFactorisation, what a study computes ahead), and prints the factorisation work and
+// the entries of L that the ordering gives. No numeric factorisation: a few seconds per level.
+// Other processes slow every time down (check `uptime`); the GFlop and nnz(L) do not depend on the
 // machine.
 //
 //   bench_ordering [--preset coarse|standard|fine] [--repeat N]
@@ -47,8 +48,11 @@ void run_level(mesh::MeshPreset preset, double loss_mm, int repeat) {
     const std::vector<int> order = fem::order_nodes(model.mesh, fixed);
     const double order_s = seconds_since(t0);
     const fem::OrderingEstimate e = fem::estimate_ordering(K, fixed, fem::Ordering::kMetisNodes);
-    std::printf("%6.1f %8d %9zu %10.3f %10.3f %9.2f %11lld\n", loss_mm, model.mesh.n_elements(),
-                order.size(), order_s, e.analyse_s, e.factorisation_gflop, e.factor_nonzeros);
+    const fem::SymbolicFactorisation ahead(model.mesh, fixed);
+    std::printf("%6.1f %8d %9zu %10.3f %10.3f %9.3f %9.2f %11lld %s\n", loss_mm,
+                model.mesh.n_elements(), order.size(), order_s, e.analyse_s, ahead.analyse_s(),
+                e.factorisation_gflop, e.factor_nonzeros,
+                ahead.factorisation_gflop() == e.factorisation_gflop ? "same" : "DIFFERENT");
     std::fflush(stdout);
   }
 }
@@ -78,8 +82,8 @@ int main(int argc, char** argv) {
     }
   }
   std::printf("bench_ordering: %s preset\n", mesh::to_string(preset).c_str());
-  std::printf("%6s %8s %9s %10s %10s %9s %11s\n", "loss", "elements", "nodes", "order_s",
-              "analyse_s", "GFlop", "nnz(L)");
+  std::printf("%6s %8s %9s %10s %10s %9s %9s %11s %s\n", "loss", "elements", "nodes", "order_s",
+              "analyse_s", "ahead_s", "GFlop", "nnz(L)", "ahead's GFlop");
   try {
     for (double loss : {0.0, 2.0, 4.0, 6.0}) run_level(preset, loss, repeat);
   } catch (const std::exception& e) {

@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -155,6 +156,14 @@ TEST(Solver, NodeOrderComputedAheadGivesTheSameBits) {
     EXPECT_FALSE(seen.back());
     EXPECT_EQ(3 * static_cast<int>(options.node_order.size()),
               own.statistics().n_dofs + 3);  // the three prescribed top dofs are single ones
+    // The ordering and symbolic factorisation computed ahead from the mesh alone: the same bits.
+    SolverOptions with_symbolic;
+    with_symbolic.symbolic = std::make_shared<const SymbolicFactorisation>(m, c);
+    const LinearElasticSolver ahead(m, kMaterials, c, with_symbolic);
+    EXPECT_EQ((ahead.solve(f) - u_own).cwiseAbs().maxCoeff(), 0.0);
+    EXPECT_EQ(ahead.statistics().factorisation_gflop, own.statistics().factorisation_gflop);
+    EXPECT_EQ(ahead.statistics().factor_nonzeros, own.statistics().factor_nonzeros);
+    EXPECT_EQ(with_symbolic.symbolic->factor_nonzeros(), own.statistics().factor_nonzeros);
     std::reverse(options.node_order.begin(), options.node_order.end());
     const LinearElasticSolver reversed(m, kMaterials, c, options);
     EXPECT_LT((reversed.solve(f) - u_own).norm(), 1e-11 * u_own.norm());
@@ -181,6 +190,15 @@ TEST(Solver, MismatchedNodeOrderIsAnInputError) {
   amd.node_order = good;
   EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, amd), InputError);
   EXPECT_THROW(order_nodes(m, {{m.n_nodes(), 0, 0.0}}), InputError);
+  // A symbolic factorisation of other constraints (the bottom face only), or with another ordering.
+  SolverOptions other;
+  other.symbolic =
+      std::make_shared<const SymbolicFactorisation>(m, fix_faces(m, testing::kZetaMin));
+  EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, other), InputError);
+  other.symbolic = std::make_shared<const SymbolicFactorisation>(m, c);
+  other.ordering = Ordering::kMetis;
+  EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, other), InputError);
+  EXPECT_THROW(SymbolicFactorisation(m, {{0, 3, 0.0}}), InputError);
 }
 
 // Two computations: refactorise() with new materials (ordering and symbolic analysis reused)
