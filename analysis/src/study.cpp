@@ -1,5 +1,6 @@
 #include "sharpey/analysis/study.h"
 
+#include <exception>
 #include <future>
 #include <sstream>
 #include <system_error>
@@ -22,13 +23,19 @@ void require_scenarios(const CaseSpec& spec) {
 
 }  // namespace
 
-// The mesher is single-threaded while assembly and factorisation use both cores: scenario k + 1 is
-// meshed on a second thread while scenario k is solved (at most one mesher runs at a time, so
-// memory stays at one model being meshed plus the solved ones). Progress is reported from the
-// calling thread only.
+// The mesher, METIS and CHOLMOD's symbolic analysis are single-threaded while assembly and
+// factorisation use both cores: scenario k + 1 is meshed, ordered and analysed
+// (fem::SymbolicFactorisation: the mesh is all they need; tens of MB) on a second thread while
+// scenario k is solved. At most one scenario is prepared at a time, so memory stays at one model
+// being prepared plus the solved ones; the stiffness matrix and the numeric factor of scenario
+// k + 1 are only made once scenario k is done. Progress is reported from the calling thread only.
 struct StudySolver::Ahead {
-  int index = 0;  // the scenario being meshed
-  std::future<mesh::ToothModel> model;
+  struct Prepared {
+    mesh::ToothModel model;
+    std::shared_ptr<const fem::SymbolicFactorisation> symbolic;
+  };
+  int index = 0;  // the scenario being prepared
+  std::future<Prepared> prepared;
 };
 
 StudySolver::StudySolver(CaseSpec spec, const std::atomic<bool>* cancel)
@@ -51,7 +58,16 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     mesh::ModelSpec m = spec_.model;
     const Scenario& scenario = spec_.scenarios[static_cast<size_t>(k)];
     m.loss = scenario.loss;
-    return detail::build_scenario_model(m, scenario.name, cancel_);
+    Ahead::Prepared p{detail::build_scenario_model(m, scenario.name, cancel_), {}};
+    if (cancel_ != nullptr && cancel_->load()) return p;  // the caller throws Cancelled
+    try {
+      p.symbolic = std::make_shared<const fem::SymbolicFactorisation>(
+          p.model.mesh, detail::scenario_constraints(p.model.mesh));
+    } catch (const std::exception&) {
+      // Out of memory here (or any failure of the analysis): the scenario's solver analyses on
+      // its own thread instead and reports a failure there, with its usual message and type.
+    }
+    return p;
   };
   // No second thread to be had (thread or memory limits): mesh on this thread when get() asks.
   const auto start_meshing = [&build](int k) {
@@ -72,25 +88,28 @@ std::unique_ptr<ScenarioSolution> StudySolver::solve_next(const ProgressCallback
     if (cancelled()) throw Cancelled();
     ahead_ = std::make_unique<Ahead>();
     ahead_->index = k;
-    ahead_->model = start_meshing(k);
+    ahead_->prepared = start_meshing(k);
   }
   const std::string prefix = "scenario " + std::to_string(k + 1) + "/" + std::to_string(n) + " (" +
                              spec_.scenarios[static_cast<size_t>(k)].name + "): ";
   overall(prefix + "mesh", 0.0);
   // get() rethrows the mesher's exception; the future is then empty, so a later call meshes anew.
-  std::future<mesh::ToothModel> pending = std::move(ahead_->model);
+  std::future<Ahead::Prepared> pending = std::move(ahead_->prepared);
   ahead_.reset();
-  mesh::ToothModel model = pending.get();
+  Ahead::Prepared prepared = pending.get();
   if (cancelled()) throw Cancelled();
   if (k + 1 < n) {
     ahead_ = std::make_unique<Ahead>();
     ahead_->index = k + 1;
-    ahead_->model = start_meshing(k + 1);
+    ahead_->prepared = start_meshing(k + 1);
   }
   const ProgressCallback local = [&](const std::string& stage, double fraction) {
     overall(prefix + stage, fraction);
   };
-  auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(model), local, cancel_);
+  ScenarioOptions options;
+  options.symbolic = std::move(prepared.symbolic);
+  auto solution = std::make_unique<ScenarioSolution>(spec_, k, std::move(prepared.model), local,
+                                                     cancel_, std::move(options));
   ++next_;
   if (done() && progress) progress("done", 1.0);
   return solution;

@@ -5,7 +5,9 @@
 
 #include <atomic>
 #include <string>
+#include <vector>
 
+#include "sharpey/fem/assembly.h"
 #include "sharpey/mesh/tooth_model.h"
 
 namespace sharpey::analysis::detail {
@@ -15,6 +17,9 @@ namespace sharpey::analysis::detail {
 // TetGen's own out-of-memory code already arrives as a MeshError and passes through unchanged.
 mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::string& scenario,
                                       const std::atomic<bool>* cancel = nullptr);
+
+// The model's constraints in a study: the kFixedBone faces held at zero.
+std::vector<fem::DofConstraint> scenario_constraints(const mesh::VolumeMesh& mesh);
 
 // Message of the SolverError thrown when an allocation fails while the scenario's model (n_nodes
 // nodes, n_elements elements) is assembled, factorised, solved or post-processed.

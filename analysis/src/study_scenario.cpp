@@ -44,6 +44,10 @@ mesh::ToothModel build_scenario_model(const mesh::ModelSpec& model, const std::s
   }
 }
 
+std::vector<fem::DofConstraint> scenario_constraints(const mesh::VolumeMesh& mesh) {
+  return fem::fix_faces(mesh, mesh::kFixedBone);
+}
+
 std::string solver_out_of_memory_message(const std::string& scenario, int n_nodes, int n_elements) {
   std::ostringstream s;
   s << "solving scenario '" << scenario << "' ran out of memory while assembling, factorising or "
@@ -142,8 +146,10 @@ void ScenarioSolution::solve(const CaseSpec& spec, const ProgressCallback& progr
     if (held) {
       held->refactorise(m, materials_);  // same mesh, new materials: numeric factorisation only
     } else {
-      held = std::make_unique<fem::LinearElasticSolver>(m, materials_,
-                                                        fem::fix_faces(m, mesh::kFixedBone));
+      fem::SolverOptions solver_options;
+      solver_options.symbolic = options.symbolic;
+      held = std::make_unique<fem::LinearElasticSolver>(
+          m, materials_, detail::scenario_constraints(m), solver_options);
     }
     check_cancel(cancel);
     report(progress, "unit loads", 0.75);

@@ -8,15 +8,18 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <future>
 #include <map>
 #include <mutex>
 #include <set>
 #include <sstream>
 #include <string>
+#include <system_error>
 #include <utility>
 
 #include "detail/cholmod_handles.h"
 #include "detail/kinematics.h"
+#include "detail/node_graph.h"
 #include "sharpey/core/check.h"
 #include "sharpey/error.h"
 
@@ -81,6 +84,21 @@ class CholmodOpenMpSettings {
   int levels_;
   int dynamic_;
   int n_threads_;
+};
+
+// CHOLMOD's OpenMP regions of the ordering and the symbolic analysis (no BLAS call among them)
+// run by the calling thread alone: they may run on a second thread beside a factorisation. Safe on
+// every BLAS build, unlike CholmodOpenMpSettings' case of a threaded dsyrk. Per-thread, undone at
+// the end of the scope.
+class SerialOpenMpRegions {
+ public:
+  SerialOpenMpRegions() : levels_(omp_get_max_active_levels()) { omp_set_max_active_levels(0); }
+  ~SerialOpenMpRegions() { omp_set_max_active_levels(levels_); }
+  SerialOpenMpRegions(const SerialOpenMpRegions&) = delete;
+  SerialOpenMpRegions& operator=(const SerialOpenMpRegions&) = delete;
+
+ private:
+  int levels_;
 };
 
 const char* component_name(int c) { return c == 0 ? "x" : (c == 1 ? "y" : "z"); }
@@ -194,39 +212,53 @@ cholmod_sparse* free_block_upper(const Eigen::SparseMatrix<double>& K,
   return A;
 }
 
-// METIS nested dissection of the graph whose vertices are the nodes with free dofs (two nodes
-// adjacent when any of their dofs couple in A), expanded to the dofs: a node's free dofs stay
-// consecutive. `free_dofs` maps A's columns to global dofs (node = dof / 3). Returns an empty
-// vector when METIS fails (the caller then reports CHOLMOD's status).
-std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
-                                                      const std::vector<int>& free_dofs,
-                                                      cholmod_common* common) {
-  const long nf = static_cast<long>(A->ncol);
-  std::vector<long> node_of(static_cast<size_t>(nf));
-  std::vector<long> first_col;  // compact node -> its first column
-  for (long j = 0; j < nf; ++j) {
-    const int node = free_dofs[static_cast<size_t>(j)] / 3;
-    if (j == 0 || node != free_dofs[static_cast<size_t>(j - 1)] / 3) first_col.push_back(j);
-    node_of[static_cast<size_t>(j)] = static_cast<long>(first_col.size()) - 1;
-  }
-  const long nn = static_cast<long>(first_col.size());
-  // Upper-triangle node pattern, column by column, without duplicates.
-  const long* Ap = static_cast<const long*>(A->p);
-  const long* Ai = static_cast<const long*>(A->i);
-  std::vector<std::vector<long>> cols(static_cast<size_t>(nn));
-  for (long j = 0; j < nf; ++j) {
-    const long cj = node_of[static_cast<size_t>(j)];
-    for (long q = Ap[j]; q < Ap[j + 1]; ++q) {
-      const long ci = node_of[static_cast<size_t>(Ai[q])];
-      cols[static_cast<size_t>(std::max(ci, cj))].push_back(std::min(ci, cj));
+// METIS keeps its random number generator in global state (GKlib's, seeded at the start of each
+// ordering), so two orderings at once in one process draw from the same sequence and may give
+// different permutations, hence different round-off (solvers built side by side: the allowance
+// band's workers, a study ordering the next scenario ahead). One ordering at a time in the
+// process; the rest of a solve runs in parallel.
+std::mutex& ordering_mutex() {
+  static std::mutex m;
+  return m;
+}
+
+// Node adjacency (each node's neighbours, itself included, ascending) read off the pattern of a
+// stiffness matrix made of dense 3 x 3 node blocks: the rows of each node's first column.
+detail::NodeGraph node_adjacency(const Eigen::SparseMatrix<double>& K) {
+  const int n = static_cast<int>(K.cols() / 3);
+  detail::NodeGraph g;
+  g.ptr.assign(static_cast<size_t>(n) + 1, 0);
+  for (int j = 0; j < n; ++j) {
+    g.ptr[static_cast<size_t>(j) + 1] = g.ptr[static_cast<size_t>(j)];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(K, 3 * j); it; ++it) {
+      if (it.row() % 3 != 0) continue;
+      g.adjacent.push_back(static_cast<int>(it.row() / 3));
+      ++g.ptr[static_cast<size_t>(j) + 1];
     }
   }
+  return g;
+}
+
+// METIS nested dissection (through CHOLMOD) of the graph of the nodes flagged in `ordered` (the
+// nodes with free dofs), two nodes adjacent when they share an element. Returns the flagged node
+// ids in elimination order; empty when METIS fails (the caller reports CHOLMOD's status).
+std::vector<int> metis_node_order(const detail::NodeGraph& g, const std::vector<char>& ordered,
+                                  cholmod_common* common) {
+  const int n = static_cast<int>(ordered.size());
+  std::vector<long> compact(static_cast<size_t>(n), -1);
+  std::vector<int> node_of;  // compact index -> node id
   long nnz = 0;
-  for (auto& c : cols) {
-    std::sort(c.begin(), c.end());
-    c.erase(std::unique(c.begin(), c.end()), c.end());
-    nnz += static_cast<long>(c.size());
+  for (int i = 0; i < n; ++i) {
+    if (!ordered[static_cast<size_t>(i)]) continue;
+    compact[static_cast<size_t>(i)] = static_cast<long>(node_of.size());
+    node_of.push_back(i);
+    for (long long q = g.ptr[static_cast<size_t>(i)]; q < g.ptr[static_cast<size_t>(i) + 1]; ++q) {
+      const int a = g.adjacent[static_cast<size_t>(q)];
+      if (a <= i && ordered[static_cast<size_t>(a)]) ++nnz;
+    }
   }
+  const long nn = static_cast<long>(node_of.size());
+  // Upper triangle with the diagonal, columns ascending: the pattern of the free block by nodes.
   const detail::SparsePtr G(
       cholmod_l_allocate_sparse(static_cast<size_t>(nn), static_cast<size_t>(nn),
                                 static_cast<size_t>(nnz), 1, 1, 1, CHOLMOD_PATTERN, common),
@@ -237,41 +269,80 @@ std::vector<SuiteSparse_long> nodal_metis_permutation(const cholmod_sparse* A,
   long q = 0;
   for (long j = 0; j < nn; ++j) {
     Gp[j] = q;
-    for (long i : cols[static_cast<size_t>(j)]) Gi[q++] = i;
+    const int i = node_of[static_cast<size_t>(j)];
+    for (long long r = g.ptr[static_cast<size_t>(i)]; r < g.ptr[static_cast<size_t>(i) + 1]; ++r) {
+      const long c = compact[static_cast<size_t>(g.adjacent[static_cast<size_t>(r)])];
+      if (c >= 0 && c <= j) Gi[q++] = c;
+    }
   }
   Gp[nn] = q;
-  std::vector<SuiteSparse_long> node_perm(static_cast<size_t>(nn));
-  if (!cholmod_l_metis(G.get(), nullptr, 0, 0, node_perm.data(), common)) return {};
+  std::vector<SuiteSparse_long> perm(static_cast<size_t>(nn));
+  {
+    const std::lock_guard<std::mutex> lock(ordering_mutex());
+    if (!cholmod_l_metis(G.get(), nullptr, 0, 0, perm.data(), common)) return {};
+  }
+  std::vector<int> order(static_cast<size_t>(nn));
+  for (long k = 0; k < nn; ++k)
+    order[static_cast<size_t>(k)] = node_of[static_cast<size_t>(perm[k])];
+  return order;
+}
+
+// The nodes with at least one free dof (free_dofs: ascending global dofs), among n_nodes.
+std::vector<char> nodes_of_dofs(const std::vector<int>& free_dofs, int n_nodes) {
+  std::vector<char> flag(static_cast<size_t>(n_nodes), 0);
+  for (int d : free_dofs) flag[static_cast<size_t>(d / 3)] = 1;
+  return flag;
+}
+
+// A node ordering expanded to A's columns, each node's free dofs kept together in ascending
+// order. Throws InputError unless `node_order` names every node with a free dof exactly once and
+// no other node (a given ordering computed on another mesh or other constraints).
+std::vector<SuiteSparse_long> dof_permutation(const std::vector<int>& node_order,
+                                              const std::vector<int>& free_dofs, int n_nodes) {
+  std::vector<long> first(static_cast<size_t>(n_nodes) + 1, -1);  // node -> its first column
+  for (size_t j = free_dofs.size(); j-- > 0;)
+    first[static_cast<size_t>(free_dofs[j] / 3)] = static_cast<long>(j);
   std::vector<SuiteSparse_long> perm;
-  perm.reserve(static_cast<size_t>(nf));
-  for (SuiteSparse_long c : node_perm) {
-    for (long j = first_col[static_cast<size_t>(c)]; j < nf && node_of[static_cast<size_t>(j)] == c;
+  perm.reserve(free_dofs.size());
+  const auto bad = [] {
+    return InputError("node_order",
+                      "the given node ordering does not match this model's mesh and constraints; "
+                      "compute it with fem::order_nodes on the same mesh and constraints");
+  };
+  for (int node : node_order) {
+    SHARPEY_CHECK(node >= 0 && node < n_nodes && first[static_cast<size_t>(node)] >= 0, bad());
+    for (long j = first[static_cast<size_t>(node)];
+         j < static_cast<long>(free_dofs.size()) && free_dofs[static_cast<size_t>(j)] / 3 == node;
          ++j) {
       perm.push_back(j);
     }
+    first[static_cast<size_t>(node)] = -1;  // a node named twice is caught above
   }
+  SHARPEY_CHECK(perm.size() == free_dofs.size(), bad());
   return perm;
 }
 
-// METIS keeps its random number generator in global state (GKlib's, seeded at the start of each
-// ordering), so two orderings at once in one process draw from the same sequence and may give
-// different permutations, hence different round-off (solvers built side by side: the allowance
-// band's workers). One ordering at a time in the process; the rest of a solve runs in parallel.
-std::mutex& ordering_mutex() {
-  static std::mutex m;
-  return m;
-}
-
-// Symbolic analysis of A under the ordering `configure` set up.
+// Ordering and symbolic analysis of A under the ordering `configure` set up. kMetisNodes takes
+// `node_order` (the nodes in elimination order) and lets CHOLMOD postorder it; the other orderings
+// are CHOLMOD's own.
 cholmod_factor* analyse(cholmod_sparse* A, const std::vector<int>& free_dofs, Ordering ordering,
-                        cholmod_common* common) {
-  const std::lock_guard<std::mutex> lock(ordering_mutex());
-  if (ordering != Ordering::kMetisNodes) return cholmod_l_analyze(A, common);
-  std::vector<SuiteSparse_long> perm = nodal_metis_permutation(A, free_dofs, common);
-  if (perm.empty()) return nullptr;
+                        const std::vector<int>& node_order, int n_nodes, cholmod_common* common) {
+  if (ordering != Ordering::kMetisNodes) {
+    const std::lock_guard<std::mutex> lock(ordering_mutex());
+    return cholmod_l_analyze(A, common);
+  }
+  std::vector<SuiteSparse_long> perm = dof_permutation(node_order, free_dofs, n_nodes);
   return cholmod_l_analyze_p(A, perm.data(), nullptr, 0, common);
 }
 }  // namespace
+
+struct SymbolicFactorisation::Impl {
+  std::vector<int> free_dofs;
+  detail::CholmodCommon common;  // before L: destroyed after it
+  detail::FactorPtr L;
+  double gflop = 0, analyse_s = 0;
+  long long factor_nonzeros = 0;
+};
 
 std::string to_string(Ordering ordering) {
   switch (ordering) {
@@ -307,14 +378,23 @@ struct LinearElasticSolver::Impl {
   void assemble(const mesh::VolumeMesh& mesh);
   // The upper triangle of the free-free block of K (its diagonal into *diagonal).
   detail::SparsePtr free_block(std::vector<double>* diagonal);
-  // Ordering and symbolic analysis (L), then the numeric factorisation.
-  void factorise(const mesh::VolumeMesh& mesh);
+  // kMetisNodes without a given node ordering: order_nodes() started on a second thread, so that
+  // METIS runs beside the assembly (an empty future otherwise).
+  std::future<std::vector<int>> start_ordering(const mesh::VolumeMesh& mesh) const;
+  // Ordering (the node ordering given, or taken from `ordering`) and symbolic analysis (L), then
+  // the numeric factorisation.
+  void factorise(const mesh::VolumeMesh& mesh, std::future<std::vector<int>>* ordering);
+  // L from a symbolic factorisation computed ahead (a copy: the given one stays unchanged).
+  void take_symbolic(const SymbolicFactorisation& given);
   // Numeric factorisation of A into the analysed L, with the checks of the pivots.
   void factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
                          const std::vector<double>& diagonal);
   [[noreturn]] void throw_not_positive_definite(const mesh::VolumeMesh& mesh, long k_permuted,
                                                 double pivot_ratio) const;
   Eigen::MatrixXd solve(const Eigen::MatrixXd& F);
+  // ||(K u - f)_free|| / rhs_norm, the worst of the columns of U and F.
+  double worst_relative_residual(const Eigen::MatrixXd& U, const Eigen::MatrixXd& F,
+                                 const std::vector<double>& rhs_norm) const;
 };
 
 void LinearElasticSolver::Impl::set_constraints(const mesh::VolumeMesh& mesh) {
@@ -412,17 +492,46 @@ detail::SparsePtr LinearElasticSolver::Impl::free_block(std::vector<double>* dia
   return A;
 }
 
-void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
+std::future<std::vector<int>> LinearElasticSolver::Impl::start_ordering(
+    const mesh::VolumeMesh& mesh) const {
+  if (options.ordering != Ordering::kMetisNodes || !options.node_order.empty() ||
+      options.symbolic || free_dofs.empty()) {
+    return {};
+  }
+  const auto order = [&mesh, this] { return order_nodes(mesh, constraints); };
+  try {
+    return std::async(std::launch::async, order);
+  } catch (const std::system_error&) {  // no second thread to be had: order when asked
+    return std::async(std::launch::deferred, order);
+  }
+}
+
+void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh,
+                                          std::future<std::vector<int>>* ordering) {
   const long nf = static_cast<long>(free_dofs.size());
   if (nf == 0) return;  // everything prescribed: nothing to solve
 
   configure(common.get(), options.ordering);
+  SHARPEY_CHECK(options.node_order.empty() || options.ordering == Ordering::kMetisNodes,
+                InputError("node_order", "a given node ordering needs the ordering metis-nodes (" +
+                                             to_string(options.ordering) +
+                                             " was asked for); leave node_order empty"));
 
   std::vector<double> diagonal;
   detail::SparsePtr A = free_block(&diagonal);
 
-  auto t0 = Clock::now();
-  L = detail::own(analyse(A.get(), free_dofs, options.ordering, common.get()), common);
+  if (options.symbolic) {
+    take_symbolic(*options.symbolic);
+    factorise_numeric(mesh, std::move(A), diagonal);
+    return;
+  }
+  auto t0 = Clock::now();  // the wait for the ordering thread included
+  std::vector<int> node_order = options.node_order;
+  if (options.ordering == Ordering::kMetisNodes && node_order.empty()) {
+    node_order = ordering->valid() ? ordering->get() : order_nodes(mesh, constraints);
+  }
+  L = detail::own(analyse(A.get(), free_dofs, options.ordering, node_order, n_nodes, common.get()),
+                  common);
   stats.analyse_s = seconds_since(t0);
   if (!L || common->status < CHOLMOD_OK) {
     throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " +
@@ -433,6 +542,27 @@ void LinearElasticSolver::Impl::factorise(const mesh::VolumeMesh& mesh) {
   stats.factorisation_gflop = common->fl / 1e9;
   stats.factor_nonzeros = static_cast<long long>(common->lnz);
   factorise_numeric(mesh, std::move(A), diagonal);
+}
+
+void LinearElasticSolver::Impl::take_symbolic(const SymbolicFactorisation& given) {
+  const SymbolicFactorisation::Impl& s = given.impl();
+  SHARPEY_CHECK(s.free_dofs == free_dofs && s.L && options.ordering == Ordering::kMetisNodes &&
+                    options.node_order.empty(),
+                InputError("symbolic",
+                           "the given symbolic factorisation does not match this "
+                           "model's mesh and constraints, or another ordering was "
+                           "asked for; compute it on the same mesh and constraints "
+                           "with the ordering metis-nodes"));
+  const auto t0 = Clock::now();
+  L = detail::own(cholmod_l_copy_factor(s.L.get(), common.get()), common);
+  if (!L) {
+    throw SolverError("could not copy the symbolic factorisation: " +
+                      cholmod_status_text(common->status));
+  }
+  stats.analyse_s = seconds_since(t0);
+  stats.ordering = "metis-nodes";
+  stats.factorisation_gflop = s.gflop;
+  stats.factor_nonzeros = s.factor_nonzeros;
 }
 
 void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, detail::SparsePtr A,
@@ -492,6 +622,28 @@ void LinearElasticSolver::Impl::factorise_numeric(const mesh::VolumeMesh& mesh, 
   factor_valid = true;
 }
 
+double LinearElasticSolver::Impl::worst_relative_residual(
+    const Eigen::MatrixXd& U, const Eigen::MatrixXd& F, const std::vector<double>& rhs_norm) const {
+  const int n_dofs = 3 * n_nodes;
+  const long m = F.cols();
+  const long nf = static_cast<long>(free_dofs.size());
+  // Relative residual over the free dofs, the worst of the columns. The columns' products are
+  // independent (each is the one K * U gives, the same bits), so the cores share them.
+  Eigen::MatrixXd R(n_dofs, m);
+#pragma omp parallel for schedule(static) if (m > 1)
+  for (long j = 0; j < m; ++j) R.col(j) = K * U.col(j) - F.col(j);
+  double worst = 0;
+  for (long j = 0; j < m; ++j) {
+    double norm2 = 0;
+    for (long i = 0; i < nf; ++i)
+      norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
+    const double bn = rhs_norm[static_cast<size_t>(j)];
+    const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
+    worst = std::max(worst, rel);
+  }
+  return worst;
+}
+
 Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   const int n_dofs = 3 * n_nodes;
   SHARPEY_ASSERT(F.rows() == n_dofs, "LinearElasticSolver::solve: the load has " +
@@ -504,7 +656,10 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
   if (m == 0) return U;
   if (!F.allFinite()) throw InputError("f", "the load vector contains a non-finite value");
   ++stats.n_solves;
-  const Eigen::VectorXd K_prescribed = K * prescribed;
+  // K u_c; skipped when every prescribed value is zero (a held bone: the usual case), which gives
+  // the same zeros without a pass over K.
+  const Eigen::VectorXd K_prescribed =
+      prescribed.isZero(0.0) ? Eigen::VectorXd::Zero(n_dofs).eval() : (K * prescribed).eval();
   std::vector<double> rhs_norm(static_cast<size_t>(m), 0.0);
   if (nf > 0) {
     if (!factor_valid) {
@@ -545,17 +700,7 @@ Eigen::MatrixXd LinearElasticSolver::Impl::solve(const Eigen::MatrixXd& F) {
       for (long i = 0; i < nf; ++i) U(free_dofs[static_cast<size_t>(i)], j) = Xx[i + j * nf];
     }
   }
-  // Relative residual over the free dofs, the worst of the columns.
-  const Eigen::MatrixXd R = K * U - F;
-  double worst = 0;
-  for (long j = 0; j < m; ++j) {
-    double norm2 = 0;
-    for (long i = 0; i < nf; ++i)
-      norm2 += R(free_dofs[static_cast<size_t>(i)], j) * R(free_dofs[static_cast<size_t>(i)], j);
-    const double bn = rhs_norm[static_cast<size_t>(j)];
-    const double rel = bn > 0 ? std::sqrt(norm2) / bn : std::sqrt(norm2);
-    worst = std::max(worst, rel);
-  }
+  const double worst = worst_relative_residual(U, F, rhs_norm);
   stats.last_relative_residual = worst;
   stats.last_solve_s = seconds_since(t0);
   if (!(worst <= options.max_relative_residual)) {
@@ -585,9 +730,11 @@ LinearElasticSolver::LinearElasticSolver(const mesh::VolumeMesh& mesh,
     impl_->n_nodes = mesh.n_nodes();
     impl_->stats.requested_ordering = to_string(options.ordering);
     impl_->materials = materials;
-    impl_->assemble(mesh);
     impl_->set_constraints(mesh);
-    impl_->factorise(mesh);
+    // A pending ordering's future waits for its thread when an exception leaves this scope.
+    std::future<std::vector<int>> ordering = impl_->start_ordering(mesh);
+    impl_->assemble(mesh);
+    impl_->factorise(mesh, &ordering);
   } catch (...) {
     delete impl_;
     throw;
@@ -638,6 +785,129 @@ Eigen::VectorXd LinearElasticSolver::reactions(const Eigen::VectorXd& u,
   return impl_->K * u - f;
 }
 
+namespace {
+
+// The free dofs (ascending) of a mesh under its constraints, as the solver takes them: every dof
+// of a node used by an element and not named by a constraint. InputError for a constraint outside
+// the mesh.
+std::vector<int> free_dofs_of(const mesh::VolumeMesh& mesh,
+                              const std::vector<DofConstraint>& constraints) {
+  const int n = mesh.n_nodes();
+  std::vector<char> fixed(3 * static_cast<size_t>(n), 1);
+  for (int v : mesh.elements) {
+    for (int c = 0; c < 3; ++c) fixed[3 * static_cast<size_t>(v) + static_cast<size_t>(c)] = 0;
+  }
+  for (size_t i = 0; i < constraints.size(); ++i) {
+    const DofConstraint& c = constraints[i];
+    SHARPEY_CHECK(
+        c.node >= 0 && c.node < n && c.component >= 0 && c.component <= 2,
+        InputError("constraints[" + std::to_string(i) + "]",
+                   "constraint " + std::to_string(i) + " names node " + std::to_string(c.node) +
+                       " component " + std::to_string(c.component) + ", outside this mesh of " +
+                       std::to_string(n) +
+                       " nodes; use a node of the mesh and 0, 1 or 2 for x, "
+                       "y or z"));
+    fixed[3 * static_cast<size_t>(c.node) + static_cast<size_t>(c.component)] = 1;
+  }
+  std::vector<int> free_dofs;
+  for (size_t d = 0; d < fixed.size(); ++d) {
+    if (!fixed[d]) free_dofs.push_back(static_cast<int>(d));
+  }
+  return free_dofs;
+}
+
+// The node ordering of the mesh's graph `g` restricted to the nodes of `free_dofs`, on the calling
+// thread alone (it may run beside a factorisation). SolverError when METIS fails.
+std::vector<int> node_order_of(const detail::NodeGraph& g, const std::vector<int>& free_dofs,
+                               int n_nodes, cholmod_common* common) {
+  std::vector<int> order = metis_node_order(g, nodes_of_dofs(free_dofs, n_nodes), common);
+  if (order.empty() && !free_dofs.empty()) {
+    throw SolverError("the fill-reducing ordering of the mesh's nodes failed: " +
+                      cholmod_status_text(common->status));
+  }
+  return order;
+}
+
+// The pattern of the free-free block's upper triangle from the node graph: node a's dof c' couples
+// with node b's dof c when a and b share an element. The same rows, in the same order, as
+// free_block_upper gives from the assembled K.
+cholmod_sparse* free_block_pattern(const detail::NodeGraph& g, const std::vector<int>& free_dofs,
+                                   int n_nodes, cholmod_common* common) {
+  std::vector<long> free_of(3 * static_cast<size_t>(n_nodes), -1);
+  for (size_t j = 0; j < free_dofs.size(); ++j)
+    free_of[static_cast<size_t>(free_dofs[j])] = static_cast<long>(j);
+  const auto rows = [&](int dof, const auto& visit) {
+    const int node = dof / 3;
+    for (long long q = g.ptr[static_cast<size_t>(node)]; q < g.ptr[static_cast<size_t>(node) + 1];
+         ++q) {
+      const int a = g.adjacent[static_cast<size_t>(q)];
+      if (a > node) break;
+      for (int c = 0; c < 3 && 3 * a + c <= dof; ++c) {
+        const long r = free_of[3 * static_cast<size_t>(a) + static_cast<size_t>(c)];
+        if (r >= 0) visit(r);
+      }
+    }
+  };
+  size_t nnz = 0;
+  for (int dof : free_dofs) rows(dof, [&nnz](long) { ++nnz; });
+  const size_t nf = free_dofs.size();
+  cholmod_sparse* A = cholmod_l_allocate_sparse(nf, nf, nnz, 1, 1, 1, CHOLMOD_PATTERN, common);
+  if (!A) return nullptr;
+  long* Ap = static_cast<long*>(A->p);
+  long* Ai = static_cast<long*>(A->i);
+  long q = 0;
+  for (size_t j = 0; j < nf; ++j) {
+    Ap[j] = q;
+    rows(free_dofs[j], [&](long r) { Ai[q++] = r; });
+  }
+  Ap[nf] = q;
+  return A;
+}
+
+}  // namespace
+
+std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
+                             const std::vector<DofConstraint>& constraints) {
+  const std::vector<int> free_dofs = free_dofs_of(mesh, constraints);
+  detail::CholmodCommon common;
+  configure(common.get(), Ordering::kMetisNodes);
+  const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
+  return node_order_of(detail::build_node_graph(mesh), free_dofs, mesh.n_nodes(), common.get());
+}
+
+SymbolicFactorisation::SymbolicFactorisation(const mesh::VolumeMesh& mesh,
+                                             const std::vector<DofConstraint>& constraints)
+    : impl_(std::make_unique<Impl>()) {
+  const auto t0 = Clock::now();
+  Impl& s = *impl_;
+  s.free_dofs = free_dofs_of(mesh, constraints);
+  if (s.free_dofs.empty()) return;
+  cholmod_common* common = s.common.get();
+  configure(common, Ordering::kMetisNodes);
+  const SerialOpenMpRegions serial;  // on this thread alone: it may run beside a factorisation
+  const detail::NodeGraph g = detail::build_node_graph(mesh);
+  const std::vector<int> order = node_order_of(g, s.free_dofs, mesh.n_nodes(), common);
+  const detail::SparsePtr A =
+      detail::own(free_block_pattern(g, s.free_dofs, mesh.n_nodes(), common), s.common);
+  if (A) {
+    s.L = detail::own(
+        analyse(A.get(), s.free_dofs, Ordering::kMetisNodes, order, mesh.n_nodes(), common),
+        s.common);
+  }
+  if (!s.L || common->status < CHOLMOD_OK) {
+    throw SolverError("the analysis (fill-reducing ordering) of the stiffness matrix failed: " +
+                      cholmod_status_text(common->status));
+  }
+  s.gflop = common->fl / 1e9;
+  s.factor_nonzeros = static_cast<long long>(common->lnz);
+  s.analyse_s = seconds_since(t0);
+}
+
+SymbolicFactorisation::~SymbolicFactorisation() = default;
+double SymbolicFactorisation::factorisation_gflop() const { return impl_->gflop; }
+long long SymbolicFactorisation::factor_nonzeros() const { return impl_->factor_nonzeros; }
+double SymbolicFactorisation::analyse_s() const { return impl_->analyse_s; }
+
 OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
                                    const std::vector<DofConstraint>& constraints,
                                    Ordering ordering) {
@@ -666,8 +936,16 @@ OrderingEstimate estimate_ordering(const Eigen::SparseMatrix<double>& K,
   const detail::SparsePtr A =
       detail::own(free_block_upper(K, free_dofs, free_of, common.get(), &diagonal, &nnz), common);
   const auto t0 = Clock::now();
+  std::vector<int> node_order;
+  if (ordering == Ordering::kMetisNodes) {
+    node_order =
+        metis_node_order(node_adjacency(K), nodes_of_dofs(free_dofs, n_dofs / 3), common.get());
+  }
   const detail::FactorPtr L =
-      detail::own(analyse(A.get(), free_dofs, ordering, common.get()), common);
+      detail::own(ordering == Ordering::kMetisNodes && node_order.empty()
+                      ? nullptr
+                      : analyse(A.get(), free_dofs, ordering, node_order, n_dofs / 3, common.get()),
+                  common);
   out.analyse_s = seconds_since(t0);
   const int status = common->status;
   if (L) {

@@ -156,7 +156,7 @@ TEST_F(SolutionCacheTest, KeyFollowsWhatDeterminesTheSolutionOnly) {
   EXPECT_TRUE(changed([](CaseSpec& c) { c.scenarios[1].loss.defect_depth_mm = 1; }));
   EXPECT_TRUE(changed([](CaseSpec& c) { c.model.tooth.dimensions.root_length_mm += 1e-9; }));
   EXPECT_TRUE(changed([](CaseSpec& c) { c.model.bracket.height_mm = 5; }));
-  EXPECT_NE(key, solution_cache_key(spec(), 1, ScenarioOptions{{36, 30}, false}));
+  EXPECT_NE(key, solution_cache_key(spec(), 1, ScenarioOptions{{36, 30}, false, nullptr}));
   EXPECT_THROW(solution_cache_key(spec(), 2), InputError);
 }
 

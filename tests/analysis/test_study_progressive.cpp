@@ -127,6 +127,17 @@ TEST_F(LevelByLevel, SameResultsAsAScenarioSolvedOnItsOwn) {
   const ScenarioResult b =
       evaluate(*growing_->solutions()[0], tipping_load(), spec_->thresholds, nullptr);
   expect_same_result(a, b);
+  // The study ordered and analysed the mesh on its mesher thread (fem::SymbolicFactorisation), the
+  // scenario alone inside its solver: the same permutation and symbolic factor, so the same
+  // factorisation work and the same displacements to the last bit (derived: same matrix, same
+  // ordering, same arithmetic).
+  const ScenarioSolution& ahead = *growing_->solutions()[0];
+  EXPECT_EQ(alone.solver_statistics().factorisation_gflop,
+            ahead.solver_statistics().factorisation_gflop);
+  EXPECT_EQ((alone.basis().unit_displacements() - ahead.basis().unit_displacements())
+                .cwiseAbs()
+                .maxCoeff(),
+            0.0);
 }
 
 TEST_F(LevelByLevel, APartialStudyEvaluatesWhatIsSolved) {

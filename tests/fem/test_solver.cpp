@@ -3,8 +3,10 @@
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
+#include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -122,6 +124,81 @@ TEST(Solver, EveryOrderingGivesTheSameSolution) {
       EXPECT_EQ(solver.statistics().ordering, to_string(o));
     }
   }
+}
+
+// The node ordering computed ahead from the mesh and constraints (order_nodes, what a study does
+// for the next scenario) is the one the solver computes itself: the same factorisation work and
+// the same solution to the last bit (derived: same permutation, same arithmetic). Partly held
+// nodes (mixed_constraints) and a node of no element included. Another valid ordering (reversed)
+// is used as given: the same solution to round-off.
+TEST(Solver, NodeOrderComputedAheadGivesTheSameBits) {
+  for (int k : {4, 10}) {
+    SCOPED_TRACE(std::to_string(k) + "-node");
+    mesh::VolumeMesh m = small_mesh(k);
+    m.nodes.emplace_back(5.0, 5.0, 5.0);  // referenced by no element
+    const std::vector<DofConstraint> c = mixed_constraints(m);
+    const Eigen::VectorXd f = some_load(m.n_nodes(), 41u);
+    const LinearElasticSolver own(m, kMaterials, c);
+    SolverOptions options;
+    options.node_order = order_nodes(m, c);
+    const LinearElasticSolver given(m, kMaterials, c, options);
+    const Eigen::VectorXd u_own = own.solve(f), u_given = given.solve(f);
+    EXPECT_EQ((u_own - u_given).cwiseAbs().maxCoeff(), 0.0);
+    EXPECT_EQ(own.statistics().factorisation_gflop, given.statistics().factorisation_gflop);
+    EXPECT_EQ(given.statistics().ordering, "metis-nodes");
+    // Every node with a free dof once: all but the bottom face's and the unused one.
+    std::vector<char> seen(static_cast<size_t>(m.n_nodes()), 0);
+    for (int node : options.node_order) {
+      ASSERT_TRUE(node >= 0 && node < m.n_nodes());
+      EXPECT_FALSE(seen[static_cast<size_t>(node)]) << node;
+      seen[static_cast<size_t>(node)] = 1;
+    }
+    EXPECT_FALSE(seen.back());
+    EXPECT_EQ(3 * static_cast<int>(options.node_order.size()),
+              own.statistics().n_dofs + 3);  // the three prescribed top dofs are single ones
+    // The ordering and symbolic factorisation computed ahead from the mesh alone: the same bits.
+    SolverOptions with_symbolic;
+    with_symbolic.symbolic = std::make_shared<const SymbolicFactorisation>(m, c);
+    const LinearElasticSolver ahead(m, kMaterials, c, with_symbolic);
+    EXPECT_EQ((ahead.solve(f) - u_own).cwiseAbs().maxCoeff(), 0.0);
+    EXPECT_EQ(ahead.statistics().factorisation_gflop, own.statistics().factorisation_gflop);
+    EXPECT_EQ(ahead.statistics().factor_nonzeros, own.statistics().factor_nonzeros);
+    EXPECT_EQ(with_symbolic.symbolic->factor_nonzeros(), own.statistics().factor_nonzeros);
+    std::reverse(options.node_order.begin(), options.node_order.end());
+    const LinearElasticSolver reversed(m, kMaterials, c, options);
+    EXPECT_LT((reversed.solve(f) - u_own).norm(), 1e-11 * u_own.norm());
+  }
+}
+
+// A given node ordering that does not fit the model, or given with another ordering: InputError.
+TEST(Solver, MismatchedNodeOrderIsAnInputError) {
+  const mesh::VolumeMesh m = small_mesh(4);
+  const std::vector<DofConstraint> c = mixed_constraints(m);
+  const std::vector<int> good = order_nodes(m, c);
+  std::vector<int> missing(good.begin() + 1, good.end());
+  std::vector<int> twice = good;
+  twice.back() = twice.front();
+  std::vector<int> outside = good;
+  outside.push_back(m.n_nodes());
+  for (const std::vector<int>* order : {&missing, &twice, &outside}) {
+    SolverOptions options;
+    options.node_order = *order;
+    EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, options), InputError);
+  }
+  SolverOptions amd;
+  amd.ordering = Ordering::kAmd;
+  amd.node_order = good;
+  EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, amd), InputError);
+  EXPECT_THROW(order_nodes(m, {{m.n_nodes(), 0, 0.0}}), InputError);
+  // A symbolic factorisation of other constraints (the bottom face only), or with another ordering.
+  SolverOptions other;
+  other.symbolic =
+      std::make_shared<const SymbolicFactorisation>(m, fix_faces(m, testing::kZetaMin));
+  EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, other), InputError);
+  other.symbolic = std::make_shared<const SymbolicFactorisation>(m, c);
+  other.ordering = Ordering::kMetis;
+  EXPECT_THROW(LinearElasticSolver(m, kMaterials, c, other), InputError);
+  EXPECT_THROW(SymbolicFactorisation(m, {{0, 3, 0.0}}), InputError);
 }
 
 // Two computations: refactorise() with new materials (ordering and symbolic analysis reused)

@@ -57,6 +57,10 @@ struct ScenarioOptions {
   // scenario (about 1 GB for the standard incisor mesh), so by default it is released once they
   // are solved and solver() is no longer available (solver_statistics() stays).
   bool keep_solver = false;
+  // The ordering and symbolic factorisation of this scenario's mesh with its fixed bone faces
+  // (fem::SymbolicFactorisation), when it was computed ahead (Study analyses the next scenario
+  // while this one factorises); null: the solver orders and analyses itself. The same bits.
+  std::shared_ptr<const fem::SymbolicFactorisation> symbolic;
 };
 
 // Everything that depends on one scenario's geometry but not on the load.

@@ -4,6 +4,7 @@
 
 #include <Eigen/Core>
 #include <Eigen/SparseCore>
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -24,9 +25,19 @@ enum class Ordering {
 };
 std::string to_string(Ordering ordering);  // "auto", "amd", "metis", "nesdis", "metis-nodes"
 
+class SymbolicFactorisation;
+
 struct SolverOptions {
   // Chosen by measurement on 10-node tooth and block meshes (docs/fem-solver.md).
   Ordering ordering = Ordering::kMetisNodes;
+  // With kMetisNodes: the node ordering computed ahead by order_nodes() on the same mesh and
+  // constraints (node ids in elimination order), used instead of ordering the nodes again; the
+  // result is the same to the last bit. Empty: the solver orders the nodes itself.
+  std::vector<int> node_order;
+  // With kMetisNodes and no node_order: the ordering and symbolic factorisation computed ahead on
+  // the same mesh and constraints (SymbolicFactorisation); the solver copies it and only assembles
+  // and factorises numerically. The same bits as without it.
+  std::shared_ptr<const SymbolicFactorisation> symbolic;
   AssemblyOptions assembly;
   // A solve whose relative residual exceeds this throws SolverError.
   double max_relative_residual = 1e-6;
@@ -106,6 +117,41 @@ class LinearElasticSolver {
  private:
   struct Impl;
   Impl* impl_;
+};
+
+// The fill-reducing node ordering the solver computes for kMetisNodes (METIS nested dissection of
+// the graph of the nodes with a free dof, two nodes adjacent when they share an element): node ids
+// in elimination order. Needs the mesh and the constraints only, not the stiffness matrix, so it
+// can be computed ahead (a study orders the next scenario's mesh while this one factorises) and
+// passed in SolverOptions::node_order. Throws InputError for a constraint outside the mesh,
+// SolverError when METIS fails. One ordering runs at a time in the process (METIS keeps global
+// state); a call waits for another thread's ordering to finish.
+std::vector<int> order_nodes(const mesh::VolumeMesh& mesh,
+                             const std::vector<DofConstraint>& constraints);
+
+// The ordering and CHOLMOD's symbolic factorisation of a model's free-free stiffness block from
+// the mesh and the constraints alone (the stiffness pattern is the node pairs sharing an element):
+// what the solver computes for kMetisNodes before the numeric factorisation, computed ahead (a
+// study analyses the next scenario while this one factorises) and passed in
+// SolverOptions::symbolic. Runs on the calling thread alone. Holds the symbolic factor (tens of MB
+// for the standard incisor), not K. Throws InputError for a constraint outside the mesh,
+// SolverError when the ordering or the analysis fails.
+class SymbolicFactorisation {
+ public:
+  SymbolicFactorisation(const mesh::VolumeMesh& mesh,
+                        const std::vector<DofConstraint>& constraints);
+  ~SymbolicFactorisation();
+  SymbolicFactorisation(const SymbolicFactorisation&) = delete;
+  SymbolicFactorisation& operator=(const SymbolicFactorisation&) = delete;
+  double factorisation_gflop() const;  // work of the numeric factorisation
+  long long factor_nonzeros() const;   // entries of L
+  double analyse_s() const;            // time this took
+
+  struct Impl;  // the solver's view (solver.cpp)
+  const Impl& impl() const { return *impl_; }
+
+ private:
+  std::unique_ptr<Impl> impl_;
 };
 
 // Fill and work of the factorisation under one ordering, from CHOLMOD's symbolic analysis only (no
