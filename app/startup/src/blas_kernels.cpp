@@ -71,11 +71,13 @@ std::vector<std::pair<std::string, std::string>> settings_for_restart() {
   // libgomp's waiting threads spin (by default some 300 000 rounds) before they sleep, and never
   // give their core away meanwhile. On cores shared with other programs the thread that has the
   // work then waits for the spinner's time slice: the standard incisor's factorisation took 41 s
-  // instead of 5 to 8 at a load of 6 on two cores (docs/fem-solver.md, "Speed"). Waiting threads
-  // that sleep at once cost a wake-up per parallel region instead. A choice the user made is kept.
+  // instead of 5 to 8 at a load of 6 on two cores. Threads that sleep at once (passive) cost a
+  // wake-up per parallel region: 4.3 s instead of 1.9 on an idle machine. A short spin of 10 000
+  // rounds gave the idle machine's speed (1.8 to 1.9 s) and the best of the three under two busy
+  // loops (docs/fem-solver.md, "Speed", steps 5 to 7). A choice the user made is kept.
   if (std::getenv("OMP_WAIT_POLICY") == nullptr && std::getenv("GOMP_SPINCOUNT") == nullptr &&
       blas_threading() == BlasThreading::kOpenMp) {
-    settings.emplace_back("OMP_WAIT_POLICY", "passive");
+    settings.emplace_back("GOMP_SPINCOUNT", "10000");
   }
   return settings;
 }

@@ -40,12 +40,13 @@ BlasThreading blas_threading();
 // this off. Likewise, when the BLAS is OpenMP-threaded and OMP_THREAD_LIMIT is not set, sets it to
 // the number of online processors before starting again: CHOLMOD 3.0 opens its OpenMP regions with
 // a fixed team of four, which on two cores fights OpenBLAS's own threads for the cores (a limit the
-// user set is kept), and OMP_WAIT_POLICY to passive unless OMP_WAIT_POLICY or GOMP_SPINCOUNT is
-// set (libgomp's spinning waits hold shared cores). When the BLAS in use is not the OpenMP build,
-// prints a one-line note to stderr and carries on (same results, more system time). A wrong kernel
-// could not pass unnoticed: every solve checks its residual with Eigen's own sparse product
-// (SolverOptions::max_relative_residual); the standard incisor gives 1.1e-10 with the SkylakeX
-// kernels and 1.2e-10 with the Prescott ones, the same displacement checksum.
+// user set is kept), and GOMP_SPINCOUNT to 10 000 rounds unless OMP_WAIT_POLICY or GOMP_SPINCOUNT
+// is set (libgomp's default spin of 300 000 rounds holds shared cores; sleeping at once is slow).
+// When the BLAS in use is not the OpenMP build, prints a one-line note to stderr and carries on
+// (same results, more system time). A wrong kernel could not pass unnoticed: every solve checks its
+// residual with Eigen's own sparse product (SolverOptions::max_relative_residual); the standard
+// incisor gives 1.1e-10 with the SkylakeX kernels and 1.2e-10 with the Prescott ones, the same
+// displacement checksum.
 void use_fast_blas_kernels(char** argv);
 
 }  // namespace sharpey::startup
