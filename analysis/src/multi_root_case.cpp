@@ -246,8 +246,8 @@ void check_model(const MultiRootCase& c) {
 
 // The case's movement to `threshold_kpa`, from the tooth's peak per unit of the load; negative
 // when the movement compresses nothing.
-double case_allowance(const MultiRootResult& r, double magnitude, double threshold_kpa) {
-  const double per_unit_peak = r.tooth.peak_compression_kpa / magnitude;
+double case_allowance(double peak_compression_kpa, double magnitude, double threshold_kpa) {
+  const double per_unit_peak = peak_compression_kpa / magnitude;
   return per_unit_peak > 0 ? threshold_kpa / per_unit_peak : -1.0;
 }
 
@@ -285,14 +285,20 @@ void fill_surface(const MultiRootThinLayer& model, const mesh::MultiRootBone& bo
   SHARPEY_ASSERT(k == p.size(), "the attached points differ from the model's");
 }
 
-MultiRootFeFigures fe_figures(const mesh::MultiRootTooth& tooth, const MultiRootScenario& s,
-                              const fem::Material& pdl, const MultiRootLoad& load) {
+MultiRootFeFigures fe_figures(const MultiRootCase& spec, const mesh::MultiRootTooth& tooth,
+                              const MultiRootScenario& s, const MultiRootLoad& load,
+                              double magnitude) {
+  const fem::Material& pdl = spec.pdl;
   const mesh::MultiRootMesh m = mesh::build_multi_root_mesh(tooth, s.bone);
   const fem::Material dentin{18600, 0.31}, cancellous{1370, 0.3};
   const MultiRootFeCres fc = multi_root_fe_cres(m, dentin, pdl, cancellous, tooth.trunk_length_mm);
   const MultiRootFePressure fp =
-      multi_root_fe_pressure(m, tooth, s.bone, dentin, pdl, cancellous, load);
-  return {fc.n_dofs, fc.buccolingual, fc.mesiodistal, fp.tooth, fp.roots};
+      multi_root_fe_pressure(m, tooth, s.bone, dentin, pdl, cancellous, load, spec.thresholds);
+  MultiRootFeFigures out{fc.n_dofs, fc.buccolingual, fc.mesiodistal, fp.tooth, fp.roots};
+  const double peak = fp.tooth.peak_compression_kpa;
+  out.allowance_capillary = case_allowance(peak, magnitude, spec.thresholds.capillary.value_kpa);
+  out.allowance_limit = case_allowance(peak, magnitude, spec.thresholds.limit.value_kpa);
+  return out;
 }
 
 MultiRootScenarioResult evaluate_scenario(const MultiRootCase& spec,
@@ -306,8 +312,9 @@ MultiRootScenarioResult evaluate_scenario(const MultiRootCase& spec,
   r.result = model.evaluate(load, spec.thresholds);
   r.cres_buccolingual = model.cres(Eigen::Vector3d::UnitX());
   r.cres_mesiodistal = model.cres(Eigen::Vector3d::UnitY());
-  r.allowance_capillary = case_allowance(r.result, magnitude, spec.thresholds.capillary.value_kpa);
-  r.allowance_limit = case_allowance(r.result, magnitude, spec.thresholds.limit.value_kpa);
+  const double peak = r.result.tooth.peak_compression_kpa;
+  r.allowance_capillary = case_allowance(peak, magnitude, spec.thresholds.capillary.value_kpa);
+  r.allowance_limit = case_allowance(peak, magnitude, spec.thresholds.limit.value_kpa);
   for (MolarMovement m :
        {MolarMovement::kUprighting, MolarMovement::kIntrusion, MolarMovement::kTranslation})
     r.allowances.push_back({m, model.allowance(m, spec.thresholds.capillary.value_kpa),
@@ -317,7 +324,7 @@ MultiRootScenarioResult evaluate_scenario(const MultiRootCase& spec,
   fill_surface(model, s.bone, p, &r);
   if (spec.finite_elements) {
     r.has_finite_elements = true;
-    r.finite_elements = fe_figures(tooth, s, spec.pdl, load);
+    r.finite_elements = fe_figures(spec, tooth, s, load, magnitude);
   }
   return r;
 }
@@ -356,7 +363,22 @@ Json figures_json(const RootFigures& f) {
   return o;
 }
 
-Json fe_json(const MultiRootFeFigures& fe) {
+// The finite-element areas and allowances (added beside the older keys, which stay as they were).
+void fe_area_json(const MultiRootCase& spec, const MultiRootFeFigures& fe, Json* fj) {
+  const std::string unit = spec.movement == MolarMovement::kUprighting ? "nmm" : "n";
+  Json& j = *fj;
+  j["areas_method"] =
+      "finite elements: the PDL's root-side surface (tooth/PDL interface faces); area above a "
+      "threshold lumped at the faces' nodes (pressure recovered at each node), nodes in the free "
+      "edge's band left out; not the thin-layer areas of the scenario's \"roots\"";
+  j["tooth_attachment_area_mm2"] = fe.tooth.attachment_area_mm2;
+  j["tooth_area_above_capillary_mm2"] = fe.tooth.area_above_capillary_mm2;
+  j["tooth_area_above_limit_mm2"] = fe.tooth.area_above_limit_mm2;
+  j["allowance_capillary_" + unit] = allowance_json(fe.allowance_capillary);
+  j["allowance_limit_" + unit] = allowance_json(fe.allowance_limit);
+}
+
+Json fe_json(const MultiRootCase& spec, const MultiRootFeFigures& fe) {
   Json fj;
   fj["method"] =
       "finite elements: faceted multi-rooted mesh (coarse sizes), 10-node tetrahedra, dentin "
@@ -371,8 +393,12 @@ Json fe_json(const MultiRootFeFigures& fe) {
     o["name"] = f.name;
     o["peak_compression_kpa"] = f.peak_compression_kpa;
     o["peak_tension_kpa"] = f.peak_tension_kpa;
+    o["attachment_area_mm2"] = f.attachment_area_mm2;
+    o["area_above_capillary_mm2"] = f.area_above_capillary_mm2;
+    o["area_above_limit_mm2"] = f.area_above_limit_mm2;
     fj["roots"].push_back(o);
   }
+  fe_area_json(spec, fe, &fj);
   return fj;
 }
 
@@ -394,7 +420,7 @@ Json scenario_json(const MultiRootCase& spec, const MultiRootScenario& s,
   js["allowance_limit_" + std::string(couple ? "nmm" : "n")] = allowance_json(r.allowance_limit);
   js["tooth"] = figures_json(r.result.tooth);
   for (const RootFigures& f : r.result.roots) js["roots"].push_back(figures_json(f));
-  if (r.has_finite_elements) js["finite_elements"] = fe_json(r.finite_elements);
+  if (r.has_finite_elements) js["finite_elements"] = fe_json(spec, r.finite_elements);
   js["root_map"] = root_map_name(i);
   return js;
 }
@@ -444,7 +470,28 @@ std::string summary_header(const MultiRootCase& spec) {
   return txt.str();
 }
 
-std::string fe_summary(const MultiRootFeFigures& fe) {
+// The finite-element areas and allowances, on lines of their own after the older one.
+std::string fe_area_summary(const MultiRootCase& spec, const std::string& base_unit,
+                            const MultiRootFeFigures& fe) {
+  const double capillary = spec.thresholds.capillary.value_kpa;
+  const double limit = spec.thresholds.limit.value_kpa;
+  std::ostringstream ft;
+  ft << "  finite elements: allowance to " << limit
+     << " kPa: " << allowance_text(fe.allowance_limit) << " " << base_unit << " (to " << capillary
+     << " kPa: " << allowance_text(fe.allowance_capillary) << " " << base_unit
+     << "); root-side PDL area " << fixed(fe.tooth.attachment_area_mm2, 0) << " mm^2, above "
+     << capillary << " kPa " << fixed(fe.tooth.area_above_capillary_mm2, 1) << " mm^2, above "
+     << limit << " kPa " << fixed(fe.tooth.area_above_limit_mm2, 1) << " mm^2\n";
+  for (const RootFigures& f : fe.roots)
+    ft << "  finite elements, " << f.name << ": root-side PDL area "
+       << fixed(f.attachment_area_mm2, 0) << " mm^2, above " << capillary << " kPa "
+       << fixed(f.area_above_capillary_mm2, 1) << " mm^2, above " << limit << " kPa "
+       << fixed(f.area_above_limit_mm2, 1) << " mm^2\n";
+  return ft.str();
+}
+
+std::string fe_summary(const MultiRootCase& spec, const std::string& base_unit,
+                       const MultiRootFeFigures& fe) {
   std::ostringstream ft;
   ft << "  finite elements (" << fe.n_dofs << " dofs): CRes "
      << fixed(fe.mesiodistal.below_cej_mm, 1) << " mm (mesiodistal), "
@@ -453,6 +500,7 @@ std::string fe_summary(const MultiRootFeFigures& fe) {
   for (const RootFigures& f : fe.roots)
     ft << " " << f.name << " " << fixed(f.peak_compression_kpa, 1) << " kPa";
   ft << "\n";
+  ft << fe_area_summary(spec, base_unit, fe);
   return ft.str();
 }
 
@@ -470,7 +518,9 @@ std::string scenario_summary(const MultiRootCase& spec, const std::string& base_
       << "  allowance to " << limit << " kPa: " << allowance_text(r.allowance_limit) << " "
       << base_unit << " (to " << capillary << " kPa: " << allowance_text(r.allowance_capillary)
       << " " << base_unit << ")\n";
-  if (r.has_finite_elements) txt << fe_summary(r.finite_elements);
+  if (r.has_finite_elements)
+    txt << fe_summary(spec, base_unit, r.finite_elements)
+        << "  thin-layer estimate, per root:\n";
   for (const RootFigures& f : r.result.roots) {
     txt << "  " << std::left << std::setw(12) << f.name << " attached "
         << fixed(f.attachment_area_mm2, 0) << " mm^2, peak " << fixed(f.peak_compression_kpa, 1)

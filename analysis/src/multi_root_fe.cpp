@@ -2,10 +2,14 @@
 
 #include <Eigen/Dense>
 #include <Eigen/Geometry>
+#include <algorithm>
+#include <array>
 #include <climits>
 #include <cmath>
+#include <map>
 #include <set>
 
+#include "sharpey/core/check.h"
 #include "sharpey/fem/assembly.h"
 #include "sharpey/fem/recovery.h"
 #include "sharpey/fem/solver.h"
@@ -120,12 +124,70 @@ std::vector<char> free_edge_band(const mesh::MultiRootMesh& m, const mesh::Multi
   return band;
 }
 
+// The root-side faces' lumped node shares (multi_root_fe.h): each face's part from the PDL element
+// behind it; `index` maps a mesh node to its column in the recovered field.
+std::vector<MultiRootFeSurfaceShare> root_side_shares(const mesh::MultiRootMesh& m,
+                                                      const fem::RegionField& field,
+                                                      const std::vector<char>& band) {
+  const mesh::VolumeMesh& mesh = m.mesh;
+  std::vector<int> index(mesh.n_nodes(), -1);
+  for (size_t i = 0; i < field.nodes.size(); ++i) index[field.nodes[i]] = static_cast<int>(i);
+  std::map<std::array<int, 3>, int> face_part;
+  const int corner_faces[4][3] = {{0, 1, 2}, {0, 1, 3}, {0, 2, 3}, {1, 2, 3}};
+  for (int e = 0; e < mesh.n_elements(); ++e) {
+    if (mesh.element_region[e] != mesh::kPdl) continue;
+    for (const auto& f : corner_faces) {
+      std::array<int, 3> key{mesh.element(e)[f[0]], mesh.element(e)[f[1]], mesh.element(e)[f[2]]};
+      std::sort(key.begin(), key.end());
+      face_part[key] = m.element_part[e];
+    }
+  }
+  std::vector<MultiRootFeSurfaceShare> out;
+  for (int f = 0; f < mesh.n_faces(); ++f) {
+    if (mesh.face_marker[f] != mesh::kRootSurface) continue;
+    const int* v = mesh.face(f);
+    std::array<int, 3> key{v[0], v[1], v[2]};
+    std::sort(key.begin(), key.end());
+    const auto it = face_part.find(key);
+    SHARPEY_ASSERT(it != face_part.end(), "a root-side face has no PDL element behind it");
+    const double area =
+        0.5 *
+        (mesh.nodes[v[1]] - mesh.nodes[v[0]]).cross(mesh.nodes[v[2]] - mesh.nodes[v[0]]).norm();
+    for (int k = 0; k < mesh.nodes_per_face; ++k) {
+      const int i = index[v[k]];
+      SHARPEY_ASSERT(i >= 0, "a root-side node is not a PDL node");
+      const double share = mesh.nodes_per_face == 3 ? area / 3 : (k < 3 ? area / 12 : area / 4);
+      out.push_back({it->second, share, fem::hydrostatic_pressure_kpa(field.stress_mpa.col(i)),
+                     band[i] != 0});
+    }
+  }
+  return out;
+}
+
+// Attachment and threshold areas of `fig` (part as in multi_root_fe_area_above_mm2).
+void fill_areas(const MultiRootFePressure& fe, int part, const Thresholds& thresholds,
+                RootFigures* fig) {
+  for (const MultiRootFeSurfaceShare& s : fe.surface)
+    if (part == kWholeTooth || s.part == part) fig->attachment_area_mm2 += s.area_mm2;
+  fig->area_above_capillary_mm2 =
+      multi_root_fe_area_above_mm2(fe, part, thresholds.capillary.value_kpa);
+  fig->area_above_limit_mm2 = multi_root_fe_area_above_mm2(fe, part, thresholds.limit.value_kpa);
+}
+
 }  // namespace
+
+double multi_root_fe_area_above_mm2(const MultiRootFePressure& fe, int part, double threshold_kpa) {
+  double area = 0;
+  for (const MultiRootFeSurfaceShare& s : fe.surface)
+    if ((part == kWholeTooth || s.part == part) && !s.in_band && s.pressure_kpa > threshold_kpa)
+      area += s.area_mm2;
+  return area;
+}
 
 MultiRootFePressure multi_root_fe_pressure(
     const mesh::MultiRootMesh& m, const mesh::MultiRootTooth& tooth,
     const mesh::MultiRootBone& bone, const fem::Material& tooth_material, const fem::Material& pdl,
-    const fem::Material& bone_material, const MultiRootLoad& load) {
+    const fem::Material& bone_material, const MultiRootLoad& load, const Thresholds& thresholds) {
   const mesh::VolumeMesh& mesh = m.mesh;
   fem::MaterialTable materials{
       {mesh::kTooth, tooth_material}, {mesh::kPdl, pdl}, {mesh::kCancellousBone, bone_material}};
@@ -175,6 +237,10 @@ MultiRootFePressure multi_root_fe_pressure(
       fig->peak_tension_kpa = std::max(fig->peak_tension_kpa, -p);
     }
   }
+  out.surface = root_side_shares(m, field, band);
+  fill_areas(out, kWholeTooth, thresholds, &out.tooth);
+  for (size_t r = 0; r < out.roots.size(); ++r)
+    fill_areas(out, static_cast<int>(r), thresholds, &out.roots[r]);
   return out;
 }
 

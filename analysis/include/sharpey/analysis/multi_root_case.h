@@ -69,6 +69,11 @@ struct MultiRootFeFigures {
   MultiRootCres buccolingual, mesiodistal;
   RootFigures tooth;
   std::vector<RootFigures> roots;
+  // Attachment and areas above the thresholds in tooth and roots: multi_root_fe_pressure's
+  // root-side areas (multi_root_fe.h). The case's movement to each threshold in the case's base
+  // unit, from the finite-element tooth peak per unit of the load (linear model); negative when
+  // the movement compresses nothing.
+  double allowance_capillary = -1, allowance_limit = -1;
 };
 
 // Everything the reports show of one scenario, under the case's load.
