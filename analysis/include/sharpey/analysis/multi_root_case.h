@@ -29,8 +29,8 @@ struct MultiRootCase {
   Thresholds thresholds = default_thresholds();
   // Also mesh and solve every scenario (mesh::build_multi_root_mesh, coarse sizes; dentin
   // 18.6 GPa and cancellous bone 1.37 GPa, check-values.md section 1): the finite-element CRes and
-  // per-root peak pressure beside the estimate. Every scenario must be meshable
-  // (validate_multi_root_mesh).
+  // per-root peak pressure, root-side areas and allowance beside the estimate. Every scenario must
+  // be meshable (validate_multi_root_mesh).
   bool finite_elements = false;
 };
 
