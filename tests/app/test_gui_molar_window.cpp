@@ -265,6 +265,14 @@ TEST_F(MolarWindowTest, AFiniteElementCaseIsEvaluatedInTheBackground) {
   for (size_t k = 0; k < fe.roots.size(); ++k)
     EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 1), fe.roots[k].peak_compression_kpa);
   EXPECT_EQ(cell(t, t->rowCount() - 1, 1), fe.tooth.peak_compression_kpa);
+  // The finite-element areas: root-side PDL area, above the capillary and the limit threshold.
+  ASSERT_EQ(t->columnCount(), 5);
+  for (size_t k = 0; k < fe.roots.size(); ++k) {
+    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 2), fe.roots[k].attachment_area_mm2);
+    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 3), fe.roots[k].area_above_capillary_mm2);
+    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 4), fe.roots[k].area_above_limit_mm2);
+  }
+  EXPECT_EQ(cell(t, t->rowCount() - 1, 2), fe.tooth.attachment_area_mm2);
 }
 
 }  // namespace

@@ -117,18 +117,32 @@ MolarTable molar_allowance_table(const analysis::MultiRootScenarioResult& r,
   return t;
 }
 
-MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r) {
+MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r,
+                          const analysis::Thresholds* thresholds) {
   MolarTable t;
   if (!r.has_finite_elements) return t;
   const analysis::MultiRootFeFigures& fe = r.finite_elements;
   t.columns = {QStringLiteral("CRes below CEJ (mm)"), QStringLiteral("peak compr. (kPa)")};
   t.decimals = {2, 1};
-  t.rows.push_back({QStringLiteral("mesiodistal force"), {fe.mesiodistal.below_cej_mm, kNone}});
-  t.rows.push_back({QStringLiteral("buccolingual force"), {fe.buccolingual.below_cej_mm, kNone}});
+  if (thresholds) {
+    t.columns.push_back(QStringLiteral("root-side PDL (mm²)"));
+    t.columns.push_back(QStringLiteral("> %1 kPa (mm²)").arg(kpa(thresholds->capillary.value_kpa)));
+    t.columns.push_back(QStringLiteral("> %1 kPa (mm²)").arg(kpa(thresholds->limit.value_kpa)));
+    t.decimals.insert(t.decimals.end(), {0, 1, 1});
+  }
+  const auto row = [&](const QString& name, double cres, const analysis::RootFigures* f) {
+    MolarRow out{name, {cres, f ? f->peak_compression_kpa : kNone}};
+    if (thresholds)
+      for (double v : {f ? f->attachment_area_mm2 : kNone, f ? f->area_above_capillary_mm2 : kNone,
+                       f ? f->area_above_limit_mm2 : kNone})
+        out.values.push_back(v);
+    t.rows.push_back(out);
+  };
+  row(QStringLiteral("mesiodistal force"), fe.mesiodistal.below_cej_mm, nullptr);
+  row(QStringLiteral("buccolingual force"), fe.buccolingual.below_cej_mm, nullptr);
   for (const analysis::RootFigures& f : fe.roots)
-    t.rows.push_back({QString::fromStdString(f.name) + QStringLiteral(" root"),
-                      {kNone, f.peak_compression_kpa}});
-  t.rows.push_back({QStringLiteral("whole tooth"), {kNone, fe.tooth.peak_compression_kpa}});
+    row(QString::fromStdString(f.name) + QStringLiteral(" root"), kNone, &f);
+  row(QStringLiteral("whole tooth"), kNone, &fe.tooth);
   return t;
 }
 

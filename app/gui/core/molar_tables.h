@@ -47,8 +47,11 @@ MolarTable molar_cres_table(const analysis::MultiRootScenarioResult& r);
 MolarTable molar_allowance_table(const analysis::MultiRootScenarioResult& r,
                                  const analysis::Thresholds& thresholds, analysis::ForceUnit unit);
 
-// The finite-element figures when the case asked for them: CRes and peak compression per root.
-MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r);
+// The finite-element figures when the case asked for them: CRes and peak compression per root;
+// with `thresholds`, also the root-side PDL area and the areas above the two thresholds per root
+// and for the tooth (analysis/multi_root_fe.h).
+MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r,
+                          const analysis::Thresholds* thresholds = nullptr);
 
 // "uprighting (couple, g·mm)" style row names.
 QString molar_movement_label(analysis::MolarMovement m, analysis::ForceUnit unit);

@@ -284,7 +284,7 @@ void MolarWindow::refresh() {
   fill_molar_table(root_table_, molar_root_table(r, spec_.thresholds, unit_));
   fill_molar_table(cres_table_, molar_cres_table(r));
   fill_molar_table(allowance_table_, molar_allowance_table(r, spec_.thresholds, unit_));
-  fill_molar_table(fe_table_, molar_fe_table(r));
+  fill_molar_table(fe_table_, molar_fe_table(r, &spec_.thresholds));
   fe_title_->setVisible(r.has_finite_elements);
   fe_table_->setVisible(r.has_finite_elements);
   const QString name = QString::fromStdString(r.name);
