@@ -265,14 +265,18 @@ TEST_F(MolarWindowTest, AFiniteElementCaseIsEvaluatedInTheBackground) {
   for (size_t k = 0; k < fe.roots.size(); ++k)
     EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 1), fe.roots[k].peak_compression_kpa);
   EXPECT_EQ(cell(t, t->rowCount() - 1, 1), fe.tooth.peak_compression_kpa);
-  // The finite-element areas: root-side PDL area, above the capillary and the limit threshold.
-  ASSERT_EQ(t->columnCount(), 5);
+  // The finite-element areas per root and for the tooth, and the case's load to each threshold.
+  const QTableWidget* a = window.fe_area_table();
+  ASSERT_EQ(a->columnCount(), static_cast<int>(fe.roots.size()) + 1);
+  ASSERT_EQ(a->rowCount(), 5);
   for (size_t k = 0; k < fe.roots.size(); ++k) {
-    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 2), fe.roots[k].attachment_area_mm2);
-    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 3), fe.roots[k].area_above_capillary_mm2);
-    EXPECT_EQ(cell(t, 2 + static_cast<int>(k), 4), fe.roots[k].area_above_limit_mm2);
+    EXPECT_EQ(cell(a, 0, static_cast<int>(k)), fe.roots[k].attachment_area_mm2);
+    EXPECT_EQ(cell(a, 1, static_cast<int>(k)), fe.roots[k].area_above_capillary_mm2);
+    EXPECT_EQ(cell(a, 2, static_cast<int>(k)), fe.roots[k].area_above_limit_mm2);
   }
-  EXPECT_EQ(cell(t, t->rowCount() - 1, 2), fe.tooth.attachment_area_mm2);
+  const int whole = a->columnCount() - 1;
+  EXPECT_EQ(cell(a, 0, whole), fe.tooth.attachment_area_mm2);
+  EXPECT_NEAR(cell(a, 4, whole), fe.allowance_limit, 1e-12);  // the case's unit is N
 }
 
 }  // namespace

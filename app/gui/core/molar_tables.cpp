@@ -117,32 +117,59 @@ MolarTable molar_allowance_table(const analysis::MultiRootScenarioResult& r,
   return t;
 }
 
-MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r,
-                          const analysis::Thresholds* thresholds) {
+MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r) {
   MolarTable t;
   if (!r.has_finite_elements) return t;
   const analysis::MultiRootFeFigures& fe = r.finite_elements;
   t.columns = {QStringLiteral("CRes below CEJ (mm)"), QStringLiteral("peak compr. (kPa)")};
   t.decimals = {2, 1};
-  if (thresholds) {
-    t.columns.push_back(QStringLiteral("root-side PDL (mm²)"));
-    t.columns.push_back(QStringLiteral("> %1 kPa (mm²)").arg(kpa(thresholds->capillary.value_kpa)));
-    t.columns.push_back(QStringLiteral("> %1 kPa (mm²)").arg(kpa(thresholds->limit.value_kpa)));
-    t.decimals.insert(t.decimals.end(), {0, 1, 1});
+  t.rows.push_back({QStringLiteral("mesiodistal force"), {fe.mesiodistal.below_cej_mm, kNone}});
+  t.rows.push_back({QStringLiteral("buccolingual force"), {fe.buccolingual.below_cej_mm, kNone}});
+  for (const analysis::RootFigures& f : fe.roots)
+    t.rows.push_back({QString::fromStdString(f.name) + QStringLiteral(" root"),
+                      {kNone, f.peak_compression_kpa}});
+  t.rows.push_back({QStringLiteral("whole tooth"), {kNone, fe.tooth.peak_compression_kpa}});
+  return t;
+}
+
+MolarTable molar_fe_area_table(const analysis::MultiRootScenarioResult& r,
+                               const analysis::Thresholds& thresholds,
+                               analysis::MolarMovement movement, analysis::ForceUnit unit) {
+  MolarTable t;
+  if (!r.has_finite_elements) return t;
+  const analysis::MultiRootFeFigures& fe = r.finite_elements;
+  std::vector<const analysis::RootFigures*> parts;
+  for (const analysis::RootFigures& f : fe.roots) {
+    parts.push_back(&f);
+    t.columns << QString::fromStdString(f.name) + QStringLiteral(" root");
   }
-  const auto row = [&](const QString& name, double cres, const analysis::RootFigures* f) {
-    MolarRow out{name, {cres, f ? f->peak_compression_kpa : kNone}};
-    if (thresholds)
-      for (double v : {f ? f->attachment_area_mm2 : kNone, f ? f->area_above_capillary_mm2 : kNone,
-                       f ? f->area_above_limit_mm2 : kNone})
-        out.values.push_back(v);
+  parts.push_back(&fe.tooth);
+  t.columns << QStringLiteral("whole tooth");
+  t.decimals.assign(parts.size(), 1);
+  const auto row = [&](const QString& name, double analysis::RootFigures::*field) {
+    MolarRow out{name, {}};
+    for (const analysis::RootFigures* f : parts) out.values.push_back(f->*field);
     t.rows.push_back(out);
   };
-  row(QStringLiteral("mesiodistal force"), fe.mesiodistal.below_cej_mm, nullptr);
-  row(QStringLiteral("buccolingual force"), fe.buccolingual.below_cej_mm, nullptr);
-  for (const analysis::RootFigures& f : fe.roots)
-    row(QString::fromStdString(f.name) + QStringLiteral(" root"), kNone, &f);
-  row(QStringLiteral("whole tooth"), kNone, &fe.tooth);
+  row(QStringLiteral("root-side PDL area (mm²)"), &analysis::RootFigures::attachment_area_mm2);
+  row(QStringLiteral("area above %1 kPa (mm²)").arg(kpa(thresholds.capillary.value_kpa)),
+      &analysis::RootFigures::area_above_capillary_mm2);
+  row(QStringLiteral("area above %1 kPa (mm²)").arg(kpa(thresholds.limit.value_kpa)),
+      &analysis::RootFigures::area_above_limit_mm2);
+  const QString unit_label = movement == analysis::MolarMovement::kUprighting
+                                 ? moment_unit_label(unit)
+                                 : force_unit_label(unit);
+  for (const auto& [threshold, allowance] :
+       {std::pair{thresholds.capillary.value_kpa, fe.allowance_capillary},
+        std::pair{thresholds.limit.value_kpa, fe.allowance_limit}}) {
+    const double base = allowance < 0 ? std::numeric_limits<double>::infinity() : allowance;
+    MolarRow out{QStringLiteral("case's load to %1 kPa (%2)").arg(kpa(threshold), unit_label),
+                 std::vector<double>(parts.size(), kNone)};
+    out.values.back() = allowance_in(movement, base, unit);
+    t.rows.push_back(out);
+  }
+  const int d = force_decimals(unit);
+  t.row_decimals = {0, 1, 1, d, d};
   return t;
 }
 

@@ -47,11 +47,15 @@ MolarTable molar_cres_table(const analysis::MultiRootScenarioResult& r);
 MolarTable molar_allowance_table(const analysis::MultiRootScenarioResult& r,
                                  const analysis::Thresholds& thresholds, analysis::ForceUnit unit);
 
-// The finite-element figures when the case asked for them: CRes and peak compression per root;
-// with `thresholds`, also the root-side PDL area and the areas above the two thresholds per root
-// and for the tooth (analysis/multi_root_fe.h).
-MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r,
-                          const analysis::Thresholds* thresholds = nullptr);
+// The finite-element figures when the case asked for them: CRes and peak compression per root.
+MolarTable molar_fe_table(const analysis::MultiRootScenarioResult& r);
+
+// The finite-element areas when the case asked for them (analysis/multi_root_fe.h), per root and
+// for the whole tooth: root-side PDL area, areas above the two thresholds, and the case's
+// `movement` to each threshold (whole tooth column; in `unit`, unit mm for uprighting).
+MolarTable molar_fe_area_table(const analysis::MultiRootScenarioResult& r,
+                               const analysis::Thresholds& thresholds,
+                               analysis::MolarMovement movement, analysis::ForceUnit unit);
 
 // "uprighting (couple, g·mm)" style row names.
 QString molar_movement_label(analysis::MolarMovement m, analysis::ForceUnit unit);

@@ -174,6 +174,8 @@ QWidget* MolarWindow::build_right() {
   col->addWidget(fe_title_);
   fe_table_ = new_table();
   col->addWidget(fe_table_);
+  fe_area_table_ = new_table();
+  col->addWidget(fe_area_table_);
   col->addStretch(1);
   return right;
 }
@@ -284,9 +286,11 @@ void MolarWindow::refresh() {
   fill_molar_table(root_table_, molar_root_table(r, spec_.thresholds, unit_));
   fill_molar_table(cres_table_, molar_cres_table(r));
   fill_molar_table(allowance_table_, molar_allowance_table(r, spec_.thresholds, unit_));
-  fill_molar_table(fe_table_, molar_fe_table(r, &spec_.thresholds));
+  fill_molar_table(fe_table_, molar_fe_table(r));
+  fill_molar_table(fe_area_table_, molar_fe_area_table(r, spec_.thresholds, spec_.movement, unit_));
   fe_title_->setVisible(r.has_finite_elements);
   fe_table_->setVisible(r.has_finite_elements);
+  fe_area_table_->setVisible(r.has_finite_elements);
   const QString name = QString::fromStdString(r.name);
   maps_->set_maps(molar_map_parts(result_.tooth, r.root_map), spec_.thresholds,
                   QStringLiteral("Root maps, %1: largest pressure per 30° by 1 mm cell "

@@ -65,6 +65,7 @@ class MolarWindow : public QMainWindow {
   QTableWidget* cres_table() const { return cres_table_; }
   QTableWidget* allowance_table() const { return allowance_table_; }
   QTableWidget* fe_table() const { return fe_table_; }
+  QTableWidget* fe_area_table() const { return fe_area_table_; }
   MolarRootMaps* root_maps() const { return maps_; }
   MolarScene* scene() const { return scene_.get(); }
   QLabel* caution_label() const { return caution_; }
@@ -98,6 +99,7 @@ class MolarWindow : public QMainWindow {
   QTableWidget* cres_table_ = nullptr;
   QTableWidget* allowance_table_ = nullptr;
   QTableWidget* fe_table_ = nullptr;
+  QTableWidget* fe_area_table_ = nullptr;
   QLabel* fe_title_ = nullptr;
   QLabel* caution_ = nullptr;
 };
