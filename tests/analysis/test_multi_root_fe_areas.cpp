@@ -1,7 +1,7 @@
 // Finite-element areas per root (root-side PDL surface, areas above the thresholds) and the
 // finite-element allowance of a multi-rooted case (analysis/multi_root_fe.h, multi_root_case.h),
 // on the mandibular first molar with 3 mm of horizontal loss, coarse sizes. One solve of about
-// 60 000 dofs, then one case run (its CRes and pressure solves).
+// 54 000 dofs, then one case run (its CRes and pressure solves).
 #include <gtest/gtest.h>
 
 #include <algorithm>
