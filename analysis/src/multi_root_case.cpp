@@ -519,8 +519,7 @@ std::string scenario_summary(const MultiRootCase& spec, const std::string& base_
       << base_unit << " (to " << capillary << " kPa: " << allowance_text(r.allowance_capillary)
       << " " << base_unit << ")\n";
   if (r.has_finite_elements)
-    txt << fe_summary(spec, base_unit, r.finite_elements)
-        << "  thin-layer estimate, per root:\n";
+    txt << fe_summary(spec, base_unit, r.finite_elements) << "  thin-layer estimate, per root:\n";
   for (const RootFigures& f : r.result.roots) {
     txt << "  " << std::left << std::setw(12) << f.name << " attached "
         << fixed(f.attachment_area_mm2, 0) << " mm^2, peak " << fixed(f.peak_compression_kpa, 1)
