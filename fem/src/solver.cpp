@@ -145,6 +145,11 @@ void configure(cholmod_common* common, Ordering ordering) {
   common->error_handler = nullptr;
   common->supernodal = CHOLMOD_SUPERNODAL;
   common->final_ll = 1;
+  // METIS reports running out of memory by raising SIGABRT and jumping back from the handler;
+  // on the thread that orders the next level ahead (or beside the assembly) that path crashed the
+  // program (batch_test_batch_out_of_memory). CHOLMOD's guard allocates and frees twice METIS's
+  // expected need first and reports CHOLMOD_OUT_OF_MEMORY itself when that fails.
+  common->metis_memory = 2.0;
   switch (ordering) {
     case Ordering::kAuto:
       common->nmethods = 0;
